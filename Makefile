@@ -1,0 +1,42 @@
+# Two commands do everything: `make lab` and `make test`. Both build the virtual
+# environment in .venv on first use (Python 3.11 or newer on PATH as python3).
+PYTHON ?= python3
+VENV := .venv
+BIN := $(VENV)/bin
+STAMP := $(VENV)/.installed
+ROOT_FLAG := $(if $(filter 0,$(shell id -u)),--allow-root,)
+PORT ?= 8888
+
+.PHONY: lab test lint bench sample clean-venv
+
+$(STAMP): pyproject.toml
+	$(PYTHON) -m venv $(VENV)
+	$(BIN)/python -m pip install --quiet --upgrade pip
+	$(BIN)/python -m pip install --quiet -e '.[lab,test]'
+	touch $(STAMP)
+
+lab: $(STAMP)
+	$(BIN)/jupyter lab $(ROOT_FLAG) --port=$(PORT) --ServerApp.root_dir=notebooks
+
+# pytest exits 5 when it collects no test: that is a failure here, not a pass.
+test: $(STAMP)
+	@$(BIN)/python -m pytest tests; code=$$?; \
+	  if [ $$code -eq 5 ]; then echo "make test: no tests were collected" >&2; exit 1; fi; \
+	  exit $$code
+	@$(BIN)/python -m pytest --nbval-lax notebooks; code=$$?; \
+	  if [ $$code -eq 5 ]; then echo "make test: no notebooks were collected" >&2; exit 1; fi; \
+	  exit $$code
+
+lint: $(STAMP)
+	$(BIN)/ruff check kitchen tests sample_data
+	$(BIN)/ruff format --check kitchen tests sample_data
+
+bench: $(STAMP)
+	$(BIN)/python tests/benchmarks/run.py
+
+sample: $(STAMP)
+	$(BIN)/python sample_data/make_clay_liner_series.py
+	$(BIN)/python sample_data/make_drainage_sand_series.py
+
+clean-venv:
+	rm -rf $(VENV)

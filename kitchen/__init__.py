@@ -1,0 +1,72 @@
+"""kitchen — laboratory hydraulic conductivity of compacted soils.
+
+The package reads a soil series (specimens, constant-head collections, falling-head
+readings), works out each specimen's as-molded state, reduces each test to a hydraulic
+conductivity corrected to a reference temperature, and relates conductivity to the
+compaction state across the series.
+
+The modules follow the data's path: :mod:`kitchen.units` and :mod:`kitchen.series` (load),
+:mod:`kitchen.specimen` (phase relations), :mod:`kitchen.water` (density, viscosity),
+:mod:`kitchen.constant_head` and :mod:`kitchen.falling_head` (test reductions, sharing
+:mod:`kitchen.fitting`), :mod:`kitchen.results` (the per-specimen results table), and the
+command line in :mod:`kitchen.cli`.
+
+Nomenclature
+------------
+Inside the package every quantity is SI; units are parsed once, at the file boundary.
+Temperature is the one exception: it is carried in degrees Celsius, as every standard
+states its reference temperature that way.
+
+======================  ==========  ==========  =========================================
+quantity                symbol      unit        column / argument name
+======================  ==========  ==========  =========================================
+specimen diameter       D           m           ``diameter``
+specimen height         L           m           ``height`` (length along the flow path)
+cross-section area      A           m²          ``area``
+specimen volume         V           m³          ``volume``
+dry mass of solids      Ms          kg          ``dry_mass``
+specific gravity        Gs          –           ``specific_gravity``
+water content           w           –           ``water_content`` (fraction, not percent)
+dry density             ρd          kg/m³       ``dry_density``
+void ratio              e           –           ``void_ratio``
+porosity                n           –           ``porosity``
+degree of saturation    S           –           ``saturation`` (fraction)
+standpipe area          a           m²          ``standpipe_area``
+head difference         h           m           ``head_difference``, ``head``
+flow volume             Q           m³          ``volume``
+time, duration          t           s           ``time``, ``duration``
+hydraulic gradient      i           –           ``gradient``
+Darcy velocity          v           m/s         ``darcy_velocity``
+hydraulic conductivity  k           m/s         ``k``; ``k20`` at the reference temperature
+temperature             T           °C          ``temperature``
+water viscosity         μ           Pa·s        ``viscosity``
+water density           ρw          kg/m³       ``water_density``
+======================  ==========  ==========  =========================================
+
+Cautions
+--------
+Laboratory conductivity of compacted clay is often 10 to 1000 times lower than the field
+value of the liner built from it. The criterion, method and reference temperature come
+from local codes and the project specification; the numbers support, and never replace,
+the judgement of the responsible licensed engineer.
+"""
+
+from importlib.metadata import PackageNotFoundError, version
+
+try:
+    __version__ = version("kitchen")
+except PackageNotFoundError:  # running from a source tree that is not installed
+    __version__ = "0.0.0+unknown"
+
+CAUTIONS = (
+    "Laboratory hydraulic conductivity can differ from the field value by orders of "
+    "magnitude: for compacted clay liners the field value is often 10 to 1000 times "
+    "higher (clods, desiccation cracks, lift interfaces; Daniel 1984; Benson, Daniel & "
+    "Boutwell 1999).",
+    "Rigid-wall permeameters can leak along the wall; air in the specimen lowers k; "
+    "high gradients can consolidate soft specimens or move fines.",
+    "The governing criterion, test method and reference temperature come from local codes "
+    "and the project specification. These numbers support, and never replace, the "
+    "judgement of the responsible licensed engineer.",
+)
+"""The cautions every report, notebook and exported memo item carries."""

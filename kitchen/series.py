@@ -1,0 +1,625 @@
+"""Read a soil series — a folder of CSV files or one workbook — into validated SI tables.
+
+A series holds ``specimens`` (one row per specimen) and at least one of
+``constant_head`` (one row per timed collection) and ``falling_head`` (one row per
+reading). Every problem in the input is collected, each naming the file, the row and the
+column, before the series is refused with a :class:`SeriesError`.
+
+Reading is split in two so that revisions can be applied in between:
+:func:`read_tables` returns the raw tables as written (numbers in the file's units), and
+:func:`build_series` validates them and converts them to SI. :func:`load_series` does both.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+import pandas as pd
+
+from .units import UnitError, split_header, to_si
+
+__all__ = [
+    "SCHEMAS",
+    "TABLE_NAMES",
+    "InputProblem",
+    "SeriesError",
+    "RawTable",
+    "Series",
+    "read_tables",
+    "build_series",
+    "load_series",
+]
+
+TABLE_NAMES = ("specimens", "constant_head", "falling_head")
+
+
+@dataclass(frozen=True)
+class ColumnSpec:
+    """What a column holds: its kind of quantity, and whether the table needs it."""
+
+    kind: str  # "id", "label", or a kind of kitchen.units.KINDS
+    required: bool = False
+
+
+SCHEMAS: dict[str, dict[str, ColumnSpec]] = {
+    "specimens": {
+        "specimen": ColumnSpec("id", True),
+        "diameter": ColumnSpec("length", True),
+        "height": ColumnSpec("length", True),
+        "dry_mass": ColumnSpec("mass"),
+        "mold_mass": ColumnSpec("mass"),
+        "mold_and_soil_mass": ColumnSpec("mass"),
+        "specific_gravity": ColumnSpec("dimensionless", True),
+        "water_content": ColumnSpec("ratio"),
+        "effort": ColumnSpec("label"),
+        "d10": ColumnSpec("length"),
+        "standpipe_diameter": ColumnSpec("length"),
+        "standpipe_area": ColumnSpec("area"),
+        "tailwater_standpipe_diameter": ColumnSpec("length"),
+        "tailwater_standpipe_area": ColumnSpec("area"),
+    },
+    "constant_head": {
+        "specimen": ColumnSpec("id", True),
+        "head_difference": ColumnSpec("length", True),
+        "duration": ColumnSpec("time", True),
+        "volume": ColumnSpec("volume"),
+        "outflow_mass": ColumnSpec("mass"),
+        "temperature": ColumnSpec("temperature"),
+        "flow_length": ColumnSpec("length"),
+    },
+    "falling_head": {
+        "specimen": ColumnSpec("id", True),
+        "time": ColumnSpec("time", True),
+        "head": ColumnSpec("length", True),
+        "temperature": ColumnSpec("temperature"),
+        "inflow_volume": ColumnSpec("volume"),
+        "outflow_volume": ColumnSpec("volume"),
+    },
+}
+"""Columns each table may carry, by internal name."""
+
+_TEXT_KINDS = ("id", "label")
+_POSITIVE = {
+    "specimens": (
+        "diameter",
+        "height",
+        "dry_mass",
+        "specific_gravity",
+        "d10",
+        "standpipe_diameter",
+        "standpipe_area",
+        "tailwater_standpipe_diameter",
+        "tailwater_standpipe_area",
+    ),
+    "constant_head": ("head_difference", "duration", "volume", "outflow_mass", "flow_length"),
+    "falling_head": ("head",),
+}
+_NON_NEGATIVE = {
+    "specimens": ("water_content", "mold_mass"),
+    "falling_head": ("time", "inflow_volume", "outflow_volume"),
+}
+HEAD_RISE_TOLERANCE = 0.002
+"""A falling-head reading may rise this much above the one before it (resolution). [m]"""
+
+
+@dataclass(frozen=True)
+class InputProblem:
+    """One problem in the input: where it is, and what was expected."""
+
+    file: str
+    row: int | None
+    column: str | None
+    message: str
+
+    def __str__(self) -> str:
+        where = [self.file]
+        if self.row is not None:
+            where.append(f"row {self.row}")
+        if self.column is not None:
+            where.append(f"column '{self.column}'")
+        return f"{', '.join(where)}: {self.message}"
+
+
+class SeriesError(ValueError):
+    """A series that cannot be used, with every problem found in it."""
+
+    def __init__(self, problems: list[InputProblem]):
+        self.problems = list(problems)
+        lines = [f"{len(self.problems)} problem(s) in the series:"]
+        lines += [f"  - {problem}" for problem in self.problems]
+        super().__init__("\n".join(lines))
+
+
+@dataclass
+class RawTable:
+    """A table as written: numbers in the file's units, one row per data line.
+
+    ``frame`` has the internal column names; ``units`` maps each to the unit text of its
+    header (``None`` for text columns); ``headers`` to the header as written;
+    ``source_row`` (a column of ``frame``) is the row number a person sees in the file or
+    sheet (the header is row 1).
+    """
+
+    name: str
+    file: str
+    frame: pd.DataFrame
+    units: dict[str, str | None] = field(default_factory=dict)
+    headers: dict[str, str] = field(default_factory=dict)
+
+    def copy(self) -> RawTable:
+        return RawTable(self.name, self.file, self.frame.copy(), dict(self.units), dict(self.headers))
+
+
+@dataclass(frozen=True)
+class Series:
+    """A validated soil series in SI units (see the nomenclature in :mod:`kitchen`)."""
+
+    name: str
+    source: Path
+    specimens: pd.DataFrame
+    constant_head: pd.DataFrame
+    falling_head: pd.DataFrame
+    input_files: tuple[Path, ...]
+    units: dict[str, dict[str, str | None]]
+
+    def specimen_ids(self) -> list[str]:
+        return list(self.specimens["specimen"])
+
+
+def _internal_name(header_name: str) -> str:
+    return "_".join(header_name.replace("-", " ").split())
+
+
+def _read_csv(path: Path, problems: list[InputProblem]) -> pd.DataFrame | None:
+    label = path.name
+    try:
+        header = pd.read_csv(path, nrows=0, encoding="utf-8-sig")
+    except UnicodeDecodeError:
+        problems.append(InputProblem(label, None, None, "is not UTF-8 text; save it as UTF-8 CSV"))
+        return None
+    except pd.errors.EmptyDataError:
+        problems.append(InputProblem(label, None, None, "is empty; expected a header row"))
+        return None
+    except (pd.errors.ParserError, OSError) as error:
+        problems.append(InputProblem(label, None, None, f"cannot be read as CSV ({error})"))
+        return None
+    text_columns = {}
+    for raw in header.columns:
+        try:
+            name = _internal_name(split_header(raw)[0])
+        except UnitError:
+            continue
+        if name in ("specimen", "effort"):
+            text_columns[raw] = str
+    try:
+        return pd.read_csv(
+            path, encoding="utf-8-sig", dtype=text_columns, skip_blank_lines=False
+        )
+    except (UnicodeDecodeError, pd.errors.ParserError, ValueError) as error:
+        problems.append(InputProblem(label, None, None, f"cannot be read as CSV ({error})"))
+        return None
+
+
+def _prepare(name: str, label: str, frame: pd.DataFrame, problems: list[InputProblem]):
+    """Map headers to internal names and units; collect header problems."""
+    schema = SCHEMAS[name]
+    units: dict[str, str | None] = {}
+    headers: dict[str, str] = {}
+    rename: dict[str, str] = {}
+    for raw in frame.columns:
+        raw_text = str(raw)
+        if raw_text.startswith("Unnamed:") and frame[raw].isna().all():
+            continue
+        try:
+            header_name, unit = split_header(raw_text)
+        except UnitError as error:
+            problems.append(InputProblem(label, 1, raw_text, str(error)))
+            continue
+        internal = _internal_name(header_name)
+        if internal not in schema:
+            continue  # extra columns (notes, operator) are carried by the file, not used
+        if internal in rename.values():
+            problems.append(InputProblem(label, 1, raw_text, f"column '{internal}' given twice"))
+            continue
+        spec = schema[internal]
+        if spec.kind in _TEXT_KINDS:
+            if unit:
+                problems.append(
+                    InputProblem(label, 1, raw_text, f"'{internal}' is text and takes no unit")
+                )
+        elif spec.kind == "dimensionless":
+            if unit not in (None, "", "-", "1"):
+                problems.append(
+                    InputProblem(label, 1, raw_text, f"'{internal}' is dimensionless; drop the unit")
+                )
+        elif not unit:
+            problems.append(
+                InputProblem(
+                    label,
+                    1,
+                    raw_text,
+                    f"'{internal}' has a dimension ({spec.kind}) but no unit; write it as "
+                    f"'{internal} [unit]', for example {_EXAMPLE_UNITS[spec.kind]}",
+                )
+            )
+            continue
+        else:
+            try:
+                to_si(1.0, unit, spec.kind)
+            except UnitError as error:
+                problems.append(InputProblem(label, 1, raw_text, str(error)))
+                continue
+        rename[raw] = internal
+        units[internal] = unit if spec.kind not in _TEXT_KINDS else None
+        headers[internal] = raw_text
+    for column, spec in schema.items():
+        if spec.required and column not in rename.values():
+            if column in [_internal_name(split_header(str(c))[0]) for c in frame.columns
+                          if _safe_header(c)]:
+                continue  # present but refused above; already reported
+            hint = ""
+            if len(frame.columns) == 1 and ";" in str(frame.columns[0]):
+                hint = " (the header has semicolons: save the file comma-separated)"
+            found = ", ".join(str(c) for c in frame.columns) or "none"
+            problems.append(
+                InputProblem(
+                    label, 1, column, f"required column missing{hint}; columns found: {found}"
+                )
+            )
+    kept = frame[list(rename)].rename(columns=rename)
+    source_row = pd.Series(np.arange(2, len(frame) + 2), index=frame.index)
+    blank = frame.isna().all(axis=1)
+    kept = kept.loc[~blank].copy()
+    kept["source_row"] = source_row[~blank].to_numpy()
+    return kept.reset_index(drop=True), units, headers
+
+
+def _safe_header(raw) -> bool:
+    try:
+        split_header(str(raw))
+    except UnitError:
+        return False
+    return True
+
+
+_EXAMPLE_UNITS = {
+    "length": "[mm], [cm], [in]",
+    "area": "[mm^2], [cm^2]",
+    "volume": "[mL], [cm^3]",
+    "mass": "[g], [kg]",
+    "time": "[s], [min], [h]",
+    "temperature": "[degC]",
+    "ratio": "[%] or [-]",
+}
+
+
+def read_tables(path: str | Path) -> tuple[dict[str, RawTable], tuple[Path, ...]]:
+    """Read a series folder or workbook as written, without converting units.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        A folder holding ``specimens.csv`` and one or both of ``constant_head.csv`` and
+        ``falling_head.csv``; or an ``.xlsx`` workbook with sheets of those names.
+
+    Returns
+    -------
+    tables : dict of str to RawTable
+        The tables found, by name.
+    input_files : tuple of pathlib.Path
+        The files read (for provenance hashes).
+
+    Raises
+    ------
+    SeriesError
+        When files, sheets or headers are missing or unreadable.
+    """
+    path = Path(path)
+    problems: list[InputProblem] = []
+    frames: dict[str, tuple[str, pd.DataFrame]] = {}
+    if path.is_dir():
+        files = []
+        for name in TABLE_NAMES:
+            file = path / f"{name}.csv"
+            if file.exists():
+                frame = _read_csv(file, problems)
+                files.append(file)
+                if frame is not None:
+                    frames[name] = (file.name, frame)
+        label_of = {name: f"{name}.csv" for name in TABLE_NAMES}
+        input_files = tuple(files)
+    elif path.suffix.lower() == ".xlsx" and path.exists():
+        try:
+            sheets = pd.read_excel(path, sheet_name=None, dtype=object)
+        except Exception as error:  # openpyxl raises many kinds for a damaged file
+            raise SeriesError([InputProblem(path.name, None, None, f"cannot be read ({error})")])
+        for name in TABLE_NAMES:
+            if name in sheets:
+                frame = sheets[name]
+                for column in frame.columns:
+                    if _safe_header(column) and _internal_name(
+                        split_header(str(column))[0]
+                    ) in ("specimen", "effort"):
+                        frame[column] = frame[column].map(_cell_text)
+                frames[name] = (f"{path.name} [{name}]", frame)
+        label_of = {name: f"{path.name} [{name}]" for name in TABLE_NAMES}
+        input_files = (path,)
+    else:
+        raise SeriesError(
+            [InputProblem(str(path), None, None, "not found: expected a series folder or .xlsx")]
+        )
+    if "specimens" not in frames and not any(p.file == label_of["specimens"] for p in problems):
+        problems.append(InputProblem(label_of["specimens"], None, None, "missing: every series needs it"))
+    if not ({"constant_head", "falling_head"} & set(frames)) and not problems:
+        problems.append(
+            InputProblem(
+                str(path.name),
+                None,
+                None,
+                "has no test data: expected constant_head.csv or falling_head.csv "
+                "(or sheets of those names)",
+            )
+        )
+    tables: dict[str, RawTable] = {}
+    for name, (label, frame) in frames.items():
+        kept, units, headers = _prepare(name, label, frame, problems)
+        tables[name] = RawTable(name, label, kept, units, headers)
+    if problems:
+        raise SeriesError(problems)
+    return tables, input_files
+
+
+def _cell_text(value):
+    if value is None or (isinstance(value, float) and np.isnan(value)):
+        return np.nan
+    if isinstance(value, float) and value.is_integer():
+        return str(int(value))
+    return str(value)
+
+
+def _numeric_column(table: RawTable, column: str, problems: list[InputProblem]) -> np.ndarray:
+    """The column as floats in SI; bad cells are reported and become NaN."""
+    values = table.frame[column]
+    if values.dtype.kind in "fiu":
+        numbers = values.to_numpy(dtype=float)
+    else:
+        numbers = pd.to_numeric(values, errors="coerce").to_numpy(dtype=float)
+        bad = np.flatnonzero(np.isnan(numbers) & values.notna().to_numpy())
+        rows = table.frame["source_row"].to_numpy()
+        for index in bad:
+            problems.append(
+                InputProblem(
+                    table.file,
+                    int(rows[index]),
+                    table.headers[column],
+                    f"expected a number, found {values.iloc[index]!r}",
+                )
+            )
+    kind = SCHEMAS[table.name][column].kind
+    unit = table.units.get(column)
+    if kind == "dimensionless" or not unit:
+        return numbers
+    return to_si(numbers, unit, kind)
+
+
+def _report(problems, table: RawTable, mask: np.ndarray, column: str, message: str, limit=20):
+    rows = table.frame["source_row"].to_numpy()[mask]
+    header = table.headers.get(column, column)
+    for row in rows[:limit]:
+        problems.append(InputProblem(table.file, int(row), header, message))
+    if len(rows) > limit:
+        problems.append(
+            InputProblem(table.file, None, header, f"{len(rows) - limit} more row(s): {message}")
+        )
+
+
+def _convert(table: RawTable, problems: list[InputProblem]) -> pd.DataFrame:
+    schema = SCHEMAS[table.name]
+    out = pd.DataFrame({"source_row": table.frame["source_row"].to_numpy()})
+    for column, spec in schema.items():
+        present = column in table.frame.columns
+        if spec.kind in _TEXT_KINDS:
+            if present:
+                text = table.frame[column].astype("string").str.strip()
+                out[column] = text.replace("", pd.NA)
+            else:
+                out[column] = pd.array([pd.NA] * len(out), dtype="string")
+            if spec.required:
+                _report(problems, table, out[column].isna().to_numpy(), column, "value missing")
+            continue
+        if not present:
+            out[column] = np.nan
+            continue
+        values = _numeric_column(table, column, problems)
+        out[column] = values
+        finite = np.isfinite(values)
+        if spec.required:
+            empty = table.frame[column].isna().to_numpy()
+            _report(problems, table, empty, column, "value missing; expected a number")
+        if column in _POSITIVE.get(table.name, ()):
+            _report(problems, table, finite & (values <= 0), column, "must be greater than zero")
+        if column in _NON_NEGATIVE.get(table.name, ()):
+            _report(problems, table, finite & (values < 0), column, "must not be negative")
+    return out
+
+
+def _check_specimens(
+    table: RawTable, frame: pd.DataFrame, problems: list[InputProblem]
+) -> pd.DataFrame:
+    ids = frame["specimen"]
+    duplicated = ids.duplicated(keep=False) & ids.notna()
+    _report(problems, table, duplicated.to_numpy(), "specimen", "specimen id given more than once")
+    has_dry = frame["dry_mass"].notna()
+    has_mold = frame["mold_mass"].notna() & frame["mold_and_soil_mass"].notna()
+    neither = ~has_dry & ~has_mold
+    _report(
+        problems,
+        table,
+        neither.to_numpy(),
+        "dry_mass",
+        "no dry mass: give dry_mass, or both mold_mass and mold_and_soil_mass",
+    )
+    by_mold = ~has_dry & has_mold
+    soil = frame["mold_and_soil_mass"] - frame["mold_mass"]
+    _report(
+        problems,
+        table,
+        (by_mold & (soil <= 0)).to_numpy(),
+        "mold_and_soil_mass",
+        "must be greater than mold_mass (the difference is the dry soil)",
+    )
+    frame.loc[by_mold, "dry_mass"] = soil[by_mold]
+    gs = frame["specific_gravity"]
+    _report(
+        problems,
+        table,
+        (gs.notna() & ((gs < 1.5) | (gs > 4.0))).to_numpy(),
+        "specific_gravity",
+        "expected a specific gravity of soil solids between 1.5 and 4.0 (typically 2.6-2.8)",
+    )
+    for prefix in ("", "tailwater_"):
+        diameter, area = f"{prefix}standpipe_diameter", f"{prefix}standpipe_area"
+        both = frame[diameter].notna() & frame[area].notna()
+        _report(problems, table, both.to_numpy(), area, f"give {diameter} or {area}, not both")
+        from_diameter = frame[area].isna() & frame[diameter].notna()
+        frame.loc[from_diameter, area] = np.pi * frame.loc[from_diameter, diameter] ** 2 / 4
+    return frame.drop(columns=["standpipe_diameter", "tailwater_standpipe_diameter"])
+
+
+def _check_readings(table: RawTable, frame: pd.DataFrame, known: set, problems):
+    unknown = frame["specimen"].notna() & ~frame["specimen"].isin(known)
+    if unknown.any():
+        names = ", ".join(sorted(set(frame.loc[unknown, "specimen"]))[:5])
+        _report(
+            problems,
+            table,
+            unknown.to_numpy(),
+            "specimen",
+            f"unknown specimen (not in specimens): {names}",
+        )
+    if table.name == "constant_head":
+        neither = frame["volume"].isna() & frame["outflow_mass"].isna()
+        both = frame["volume"].notna() & frame["outflow_mass"].notna()
+        _report(problems, table, neither.to_numpy(), "volume", "give volume or outflow_mass")
+        _report(problems, table, both.to_numpy(), "volume", "give volume or outflow_mass, not both")
+        return
+    ids = frame["specimen"].fillna("").to_numpy(dtype=object)
+    same = np.r_[False, ids[1:] == ids[:-1]]
+    time = frame["time"].to_numpy()
+    head = frame["head"].to_numpy()
+    step = np.r_[np.nan, np.diff(time)]
+    _report(
+        problems,
+        table,
+        same & (step <= 0),
+        "time",
+        "time does not increase from the reading before",
+    )
+    rise = np.r_[np.nan, np.diff(head)]
+    _report(
+        problems,
+        table,
+        same & (rise > HEAD_RISE_TOLERANCE),
+        "head",
+        f"head rises from the reading before by more than {HEAD_RISE_TOLERANCE * 1e3:g} mm "
+        "(in a falling-head test it only falls; was the standpipe refilled?)",
+    )
+    first_row = {}
+    rows = frame["source_row"].to_numpy()
+    for index in np.flatnonzero(~same):
+        specimen = ids[index]
+        if specimen in first_row:
+            problems.append(
+                InputProblem(
+                    table.file,
+                    int(rows[index]),
+                    table.headers["specimen"],
+                    f"readings of specimen {specimen} are split (they also start at row "
+                    f"{first_row[specimen]}); keep each specimen's readings together",
+                )
+            )
+        else:
+            first_row[specimen] = int(rows[index])
+
+
+def build_series(
+    tables: dict[str, RawTable], source: str | Path, input_files: tuple[Path, ...] = ()
+) -> Series:
+    """Validate raw tables and convert them to SI.
+
+    Parameters
+    ----------
+    tables : dict of str to RawTable
+        As returned by :func:`read_tables` (possibly with revisions applied).
+    source : str or pathlib.Path
+        The series folder or workbook, for its name.
+    input_files : tuple of pathlib.Path, optional
+        The files the tables came from.
+
+    Returns
+    -------
+    Series
+
+    Raises
+    ------
+    SeriesError
+        Listing every problem found (file, row, column, what was expected).
+    """
+    problems: list[InputProblem] = []
+    converted = {name: _convert(table, problems) for name, table in tables.items()}
+    specimens = _check_specimens(tables["specimens"], converted["specimens"], problems)
+    known = set(specimens["specimen"].dropna())
+    for name in ("constant_head", "falling_head"):
+        if name in converted:
+            _check_readings(tables[name], converted[name], known, problems)
+        else:
+            converted[name] = pd.DataFrame(
+                {column: pd.Series(dtype=float) for column in SCHEMAS[name]}
+                | {"specimen": pd.Series(dtype="string"), "source_row": pd.Series(dtype=int)}
+            )
+    if "falling_head" in tables:
+        tested = set(converted["falling_head"]["specimen"].dropna())
+        lacking = specimens["specimen"].isin(tested) & specimens["standpipe_area"].isna()
+        _report(
+            problems,
+            tables["specimens"],
+            lacking.to_numpy(),
+            "standpipe_area",
+            "specimen has falling-head readings but no standpipe_diameter or standpipe_area",
+        )
+    if problems:
+        raise SeriesError(problems)
+    source = Path(source)
+    units = {name: dict(table.units) for name, table in tables.items()}
+    return Series(
+        name=source.stem if source.suffix else source.name,
+        source=source,
+        specimens=specimens,
+        constant_head=converted["constant_head"],
+        falling_head=converted["falling_head"],
+        input_files=tuple(input_files),
+        units=units,
+    )
+
+
+def load_series(path: str | Path) -> Series:
+    """Read and validate a series folder or workbook.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        Series folder or ``.xlsx`` workbook.
+
+    Returns
+    -------
+    Series
+
+    Raises
+    ------
+    SeriesError
+        Listing every problem found.
+    """
+    tables, input_files = read_tables(path)
+    return build_series(tables, path, input_files)

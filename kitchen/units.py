@@ -1,0 +1,189 @@
+"""Units at the file boundary: bracketed column headers parsed with pint, values to SI.
+
+A column with a dimension carries its unit in brackets after its name, for example
+``height [mm]`` or ``temperature [degC]``. :func:`split_header` separates name and unit;
+:func:`to_si` converts a column of numbers to the package's internal unit for its kind.
+Nothing else in the package knows about units.
+
+Internal units (see the nomenclature in :mod:`kitchen`): metre, square metre, cubic
+metre, kilogram, second; temperature in degrees Celsius; ratios (water content,
+saturation) as fractions.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+from functools import lru_cache
+
+import numpy as np
+
+__all__ = [
+    "KINDS",
+    "UnitError",
+    "split_header",
+    "to_si",
+    "parse_value",
+    "format_header",
+]
+
+_HEADER = re.compile(r"^\s*(?P<name>[^\[\]]*?)\s*(?:\[(?P<unit>[^\[\]]*)\])?\s*$")
+
+KINDS: dict[str, tuple[str | None, str]] = {
+    # kind: (pint dimensionality, internal unit)
+    "length": ("[length]", "m"),
+    "area": ("[length] ** 2", "m**2"),
+    "volume": ("[length] ** 3", "m**3"),
+    "mass": ("[mass]", "kg"),
+    "time": ("[time]", "s"),
+    "temperature": ("[temperature]", "degC"),
+    "ratio": ("", "dimensionless"),
+    "dimensionless": ("", "dimensionless"),
+}
+"""Kinds of quantity a column may hold, with pint dimensionality and the internal unit."""
+
+_RATIO_WORDS = {"%": 0.01, "percent": 0.01, "-": 1.0, "1": 1.0, "fraction": 1.0}
+
+
+class UnitError(ValueError):
+    """A unit that is missing, unknown, or of the wrong dimension."""
+
+
+@lru_cache(maxsize=1)
+def _registry():
+    import pint
+
+    return pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+
+
+def split_header(header: str) -> tuple[str, str | None]:
+    """Split a column header into its name and its bracketed unit.
+
+    Parameters
+    ----------
+    header : str
+        A header such as ``"height [mm]"`` or ``"specimen"``.
+
+    Returns
+    -------
+    name, unit : tuple of str and (str or None)
+        The lower-case name, and the unit text inside the brackets (``None`` when the
+        header has no brackets; an empty string when the brackets are empty).
+
+    Examples
+    --------
+    >>> split_header("height [mm]")
+    ('height', 'mm')
+    >>> split_header("specimen")
+    ('specimen', None)
+    """
+    match = _HEADER.match(str(header))
+    if match is None:
+        raise UnitError(f"header {header!r} is not of the form 'name [unit]'")
+    unit = match.group("unit")
+    return match.group("name").strip().lower(), None if unit is None else unit.strip()
+
+
+def format_header(name: str, unit: str | None) -> str:
+    """Join a name and a unit into a header, the inverse of :func:`split_header`."""
+    return name if not unit else f"{name} [{unit}]"
+
+
+@lru_cache(maxsize=256)
+def _factor_offset(unit: str, kind: str) -> tuple[float, float]:
+    """Return (factor, offset) so that internal = factor * value + offset."""
+    if kind not in KINDS:
+        raise UnitError(f"unknown kind of quantity {kind!r}")
+    if kind in ("ratio", "dimensionless"):
+        word = unit.strip().lower()
+        if word in _RATIO_WORDS:
+            return _RATIO_WORDS[word], 0.0
+    registry = _registry()
+    text = unit.replace("°C", "degC").replace("°F", "degF").replace("°", "deg")
+    try:
+        parsed = registry.Unit(text)
+    except Exception as error:  # pint raises several types for text it cannot read
+        raise UnitError(f"unknown unit {unit!r}") from error
+    dimensionality, internal = KINDS[kind]
+    wanted = registry.Quantity(1.0, internal).dimensionality
+    if parsed.dimensionality != wanted:
+        want = dimensionality or "dimensionless"
+        raise UnitError(f"unit {unit!r} is not a {kind} (expected dimension {want})")
+    q0 = float(registry.Quantity(0.0, parsed).to(internal).magnitude)
+    if q0 == 0.0:
+        return float(registry.Quantity(1.0, parsed).to(internal).magnitude), 0.0
+    # An offset unit (degF, K): a span of 1000 keeps the factor's rounding small.
+    q1000 = float(registry.Quantity(1000.0, parsed).to(internal).magnitude)
+    return (q1000 - q0) / 1000.0, q0
+
+
+def to_si(values, unit: str, kind: str):
+    """Convert numbers in ``unit`` to the internal unit of ``kind``.
+
+    Parameters
+    ----------
+    values : float or array_like
+        Magnitudes in ``unit``.
+    unit : str
+        Unit text as written in a header, for example ``"mm"``, ``"in"``, ``"min"``,
+        ``"mL"``, ``"degC"``, ``"%"``.
+    kind : str
+        One of :data:`KINDS`.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        Values in the internal unit (m, m², m³, kg, s, °C, or a fraction).
+
+    Raises
+    ------
+    UnitError
+        When the unit is unknown or not of the dimension the kind needs.
+
+    Examples
+    --------
+    >>> float(to_si(25.4, "mm", "length"))
+    0.0254
+    >>> round(float(to_si(68.0, "degF", "temperature")), 9)
+    20.0
+    """
+    factor, offset = _factor_offset(unit, kind)
+    if np.isscalar(values):
+        return factor * float(values) + offset
+    return np.asarray(values, dtype=float) * factor + offset
+
+
+@dataclass(frozen=True)
+class ParsedValue:
+    """A value given with its unit, as typed by a person (``"4.95 in"``)."""
+
+    magnitude: float
+    unit: str
+    si: float
+
+
+def parse_value(text: str, kind: str) -> ParsedValue:
+    """Parse ``"<number> <unit>"`` typed by a person into its SI value.
+
+    Parameters
+    ----------
+    text : str
+        For example ``"4.95 in"``, ``"101.6 mm"``, ``"21.5 degC"``, ``"18 %"``. A bare number
+        is accepted only for dimensionless kinds.
+    kind : str
+        One of :data:`KINDS`.
+
+    Returns
+    -------
+    ParsedValue
+    """
+    match = re.match(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$", str(text))
+    if match is None:
+        raise UnitError(f"{text!r} is not a number followed by a unit")
+    magnitude = float(match.group(1))
+    unit = match.group(2)
+    if not unit:
+        if kind != "dimensionless":
+            raise UnitError(f"{text!r} has no unit; a {kind} needs one (for example mm, g, s)")
+        return ParsedValue(magnitude, "", magnitude)
+    return ParsedValue(magnitude, unit, to_si(magnitude, unit, kind))
