@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import warnings
 from collections.abc import Mapping
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 import pandas as pd
@@ -47,9 +47,14 @@ def _numbers(value, name: str) -> np.ndarray:
     return array
 
 
+def _show(value) -> str:
+    """repr of a value, numpy scalars as plain Python ones (1.5, not np.float64(1.5))."""
+    return repr(value.item() if isinstance(value, np.generic) else value)
+
+
 def _place(value, position: int) -> str:
     if isinstance(value, pd.Series):
-        return f"index {value.index[position]!r}"
+        return f"index {_show(value.index[position])}"
     return f"position {position}"
 
 
@@ -60,9 +65,9 @@ def _require(value, array: np.ndarray, ok, name: str, expected: str) -> None:
         return
     flat = np.ravel(array)
     if np.ndim(array) == 0:
-        raise ValueError(f"{name}: expected {expected}; got {flat[0]!r}")
+        raise ValueError(f"{name}: expected {expected}; got {_show(flat[0])}")
     bad = np.flatnonzero(~np.ravel(ok))
-    shown = ", ".join(f"{flat[i]!r} at {_place(value, int(i))}" for i in bad[:5])
+    shown = ", ".join(f"{_show(flat[i])} at {_place(value, int(i))}" for i in bad[:5])
     more = f" and {bad.size - 5} more" if bad.size > 5 else ""
     raise ValueError(f"{name}: expected {expected}; got {shown}{more}")
 
@@ -86,11 +91,11 @@ def _like(result, *inputs):
 
 def _row(table: pd.DataFrame, label) -> str:
     """Name a table row for a message: its file line and specimen when known."""
-    where = f"index {label!r}"
+    where = f"index {_show(label)}"
     if "source_row" in table.columns and pd.notna(table.at[label, "source_row"]):
         where = f"row {int(table.at[label, 'source_row'])}"
     if "specimen" in table.columns:
-        where += f" (specimen {table.at[label, 'specimen']!r})"
+        where += f" (specimen {_show(table.at[label, 'specimen'])})"
     return where
 
 
@@ -112,7 +117,9 @@ def _table_numbers(table: pd.DataFrame, column: str, allow_missing: bool) -> pd.
     if not allow_missing:
         bad |= values.isna()
     if bad.any():
-        rows = "; ".join(f"{_row(table, i)}: {table.at[i, column]!r}" for i in table.index[bad][:5])
+        rows = "; ".join(
+            f"{_row(table, i)}: {_show(table.at[i, column])}" for i in table.index[bad][:5]
+        )
         raise ValueError(f"column {column!r}: expected a finite number; {rows}")
     return values
 
@@ -417,7 +424,7 @@ def compaction_curves(table: pd.DataFrame, method="quadratic") -> dict:
         (rho, _plausible_dry_density(rho), "dry_density", _DRY_DENSITY_EXPECTED),
     ):
         if not ok.all():
-            rows = "; ".join(f"{_row(table, i)}: {values[i]!r}" for i in table.index[~ok][:5])
+            rows = "; ".join(f"{_row(table, i)}: {_show(values[i])}" for i in table.index[~ok][:5])
             raise ValueError(f"column {column!r}: expected {expected}; {rows}")
     effort = table["effort"]
     for missing, what in (
@@ -438,7 +445,7 @@ def compaction_curves(table: pd.DataFrame, method="quadratic") -> dict:
         points, distinct = int(rows.sum()), int(w[rows].nunique())
         if points < needed or distinct < needed:
             warnings.warn(
-                f"effort {name!r}: {points} specimen(s) at {distinct} distinct water "
+                f"effort {_show(name)}: {points} specimen(s) at {distinct} distinct water "
                 f"content(s); a {method} curve needs at least {needed} at {needed} distinct "
                 "water contents: no curve drawn",
                 stacklevel=2,
@@ -446,7 +453,7 @@ def compaction_curves(table: pd.DataFrame, method="quadratic") -> dict:
             continue
         curve = _fit_curve(w[rows].to_numpy(), rho[rows].to_numpy(), method)
         if curve.message:
-            warnings.warn(f"effort {name!r}: {curve.message}", stacklevel=2)
+            warnings.warn(f"effort {_show(name)}: {curve.message}", stacklevel=2)
         curves[name] = curve
     return curves
 
@@ -519,7 +526,7 @@ def line_of_optimums(curves: Mapping) -> LineOfOptimums:
     ----------
     Daniel, D. E. and Benson, C. H. (1990). Water content–density criteria for compacted
     soil liners. Journal of Geotechnical Engineering 116(12), 1811–1830 (line of
-    optimums on the compaction plane).
+    optimums on the compaction plane; pages from memory).
     """
     if not isinstance(curves, Mapping) or not curves:
         raise ValueError("curves: expected a non-empty mapping of effort to CompactionCurve")
@@ -527,18 +534,15 @@ def line_of_optimums(curves: Mapping) -> LineOfOptimums:
     for effort, curve in curves.items():
         if not isinstance(curve, CompactionCurve):
             raise ValueError(
-                f"curves[{effort!r}]: expected a CompactionCurve, got {type(curve).__name__}"
+                f"curves[{_show(effort)}]: expected a CompactionCurve, got {type(curve).__name__}"
             )
         if not curve.peak_found or not curve.peak_within_range:
             excluded.append((effort, curve.message))
             continue
         efforts.append(effort)
         points.append((curve.optimum_water_content, curve.maximum_dry_density))
-    w, rho = (
-        (np.array(column, dtype=float) for column in zip(*points, strict=True))
-        if points
-        else (np.array([]), np.array([]))
-    )
+    w = np.array([point[0] for point in points], dtype=float)
+    rho = np.array([point[1] for point in points], dtype=float)
     slope = intercept = fit = None
     message = ""
     if len(points) < 2:
@@ -643,7 +647,7 @@ def _flags(meets) -> np.ndarray:
             if not isinstance(item, bool | np.bool_):
                 raise ValueError(
                     "meets: expected True or False for each specimen (True where it meets "
-                    f"the criterion); got {item!r} at {_place(meets, i)}"
+                    f"the criterion); got {_show(item)} at {_place(meets, i)}"
                 )
     return raw.astype(bool)
 
@@ -682,7 +686,8 @@ def acceptable_zone(water_content, dry_density, meets) -> AcceptableZone:
     References
     ----------
     Daniel, D. E. and Benson, C. H. (1990). Water content–density criteria for compacted
-    soil liners. Journal of Geotechnical Engineering 116(12), 1811–1830.
+    soil liners. Journal of Geotechnical Engineering 116(12), 1811–1830 (pages from
+    memory).
     """
     w = _numbers(water_content, "water_content")
     rho = _numbers(dry_density, "dry_density")
@@ -727,13 +732,11 @@ def acceptable_zone(water_content, dry_density, meets) -> AcceptableZone:
         (x.index for x in (water_content, dry_density, meets) if isinstance(x, pd.Series)),
         range(w.size),
     )
-    outside_ok = tuple(labels[i] for i in np.flatnonzero(inside))
-    if outside_ok:
+    failing_inside = tuple(labels[int(i)] for i in np.flatnonzero(inside))
+    if failing_inside:
         caution = (
-            f"{len(outside_ok)} specimen(s) that do not meet the criterion lie inside the "
+            f"{len(failing_inside)} specimen(s) that do not meet the criterion lie inside the "
             "zone: the hull outlines the meeting specimens, it does not exclude the others"
         )
         message = f"{message}; {caution}" if message else caution
-    return AcceptableZone(
-        kind, vertices, _ZONE_METHOD, zone.n_meeting, zone.n_not_meeting, outside_ok, message, scale
-    )
+    return replace(zone, not_meeting_inside=failing_inside, message=message)

@@ -2,24 +2,71 @@
 
 Every file the tool writes goes to a temporary file in the same folder, is flushed to
 disk, and is renamed over the target, so a crash or a full disk part-way leaves the
-previous file whole. Raw data files are never written.
+previous file whole. The one file that grows instead, a series' revision log, is
+appended one whole line per write (:func:`append_line`). Raw data files are never
+written.
 """
 
 from __future__ import annotations
 
+import contextlib
+import errno
 import os
 import tempfile
 from pathlib import Path
 
 import pandas as pd
 
-__all__ = ["atomic_write_bytes", "atomic_write_text", "spreadsheet_safe", "write_csv"]
+__all__ = [
+    "atomic_write_bytes",
+    "atomic_write_text",
+    "append_line",
+    "folder_lock",
+    "spreadsheet_safe",
+    "write_csv",
+]
 
 _FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
+_BINARY = getattr(os, "O_BINARY", 0)  # Windows: no newline translation
+
+
+def _sync_folder(folder: Path) -> None:
+    """Flush a folder's entries (a rename, a new file) to disk where the system allows it."""
+    if os.name != "posix":
+        return
+    try:
+        handle = os.open(folder, os.O_RDONLY)
+    except OSError:
+        return
+    try:
+        os.fsync(handle)
+    except OSError:
+        pass  # some file systems refuse fsync on a folder; the rename is still atomic
+    finally:
+        os.close(handle)
 
 
 def atomic_write_bytes(path: str | Path, data: bytes) -> Path:
-    """Write ``data`` to ``path`` through a temporary file and an atomic rename."""
+    """Write ``data`` to ``path`` through a temporary file and an atomic rename.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        The file to write; its folder is created when missing.
+    data : bytes
+        The whole content.
+
+    Returns
+    -------
+    pathlib.Path
+        ``path``.
+
+    Notes
+    -----
+    The temporary file sits in the target's folder (a rename is atomic only within one
+    file system), is flushed with ``fsync`` before the rename, and is removed if anything
+    fails; the previous file, if any, is then left as it was.
+    """
     path = Path(path)
     path.parent.mkdir(parents=True, exist_ok=True)
     handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=path.parent)
@@ -32,12 +79,128 @@ def atomic_write_bytes(path: str | Path, data: bytes) -> Path:
     except BaseException:
         Path(temporary).unlink(missing_ok=True)
         raise
+    _sync_folder(path.parent)
     return path
 
 
 def atomic_write_text(path: str | Path, text: str) -> Path:
     """Write UTF-8 text to ``path`` atomically (see :func:`atomic_write_bytes`)."""
     return atomic_write_bytes(path, text.encode("utf-8"))
+
+
+def _create_with(path: Path, header: bytes) -> None:
+    """Create ``path`` holding ``header``, unless it exists; never a moment without it."""
+    handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=path.parent)
+    try:
+        with os.fdopen(handle, "wb") as stream:
+            stream.write(header)
+            stream.flush()
+            os.fsync(stream.fileno())
+        try:
+            os.link(temporary, path)  # fails if another process created it first
+        except FileExistsError:
+            pass
+        except OSError:  # a file system without hard links: exclusive create instead
+            try:
+                target = os.open(path, os.O_WRONLY | os.O_CREAT | os.O_EXCL | _BINARY, 0o644)
+            except FileExistsError:
+                return
+            try:
+                _write_all_at_once(target, header, path)
+                os.fsync(target)
+            finally:
+                os.close(target)
+    finally:
+        Path(temporary).unlink(missing_ok=True)
+    _sync_folder(path.parent)
+
+
+def _write_all_at_once(handle: int, data: bytes, path: Path) -> None:
+    written = os.write(handle, data)
+    if written != len(data):
+        raise OSError(
+            errno.ENOSPC,
+            f"{path}: only {written} of {len(data)} bytes were written (is the disk full?); "
+            "the file's last line is incomplete",
+        )
+
+
+def append_line(path: str | Path, line: bytes, header: bytes = b"") -> Path:
+    """Append one line to a file in a single write, then flush it to disk.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        The file to append to.
+    line : bytes
+        The encoded line; a final ``b"\\n"`` is added when missing.
+    header : bytes, optional
+        What a new file starts with (a CSV header line). When the file does not exist it
+        is created holding the header, written to a temporary file and linked into place,
+        so no reader or appender ever sees the file without it.
+
+    Returns
+    -------
+    pathlib.Path
+        ``path``.
+
+    Raises
+    ------
+    OSError
+        When the system takes only part of the line (a full disk): the message says the
+        file's last line is incomplete.
+
+    Notes
+    -----
+    The file is opened with ``O_APPEND`` and the whole line goes in one ``os.write``: on
+    POSIX systems each write then lands whole at the end of the file, so several
+    processes appending at once never lose or interleave a line. If the file does not end
+    with a newline (an earlier write was cut short), the line starts with one, so a torn
+    line never swallows the next.
+    """
+    path = Path(path)
+    data = line if line.endswith(b"\n") else line + b"\n"
+    flags = os.O_WRONLY | os.O_APPEND | _BINARY
+    if header and not path.exists():
+        _create_with(path, header)
+    elif not header:
+        flags |= os.O_CREAT
+    handle = os.open(path, flags, 0o644)
+    try:
+        if os.fstat(handle).st_size and not _ends_with_newline(path):
+            data = b"\n" + data
+        _write_all_at_once(handle, data, path)
+        os.fsync(handle)
+    finally:
+        os.close(handle)
+    return path
+
+
+def _ends_with_newline(path: Path) -> bool:
+    with open(path, "rb") as stream:
+        stream.seek(-1, os.SEEK_END)
+        return stream.read(1) == b"\n"
+
+
+@contextlib.contextmanager
+def folder_lock(folder: str | Path):
+    """Hold an exclusive advisory lock on a folder while the block runs.
+
+    Used to make read–check–append on a series' revision log one step, so two people
+    revising the same value at once are taken in turn. Where the system has no
+    ``fcntl.flock`` (Windows) the block runs unlocked; appends stay whole either way.
+    """
+    try:
+        import fcntl
+    except ImportError:  # not POSIX
+        yield
+        return
+    handle = os.open(folder, os.O_RDONLY)
+    try:
+        fcntl.flock(handle, fcntl.LOCK_EX)
+        yield
+    finally:
+        os.close(handle)  # closing the descriptor releases the lock
 
 
 def spreadsheet_safe(frame: pd.DataFrame) -> pd.DataFrame:

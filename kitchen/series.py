@@ -147,9 +147,17 @@ class RawTable:
     frame: pd.DataFrame
     units: dict[str, str | None] = field(default_factory=dict)
     headers: dict[str, str] = field(default_factory=dict)
+    problems: list[InputProblem] = field(default_factory=list)
 
     def copy(self) -> RawTable:
-        return RawTable(self.name, self.file, self.frame.copy(), dict(self.units), dict(self.headers))
+        return RawTable(
+            self.name,
+            self.file,
+            self.frame.copy(),
+            dict(self.units),
+            dict(self.headers),
+            list(self.problems),
+        )
 
 
 @dataclass(frozen=True)
@@ -194,9 +202,7 @@ def _read_csv(path: Path, problems: list[InputProblem]) -> pd.DataFrame | None:
         if name in ("specimen", "effort"):
             text_columns[raw] = str
     try:
-        return pd.read_csv(
-            path, encoding="utf-8-sig", dtype=text_columns, skip_blank_lines=False
-        )
+        return pd.read_csv(path, encoding="utf-8-sig", dtype=text_columns, skip_blank_lines=False)
     except (UnicodeDecodeError, pd.errors.ParserError, ValueError) as error:
         problems.append(InputProblem(label, None, None, f"cannot be read as CSV ({error})"))
         return None
@@ -232,7 +238,9 @@ def _prepare(name: str, label: str, frame: pd.DataFrame, problems: list[InputPro
         elif spec.kind == "dimensionless":
             if unit not in (None, "", "-", "1"):
                 problems.append(
-                    InputProblem(label, 1, raw_text, f"'{internal}' is dimensionless; drop the unit")
+                    InputProblem(
+                        label, 1, raw_text, f"'{internal}' is dimensionless; drop the unit"
+                    )
                 )
         elif not unit:
             problems.append(
@@ -256,8 +264,9 @@ def _prepare(name: str, label: str, frame: pd.DataFrame, problems: list[InputPro
         headers[internal] = raw_text
     for column, spec in schema.items():
         if spec.required and column not in rename.values():
-            if column in [_internal_name(split_header(str(c))[0]) for c in frame.columns
-                          if _safe_header(c)]:
+            if column in [
+                _internal_name(split_header(str(c))[0]) for c in frame.columns if _safe_header(c)
+            ]:
                 continue  # present but refused above; already reported
             hint = ""
             if len(frame.columns) == 1 and ";" in str(frame.columns[0]):
@@ -314,7 +323,9 @@ def read_tables(path: str | Path) -> tuple[dict[str, RawTable], tuple[Path, ...]
     Raises
     ------
     SeriesError
-        When files, sheets or headers are missing or unreadable.
+        When files or sheets are missing or unreadable. Problems with headers (a missing
+        column, a missing or unknown unit) are kept in each table's ``problems`` and
+        reported by :func:`build_series` together with the problems in the values.
     """
     path = Path(path)
     problems: list[InputProblem] = []
@@ -334,14 +345,16 @@ def read_tables(path: str | Path) -> tuple[dict[str, RawTable], tuple[Path, ...]
         try:
             sheets = pd.read_excel(path, sheet_name=None, dtype=object)
         except Exception as error:  # openpyxl raises many kinds for a damaged file
-            raise SeriesError([InputProblem(path.name, None, None, f"cannot be read ({error})")])
+            problem = InputProblem(path.name, None, None, f"cannot be read ({error})")
+            raise SeriesError([problem]) from error
         for name in TABLE_NAMES:
             if name in sheets:
                 frame = sheets[name]
                 for column in frame.columns:
-                    if _safe_header(column) and _internal_name(
-                        split_header(str(column))[0]
-                    ) in ("specimen", "effort"):
+                    if _safe_header(column) and _internal_name(split_header(str(column))[0]) in (
+                        "specimen",
+                        "effort",
+                    ):
                         frame[column] = frame[column].map(_cell_text)
                 frames[name] = (f"{path.name} [{name}]", frame)
         label_of = {name: f"{path.name} [{name}]" for name in TABLE_NAMES}
@@ -351,7 +364,9 @@ def read_tables(path: str | Path) -> tuple[dict[str, RawTable], tuple[Path, ...]
             [InputProblem(str(path), None, None, "not found: expected a series folder or .xlsx")]
         )
     if "specimens" not in frames and not any(p.file == label_of["specimens"] for p in problems):
-        problems.append(InputProblem(label_of["specimens"], None, None, "missing: every series needs it"))
+        problems.append(
+            InputProblem(label_of["specimens"], None, None, "missing: every series needs it")
+        )
     if not ({"constant_head", "falling_head"} & set(frames)) and not problems:
         problems.append(
             InputProblem(
@@ -362,12 +377,13 @@ def read_tables(path: str | Path) -> tuple[dict[str, RawTable], tuple[Path, ...]
                 "(or sheets of those names)",
             )
         )
-    tables: dict[str, RawTable] = {}
-    for name, (label, frame) in frames.items():
-        kept, units, headers = _prepare(name, label, frame, problems)
-        tables[name] = RawTable(name, label, kept, units, headers)
     if problems:
         raise SeriesError(problems)
+    tables: dict[str, RawTable] = {}
+    for name, (label, frame) in frames.items():
+        header_problems: list[InputProblem] = []
+        kept, units, headers = _prepare(name, label, frame, header_problems)
+        tables[name] = RawTable(name, label, kept, units, headers, header_problems)
     return tables, input_files
 
 
@@ -426,7 +442,7 @@ def _convert(table: RawTable, problems: list[InputProblem]) -> pd.DataFrame:
                 out[column] = text.replace("", pd.NA)
             else:
                 out[column] = pd.array([pd.NA] * len(out), dtype="string")
-            if spec.required:
+            if spec.required and present:
                 _report(problems, table, out[column].isna().to_numpy(), column, "value missing")
             continue
         if not present:
@@ -567,7 +583,7 @@ def build_series(
     SeriesError
         Listing every problem found (file, row, column, what was expected).
     """
-    problems: list[InputProblem] = []
+    problems: list[InputProblem] = [p for table in tables.values() for p in table.problems]
     converted = {name: _convert(table, problems) for name, table in tables.items()}
     specimens = _check_specimens(tables["specimens"], converted["specimens"], problems)
     known = set(specimens["specimen"].dropna())

@@ -21,6 +21,7 @@ from kitchen.compaction import (
     _require_columns,
     _row,
     _same_length,
+    _show,
     _table_numbers,
 )
 from kitchen.fitting import LinearFit, fit_line
@@ -142,7 +143,7 @@ def _trend_inputs(x, k, x_name: str, confidence):
         )
     if np.ptp(values) == 0:
         raise ValueError(
-            f"{x_name}: all specimens share one value ({values[0]!r}); no trend to fit"
+            f"{x_name}: all specimens share one value ({_show(values[0])}); no trend to fit"
         )
     return values, log_k, level
 
@@ -175,7 +176,8 @@ def fit_log_conductivity(x, k, x_name: str, confidence=0.95) -> ConductivityTren
     References
     ----------
     Mitchell, J. K., Hooper, D. R. and Campanella, R. G. (1965). Permeability of compacted
-    clay. Journal of the Soil Mechanics and Foundations Division 91(SM4), 41–65.
+    clay. Journal of the Soil Mechanics and Foundations Division 91(SM4), 41–65 (pages
+    from memory).
     """
     values, log_k, level = _trend_inputs(x, k, x_name, confidence)
     fit = fit_line(values, log_k, confidence=level)
@@ -213,7 +215,7 @@ def fit_log_conductivity_void_ratio(
     ----------
     Tavenas, F., Jean, P., Leblond, P. and Leroueil, S. (1983). The permeability of natural
     soft clays. Part II: Permeability characteristics. Canadian Geotechnical Journal 20(4),
-    645–660.
+    645–660 (title and pages from memory).
     """
     e, log_k, level = _trend_inputs(void_ratio, k, "void_ratio", confidence)
     _require(void_ratio, e, e > 0, "void_ratio", "a positive void ratio")
@@ -223,7 +225,8 @@ def fit_log_conductivity_void_ratio(
         given = _numbers(initial_void_ratio, "initial_void_ratio")
         if given.ndim != 0 or not given > 0:
             raise ValueError(
-                f"initial_void_ratio: expected one positive void ratio; got {initial_void_ratio!r}"
+                "initial_void_ratio: expected one positive void ratio; "
+                f"got {_show(initial_void_ratio)}"
             )
         e0 = float(given)
     fit = fit_line(e, log_k, confidence=level)
@@ -340,7 +343,14 @@ def classify_against_criterion(k, k_low, k_high, maximum):
     -----
     The criterion is an input: 1×10⁻⁹ m/s is common for compacted clay liners (US 40 CFR
     258.40; EU Directive 1999/31/EC, Annex I), but the governing value comes from local
-    codes and the project specification.
+    codes and the project specification. An interval that straddles the criterion is
+    reported as such rather than decided on the central value (the tool's own rule).
+
+    References
+    ----------
+    US 40 CFR 258.40 (design criteria for municipal solid waste landfills: compacted soil
+    liner of k ≤ 1×10⁻⁷ cm/s); Council Directive 1999/31/EC on the landfill of waste,
+    Annex I (geological barrier k ≤ 1×10⁻⁹ m/s).
     """
     values = _conductivity(k, "k")
     low, high = _conductivity(k_low, "k_low"), _conductivity(k_high, "k_high")
@@ -351,8 +361,7 @@ def classify_against_criterion(k, k_low, k_high, maximum):
     _require(k_low, low, low <= values, "k_low", "the low end of the interval, k_low ≤ k")
     _require(k_high, high, high >= values, "k_high", "the high end of the interval, k_high ≥ k")
     verdict = np.where(high <= limit, MEETS, np.where(low > limit, DOES_NOT_MEET, NOT_CONCLUSIVE))
-    result = _like(verdict.astype(object), k, k_low, k_high)
-    return result
+    return _like(verdict.astype(object), k, k_low, k_high)
 
 
 # --- predictions from grading ----------------------------------------------------------------
@@ -435,7 +444,8 @@ def hazen_conductivity(d10, coefficient=100.0) -> GradingPrediction:
     c = _numbers(coefficient, "coefficient")
     if c.ndim != 0 or not c > 0:
         raise ValueError(
-            f"coefficient: expected one positive Hazen coefficient (about 100); got {coefficient!r}"
+            "coefficient: expected one positive Hazen coefficient (about 100); "
+            f"got {_show(coefficient)}"
         )
     k = 100.0 * float(c) * values**2
     inside = (values >= _HAZEN_D10_RANGE[0]) & (values <= _HAZEN_D10_RANGE[1])
@@ -556,7 +566,7 @@ def grading_predictions(table: pd.DataFrame) -> pd.DataFrame:
     ):
         bad = values <= 0
         if bad.any():
-            rows = "; ".join(f"{_row(table, i)}: {values[i]!r}" for i in table.index[bad][:5])
+            rows = "; ".join(f"{_row(table, i)}: {_show(values[i])}" for i in table.index[bad][:5])
             raise ValueError(f"column {column!r}: expected {expected}; {rows}")
     hazen_k = pd.Series(np.nan, index=table.index)
     chapuis_k = pd.Series(np.nan, index=table.index)

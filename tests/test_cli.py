@@ -28,8 +28,14 @@ def test_report_writes_results(tmp_path):
 
 def test_report_options(tmp_path):
     done = run(
-        "report", SAMPLES / "drainage_sand", "--out", tmp_path,
-        "--reference-temperature", "10", "--viscosity", "d5084",
+        "report",
+        SAMPLES / "drainage_sand",
+        "--out",
+        tmp_path,
+        "--reference-temperature",
+        "10",
+        "--viscosity",
+        "d5084",
     )
     assert done.returncode == 0, done.stderr
     assert "k10 [m/s]" in pd.read_csv(tmp_path / "results.csv").columns

@@ -47,8 +47,13 @@ def _record(k20=2.0e-9, n=40, temperature=None, noise=0.0, seed=1, tailwater_are
     head = head + np.random.default_rng(seed).normal(0.0, noise, n)
     readings = pd.DataFrame({"time": time, "head": head, "temperature": temps})
     specimen = pd.Series(
-        {"specimen": "C1", "area": area, "height": length, "standpipe_area": standpipe,
-         "tailwater_standpipe_area": tailwater_area}
+        {
+            "specimen": "C1",
+            "area": area,
+            "height": length,
+            "standpipe_area": standpipe,
+            "tailwater_standpipe_area": tailwater_area,
+        }
     )
     return readings, specimen
 

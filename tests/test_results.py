@@ -87,9 +87,20 @@ def test_reference_temperature_is_a_setting():
 def test_results_table_columns(clay):
     table = results_table(clay)
     for column in [
-        "specimen", "method", "dry_density [Mg/m3]", "void_ratio", "porosity",
-        "saturation [%]", "gradient", "temperature [degC]", "k [m/s]", "k20 [m/s]",
-        "k20_low [m/s]", "k20_high [m/s]", "valid", "checks",
+        "specimen",
+        "method",
+        "dry_density [Mg/m3]",
+        "void_ratio",
+        "porosity",
+        "saturation [%]",
+        "gradient",
+        "temperature [degC]",
+        "k [m/s]",
+        "k20 [m/s]",
+        "k20_low [m/s]",
+        "k20_high [m/s]",
+        "valid",
+        "checks",
     ]:
         assert column in table.columns
     assert table["dry_density [Mg/m3]"].between(1.4, 2.1).all()

@@ -37,9 +37,7 @@ def test_zero_air_voids_check_value():
     assert degree_of_saturation(0.20, 2.70, void_ratio(rho_d, 2.70)) == pytest.approx(1.0)
 
 
-@given(
-    st.floats(0.5, 2.5), st.floats(0.03, 0.3), st.floats(0.03, 0.3), st.floats(2.5, 2.9)
-)
+@given(st.floats(0.5, 2.5), st.floats(0.03, 0.3), st.floats(0.03, 0.3), st.floats(2.5, 2.9))
 def test_dry_density_scales_inversely_with_height(mass, diameter, height, gs):
     base = dry_density(mass, diameter, height)
     assert dry_density(mass, diameter, 2 * height) == pytest.approx(base / 2)
@@ -73,5 +71,8 @@ def test_specimen_state_adds_columns_without_mutating():
 
 def test_specimen_state_names_missing_columns():
     with pytest.raises(KeyError, match="dry_mass"):
-        specimen_state(pd.DataFrame({"specimen": ["S1"], "diameter": [0.1], "height": [0.1],
-                                     "specific_gravity": [2.7]}))
+        specimen_state(
+            pd.DataFrame(
+                {"specimen": ["S1"], "diameter": [0.1], "height": [0.1], "specific_gravity": [2.7]}
+            )
+        )

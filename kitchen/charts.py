@@ -1,0 +1,855 @@
+"""Figures for the series memo: plain plotly figures, drawn the same way in notebook and print.
+
+Every builder returns a new :class:`plotly.graph_objects.Figure` and leaves its inputs
+alone. Axis titles carry their units; the conductivity unit (m/s, cm/s) and the density
+unit (Mg/m³, kN/m³, lb/ft³) are options. The look is the memo style of this package: a
+serif face, a dark ink, and three verdict colours that are never the only cue — compactive
+effort is told by marker shape and line dash, the verdict by marker fill (filled: meets,
+open: does not meet, open with a dot: not conclusive), so a chart still reads in
+greyscale print.
+"""
+
+from __future__ import annotations
+
+import textwrap
+from dataclasses import replace
+
+import numpy as np
+import pandas as pd
+import plotly.graph_objects as go
+from plotly.subplots import make_subplots
+
+from .display_units import DisplayUnit, density_unit, k_unit, scientific
+from .series_analysis import SATURATION_LINES, VERDICTS, SeriesAnalysis
+from .trends import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE
+
+__all__ = [
+    "MAX_TRACE_POINTS",
+    "memo_template",
+    "decimation_indices",
+    "add_caption",
+    "compaction_conductivity_figure",
+    "conductivity_trend_figure",
+    "falling_head_figure",
+    "constant_head_figure",
+]
+
+MAX_TRACE_POINTS = 10_000
+"""No trace carries more points than this; longer records are decimated."""
+
+FONT = "'DejaVu Serif', 'Liberation Serif', Georgia, serif"
+INK = "#1d2731"
+MUTED = "#69737d"
+GRID = "#e4e7ea"
+ZONE = "#2e6b57"
+VERDICT_COLOURS = {MEETS: "#2e6b57", DOES_NOT_MEET: "#a33b20", NOT_CONCLUSIVE: "#a87a12"}
+VERDICT_FILL = {MEETS: "", DOES_NOT_MEET: "-open", NOT_CONCLUSIVE: "-open-dot"}
+EFFORT_SYMBOLS = ("circle", "square", "diamond", "triangle-up", "triangle-down", "pentagon")
+EFFORT_DASHES = ("solid", "dash", "dot", "dashdot", "longdash", "longdashdot")
+SATURATION_DASHES = {1.0: "solid", 0.9: "dash", 0.8: "dot"}
+NO_EFFORT = "no effort given"
+WIDTH, HEIGHT = 980, 620
+
+
+def memo_template() -> go.layout.Template:
+    """The memo style as a plotly template (not registered globally)."""
+    axis = dict(
+        showline=True,
+        linecolor=INK,
+        linewidth=1,
+        mirror=True,
+        ticks="outside",
+        tickcolor=INK,
+        gridcolor=GRID,
+        zeroline=False,
+        title_standoff=8,
+    )
+    return go.layout.Template(
+        layout=dict(
+            font=dict(family=FONT, size=13, color=INK),
+            paper_bgcolor="white",
+            plot_bgcolor="white",
+            xaxis=axis,
+            yaxis=axis,
+            legend=dict(
+                bgcolor="rgba(255,255,255,0.9)",
+                bordercolor=GRID,
+                borderwidth=1,
+                font=dict(size=11),
+                groupclick="toggleitem",
+                tracegroupgap=6,
+            ),
+            title=dict(x=0.0, xanchor="left", xref="paper", font=dict(size=16)),
+            hoverlabel=dict(font=dict(family=FONT)),
+            margin=dict(l=80, r=20, t=80, b=70),
+            width=WIDTH,
+            height=HEIGHT,
+        )
+    )
+
+
+def decimation_indices(values, max_points: int = MAX_TRACE_POINTS) -> np.ndarray:
+    """Indices of the points to draw so a trace keeps at most `max_points` points.
+
+    Parameters
+    ----------
+    values : array_like
+        The values the shape of the trace depends on (the y of a time record).
+    max_points : int, default MAX_TRACE_POINTS
+        Largest number of indices returned, at least 4.
+
+    Returns
+    -------
+    numpy.ndarray of int
+        Sorted indices: all of them when there are at most `max_points` values; otherwise
+        the first and last, and the smallest and the largest value of each of
+        ``(max_points - 2) // 2`` equal buckets, so every peak and trough survives.
+
+    Notes
+    -----
+    Min–max decimation per bucket is common practice for plotting long records (no
+    source). NaN values are never chosen unless a whole bucket is NaN.
+    """
+    if not isinstance(max_points, int | np.integer) or max_points < 4:
+        raise ValueError(f"max_points: expected an integer of at least 4, got {max_points!r}")
+    y = np.asarray(values, dtype=float).ravel()
+    n = y.size
+    if n <= max_points:
+        return np.arange(n)
+    buckets = (max_points - 2) // 2
+    size = -(-n // buckets)
+    buckets = -(-n // size)
+    low = np.full(buckets * size, np.inf)
+    high = np.full(buckets * size, -np.inf)
+    finite = np.where(np.isnan(y), np.inf, y)
+    low[:n] = finite
+    high[:n] = np.where(np.isnan(y), -np.inf, y)
+    start = np.arange(buckets) * size
+    lows = start + np.argmin(low.reshape(buckets, size), axis=1)
+    highs = start + np.argmax(high.reshape(buckets, size), axis=1)
+    chosen = np.unique(np.concatenate(([0, n - 1], lows, highs)))
+    return chosen[chosen < n]
+
+
+def add_caption(figure: go.Figure, lines, width: int = 160) -> go.Figure:
+    """A copy of `figure` with `lines` of small text below the plot (cautions, provenance)."""
+    out = go.Figure(figure)
+    wrapped = []
+    for line in lines:
+        wrapped.extend(textwrap.wrap(str(line), width) or [""])
+    margin = out.layout.margin.b if out.layout.margin.b is not None else 70
+    height = out.layout.height or HEIGHT
+    extra = 14 * len(wrapped) + 16
+    out.add_annotation(
+        text="<br>".join(wrapped),
+        xref="paper",
+        yref="paper",
+        x=0.0,
+        y=0.0,
+        xanchor="left",
+        yanchor="top",
+        yshift=-(margin - 8),
+        align="left",
+        showarrow=False,
+        font=dict(size=10, color=MUTED),
+    )
+    out.update_layout(margin=dict(b=margin + extra), height=height + extra)
+    return out
+
+
+# --- shared pieces ---------------------------------------------------------------------------
+
+
+def _k_title(unit: DisplayUnit, reference_temperature: float) -> str:
+    label = f"k{reference_temperature:g}".replace(".", "_")
+    return f"hydraulic conductivity {label} at {reference_temperature:g} °C [{unit.unit}]"
+
+
+def _effort_order(specimens: pd.DataFrame) -> list[str]:
+    labels = specimens["effort"].astype("string").fillna(NO_EFFORT)
+    mean = specimens.assign(_label=labels).groupby("_label", sort=False)["dry_density"].mean()
+    return list(mean.sort_values(kind="stable").index)
+
+
+def _effort_styles(specimens: pd.DataFrame) -> dict[str, tuple[str, str]]:
+    return {
+        effort: (EFFORT_SYMBOLS[i % len(EFFORT_SYMBOLS)], EFFORT_DASHES[i % len(EFFORT_DASHES)])
+        for i, effort in enumerate(_effort_order(specimens))
+    }
+
+
+def _hover(rows: pd.DataFrame, unit: DisplayUnit, analysis: SeriesAnalysis) -> list[str]:
+    texts = []
+    for _, row in rows.iterrows():
+        w = "–" if pd.isna(row["water_content"]) else f"{100 * row['water_content']:.1f} %"
+        interval = "no interval"
+        if pd.notna(row["k_low"]):
+            interval = (
+                f"{scientific(row['k_low'] * unit.factor, html=True)} – "
+                f"{scientific(row['k_high'] * unit.factor, html=True)}"
+            )
+        texts.append(
+            f"<b>{row['specimen']}</b> ({row['method'].replace('_', ' ')})<br>"
+            f"w = {w}, e = {row['void_ratio']:.3f}<br>"
+            f"k = {scientific(row['k'] * unit.factor, html=True)} {unit.unit}<br>"
+            f"{100 * analysis.confidence:g} %: {interval}<br>{row['verdict']}"
+        )
+    return texts
+
+
+def _specimen_traces(
+    analysis, x, y, unit: DisplayUnit, show_legend: bool, error_bars: bool
+) -> list[go.Scatter]:
+    """One trace per effort and verdict: shape by effort, fill and colour by verdict."""
+    frame = analysis.specimens
+    styles = _effort_styles(frame)
+    labels = frame["effort"].astype("string").fillna(NO_EFFORT)
+    traces = []
+    for effort in _effort_order(frame):
+        for verdict in VERDICTS:
+            mask = ((labels == effort) & (frame["verdict"] == verdict)).to_numpy()
+            if not mask.any():
+                continue
+            rows = frame[mask]
+            error = None
+            if error_bars:
+                k = rows["k"].to_numpy() * unit.factor
+                high = (rows["k_high"].to_numpy() * unit.factor) - k
+                low = k - rows["k_low"].to_numpy() * unit.factor
+                error = dict(
+                    type="data",
+                    array=np.nan_to_num(high),
+                    symmetric=False,
+                    arrayminus=np.nan_to_num(low),
+                    color=VERDICT_COLOURS[verdict],
+                    thickness=1.2,
+                    width=4,
+                )
+            traces.append(
+                go.Scatter(
+                    x=np.asarray(x)[mask],
+                    y=np.asarray(y)[mask],
+                    mode="markers",
+                    name=verdict,
+                    legendgroup=f"effort {effort}",
+                    legendgrouptitle_text=f"effort: {effort}",
+                    showlegend=show_legend,
+                    marker=dict(
+                        symbol=styles[effort][0] + VERDICT_FILL[verdict],
+                        size=11,
+                        color=VERDICT_COLOURS[verdict],
+                        line=dict(width=1.6, color=VERDICT_COLOURS[verdict]),
+                    ),
+                    error_y=error,
+                    text=rows["specimen"].tolist(),
+                    hovertext=_hover(rows, unit, analysis),
+                    hoverinfo="text",
+                    meta={"verdict": verdict, "effort": effort},
+                )
+            )
+    return traces
+
+
+def _criterion_trace(analysis, x_range, unit: DisplayUnit, show_legend=True) -> go.Scatter:
+    value = analysis.criterion * unit.factor
+    return go.Scatter(
+        x=list(x_range),
+        y=[value, value],
+        mode="lines",
+        name=f"criterion k ≤ {scientific(value, html=True)} {unit.unit}",
+        legendgroup="criterion",
+        showlegend=show_legend,
+        line=dict(color=INK, width=1.8, dash="longdash"),
+        hoverinfo="name",
+    )
+
+
+def _padded(values, fraction=0.06):
+    values = np.asarray(values, dtype=float)
+    values = values[np.isfinite(values)]
+    low, high = float(values.min()), float(values.max())
+    pad = (high - low) * fraction or abs(high) * fraction or 1.0
+    return low - pad, high + pad
+
+
+def _log_axis(**extra) -> dict:
+    return dict(type="log", exponentformat="power", showexponent="all", **extra)
+
+
+def _k_values_range(analysis, unit) -> tuple[float, float]:
+    values = np.concatenate(
+        [analysis.specimens[c].to_numpy(float) for c in ("k", "k_low", "k_high")]
+        + [[analysis.criterion]]
+    )
+    values = values[np.isfinite(values) & (values > 0)] * unit.factor
+    low, high = np.log10(values.min()), np.log10(values.max())
+    pad = max(0.15, 0.06 * (high - low))
+    return low - pad, high + pad
+
+
+# --- the compaction–conductivity chart ------------------------------------------------------
+
+
+def compaction_conductivity_figure(
+    analysis: SeriesAnalysis, k_unit_name: str = "m/s", density_unit_name: str = "Mg/m³"
+) -> go.Figure:
+    """The memo chart: the compaction plane above log k against water content.
+
+    Parameters
+    ----------
+    analysis : SeriesAnalysis
+        From :func:`kitchen.series_analysis.analyse_series`; needs specimens with a
+        molding water content.
+    k_unit_name : {"m/s", "cm/s"}, default "m/s"
+    density_unit_name : {"Mg/m³", "kN/m³", "lb/ft³"}, default "Mg/m³"
+        ASCII spellings (``"kN/m3"``) are accepted.
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+        Top: dry density against molding water content with the zero-air-voids and
+        constant-saturation lines, the compaction curve of each effort, the line of
+        optimums and the acceptable zone; bottom: k on a log axis against the same water
+        content, with the criterion line. The two panels share the water-content axis.
+
+    References
+    ----------
+    Daniel, D. E. and Benson, C. H. (1990), J. Geotech. Eng. 116(12), 1811–1830: the
+    acceptable zone drawn on the compaction plane from the specimens that meet the
+    criterion.
+    """
+    ku, du = k_unit(k_unit_name), density_unit(density_unit_name)
+    frame = analysis.specimens[analysis.specimens["on_compaction_plane"]]
+    if frame.empty:
+        raise ValueError("no specimen has a molding water content: no compaction plane to draw")
+    plane = replace(analysis, specimens=frame)
+    w_pct = frame["water_content"].to_numpy() * 100.0
+    x_range = _padded(w_pct, 0.08)
+    figure = make_subplots(
+        rows=2, cols=1, shared_xaxes=True, vertical_spacing=0.05, row_heights=[0.58, 0.42]
+    )
+    figure.update_layout(template=memo_template(), height=1040)
+    y_values = [frame["dry_density"].to_numpy()]
+    zone = analysis.acceptable_zone
+    if zone is not None and zone.kind != "empty":
+        vertices = zone.vertices
+        closed = np.vstack([vertices, vertices[:1]]) if zone.kind == "polygon" else vertices
+        figure.add_trace(
+            go.Scatter(
+                x=closed[:, 0] * 100.0,
+                y=closed[:, 1] * du.factor,
+                mode="lines" if zone.kind != "point" else "markers",
+                fill="toself" if zone.kind == "polygon" else None,
+                fillcolor="rgba(46,107,87,0.10)",
+                fillpattern=dict(shape="/", fgcolor="rgba(46,107,87,0.45)", size=9, solidity=0.12)
+                if zone.kind == "polygon"
+                else None,
+                line=dict(color=ZONE, width=1.6, dash="dot"),
+                name=f"acceptable zone ({zone.kind}: hull of specimens that meet)",
+                legendgroup="zone",
+                hoverinfo="name",
+            ),
+            row=1,
+            col=1,
+        )
+    styles = _effort_styles(frame)
+    for effort, curve in analysis.compaction_curves.items():
+        w = np.linspace(curve.tested_water_content.min(), curve.tested_water_content.max(), 60)
+        rho = np.asarray(curve.dry_density(w))
+        y_values.append(rho)
+        figure.add_trace(
+            go.Scatter(
+                x=w * 100.0,
+                y=rho * du.factor,
+                mode="lines",
+                name=f"compaction curve ({curve.method})",
+                legendgroup=f"effort {effort}",
+                legendgrouptitle_text=f"effort: {effort}",
+                line=dict(color=INK, width=1.5, dash=styles.get(effort, ("", "solid"))[1]),
+                hoverinfo="name",
+            ),
+            row=1,
+            col=1,
+        )
+    line = analysis.line_of_optimums
+    if line is not None and line.optimum_water_content.size:
+        w_opt = line.optimum_water_content
+        figure.add_trace(
+            go.Scatter(
+                x=w_opt * 100.0,
+                y=line.maximum_dry_density * du.factor,
+                mode="markers",
+                name="optimum of each effort",
+                legendgroup="optimums",
+                marker=dict(symbol="star", size=13, color="white", line=dict(color=INK, width=1.4)),
+                text=list(map(str, line.efforts)),
+                hoverinfo="text+x+y",
+            ),
+            row=1,
+            col=1,
+        )
+        if line.slope is not None:
+            w = np.array(_padded(w_opt, 0.35))
+            figure.add_trace(
+                go.Scatter(
+                    x=w * 100.0,
+                    y=np.asarray(line.dry_density(w)) * du.factor,
+                    mode="lines",
+                    name="line of optimums",
+                    legendgroup="optimums",
+                    line=dict(color=MUTED, width=1.5, dash="dashdot"),
+                    hoverinfo="name",
+                ),
+                row=1,
+                col=1,
+            )
+    y_low, y_high = _padded(np.concatenate(y_values) * du.factor, 0.10)
+    if analysis.specific_gravity is not None:
+        w = np.linspace(x_range[0], x_range[1], 80) / 100.0
+        w = w[w >= 0]
+        for saturation in SATURATION_LINES:
+            rho = np.asarray(analysis.saturation_line(w, saturation)) * du.factor
+            name = "zero-air-voids (S = 100 %)" if saturation == 1.0 else f"S = {saturation:.0%}"
+            figure.add_trace(
+                go.Scatter(
+                    x=w * 100.0,
+                    y=rho,
+                    mode="lines",
+                    name=f"{name}, Gs = {analysis.specific_gravity:g}",
+                    legendgroup="saturation",
+                    legendgrouptitle_text="saturation lines",
+                    line=dict(
+                        color=MUTED if saturation < 1 else INK,
+                        width=1.2,
+                        dash=SATURATION_DASHES.get(saturation, "dot"),
+                    ),
+                    hoverinfo="name",
+                ),
+                row=1,
+                col=1,
+            )
+            inside = np.flatnonzero((rho >= y_low) & (rho <= y_high))
+            if inside.size:
+                last = inside[-1]
+                figure.add_annotation(
+                    x=w[last] * 100.0,
+                    y=rho[last],
+                    text=f"S = {saturation:.0%}",
+                    showarrow=False,
+                    xanchor="right",
+                    yanchor="bottom",
+                    font=dict(size=10, color=MUTED),
+                    row=1,
+                    col=1,
+                )
+    for trace in _specimen_traces(plane, w_pct, frame["dry_density"] * du.factor, ku, True, False):
+        figure.add_trace(trace, row=1, col=1)
+    for trace in _specimen_traces(plane, w_pct, frame["k"] * ku.factor, ku, False, True):
+        figure.add_trace(trace, row=2, col=1)
+    figure.add_trace(_criterion_trace(analysis, x_range, ku), row=2, col=1)
+    figure.update_xaxes(range=list(x_range))
+    figure.update_xaxes(title_text="molding water content w [%]", row=2, col=1)
+    figure.update_yaxes(title_text=du.title(), range=[y_low, y_high], row=1, col=1)
+    figure.update_yaxes(
+        title_text=_k_title(ku, analysis.reference_temperature),
+        range=list(_k_values_range(plane, ku)),
+        row=2,
+        col=1,
+        **_log_axis(),
+    )
+    figure.update_layout(
+        title_text="Compaction and hydraulic conductivity"
+        f"<br><sup>criterion k ≤ {scientific(analysis.criterion * ku.factor, html=True)} "
+        f"{ku.unit}; filled: meets, open: does not meet, dotted: not conclusive</sup>",
+        margin=dict(t=95),
+    )
+    return figure
+
+
+# --- trends against void ratio, dry density, water content ---------------------------------
+
+_AGAINST = {
+    "void_ratio": ("void_ratio", "void_ratio_trend"),
+    "dry_density": ("dry_density", "dry_density_trend"),
+    "water_content_from_optimum": ("water_content_from_optimum", "water_content_trend"),
+}
+
+
+def _x_axis(against: str, du: DisplayUnit):
+    if against == "void_ratio":
+        return "void ratio e [–]", 1.0
+    if against == "dry_density":
+        return du.title(), du.factor
+    return "water content relative to optimum w − w_opt [%]", 100.0
+
+
+def _trend_name(against, trend, du: DisplayUnit) -> str:
+    fit = trend.fit
+    if against == "void_ratio":
+        if np.isfinite(trend.change_index_high):
+            return (
+                f"Tavenas line, Ck = {trend.change_index:.3g} "
+                f"({trend.change_index_low:.3g}–{trend.change_index_high:.3g}), r² = "
+                f"{fit.r_squared:.2f}"
+            )
+        return f"Tavenas line, Ck not bounded, r² = {fit.r_squared:.2f}"
+    per = "%" if against != "dry_density" else du.unit
+    scale = 100.0 if against != "dry_density" else du.factor
+    return f"log-linear fit, {fit.slope / scale:.3g} decades per {per}, r² = {fit.r_squared:.2f}"
+
+
+def conductivity_trend_figure(
+    analysis: SeriesAnalysis,
+    against: str = "void_ratio",
+    k_unit_name: str = "m/s",
+    density_unit_name: str = "Mg/m³",
+) -> go.Figure:
+    """log k against void ratio, dry density or water content relative to optimum.
+
+    Parameters
+    ----------
+    analysis : SeriesAnalysis
+    against : {"void_ratio", "dry_density", "water_content_from_optimum"}
+    k_unit_name : {"m/s", "cm/s"}, default "m/s"
+    density_unit_name : {"Mg/m³", "kN/m³", "lb/ft³"}, default "Mg/m³"
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+        The specimens with error bars from their k intervals, the fitted line with its
+        confidence band, the criterion line, and — where a d10 is given, on the void-ratio
+        and dry-density charts — the predictions from grading, labelled as predictions.
+
+    References
+    ----------
+    Tavenas, F. et al. (1983), Can. Geotech. J. 20(4), 645–660 (e–log k); Chapuis, R. P.
+    (2004), Can. Geotech. J. 41(5), 787–795; Hazen (1892) and Kozeny–Carman as in
+    :mod:`kitchen.trends`.
+    """
+    if against not in _AGAINST:
+        raise ValueError(f"against: expected one of {', '.join(_AGAINST)}, got {against!r}")
+    ku, du = k_unit(k_unit_name), density_unit(density_unit_name)
+    column, attribute = _AGAINST[against]
+    frame = analysis.specimens[analysis.specimens[column].notna()]
+    if frame.empty:
+        raise ValueError(f"no specimen has a {column.replace('_', ' ')}: nothing to draw")
+    title, scale = _x_axis(against, du)
+    plotted = replace(analysis, specimens=frame)
+    x = frame[column].to_numpy(float)
+    x_range = _padded(x * scale, 0.08)
+    figure = go.Figure(layout=dict(template=memo_template()))
+    trend = getattr(analysis, attribute)
+    if trend is not None:
+        grid = np.linspace(x.min(), x.max(), 80)
+        low, high = trend.band(grid)
+        figure.add_trace(
+            go.Scatter(
+                x=grid * scale,
+                y=np.asarray(low) * ku.factor,
+                mode="lines",
+                line=dict(width=0),
+                showlegend=False,
+                legendgroup="fit",
+                hoverinfo="skip",
+            )
+        )
+        figure.add_trace(
+            go.Scatter(
+                x=grid * scale,
+                y=np.asarray(high) * ku.factor,
+                mode="lines",
+                line=dict(width=0),
+                fill="tonexty",
+                fillcolor="rgba(29,39,49,0.11)",
+                legendgroup="fit",
+                name=f"{100 * trend.confidence:g} % confidence band of the line",
+                hoverinfo="skip",
+            )
+        )
+        figure.add_trace(
+            go.Scatter(
+                x=grid * scale,
+                y=np.asarray(trend.conductivity(grid)) * ku.factor,
+                mode="lines",
+                line=dict(color=INK, width=1.8),
+                name=_trend_name(against, trend, du),
+                legendgroup="fit",
+                hoverinfo="name",
+            )
+        )
+    if analysis.kozeny_carman_reference is not None and against == "void_ratio":
+        grid = np.linspace(x.min(), x.max(), 60)
+        figure.add_trace(
+            go.Scatter(
+                x=grid,
+                y=analysis.kozeny_carman_conductivity(grid) * ku.factor,
+                mode="lines",
+                line=dict(color=MUTED, width=1.5, dash="dot"),
+                legendgroup="predictions",
+                legendgrouptitle_text="predictions (not measurements)",
+                name="Kozeny–Carman e³/(1+e) through the geometric mean",
+                hoverinfo="name",
+            )
+        )
+    if analysis.grading is not None and against in ("void_ratio", "dry_density"):
+        _add_predictions(figure, analysis, frame, column, scale, ku)
+    for trace in _specimen_traces(plotted, x * scale, frame["k"] * ku.factor, ku, True, True):
+        figure.add_trace(trace)
+    figure.add_trace(_criterion_trace(analysis, x_range, ku))
+    figure.update_xaxes(title_text=title, range=list(x_range))
+    figure.update_yaxes(
+        title_text=_k_title(ku, analysis.reference_temperature),
+        range=list(_k_values_range(plotted, ku)),
+        **_log_axis(),
+    )
+    subject = {
+        "void_ratio": "void ratio",
+        "dry_density": du.quantity,
+        "water_content_from_optimum": "water content relative to optimum",
+    }[against]
+    figure.update_layout(title_text=f"Hydraulic conductivity against {subject}")
+    return figure
+
+
+def _add_predictions(figure, analysis, frame, column, scale, ku):
+    grading = analysis.grading.merge(
+        frame[["specimen", column]].rename(columns={column: "_x"}), on="specimen", how="inner"
+    )
+    for method, symbol in (("hazen", "x-thin"), ("chapuis", "cross-thin")):
+        label = {"hazen": "Hazen (1892)", "chapuis": "Chapuis (2004)"}[method]
+        for inside in (True, False):
+            rows = grading[
+                grading[f"{method}_k"].notna() & (grading[f"{method}_within_range"] == inside)
+            ]
+            if rows.empty:
+                continue
+            name = f"{label} prediction" + ("" if inside else ", outside its validity range")
+            figure.add_trace(
+                go.Scatter(
+                    x=rows["_x"] * scale,
+                    y=rows[f"{method}_k"] * ku.factor,
+                    mode="markers",
+                    name=name,
+                    legendgroup="predictions",
+                    legendgrouptitle_text="predictions (not measurements)",
+                    marker=dict(
+                        symbol=symbol,
+                        size=11,
+                        color=MUTED if inside else "#b0b7bd",
+                        line=dict(width=2, color=MUTED if inside else "#b0b7bd"),
+                    ),
+                    text=rows["specimen"].tolist(),
+                    hovertemplate="%{text}: %{y:.3g} " + ku.unit + f"<extra>{name}</extra>",
+                )
+            )
+
+
+# --- per specimen ----------------------------------------------------------------------------
+
+
+def _time_unit(span_seconds: float) -> tuple[str, float]:
+    if span_seconds >= 3 * 3600:
+        return "h", 3600.0
+    if span_seconds >= 180:
+        return "min", 60.0
+    return "s", 1.0
+
+
+def falling_head_figure(
+    readings: pd.DataFrame,
+    result,
+    k_unit_name: str = "m/s",
+    reference_temperature: float = 20.0,
+    max_points: int = MAX_TRACE_POINTS,
+) -> go.Figure:
+    """Head against time on a log head axis, with the fitted line and the reading window.
+
+    Parameters
+    ----------
+    readings : pandas.DataFrame
+        The specimen's rows of the ``falling_head`` table: ``time`` [s], ``head`` [m].
+    result : kitchen.falling_head.FallingHeadResult
+        Its reduction: ``start``, ``stop`` (the window), ``fit`` (ln h on the
+        reference-equivalent time), ``reference_time`` [s], ``k_reference`` and interval.
+    k_unit_name : {"m/s", "cm/s"}
+    reference_temperature : float
+        For the label of k. [degC]
+    max_points : int
+        Longest trace; longer records are decimated (:func:`decimation_indices`).
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+
+    References
+    ----------
+    ASTM D5084, Methods B and C: ln h falls linearly with time (from memory).
+    """
+    ku = k_unit(k_unit_name)
+    time = readings["time"].to_numpy(float)
+    head = readings["head"].to_numpy(float)
+    unit, divisor = _time_unit(float(time[-1] - time[0]) if time.size else 0.0)
+    start, stop = int(result.start), int(result.stop)
+    used = np.zeros(time.size, dtype=bool)
+    used[start:stop] = True
+    figure = go.Figure(layout=dict(template=memo_template()))
+    figure.add_vrect(
+        x0=time[start] / divisor,
+        x1=time[stop - 1] / divisor,
+        fillcolor="rgba(46,107,87,0.09)",
+        line_width=0,
+        layer="below",
+        annotation_text="reading window",
+        annotation_position="top left",
+        annotation_font=dict(size=11, color=ZONE),
+    )
+    for mask, name, marker in (
+        (
+            ~used,
+            "readings outside the window",
+            dict(symbol="circle-open", size=6, color=MUTED, line=dict(width=1.2)),
+        ),
+        (used, "readings used", dict(symbol="circle", size=5, color=INK)),
+    ):
+        if not mask.any():
+            continue
+        t, h = time[mask], head[mask]
+        keep = decimation_indices(h, max_points)
+        figure.add_trace(
+            go.Scatter(
+                x=t[keep] / divisor,
+                y=h[keep],
+                mode="markers",
+                name=name,
+                marker=marker,
+                hovertemplate="t = %{x:.4g} " + unit + "<br>h = %{y:.4g} m<extra></extra>",
+            )
+        )
+    fit = getattr(result, "fit", None)
+    if fit is not None:
+        fitted = np.exp(fit.predict(np.asarray(result.reference_time, dtype=float)))
+        t = time[start:stop]
+        keep = decimation_indices(fitted, max_points)
+        figure.add_trace(
+            go.Scatter(
+                x=t[keep] / divisor,
+                y=fitted[keep],
+                mode="lines",
+                name="least-squares line of ln h",
+                line=dict(color=VERDICT_COLOURS[DOES_NOT_MEET], width=2),
+                hoverinfo="name",
+            )
+        )
+    elif stop - start == 2:
+        figure.add_trace(
+            go.Scatter(
+                x=time[[start, stop - 1]] / divisor,
+                y=head[[start, stop - 1]],
+                mode="lines",
+                name="two-reading line",
+                line=dict(color=VERDICT_COLOURS[DOES_NOT_MEET], width=2),
+            )
+        )
+    figure.update_xaxes(title_text=f"elapsed time t [{unit}]")
+    figure.update_yaxes(title_text="head difference h [m]", **_log_axis())
+    factor = ku.factor
+    k_text = scientific(result.k_reference * factor, html=True)
+    low = scientific(result.k_reference_low * factor, html=True)
+    high = scientific(result.k_reference_high * factor, html=True)
+    label = f"k{reference_temperature:g}".replace(".", "_")
+    figure.update_layout(
+        title_text=f"Specimen {result.specimen}: falling head<br><sup>{label} = {k_text} "
+        f"{ku.unit} (95 %: {low} – {high}), readings {start + 1}–{stop} of {time.size}</sup>",
+        legend=dict(x=0.99, xanchor="right", y=0.99, yanchor="top"),
+    )
+    return figure
+
+
+def constant_head_figure(
+    result, k_unit_name: str = "m/s", reference_temperature: float = 20.0
+) -> go.Figure:
+    """Darcy velocity against gradient, with the fit through the origin (slope k).
+
+    Parameters
+    ----------
+    result : kitchen.constant_head.ConstantHeadResult
+        With ``collections`` (``gradient``, ``darcy_velocity`` [m/s], ``viscosity_ratio``),
+        ``fit`` (velocity at the reference temperature on gradient) and ``k_reference``.
+    k_unit_name : {"m/s", "cm/s"}
+        Unit of k, and so of the velocity.
+    reference_temperature : float
+        For the labels. [degC]
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+
+    References
+    ----------
+    Darcy's law v = k·i; ASTM D2434 (establish the laminar range, from memory).
+    """
+    ku = k_unit(k_unit_name)
+    rows = result.collections
+    i = rows["gradient"].to_numpy(float)
+    v = rows["darcy_velocity"].to_numpy(float) * rows["viscosity_ratio"].to_numpy(float)
+    reach = np.array([0.0, 1.1 * float(i.max())])
+    figure = go.Figure(layout=dict(template=memo_template()))
+    fit = getattr(result, "fit", None)
+    if fit is not None:
+        figure.add_trace(
+            go.Scatter(
+                x=reach,
+                y=fit.slope_low * reach * ku.factor,
+                mode="lines",
+                line=dict(width=0),
+                showlegend=False,
+                hoverinfo="skip",
+            )
+        )
+        figure.add_trace(
+            go.Scatter(
+                x=reach,
+                y=fit.slope_high * reach * ku.factor,
+                mode="lines",
+                line=dict(width=0),
+                fill="tonexty",
+                fillcolor="rgba(29,39,49,0.11)",
+                hoverinfo="skip",
+                name=f"{100 * fit.confidence:g} % interval of the slope",
+            )
+        )
+    figure.add_trace(
+        go.Scatter(
+            x=reach,
+            y=result.k_reference * reach * ku.factor,
+            mode="lines",
+            name="v = k·i through the origin",
+            line=dict(color=VERDICT_COLOURS[DOES_NOT_MEET], width=2),
+        )
+    )
+    figure.add_trace(
+        go.Scatter(
+            x=i,
+            y=v * ku.factor,
+            mode="markers",
+            name="timed collections",
+            marker=dict(symbol="square", size=10, color=INK),
+            hovertemplate="i = %{x:.3g}<br>v = %{y:.3g} " + ku.unit + "<extra></extra>",
+        )
+    )
+    label = f"k{reference_temperature:g}".replace(".", "_")
+    figure.update_xaxes(title_text="hydraulic gradient i [–]", rangemode="tozero")
+    figure.update_yaxes(
+        title_text=f"Darcy velocity at {reference_temperature:g} °C, v·R_T [{ku.unit}]",
+        rangemode="tozero",
+        exponentformat="power",
+    )
+    k_text = scientific(result.k_reference * ku.factor, html=True)
+    low = scientific(result.k_reference_low * ku.factor, html=True)
+    high = scientific(result.k_reference_high * ku.factor, html=True)
+    figure.update_layout(
+        title_text=f"Specimen {result.specimen}: constant head<br><sup>{label} = {k_text} "
+        f"{ku.unit} (95 %: {low} – {high}), {result.n} collection(s)</sup>",
+        legend=dict(x=0.01, xanchor="left", y=0.99, yanchor="top"),
+    )
+    return figure

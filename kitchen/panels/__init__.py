@@ -1,0 +1,17 @@
+"""Widget panels for the notebooks, one factory per notebook, built on the core.
+
+Each factory returns an object exposing its controls, figures and views, so that a test can
+set a control's ``value`` and assert on the figure data and the results without a browser:
+
+- :func:`series_panel` (``01_open_a_series``): load a series, see its results and checks.
+- :func:`falling_head_panel` (``02_falling_head``): the reading window of one specimen.
+- :func:`constant_head_panel` (``03_constant_head``): v against i for one specimen.
+- :func:`series_chart_panel` (``04_series_chart``): the series charts and the memo pack.
+- :func:`revise_panel` (``05_revise``): revise a value, see what moved.
+
+The panels need the ``lab`` extra (ipywidgets, plotly, anywidget); the core does not.
+"""
+
+from .open_series import SeriesPanel, series_panel
+
+__all__ = ["SeriesPanel", "series_panel"]

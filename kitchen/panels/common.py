@@ -1,0 +1,300 @@
+"""Parts every panel shares: a message area, a progress bar, figure refresh, number formats.
+
+The message area is where a panel says, in words, what went wrong in a callback: the
+problems of a :class:`~kitchen.series.SeriesError` as a list, any other refusal as its
+message, an unexpected failure with its traceback folded away. A callback error is never
+lost to the kernel log. Warnings raised while a callback runs are shown there too, as notes.
+"""
+
+from __future__ import annotations
+
+import functools
+import html
+import math
+import shutil
+import tempfile
+import traceback
+import warnings
+from collections.abc import Callable, Iterable
+from pathlib import Path
+
+import ipywidgets as widgets
+import numpy as np
+import pandas as pd
+import plotly.graph_objects as go
+
+from ..series import SeriesError
+from ..units import UnitError
+
+__all__ = [
+    "MessageArea",
+    "ProgressBar",
+    "refresh_figure",
+    "format_number",
+    "format_conductivity",
+    "html_table",
+    "caution_box",
+    "scratch_copy",
+]
+
+_SUPERSCRIPT = str.maketrans("0123456789-+", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻⁺")
+
+_STYLE = """<style>
+.kitchen-message ul {margin: 0.2em 0 0.2em 1.2em; padding: 0;}
+.kitchen-message .kitchen-problem {color: #8a1c1c;}
+.kitchen-message .kitchen-note {color: #5b4a00;}
+.kitchen-table table {border-collapse: collapse; font-size: 12px;}
+.kitchen-table th, .kitchen-table td {padding: 2px 8px; border-bottom: 1px solid #ddd;
+  text-align: right; white-space: nowrap;}
+.kitchen-table th {background: #f1efe8; text-align: center;}
+.kitchen-table td.kitchen-text {text-align: left; white-space: normal;}
+.kitchen-caution {border-left: 4px solid #b5651d; padding: 0.2em 0.8em; background: #faf6ef;}
+</style>"""
+
+
+class MessageArea:
+    """An HTML area for what went wrong, in words, and for notes.
+
+    Attributes
+    ----------
+    widget : ipywidgets.HTML
+        The area shown in the panel (empty when all is well).
+    message : str
+        The last error as plain text; empty when the last action succeeded.
+    notes : list of str
+        Warnings raised during the last action, as plain text.
+    exception : BaseException or None
+        The last error itself, for a test or a curious engineer.
+    """
+
+    def __init__(self):
+        self.widget = widgets.HTML(value="", layout=widgets.Layout(width="100%"))
+        self.widget.add_class("kitchen-message")
+        self.message = ""
+        self.notes: list[str] = []
+        self.exception: BaseException | None = None
+
+    def clear(self) -> None:
+        self.message, self.notes, self.exception = "", [], None
+        self.widget.value = ""
+
+    def show_notes(self, notes: Iterable[str]) -> None:
+        """Show warnings as notes (they do not stop the panel)."""
+        self.notes = list(dict.fromkeys(notes))
+        self._render()
+
+    def show_error(self, error: BaseException, doing: str) -> None:
+        """Show `error`, raised while `doing` (for example "refitting the window")."""
+        self.exception = error
+        if isinstance(error, SeriesError):
+            self.message = f"Could not finish {doing}: " + "; ".join(map(str, error.problems))
+            items = "".join(f"<li>{html.escape(str(p))}</li>" for p in error.problems)
+            body = (
+                f"<b>{len(error.problems)} problem(s) in the series</b> — nothing was "
+                f"changed. Correct the files and try again.<ul>{items}</ul>"
+            )
+        elif isinstance(error, (ValueError, UnitError, OSError, KeyError)):
+            text = error.args[0] if isinstance(error, KeyError) and error.args else str(error)
+            self.message = f"Could not finish {doing}: {text}"
+            body = f"<b>Could not finish {html.escape(doing)}:</b> {html.escape(str(text))}"
+        else:
+            self.message = (
+                f"Unexpected failure while {doing}: {type(error).__name__}: {error}. "
+                "This is a fault in kitchen, not in your data; please report it."
+            )
+            trace = "".join(traceback.format_exception(error))
+            body = (
+                f"<b>Unexpected failure while {html.escape(doing)}</b> "
+                f"({html.escape(type(error).__name__)}: {html.escape(str(error))}). "
+                "This is a fault in kitchen, not in your data; please report it with the "
+                f"details below.<details><summary>details</summary><pre>{html.escape(trace)}"
+                "</pre></details>"
+            )
+        self._error_html = f"<div class='kitchen-problem'>{body}</div>"
+        self._render()
+
+    def _render(self) -> None:
+        parts = [_STYLE]
+        if self.message:
+            parts.append(self._error_html)
+        if self.notes:
+            items = "".join(f"<li>{html.escape(note)}</li>" for note in self.notes)
+            parts.append(f"<div class='kitchen-note'><b>Notes</b><ul>{items}</ul></div>")
+        self.widget.value = "".join(parts) if len(parts) > 1 else ""
+
+    def guard(self, doing: str) -> Callable:
+        """Decorate a callback: its errors and warnings are shown here, never lost.
+
+        The decorated function returns its own value, or None when it raised.
+        """
+
+        def decorate(function):
+            @functools.wraps(function)
+            def wrapper(*args, **kwargs):
+                self.clear()
+                with warnings.catch_warnings(record=True) as caught:
+                    warnings.simplefilter("always")
+                    try:
+                        value = function(*args, **kwargs)
+                    except Exception as error:  # shown to the engineer, in words
+                        self.show_error(error, doing)
+                        value = None
+                self.notes = list(dict.fromkeys(str(w.message) for w in caught))
+                self._render()
+                return value
+
+            return wrapper
+
+        return decorate
+
+
+class ProgressBar:
+    """A progress bar with a line of text, for long work (loading, exporting).
+
+    Call it as ``bar(done, total, what)``; pass it where a function takes a progress
+    callback.
+    """
+
+    def __init__(self, description: str = ""):
+        self.bar = widgets.IntProgress(value=0, min=0, max=1, description=description)
+        self.label = widgets.Label(value="")
+        self.widget = widgets.HBox([self.bar, self.label])
+        self.widget.layout.visibility = "hidden"
+
+    def __call__(self, done: int, total: int, what: str = "") -> None:
+        self.widget.layout.visibility = "visible"
+        self.bar.max = max(int(total), 1)
+        self.bar.value = min(int(done), self.bar.max)
+        self.bar.bar_style = ""
+        self.label.value = f"{done} of {total}" + (f": {what}" if what else "")
+
+    def finish(self, text: str, failed: bool = False) -> None:
+        self.widget.layout.visibility = "visible"
+        self.bar.value = self.bar.max if not failed else self.bar.value
+        self.bar.bar_style = "danger" if failed else "success"
+        self.label.value = text
+
+
+def _trace_json(trace) -> dict:
+    data = trace.to_plotly_json()
+    data.pop("uid", None)
+    return data
+
+
+def refresh_figure(widget: go.FigureWidget, figure: go.Figure) -> None:
+    """Bring a live FigureWidget to the state of a freshly built figure, in place.
+
+    When the new figure has the same traces (count and types) each trace is updated in
+    place, inside one ``batch_update``, so open views receive one message; otherwise the
+    traces are replaced. The layout is updated key by key (the template only when it
+    changed).
+    """
+    new_traces = list(figure.data)
+    same = len(new_traces) == len(widget.data) and all(
+        old.type == new.type for old, new in zip(widget.data, new_traces, strict=True)
+    )
+    layout = figure.layout.to_plotly_json()
+    if layout.get("template") == widget.layout.template.to_plotly_json():
+        layout.pop("template", None)
+    if same:
+        with widget.batch_update():
+            for old, new in zip(widget.data, new_traces, strict=True):
+                old.update(_trace_json(new), overwrite=True)
+            widget.layout.update(layout, overwrite=True)
+    else:
+        with widget.batch_update():
+            widget.data = ()
+            widget.layout.update(layout, overwrite=True)
+        widget.add_traces([_trace_json(trace) for trace in new_traces])
+
+
+def format_number(value, digits: int = 3) -> str:
+    """A number for people: ``digits`` significant figures, or "–" when not a number."""
+    if value is None or (isinstance(value, float) and not math.isfinite(value)):
+        return "–"
+    if isinstance(value, (int, np.integer)):
+        return str(int(value))
+    return f"{float(value):.{digits}g}"
+
+
+def format_conductivity(value, unit: str = "m/s", digits: int = 3) -> str:
+    """A conductivity as ``7.56 × 10⁻⁹ m/s`` (``unit`` is "m/s" or "cm/s"; value in m/s)."""
+    if value is None or not math.isfinite(float(value)):
+        return "–"
+    value = float(value) * (100.0 if unit == "cm/s" else 1.0)
+    if value == 0:
+        return f"0 {unit}"
+    exponent = math.floor(math.log10(abs(value)))
+    mantissa = value / 10.0**exponent
+    if round(mantissa, digits - 1) >= 10:
+        mantissa, exponent = mantissa / 10, exponent + 1
+    return f"{mantissa:.{digits - 1}f} × 10{str(exponent).translate(_SUPERSCRIPT)} {unit}"
+
+
+def html_table(frame: pd.DataFrame, formats: dict | None = None, text_columns=()) -> str:
+    """A DataFrame as a compact HTML table (values escaped; NaN shown as "–").
+
+    ``formats`` maps a column to a function from value to text; other numbers get three
+    significant figures.
+    """
+    formats = formats or {}
+    head = "".join(f"<th>{html.escape(str(c))}</th>" for c in frame.columns)
+    rows = []
+    for _, row in frame.iterrows():
+        cells = []
+        for column in frame.columns:
+            value = row[column]
+            if column in formats:
+                text = formats[column](value)
+            elif isinstance(value, (bool, np.bool_)):
+                text = "yes" if value else "no"
+            elif isinstance(value, (float, np.floating)):
+                text = format_number(float(value))
+            elif value is None or value is pd.NA:
+                text = "–"
+            else:
+                text = str(value)
+            kind = " class='kitchen-text'" if column in text_columns else ""
+            cells.append(f"<td{kind}>{html.escape(text)}</td>")
+        rows.append("<tr>" + "".join(cells) + "</tr>")
+    return (
+        f"{_STYLE}<div class='kitchen-table'><table><thead><tr>{head}</tr></thead>"
+        f"<tbody>{''.join(rows)}</tbody></table></div>"
+    )
+
+
+def caution_box(cautions: Iterable[str]) -> widgets.HTML:
+    """The cautions as a framed list, shown under results that could be misused."""
+    items = "".join(f"<li>{html.escape(c)}</li>" for c in cautions)
+    return widgets.HTML(f"{_STYLE}<div class='kitchen-caution'><b>Cautions</b><ul>{items}</ul></div>")
+
+
+def scratch_copy(path: str | Path, folder: str | Path | None = None) -> Path:
+    """Copy a series folder (or a workbook with its revisions log) to a scratch folder.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        A series folder, or an ``.xlsx`` workbook.
+    folder : str or pathlib.Path, optional
+        Where to put the copy; a new temporary folder by default.
+
+    Returns
+    -------
+    pathlib.Path
+        The copy, to revise without touching the original.
+    """
+    source = Path(path)
+    if not source.exists():
+        raise FileNotFoundError(f"{source}: not found; expected a series folder or .xlsx")
+    target_root = Path(folder) if folder is not None else Path(tempfile.mkdtemp(prefix="kitchen-"))
+    target_root.mkdir(parents=True, exist_ok=True)
+    target = target_root / source.name
+    if source.is_dir():
+        shutil.copytree(source, target)
+    else:
+        shutil.copy2(source, target)
+        log = source.with_name("revisions.csv")
+        if log.exists():
+            shutil.copy2(log, target_root / log.name)
+    return target

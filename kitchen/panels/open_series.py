@@ -1,0 +1,250 @@
+"""The panel of the first notebook: open a series, see its specimens and results.
+
+A path box and a load button; the reference temperature and the viscosity method; the
+results table (one row per specimen and method, the specimen state beside the corrected
+conductivity), the specimens as read, and every check that did not pass, listed in words.
+A series that cannot be used shows its problems as a list, never a traceback.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import ipywidgets as widgets
+import pandas as pd
+
+from ..results import Settings, results_table, series_results
+from ..series import Series, build_series, read_tables
+from ..water import VISCOSITY_METHODS
+from .common import MessageArea, ProgressBar, format_conductivity, format_number, html_table
+
+__all__ = ["SeriesPanel", "series_panel", "VISCOSITY_LABELS"]
+
+VISCOSITY_LABELS = {
+    "kestin": "Kestin, Sokolov & Wakeham (1978)",
+    "iapws": "IAPWS 2008 (Huber et al. 2009)",
+    "d5084": "ASTM D5084 equation for R_T",
+}
+"""How the viscosity methods are named in the panels."""
+
+
+def _k_format(value):
+    return format_conductivity(value)
+
+
+def _formats(table: pd.DataFrame) -> dict:
+    formats = {}
+    for column in table.columns:
+        if column.startswith("k") and column.endswith("[m/s]"):
+            formats[column] = _k_format
+        elif column.endswith("[%]"):
+            formats[column] = lambda v: format_number(v, 3)
+        elif column == "dry_density [Mg/m3]":
+            formats[column] = lambda v: "–" if pd.isna(v) else f"{v:.3f}"
+        elif column in ("void_ratio", "porosity"):
+            formats[column] = lambda v: "–" if pd.isna(v) else f"{v:.3f}"
+        elif column == "temperature [degC]":
+            formats[column] = lambda v: "–" if pd.isna(v) else f"{v:.1f}"
+    return formats
+
+
+def specimens_as_read(series: Series) -> pd.DataFrame:
+    """The specimens table in the units a laboratory sheet uses (mm, g, mm²)."""
+    table = series.specimens
+    return pd.DataFrame(
+        {
+            "specimen": table["specimen"],
+            "effort": table["effort"],
+            "diameter [mm]": table["diameter"] * 1e3,
+            "height [mm]": table["height"] * 1e3,
+            "dry_mass [g]": table["dry_mass"] * 1e3,
+            "specific_gravity": table["specific_gravity"],
+            "water_content [%]": table["water_content"] * 100,
+            "standpipe_area [mm2]": table["standpipe_area"] * 1e6,
+            "tailwater_standpipe_area [mm2]": table["tailwater_standpipe_area"] * 1e6,
+            "d10 [mm]": table["d10"] * 1e3,
+            "file row": table["source_row"],
+        }
+    )
+
+
+@dataclass
+class SeriesPanel:
+    """Controls and views of the open-a-series panel.
+
+    Attributes
+    ----------
+    widget : ipywidgets.VBox
+        What the notebook displays.
+    path : ipywidgets.Text
+        The series folder or workbook.
+    load : ipywidgets.Button
+        Loads (or reloads) the series at ``path``.
+    reference_temperature : ipywidgets.BoundedFloatText
+        Temperature k is corrected to. [degC]
+    viscosity : ipywidgets.Dropdown
+        Water viscosity method.
+    results_view, specimens_view, checks_view : ipywidgets.HTML
+        The results table, the specimens as read, and the checks that did not pass.
+    error : MessageArea
+        Problems with the series, or a failure, in words.
+    progress : ProgressBar
+    series : Series or None
+        The series loaded last (None until one loads).
+    results : pandas.DataFrame or None
+        :func:`kitchen.results.series_results` of ``series`` with ``settings``.
+    table : pandas.DataFrame or None
+        :func:`kitchen.results.results_table` of ``results`` (what is shown).
+    settings : Settings
+    """
+
+    widget: widgets.VBox
+    path: widgets.Text
+    load: widgets.Button
+    reference_temperature: widgets.BoundedFloatText
+    viscosity: widgets.Dropdown
+    results_view: widgets.HTML
+    specimens_view: widgets.HTML
+    checks_view: widgets.HTML
+    error: MessageArea
+    progress: ProgressBar
+    settings: Settings
+    series: Series | None = None
+    results: pd.DataFrame | None = None
+    table: pd.DataFrame | None = None
+    _raw: dict = field(default_factory=dict, repr=False)
+
+    def reload(self) -> None:
+        """Load the series at ``path`` again (the load button does the same)."""
+        self._load()
+
+    def _load(self) -> None:
+        self.error.guard(f"loading {self.path.value!r}")(self._load_now)()
+
+    def _load_now(self) -> None:
+        self.series = self.results = self.table = None
+        for view in (self.results_view, self.specimens_view, self.checks_view):
+            view.value = ""
+        path = Path(self.path.value.strip())
+        self.progress(0, 3, f"reading {path.name}")
+        try:
+            tables, files = read_tables(path)
+            self.progress(1, 3, "checking every value")
+            series = build_series(tables, path, files)
+        except Exception:
+            self.progress.finish("the series could not be read (problems listed below)", True)
+            raise
+        self.series = series
+        self.progress(2, 3, "reducing the tests")
+        self._recompute()
+        self.progress.finish(
+            f"{series.name}: {len(series.specimens)} specimens, "
+            f"{len(series.falling_head)} falling-head readings, "
+            f"{len(series.constant_head)} constant-head collections"
+        )
+
+    def _settings_changed(self, change) -> None:
+        if self.series is not None:
+            self.error.guard("recomputing with the new settings")(self._recompute)()
+
+    def _recompute(self) -> None:
+        self.settings = self.settings.with_changes(
+            reference_temperature=float(self.reference_temperature.value),
+            viscosity=self.viscosity.value,
+        )
+        self.results = series_results(self.series, self.settings)
+        self.table = results_table(self.results, self.settings)
+        shown = self.table.drop(columns=["checks"])
+        self.results_view.value = html_table(shown, _formats(shown))
+        as_read = specimens_as_read(self.series)
+        self.specimens_view.value = html_table(as_read, _formats(as_read))
+        failed = self.results[self.results["checks"].map(len) > 0]
+        if failed.empty:
+            self.checks_view.value = "<p>Every check passed for every specimen.</p>"
+        else:
+            rows = pd.DataFrame(
+                {
+                    "specimen": failed["specimen"],
+                    "method": failed["method"].str.replace("_", " "),
+                    "check that did not pass": failed["checks"].map("; ".join),
+                }
+            )
+            self.checks_view.value = html_table(rows, text_columns=("check that did not pass",))
+
+
+def series_panel(path: str | Path, settings: Settings | None = None) -> SeriesPanel:
+    """Build the open-a-series panel and load the series at `path`.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        Series folder or ``.xlsx`` workbook, shown in the path box.
+    settings : Settings, optional
+        Starting reference temperature and viscosity method.
+
+    Returns
+    -------
+    SeriesPanel
+    """
+    settings = settings or Settings()
+    path_box = widgets.Text(
+        value=str(path),
+        description="Series",
+        placeholder="folder of CSV files, or a .xlsx workbook",
+        layout=widgets.Layout(width="60%"),
+    )
+    load = widgets.Button(description="Load", icon="folder-open", button_style="primary")
+    reference = widgets.BoundedFloatText(
+        value=settings.reference_temperature,
+        min=0.5,
+        max=99.5,
+        step=0.5,
+        description="Reference T [°C]",
+        style={"description_width": "initial"},
+        layout=widgets.Layout(width="200px"),
+    )
+    viscosity = widgets.Dropdown(
+        options=[(VISCOSITY_LABELS.get(name, name), name) for name in VISCOSITY_METHODS],
+        value=settings.viscosity,
+        description="Viscosity",
+        layout=widgets.Layout(width="380px"),
+    )
+    results_view, specimens_view, checks_view = widgets.HTML(), widgets.HTML(), widgets.HTML()
+    tabs = widgets.Tab(
+        children=[
+            results_view,
+            widgets.VBox([checks_view]),
+            specimens_view,
+        ]
+    )
+    for index, title in enumerate(("Results", "Checks", "Specimens as read")):
+        tabs.set_title(index, title)
+    error, progress = MessageArea(), ProgressBar("Loading")
+    box = widgets.VBox(
+        [
+            widgets.HBox([path_box, load]),
+            widgets.HBox([reference, viscosity]),
+            progress.widget,
+            error.widget,
+            tabs,
+        ]
+    )
+    panel = SeriesPanel(
+        widget=box,
+        path=path_box,
+        load=load,
+        reference_temperature=reference,
+        viscosity=viscosity,
+        results_view=results_view,
+        specimens_view=specimens_view,
+        checks_view=checks_view,
+        error=error,
+        progress=progress,
+        settings=settings,
+    )
+    load.on_click(lambda _button: panel._load())
+    reference.observe(panel._settings_changed, names="value")
+    viscosity.observe(panel._settings_changed, names="value")
+    panel._load()
+    return panel

@@ -1,0 +1,126 @@
+"""Shared panel parts: the message area, the progress bar, the figure refresh, formats."""
+
+import warnings
+
+import plotly.graph_objects as go
+import pytest
+
+from kitchen.panels.common import (
+    MessageArea,
+    ProgressBar,
+    format_conductivity,
+    refresh_figure,
+    scratch_copy,
+)
+from kitchen.series import InputProblem, SeriesError
+
+
+def test_series_error_is_listed_problem_by_problem():
+    area = MessageArea()
+    problems = [
+        InputProblem("specimens.csv", 3, "height [mm]", "must be greater than zero"),
+        InputProblem("falling_head.csv", 9, "time [min]", "time does not increase"),
+    ]
+
+    @area.guard("loading the series")
+    def load():
+        raise SeriesError(problems)
+
+    assert load() is None
+    assert "specimens.csv, row 3, column 'height [mm]': must be greater than zero" in area.message
+    assert area.widget.value.count("<li>") == 2
+    assert "Traceback" not in area.widget.value
+
+
+def test_plain_refusal_is_shown_in_words_and_cleared_by_the_next_success():
+    area = MessageArea()
+    calls = []
+
+    @area.guard("refitting")
+    def refit(fail):
+        calls.append(fail)
+        if fail:
+            raise ValueError("the window needs at least three readings")
+        return 42
+
+    refit(True)
+    assert area.message == "Could not finish refitting: the window needs at least three readings"
+    assert isinstance(area.exception, ValueError)
+    assert refit(False) == 42
+    assert area.message == "" and area.widget.value == ""
+
+
+def test_unexpected_failure_keeps_its_traceback_folded_away():
+    area = MessageArea()
+
+    @area.guard("drawing")
+    def draw():
+        return 1 / 0
+
+    draw()
+    assert "ZeroDivisionError" in area.message
+    assert "<details>" in area.widget.value and "Traceback" in area.widget.value
+
+
+def test_warnings_in_a_callback_become_notes():
+    area = MessageArea()
+
+    @area.guard("fitting curves")
+    def fit():
+        warnings.warn("effort 'reduced': no curve drawn", stacklevel=1)
+        return "done"
+
+    assert fit() == "done"
+    assert area.notes == ["effort 'reduced': no curve drawn"]
+    assert "no curve drawn" in area.widget.value and area.message == ""
+
+
+def test_progress_bar_counts_and_finishes():
+    bar = ProgressBar("Export")
+    bar(2, 5, "charts")
+    assert (bar.bar.value, bar.bar.max) == (2, 5)
+    assert bar.label.value == "2 of 5: charts"
+    bar.finish("written", failed=False)
+    assert bar.bar.value == 5 and bar.bar.bar_style == "success"
+
+
+def test_refresh_figure_updates_traces_in_place():
+    widget = go.FigureWidget(go.Figure(go.Scatter(x=[1, 2], y=[3, 4], name="readings")))
+    first = widget.data[0]
+    refresh_figure(widget, go.Figure(go.Scatter(x=[5, 6, 7], y=[1, 1, 1], name="readings"),
+                                     layout={"title": {"text": "new"}}))
+    assert widget.data[0] is first  # same trace object: updated, not replaced
+    assert widget.data[0].x == (5, 6, 7)
+    assert widget.layout.title.text == "new"
+
+
+def test_refresh_figure_replaces_traces_when_the_structure_changes():
+    widget = go.FigureWidget(go.Figure(go.Scatter(x=[1], y=[1])))
+    refresh_figure(widget, go.Figure([go.Scatter(x=[1], y=[2]), go.Bar(x=[1], y=[3])]))
+    assert [trace.type for trace in widget.data] == ["scatter", "bar"]
+    assert widget.data[1].y == (3,)
+
+
+@pytest.mark.parametrize(
+    ("value", "unit", "text"),
+    [
+        (7.5592e-9, "m/s", "7.56 × 10⁻⁹ m/s"),
+        (7.5592e-9, "cm/s", "7.56 × 10⁻⁷ cm/s"),
+        (9.996e-10, "m/s", "1.00 × 10⁻⁹ m/s"),
+        (float("nan"), "m/s", "–"),
+    ],
+)
+def test_conductivity_format(value, unit, text):
+    assert format_conductivity(value, unit) == text
+
+
+def test_scratch_copy_leaves_the_original_alone(tmp_path):
+    source = tmp_path / "series"
+    source.mkdir()
+    (source / "specimens.csv").write_text("specimen\nA\n")
+    copy = scratch_copy(source, tmp_path / "scratch")
+    assert copy == tmp_path / "scratch" / "series"
+    (copy / "specimens.csv").write_text("changed")
+    assert (source / "specimens.csv").read_text() == "specimen\nA\n"
+    with pytest.raises(FileNotFoundError, match="not found"):
+        scratch_copy(tmp_path / "missing")
