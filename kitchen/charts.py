@@ -11,6 +11,7 @@ greyscale print.
 
 from __future__ import annotations
 
+import html
 import textwrap
 from dataclasses import replace
 
@@ -63,6 +64,7 @@ def memo_template() -> go.layout.Template:
         gridcolor=GRID,
         zeroline=False,
         title_standoff=8,
+        automargin=True,
     )
     return go.layout.Template(
         layout=dict(
@@ -77,6 +79,7 @@ def memo_template() -> go.layout.Template:
                 borderwidth=1,
                 font=dict(size=11),
                 groupclick="toggleitem",
+                traceorder="grouped",
                 tracegroupgap=6,
             ),
             title=dict(x=0.0, xanchor="left", xref="paper", font=dict(size=16)),
@@ -162,13 +165,24 @@ def add_caption(figure: go.Figure, lines, width: int = 160) -> go.Figure:
 
 def _k_title(unit: DisplayUnit, reference_temperature: float) -> str:
     label = f"k{reference_temperature:g}".replace(".", "_")
-    return f"hydraulic conductivity {label} at {reference_temperature:g} °C [{unit.unit}]"
+    return f"hydraulic conductivity {label} [{unit.unit}]"
 
 
 def _effort_order(specimens: pd.DataFrame) -> list[str]:
     labels = specimens["effort"].astype("string").fillna(NO_EFFORT)
     mean = specimens.assign(_label=labels).groupby("_label", sort=False)["dry_density"].mean()
     return list(mean.sort_values(kind="stable").index)
+
+
+def _escaped(value) -> str:
+    """Text from the input, escaped for plotly's HTML-like labels."""
+    return html.escape(str(value))
+
+
+def _group_title(effort: str) -> str:
+    if effort == NO_EFFORT:
+        return "specimens (no effort given)"
+    return f"effort: {html.escape(str(effort))}"
 
 
 def _effort_styles(specimens: pd.DataFrame) -> dict[str, tuple[str, str]]:
@@ -189,7 +203,7 @@ def _hover(rows: pd.DataFrame, unit: DisplayUnit, analysis: SeriesAnalysis) -> l
                 f"{scientific(row['k_high'] * unit.factor, html=True)}"
             )
         texts.append(
-            f"<b>{row['specimen']}</b> ({row['method'].replace('_', ' ')})<br>"
+            f"<b>{_escaped(row['specimen'])}</b> ({_escaped(row['method']).replace('_', ' ')})<br>"
             f"w = {w}, e = {row['void_ratio']:.3f}<br>"
             f"k = {scientific(row['k'] * unit.factor, html=True)} {unit.unit}<br>"
             f"{100 * analysis.confidence:g} %: {interval}<br>{row['verdict']}"
@@ -198,9 +212,13 @@ def _hover(rows: pd.DataFrame, unit: DisplayUnit, analysis: SeriesAnalysis) -> l
 
 
 def _specimen_traces(
-    analysis, x, y, unit: DisplayUnit, show_legend: bool, error_bars: bool
+    analysis, x, y, unit: DisplayUnit, show_legend: bool, error_bars: float | None
 ) -> list[go.Scatter]:
-    """One trace per effort and verdict: shape by effort, fill and colour by verdict."""
+    """One trace per effort and verdict: shape by effort, fill and colour by verdict.
+
+    `error_bars` is None for no bars, or the shortest bar drawn in decades of k: a bar
+    shorter than that would hide inside the marker and look like a dot in it.
+    """
     frame = analysis.specimens
     styles = _effort_styles(frame)
     labels = frame["effort"].astype("string").fillna(NO_EFFORT)
@@ -212,18 +230,20 @@ def _specimen_traces(
                 continue
             rows = frame[mask]
             error = None
-            if error_bars:
+            if error_bars is not None:
                 k = rows["k"].to_numpy() * unit.factor
-                high = (rows["k_high"].to_numpy() * unit.factor) - k
-                low = k - rows["k_low"].to_numpy() * unit.factor
+                k_high = rows["k_high"].to_numpy() * unit.factor
+                k_low = rows["k_low"].to_numpy() * unit.factor
+                with np.errstate(invalid="ignore", divide="ignore"):
+                    shown = np.log10(k_high / k_low) >= error_bars
                 error = dict(
                     type="data",
-                    array=np.nan_to_num(high),
+                    array=np.where(shown, k_high - k, 0.0),
                     symmetric=False,
-                    arrayminus=np.nan_to_num(low),
+                    arrayminus=np.where(shown, k - k_low, 0.0),
                     color=VERDICT_COLOURS[verdict],
                     thickness=1.2,
-                    width=4,
+                    width=0,
                 )
             traces.append(
                 go.Scatter(
@@ -232,7 +252,7 @@ def _specimen_traces(
                     mode="markers",
                     name=verdict,
                     legendgroup=f"effort {effort}",
-                    legendgrouptitle_text=f"effort: {effort}",
+                    legendgrouptitle_text=_group_title(effort),
                     showlegend=show_legend,
                     marker=dict(
                         symbol=styles[effort][0] + VERDICT_FILL[verdict],
@@ -241,7 +261,7 @@ def _specimen_traces(
                         line=dict(width=1.6, color=VERDICT_COLOURS[verdict]),
                     ),
                     error_y=error,
-                    text=rows["specimen"].tolist(),
+                    text=[_escaped(v) for v in rows["specimen"]],
                     hovertext=_hover(rows, unit, analysis),
                     hoverinfo="text",
                     meta={"verdict": verdict, "effort": effort},
@@ -272,19 +292,69 @@ def _padded(values, fraction=0.06):
     return low - pad, high + pad
 
 
-def _log_axis(**extra) -> dict:
-    return dict(type="log", exponentformat="power", showexponent="all", **extra)
+ERROR_BAR_FRACTION = 0.03
+"""Error bars shorter than this fraction of the log-k axis are left out (hidden by markers)."""
+CRITERION_REACH = 2.0
+"""The criterion line is drawn when it lies within this many decades of the data."""
 
 
-def _k_values_range(analysis, unit) -> tuple[float, float]:
+def _k_axis(analysis, unit: DisplayUnit, extra=()) -> tuple[dict, str]:
+    """Log k axis over the data (and the criterion when near); a note when it is left off.
+
+    `extra` holds more values to keep in range, already in the display unit.
+    """
     values = np.concatenate(
-        [analysis.specimens[c].to_numpy(float) for c in ("k", "k_low", "k_high")]
-        + [[analysis.criterion]]
+        [analysis.specimens[c].to_numpy(float) * unit.factor for c in ("k", "k_low", "k_high")]
+        + [np.asarray(extra, dtype=float).ravel()]
     )
-    values = values[np.isfinite(values) & (values > 0)] * unit.factor
-    low, high = np.log10(values.min()), np.log10(values.max())
+    values = values[np.isfinite(values) & (values > 0)]
+    low, high = float(np.log10(values.min())), float(np.log10(values.max()))
+    criterion = float(np.log10(analysis.criterion * unit.factor))
+    note = ""
+    if low - CRITERION_REACH <= criterion <= high + CRITERION_REACH:
+        low, high = min(low, criterion), max(high, criterion)
+    else:
+        side = "below" if criterion < low else "above"
+        note = (
+            f"criterion k ≤ {scientific(analysis.criterion * unit.factor, html=True)} "
+            f"{unit.unit} lies far {side} the plotted range"
+        )
     pad = max(0.15, 0.06 * (high - low))
-    return low - pad, high + pad
+    axis = dict(
+        type="log", range=[low - pad, high + pad], exponentformat="power", showexponent="all"
+    )
+    if high - low >= 1.5:
+        axis.update(
+            dtick=1, minor=dict(ticks="outside", dtick="D1", showgrid=True, gridcolor="#f1f3f4")
+        )
+    return axis, note
+
+
+def _note(figure: go.Figure, text: str, **where) -> None:
+    if text:
+        figure.add_annotation(
+            text=text,
+            xref="x domain",
+            yref="y domain",
+            x=0.01,
+            y=0.99,
+            xanchor="left",
+            yanchor="top",
+            showarrow=False,
+            font=dict(size=11, color=MUTED),
+            bgcolor="rgba(255,255,255,0.85)",
+            **where,
+        )
+
+
+def _interval_texts(unit: DisplayUnit, *values) -> list[str]:
+    """The values written with enough digits to tell them apart (at most 6)."""
+    texts = []
+    for digits in range(3, 7):
+        texts = [scientific(v * unit.factor, digits, html=True) for v in values]
+        if len(set(texts)) == len(set(values)):
+            break
+    return texts
 
 
 # --- the compaction–conductivity chart ------------------------------------------------------
@@ -353,7 +423,10 @@ def compaction_conductivity_figure(
             col=1,
         )
     styles = _effort_styles(frame)
-    for effort, curve in analysis.compaction_curves.items():
+    for effort in _effort_order(frame):
+        curve = analysis.compaction_curves.get(effort)
+        if curve is None:
+            continue
         w = np.linspace(curve.tested_water_content.min(), curve.tested_water_content.max(), 60)
         rho = np.asarray(curve.dry_density(w))
         y_values.append(rho)
@@ -364,7 +437,7 @@ def compaction_conductivity_figure(
                 mode="lines",
                 name=f"compaction curve ({curve.method})",
                 legendgroup=f"effort {effort}",
-                legendgrouptitle_text=f"effort: {effort}",
+                legendgrouptitle_text=_group_title(effort),
                 line=dict(color=INK, width=1.5, dash=styles.get(effort, ("", "solid"))[1]),
                 hoverinfo="name",
             ),
@@ -382,7 +455,7 @@ def compaction_conductivity_figure(
                 name="optimum of each effort",
                 legendgroup="optimums",
                 marker=dict(symbol="star", size=13, color="white", line=dict(color=INK, width=1.4)),
-                text=list(map(str, line.efforts)),
+                text=[_escaped(v) for v in line.efforts],
                 hoverinfo="text+x+y",
             ),
             row=1,
@@ -397,7 +470,7 @@ def compaction_conductivity_figure(
                     mode="lines",
                     name="line of optimums",
                     legendgroup="optimums",
-                    line=dict(color=MUTED, width=1.5, dash="dashdot"),
+                    line=dict(color=INK, width=1.3, dash="dashdot"),
                     hoverinfo="name",
                 ),
                 row=1,
@@ -409,7 +482,9 @@ def compaction_conductivity_figure(
         w = w[w >= 0]
         for saturation in SATURATION_LINES:
             rho = np.asarray(analysis.saturation_line(w, saturation)) * du.factor
-            name = "zero-air-voids (S = 100 %)" if saturation == 1.0 else f"S = {saturation:.0%}"
+            name = (
+                "zero-air-voids (S = 100 %)" if saturation == 1 else f"S = {100 * saturation:.0f} %"
+            )
             figure.add_trace(
                 go.Scatter(
                     x=w * 100.0,
@@ -419,8 +494,8 @@ def compaction_conductivity_figure(
                     legendgroup="saturation",
                     legendgrouptitle_text="saturation lines",
                     line=dict(
-                        color=MUTED if saturation < 1 else INK,
-                        width=1.2,
+                        color=MUTED,
+                        width=1.5 if saturation == 1 else 1.1,
                         dash=SATURATION_DASHES.get(saturation, "dot"),
                     ),
                     hoverinfo="name",
@@ -434,7 +509,7 @@ def compaction_conductivity_figure(
                 figure.add_annotation(
                     x=w[last] * 100.0,
                     y=rho[last],
-                    text=f"S = {saturation:.0%}",
+                    text=f"S = {100 * saturation:.0f} %",
                     showarrow=False,
                     xanchor="right",
                     yanchor="bottom",
@@ -442,26 +517,28 @@ def compaction_conductivity_figure(
                     row=1,
                     col=1,
                 )
-    for trace in _specimen_traces(plane, w_pct, frame["dry_density"] * du.factor, ku, True, False):
+    k_axis, note = _k_axis(plane, ku)
+    shortest = ERROR_BAR_FRACTION * (k_axis["range"][1] - k_axis["range"][0])
+    for trace in _specimen_traces(plane, w_pct, frame["dry_density"] * du.factor, ku, True, None):
         figure.add_trace(trace, row=1, col=1)
-    for trace in _specimen_traces(plane, w_pct, frame["k"] * ku.factor, ku, False, True):
+    for trace in _specimen_traces(plane, w_pct, frame["k"] * ku.factor, ku, False, shortest):
         figure.add_trace(trace, row=2, col=1)
-    figure.add_trace(_criterion_trace(analysis, x_range, ku), row=2, col=1)
+    if not note:
+        figure.add_trace(_criterion_trace(analysis, x_range, ku), row=2, col=1)
+    _note(figure, note, row=2, col=1)
     figure.update_xaxes(range=list(x_range))
     figure.update_xaxes(title_text="molding water content w [%]", row=2, col=1)
     figure.update_yaxes(title_text=du.title(), range=[y_low, y_high], row=1, col=1)
     figure.update_yaxes(
-        title_text=_k_title(ku, analysis.reference_temperature),
-        range=list(_k_values_range(plane, ku)),
-        row=2,
-        col=1,
-        **_log_axis(),
+        title_text=_k_title(ku, analysis.reference_temperature), row=2, col=1, **k_axis
     )
     figure.update_layout(
         title_text="Compaction and hydraulic conductivity"
         f"<br><sup>criterion k ≤ {scientific(analysis.criterion * ku.factor, html=True)} "
         f"{ku.unit}; filled: meets, open: does not meet, dotted: not conclusive</sup>",
-        margin=dict(t=95),
+        margin=dict(t=95, b=60),
+        legend=dict(orientation="h", x=0.0, xanchor="left", y=-0.075, yanchor="top"),
+        height=1120,
     )
     return figure
 
@@ -593,15 +670,16 @@ def conductivity_trend_figure(
         )
     if analysis.grading is not None and against in ("void_ratio", "dry_density"):
         _add_predictions(figure, analysis, frame, column, scale, ku)
-    for trace in _specimen_traces(plotted, x * scale, frame["k"] * ku.factor, ku, True, True):
+    drawn = [np.asarray(trace.y, dtype=float) for trace in figure.data]
+    k_axis, note = _k_axis(plotted, ku, np.concatenate(drawn) if drawn else ())
+    shortest = ERROR_BAR_FRACTION * (k_axis["range"][1] - k_axis["range"][0])
+    for trace in _specimen_traces(plotted, x * scale, frame["k"] * ku.factor, ku, True, shortest):
         figure.add_trace(trace)
-    figure.add_trace(_criterion_trace(analysis, x_range, ku))
+    if not note:
+        figure.add_trace(_criterion_trace(analysis, x_range, ku))
+    _note(figure, note)
     figure.update_xaxes(title_text=title, range=list(x_range))
-    figure.update_yaxes(
-        title_text=_k_title(ku, analysis.reference_temperature),
-        range=list(_k_values_range(plotted, ku)),
-        **_log_axis(),
-    )
+    figure.update_yaxes(title_text=_k_title(ku, analysis.reference_temperature), **k_axis)
     subject = {
         "void_ratio": "void ratio",
         "dry_density": du.quantity,
@@ -638,7 +716,7 @@ def _add_predictions(figure, analysis, frame, column, scale, ku):
                         color=MUTED if inside else "#b0b7bd",
                         line=dict(width=2, color=MUTED if inside else "#b0b7bd"),
                     ),
-                    text=rows["specimen"].tolist(),
+                    text=[_escaped(v) for v in rows["specimen"]],
                     hovertemplate="%{text}: %{y:.3g} " + ku.unit + f"<extra>{name}</extra>",
                 )
             )
@@ -655,8 +733,18 @@ def _time_unit(span_seconds: float) -> tuple[str, float]:
     return "s", 1.0
 
 
+def _fitted_head(result) -> np.ndarray:
+    """Fitted head over the window, for a FallingHeadAnalysis or a FallingHeadResult. [m]"""
+    if hasattr(result, "fitted_head"):
+        return np.asarray(result.fitted_head, dtype=float)
+    fit = getattr(result, "fit", None)
+    if fit is None:
+        return np.asarray(result.head, dtype=float)[[0, -1]]
+    return np.exp(fit.predict(np.asarray(result.reference_time, dtype=float)))
+
+
 def falling_head_figure(
-    readings: pd.DataFrame,
+    readings: pd.DataFrame | None,
     result,
     k_unit_name: str = "m/s",
     reference_temperature: float = 20.0,
@@ -666,11 +754,13 @@ def falling_head_figure(
 
     Parameters
     ----------
-    readings : pandas.DataFrame
-        The specimen's rows of the ``falling_head`` table: ``time`` [s], ``head`` [m].
-    result : kitchen.falling_head.FallingHeadResult
-        Its reduction: ``start``, ``stop`` (the window), ``fit`` (ln h on the
-        reference-equivalent time), ``reference_time`` [s], ``k_reference`` and interval.
+    readings : pandas.DataFrame or None
+        The specimen's rows of the ``falling_head`` table, ``time`` [s] and ``head`` [m];
+        None to take every reading from `result` (a FallingHeadAnalysis carries them).
+    result : kitchen.falling_head.FallingHeadAnalysis or FallingHeadResult
+        The reduction: ``start``, ``stop`` (the window, positions in the readings), the
+        fit (``fitted_head``, or ``fit`` and ``reference_time``), ``k_reference`` with
+        ``k_reference_low`` and ``k_reference_high``.
     k_unit_name : {"m/s", "cm/s"}
     reference_temperature : float
         For the label of k. [degC]
@@ -686,8 +776,9 @@ def falling_head_figure(
     ASTM D5084, Methods B and C: ln h falls linearly with time (from memory).
     """
     ku = k_unit(k_unit_name)
-    time = readings["time"].to_numpy(float)
-    head = readings["head"].to_numpy(float)
+    source = result if readings is None else readings
+    time = np.asarray(source.time if readings is None else readings["time"], dtype=float)
+    head = np.asarray(source.head if readings is None else readings["head"], dtype=float)
     unit, divisor = _time_unit(float(time[-1] - time[0]) if time.size else 0.0)
     start, stop = int(result.start), int(result.stop)
     used = np.zeros(time.size, dtype=bool)
@@ -703,63 +794,60 @@ def falling_head_figure(
         annotation_position="top left",
         annotation_font=dict(size=11, color=ZONE),
     )
-    for mask, name, marker in (
+    markers = (
         (
             ~used,
             "readings outside the window",
             dict(symbol="circle-open", size=6, color=MUTED, line=dict(width=1.2)),
         ),
-        (used, "readings used", dict(symbol="circle", size=5, color=INK)),
-    ):
-        if not mask.any():
-            continue
-        t, h = time[mask], head[mask]
-        keep = decimation_indices(h, max_points)
-        figure.add_trace(
-            go.Scatter(
-                x=t[keep] / divisor,
-                y=h[keep],
-                mode="markers",
-                name=name,
-                marker=marker,
-                hovertemplate="t = %{x:.4g} " + unit + "<br>h = %{y:.4g} m<extra></extra>",
+        (used, "readings in the window", dict(symbol="circle", size=5, color=INK)),
+    )
+    for mask, name, marker in markers:
+        if mask.any():
+            t, h = time[mask], head[mask]
+            keep = decimation_indices(h, max_points)
+            figure.add_trace(
+                go.Scatter(
+                    x=t[keep] / divisor,
+                    y=h[keep],
+                    mode="markers",
+                    name=name,
+                    marker=marker,
+                    hovertemplate="t = %{x:.4g} " + unit + "<br>h = %{y:.4g} m<extra></extra>",
+                )
             )
+    fitted = _fitted_head(result)
+    t = time[start:stop] if fitted.size == stop - start else time[[start, stop - 1]]
+    keep = decimation_indices(fitted, max_points)
+    datum = getattr(result, "fit_kind", "log_linear") == "datum"
+    figure.add_trace(
+        go.Scatter(
+            x=t[keep] / divisor,
+            y=fitted[keep],
+            mode="lines",
+            name="decay to a fitted datum h∞" if datum else "least-squares line of ln h",
+            line=dict(color=VERDICT_COLOURS[DOES_NOT_MEET], width=2),
+            hoverinfo="name",
         )
-    fit = getattr(result, "fit", None)
-    if fit is not None:
-        fitted = np.exp(fit.predict(np.asarray(result.reference_time, dtype=float)))
-        t = time[start:stop]
-        keep = decimation_indices(fitted, max_points)
-        figure.add_trace(
-            go.Scatter(
-                x=t[keep] / divisor,
-                y=fitted[keep],
-                mode="lines",
-                name="least-squares line of ln h",
-                line=dict(color=VERDICT_COLOURS[DOES_NOT_MEET], width=2),
-                hoverinfo="name",
-            )
-        )
-    elif stop - start == 2:
-        figure.add_trace(
-            go.Scatter(
-                x=time[[start, stop - 1]] / divisor,
-                y=head[[start, stop - 1]],
-                mode="lines",
-                name="two-reading line",
-                line=dict(color=VERDICT_COLOURS[DOES_NOT_MEET], width=2),
-            )
+    )
+    asymptote = float(getattr(result, "asymptote", 0.0) or 0.0)
+    if datum and asymptote > 0:
+        figure.add_hline(
+            y=asymptote,
+            line=dict(color=MUTED, dash="dot", width=1.2),
+            annotation_text=f"h∞ = {asymptote:.4g} m",
+            annotation_position="bottom right",
         )
     figure.update_xaxes(title_text=f"elapsed time t [{unit}]")
-    figure.update_yaxes(title_text="head difference h [m]", **_log_axis())
-    factor = ku.factor
-    k_text = scientific(result.k_reference * factor, html=True)
-    low = scientific(result.k_reference_low * factor, html=True)
-    high = scientific(result.k_reference_high * factor, html=True)
+    figure.update_yaxes(title_text="head difference h [m]", type="log", exponentformat="power")
+    k_text, low, high = _interval_texts(
+        ku, result.k_reference, result.k_reference_low, result.k_reference_high
+    )
     label = f"k{reference_temperature:g}".replace(".", "_")
     figure.update_layout(
-        title_text=f"Specimen {result.specimen}: falling head<br><sup>{label} = {k_text} "
-        f"{ku.unit} (95 %: {low} – {high}), readings {start + 1}–{stop} of {time.size}</sup>",
+        title_text=f"Specimen {html.escape(str(result.specimen))}: falling head<br><sup>"
+        f"{label} = {k_text} {ku.unit} (95 %: {low} – {high}), readings {start + 1}–{stop} "
+        f"of {time.size}</sup>",
         legend=dict(x=0.99, xanchor="right", y=0.99, yanchor="top"),
     )
     return figure
@@ -772,9 +860,11 @@ def constant_head_figure(
 
     Parameters
     ----------
-    result : kitchen.constant_head.ConstantHeadResult
-        With ``collections`` (``gradient``, ``darcy_velocity`` [m/s], ``viscosity_ratio``),
-        ``fit`` (velocity at the reference temperature on gradient) and ``k_reference``.
+    result : kitchen.constant_head.ConstantHeadAnalysis or ConstantHeadResult
+        The reduction: its ``collections`` (``gradient``, ``darcy_velocity`` [m/s],
+        ``viscosity_ratio``), the fit of the corrected velocity on the gradient through
+        the origin, and ``k_reference`` with ``k_reference_low`` and ``k_reference_high``
+        (the interval drawn as a band).
     k_unit_name : {"m/s", "cm/s"}
         Unit of k, and so of the velocity.
     reference_temperature : float
@@ -789,17 +879,18 @@ def constant_head_figure(
     Darcy's law v = k·i; ASTM D2434 (establish the laminar range, from memory).
     """
     ku = k_unit(k_unit_name)
-    rows = result.collections
+    plain = getattr(result, "result", result)
+    rows = plain.collections
     i = rows["gradient"].to_numpy(float)
     v = rows["darcy_velocity"].to_numpy(float) * rows["viscosity_ratio"].to_numpy(float)
     reach = np.array([0.0, 1.1 * float(i.max())])
     figure = go.Figure(layout=dict(template=memo_template()))
-    fit = getattr(result, "fit", None)
-    if fit is not None:
+    k, low, high = result.k_reference, result.k_reference_low, result.k_reference_high
+    if high > low:
         figure.add_trace(
             go.Scatter(
                 x=reach,
-                y=fit.slope_low * reach * ku.factor,
+                y=low * reach * ku.factor,
                 mode="lines",
                 line=dict(width=0),
                 showlegend=False,
@@ -809,19 +900,19 @@ def constant_head_figure(
         figure.add_trace(
             go.Scatter(
                 x=reach,
-                y=fit.slope_high * reach * ku.factor,
+                y=high * reach * ku.factor,
                 mode="lines",
                 line=dict(width=0),
                 fill="tonexty",
                 fillcolor="rgba(29,39,49,0.11)",
                 hoverinfo="skip",
-                name=f"{100 * fit.confidence:g} % interval of the slope",
+                name="95 % interval of k",
             )
         )
     figure.add_trace(
         go.Scatter(
             x=reach,
-            y=result.k_reference * reach * ku.factor,
+            y=k * reach * ku.factor,
             mode="lines",
             name="v = k·i through the origin",
             line=dict(color=VERDICT_COLOURS[DOES_NOT_MEET], width=2),
@@ -840,16 +931,15 @@ def constant_head_figure(
     label = f"k{reference_temperature:g}".replace(".", "_")
     figure.update_xaxes(title_text="hydraulic gradient i [–]", rangemode="tozero")
     figure.update_yaxes(
-        title_text=f"Darcy velocity at {reference_temperature:g} °C, v·R_T [{ku.unit}]",
+        title_text=f"Darcy velocity at {reference_temperature:g} °C, v·R<sub>T</sub> [{ku.unit}]",
         rangemode="tozero",
         exponentformat="power",
     )
-    k_text = scientific(result.k_reference * ku.factor, html=True)
-    low = scientific(result.k_reference_low * ku.factor, html=True)
-    high = scientific(result.k_reference_high * ku.factor, html=True)
+    k_text, low_text, high_text = _interval_texts(ku, k, low, high)
     figure.update_layout(
-        title_text=f"Specimen {result.specimen}: constant head<br><sup>{label} = {k_text} "
-        f"{ku.unit} (95 %: {low} – {high}), {result.n} collection(s)</sup>",
+        title_text=f"Specimen {html.escape(str(result.specimen))}: constant head<br><sup>"
+        f"{label} = {k_text} {ku.unit} (95 %: {low_text} – {high_text}), {result.n} "
+        "collection(s)</sup>",
         legend=dict(x=0.01, xanchor="left", y=0.99, yanchor="top"),
     )
     return figure

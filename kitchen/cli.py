@@ -1,8 +1,15 @@
 """The command line: a thin layer over the package's functions.
 
-``python -m kitchen report SERIES --out DIR`` reduces a series and writes its results.
+``python -m kitchen report SERIES --out DIR`` reduces a series (its effective data: the raw
+files with the revisions of its log applied) and writes its results.
+``python -m kitchen revise SERIES --specimen ID --field F --value "4.95 in" --reason ...``
+records a revision (``--withdraw ID --reason ...`` withdraws one) and says what it changed;
+``python -m kitchen history SERIES`` lists the revisions.
+``report`` also writes the memo pack (:mod:`kitchen.memo`): the charts as HTML, PNG and
+SVG, ``results.xlsx`` and ``report.html``, printing its progress on stderr.
 Input problems are printed as a list (file, row, column, what was expected) and the
-command exits with status 2; it never shows a traceback for bad input.
+command exits with status 2; it never shows a traceback for bad input. Without Chromium
+for the PNG and SVG charts it exits with status 3, naming what to install.
 """
 
 from __future__ import annotations
@@ -11,13 +18,18 @@ import argparse
 import sys
 from pathlib import Path
 
-from .results import Settings, results_table, series_results
-from .series import SeriesError, load_series
+from .falling_head import FALLING_HEAD_FITS
+from .memo import ImageExportUnavailable
+from .results import CAPILLARY_RISE_OPTIONS, Settings, results_table, series_results
+from .revisions import load_effective_series
+from .series import TABLE_NAMES, SeriesError
+from .uncertainty import PROPAGATION_METHODS
 from .water import VISCOSITY_METHODS
 
 __all__ = ["main", "build_parser"]
 
 EXIT_INPUT = 2
+EXIT_ENVIRONMENT = 3
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -42,18 +54,197 @@ def build_parser() -> argparse.ArgumentParser:
         help="water viscosity: kestin (Kestin et al. 1978, default), iapws (IAPWS 2008), "
         "d5084 (the ASTM D5084 equation)",
     )
+    report.add_argument(
+        "--falling-head-fit",
+        choices=FALLING_HEAD_FITS,
+        default="log_linear",
+        help="log_linear (ln h on time, default) or datum (decay to a fitted tailwater datum)",
+    )
+    report.add_argument(
+        "--uncertainty",
+        choices=PROPAGATION_METHODS,
+        default="first_order",
+        help="interval on k: first_order (GUM, JCGM 100:2008, default) or monte_carlo "
+        "(JCGM 101:2008)",
+    )
+    report.add_argument(
+        "--capillary-rise",
+        choices=CAPILLARY_RISE_OPTIONS,
+        default="off",
+        help="off (heads as read, default) or jurin (heads less the standpipe's capillary rise)",
+    )
+    _add_memo_options(report)
+    _add_revision_commands(commands)
     return parser
 
 
-def _report(arguments) -> int:
-    from .files import write_csv
+def _add_memo_options(report) -> None:
+    report.add_argument(
+        "--criterion",
+        type=float,
+        default=1e-9,
+        help="largest k allowed, m/s, from the project specification (default 1e-9)",
+    )
+    report.add_argument(
+        "--k-unit", choices=("m/s", "cm/s"), default="m/s", help="k unit of charts and report"
+    )
+    report.add_argument(
+        "--density-unit",
+        choices=("Mg/m3", "kN/m3", "lb/ft3"),
+        default="Mg/m3",
+        help="density unit of charts and report (kN/m3 shows the dry unit weight)",
+    )
+    report.add_argument(
+        "--no-images",
+        action="store_true",
+        help="skip the PNG and SVG charts (they need Chromium); HTML charts are still written",
+    )
 
-    settings = Settings(arguments.reference_temperature, arguments.viscosity)
-    series = load_series(arguments.series)
+
+def _progress(done: int, total: int, what: str) -> None:
+    print(f"[{done}/{total}] {what}", file=sys.stderr, flush=True)
+
+
+def _add_revision_commands(commands) -> None:
+    revise = commands.add_parser(
+        "revise",
+        help="correct one value of a series (the raw files are not touched)",
+        description="Append a revision to the series' log (revisions.csv in the series folder, "
+        "<stem>.revisions.csv beside a workbook), or withdraw one, and say what it changed.",
+    )
+    revise.add_argument("series", type=Path, help="series folder or .xlsx workbook")
+    revise.add_argument("--specimen", help="specimen id")
+    revise.add_argument("--field", help="value to revise: height, diameter, dry_mass, head...")
+    revise.add_argument("--value", help='new value with its unit, for example "4.95 in"')
+    revise.add_argument(
+        "--reading", type=int, help="for a reading: its row number in the file (header = row 1)"
+    )
+    revise.add_argument("--table", choices=TABLE_NAMES, help="default: specimens, or the readings")
+    revise.add_argument("--withdraw", metavar="ID", help="withdraw the revision with this id")
+    revise.add_argument("--reason", required=True, help="why (required)")
+    revise.add_argument("--who", default="", help="who makes the revision")
+    revise.add_argument(
+        "--criterion", type=float, help="largest k allowed, m/s, to show each verdict"
+    )
+    history = commands.add_parser("history", help="list a series' revisions")
+    history.add_argument("series", type=Path, help="series folder or .xlsx workbook")
+    history.add_argument("--out", type=Path, help="also write the history to this CSV file")
+
+
+def _report(arguments) -> int:
+    from .memo import export_memo_pack
+
+    settings = Settings(
+        arguments.reference_temperature,
+        arguments.viscosity,
+        uncertainty_method=arguments.uncertainty,
+        falling_head_fit=arguments.falling_head_fit,
+        capillary_rise=arguments.capillary_rise,
+    )
+    effective = load_effective_series(arguments.series)
+    series = effective.series
     results = series_results(series, settings)
     table = results_table(results, settings)
-    path = write_csv(arguments.out / "results.csv", table)
+    pack = export_memo_pack(
+        series,
+        arguments.out,
+        settings=settings,
+        criterion=arguments.criterion,
+        k_unit=arguments.k_unit,
+        density_unit=arguments.density_unit,
+        results=results,
+        images=not arguments.no_images,
+        revision_count=effective.revision_count,
+        revision_log=effective.log_path if effective.log_sha256 else None,
+        revision_log_sha256=effective.log_sha256,
+        progress=_progress,
+    )
+    path = arguments.out / "results.csv"
     print(f"{len(table)} result row(s) for {series.name} written to {path}")
+    print(f"memo pack: {len(pack)} file(s) in {arguments.out} ({pack.seconds:.1f} s)")
+    print(f"{effective.revision_count} revision(s) applied from {effective.log_path}")
+    return 0
+
+
+def _revise(arguments, parser) -> int:
+    from .revisions import revise, revision_effect, withdraw
+
+    value_options = ("specimen", "field", "value", "reading", "table")
+    if arguments.withdraw:
+        given = [f"--{name}" for name in value_options if getattr(arguments, name) is not None]
+        if given:
+            parser.error(f"--withdraw takes only --reason and --who, not {', '.join(given)}")
+        row = withdraw(
+            arguments.series, arguments.withdraw, reason=arguments.reason, who=arguments.who
+        )
+        print(f"recorded withdrawal {row.id} of revision {row.withdraws}")
+    else:
+        needed = ("specimen", "field", "value")
+        missing = [f"--{name}" for name in needed if getattr(arguments, name) is None]
+        if missing:
+            parser.error(f"revise needs {', '.join(missing)} (or --withdraw ID)")
+        row = revise(
+            arguments.series,
+            specimen=arguments.specimen,
+            field=arguments.field,
+            value=arguments.value,
+            reason=arguments.reason,
+            reading=arguments.reading,
+            table=arguments.table,
+            who=arguments.who,
+        )
+        print(f"recorded revision {row.id}")
+    print(f"  {row.describe()}")
+    try:
+        moved = revision_effect(arguments.series, row.id, criterion=arguments.criterion)
+    except Exception as error:  # the revision stands; only the summary failed
+        print(
+            f"kitchen: revision {row.id} is recorded, but what it changed could not be worked "
+            f"out: {type(error).__name__}: {error}",
+            file=sys.stderr,
+        )
+        return 0
+    if moved.empty:
+        print("no result moved")
+    for _, change in moved.iterrows():
+        print(f"  {change['specimen']} {change['method']}: " + _change_words(change))
+    return 0
+
+
+def _change_words(change) -> str:
+    def pair(name, scale, form, unit=""):
+        old, new = change[f"{name}_before"], change[f"{name}_after"]
+        words = {True: "yes", False: "no"}
+        text = [
+            format(v * scale, form) if isinstance(v, float) else words.get(v, str(v))
+            for v in (old, new)
+        ]
+        return f"{text[0]} -> {text[1]}{unit}"
+
+    words = [
+        f"dry density {pair('dry_density', 1e-3, '.4f', ' Mg/m3')}",
+        f"void ratio {pair('void_ratio', 1.0, '.4f')}",
+        f"k20 {pair('k_reference', 1.0, '.3g', ' m/s')}",
+        f"valid {pair('valid', 1, '')}",
+    ]
+    if not change.isna()["verdict_after"]:
+        words.append(f"verdict {pair('verdict', 1, '')}")
+    return "; ".join(words)
+
+
+def _history(arguments) -> int:
+    from .files import write_csv
+    from .revisions import format_history, history_table, read_revisions, revisions_path
+
+    if not arguments.series.exists():
+        raise ValueError(f"{arguments.series}: not found: expected a series folder or .xlsx")
+    revisions = read_revisions(arguments.series)
+    table = history_table(revisions)
+    standing = int((table["status"] == "in force").sum())
+    print(f"{len(table)} row(s) in {revisions_path(arguments.series)}: {standing} in force")
+    print(format_history(revisions))
+    if arguments.out is not None:
+        print(f"history written to {write_csv(arguments.out, table)}")
     return 0
 
 
@@ -64,9 +255,16 @@ def main(argv: list[str] | None = None) -> int:
     try:
         if arguments.command == "report":
             return _report(arguments)
+        if arguments.command == "revise":
+            return _revise(arguments, parser)
+        if arguments.command == "history":
+            return _history(arguments)
     except SeriesError as error:
         print(f"kitchen: {arguments.series}: {error}", file=sys.stderr)
         return EXIT_INPUT
+    except ImageExportUnavailable as error:
+        print(f"kitchen: {error} (or pass --no-images)", file=sys.stderr)
+        return EXIT_ENVIRONMENT
     except (ValueError, OSError) as error:
         print(f"kitchen: {error}", file=sys.stderr)
         return EXIT_INPUT

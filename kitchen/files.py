@@ -154,9 +154,9 @@ def append_line(path: str | Path, line: bytes, header: bytes = b"") -> Path:
     -----
     The file is opened with ``O_APPEND`` and the whole line goes in one ``os.write``: on
     POSIX systems each write then lands whole at the end of the file, so several
-    processes appending at once never lose or interleave a line. If the file does not end
-    with a newline (an earlier write was cut short), the line starts with one, so a torn
-    line never swallows the next.
+    processes appending at once never lose or interleave a line. A write the system cuts
+    short (a full disk) raises; the torn line it leaves is for a person to mend, and
+    readers of the file should name it.
     """
     path = Path(path)
     data = line if line.endswith(b"\n") else line + b"\n"
@@ -167,19 +167,11 @@ def append_line(path: str | Path, line: bytes, header: bytes = b"") -> Path:
         flags |= os.O_CREAT
     handle = os.open(path, flags, 0o644)
     try:
-        if os.fstat(handle).st_size and not _ends_with_newline(path):
-            data = b"\n" + data
         _write_all_at_once(handle, data, path)
         os.fsync(handle)
     finally:
         os.close(handle)
     return path
-
-
-def _ends_with_newline(path: Path) -> bool:
-    with open(path, "rb") as stream:
-        stream.seek(-1, os.SEEK_END)
-        return stream.read(1) == b"\n"
 
 
 @contextlib.contextmanager

@@ -87,6 +87,23 @@ def _too_large(*values):
         raise ValueError("the values are too large to fit in double precision; rescale them")
 
 
+_BLOCK = 8192  # dot products run in blocks this long (see _dot)
+
+
+def _dot(a, b):
+    """Dot product of two long vectors, in blocks of `_BLOCK` summed in Python.
+
+    Blocks stay below the length at which OpenBLAS hands a dot product to several threads;
+    on a busy machine that hand-off can stall for milliseconds to seconds, while the blocked
+    single-thread loop costs about the same as one call on an idle one.
+    """
+    if a.size <= _BLOCK:
+        return float(np.dot(a, b))
+    return float(
+        sum(np.dot(a[i : i + _BLOCK], b[i : i + _BLOCK]) for i in range(0, a.size, _BLOCK))
+    )
+
+
 def _t_quantile(confidence, dof):
     """Two-sided Student-t quantile t_{(1+confidence)/2, dof}."""
     return float(special.stdtrit(dof, 0.5 + 0.5 * confidence))
@@ -97,8 +114,28 @@ def _t_quantile(confidence, dof):
 class LinearFit:
     """Ordinary least-squares line ``y = intercept + slope * x`` with Student-t intervals.
 
-    Intervals are two-sided at `confidence`. ``residuals`` (``y - fitted``, input order) is
-    computed on first access. Units follow the data: slope in [y unit / x unit].
+    Attributes
+    ----------
+    slope, intercept : float
+        Estimates. [y unit / x unit], [y unit]
+    slope_standard_error, intercept_standard_error : float
+        Standard errors. [as the estimates]
+    slope_low, slope_high, intercept_low, intercept_high : float
+        Two-sided Student-t interval at `confidence`, n - 2 degrees of freedom.
+    r_squared : float
+        Coefficient of determination (1 when y is constant). [-]
+    residual_standard_deviation : float
+        ``sqrt(sum(residuals**2) / (n - 2))``. [y unit]
+    n : int
+        Number of points.
+    confidence : float
+        Confidence level of the intervals and band. [-]
+    x_mean, sxx, y_mean : float
+        Mean of x, sum of squared deviations of x from it, mean of y (for the band).
+    t_quantile : float
+        Student-t quantile used for the intervals. [-]
+    residuals : numpy.ndarray
+        Observed minus fitted y in input order, read-only, computed on first access. [y unit]
     """
 
     slope: float
@@ -125,7 +162,7 @@ class LinearFit:
     def residuals(self) -> np.ndarray:
         """Observed minus fitted y, in input order. [y unit]"""
         if self._residual_source is None:
-            raise AttributeError("this LinearFit was built without its data")
+            raise ValueError("this LinearFit was built without its data, so it has no residuals")
         values = np.asarray(self._residual_source(), dtype=np.float64)
         values.flags.writeable = False
         return values
@@ -204,10 +241,10 @@ def fit_line(x, y, confidence=0.95) -> LinearFit:
 
     Notes
     -----
-    One centred pass: the means are removed and ``sxx``, ``sxy``, ``syy`` are dot products of
-    the centred data. When R² is within 1e-6 of 1 the residual sum of squares is recomputed
-    from the residuals instead of ``syy - slope * sxy`` to avoid cancellation. R² is 1 when y is
-    constant (the line reproduces every reading).
+    One centred pass in cache-sized blocks: the means are removed and ``sxx``, ``sxy``, ``syy``
+    are dot products of the centred data. When R² is within 1e-6 of 1 the residual sum of
+    squares is recomputed from the residuals instead of ``syy - slope * sxy`` to avoid
+    cancellation. R² is 1 when y is constant (the line reproduces every reading).
 
     References
     ----------
@@ -219,10 +256,16 @@ def fit_line(x, y, confidence=0.95) -> LinearFit:
     n = x.size
     x_mean = _finite_sum(x, "x") / n
     y_mean = _finite_sum(y, "y") / n
-    xc = x - x_mean
-    yc = y - y_mean
+    xc, yc = np.empty(n), np.empty(n)
+    sxx = sxy = syy = 0.0
     with np.errstate(over="ignore", invalid="ignore"):
-        sxx, sxy, syy = float(np.dot(xc, xc)), float(np.dot(xc, yc)), float(np.dot(yc, yc))
+        for i in range(0, n, _BLOCK):  # centre and sum each block while it is in cache
+            xb = np.subtract(x[i : i + _BLOCK], x_mean, out=xc[i : i + _BLOCK])
+            yb = np.subtract(y[i : i + _BLOCK], y_mean, out=yc[i : i + _BLOCK])
+            sxx += np.dot(xb, xb)
+            sxy += np.dot(xb, yb)
+            syy += np.dot(yb, yb)
+    sxx, sxy, syy = float(sxx), float(sxy), float(syy)
     _too_large(sxx, sxy, syy)
     if not sxx > n * (64.0 * _EPS * x_mean) ** 2:
         raise ValueError(
@@ -230,9 +273,12 @@ def fit_line(x, y, confidence=0.95) -> LinearFit:
         )
     slope = sxy / sxx
     sse = syy - slope * sxy
-    if sse <= 1e-6 * syy:
-        residuals = yc - slope * xc
-        sse = float(np.dot(residuals, residuals))
+    if sse <= 1e-6 * syy:  # nearly exact line: sum the squared residuals themselves
+        sse, scratch = 0.0, np.empty(min(n, _BLOCK))
+        for i in range(0, n, _BLOCK):
+            r = np.multiply(xc[i : i + _BLOCK], slope, out=scratch[: min(_BLOCK, n - i)])
+            np.subtract(yc[i : i + _BLOCK], r, out=r)
+            sse += float(np.dot(r, r))
     return _line_result(
         n, slope, x_mean, y_mean, sxx, syy, sse, confidence, lambda: yc - slope * xc
     )
@@ -243,7 +289,24 @@ def fit_line(x, y, confidence=0.95) -> LinearFit:
 class ProportionalFit:
     """Least-squares line through the origin ``y = slope * x`` with a Student-t interval.
 
-    ``r_squared`` is the uncentred coefficient ``1 - sum(residuals**2) / sum(y**2)``.
+    Attributes
+    ----------
+    slope, slope_standard_error : float
+        Estimate and its standard error. [y unit / x unit]
+    slope_low, slope_high : float
+        Two-sided Student-t interval at `confidence`, n - 1 degrees of freedom.
+    r_squared : float
+        Uncentred coefficient ``1 - sum(residuals**2) / sum(y**2)``. [-]
+    residual_standard_deviation : float
+        ``sqrt(sum(residuals**2) / (n - 1))``. [y unit]
+    n : int
+        Number of points.
+    confidence : float
+        Confidence level of the interval. [-]
+    residuals : numpy.ndarray
+        Observed minus fitted y in input order, read-only. [y unit]
+    t_quantile : float
+        Student-t quantile used for the interval. [-]
     """
 
     slope: float
@@ -255,7 +318,7 @@ class ProportionalFit:
     n: int
     confidence: float
     residuals: np.ndarray = field(repr=False, compare=False)
-    t_quantile: float = field(default=float("nan"), repr=False)
+    t_quantile: float = field(repr=False)
 
     def predict(self, x) -> np.ndarray:
         """Fitted response at `x`. [y unit]"""
@@ -296,13 +359,15 @@ def fit_through_origin(x, y, confidence=0.95) -> ProportionalFit:
     _finite_sum(x, "x")
     _finite_sum(y, "y")
     with np.errstate(over="ignore", invalid="ignore"):
-        sxx, syy = float(np.dot(x, x)), float(np.dot(y, y))
+        sxx, syy = _dot(x, x), _dot(y, y)
     _too_large(sxx, syy)
     if sxx == 0.0:
-        raise ValueError("x is zero everywhere; the slope of a line through the origin is undefined")
-    slope = float(np.dot(x, y)) / sxx
+        raise ValueError(
+            "x is zero everywhere; the slope of a line through the origin is undefined"
+        )
+    slope = _dot(x, y) / sxx
     residuals = y - slope * x
-    sse = float(np.dot(residuals, residuals))
+    sse = _dot(residuals, residuals)
     _too_large(slope, sse)
     s = math.sqrt(sse / (n - 1))
     se = s / math.sqrt(sxx)
@@ -473,10 +538,43 @@ class WindowedLineFit:
 class DecayFit:
     """Fit of ``h(t) = asymptote + (initial - asymptote) * exp(-(t - t[0]) / time_constant)``.
 
-    Intervals are two-sided Student-t intervals at `confidence` with n - 3 degrees of freedom
-    from the linearised covariance ``s**2 (J^T J)^-1``. ``converged`` is False, and `message`
-    says why, when the record does not determine a decay; the numbers are then those of the
-    best fit at the edge of the searched range and must not be used as results.
+    Attributes
+    ----------
+    asymptote, asymptote_low, asymptote_high : float
+        Final head h_inf and its interval (infinite on one side when the record cannot tell
+        the decay from a straight line). [head unit]
+    initial, initial_low, initial_high : float
+        Fitted head h0 at the first reading time and its interval. [head unit]
+    time_constant, time_constant_low, time_constant_high : float
+        tau and its interval (upper end infinite when the rate interval reaches zero). [s]
+    r_squared : float
+        ``1 - sum(residuals**2) / sum((h - mean(h))**2)``. [-]
+    residual_standard_deviation : float
+        ``sqrt(sum(residuals**2) / (n - 3))``. [head unit]
+    n : int
+        Number of readings.
+    confidence : float
+        Confidence level of the intervals. [-]
+    residuals : numpy.ndarray
+        Observed minus fitted head in input order, read-only. [head unit]
+    iterations : int
+        Newton iterations on the full data (each one exponential per reading).
+    converged : bool
+        False, with the reason in `message`, when the record does not determine a decay; the
+        numbers are then those of the best fit at the edge of the searched range and must not
+        be reported as results.
+    message : str
+        Plain-language status.
+    asymptote_standard_error, initial_standard_error, time_constant_standard_error : float
+        Linearised standard errors. [head unit], [head unit], [s]
+    start_time : float
+        t[0], the time origin of the model. [s]
+
+    Notes
+    -----
+    Intervals are two-sided Student-t intervals with n - 3 degrees of freedom from the
+    linearised covariance ``s**2 (J^T J)^-1`` ([DS]_ ch. 24), widened for the asymptote as
+    described in :func:`fit_exponential_decay`.
     """
 
     asymptote: float
@@ -496,10 +594,10 @@ class DecayFit:
     iterations: int
     converged: bool
     message: str
-    asymptote_standard_error: float = float("nan")
-    initial_standard_error: float = float("nan")
-    time_constant_standard_error: float = float("nan")
-    start_time: float = 0.0
+    asymptote_standard_error: float
+    initial_standard_error: float
+    time_constant_standard_error: float
+    start_time: float
 
     def predict(self, t) -> np.ndarray:
         """Fitted head at times `t`. [head unit]"""
@@ -514,50 +612,71 @@ _MAX_ITERATIONS = 30
 
 
 def _decay_subsample(n, head=1024, body=3072):
-    """Indices and weights of a subsample whose weighted sums approximate full-data sums."""
+    """Indices and weights of a subsample whose weighted sums approximate full-data sums.
+
+    All of the first `head` readings, then a stride through the rest ending on the last reading;
+    each sample stands for the readings up to the next one.
+    """
     if n <= head + body:
         return np.arange(n), np.ones(n)
     stride = -(-(n - head) // body)
     index = np.concatenate([np.arange(head), np.arange(head, n, stride)])
-    weight = np.ones(index.size)
-    weight[head:] = stride
-    weight[-1] = n - index[-1]
-    return index, weight
+    if index[-1] != n - 1:
+        index = np.append(index, n - 1)
+    return index, np.diff(np.append(index, n)).astype(np.float64)
 
 
 def _profile_sse(rates, u, hc, w):
     """Weighted residual sum of squares after the linear parameters, one per rate (rows)."""
     rates = np.atleast_1d(rates)
     g = -np.expm1(np.multiply.outer(-rates, u)) / rates[:, None]
-    gc = g - ((g @ w) / w.sum())[:, None]
-    var = (gc * gc) @ w
-    slope = np.divide(gc @ (w * hc), var, out=np.zeros_like(var), where=var > 0)
+    gc = g - (np.einsum("ij,j->i", g, w) / w.sum())[:, None]  # einsum: no BLAS threads
+    var = np.einsum("ij,ij,j->i", gc, gc, w)
+    slope = np.divide(np.einsum("ij,j->i", gc, w * hc), var, out=np.zeros_like(var), where=var > 0)
     r = hc - slope[:, None] * gc
-    return (r * r) @ w
+    return np.einsum("ij,ij,j->i", r, r, w)
 
 
 def _decay_terms(rate, u, hc, h_sum, work):
     """Linear parameters, Newton system and Gauss-Newton matrix at one rate (full data).
 
-    `work` holds four scratch arrays; they end as g, dg/drate, d2g/drate2 and u*exp(-rate u).
+    `work` holds four scratch arrays, filled as g, dg/drate, d2g/drate2 and u*exp(-rate u);
+    the data are processed in blocks so that each block's terms are summed while in cache.
     """
     n = u.size
-    g, gk, gkk, e = work
-    np.multiply(u, -rate, out=e)
-    np.exp(e, out=e)
-    np.subtract(1.0, e, out=g)
-    g *= 1.0 / rate  # g = (1 - e) / rate
-    np.multiply(u, e, out=e)  # e now holds u * exp(-rate u)
-    np.subtract(e, g, out=gk)
-    gk *= 1.0 / rate  # dg/drate = (u e - g) / rate
-    np.multiply(u, e, out=gkk)
-    gkk += gk
-    gkk += gk
-    gkk *= -1.0 / rate  # d2g/drate2 = -(u**2 e + 2 dg/drate) / rate
-    sg, sk, skk2 = g.sum(), gk.sum(), gkk.sum()
-    sgg, sgk, skk, sgkk = np.dot(g, g), np.dot(g, gk), np.dot(gk, gk), np.dot(g, gkk)
-    shg, shk, shkk = np.dot(hc, g), np.dot(hc, gk), np.dot(hc, gkk)
-    b = (n * shg - h_sum * sg) / (n * sgg - sg * sg)
+    inverse = 1.0 / rate
+    sums = np.zeros(10)
+    dot = np.dot
+    for i in range(0, n, _BLOCK):
+        j = i + _BLOCK
+        uu, hh = u[i:j], hc[i:j]
+        g, gk, gkk, e = (row[i:j] for row in work)
+        np.multiply(uu, -rate, out=e)
+        np.exp(e, out=e)
+        np.subtract(1.0, e, out=g)
+        g *= inverse  # g = (1 - e) / rate
+        np.multiply(uu, e, out=e)  # e now holds u * exp(-rate u)
+        np.subtract(e, g, out=gk)
+        gk *= inverse  # dg/drate = (u e - g) / rate
+        np.multiply(uu, e, out=gkk)
+        gkk += gk
+        gkk += gk
+        gkk *= -inverse  # d2g/drate2 = -(u**2 e + 2 dg/drate) / rate
+        sums += (
+            g.sum(),
+            gk.sum(),
+            gkk.sum(),
+            dot(g, g),
+            dot(g, gk),
+            dot(gk, gk),
+            dot(g, gkk),
+            dot(hh, g),
+            dot(hh, gk),
+            dot(hh, gkk),
+        )
+    sg, sk, skk2, sgg, sgk, skk, sgkk, shg, shk, shkk = sums.tolist()
+    determinant = n * sgg - sg * sg
+    b = (n * shg - h_sum * sg) / determinant if determinant > 0 else math.nan
     a = (h_sum - b * sg) / n
     rk = shk - a * sk - b * sgk
     rkk = shkk - a * skk2 - b * sgkk
@@ -615,8 +734,8 @@ def fit_exponential_decay(t, h, confidence=0.95) -> DecayFit:
     Internally ``h = A + B g(k, u)`` with ``u = (t - t[0]) / span``, ``k = span / tau`` and
     ``g = (1 - exp(-k u)) / k``, a basis that stays well conditioned as tau grows; then
     ``h0 = A`` and ``h_inf = A + B / k``. The rate is located on a subsample (the first 1024
-    readings and a weighted stride through the rest): a grid in log k from 1e-4 to twice the
-    inverse of the shortest sampling interval times 40, then a bounded scalar search between the best
+    readings and a weighted stride through the rest): a grid in log k from 1e-4 to 40 over the
+    shortest sampling interval (in record spans), then a bounded scalar search between the best
     grid neighbours. Newton steps on the full data follow, each with one exponential per
     reading; the reduced step is the rate part of the full three-parameter Newton step taken
     where the linear parameters are optimal ([GP]_). Once a step is below 1e-5 of the rate it is
@@ -624,8 +743,12 @@ def fit_exponential_decay(t, h, confidence=0.95) -> DecayFit:
 
     The interval for tau is the t interval of the rate, mapped to tau; its upper end is infinite
     when the rate interval reaches zero (the record cannot tell the decay from a straight line).
-    When the best rate lies at an end of the searched range the fit is reported with
-    ``converged=False``.
+    The asymptote's linearised interval is widened to include the asymptotes of the refitted
+    model at both ends of the rate interval (first order in A and B, exact in 1/k), and is
+    unbounded on one side when the rate interval reaches zero: the linearisation alone badly
+    understates how little a nearly straight record says about h_inf. When the best rate lies
+    at an end of the searched range, or the head settles within the first reading interval,
+    the fit is reported with ``converged=False``.
 
     References
     ----------
@@ -638,47 +761,31 @@ def fit_exponential_decay(t, h, confidence=0.95) -> DecayFit:
     n = t.size
     _finite_sum(t, "t")
     h_mean = _finite_sum(h, "h") / n
-    if (t[1:] < t[:-1]).any():
-        i = int(np.flatnonzero(t[1:] < t[:-1])[0]) + 1
+    steps = np.diff(t)
+    if (steps < 0).any():
+        i = int(np.flatnonzero(steps < 0)[0]) + 1
         raise ValueError(f"times must not decrease: t[{i}] = {t[i]} comes after {t[i - 1]}")
+    distinct = np.count_nonzero(steps) + 1
+    del steps
+    if distinct < 3:
+        raise ValueError(
+            f"the readings are at {distinct} distinct time(s); a decay needs at least 3"
+        )
     span = float(t[-1] - t[0])
-    if not span > 0:
-        raise ValueError("all readings have the same time; a decay needs a span of time")
     hc = h - h_mean
     with np.errstate(over="ignore", invalid="ignore"):
-        shh = float(np.dot(hc, hc))
-    _too_large(shh, float(t[-1] - t[0]) / span)
+        shh = _dot(hc, hc)
+    _too_large(shh, span)
     if not shh > n * (64.0 * _EPS * h_mean) ** 2:
         raise ValueError(f"the head does not change (every value is {h[0]!r}); nothing decays")
     u = (t - t[0]) * (1.0 / span)
 
     rate, rate_high, head_range = _locate_rate(u, h)
     work = [np.empty(n) for _ in range(4)]  # separate blocks: large ones are not recycled
-    h_sum = float(hc.sum())
-    status, iterations, best_sse, last_change = "", 0, math.inf, 0.0
-    while True:
-        iterations += 1
-        a, b, jtj, hessian, gradient, sse_drop = _decay_terms(rate, u, hc, h_sum, work)
-        sse = shh - sse_drop
-        if sse > best_sse * (1 + 1e-9) + 1e-13 * shh and iterations < _MAX_ITERATIONS:
-            last_change *= 0.5  # the last step raised the sum of squares: go back half of it
-            rate -= last_change
-            continue
-        best_sse = sse
-        step, exact = _newton_step(hessian, jtj, gradient)
-        d_rate = float(step[2])
-        if (rate <= _RATE_LOW and d_rate < 0) or (rate >= rate_high and d_rate > 0):
-            status, step = "edge", np.zeros(3)
-            break
-        small = abs(d_rate) <= (_STEP_DONE if exact else 1e-10) * rate
-        if small or iterations >= _MAX_ITERATIONS:
-            status = "done" if small else "limit"
-            if not exact:
-                step = np.zeros(3)
-            break
-        new_rate = rate + max(-0.5 * rate, min(d_rate, rate))
-        new_rate = min(max(new_rate, _RATE_LOW), rate_high)
-        last_change, rate = new_rate - rate, new_rate
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        status, iterations, rate, (a, b, jtj), step = _polish_rate(
+            rate, rate_high, u, hc, shh, work
+        )
 
     # apply the last step; residuals updated to second order in the rate step
     d_a, d_b, d_rate = (float(v) for v in step)
@@ -690,12 +797,13 @@ def fit_exponential_decay(t, h, confidence=0.95) -> DecayFit:
             np.multiply(row, coefficient, out=scratch)
             residuals -= scratch
     del work, g, gk, gkk, scratch
-    sse = float(np.dot(residuals, residuals))
+    sse = _dot(residuals, residuals)
     residuals.flags.writeable = False
 
     message = {
         "edge": _EDGE_MESSAGES["low" if rate <= _RATE_LOW else "high"],
         "limit": f"no convergence after {iterations} full-data iterations",
+        "failed": "numerical failure: the normal equations became singular",
         "done": f"converged after {iterations} full-data Newton iteration(s)",
     }[status]
     return _decay_result(
@@ -706,11 +814,39 @@ def fit_exponential_decay(t, h, confidence=0.95) -> DecayFit:
     )
 
 
+def _polish_rate(rate, rate_high, u, hc, shh, work):
+    """Safeguarded Newton iteration on the rate over the full data, from the subsample rate."""
+    h_sum = float(hc.sum())
+    iterations, best_sse, last_change = 0, math.inf, 0.0
+    while True:
+        iterations += 1
+        a, b, jtj, hessian, gradient, sse_drop = _decay_terms(rate, u, hc, h_sum, work)
+        if not (math.isfinite(a) and math.isfinite(b) and np.isfinite(hessian).all()):
+            return "failed", iterations, rate, (a, b, jtj), np.zeros(3)
+        sse = shh - sse_drop
+        if sse > best_sse * (1 + 1e-9) + 1e-13 * shh and iterations < _MAX_ITERATIONS:
+            last_change *= 0.5  # the last step raised the sum of squares: go back half of it
+            rate -= last_change
+            continue
+        best_sse = sse
+        step, exact = _newton_step(hessian, jtj, gradient)
+        d_rate = float(step[2])
+        if (rate <= _RATE_LOW and d_rate < 0) or (rate >= rate_high and d_rate > 0):
+            return "edge", iterations, rate, (a, b, jtj), np.zeros(3)
+        if abs(d_rate) <= (_STEP_DONE if exact else 1e-10) * rate:
+            return "done", iterations, rate, (a, b, jtj), step if exact else np.zeros(3)
+        if iterations >= _MAX_ITERATIONS:
+            return "limit", iterations, rate, (a, b, jtj), np.zeros(3)
+        new_rate = rate + max(-0.5 * rate, min(d_rate, rate))
+        new_rate = min(max(new_rate, _RATE_LOW), rate_high)
+        last_change, rate = new_rate - rate, new_rate
+
+
 _EDGE_MESSAGES = {
     "low": (
         "no decay resolved: the record is as straight as a line (time constant beyond"
-        f" {1 / _RATE_LOW:.0f} record spans) or curves upward; the asymptote and time constant"
-        " are undetermined - fit a straight line instead"
+        f" {1 / _RATE_LOW:.0f} record spans) or bends away from an asymptote; the asymptote and"
+        " time constant are undetermined - fit a straight line instead"
     ),
     "high": (
         "no decay resolved: the head reaches its final level within the first reading"
@@ -769,12 +905,11 @@ def _decay_result(parameters, jtj, fit, status):
             low = -math.inf
         elif end <= 0:
             high = math.inf
-    if not all(math.isfinite(v) for v in (se_initial, se_asymptote, se_rate)):
+    if rate > 0.35 * rate_high:  # exp(-rate * shortest interval) < 1e-6: only a final level
+        converged, message = False, _EDGE_MESSAGES["high"]
+    elif not all(math.isfinite(v) for v in (se_initial, se_asymptote, se_rate)):
         converged = False
-        if rate > 0.45 * rate_high:  # exp(-rate * shortest interval) below 1e-8
-            message = _EDGE_MESSAGES["high"]
-        else:
-            message = "the readings do not determine all three parameters (singular Jacobian)"
+        message = "the readings do not determine all three parameters (singular Jacobian)"
     elif converged and high - low > 10 * head_range and high - low > 10 * np.ptp(h):
         message += (
             "; the asymptote is poorly determined (its interval is wider than ten times the"

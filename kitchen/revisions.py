@@ -25,7 +25,8 @@ import hashlib
 import io
 import re
 import secrets
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, replace
+from dataclasses import field as dataclass_field
 from datetime import datetime
 from pathlib import Path
 
@@ -101,7 +102,7 @@ class Revision:
     applied_value: str
     reason: str
     withdraws: str = ""
-    log_row: int | None = field(default=None, compare=False)
+    log_row: int | None = dataclass_field(default=None, compare=False)
 
     def target(self) -> tuple:
         """The value this row is about: (table, specimen, reading_row, field)."""
@@ -113,7 +114,8 @@ class Revision:
         if self.reading_row is not None:
             where += f" reading row {self.reading_row}"
         if self.action == WITHDRAW:
-            return f"withdraws {self.withdraws}: {where} {self.field} back to {_shown(self.new_value)}"
+            back = _shown(self.new_value)
+            return f"withdraws {self.withdraws}: {where} {self.field} back to {back}"
         typed = "" if self.new_value == self.applied_value else f" (typed {self.new_value})"
         return f"{where} {self.field}: {_shown(self.old_value)} -> {self.applied_value}{typed}"
 
@@ -228,7 +230,8 @@ def _check_row(row: dict, label: str, number: int, by_id: dict, withdrawn_by: di
     if not _ID.match(row["id"]):
         return problem("id", f"expected 8 hexadecimal digits, found {row['id']!r}")
     if row["id"] in by_id:
-        return problem("id", f"id {row['id']} is used twice (first at row {by_id[row['id']].log_row})")
+        first = by_id[row["id"]].log_row
+        return problem("id", f"id {row['id']} is used twice (first at row {first})")
     try:
         _check_when(row["when"])
     except RevisionError as error:
@@ -256,7 +259,8 @@ def _check_row(row: dict, label: str, number: int, by_id: dict, withdrawn_by: di
         if target.action == WITHDRAW:
             return problem("withdraws", f"{target.id} is itself a withdrawal")
         if target.id in withdrawn_by:
-            return problem("withdraws", f"{target.id} was already withdrawn by {withdrawn_by[target.id]}")
+            by = withdrawn_by[target.id]
+            return problem("withdraws", f"{target.id} was already withdrawn by {by}")
         reading = target.reading_row
     else:
         return problem("action", f"expected {REVISE} or {WITHDRAW}, found {row['action']!r}")
@@ -327,6 +331,12 @@ def _field_name(table: str, field_text: str) -> str:
             f"the values of {table} are: {', '.join(fields)}"
         )
     if name not in SCHEMAS[table]:
+        elsewhere = [other for other in TABLE_NAMES if other != table and name in SCHEMAS[other]]
+        if elsewhere:
+            raise RevisionError(
+                f"{name!r} is a value of {' and '.join(elsewhere)}, not of {table}: name the "
+                "reading by its row number in the file (and the table, if the series has both)"
+            )
         raise RevisionError(
             f"unknown field {field_text!r} in {table}; its values are: {', '.join(fields)}"
         )
@@ -345,6 +355,8 @@ def _table_name(tables: dict[str, RawTable], table: str | None, reading: int | N
     if reading is None:
         return "specimens"
     readings = [name for name in ("constant_head", "falling_head") if name in tables]
+    if not readings:
+        raise RevisionError("the series has no readings; a reading row names nothing")
     if len(readings) > 1:
         raise RevisionError(
             "the series has constant_head and falling_head readings; name the table"
@@ -352,20 +364,29 @@ def _table_name(tables: dict[str, RawTable], table: str | None, reading: int | N
     return readings[0]
 
 
-def _locate(tables: dict[str, RawTable], table: str, specimen: str, reading: int | None):
-    """The table and frame index of a value; a RevisionError naming what is not there."""
+def _locate(tables, table: str, specimen: str, reading: int | None, known: dict | None = None):
+    """The table and frame index of a value; a RevisionError naming what is not there.
+
+    ``known`` keeps each table's specimen ids between calls (they are never revised).
+    """
     raw = tables.get(table)
     if raw is None:
         raise RevisionError(f"the series has no {table} table")
-    ids = raw.frame["specimen"].map(_cell_text) if "specimen" in raw.frame else pd.Series([])
+    known = {} if known is None else known
+    if table not in known:
+        column = raw.frame["specimen"] if "specimen" in raw.frame else pd.Series([], dtype=object)
+        known[table] = column.map(_cell_text)
+    ids = known[table]
     if table == "specimens":
         matches = np.flatnonzero(ids.to_numpy(dtype=object) == specimen)
         if len(matches) == 0:
-            known = ", ".join(sorted(set(ids) - {""})[:12])
-            raise RevisionError(f"unknown specimen {specimen!r}: {raw.file} lists {known}")
+            known = sorted(set(ids) - {""})
+            more = f"... ({len(known)} in all)" if len(known) > 12 else ""
+            listed = ", ".join(known[:12]) + more
+            raise RevisionError(f"unknown specimen {specimen!r}: {raw.file} lists {listed}")
         if len(matches) > 1:
             rows = ", ".join(str(r) for r in raw.frame["source_row"].iloc[matches])
-            raise RevisionError(f"specimen {specimen!r} is in {raw.file} more than once (rows {rows})")
+            raise RevisionError(f"specimen {specimen!r} is in {raw.file} twice (rows {rows})")
         return raw, raw.frame.index[matches[0]]
     if reading is None:
         raise RevisionError(
@@ -391,23 +412,23 @@ def _current(raw: RawTable, index, column: str) -> str:
     return _with_unit(_cell_text(raw.frame.at[index, column]), raw.units.get(column))
 
 
-def _applied_text(value: str, kind: str, unit: str | None) -> str:
+def _applied_text(value: str, column: str, kind: str, unit: str | None) -> str:
     """The typed value in the column's unit (``unit`` None: the typed unit is kept)."""
     if kind in _TEXT_KINDS:
         return " ".join(value.split())
     try:
         parsed = parse_value(value, kind)
     except UnitError as error:
-        raise RevisionError(f"value {value!r}: {error}") from None
+        raise RevisionError(f"{column}: value {value!r}: {error}; nothing was written") from None
     if not np.isfinite(parsed.si):
-        raise RevisionError(f"value {value!r}: expected a finite number")
+        raise RevisionError(f"{column}: value {value!r}: expected a finite number")
     if unit is None:
         if kind == "dimensionless":
-            return f"{parsed.si:.12g}"
-        return f"{parsed.magnitude:.12g} {parsed.unit}"
+            return f"{parsed.si:.15g}"
+        return f"{parsed.magnitude:.15g} {parsed.unit}"
     offset = to_si(0.0, unit, kind)
     magnitude = (parsed.si - offset) / (to_si(1.0, unit, kind) - offset)
-    return f"{magnitude:.12g} {unit}"
+    return f"{magnitude:.15g} {unit}"
 
 
 def _set(raw: RawTable, index, column: str, applied: str) -> str | None:
@@ -438,11 +459,13 @@ def _apply(tables: dict[str, RawTable], revisions) -> tuple[dict, list, list[str
     """Apply standing revisions to copies; skip (and name) those that no longer fit."""
     tables = {name: table.copy() for name, table in tables.items()}
     standing, _ = _standing(revisions)
-    applied, problems = [], []
+    applied, problems, known = [], [], {}
     for revision in standing:
         where = f"revision {revision.id} ({revision.describe()})"
         try:
-            raw, index = _locate(tables, revision.table, revision.specimen, revision.reading_row)
+            raw, index = _locate(
+                tables, revision.table, revision.specimen, revision.reading_row, known
+            )
         except RevisionError as error:
             problems.append(f"{where} no longer fits the raw data: {error}")
             continue
@@ -557,14 +580,20 @@ def _record(series_path, make) -> Revision:
         _, existing = _read_log(log)
         before, _, before_trouble = _apply(raw, existing)
         revision = make(before, existing)
-        after, _, after_trouble = _apply(raw, (*existing, revision))
+        if revision.action == REVISE:  # it applies on top of the rest
+            after, _, after_trouble = _apply(before, (revision,))
+            after_trouble = before_trouble + after_trouble
+        else:
+            after, _, after_trouble = _apply(raw, (*existing, revision))
         new = [problem for problem in after_trouble if problem not in before_trouble]
-        loads_before = set(_load_problems(before, source, input_files))
-        new += [
-            f"the effective data would not load: {problem}"
-            for problem in _load_problems(after, source, input_files)
-            if problem not in loads_before
-        ]
+        loads_after = _load_problems(after, source, input_files)
+        if loads_after:  # refuse only what this row adds to problems already there
+            loads_before = set(_load_problems(before, source, input_files))
+            new += [
+                f"the effective data would not load: {problem}"
+                for problem in loads_after
+                if problem not in loads_before
+            ]
         if new:
             new[-1] += "; nothing was written"
             raise RevisionError(new)
@@ -639,7 +668,7 @@ def revise(
                 if "_".join(header.split()) == column:
                     raise RevisionError(f"fix the header in the file first: {problem}")
         unit = raw.units.get(column) if column in raw.frame.columns else None
-        applied = _applied_text(str(value), SCHEMAS[name][column].kind, unit)
+        applied = _applied_text(str(value), column, SCHEMAS[name][column].kind, unit)
         old = _current(raw, index, column)
         if applied == old:
             raise RevisionError(f"{specimen} {column} is already {old}; nothing to revise")
@@ -819,7 +848,7 @@ def format_history(revisions) -> str:
         "change": [revision.describe() for revision in revisions],
         "reason": table["reason"],
     }
-    widths = {name: max(len(name), *(len(str(v)) for v in values)) for name, values in columns.items()}
+    widths = {name: max(len(name), *map(len, map(str, v))) for name, v in columns.items()}
     lines = ["  ".join(name.ljust(widths[name]) for name in columns).rstrip()]
     for values in zip(*columns.values(), strict=True):
         cells = (str(v).ljust(widths[name]) for name, v in zip(columns, values, strict=True))

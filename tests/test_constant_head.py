@@ -8,12 +8,14 @@ from hypothesis import strategies as st
 
 from kitchen.constant_head import (
     collection_table,
+    constant_head_analysis,
     constant_head_conductivity,
     darcy_velocity,
     hydraulic_gradient,
     reduce_constant_head,
 )
-from kitchen.water import viscosity_ratio, water_density
+from kitchen.uncertainty import Resolutions
+from kitchen.water import viscosity_ratio, water_density, water_viscosity
 
 
 def test_das_constant_head_example():
@@ -108,3 +110,65 @@ def test_unknown_specimen_is_named():
     collections, state = _collections()
     with pytest.raises(ValueError, match="specimen Z has no constant-head collections"):
         reduce_constant_head(collection_table(collections, state), "Z")
+
+
+# --------------------------------------------------------------------------- analysis
+def _specimen_row(d10=0.3e-3):
+    return pd.Series({"specimen": "S", "diameter": np.sqrt(4 * 0.0081 / np.pi), "d10": d10})
+
+
+def _repeated(noise=0.005, seed=0):
+    collections, state = _collections()
+    rows = pd.concat([collections] * 3, ignore_index=True)
+    rng = np.random.default_rng(seed)
+    rows["volume"] = rows["volume"] * (1 + rng.normal(0, noise, len(rows)))
+    return rows, state
+
+
+def test_analysis_verdicts_for_a_steady_sand():
+    collections, state = _repeated()
+    table = collection_table(collections, state)
+    analysis = constant_head_analysis(table, _specimen_row())
+    verdicts = {v.criterion: v for v in analysis.verdicts}
+    assert verdicts["steady_values"].passed
+    assert verdicts["gradient_independence"].passed
+    assert "3 heads" in verdicts["gradient_independence"].sentence
+    assert verdicts["trend"].passed is None
+    assert verdicts["gradient"].passed is None  # 4e-4 m/s is above the D5084 table
+    assert verdicts["reynolds"].passed
+    assert analysis.valid and not analysis.checks
+    # The combined interval carries the fit and the resolutions: wider than the fit's own.
+    assert analysis.k_reference_low < analysis.result.k_reference_low
+    assert analysis.k_reference_high > analysis.result.k_reference_high
+    # Reynolds number on d10 by hand at the largest velocity (Bear 1972, from memory).
+    fastest = table["darcy_velocity"].idxmax()
+    t = table.loc[fastest, "temperature"]
+    expected = water_density(t) * table.loc[fastest, "darcy_velocity"] * 0.3e-3
+    assert analysis.reynolds == pytest.approx(expected / water_viscosity(t), rel=1e-9)
+
+
+def test_analysis_flags_too_few_collections():
+    collections, state = _collections()
+    analysis = constant_head_analysis(collection_table(collections, state), _specimen_row(np.nan))
+    assert not analysis.valid
+    assert any("only 3 k value(s)" in check for check in analysis.checks)
+    reynolds = next(v for v in analysis.verdicts if v.criterion == "reynolds")
+    assert reynolds.passed is None
+
+
+def test_one_collection_interval_from_resolutions_by_hand():
+    from kitchen.results import Settings
+
+    collections, state = _collections()
+    table = collection_table(collections.iloc[:1], state)
+    resolutions = Resolutions(caliper=0.0, thermometer=0.0)
+    analysis = constant_head_analysis(table, _specimen_row(), Settings(resolutions=resolutions))
+    row = table.iloc[0]
+    u = 1 / np.sqrt(12)
+    expected = np.sqrt(
+        (1e-6 * u / row["volume"]) ** 2
+        + (1.0 * u / row["duration"]) ** 2
+        + (1e-3 * u / row["head_difference"]) ** 2
+    )
+    assert analysis.interval.relative_standard_uncertainty == pytest.approx(expected, rel=1e-4)
+    assert any("reading resolutions" in note for note in analysis.notes)

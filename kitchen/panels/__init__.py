@@ -9,9 +9,27 @@ set a control's ``value`` and assert on the figure data and the results without 
 - :func:`series_chart_panel` (``04_series_chart``): the series charts and the memo pack.
 - :func:`revise_panel` (``05_revise``): revise a value, see what moved.
 
+:func:`scratch_copy` copies a series to a scratch folder, to try revisions on.
 The panels need the ``lab`` extra (ipywidgets, plotly, anywidget); the core does not.
 """
 
+from .common import scratch_copy
+from .constant_head import ConstantHeadPanel, constant_head_panel
+from .falling_head import FallingHeadPanel, falling_head_panel
 from .open_series import SeriesPanel, series_panel
+from .revise import RevisePanel, revise_panel
+from .series_chart import SeriesChartPanel, series_chart_panel
 
-__all__ = ["SeriesPanel", "series_panel"]
+__all__ = [
+    "ConstantHeadPanel",
+    "FallingHeadPanel",
+    "RevisePanel",
+    "SeriesChartPanel",
+    "SeriesPanel",
+    "constant_head_panel",
+    "falling_head_panel",
+    "revise_panel",
+    "scratch_copy",
+    "series_chart_panel",
+    "series_panel",
+]

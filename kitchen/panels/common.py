@@ -23,7 +23,8 @@ import numpy as np
 import pandas as pd
 import plotly.graph_objects as go
 
-from ..series import SeriesError
+from ..revisions import EffectiveSeries, RevisionError, load_effective_series
+from ..series import Series, SeriesError
 from ..units import UnitError
 
 __all__ = [
@@ -35,6 +36,8 @@ __all__ = [
     "html_table",
     "caution_box",
     "scratch_copy",
+    "as_series",
+    "open_effective",
 ]
 
 _SUPERSCRIPT = str.maketrans("0123456789-+", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻⁺")
@@ -43,6 +46,7 @@ _STYLE = """<style>
 .kitchen-message ul {margin: 0.2em 0 0.2em 1.2em; padding: 0;}
 .kitchen-message .kitchen-problem {color: #8a1c1c;}
 .kitchen-message .kitchen-note {color: #5b4a00;}
+.kitchen-table {overflow-x: auto; max-width: 100%;}
 .kitchen-table table {border-collapse: collapse; font-size: 12px;}
 .kitchen-table th, .kitchen-table td {padding: 2px 8px; border-bottom: 1px solid #ddd;
   text-align: right; white-space: nowrap;}
@@ -86,11 +90,12 @@ class MessageArea:
     def show_error(self, error: BaseException, doing: str) -> None:
         """Show `error`, raised while `doing` (for example "refitting the window")."""
         self.exception = error
-        if isinstance(error, SeriesError):
+        if isinstance(error, (SeriesError, RevisionError)):
+            kind = "series" if isinstance(error, SeriesError) else "revisions"
             self.message = f"Could not finish {doing}: " + "; ".join(map(str, error.problems))
             items = "".join(f"<li>{html.escape(str(p))}</li>" for p in error.problems)
             body = (
-                f"<b>{len(error.problems)} problem(s) in the series</b> — nothing was "
+                f"<b>{len(error.problems)} problem(s) with the {kind}</b> — nothing was "
                 f"changed. Correct the files and try again.<ul>{items}</ul>"
             )
         elif isinstance(error, (ValueError, UnitError, OSError, KeyError)):
@@ -139,7 +144,8 @@ class MessageArea:
                     except Exception as error:  # shown to the engineer, in words
                         self.show_error(error, doing)
                         value = None
-                self.notes = list(dict.fromkeys(str(w.message) for w in caught))
+                caught_notes = [str(w.message) for w in caught]
+                self.notes = list(dict.fromkeys([*self.notes, *caught_notes]))
                 self._render()
                 return value
 
@@ -298,3 +304,20 @@ def scratch_copy(path: str | Path, folder: str | Path | None = None) -> Path:
         if log.exists():
             shutil.copy2(log, target_root / log.name)
     return target
+
+
+def as_series(series: Series | EffectiveSeries | str | Path) -> Series:
+    """A loaded series, or the effective series (revisions applied) at a path."""
+    return open_effective(series)[0]
+
+
+def open_effective(
+    series: Series | EffectiveSeries | str | Path,
+) -> tuple[Series, EffectiveSeries | None]:
+    """The series and, when known, its revisions (loading a path with them applied)."""
+    if isinstance(series, Series):
+        return series, None
+    if isinstance(series, EffectiveSeries):
+        return series.series, series
+    effective = load_effective_series(series)
+    return effective.series, effective

@@ -8,14 +8,15 @@ A series that cannot be used shows its problems as a list, never a traceback.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from pathlib import Path
 
 import ipywidgets as widgets
 import pandas as pd
 
 from ..results import Settings, results_table, series_results
-from ..series import Series, build_series, read_tables
+from ..revisions import EffectiveSeries, load_effective_series
+from ..series import Series
 from ..water import VISCOSITY_METHODS
 from .common import MessageArea, ProgressBar, format_conductivity, format_number, html_table
 
@@ -91,7 +92,10 @@ class SeriesPanel:
         Problems with the series, or a failure, in words.
     progress : ProgressBar
     series : Series or None
-        The series loaded last (None until one loads).
+        The series loaded last, with its revisions applied (None until one loads).
+    effective : EffectiveSeries or None
+        The series with the revisions applied and withdrawn
+        (:func:`kitchen.revisions.load_effective_series`).
     results : pandas.DataFrame or None
         :func:`kitchen.results.series_results` of ``series`` with ``settings``.
     table : pandas.DataFrame or None
@@ -111,9 +115,9 @@ class SeriesPanel:
     progress: ProgressBar
     settings: Settings
     series: Series | None = None
+    effective: EffectiveSeries | None = None
     results: pd.DataFrame | None = None
     table: pd.DataFrame | None = None
-    _raw: dict = field(default_factory=dict, repr=False)
 
     def reload(self) -> None:
         """Load the series at ``path`` again (the load button does the same)."""
@@ -123,25 +127,26 @@ class SeriesPanel:
         self.error.guard(f"loading {self.path.value!r}")(self._load_now)()
 
     def _load_now(self) -> None:
-        self.series = self.results = self.table = None
+        self.series = self.effective = self.results = self.table = None
         for view in (self.results_view, self.specimens_view, self.checks_view):
             view.value = ""
         path = Path(self.path.value.strip())
-        self.progress(0, 3, f"reading {path.name}")
+        self.progress(0, 2, f"reading and checking {path.name}")
         try:
-            tables, files = read_tables(path)
-            self.progress(1, 3, "checking every value")
-            series = build_series(tables, path, files)
+            effective = load_effective_series(path)
         except Exception:
             self.progress.finish("the series could not be read (problems listed below)", True)
             raise
-        self.series = series
-        self.progress(2, 3, "reducing the tests")
+        self.effective, self.series = effective, effective.series
+        self.progress(1, 2, "reducing the tests")
         self._recompute()
+        series = self.series
+        count = effective.revision_count
+        revised = f"; {count} revision(s) applied" if count else ""
         self.progress.finish(
             f"{series.name}: {len(series.specimens)} specimens, "
             f"{len(series.falling_head)} falling-head readings, "
-            f"{len(series.constant_head)} constant-head collections"
+            f"{len(series.constant_head)} constant-head collections{revised}"
         )
 
     def _settings_changed(self, change) -> None:

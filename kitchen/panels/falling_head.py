@@ -1,0 +1,443 @@
+"""The panel of the falling-head notebook: choose the reading window of one specimen.
+
+The slider runs over reading numbers, not times (a float slider snaps its values in the
+browser; see the notebook-stack notes in the developer guide), and the times of the
+window's ends are written beside it. On release of the slider the window is refitted
+with every reading in it: k at the reference temperature with its interval, the
+incremental k, the fit diagnostics and the validity verdicts all follow. The fit can be
+switched between ln h against time (tailwater datum known) and the decay to a fitted
+datum h∞. The figures send a decimated view of long records to the browser; the fits use
+all readings.
+"""
+
+from __future__ import annotations
+
+import html
+import math
+from dataclasses import dataclass, field
+
+import ipywidgets as widgets
+import numpy as np
+import pandas as pd
+import plotly.graph_objects as go
+
+from .. import charts
+from ..display_units import k_unit
+from ..falling_head import FALLING_HEAD_FITS, FallingHeadAnalysis, FallingHeadRecord
+from ..results import Settings, reference_label
+from ..series import Series
+from ..specimen import specimen_state
+from .common import (
+    MessageArea,
+    as_series,
+    format_conductivity,
+    format_number,
+    refresh_figure,
+)
+
+__all__ = [
+    "FIT_LABELS",
+    "FallingHeadPanel",
+    "falling_head_panel",
+    "format_elapsed",
+    "increments_figure",
+]
+
+FIT_LABELS = {
+    "log_linear": "ln h against time (datum known)",
+    "datum": "decay to a fitted datum h∞",
+}
+"""How the two falling-head fits are named on the toggle."""
+
+_MARKS = {True: "✔", False: "✘", None: "–"}
+
+
+def format_elapsed(seconds: float) -> str:
+    """Elapsed time for people: seconds, minutes or hours with three figures."""
+    if not math.isfinite(seconds):
+        return "–"
+    if seconds < 120:
+        return f"{seconds:.0f} s"
+    if seconds < 3 * 3600:
+        return f"{seconds / 60:.1f} min"
+    return f"{seconds / 3600:.2f} h"
+
+
+def _time_scale(analysis: FallingHeadAnalysis) -> tuple[str, float]:
+    span = float(analysis.time[-1] - analysis.time[0])
+    if span >= 3 * 3600:
+        return "h", 3600.0
+    if span >= 180:
+        return "min", 60.0
+    return "s", 1.0
+
+
+def increments_figure(
+    analysis: FallingHeadAnalysis, settings: Settings, k_unit_name: str = "m/s"
+) -> go.Figure:
+    """k between successive readings against time, with the window, k and the steady band.
+
+    Parameters
+    ----------
+    analysis : FallingHeadAnalysis
+        One window of one specimen (:meth:`kitchen.falling_head.FallingHeadRecord.analyse`).
+    settings : Settings
+        For the reference temperature and the steady-values band (``settings.criteria``).
+    k_unit_name : {"m/s", "cm/s"}
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+        Every incremental k (grey outside the window), the values the steady-values
+        criterion judges (filled), the window's k and the band of ±25 % (±50 % below
+        1×10⁻¹⁰ m/s, ASTM D5084 from memory; the limits of ``settings.criteria``) about it.
+    """
+    unit = k_unit(k_unit_name)
+    scale_name, divisor = _time_scale(analysis)
+    label = reference_label(settings)
+    window_start = analysis.time[analysis.start] / divisor
+    window_end = analysis.time[analysis.stop - 1] / divisor
+    figure = go.Figure(layout=dict(template=charts.memo_template(), height=360))
+    figure.add_vrect(
+        x0=window_start, x1=window_end, fillcolor="rgba(46,107,87,0.09)", line_width=0,
+        layer="below",
+    )  # fmt: skip
+    k = analysis.k_reference
+    band = settings.criteria.band(k) if hasattr(settings, "criteria") else 0.25
+    figure.add_hrect(
+        y0=k * (1 - band) * unit.factor, y1=k * (1 + band) * unit.factor,
+        fillcolor="rgba(29,39,49,0.07)", line_width=0, layer="below",
+    )  # fmt: skip
+    time = np.asarray(analysis.increment_time, dtype=float)
+    values = np.asarray(analysis.increment_k, dtype=float)
+    finite = np.isfinite(values)
+    keep = charts.decimation_indices(np.where(finite, values, np.nan))
+    figure.add_trace(
+        go.Scatter(
+            x=time[keep] / divisor,
+            y=values[keep] * unit.factor,
+            mode="markers",
+            name="k between successive readings",
+            marker=dict(symbol="circle-open", size=6, color=charts.MUTED),
+            hovertemplate="t = %{x:.4g} " + scale_name + "<br>k = %{y:.3g}<extra></extra>",
+        )
+    )
+    judged_time = np.asarray(analysis.value_time, dtype=float)
+    judged = np.asarray(analysis.value_k, dtype=float)
+    keep = charts.decimation_indices(judged)
+    step = analysis.value_step
+    figure.add_trace(
+        go.Scatter(
+            x=judged_time[keep] / divisor,
+            y=judged[keep] * unit.factor,
+            mode="markers",
+            name="values judged for steadiness"
+            + ("" if step == 1 else f" (over {step} reading intervals)"),
+            marker=dict(symbol="circle", size=7, color=charts.INK),
+        )
+    )
+    reach = [analysis.time[0] / divisor, analysis.time[-1] / divisor]
+    figure.add_trace(
+        go.Scatter(
+            x=reach,
+            y=[k * unit.factor] * 2,
+            mode="lines",
+            name=f"{label} of the window, ±{100 * band:g} % shaded",
+            line=dict(color=charts.VERDICT_COLOURS["does not meet"], width=1.6),
+        )
+    )
+    inside = judged[np.isfinite(judged)]
+    if inside.size:
+        low, high = float(inside.min()), float(inside.max())
+        low, high = min(low, k * (1 - band)), max(high, k * (1 + band))
+        pad = 0.15 * (high - low)
+        figure.update_yaxes(range=[(low - pad) * unit.factor, (high + pad) * unit.factor])
+    figure.update_xaxes(title_text=f"elapsed time t [{scale_name}]")
+    figure.update_yaxes(
+        title_text=f"incremental k at {settings.reference_temperature:g} °C [{unit.unit}]",
+        exponentformat="power",
+    )
+    figure.update_layout(
+        title_text=f"Specimen {analysis.specimen}: k between readings",
+        legend=dict(x=0.99, xanchor="right", y=0.99, yanchor="top"),
+        margin=dict(t=50),
+    )
+    return figure
+
+
+def _summary_html(analysis: FallingHeadAnalysis, settings: Settings) -> str:
+    label = reference_label(settings)
+    k = format_conductivity(analysis.k_reference)
+    low = format_conductivity(analysis.k_reference_low)
+    high = format_conductivity(analysis.k_reference_high)
+    interval = analysis.interval
+    confidence = f"{100 * interval.confidence:g} %"
+    head = (
+        f"<div class='kitchen-k-line'><b>{label}</b> = "
+        f"<span class='kitchen-k'>{html.escape(k)}</span> "
+        f"({html.escape(format_conductivity(analysis.k_reference, 'cm/s'))}); {confidence} "
+        f"interval {html.escape(low)} to {html.escape(high)}</div>"
+    )
+    facts = [
+        f"k at the test temperature ({format_number(analysis.temperature, 3)} °C, time-weighted "
+        f"mean over the window) = {html.escape(format_conductivity(analysis.k))}",
+        f"interval: {html.escape(interval.describe())}",
+        f"fit: {html.escape(FIT_LABELS[analysis.fit_kind])}, {analysis.n} readings, "
+        f"R² = {format_number(analysis.r_squared, 6)}",
+        f"gradient {analysis.gradient_start:.3g} at the first reading of the window, "
+        f"{analysis.gradient_end:.3g} at the last",
+    ]
+    if analysis.decay is not None:
+        facts.append(
+            f"h∞ = {analysis.asymptote * 1e3:.1f} mm (interval "
+            f"{analysis.asymptote_low * 1e3:.1f} to {analysis.asymptote_high * 1e3:.1f} mm), "
+            f"time constant {format_elapsed(analysis.decay.time_constant)}"
+        )
+    if analysis.curvature is not None:
+        facts.append(
+            f"curvature of ln h (the tool's own test): quadratic term p = "
+            f"{analysis.curvature.p_value:.2g}; k changes by "
+            f"{100 * analysis.curvature.change:+.1f} % across the window"
+        )
+    if analysis.runs is not None:
+        facts.append(
+            f"runs of residual signs: {analysis.runs.runs} (about "
+            f"{analysis.runs.expected_runs:.0f} expected), p = {analysis.runs.p_value:.2g}"
+        )
+    verdicts = "".join(
+        f"<li class='kitchen-verdict-{str(v.passed).lower()}'>{_MARKS[v.passed]} "
+        f"{html.escape(v.sentence)}</li>"
+        for v in analysis.verdicts
+    )
+    state = "valid: every applicable criterion passes" if analysis.valid else "not valid"
+    notes = [*analysis.method_notes, *analysis.notes]
+    if analysis.diagnosis:
+        notes.append(analysis.diagnosis)
+    note_items = "".join(f"<li>{html.escape(n)}</li>" for n in notes)
+    return (
+        f"<div class='kitchen-summary'>{head}<ul>"
+        + "".join(f"<li>{fact}</li>" for fact in facts)
+        + f"</ul><b>Validity — {state}</b><ul>{verdicts}</ul>"
+        + (f"<b>Notes</b><ul>{note_items}</ul>" if note_items else "")
+        + "</div>"
+    )
+
+
+@dataclass
+class FallingHeadPanel:
+    """Controls and views of the falling-head panel.
+
+    Attributes
+    ----------
+    widget : ipywidgets.VBox
+    specimen : ipywidgets.Dropdown
+        Specimens with falling-head readings.
+    window : ipywidgets.IntRangeSlider
+        First and last reading of the window, as positions 0 … n − 1 (inclusive). Setting
+        its ``value`` refits at once.
+    window_label : ipywidgets.HTML
+        The window in reading numbers, file rows and times.
+    fit_choice : ipywidgets.ToggleButtons
+        ``"log_linear"`` or ``"datum"`` (:data:`FIT_LABELS`).
+    propose : ipywidgets.Button
+        Sets the window the tool proposes (the longest that meets every criterion).
+    figure : plotly.graph_objects.FigureWidget
+        Head against time, log head axis, with the fitted curve and the window.
+    increments : plotly.graph_objects.FigureWidget
+        k between successive readings with the window's k and the steady band.
+    summary : ipywidgets.HTML
+        k and its interval, the fit diagnostics, the verdicts and the notes.
+    error : MessageArea
+    analysis : FallingHeadAnalysis or None
+        The core's analysis of the window shown.
+    records : dict of str to FallingHeadRecord
+        Each specimen's readings, prepared once.
+    series : Series
+    settings : Settings
+    """
+
+    widget: widgets.VBox
+    specimen: widgets.Dropdown
+    window: widgets.IntRangeSlider
+    window_label: widgets.HTML
+    fit_choice: widgets.ToggleButtons
+    propose: widgets.Button
+    figure: go.FigureWidget
+    increments: go.FigureWidget
+    summary: widgets.HTML
+    error: MessageArea
+    series: Series
+    settings: Settings
+    analysis: FallingHeadAnalysis | None = None
+    records: dict = field(default_factory=dict)
+    _state: pd.DataFrame | None = None
+    _readings: dict = field(default_factory=dict)
+    _quiet: bool = False
+
+    # --- data -------------------------------------------------------------------------------
+    def readings(self, specimen: str | None = None) -> pd.DataFrame:
+        """The falling-head rows of a specimen (the one shown by default)."""
+        specimen = specimen or self.specimen.value
+        if specimen not in self._readings:
+            table = self.series.falling_head
+            self._readings[specimen] = table[table["specimen"] == specimen].reset_index(drop=True)
+        return self._readings[specimen]
+
+    def record(self, specimen: str | None = None) -> FallingHeadRecord:
+        """The prepared record of a specimen (built on first use)."""
+        specimen = specimen or self.specimen.value
+        if specimen not in self.records:
+            row = self._state.set_index("specimen", drop=False).loc[specimen]
+            self.records[specimen] = FallingHeadRecord(self.readings(specimen), row, self.settings)
+        return self.records[specimen]
+
+    # --- callbacks --------------------------------------------------------------------------
+    def _window_moved(self, _change=None) -> None:
+        if not self._quiet:
+            self.error.guard("refitting the reading window")(self._fit)(self._chosen())
+
+    def _fit_changed(self, _change=None) -> None:
+        self.error.guard("refitting with the other fit")(self._fit)(self._chosen())
+
+    def _specimen_changed(self, _change=None) -> None:
+        self.error.guard(f"opening specimen {self.specimen.value}")(self._fit)(None)
+
+    def propose_window(self, _button=None) -> None:
+        """Set the window the tool proposes for the specimen and fit shown."""
+        self.error.guard("proposing a window")(self._fit)(None)
+
+    def _chosen(self) -> tuple[int, int]:
+        first, last = self.window.value
+        return int(first), int(last) + 1
+
+    def _fit(self, window) -> None:
+        record = self.record()
+        analysis = record.analyse(window, self.fit_choice.value)
+        self.analysis = analysis
+        self._quiet = True
+        try:
+            with self.window.hold_trait_notifications():
+                self.window.max = max(record.n - 1, 1)
+                self.window.min = 0
+                self.window.value = (analysis.start, analysis.stop - 1)
+        finally:
+            self._quiet = False
+        self._draw()
+
+    def _draw(self) -> None:
+        analysis = self.analysis
+        readings = self.readings()
+        label = reference_label(self.settings)
+        figure = charts.falling_head_figure(
+            readings, analysis, "m/s", self.settings.reference_temperature
+        )
+        refresh_figure(self.figure, figure)
+        refresh_figure(self.increments, increments_figure(analysis, self.settings))
+        rows = readings["source_row"].to_numpy()
+        first, last = analysis.start, analysis.stop - 1
+        how = "proposed by the tool" if analysis.window_proposed else "chosen"
+        self.window_label.value = (
+            f"Readings <b>{first + 1}</b> to <b>{last + 1}</b> of {len(readings)} "
+            f"(file rows {rows[first]}–{rows[last]}): "
+            f"<span class='kitchen-window-times'>t = {format_elapsed(analysis.time[first])} to "
+            f"{format_elapsed(analysis.time[last])}</span>, {analysis.n} readings, window {how}; "
+            f"{label} = {format_conductivity(analysis.k_reference)}"
+        )
+        self.summary.value = _summary_html(analysis, self.settings)
+
+
+def falling_head_panel(
+    series: Series | str,
+    settings: Settings | None = None,
+    specimen: str | None = None,
+    fit: str | None = None,
+) -> FallingHeadPanel:
+    """Build the falling-head panel.
+
+    Parameters
+    ----------
+    series : Series or str or pathlib.Path
+        A loaded series, or the path of one (loaded with its revisions applied).
+    settings : Settings, optional
+        Reference temperature, viscosity, criteria and resolutions.
+    specimen : str, optional
+        The specimen shown first; the first with readings by default.
+    fit : {"log_linear", "datum"}, optional
+        The fit shown first; the settings' choice by default.
+
+    Returns
+    -------
+    FallingHeadPanel
+        Showing the window the tool proposes for the first specimen.
+
+    Raises
+    ------
+    ValueError
+        When the series has no falling-head readings, or `specimen` has none.
+    """
+    series = as_series(series)
+    settings = settings or Settings()
+    if series.falling_head.empty:
+        raise ValueError(f"series {series.name} has no falling-head readings (falling_head.csv)")
+    tested = list(pd.unique(series.falling_head["specimen"]))
+    if specimen is not None and specimen not in tested:
+        raise ValueError(
+            f"specimen {specimen!r} has no falling-head readings; choose one of "
+            f"{', '.join(tested)}"
+        )
+    fit = fit or getattr(settings, "falling_head_fit", "log_linear")
+    if fit not in FALLING_HEAD_FITS:
+        raise ValueError(f"unknown fit {fit!r}; choose one of {', '.join(FALLING_HEAD_FITS)}")
+    state = specimen_state(series.specimens)
+    by_id = state.set_index("specimen")
+    options = []
+    for name in tested:
+        effort = by_id.at[name, "effort"]
+        water = by_id.at[name, "water_content"]
+        parts = [str(effort)] if pd.notna(effort) else []
+        if pd.notna(water):
+            parts.append(f"w = {100 * water:.1f} %")
+        options.append((f"{name} ({', '.join(parts)})" if parts else name, name))
+    panel = FallingHeadPanel(
+        widget=widgets.VBox(),
+        specimen=widgets.Dropdown(
+            options=options, value=specimen or tested[0], description="Specimen",
+            layout=widgets.Layout(width="320px"),
+        ),  # fmt: skip
+        window=widgets.IntRangeSlider(
+            min=0, max=1, value=(0, 1), step=1, description="Readings",
+            continuous_update=False, readout=False, layout=widgets.Layout(width="70%"),
+        ),  # fmt: skip
+        window_label=widgets.HTML(),
+        fit_choice=widgets.ToggleButtons(
+            options=[(FIT_LABELS[name], name) for name in FALLING_HEAD_FITS],
+            value=fit,
+            description="Fit",
+        ),
+        propose=widgets.Button(description="Propose a window", icon="magic"),
+        figure=go.FigureWidget(),
+        increments=go.FigureWidget(),
+        summary=widgets.HTML(),
+        error=MessageArea(),
+        series=series,
+        settings=settings,
+        _state=state,
+    )
+    panel.fit_choice.style.button_width = "240px"
+    panel._specimen_changed()
+    panel.widget.children = [
+        widgets.HBox([panel.specimen, panel.propose]),
+        panel.fit_choice,
+        panel.window,
+        panel.window_label,
+        panel.error.widget,
+        panel.figure,
+        panel.summary,
+        panel.increments,
+    ]
+    panel.widget.add_class("kitchen-falling-head")
+    panel.specimen.observe(panel._specimen_changed, names="value")
+    panel.window.observe(panel._window_moved, names="value")
+    panel.fit_choice.observe(panel._fit_changed, names="value")
+    panel.propose.on_click(panel.propose_window)
+    return panel

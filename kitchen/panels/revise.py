@@ -1,0 +1,352 @@
+"""The panel of the revise notebook: correct one value, see what it moved.
+
+A revision names a value — a specimen's height, a reading's head — and gives the new
+value with its unit and the reason. It is appended to the series' revision log; the raw
+files are never written. The panel then shows, for every specimen whose results moved,
+the dry density, void ratio, k and verdict before and after, and the whole log with the
+status of each row. A revision can be withdrawn by a later row; nothing is deleted.
+"""
+
+from __future__ import annotations
+
+import html
+from dataclasses import dataclass
+from pathlib import Path
+
+import ipywidgets as widgets
+import pandas as pd
+
+from ..results import Settings, reference_label, series_results
+from ..revisions import (
+    EffectiveSeries,
+    Revision,
+    apply_revisions,
+    history_table,
+    load_effective_series,
+    read_revisions,
+    revise,
+    what_changed,
+    withdraw,
+)
+from ..series import SCHEMAS, read_tables
+from .common import MessageArea, format_conductivity, html_table
+from .series_chart import parse_criterion
+
+__all__ = ["RevisePanel", "revise_panel", "changes_view_table"]
+
+TABLE_LABELS = {
+    "specimens": "a specimen value",
+    "falling_head": "a falling-head reading",
+    "constant_head": "a constant-head collection",
+}
+
+
+def _number(value) -> str:
+    return "–" if pd.isna(value) else f"{value:.4g}"
+
+
+def changes_view_table(changed: pd.DataFrame, label: str) -> pd.DataFrame:
+    """:func:`kitchen.revisions.what_changed` as shown: Mg/m³, k in m/s, verdicts in words."""
+    out = pd.DataFrame(
+        {
+            "specimen": changed["specimen"],
+            "method": changed["method"].str.replace("_", " "),
+            "what moved": changed["moved"].str.replace("k_reference", label),
+        }
+    )
+    for quantity, title, scale in (
+        ("dry_density", "ρd [Mg/m³]", 1e-3),
+        ("void_ratio", "e", 1.0),
+        ("k_reference", f"{label} [m/s]", 1.0),
+    ):
+        for side in ("before", "after"):
+            out[f"{title} {side}"] = pd.to_numeric(changed[f"{quantity}_{side}"]) * scale
+    for quantity in ("valid", "verdict"):
+        for side in ("before", "after"):
+            out[f"{quantity} {side}"] = changed[f"{quantity}_{side}"]
+    return out
+
+
+@dataclass
+class RevisePanel:
+    """Controls and views of the revise panel.
+
+    Attributes
+    ----------
+    widget : ipywidgets.VBox
+    series_path : pathlib.Path
+        The series revised (its log is ``revisions.csv`` beside the data).
+    table_choice : ipywidgets.ToggleButtons
+        ``specimens``, ``falling_head`` or ``constant_head``.
+    specimen, field, reading : ipywidgets.Dropdown
+        What to revise; ``reading`` holds the reading's row number in the file and is
+        used only for reading tables.
+    current : ipywidgets.HTML
+        The value as it stands (revisions applied), with its unit.
+    value, reason, who : ipywidgets.Text
+        The new value with its unit (``116.5 mm``), why (required), who (optional).
+    criterion : ipywidgets.Text
+        For the verdicts of the before/after table (``1e-9 m/s``).
+    record : ipywidgets.Button
+        Appends the revision to the log and shows what it moved.
+    withdraw_choice : ipywidgets.Dropdown
+        Revisions in force.
+    withdraw : ipywidgets.Button
+        Withdraws the chosen revision (with ``reason``) by a new row.
+    changes : ipywidgets.HTML
+        What the last revision (or withdrawal) moved.
+    history : ipywidgets.HTML
+        The revision log, each row with its status.
+    error : MessageArea
+    changed : pandas.DataFrame or None
+        :func:`kitchen.revisions.what_changed` of the last action.
+    last : Revision or None
+        The row the last action appended.
+    effective : EffectiveSeries
+        The series with the revisions applied, as it now stands.
+    results : pandas.DataFrame
+        Its results.
+    settings : Settings
+    """
+
+    widget: widgets.VBox
+    series_path: Path
+    table_choice: widgets.ToggleButtons
+    specimen: widgets.Dropdown
+    field: widgets.Dropdown
+    reading: widgets.Dropdown
+    current: widgets.HTML
+    value: widgets.Text
+    reason: widgets.Text
+    who: widgets.Text
+    criterion: widgets.Text
+    record: widgets.Button
+    withdraw_choice: widgets.Dropdown
+    withdraw: widgets.Button
+    changes: widgets.HTML
+    history: widgets.HTML
+    error: MessageArea
+    settings: Settings
+    effective: EffectiveSeries | None = None
+    results: pd.DataFrame | None = None
+    changed: pd.DataFrame | None = None
+    last: Revision | None = None
+    _raw: dict | None = None
+
+    # --- reading the series as it stands ----------------------------------------------------
+    def _reload(self) -> None:
+        self.effective = load_effective_series(self.series_path)
+        self.results = series_results(self.effective.series, self.settings)
+        tables, _ = read_tables(self.series_path)
+        self._raw, _ = apply_revisions(tables, read_revisions(self.series_path))
+        revisions = read_revisions(self.series_path)
+        self.history.value = _history_html(revisions)
+        standing = [r for r in self.effective.applied]
+        self.withdraw_choice.options = [(f"{r.id}: {r.describe()}", r.id) for r in standing]
+        self.withdraw.disabled = not standing
+
+    def _choose_table(self, _change=None) -> None:
+        table = self.table_choice.value
+        raw = self._raw[table]
+        ids = list(pd.unique(raw.frame["specimen"].dropna().astype(str)))
+        keep = self.specimen.value if self.specimen.value in ids else (ids[0] if ids else None)
+        self.specimen.options = ids
+        self.specimen.value = keep
+        fields = [name for name in SCHEMAS[table] if name != "specimen"]
+        labels = []
+        for name in fields:
+            unit = raw.units.get(name)
+            labels.append((f"{name} [{unit}]" if unit else name, name))
+        first = {"specimens": "height", "falling_head": "head", "constant_head": "volume"}
+        keep_field = self.field.value if self.field.value in fields else first[table]
+        self.field.options = labels
+        self.field.value = keep_field
+        self._choose_specimen()
+
+    def _choose_specimen(self, _change=None) -> None:
+        table = self.table_choice.value
+        reading_table = table != "specimens"
+        self.reading.layout.display = "" if reading_table else "none"
+        if reading_table and self.specimen.value is not None:
+            raw = self._raw[table]
+            rows = raw.frame[raw.frame["specimen"].astype(str) == self.specimen.value]
+            options = []
+            for _, row in rows.iterrows():
+                parts = [f"row {int(row['source_row'])}"]
+                for name in ("time", "head", "head_difference", "duration"):
+                    if name in rows.columns:
+                        unit = raw.units.get(name) or ""
+                        parts.append(f"{name} {_number(row[name])} {unit}".rstrip())
+                options.append((", ".join(parts), int(row["source_row"])))
+            keep = self.reading.value if self.reading.value in [v for _, v in options] else None
+            self.reading.options = options
+            self.reading.value = keep if keep is not None else (options[0][1] if options else None)
+        self._show_current()
+
+    def _show_current(self, _change=None) -> None:
+        table, field = self.table_choice.value, self.field.value
+        if self.specimen.value is None or field is None:
+            self.current.value = ""
+            return
+        raw = self._raw[table]
+        frame = raw.frame
+        rows = frame["specimen"].astype(str) == self.specimen.value
+        if table != "specimens":
+            rows &= frame["source_row"] == self.reading.value
+        if field not in frame.columns or not rows.any():
+            text = "(not given in the file)"
+        else:
+            value = frame.loc[rows, field].iloc[0]
+            unit = raw.units.get(field)
+            text = "(empty)" if pd.isna(value) else f"{value} {unit or ''}".strip()
+        self.current.value = f"Now: <b>{html.escape(text)}</b>"
+
+    # --- actions ----------------------------------------------------------------------------
+    def record_revision(self, _button=None) -> None:
+        """Append the revision typed in the form and show what it moved."""
+        self.error.guard("recording the revision")(self._record)()
+
+    def _record(self) -> None:
+        table = self.table_choice.value
+        before = self.results
+        self.last = revise(
+            self.series_path,
+            specimen=self.specimen.value,
+            field=self.field.value,
+            value=self.value.value,
+            reason=self.reason.value,
+            reading=self.reading.value if table != "specimens" else None,
+            table=table,
+            who=self.who.value,
+        )
+        self._after(before, f"Revision {self.last.id} recorded: {self.last.describe()}.")
+        self.value.value = ""
+
+    def withdraw_revision(self, _button=None) -> None:
+        """Withdraw the revision chosen in ``withdraw_choice`` (reason from ``reason``)."""
+        self.error.guard("withdrawing the revision")(self._withdraw)()
+
+    def _withdraw(self) -> None:
+        if not self.withdraw_choice.value:
+            raise ValueError("no revision in force to withdraw")
+        before = self.results
+        self.last = withdraw(
+            self.series_path, self.withdraw_choice.value, reason=self.reason.value,
+            who=self.who.value,
+        )  # fmt: skip
+        self._after(before, f"Withdrawal {self.last.id} recorded: {self.last.describe()}.")
+
+    def _after(self, before: pd.DataFrame, headline: str) -> None:
+        self._reload()
+        self._show_current()
+        criterion = parse_criterion(self.criterion.value)
+        self.changed = what_changed(before, self.results, criterion)
+        label = reference_label(self.settings)
+        if self.changed.empty:
+            body = "<p>No result moved.</p>"
+        else:
+            shown = changes_view_table(self.changed, label)
+            k = lambda v: format_conductivity(v)  # noqa: E731
+            body = html_table(
+                shown,
+                {f"{label} [m/s] before": k, f"{label} [m/s] after": k},
+                text_columns=("what moved",),
+            )
+        self.changes.value = f"<p>{html.escape(headline)}</p>{body}"
+
+
+def _history_html(revisions) -> str:
+    if not revisions:
+        return "<p>No revisions yet: the effective data are the raw files as written.</p>"
+    table = history_table(revisions)
+    shown = pd.DataFrame(
+        {
+            "id": table["id"],
+            "when": table["when"],
+            "who": table["who"],
+            "status": table["status"],
+            "change": [revision.describe() for revision in revisions],
+            "reason": table["reason"],
+        }
+    )
+    return html_table(shown, text_columns=("change", "reason"))
+
+
+def revise_panel(
+    series_path: str | Path, settings: Settings | None = None, criterion: str = "1e-9 m/s"
+) -> RevisePanel:
+    """Build the revise panel for the series at `series_path`.
+
+    Parameters
+    ----------
+    series_path : str or pathlib.Path
+        Series folder or ``.xlsx`` workbook. Its revision log is appended to; the raw
+        files are never written. To try revisions without touching a series, revise a
+        copy (:func:`kitchen.panels.common.scratch_copy`).
+    settings : Settings, optional
+        Reference temperature and viscosity method of the before/after comparison.
+    criterion : str, default "1e-9 m/s"
+        The largest k allowed, for the verdicts before and after.
+
+    Returns
+    -------
+    RevisePanel
+    """
+    path = Path(series_path)
+    settings = settings or Settings()
+    tables, _ = read_tables(path)
+    present = [name for name in TABLE_LABELS if name in tables]
+    wide = {"style": {"description_width": "initial"}}
+    panel = RevisePanel(
+        widget=widgets.VBox(),
+        series_path=path,
+        table_choice=widgets.ToggleButtons(
+            options=[(TABLE_LABELS[name], name) for name in present],
+            value="specimens",
+            description="Revise",
+        ),
+        specimen=widgets.Dropdown(description="Specimen"),
+        field=widgets.Dropdown(description="Field"),
+        reading=widgets.Dropdown(description="Reading", layout=widgets.Layout(width="420px")),
+        current=widgets.HTML(),
+        value=widgets.Text(description="New value", placeholder="with its unit: 116.5 mm"),
+        reason=widgets.Text(
+            description="Reason",
+            placeholder="required: re-measured after test",
+            layout=widgets.Layout(width="460px"),
+        ),
+        who=widgets.Text(description="Who", placeholder="optional"),
+        criterion=widgets.Text(value=criterion, description="Largest k allowed", **wide),
+        record=widgets.Button(description="Record revision", button_style="primary"),
+        withdraw_choice=widgets.Dropdown(
+            description="In force", layout=widgets.Layout(width="620px")
+        ),
+        withdraw=widgets.Button(description="Withdraw it"),
+        changes=widgets.HTML(),
+        history=widgets.HTML(),
+        error=MessageArea(),
+        settings=settings,
+    )
+    panel._reload()
+    panel._choose_table()
+    panel.table_choice.observe(panel._choose_table, names="value")
+    panel.specimen.observe(panel._choose_specimen, names="value")
+    panel.field.observe(panel._show_current, names="value")
+    panel.reading.observe(panel._show_current, names="value")
+    panel.record.on_click(panel.record_revision)
+    panel.withdraw.on_click(panel.withdraw_revision)
+    panel.widget.children = [
+        widgets.HTML(f"Series: <code>{html.escape(str(path))}</code>"),
+        panel.table_choice,
+        widgets.HBox([panel.specimen, panel.field, panel.reading]),
+        panel.current,
+        widgets.HBox([panel.value, panel.reason, panel.who]),
+        widgets.HBox([panel.record, panel.criterion]),
+        panel.error.widget,
+        widgets.HTML("<b>What moved</b>"),
+        panel.changes,
+        widgets.HTML("<b>Revision log</b>"),
+        panel.history,
+        widgets.HBox([panel.withdraw_choice, panel.withdraw]),
+    ]
+    return panel

@@ -1,0 +1,341 @@
+"""The panel of the series-chart notebook: conductivity against compaction, for the memo.
+
+The criterion is typed with its unit (``1e-9 m/s``, ``1e-7 cm/s``); every specimen is
+marked as meeting it, not meeting it, or not conclusive, and the charts follow: the
+compaction–conductivity chart (the compaction plane above log k against water content)
+and log k against void ratio and against dry density with their trends. The k and
+density units of the charts can be switched. An export button writes the memo pack.
+"""
+
+from __future__ import annotations
+
+import html
+import re
+from decimal import Decimal
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import ipywidgets as widgets
+import pandas as pd
+import plotly.graph_objects as go
+
+from .. import charts
+from ..display_units import DENSITY_UNITS, K_UNITS
+from ..results import Settings, reference_label, series_results
+from ..revisions import EffectiveSeries
+from ..series import Series
+from ..series_analysis import VERDICTS, SeriesAnalysis, analyse_series
+from .common import (
+    MessageArea,
+    ProgressBar,
+    format_conductivity,
+    html_table,
+    open_effective,
+    refresh_figure,
+)
+
+__all__ = ["SeriesChartPanel", "series_chart_panel", "parse_criterion", "CHARTS"]
+
+CHARTS = (
+    ("compaction", "Compaction and conductivity"),
+    ("void_ratio", "k against void ratio"),
+    ("dry_density", "k against dry density"),
+)
+"""The panel's charts: key and tab title."""
+
+_CRITERION = re.compile(
+    r"^\s*(?P<number>[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(?P<unit>\S*)\s*$"
+)
+
+
+def parse_criterion(text: str) -> float:
+    """The criterion typed by a person, ``"1e-9 m/s"`` or ``"1e-7 cm/s"``, in m/s.
+
+    Raises
+    ------
+    ValueError
+        Naming what was typed and what is expected.
+    """
+    match = _CRITERION.match(str(text))
+    if match is None:
+        raise ValueError(
+            f"criterion {text!r}: expected a number and its unit, for example 1e-9 m/s"
+        )
+    unit = match.group("unit")
+    if unit not in K_UNITS:
+        given = f"unit {unit!r}" if unit else "no unit"
+        raise ValueError(
+            f"criterion {text!r} has {given}; expected one of {', '.join(K_UNITS)}, "
+            "for example 1e-9 m/s"
+        )
+    value = float(Decimal(match.group("number")) / Decimal(K_UNITS[unit].factor))
+    if not value > 0:
+        raise ValueError(f"criterion {text!r}: expected a positive conductivity")
+    return value
+
+
+def verdict_table(analysis: SeriesAnalysis, unit: str, label: str) -> pd.DataFrame:
+    """One row per specimen: state, k with its interval, the verdict."""
+    rows = analysis.specimens
+    factor = K_UNITS[unit].factor
+    return pd.DataFrame(
+        {
+            "specimen": rows["specimen"],
+            "effort": rows["effort"],
+            "method": rows["method"].str.replace("_", " "),
+            "w [%]": rows["water_content"] * 100,
+            "ρd [Mg/m³]": rows["dry_density"] / 1000,
+            "e": rows["void_ratio"],
+            f"{label} [{unit}]": rows["k"] * factor,
+            f"low [{unit}]": rows["k_low"] * factor,
+            f"high [{unit}]": rows["k_high"] * factor,
+            "verdict": rows["verdict"],
+            "in acceptable zone": rows["in_zone"],
+        }
+    )
+
+
+@dataclass
+class SeriesChartPanel:
+    """Controls and views of the series-chart panel.
+
+    Attributes
+    ----------
+    widget : ipywidgets.VBox
+    criterion : ipywidgets.Text
+        The largest k allowed, with its unit (``1e-9 m/s``).
+    k_unit, density_unit : ipywidgets.ToggleButtons
+        Units of the charts.
+    figures : dict of str to plotly.graph_objects.FigureWidget
+        ``"compaction"``, ``"void_ratio"``, ``"dry_density"`` (see :data:`CHARTS`).
+    verdicts : ipywidgets.HTML
+        The count of each verdict and the geometric mean.
+    table : ipywidgets.HTML
+        Each specimen with its k, interval and verdict.
+    export_folder : ipywidgets.Text
+    export : ipywidgets.Button
+        Writes the memo pack to ``export_folder``.
+    progress : ProgressBar
+    exported : list of pathlib.Path
+        The files the last export wrote.
+    images : bool
+        Whether the export writes PNG and SVG beside each chart (needs Chromium).
+    error : MessageArea
+    analysis : SeriesAnalysis or None
+    results : pandas.DataFrame
+    series : Series
+    effective : EffectiveSeries or None
+        The series' revisions, for the provenance of the memo pack (known when the panel
+        was given a path or an EffectiveSeries).
+    settings : Settings
+    """
+
+    widget: widgets.VBox
+    criterion: widgets.Text
+    k_unit: widgets.ToggleButtons
+    density_unit: widgets.ToggleButtons
+    figures: dict
+    verdicts: widgets.HTML
+    table: widgets.HTML
+    export_folder: widgets.Text
+    export: widgets.Button
+    progress: ProgressBar
+    error: MessageArea
+    series: Series
+    settings: Settings
+    results: pd.DataFrame
+    effective: EffectiveSeries | None = None
+    images: bool = True
+    analysis: SeriesAnalysis | None = None
+    exported: list | None = None
+    missing: dict = field(default_factory=dict)
+    _boxes: dict = field(default_factory=dict)
+
+    @property
+    def criterion_value(self) -> float:
+        """The criterion in m/s, as typed. [m/s]"""
+        return parse_criterion(self.criterion.value)
+
+    def refresh(self, _change=None) -> None:
+        """Analyse with the criterion and redraw every chart (the controls call this)."""
+        self.error.guard("drawing the series charts")(self._refresh)()
+
+    def _refresh(self) -> None:
+        criterion = self.criterion_value
+        self.analysis = analyse_series(
+            self.results, criterion, self.settings.reference_temperature
+        )
+        unit, density = self.k_unit.value, self.density_unit.value
+        label = reference_label(self.settings)
+        not_drawn = []
+        for key, title in CHARTS:
+            figure = self.figures[key]
+            try:
+                if key == "compaction":
+                    new = charts.compaction_conductivity_figure(self.analysis, unit, density)
+                else:
+                    new = charts.conductivity_trend_figure(self.analysis, key, unit, density)
+            except ValueError as error:
+                not_drawn.append(f"{title}: not drawn — {error}")
+                self.missing[key].value = f"<i>{html.escape(title)}: not drawn — {html.escape(str(error))}</i>"
+                self.figures[key].layout.title.text = ""
+                self._boxes[key].children = [self.missing[key]]
+                continue
+            self._boxes[key].children = [figure]
+            refresh_figure(figure, new)
+        counts = self.analysis.counts
+        mean = self.analysis.geometric_mean
+        parts = [f"{html.escape(v)}: {counts[v]}" for v in VERDICTS]
+        line = (
+            f"Against <b>{label} ≤ "
+            f"<span class='kitchen-criterion'>{format_conductivity(criterion, unit)}</span></b>: "
+            + ", ".join(parts)
+            + f" (of {len(self.analysis.specimens)} specimens)."
+        )
+        if mean is not None:
+            line += (
+                f" Geometric mean {format_conductivity(mean.geometric_mean, unit)} "
+                f"({100 * mean.confidence:g} %: {format_conductivity(mean.low, unit)} to "
+                f"{format_conductivity(mean.high, unit)})."
+            )
+        self.verdicts.value = line
+        k_format = {
+            column: (lambda v, u=unit: format_conductivity(v / K_UNITS[u].factor, u))
+            for column in (f"{label} [{unit}]", f"low [{unit}]", f"high [{unit}]")
+        }
+        self.table.value = html_table(verdict_table(self.analysis, unit, label), k_format)
+        self.error.show_notes(not_drawn + list(self.analysis.notes))
+
+    def write_memo_pack(self, _button=None) -> None:
+        """Export the memo pack to ``export_folder`` (the export button calls this)."""
+        self.error.guard(f"exporting to {self.export_folder.value!r}")(self._export)()
+
+    def _export(self) -> None:
+        from .. import memo
+
+        folder = Path(self.export_folder.value.strip())
+        self.exported = None
+        self.export.disabled = True
+        revisions = {}
+        if self.effective is not None:
+            revisions = dict(
+                revision_count=self.effective.revision_count,
+                revision_log=self.effective.log_path,
+                revision_log_sha256=self.effective.log_sha256,
+            )
+        try:
+            written = memo.export_memo_pack(
+                self.series,
+                folder,
+                settings=self.settings,
+                criterion=self.criterion_value,
+                k_unit=self.k_unit.value,
+                density_unit=self.density_unit.value,
+                results=self.results,
+                images=self.images,
+                progress=self.progress,
+                **revisions,
+            )
+        except Exception:
+            self.progress.finish("the export stopped: see the message below", failed=True)
+            raise
+        finally:
+            self.export.disabled = False
+        self.exported = list(written)
+        self.progress.finish(
+            f"{len(self.exported)} file(s) written to {folder} in {written.seconds:.0f} s; "
+            "open report.html there"
+        )
+
+
+def series_chart_panel(
+    series: Series | EffectiveSeries | str | Path,
+    settings: Settings | None = None,
+    criterion: str = "1e-9 m/s",
+    export_folder: str | Path = "memo_pack",
+    images: bool = True,
+) -> SeriesChartPanel:
+    """Build the series-chart panel.
+
+    Parameters
+    ----------
+    series : Series, EffectiveSeries, str or pathlib.Path
+        The path of a series (loaded with its revisions applied, which the memo pack's
+        provenance then records), or a loaded series.
+    settings : Settings, optional
+        Reference temperature and viscosity method.
+    criterion : str, default "1e-9 m/s"
+        The starting criterion, typed with its unit. It comes from the project
+        specification: 1×10⁻⁹ m/s is common for compacted clay liners (US 40 CFR 258.40;
+        EU Directive 1999/31/EC, Annex I).
+    export_folder : str or pathlib.Path, default "memo_pack"
+        Where the export button writes the memo pack.
+    images : bool, default True
+        Write PNG and SVG beside each chart's HTML (through kaleido and Chromium).
+
+    Returns
+    -------
+    SeriesChartPanel
+    """
+    series, effective = open_effective(series)
+    settings = settings or Settings()
+    results = series_results(series, settings)
+    criterion_box = widgets.Text(
+        value=str(criterion),
+        description="Largest k allowed",
+        continuous_update=False,
+        style={"description_width": "initial"},
+        layout=widgets.Layout(width="280px"),
+    )
+    k_unit = widgets.ToggleButtons(options=list(K_UNITS), value="m/s", description="k in")
+    density = widgets.ToggleButtons(
+        options=list(DENSITY_UNITS), value="Mg/m³", description="density in"
+    )
+    for toggle in (k_unit, density):
+        toggle.style.button_width = "64px"
+    figures = {key: go.FigureWidget() for key, _ in CHARTS}
+    export_box = widgets.Text(
+        value=str(export_folder),
+        description="Memo pack folder",
+        style={"description_width": "initial"},
+        layout=widgets.Layout(width="420px"),
+    )
+    export = widgets.Button(description="Export memo pack", icon="download")
+    panel = SeriesChartPanel(
+        widget=widgets.VBox(),
+        criterion=criterion_box,
+        k_unit=k_unit,
+        density_unit=density,
+        figures=figures,
+        verdicts=widgets.HTML(),
+        table=widgets.HTML(),
+        export_folder=export_box,
+        export=export,
+        progress=ProgressBar("Export"),
+        error=MessageArea(),
+        series=series,
+        settings=settings,
+        results=results,
+        effective=effective,
+        images=images,
+    )
+    panel.missing = {key: widgets.HTML() for key, _ in CHARTS}
+    panel._boxes = {key: widgets.VBox([figures[key]]) for key, _ in CHARTS}
+    panel.refresh()
+    tabs = widgets.Tab(children=[panel._boxes[key] for key, _ in CHARTS])
+    for index, (_, title) in enumerate(CHARTS):
+        tabs.set_title(index, title)
+    panel.widget.children = [
+        widgets.HBox([criterion_box, k_unit, density]),
+        panel.verdicts,
+        panel.error.widget,
+        tabs,
+        widgets.HTML("<b>Specimens against the criterion</b>"),
+        panel.table,
+        widgets.HBox([export_box, export]),
+        panel.progress.widget,
+    ]
+    for control in (criterion_box, k_unit, density):
+        control.observe(panel.refresh, names="value")
+    export.on_click(panel.write_memo_pack)
+    return panel

@@ -1,0 +1,384 @@
+"""A series held open for interactive work: each specimen recomputed only when its inputs change.
+
+In the workbook one series is revised, re-windowed and redrawn many times. A
+:class:`Workspace` holds the series' tables as written, its revision log and its effective
+data, and keeps every specimen's reduction under a digest of what it was computed from:
+the specimen's row of the specimens table, its readings or collections, the settings, its
+reading window and capillary rise. After a revision only the table the revision names is
+validated again (:func:`kitchen.series.rebuild_series`), and only the specimens whose
+inputs changed are reduced again; the others come from the cache. Revising one
+specimen's height in a series of a dozen long logger records reduces that one specimen.
+
+The results are those of :func:`kitchen.results.series_results` on the effective series,
+row for row. Like the rest of the core, this module draws nothing: it says which
+specimens changed (:meth:`Workspace.sync`) so that a panel redraws only their charts.
+"""
+
+from __future__ import annotations
+
+import hashlib
+from pathlib import Path
+
+import numpy as np
+import pandas as pd
+
+from .constant_head import ConstantHeadAnalysis, collection_table, constant_head_analysis
+from .falling_head import FallingHeadAnalysis, FallingHeadRecord
+from .results import Settings, _row
+from .revisions import (
+    EffectiveSeries,
+    Revision,
+    apply_revisions,
+    log_sha256,
+    read_revisions,
+    revise,
+    revisions_path,
+    withdraw,
+)
+from .series import TABLE_NAMES, RawTable, Series, build_series, read_tables, rebuild_series
+from .specimen import specimen_state
+
+__all__ = ["Workspace", "frame_digest"]
+
+READING_TABLES = ("constant_head", "falling_head")
+
+
+def frame_digest(frame: pd.DataFrame, skip: tuple[str, ...] = ()) -> str:
+    """A digest of a table's values, column by column (names, dtypes and contents).
+
+    Parameters
+    ----------
+    frame : pandas.DataFrame
+        The table; its index is not part of the digest.
+    skip : tuple of str
+        Columns left out (the specimen id of one specimen's readings, say).
+
+    Returns
+    -------
+    str
+        BLAKE2b, 16 bytes, as hex. Numeric columns are hashed from their bytes; other
+        columns from the text of their values.
+    """
+    digest = hashlib.blake2b(digest_size=16)
+    for name in frame.columns:
+        if name in skip:
+            continue
+        values = frame[name].to_numpy()
+        digest.update(f"{name}\x1f{values.dtype}\x1e".encode())
+        if values.dtype.kind in "biuf":
+            digest.update(np.ascontiguousarray(values).view(np.uint8))
+        else:
+            digest.update("\x1f".join(map(repr, values)).encode())
+    return digest.hexdigest()
+
+
+def _digest(*parts) -> str:
+    return hashlib.blake2b("\x1e".join(map(repr, parts)).encode(), digest_size=16).hexdigest()
+
+
+def _spans(frame: pd.DataFrame) -> dict[str, tuple[int, int]]:
+    """Each specimen's rows as positions ``(start, stop)``; they are contiguous in
+    a falling-head table (the loader refuses split readings)."""
+    ids = frame["specimen"].to_numpy(dtype=object)
+    if not ids.size:
+        return {}
+    starts = np.flatnonzero(np.r_[True, ids[1:] != ids[:-1]])
+    stops = np.r_[starts[1:], ids.size]
+    return {ids[a]: (int(a), int(b)) for a, b in zip(starts, stops, strict=True)}
+
+
+def _groups(frame: pd.DataFrame) -> dict[str, np.ndarray]:
+    """Each specimen's row positions, in order of first appearance (any arrangement)."""
+    codes, ids = pd.factorize(frame["specimen"].to_numpy(dtype=object))
+    order = np.argsort(codes, kind="stable")
+    bounds = np.searchsorted(codes[order], np.arange(len(ids) + 1))
+    return {ids[i]: order[bounds[i] : bounds[i + 1]] for i in range(len(ids))}
+
+
+class Workspace:
+    """A series open for work: effective data, and results cached per specimen.
+
+    Parameters
+    ----------
+    series_path : str or pathlib.Path
+        Series folder or ``.xlsx`` workbook; its revision log is applied
+        (:func:`kitchen.revisions.load_effective_series` gives the same data).
+    settings : Settings, optional
+        Reference temperature, viscosity, criteria and the rest
+        (:class:`kitchen.results.Settings`).
+
+    Raises
+    ------
+    SeriesError
+        When the effective data do not load (every problem, by file, row and column).
+    RevisionError
+        When the log cannot be read or a revision no longer fits the raw data.
+
+    Notes
+    -----
+    The cache keeps, for each specimen and method, the last reduction and the digest of
+    its inputs; a falling-head record (the prepared readings) is kept apart from its
+    analysis, so that moving the reading window reuses the record. The digest of each
+    specimen's readings is computed once, when its table is built.
+    """
+
+    def __init__(self, series_path: str | Path, settings: Settings | None = None):
+        self.path = Path(series_path)
+        self._settings = settings or Settings()
+        self._windows: dict[str, tuple[int, int] | None] = {}
+        self._rises: dict[str, float | None] = {}
+        self._written, self._input_files = read_tables(self.path)
+        self._revisions: tuple[Revision, ...] = read_revisions(self.path)
+        self._log_sha256 = log_sha256(self.path)
+        self._tables = {name: self._effective_table(name) for name in self._written}
+        self._series = build_series(self._tables, self.path, self._input_files)
+        self._cache: dict[tuple[str, str], tuple[str, object]] = {}
+        self._records: dict[str, tuple[str, FallingHeadRecord]] = {}
+        self._rows: dict[str, dict] = {}
+        self._reading_digests: dict[str, dict[str, str]] = {}
+        self._index_readings(READING_TABLES)
+        self._index_specimens()
+        self.last_moved: tuple[str, ...] = ()
+        """The specimens moved by the last :meth:`revise` or :meth:`withdraw`."""
+
+    # --- the effective data ----------------------------------------------------------------
+    def _effective_table(self, name: str) -> RawTable:
+        """The table as written with the standing revisions that name it applied."""
+        own = [r for r in self._revisions if r.table == name]
+        tables, _ = apply_revisions({name: self._written[name]}, own)
+        return tables[name]
+
+    def _index_readings(self, names) -> None:
+        """Each specimen's rows in the readings tables, and the digest of those rows."""
+        for name in names:
+            frame = getattr(self._series, name)
+            rows = _spans(frame) if name == "falling_head" else _groups(frame)
+            self._rows[name] = rows
+            self._reading_digests[name] = {
+                specimen: frame_digest(self._slice(name, specimen), skip=("specimen",))
+                for specimen in rows
+            }
+
+    def _index_specimens(self) -> None:
+        self._state = specimen_state(self._series.specimens)
+        by_id = self._state.set_index("specimen", drop=False)  # rows as series_results takes them
+        self._state_rows = {specimen: by_id.loc[specimen] for specimen in by_id.index}
+        self._specimen_digests = {
+            specimen: _digest(tuple(row.items())) for specimen, row in self._state_rows.items()
+        }
+
+    def _slice(self, table: str, specimen: str) -> pd.DataFrame:
+        frame = getattr(self._series, table)
+        rows = self._rows[table][specimen]
+        if isinstance(rows, tuple):
+            return frame.iloc[rows[0] : rows[1]]
+        return frame.iloc[rows]
+
+    @property
+    def series(self) -> Series:
+        """The validated effective series."""
+        return self._series
+
+    @property
+    def revisions(self) -> tuple[Revision, ...]:
+        """Every row of the revision log, as last read."""
+        return self._revisions
+
+    @property
+    def effective(self) -> EffectiveSeries:
+        """The effective series with the revisions applied and withdrawn, for provenance."""
+        withdrawn_ids = {r.withdraws for r in self._revisions if r.action == "withdraw"}
+        changes = [r for r in self._revisions if r.action == "revise"]
+        return EffectiveSeries(
+            series=self._series,
+            applied=tuple(r for r in changes if r.id not in withdrawn_ids),
+            withdrawn=tuple(r for r in changes if r.id in withdrawn_ids),
+            log_path=revisions_path(self.path),
+            log_sha256=self._log_sha256,
+            log_rows=len(self._revisions),
+        )
+
+    def specimen_ids(self) -> list[str]:
+        """The specimens, in the order of the specimens table."""
+        return list(self._state_rows)
+
+    def readings(self, specimen: str, table: str = "falling_head") -> pd.DataFrame:
+        """One specimen's rows of a readings table (``falling_head`` or ``constant_head``)."""
+        if table not in READING_TABLES:
+            raise ValueError(f"unknown readings table {table!r}; expected {READING_TABLES}")
+        if specimen not in self._rows[table]:
+            raise KeyError(f"specimen {specimen!r} has no {table} readings in {self.path.name}")
+        return self._slice(table, specimen)
+
+    def _key(self, specimen: str, table: str) -> str:
+        """The digest of everything one reduction of one specimen depends on."""
+        falling = table == "falling_head"
+        return _digest(
+            self._specimen_digests[specimen],
+            self._reading_digests[table][specimen],
+            self._settings,
+            self._windows.get(specimen) if falling else None,
+            self._rises.get(specimen) if falling else None,
+        )
+
+    def _inputs(self) -> dict[tuple[str, str], str]:
+        """The digest of every specimen's inputs to each of its reductions."""
+        return {
+            (specimen, table): self._key(specimen, table)
+            for table, digests in self._reading_digests.items()
+            for specimen in digests
+        }
+
+    # --- changes ---------------------------------------------------------------------------
+    def sync(self) -> tuple[str, ...]:
+        """Read the revision log again and apply what was added since.
+
+        Returns
+        -------
+        tuple of str
+            The specimens whose inputs changed, in the order of the specimens table:
+            their results and charts are the ones to refresh.
+
+        Raises
+        ------
+        SeriesError, RevisionError
+            As when the workspace is opened; the workspace is then left as it was.
+        """
+        revisions = read_revisions(self.path)
+        held = self._revisions
+        if revisions[: len(held)] == held:
+            changed = {r.table for r in revisions[len(held) :]}
+        else:  # rows were changed or removed (by hand): apply the whole log again
+            changed = {r.table for r in revisions} | {r.table for r in held}
+        if not changed:
+            return ()
+        before = self._inputs()
+        names = tuple(name for name in TABLE_NAMES if name in changed and name in self._written)
+        tables = dict(self._tables)
+        self._revisions, old = revisions, held
+        try:
+            tables.update({name: self._effective_table(name) for name in names})
+            series = rebuild_series(self._series, tables, names)
+        except Exception:
+            self._revisions = old
+            raise
+        self._tables, self._series = tables, series
+        self._log_sha256 = log_sha256(self.path)
+        if "specimens" in names:
+            self._index_specimens()
+        self._index_readings([name for name in names if name in READING_TABLES])
+        return self._moved(before)
+
+    def _moved(self, before: dict) -> tuple[str, ...]:
+        after = self._inputs()
+        moved = {
+            key[0] for key in before.keys() | after.keys() if before.get(key) != after.get(key)
+        }
+        return tuple(specimen for specimen in self._state_rows if specimen in moved)
+
+    def revise(self, **revision) -> Revision:
+        """Record a revision (:func:`kitchen.revisions.revise`, same keywords) and apply it.
+
+        The specimens it moved are those :meth:`sync` returns; see :attr:`last_moved`.
+        """
+        row = revise(self.path, **revision)
+        self.last_moved = self.sync()
+        return row
+
+    def withdraw(self, revision_id: str, **details) -> Revision:
+        """Withdraw a revision (:func:`kitchen.revisions.withdraw`) and apply the log again."""
+        row = withdraw(self.path, revision_id, **details)
+        self.last_moved = self.sync()
+        return row
+
+    @property
+    def settings(self) -> Settings:
+        """The settings every result is computed with."""
+        return self._settings
+
+    def set_settings(self, settings: Settings) -> tuple[str, ...]:
+        """Use other settings; returns the specimens whose results are now out of date."""
+        before, self._settings = self._inputs(), settings
+        return self._moved(before)
+
+    def set_window(self, specimen: str, window: tuple[int, int] | None) -> tuple[str, ...]:
+        """Choose a specimen's falling-head reading window (None: the tool proposes one)."""
+        self.readings(specimen)
+        before = self._inputs()
+        self._windows[specimen] = None if window is None else tuple(int(v) for v in window)
+        return self._moved(before)
+
+    def set_capillary_rise(self, specimen: str, rise: float | None) -> tuple[str, ...]:
+        """A measured capillary rise for a specimen's standpipe, or None for the setting. [m]"""
+        self.readings(specimen)
+        before = self._inputs()
+        self._rises[specimen] = None if rise is None else float(rise)
+        return self._moved(before)
+
+    # --- reductions ------------------------------------------------------------------------
+    def _cached(self, specimen: str, table: str, key: str, reduce):
+        held = self._cache.get((specimen, table))
+        if held is not None and held[0] == key:
+            return held[1]
+        result = reduce()
+        self._cache[specimen, table] = (key, result)
+        return result
+
+    def falling_head(self, specimen: str) -> FallingHeadAnalysis:
+        """The falling-head analysis of one specimen, from the cache when its inputs are unchanged."""
+        readings = self.readings(specimen, "falling_head")
+        key = self._key(specimen, "falling_head")
+        return self._cached(
+            specimen, "falling_head", key, lambda: self._analyse(specimen, readings)
+        )
+
+    def _analyse(self, specimen: str, readings: pd.DataFrame) -> FallingHeadAnalysis:
+        record_key = _digest(
+            self._specimen_digests[specimen],
+            self._reading_digests["falling_head"][specimen],
+            self._settings,
+            self._rises.get(specimen),
+        )
+        try:
+            held = self._records.get(specimen)
+            if held is None or held[0] != record_key:
+                record = FallingHeadRecord(
+                    readings, self._state_rows[specimen], self._settings, self._rises.get(specimen)
+                )
+                self._records[specimen] = held = (record_key, record)
+            return held[1].analyse(self._windows.get(specimen))
+        except ValueError as error:  # as kitchen.results.series_results words it
+            raise ValueError(f"{self._series.name}, falling-head readings: {error}") from error
+
+    def constant_head(self, specimen: str) -> ConstantHeadAnalysis:
+        """The constant-head analysis of one specimen, from the cache when its inputs are unchanged."""
+        collections = self.readings(specimen, "constant_head")
+        key = self._key(specimen, "constant_head")
+        settings = self._settings
+
+        def reduce():
+            table = collection_table(
+                collections, self._state, settings.reference_temperature, settings.viscosity
+            )
+            return constant_head_analysis(table, self._state_rows[specimen], settings)
+
+        return self._cached(specimen, "constant_head", key, reduce)
+
+    def results(self) -> pd.DataFrame:
+        """The results table of the effective series, as :func:`kitchen.results.series_results`.
+
+        Returns
+        -------
+        pandas.DataFrame
+            One row per specimen and method, in the order of the specimens table; only the
+            reductions whose inputs changed since they were last computed are computed.
+        """
+        rows = []
+        for specimen, state_row in self._state_rows.items():
+            if specimen in self._rows["constant_head"]:
+                analysis = self.constant_head(specimen)
+                rows.append(_row(state_row, "constant_head", analysis, analysis.gradient_max))
+            if specimen in self._rows["falling_head"]:
+                analysis = self.falling_head(specimen)
+                rows.append(_row(state_row, "falling_head", analysis, analysis.gradient_start))
+        return pd.DataFrame(rows)

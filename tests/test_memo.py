@@ -1,0 +1,274 @@
+"""The memo pack: the files exist and parse, carry the cautions, and name their inputs.
+
+Tests that make PNG and SVG need Debian's chromium. Where it is missing they are skipped,
+saying so, except in continuous integration (CI=true), where they run and fail: the CI
+script installs chromium.
+"""
+
+import hashlib
+import html
+import os
+import re
+import shutil
+import subprocess
+import sys
+import xml.etree.ElementTree as ElementTree
+from pathlib import Path
+
+import pandas as pd
+import pytest
+from openpyxl import load_workbook
+from plotly.offline import get_plotlyjs
+
+from kitchen import CAUTIONS, __version__
+from kitchen.memo import MEMO_CAUTIONS, export_memo_pack
+from kitchen.results import Settings, results_table, series_results
+from kitchen.revisions import load_effective_series, revise
+from kitchen.series import load_series
+
+SAMPLES = Path(__file__).resolve().parents[1] / "sample_data"
+CHROMIUM = Path("/usr/bin/chromium").exists() or shutil.which("chromium") is not None
+needs_chromium = pytest.mark.skipif(
+    not CHROMIUM and os.environ.get("CI") != "true",
+    reason="PNG and SVG export needs Debian's chromium (/usr/bin/chromium): apt-get install "
+    "chromium; CI installs it and runs these tests",
+)
+PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"  # PNG specification (ISO/IEC 15948), section 5.2
+SHEETS = ["specimens", "tests", "fits", "checks", "cautions"]
+
+
+def sha256(path: Path) -> str:
+    return hashlib.sha256(path.read_bytes()).hexdigest()
+
+
+def run(*arguments, env=None):
+    return subprocess.run(
+        [sys.executable, "-m", "kitchen", *map(str, arguments)],
+        capture_output=True,
+        text=True,
+        env={**os.environ, **(env or {})},
+    )
+
+
+@pytest.fixture(scope="module")
+def clay_pack(tmp_path_factory):
+    out = tmp_path_factory.mktemp("clay_pack")
+    calls = []
+    series = load_series(SAMPLES / "clay_liner")
+    pack = export_memo_pack(
+        series, out, images=False, progress=lambda *call: calls.append(call), k_unit="cm/s"
+    )
+    return series, pack, calls
+
+
+def test_pack_files_and_progress(clay_pack):
+    series, pack, calls = clay_pack
+    names = sorted(str(p.relative_to(pack.folder)) for p in pack)
+    charts = [
+        "compaction_conductivity",
+        "conductivity_void_ratio",
+        "conductivity_dry_density",
+        "conductivity_water_content",
+    ] + [f"specimen_{s}_falling_head" for s in series.specimen_ids()]
+    assert names == sorted(
+        ["results.csv", "results.xlsx", "report.html"] + [f"charts/{c}.html" for c in charts]
+    )
+    assert all(p.is_file() and p.stat().st_size > 0 for p in pack)
+    assert [c[0] for c in calls] == list(range(1, len(pack) + 1))
+    assert {c[1] for c in calls} == {len(pack)}
+    assert calls[0][2] == "table results.csv" and calls[-1][2] == "report report.html"
+    assert "chart charts/compaction_conductivity.html" in [c[2] for c in calls]
+
+
+def test_chart_pages_open_offline_with_their_data(clay_pack):
+    series, pack, _ = clay_pack
+    header = get_plotlyjs()[:300]
+    page = (pack.folder / "charts" / "compaction_conductivity.html").read_text()
+    assert page.count(header) == 1  # plotly.js inlined, once
+    assert not re.search(r"<script[^>]+src=", page)  # nothing to fetch
+    assert 'id="chart-compaction_conductivity"' in page and "Plotly.newPlot" in page
+    for specimen in series.specimen_ids():
+        assert specimen in page
+    for caution in MEMO_CAUTIONS:
+        assert html.escape(caution) in page
+    single = (pack.folder / "charts" / "specimen_QF-01_falling_head.html").read_text()
+    assert "readings in the window" in single and html.escape(CAUTIONS[0]) in single
+
+
+def test_report_is_self_contained_and_traceable(clay_pack):
+    series, pack, _ = clay_pack
+    page = (pack.folder / "report.html").read_text()
+    assert page.count(get_plotlyjs()[:300]) == 1
+    assert not re.search(r"<script[^>]+src=", page)
+    assert page.count("Plotly.newPlot") == len([p for p in pack if p.parent.name == "charts"])
+    for caution in MEMO_CAUTIONS:
+        assert html.escape(caution) in page
+    for path in series.input_files:
+        assert sha256(path) in page  # provenance hashes are those of the inputs
+    assert [f.sha256 for f in pack.provenance.input_files] == [
+        sha256(p) for p in series.input_files
+    ]
+    assert f"kitchen {__version__}" in page and "revisions applied" in page
+    assert "k20 [cm/s]" in page and "Methods and their sources" in page
+
+
+def test_workbook_sheets(clay_pack):
+    series, pack, _ = clay_pack
+    book = load_workbook(pack.folder / "results.xlsx")
+    assert book.sheetnames == SHEETS
+    expected = results_table(series_results(series), Settings())
+    header = [cell.value for cell in book["tests"][1]]
+    assert header == list(expected.columns)
+    assert book["tests"].max_row == len(expected) + 1
+    k_column = header.index("k20 [m/s]")
+    values = [row[k_column] for row in book["tests"].iter_rows(min_row=2, values_only=True)]
+    assert values == pytest.approx(list(expected["k20 [m/s]"]))
+    notes = [row[1] for row in book["cautions"].iter_rows(min_row=2, values_only=True)]
+    for caution in MEMO_CAUTIONS:
+        assert caution in notes
+    assert any(sha256(series.input_files[0]) in str(n) for n in notes)
+    assert book.properties.description.startswith(CAUTIONS[0][:40])
+    specimens = pd.read_excel(pack.folder / "results.xlsx", sheet_name="specimens")
+    assert list(specimens["specimen"]) == series.specimen_ids()
+
+
+def test_results_csv_matches_the_tests_sheet(clay_pack):
+    series, pack, _ = clay_pack
+    table = pd.read_csv(pack.folder / "results.csv")
+    assert len(table) == 14 and "k20 [m/s]" in table
+
+
+@pytest.fixture(scope="module")
+def hostile_series(tmp_path_factory):
+    """The sand series with text a spreadsheet would read as formulas."""
+    folder = tmp_path_factory.mktemp("hostile") / "sand"
+    shutil.copytree(SAMPLES / "drainage_sand", folder)
+    specimens = (folder / "specimens.csv").read_text()
+    lines = specimens.splitlines()
+    lines[0] += ",effort"
+    lines[1:] = [line + ',=HYPERLINK("http://example.invalid")' for line in lines[1:]]
+    (folder / "specimens.csv").write_text("\n".join(lines).replace("DL-A", "-DL-A") + "\n")
+    tests = (folder / "constant_head.csv").read_text().replace("DL-A", "-DL-A")
+    (folder / "constant_head.csv").write_text(tests)
+    return folder
+
+
+def test_formula_like_text_is_neutralised(hostile_series, tmp_path):
+    pack = export_memo_pack(load_series(hostile_series), tmp_path, images=False)
+    csv_text = (tmp_path / "results.csv").read_text()
+    assert "'-DL-A" in csv_text and "'=HYPERLINK" in csv_text
+    book = load_workbook(tmp_path / "results.xlsx")
+    cells = [c for sheet in book for row in sheet.iter_rows() for c in row if c.value is not None]
+    texts = [c for c in cells if isinstance(c.value, str)]
+    assert all(c.data_type != "f" for c in cells)  # no cell became a formula
+    assert not [c.value for c in texts if c.value.startswith(("=", "+", "-", "@"))]
+    assert '\'=HYPERLINK("http://example.invalid")' in [c.value for c in texts]
+    assert "'-DL-A" in [c.value for c in texts]
+    assert len(pack) > 3
+
+
+def test_revisions_are_counted_and_their_log_hashed(tmp_path):
+    folder = tmp_path / "clay"
+    shutil.copytree(SAMPLES / "clay_liner", folder)
+    revise(folder, specimen="QF-02", field="height", value="116.38 mm", reason="re-measured")
+    effective = load_effective_series(folder)
+    pack = export_memo_pack(
+        effective.series,
+        tmp_path / "out",
+        images=False,
+        revision_count=effective.revision_count,
+        revision_log=effective.log_path,
+        revision_log_sha256=effective.log_sha256,
+    )
+    page = (tmp_path / "out" / "report.html").read_text()
+    log_hash = sha256(folder / "revisions.csv")
+    assert pack.provenance.revision_count == 1 and pack.provenance.revision_log_sha256 == log_hash
+    assert log_hash in page and "1 revision(s) applied" in page
+    for path in effective.series.input_files:  # the raw files, untouched by the revision
+        assert sha256(path) == sha256(SAMPLES / "clay_liner" / path.name)
+        assert sha256(path) in page
+
+
+# --- with chromium: the command line writes PNG and SVG ------------------------------------
+
+
+@pytest.fixture(scope="module")
+def cli_pack(tmp_path_factory):
+    out = tmp_path_factory.mktemp("cli_pack")
+    done = run(
+        "report",
+        SAMPLES / "drainage_sand",
+        "--out",
+        out,
+        "--criterion",
+        "1e-4",
+        "--k-unit",
+        "cm/s",
+        "--density-unit",
+        "lb/ft3",
+    )
+    return out, done
+
+
+@needs_chromium
+def test_command_line_writes_the_pack_with_images(cli_pack):
+    out, done = cli_pack
+    assert done.returncode == 0, done.stderr
+    progress = [line for line in done.stderr.splitlines() if line.startswith("[")]
+    total = int(re.match(r"\[1/(\d+)\] table results.csv$", progress[0]).group(1))
+    assert len(progress) == total and progress[-1] == f"[{total}/{total}] report report.html"
+    assert f"[5/{total}] chart charts/conductivity_void_ratio.svg" in progress
+    pngs, svgs = sorted(out.glob("charts/*.png")), sorted(out.glob("charts/*.svg"))
+    assert len(pngs) == len(svgs) == 6  # two series charts, four specimens
+    for png in pngs:
+        data = png.read_bytes()
+        assert data[:8] == PNG_SIGNATURE
+        assert int.from_bytes(data[16:20], "big") == 980 * 2  # IHDR width: 2 px a layout px
+    for svg in svgs:
+        root = ElementTree.fromstring(svg.read_bytes())
+        assert root.tag.endswith("svg")
+        text = " ".join(root.itertext())
+        assert "licensed engineer" in text and "cm/s" in text
+    report = (out / "report.html").read_text()
+    assert "criterion k20 ≤ 0.01 cm/s" in report and "ρd [lb/ft³]" in report
+
+
+@needs_chromium
+def test_static_images_carry_the_cautions(cli_pack):
+    out, _ = cli_pack
+    text = " ".join(
+        ElementTree.fromstring(
+            (out / "charts" / "conductivity_void_ratio.svg").read_bytes()
+        ).itertext()
+    )
+    for caution in MEMO_CAUTIONS:
+        first_words = " ".join(caution.split()[:6])
+        assert first_words in text
+
+
+def test_command_line_without_chromium_names_what_to_install(tmp_path):
+    done = run(
+        "report",
+        SAMPLES / "drainage_sand",
+        "--out",
+        tmp_path / "out",
+        env={"BROWSER_PATH": str(tmp_path / "no-such-chromium")},
+    )
+    assert done.returncode == 3
+    assert "apt-get install chromium" in done.stderr and "--no-images" in done.stderr
+    assert "Traceback" not in done.stderr
+    assert not (tmp_path / "out").exists()  # refused before writing anything
+
+
+def test_command_line_without_images(tmp_path):
+    done = run(
+        "report",
+        SAMPLES / "drainage_sand",
+        "--out",
+        tmp_path,
+        "--no-images",
+        env={"BROWSER_PATH": str(tmp_path / "no-such-chromium")},
+    )
+    assert done.returncode == 0, done.stderr
+    assert (tmp_path / "report.html").exists() and (tmp_path / "results.xlsx").exists()
+    assert not list(tmp_path.glob("charts/*.png")) and list(tmp_path.glob("charts/*.html"))
