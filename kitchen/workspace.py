@@ -325,7 +325,7 @@ class Workspace:
         return result
 
     def falling_head(self, specimen: str) -> FallingHeadAnalysis:
-        """The falling-head analysis of one specimen, from the cache when its inputs are unchanged."""
+        """One specimen's falling-head analysis; from the cache while its inputs are unchanged."""
         readings = self.readings(specimen, "falling_head")
         key = self._key(specimen, "falling_head")
         return self._cached(
@@ -351,7 +351,7 @@ class Workspace:
             raise ValueError(f"{self._series.name}, falling-head readings: {error}") from error
 
     def constant_head(self, specimen: str) -> ConstantHeadAnalysis:
-        """The constant-head analysis of one specimen, from the cache when its inputs are unchanged."""
+        """One specimen's constant-head analysis; from the cache while its inputs are unchanged."""
         collections = self.readings(specimen, "constant_head")
         key = self._key(specimen, "constant_head")
         settings = self._settings

@@ -87,8 +87,12 @@ def test_progress_bar_counts_and_finishes():
 def test_refresh_figure_updates_traces_in_place():
     widget = go.FigureWidget(go.Figure(go.Scatter(x=[1, 2], y=[3, 4], name="readings")))
     first = widget.data[0]
-    refresh_figure(widget, go.Figure(go.Scatter(x=[5, 6, 7], y=[1, 1, 1], name="readings"),
-                                     layout={"title": {"text": "new"}}))
+    refresh_figure(
+        widget,
+        go.Figure(
+            go.Scatter(x=[5, 6, 7], y=[1, 1, 1], name="readings"), layout={"title": {"text": "new"}}
+        ),
+    )
     assert widget.data[0] is first  # same trace object: updated, not replaced
     assert widget.data[0].x == (5, 6, 7)
     assert widget.layout.title.text == "new"
@@ -124,3 +128,18 @@ def test_scratch_copy_leaves_the_original_alone(tmp_path):
     assert (source / "specimens.csv").read_text() == "specimen\nA\n"
     with pytest.raises(FileNotFoundError, match="not found"):
         scratch_copy(tmp_path / "missing")
+
+
+def test_refresh_figure_keeps_the_state_new_views_are_drawn_from():
+    # a FigureWidget shown inside a box is drawn from its synchronised state, which plotly
+    # itself only refreshes when the FigureWidget is displayed on its own
+    widget = go.FigureWidget()
+    refresh_figure(widget, go.Figure(go.Scatter(x=[1, 2], y=[5, 6], name="k")))
+    assert [trace["y"] for trace in widget._widget_data] == [(5, 6)] or [
+        list(trace["y"]) for trace in widget._widget_data
+    ] == [[5, 6]]
+    refresh_figure(
+        widget, go.Figure(go.Scatter(x=[1, 2], y=[7, 8], name="k"), layout={"height": 500})
+    )
+    assert list(widget._widget_data[0]["y"]) == [7, 8]
+    assert widget._widget_layout["height"] == 500

@@ -38,8 +38,12 @@ def test_criterion_is_read_with_its_unit(text, value):
 
 @pytest.mark.parametrize(
     ("text", "message"),
-    [("1e-9", "has no unit"), ("1e-9 m", "has unit 'm'"), ("fast", "expected a number"),
-     ("0 m/s", "positive")],
+    [
+        ("1e-9", "has no unit"),
+        ("1e-9 m", "has unit 'm'"),
+        ("fast", "expected a number"),
+        ("0 m/s", "positive"),
+    ],
 )
 def test_bad_criterion_is_refused_in_words(text, message):
     with pytest.raises(ValueError, match=message):
@@ -67,7 +71,8 @@ def _specimen_points(figure, axis="y"):
     return sorted(
         (t.name, y)
         for t in figure.data
-        if t.mode == "markers" and t.name in ("meets", "does not meet", "not conclusive")
+        if t.mode == "markers"
+        and t.name in ("meets", "does not meet", "not conclusive")
         and (t.yaxis or "y") == axis
         for y in t.y
     )
@@ -92,13 +97,15 @@ def test_units_switch_the_axes(panel):
     assert [name for name, _ in centimetres] == [name for name, _ in metres]
     np.testing.assert_allclose([k for _, k in centimetres], [100 * k for _, k in metres])
     assert list(_criterion_line(panel.figures["dry_density"]).y) == pytest.approx([1e-7, 1e-7])
-    x_metric = sorted(x for t in panel.figures["dry_density"].data if t.mode == "markers"
-                      for x in t.x)
+    x_metric = sorted(
+        x for t in panel.figures["dry_density"].data if t.mode == "markers" for x in t.x
+    )
     panel.density_unit.value = "kN/m³"
     assert "kN/m³" in panel.figures["dry_density"].layout.xaxis.title.text
     assert "kN/m³" in panel.figures["compaction"].layout.yaxis.title.text
-    x_weight = sorted(x for t in panel.figures["dry_density"].data if t.mode == "markers"
-                      for x in t.x)
+    x_weight = sorted(
+        x for t in panel.figures["dry_density"].data if t.mode == "markers" for x in t.x
+    )
     # gamma_d = rho_d * g_n, g_n = 9.80665 m/s2 exactly (3rd CGPM, 1901)
     np.testing.assert_allclose(x_weight, np.array(x_metric) * 9.80665, rtol=1e-12)
 

@@ -6,7 +6,7 @@ from pathlib import Path
 import pandas as pd
 import pytest
 
-from kitchen.series import SeriesError, load_series, read_tables
+from kitchen.series import SeriesError, build_series, load_series, read_tables, rebuild_series
 
 SPECIMENS = """specimen,diameter [mm],height [mm],dry_mass [g],specific_gravity,water_content [%],effort,standpipe_diameter [mm]
 A1,101.6,116.4,1650,2.70,18.0,standard,5
@@ -201,3 +201,78 @@ def test_reading_never_writes_the_raw_files(tmp_path):
     read_tables(folder)
     load_series(folder)
     assert {p.name: p.read_bytes() for p in folder.iterdir()} == before
+
+
+# --- building again after one table changed -------------------------------------------------
+
+
+def _height_changed(tables, row: int, height_mm: float):
+    changed = dict(tables)
+    changed["specimens"] = tables["specimens"].copy()
+    changed["specimens"].frame.loc[row, "height"] = height_mm
+    return changed
+
+
+def test_rebuild_after_a_specimen_change_equals_a_full_build(tmp_path):
+    folder = write_series(tmp_path / "s", constant_head=CONSTANT)
+    tables, files = read_tables(folder)
+    series = build_series(tables, folder, files)
+    changed = _height_changed(tables, 1, 117.0)
+    rebuilt = rebuild_series(series, changed, ["specimens"])
+    full = build_series(changed, folder, files)
+    for name in ("specimens", "constant_head", "falling_head"):
+        pd.testing.assert_frame_equal(getattr(rebuilt, name), getattr(full, name))
+    assert rebuilt.specimens["height"].tolist() == pytest.approx([0.1164, 0.117])
+    assert rebuilt.falling_head is series.falling_head  # the readings were not validated again
+    assert (rebuilt.name, rebuilt.input_files, rebuilt.units) == (full.name, files, full.units)
+
+
+def test_rebuild_reports_problems_as_a_full_build_does(tmp_path):
+    folder = write_series(tmp_path / "s")
+    tables, files = read_tables(folder)
+    series = build_series(tables, folder, files)
+    with pytest.raises(SeriesError) as caught:
+        rebuild_series(series, _height_changed(tables, 0, -1.0), ["specimens"])
+    assert [str(p) for p in caught.value.problems] == [
+        "specimens.csv, row 2, column 'height [mm]': must be greater than zero"
+    ]
+
+
+def test_rebuild_checks_unchanged_readings_against_new_ids(tmp_path):
+    folder = write_series(tmp_path / "s")
+    tables, files = read_tables(folder)
+    series = build_series(tables, folder, files)
+    renamed = dict(tables)
+    renamed["specimens"] = tables["specimens"].copy()
+    renamed["specimens"].frame["specimen"] = ["A1", "B2"]
+    with pytest.raises(SeriesError) as caught:
+        rebuild_series(series, renamed, ["specimens"])
+    problems = [str(p) for p in caught.value.problems]
+    assert problems[0] == (
+        "falling_head.csv, row 5, column 'specimen': unknown specimen (not in specimens): A2"
+    )
+    assert len(problems) == 3  # rows 5, 6 and 7
+
+
+def test_rebuild_refuses_a_table_it_was_not_given(tmp_path):
+    folder = write_series(tmp_path / "s")
+    tables, files = read_tables(folder)
+    with pytest.raises(ValueError, match="constant_head"):
+        rebuild_series(build_series(tables, folder, files), tables, ["constant_head"])
+
+
+def test_specimen_ids_are_read_without_surrounding_spaces(tmp_path):
+    falling = FALLING.replace("A1,10,95", " A1 ,10,95").replace("A2,0,", "A2 ,0,")
+    series = load_series(write_series(tmp_path / "s", falling_head=falling))
+    assert series.falling_head["specimen"].tolist() == ["A1"] * 3 + ["A2"] * 3
+    assert series.falling_head["specimen"].dtype == "string"
+
+
+def test_a_text_id_column_in_many_rows_is_stored_once(tmp_path):
+    """Each distinct id is one string object however many readings carry it."""
+    rows = "".join(f"A1,{minute},{100 - minute * 0.01:.2f},20\n" for minute in range(2000))
+    series = load_series(
+        write_series(tmp_path / "s", falling_head=FALLING.split("\n")[0] + "\n" + rows)
+    )
+    ids = series.falling_head["specimen"].to_numpy(dtype=object)
+    assert len({id(value) for value in ids}) == 1

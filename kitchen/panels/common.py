@@ -8,6 +8,7 @@ lost to the kernel log. Warnings raised while a callback runs are shown there to
 
 from __future__ import annotations
 
+import copy
 import functools
 import html
 import math
@@ -194,6 +195,14 @@ def refresh_figure(widget: go.FigureWidget, figure: go.Figure) -> None:
     place, inside one ``batch_update``, so open views receive one message; otherwise the
     traces are replaced. The layout is updated key by key (the template only when it
     changed).
+
+    Notes
+    -----
+    Open views follow the changes as messages, but a view created later (the panel
+    displayed after this call, a second display, a page reload with the kernel alive) is
+    drawn from the widget's synchronised state, which plotly sets only when a FigureWidget
+    is displayed on its own. That state is brought up to date here too, so a FigureWidget
+    inside a box or a tab shows the figure as it now is, not as it was first built.
     """
     new_traces = list(figure.data)
     same = len(new_traces) == len(widget.data) and all(
@@ -212,6 +221,9 @@ def refresh_figure(widget: go.FigureWidget, figure: go.Figure) -> None:
             widget.data = ()
             widget.layout.update(layout, overwrite=True)
         widget.add_traces([_trace_json(trace) for trace in new_traces])
+    # the state new views are drawn from (what FigureWidget._repr_mimebundle_ does)
+    widget._widget_layout = copy.deepcopy(widget._layout_obj._props)
+    widget._widget_data = copy.deepcopy(widget._data)
 
 
 def format_number(value, digits: int = 3) -> str:
@@ -272,7 +284,9 @@ def html_table(frame: pd.DataFrame, formats: dict | None = None, text_columns=()
 def caution_box(cautions: Iterable[str]) -> widgets.HTML:
     """The cautions as a framed list, shown under results that could be misused."""
     items = "".join(f"<li>{html.escape(c)}</li>" for c in cautions)
-    return widgets.HTML(f"{_STYLE}<div class='kitchen-caution'><b>Cautions</b><ul>{items}</ul></div>")
+    return widgets.HTML(
+        f"{_STYLE}<div class='kitchen-caution'><b>Cautions</b><ul>{items}</ul></div>"
+    )
 
 
 def scratch_copy(path: str | Path, folder: str | Path | None = None) -> Path:

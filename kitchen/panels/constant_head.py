@@ -125,9 +125,7 @@ class ConstantHeadPanel:
 _MARKS = {True: "✔", False: "✘", None: "–"}
 
 
-def _summary_html(
-    analysis: ConstantHeadAnalysis, unit: str, label: str, settings: Settings
-) -> str:
+def _summary_html(analysis: ConstantHeadAnalysis, unit: str, label: str, settings: Settings) -> str:
     result = analysis.result
     k = format_conductivity(analysis.k_reference, unit)
     low = format_conductivity(analysis.k_reference_low, unit)
@@ -143,8 +141,7 @@ def _summary_html(
     ]
     if result.fit is not None:
         lines.append(
-            f"fit of v·R_T on i through the origin: r² (uncentred) = "
-            f"{result.fit.r_squared:.5f}"
+            f"fit of v·R_T on i through the origin: r² (uncentred) = {result.fit.r_squared:.5f}"
         )
     if analysis.line is not None:
         line = analysis.line

@@ -159,8 +159,9 @@ def increments_figure(
     )
     figure.update_layout(
         title_text=f"Specimen {analysis.specimen}: k between readings",
-        legend=dict(x=0.99, xanchor="right", y=0.99, yanchor="top"),
-        margin=dict(t=50),
+        legend=dict(orientation="h", x=0.0, xanchor="left", y=-0.22, yanchor="top"),
+        margin=dict(t=50, b=110),
+        height=420,
     )
     return figure
 
@@ -382,8 +383,7 @@ def falling_head_panel(
     tested = list(pd.unique(series.falling_head["specimen"]))
     if specimen is not None and specimen not in tested:
         raise ValueError(
-            f"specimen {specimen!r} has no falling-head readings; choose one of "
-            f"{', '.join(tested)}"
+            f"specimen {specimen!r} has no falling-head readings; choose one of {', '.join(tested)}"
         )
     fit = fit or getattr(settings, "falling_head_fit", "log_linear")
     if fit not in FALLING_HEAD_FITS:
@@ -401,18 +401,25 @@ def falling_head_panel(
     panel = FallingHeadPanel(
         widget=widgets.VBox(),
         specimen=widgets.Dropdown(
-            options=options, value=specimen or tested[0], description="Specimen",
+            options=options,
+            value=specimen or tested[0],
+            description="Specimen",
             layout=widgets.Layout(width="320px"),
         ),  # fmt: skip
         window=widgets.IntRangeSlider(
-            min=0, max=1, value=(0, 1), step=1, description="Readings",
-            continuous_update=False, readout=False, layout=widgets.Layout(width="70%"),
+            min=0,
+            max=1,
+            value=(0, 1),
+            step=1,
+            description="Readings",
+            continuous_update=False,
+            readout=False,
+            layout=widgets.Layout(width="70%"),
         ),  # fmt: skip
         window_label=widgets.HTML(),
         fit_choice=widgets.ToggleButtons(
             options=[(FIT_LABELS[name], name) for name in FALLING_HEAD_FITS],
             value=fit,
-            description="Fit",
         ),
         propose=widgets.Button(description="Propose a window", icon="magic"),
         figure=go.FigureWidget(),
@@ -423,11 +430,12 @@ def falling_head_panel(
         settings=settings,
         _state=state,
     )
-    panel.fit_choice.style.button_width = "240px"
+    panel.fit_choice.style.button_width = "230px"
+    panel.propose.layout.width = "180px"
     panel._specimen_changed()
     panel.widget.children = [
         widgets.HBox([panel.specimen, panel.propose]),
-        panel.fit_choice,
+        widgets.HBox([widgets.Label("Fit", layout=widgets.Layout(width="86px")), panel.fit_choice]),
         panel.window,
         panel.window_label,
         panel.error.widget,

@@ -11,8 +11,8 @@ from __future__ import annotations
 
 import html
 import re
-from decimal import Decimal
 from dataclasses import dataclass, field
+from decimal import Decimal
 from pathlib import Path
 
 import ipywidgets as widgets
@@ -37,9 +37,9 @@ from .common import (
 __all__ = ["SeriesChartPanel", "series_chart_panel", "parse_criterion", "CHARTS"]
 
 CHARTS = (
-    ("compaction", "Compaction and conductivity"),
-    ("void_ratio", "k against void ratio"),
-    ("dry_density", "k against dry density"),
+    ("compaction", "Compaction and k"),
+    ("void_ratio", "k and void ratio"),
+    ("dry_density", "k and dry density"),
 )
 """The panel's charts: key and tab title."""
 
@@ -162,9 +162,7 @@ class SeriesChartPanel:
 
     def _refresh(self) -> None:
         criterion = self.criterion_value
-        self.analysis = analyse_series(
-            self.results, criterion, self.settings.reference_temperature
-        )
+        self.analysis = analyse_series(self.results, criterion, self.settings.reference_temperature)
         unit, density = self.k_unit.value, self.density_unit.value
         label = reference_label(self.settings)
         not_drawn = []
@@ -177,7 +175,9 @@ class SeriesChartPanel:
                     new = charts.conductivity_trend_figure(self.analysis, key, unit, density)
             except ValueError as error:
                 not_drawn.append(f"{title}: not drawn — {error}")
-                self.missing[key].value = f"<i>{html.escape(title)}: not drawn — {html.escape(str(error))}</i>"
+                self.missing[
+                    key
+                ].value = f"<i>{html.escape(title)}: not drawn — {html.escape(str(error))}</i>"
                 self.figures[key].layout.title.text = ""
                 self._boxes[key].children = [self.missing[key]]
                 continue
@@ -300,7 +300,9 @@ def series_chart_panel(
         style={"description_width": "initial"},
         layout=widgets.Layout(width="420px"),
     )
-    export = widgets.Button(description="Export memo pack", icon="download")
+    export = widgets.Button(
+        description="Export memo pack", icon="download", layout=widgets.Layout(width="200px")
+    )
     panel = SeriesChartPanel(
         widget=widgets.VBox(),
         criterion=criterion_box,

@@ -1,0 +1,485 @@
+"""Speed and memory at logger scale, measured against numpy, scipy and pandas: ``make bench``.
+
+Every target is measured on synthetic records made by ``logger_records.py`` beside this file
+(known k, seeded noise), in one process. Each time is the least of several repeats (the
+machine's other work only ever adds time); ours and the peer's are measured in turns. The
+script prints the machine, then one line per target with our time, the peer's time and
+their ratio (or the time alone where the target is absolute), and exits with status 1 when
+a target is missed.
+
+    .venv/bin/python tests/benchmarks/run.py            # the targets, at 10^6 readings
+    .venv/bin/python tests/benchmarks/run.py --quick    # a smaller run, to try it out
+
+The functions named ``*_case`` do one target's work and return what both sides computed, so
+that ``tests/test_benchmark_smoke.py`` can check, at a small size, that they agree.
+"""
+
+from __future__ import annotations
+
+import argparse
+import gc
+import math
+import os
+import platform
+import sys
+import tempfile
+import time
+import tracemalloc
+from dataclasses import dataclass
+from pathlib import Path
+
+import numpy as np
+import pandas as pd
+import scipy
+from scipy import optimize, stats
+
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+import logger_records  # noqa: E402  (beside this file)
+
+from kitchen.charts import MAX_TRACE_POINTS, compaction_conductivity_figure, falling_head_figure
+from kitchen.falling_head import FallingHeadRecord
+from kitchen.fitting import WindowedLineFit, fit_exponential_decay, fit_line
+from kitchen.results import Settings, series_results
+from kitchen.revisions import load_effective_series, revise
+from kitchen.series import load_series
+from kitchen.series_analysis import analyse_series
+from kitchen.specimen import specimen_state
+from kitchen.workspace import Workspace
+
+CRITERION = 1e-9
+"""Largest conductivity allowed in the series scenario (a liner's criterion). [m/s]"""
+
+
+# --- measuring ---------------------------------------------------------------------------------
+def least_time(function, repeats: int):
+    """(least wall time over `repeats` calls [s], the last call's result)."""
+    best, result = math.inf, None
+    for _ in range(repeats):
+        start = time.perf_counter()
+        result = function()
+        best = min(best, time.perf_counter() - start)
+    return best, result
+
+
+def in_turns(ours, peer, repeats: int):
+    """Least times of two functions measured in alternation: (ours, peer, our result, theirs)."""
+    best_ours = best_peer = math.inf
+    for _ in range(repeats):
+        start = time.perf_counter()
+        mine = ours()
+        best_ours = min(best_ours, time.perf_counter() - start)
+        start = time.perf_counter()
+        theirs = peer()
+        best_peer = min(best_peer, time.perf_counter() - start)
+    return best_ours, best_peer, mine, theirs
+
+
+def relative(a, b) -> float:
+    """Largest relative difference between two sequences of numbers."""
+    a, b = np.atleast_1d(np.asarray(a, dtype=float)), np.atleast_1d(np.asarray(b, dtype=float))
+    return float(np.max(np.abs(a - b) / np.maximum(np.abs(b), np.finfo(float).tiny)))
+
+
+@dataclass
+class Outcome:
+    """One target: what was measured and whether it is met."""
+
+    name: str
+    ours: float  # [s], or a ratio of bytes for memory
+    peer: float | None  # [s]; None for an absolute target
+    limit: float  # largest ratio, time [s] or memory ratio allowed
+    kind: str  # "ratio", "seconds" or "memory"
+    agreement: str = ""
+    agrees: bool = True
+
+    @property
+    def value(self) -> float:
+        return self.ours / self.peer if self.kind == "ratio" else self.ours
+
+    @property
+    def met(self) -> bool:
+        return self.value <= self.limit and self.agrees
+
+    def line(self) -> str:
+        ours = f"{self.ours:.2f}x" if self.kind == "memory" else _ms(self.ours)
+        peer = _ms(self.peer) if self.peer is not None else ""
+        if self.kind == "ratio":
+            measured, limit = f"{self.value:.2f}x", f"<= {self.limit:g}x"
+        elif self.kind == "memory":
+            measured, limit = f"{self.value:.2f}x", f"<= {self.limit:g}x raw"
+        else:
+            measured, limit = _ms(self.value), f"< {_ms(self.limit)}"
+        verdict = "met" if self.met else "MISSED"
+        return f"  {self.name:<46} {ours:>10} {peer:>10} {measured:>9} {limit:>14}  {verdict}" + (
+            f"\n  {'':<46} {self.agreement}" if self.agreement else ""
+        )
+
+
+def _ms(seconds: float) -> str:
+    return f"{seconds * 1e3:.1f} ms" if seconds < 10 else f"{seconds:.1f} s"
+
+
+def machine() -> list[str]:
+    """The machine and the libraries the numbers were measured with."""
+    cpu = "unknown"
+    try:
+        for line in Path("/proc/cpuinfo").read_text().splitlines():
+            if line.startswith("model name"):
+                cpu = line.split(":", 1)[1].strip()
+                break
+    except OSError:
+        pass
+    blas = np.show_config(mode="dicts").get("Build Dependencies", {}).get("blas", {})
+    variables = {v: os.environ.get(v) for v in ("OPENBLAS_CORETYPE", "OPENBLAS_L2_SIZE")}
+    load = os.getloadavg() if hasattr(os, "getloadavg") else ("?",) * 3
+    import plotly
+
+    return [
+        f"platform  {platform.platform()}; Python {platform.python_version()}",
+        f"cpu       {cpu}; {os.cpu_count()} logical cores; load average "
+        + ", ".join(f"{v:.2f}" for v in load),
+        f"libraries numpy {np.__version__} (BLAS {blas.get('name', '?')} "
+        f"{blas.get('version', '')}), scipy {scipy.__version__}, pandas {pd.__version__}, "
+        f"plotly {plotly.__version__}",
+        "env       "
+        + ", ".join(f"{k}={v if v is not None else '(unset)'}" for k, v in variables.items()),
+    ]
+
+
+# --- the cases ---------------------------------------------------------------------------------
+def log_linear_case(record):
+    """Our log-linear fit with its interval, and scipy.stats.linregress, on (t, ln h)."""
+    t, y = record.time, np.log(record.head)
+    return (lambda: fit_line(t, y)), (lambda: stats.linregress(t, y))
+
+
+def decay_start(t, h):
+    """A reasonable start for curve_fit: datum at zero, h0 the first reading, tau from the
+    first and last readings as if the datum were zero."""
+    return 0.0, float(h[0]), float((t[-1] - t[0]) / math.log(h[0] / h[-1]))
+
+
+def decay_model(t, asymptote, initial, time_constant):
+    return asymptote + (initial - asymptote) * np.exp(-(t - t[0]) / time_constant)
+
+
+def decay_case(record):
+    """Our datum-fitted decay, and scipy.optimize.curve_fit of the same model."""
+    t, h = record.time, record.head
+    start = decay_start(t, h)
+
+    def peer():
+        return optimize.curve_fit(decay_model, t, h, p0=start)[0]
+
+    return (lambda: fit_exponential_decay(t, h)), peer
+
+
+def decay_parameters(fit) -> tuple[float, float, float]:
+    return fit.asymptote, fit.initial, fit.time_constant
+
+
+def window_bounds(n: int, repeats: int, seed: int = 7) -> list[tuple[int, int]]:
+    """Distinct reading windows, each keeping most of a record (as a person slides them)."""
+    rng = np.random.default_rng(seed)
+    starts = rng.integers(0, n // 5, repeats)
+    stops = n - rng.integers(0, n // 10, repeats)
+    return [(int(a), int(b)) for a, b in zip(starts, stops, strict=True)]
+
+
+def window_case(windowed: WindowedLineFit, x, y, windows):
+    """A new fit per window from the prefix sums, and a refit of each window from scratch.
+
+    Returns (least time ours, least time refit, our fit and the refit of the last window).
+    """
+    ours, theirs = iter(windows), iter(windows)
+
+    def refit():
+        start, stop = next(theirs)
+        return fit_line(x[start:stop], y[start:stop])
+
+    return in_turns(lambda: windowed.fit(*next(ours)), refit, len(windows))
+
+
+def analysis_case(record: FallingHeadRecord, windows):
+    """The workbook's window move: FallingHeadRecord.analyse on each window in turn."""
+    turns = iter(windows)
+    return least_time(lambda: record.analyse(next(turns), "log_linear"), len(windows))
+
+
+def prepared_record(folder: Path):
+    """The series loaded from `folder`, its first specimen's record, and that specimen's state."""
+    series = load_series(folder)
+    state = specimen_state(series.specimens).iloc[0]
+    return series, FallingHeadRecord(series.falling_head, state, Settings())
+
+
+def loading_case(folder: Path):
+    """Our loader on a series folder, and pandas.read_csv on its readings file."""
+    readings = folder / "falling_head.csv"
+    return (lambda: load_series(folder)), (lambda: pd.read_csv(readings))
+
+
+def figure_case(record: FallingHeadRecord, window, max_points: int = MAX_TRACE_POINTS):
+    """Build the falling-head figure of one analysed window; returns the figure builder."""
+    analysis = record.analyse(window, "log_linear")
+    return lambda: falling_head_figure(None, analysis, max_points=max_points)
+
+
+def trace_points(figure) -> int:
+    return max(len(trace.x) for trace in figure.data if trace.x is not None)
+
+
+def refresh(workspace: Workspace):
+    """What the workbook redraws after a revision: the results, the series chart and the
+    chart of each specimen that moved."""
+    moved = workspace.sync()
+    results = workspace.results()
+    analysis = analyse_series(results, CRITERION, workspace.settings.reference_temperature)
+    figures = [compaction_conductivity_figure(analysis)]
+    figures += [falling_head_figure(None, workspace.falling_head(s)) for s in moved]
+    return moved, results, figures
+
+
+def full_recompute(folder: Path, revised: str):
+    """The same refresh done from the files, every specimen reduced again."""
+    series = load_effective_series(folder).series
+    results = series_results(series, Settings())
+    analysis = analyse_series(results, CRITERION)
+    readings = series.falling_head[series.falling_head["specimen"] == revised]
+    state = specimen_state(series.specimens).set_index("specimen", drop=False).loc[revised]
+    record = FallingHeadRecord(readings, state, Settings())
+    figures = [compaction_conductivity_figure(analysis)]
+    figures.append(falling_head_figure(None, record.analyse(None)))
+    return results, figures
+
+
+def revise_height(folder: Path, specimen: str, height_mm: float):
+    return revise(
+        folder,
+        specimen=specimen,
+        field="height",
+        value=f"{height_mm:.2f} mm",
+        reason="re-measured after the test",
+        who="benchmark",
+    )
+
+
+def memory_case(folder: Path) -> dict[str, float]:
+    """Bytes held for one record: the loaded readings table and the prepared record.
+
+    Measured with tracemalloc (numpy reports its buffers to it); the raw float arrays are
+    the record's time, head and temperature as float64.
+    """
+    gc.collect()
+    tracemalloc.start()
+    try:
+        series = load_series(folder)
+        gc.collect()
+        table, load_peak = tracemalloc.get_traced_memory()
+        tracemalloc.reset_peak()
+        state = specimen_state(series.specimens).iloc[0]
+        record = FallingHeadRecord(series.falling_head, state, Settings())
+        gc.collect()
+        held, record_peak = tracemalloc.get_traced_memory()
+    finally:
+        tracemalloc.stop()
+    raw = 3 * 8 * len(series.falling_head)
+    del record
+    return {
+        "raw": raw,
+        "table": table,
+        "record": held - table,
+        "held": held,
+        "load_peak": load_peak,
+        "record_peak": record_peak,
+    }
+
+
+# --- the run -----------------------------------------------------------------------------------
+def run(readings: int, series_readings: int, specimens: int, repeats: int, work: Path):
+    outcomes: list[Outcome] = []
+    notes: list[str] = []
+    say = print
+    say(f"record: {readings:,} readings; series: {specimens} specimens x {series_readings:,}")
+
+    record = logger_records.logger_record(readings)
+    ours, peer = log_linear_case(record)
+    t_ours, t_peer, mine, theirs = in_turns(ours, peer, repeats)
+    difference = relative(mine.slope, theirs.slope)
+    outcomes.append(
+        Outcome(
+            "log-linear fit with its interval / linregress",
+            t_ours,
+            t_peer,
+            1.0,
+            "ratio",
+            f"slope agrees to {difference:.1e} relative (target 1e-9)",
+            difference <= 1e-9,
+        )
+    )
+
+    ours, peer = decay_case(record)
+    t_ours, t_peer, mine, theirs = in_turns(ours, peer, max(2, repeats // 2))
+    difference = relative(decay_parameters(mine), theirs)
+    k_error = relative(1.0 / mine.time_constant, record.decay_rate)
+    outcomes.append(
+        Outcome(
+            "datum-fitted decay / curve_fit",
+            t_ours,
+            t_peer,
+            0.25,
+            "ratio",
+            f"h_inf, h0, tau agree to {difference:.1e} relative (target 1e-6); "
+            f"k recovered within {k_error:.1e}",
+            difference <= 1e-6,
+        )
+    )
+
+    folder = logger_records.write_record_series(work / "record", record)
+    ours, peer = loading_case(folder)
+    t_ours, t_peer, series, frame = in_turns(ours, peer, repeats)
+    loaded = series.falling_head["head"].to_numpy()
+    difference = relative(loaded, frame["head [mm]"].to_numpy() * 1e-3)
+    outcomes.append(
+        Outcome(
+            "loading the readings CSV / pandas.read_csv",
+            t_ours,
+            t_peer,
+            1.5,
+            "ratio",
+            f"heads agree to {difference:.1e} relative",
+            difference <= 1e-12,
+        )
+    )
+
+    state = specimen_state(series.specimens).iloc[0]
+    prepared = FallingHeadRecord(series.falling_head, state, Settings())
+    x, y = prepared.reference_time, prepared.log_head
+    windows = window_bounds(readings, repeats)
+    build, windowed = least_time(lambda: WindowedLineFit(x, y), 1)
+    t_ours, t_peer, fit, refit = window_case(windowed, x, y, windows)
+    difference = relative(fit.slope, refit.slope)
+    outcomes.append(
+        Outcome(
+            "moving the window: prefix-sum fit",
+            t_ours,
+            None,
+            0.020,
+            "seconds",
+            f"slope agrees with a refit of the window to {difference:.1e}; a refit takes "
+            f"{_ms(t_peer)}; prefix sums built once in {_ms(build)}",
+            difference <= 1e-9,
+        )
+    )
+    t_analysis, _ = analysis_case(prepared, windows)
+    outcomes.append(
+        Outcome("moving the window: the workbook's analysis", t_analysis, None, 0.020, "seconds")
+    )
+    notes.append(
+        "the workbook's analysis is FallingHeadRecord.analyse(window, 'log_linear'): fit, "
+        "curvature and runs tests, k values, interval"
+    )
+
+    build_figure = figure_case(prepared, windows[0])
+    t_figure, figure = least_time(build_figure, repeats)
+    points = trace_points(figure)
+    t_json, _ = least_time(figure.to_json, 1)
+    outcomes.append(
+        Outcome(
+            "figure of the record (falling_head_figure)",
+            t_figure,
+            None,
+            0.100,
+            "seconds",
+            f"{points:,} points in the longest trace (limit {MAX_TRACE_POINTS:,}); "
+            f"to_json {_ms(t_json)}",
+            points <= MAX_TRACE_POINTS,
+        )
+    )
+    del prepared, windowed, series, frame, build_figure, figure
+    gc.collect()  # the memory measured next is of a record alone
+
+    memory = memory_case(folder)
+    outcomes.append(
+        Outcome(
+            "memory: readings table + prepared record",
+            memory["held"] / memory["raw"],
+            None,
+            3.0,
+            "memory",
+            f"raw float arrays {memory['raw'] / 1e6:.0f} MB; table "
+            f"{memory['table'] / memory['raw']:.2f}x, record {memory['record'] / memory['raw']:.2f}x"
+            f"; peaks: loading {memory['load_peak'] / memory['raw']:.2f}x, preparing "
+            f"{memory['record_peak'] / memory['raw']:.2f}x",
+        )
+    )
+
+    series_folder = logger_records.write_series(work / "series", series_readings, specimens)
+    t_open, workspace = least_time(lambda: Workspace(series_folder), 1)
+    t_first, _ = least_time(lambda: refresh(workspace), 1)
+    names = workspace.specimen_ids()
+    revised = names[len(names) // 2]
+    height = workspace.series.specimens.set_index("specimen").loc[revised, "height"] * 1e3
+    t_record = t_refresh = math.inf
+    for step in range(max(2, repeats // 2)):
+        start = time.perf_counter()
+        revise_height(series_folder, revised, height + 0.1 * (step + 1))
+        t_record = min(t_record, time.perf_counter() - start)
+        start = time.perf_counter()
+        moved, results, _ = refresh(workspace)
+        t_refresh = min(t_refresh, time.perf_counter() - start)
+    t_full, (full, _) = least_time(lambda: full_recompute(series_folder, revised), 2)
+    same = results.drop(columns=["verdicts"]).equals(full.drop(columns=["verdicts"]))
+    outcomes.append(
+        Outcome(
+            "revising one height: results and charts",
+            t_refresh,
+            t_full,
+            0.100,
+            "seconds",
+            f"moved: {', '.join(moved)}; results equal a full recompute: {same} "
+            f"(full recompute {_ms(t_full)})",
+            same and moved == (revised,),
+        )
+    )
+    notes.append(
+        f"series opened in {_ms(t_open)}, first results and charts in {_ms(t_first)}; "
+        f"recording the revision in the log (kitchen.revisions.revise) took {_ms(t_record)}"
+    )
+    return outcomes, notes
+
+
+def main(argv=None) -> int:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--readings", type=int, default=1_000_000, help="readings of the record")
+    parser.add_argument("--series-readings", type=int, default=100_000, help="per specimen")
+    parser.add_argument("--specimens", type=int, default=12)
+    parser.add_argument("--repeats", type=int, default=7)
+    parser.add_argument("--quick", action="store_true", help="10^5 readings, 3 repeats")
+    arguments = parser.parse_args(argv)
+    if arguments.quick:
+        arguments.readings, arguments.series_readings, arguments.repeats = 100_000, 10_000, 3
+    for line in machine():
+        print(line)
+    with tempfile.TemporaryDirectory(prefix="kitchen-bench-") as work:
+        outcomes, notes = run(
+            arguments.readings,
+            arguments.series_readings,
+            arguments.specimens,
+            arguments.repeats,
+            Path(work),
+        )
+    print(f"\n  {'target':<46} {'ours':>10} {'peer':>10} {'measured':>9} {'limit':>14}")
+    for outcome in outcomes:
+        print(outcome.line())
+    for note in notes:
+        print(f"  note: {note}")
+    missed = [o.name for o in outcomes if not o.met]
+    print(f"\n{len(outcomes) - len(missed)} of {len(outcomes)} targets met")
+    if missed:
+        print("missed: " + "; ".join(missed))
+    return 1 if missed else 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
