@@ -135,28 +135,40 @@ def decimation_indices(values, max_points: int = MAX_TRACE_POINTS) -> np.ndarray
 
 
 def add_caption(figure: go.Figure, lines, width: int = 160) -> go.Figure:
-    """A copy of `figure` with `lines` of small text below the plot (cautions, provenance)."""
+    """A copy of `figure` with `lines` of small text (cautions, provenance) in its margin.
+
+    The text goes below the plot, or between the title and the plot when the legend sits
+    below it; the figure grows by the height of the text.
+    """
     out = go.Figure(figure)
     wrapped = []
     for line in lines:
         wrapped.extend(textwrap.wrap(str(line), width) or [""])
-    margin = out.layout.margin.b if out.layout.margin.b is not None else 70
     height = out.layout.height or HEIGHT
     extra = 14 * len(wrapped) + 16
-    out.add_annotation(
+    legend_below = out.layout.legend.y is not None and out.layout.legend.y < 0
+    text = dict(
         text="<br>".join(wrapped),
         xref="paper",
         yref="paper",
         x=0.0,
-        y=0.0,
         xanchor="left",
-        yanchor="top",
-        yshift=-(margin - 8),
         align="left",
         showarrow=False,
         font=dict(size=10, color=MUTED),
     )
-    out.update_layout(margin=dict(b=margin + extra), height=height + extra)
+    if legend_below:
+        top = out.layout.margin.t if out.layout.margin.t is not None else 80
+        out.add_annotation(y=1.0, yanchor="bottom", yshift=10, **text)
+        out.update_layout(
+            margin=dict(t=top + extra),
+            height=height + extra,
+            title=dict(yref="container", y=1.0, yanchor="top", pad=dict(t=24)),
+        )
+    else:
+        bottom = out.layout.margin.b if out.layout.margin.b is not None else 70
+        out.add_annotation(y=0.0, yanchor="top", yshift=-(bottom - 8), **text)
+        out.update_layout(margin=dict(b=bottom + extra), height=height + extra)
     return out
 
 

@@ -344,11 +344,22 @@ def constant_head_analysis(
     Returns
     -------
     ConstantHeadAnalysis
+        k from :func:`reduce_constant_head`; its interval combines the fit's standard error
+        with the resolutions (:func:`kitchen.uncertainty.conductivity_interval`).
         Verdicts: the last ``steady_count`` collections' k within the band of their mean;
         k independent of gradient (v on i with an intercept, the tool's own test); the
         largest gradient against the ASTM D5084 table; the Reynolds number on d10. The
         trend in time and outflow/inflow are not judged (the collections carry no times
         and no inflow).
+
+    Notes
+    -----
+    Collections at one head share one head reading, so its error is common to them: the
+    fit's standard error is taken from the line through the mean of the collections at
+    each head (degrees of freedom: heads − 1), not from every collection as if each had
+    its own head. With a single head, the collections' scatter and the head-scale
+    resolution are combined instead; with a single collection, the resolutions of its
+    readings.
 
     References
     ----------
@@ -393,11 +404,26 @@ def constant_head_analysis(
         reynolds_check(reynolds, criteria),
     )
     readings, factor, fitted = (), None, None
-    if result.fit is not None:
-        fit = result.fit
-        fitted = fit_quantity(
-            "slope of v on i", fit.slope_standard_error / abs(fit.slope), result.n - 1
+    levels, inverse = np.unique(heads, return_inverse=True)
+    if levels.size >= 2:  # Type A from the head means: collections at a head share its reading
+        counts = np.bincount(inverse)
+        means = fit_through_origin(
+            np.bincount(inverse, gradient) / counts, np.bincount(inverse, velocity) / counts
         )
+        fitted = fit_quantity(
+            "slope of v on i (head means)",
+            means.slope_standard_error / abs(means.slope),
+            levels.size - 1,
+        )
+    elif result.n >= 2:  # one head: the scatter of the collections, and the head reading
+        scatter = float(np.std(k_each, ddof=1) / np.sqrt(result.n) / np.mean(k_each))
+        fitted = fit_quantity("k of the collections", scatter, result.n - 1)
+        head = float(heads[0])
+        readings = (rectangular_quantity("head difference", head, resolutions.head_scale),)
+
+        def factor(values):
+            return head / values["head difference"]
+
     else:
         row = rows.iloc[0]
         weighed = pd.isna(row["volume"])

@@ -33,7 +33,7 @@ from typing import TYPE_CHECKING
 import numpy as np
 import pandas as pd
 
-from .fitting import DecayFit, LinearFit, WindowedLineFit, fit_exponential_decay, fit_line
+from .fitting import DecayFit, LinearFit, fit_exponential_decay, fit_line
 from .uncertainty import (
     InputQuantity,
     UncertaintyResult,
@@ -505,8 +505,11 @@ class FallingHeadRecord:
     Notes
     -----
     Preparing costs a few passes over the readings (the viscosity ratio at every reading,
-    the logarithm of every head); each :meth:`analyse` of a new window then costs a few
-    more and no refit of the whole record.
+    the logarithm of every head) and keeps three arrays of the record's length (reference
+    time, ln h, the running integral of temperature) besides the readings; the incremental
+    k are formed on first use. Each :meth:`analyse` of a window then costs about fifteen
+    passes over the window's readings (the line, the curvature and runs tests), with no
+    refit of anything outside it; the proposal judges every start at once from suffix sums.
     """
 
     def __init__(
@@ -566,9 +569,14 @@ class FallingHeadRecord:
         self._volumes = bool(np.any(np.isfinite(self.inflow) & np.isfinite(self.outflow)))
 
     @cached_property
-    def _lines(self) -> WindowedLineFit:
-        """Prefix sums of ln h on reference time: the line of any window in constant time."""
-        return WindowedLineFit(self.reference_time, self.log_head)
+    def increment_time(self) -> np.ndarray:
+        """Middle time of each pair of successive readings. [s]"""
+        return 0.5 * (self.time[1:] + self.time[:-1])
+
+    @cached_property
+    def increment_k(self) -> np.ndarray:
+        """k between successive readings, at the reference temperature. [m/s]"""
+        return self.scale * -np.diff(self.log_head) / np.diff(self.reference_time)
 
     def _where(self, index: int) -> str:
         if self._rows is not None:
@@ -597,7 +605,8 @@ class FallingHeadRecord:
             "temperature",
             "a water temperature between 0 and 100 degC",
         )
-        self._missing = np.concatenate(([0], np.cumsum(~known)))
+        # running count of missing temperatures, kept only when some are missing
+        self._missing = None if known.all() else np.concatenate(([0], np.cumsum(~known)))
         if known.all():
             filled = temperature
         elif known.any():
@@ -642,7 +651,7 @@ class FallingHeadRecord:
         else:
             rise = 0.0
         self.capillary_rise = rise
-        corrected = self.head - rise
+        corrected = self.head - rise if rise else self.head
         bad = np.flatnonzero(corrected <= 0)
         if bad.size:
             i = int(bad[0])
@@ -653,8 +662,6 @@ class FallingHeadRecord:
             )
         self.corrected_head = corrected
         self.log_head = np.log(corrected)
-        self.increment_time = 0.5 * (self.time[1:] + self.time[:-1])
-        self.increment_k = self.scale * -np.diff(self.log_head) / np.diff(self.reference_time)
 
     # ---------------------------------------------------------------- windows
     def _checked_window(self, window) -> tuple[int, int]:
@@ -831,7 +838,8 @@ class FallingHeadRecord:
         k at the test temperature is k_ref/R_T at the window's time-weighted mean
         temperature. The trend criterion is a quadratic term added to ln h against time
         (a trend in k is a change in the slope of ln h); the curvature diagnostic adds a
-        runs test on the residuals' signs. Both tests are the tool's own.
+        runs test on the residuals' signs (a residual of exactly zero counts as negative).
+        Both tests are the tool's own.
 
         References
         ----------
@@ -880,7 +888,7 @@ class FallingHeadRecord:
         sl = slice(start, stop)
         tau = self.reference_time[sl]
         heads = self.corrected_head[sl]
-        missing = int(self._missing[stop] - self._missing[start])
+        missing = 0 if self._missing is None else int(self._missing[stop] - self._missing[start])
         if self.temperature is None:
             notes.append(
                 "temperature not recorded: k not corrected to the reference temperature "
@@ -955,7 +963,7 @@ class FallingHeadRecord:
                 )
                 residuals, r_squared = None, math.nan
             else:
-                line = self._lines.fit(start, stop)
+                line = fit_line(tau, log_used[sl])
                 k_reference = -line.slope * self.scale
                 r_squared = line.r_squared
                 # signs of the residuals without forming them: y > ȳ + b·(x − x̄)

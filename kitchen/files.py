@@ -71,6 +71,9 @@ def atomic_write_bytes(path: str | Path, data: bytes) -> Path:
     path.parent.mkdir(parents=True, exist_ok=True)
     handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=path.parent)
     try:
+        # mkstemp makes the file readable by its owner only; give it the mode a plain
+        # open() would (the previous file's mode, or 0666 less the umask).
+        os.chmod(temporary, _mode_for(path))
         with os.fdopen(handle, "wb") as stream:
             stream.write(data)
             stream.flush()
@@ -81,6 +84,15 @@ def atomic_write_bytes(path: str | Path, data: bytes) -> Path:
         raise
     _sync_folder(path.parent)
     return path
+
+
+def _mode_for(path: Path) -> int:
+    try:
+        return path.stat().st_mode & 0o777
+    except FileNotFoundError:
+        umask = os.umask(0)
+        os.umask(umask)
+        return 0o666 & ~umask
 
 
 def atomic_write_text(path: str | Path, text: str) -> Path:

@@ -18,6 +18,7 @@ from __future__ import annotations
 import io
 import math
 import re
+import threading
 import time
 from collections.abc import Callable
 from dataclasses import asdict, dataclass, is_dataclass
@@ -195,6 +196,11 @@ def _browser_path() -> str | None:
         return None
 
 
+_image_server = {"started": False, "answered": False}
+FIRST_IMAGE_TIMEOUT = 180.0
+"""Seconds to wait for Chromium to render the first image before giving up. [s]"""
+
+
 def start_image_export() -> None:
     """Start kaleido's image server once per process, after checking for Chromium.
 
@@ -205,18 +211,48 @@ def start_image_export() -> None:
     """
     import kaleido
 
-    if kaleido._global_server.is_running():  # started earlier in this process
+    if _image_server["started"]:
         return
     path = _browser_path()
     if path is None or not Path(path).exists():
         raise ImageExportUnavailable(_CHROMIUM_HELP)
     kaleido.start_sync_server(mathjax=False, silence_warnings=True)
+    _image_server["started"] = True
+
+
+def _render(figure_dict: dict, options: dict) -> bytes:
+    """One image from the server; the first waits at most FIRST_IMAGE_TIMEOUT seconds.
+
+    A Chromium that starts but cannot render would otherwise leave the call waiting for
+    ever; after the first image has come back, calls are made directly.
+    """
+    import kaleido
+
+    if _image_server["answered"]:
+        return kaleido.calc_fig_sync(figure_dict, opts=options)
+    outcome: dict = {}
+
+    def first() -> None:
+        try:
+            outcome["image"] = kaleido.calc_fig_sync(figure_dict, opts=options)
+        except Exception as error:  # handed to the caller below
+            outcome["error"] = error
+
+    worker = threading.Thread(target=first, daemon=True)
+    worker.start()
+    worker.join(FIRST_IMAGE_TIMEOUT)
+    if "image" in outcome:
+        _image_server["answered"] = True
+        return outcome["image"]
+    reason = outcome.get("error") or f"no answer within {FIRST_IMAGE_TIMEOUT:g} s"
+    raise ImageExportUnavailable(
+        f"Chromium was found but did not render a chart ({reason}); check that it starts "
+        "headless on this machine (chromium --headless --no-sandbox)"
+    )
 
 
 def figure_image(figure, image_format: str) -> bytes:
-    """A figure as PNG or SVG bytes through the running kaleido server."""
-    import kaleido
-
+    """A figure as PNG or SVG bytes through kaleido's image server (started when needed)."""
     start_image_export()
     layout = figure.layout
     options = dict(
@@ -225,7 +261,7 @@ def figure_image(figure, image_format: str) -> bytes:
         height=layout.height or 620,
         scale=PNG_SCALE if image_format == "png" else 1,
     )
-    return kaleido.calc_fig_sync(figure.to_dict(), opts=options)
+    return _render(figure.to_dict(), options)
 
 
 def _caption(provenance: Provenance, criterion_text: str) -> list[str]:

@@ -101,6 +101,9 @@ _NON_NEGATIVE = {
     "specimens": ("water_content", "mold_mass"),
     "falling_head": ("time", "inflow_volume", "outflow_volume"),
 }
+_LEFT_OUT_WHEN_ABSENT = {"falling_head": ("inflow_volume", "outflow_volume")}
+"""Optional columns the SI table leaves out when the file has none (a logger record rarely
+carries volumes; an empty column of 10⁶ readings would cost 8 MB)."""
 HEAD_RISE_TOLERANCE = 0.002
 """A falling-head reading may rise this much above the one before it (resolution). [m]"""
 
@@ -400,7 +403,7 @@ def _cell_text(value):
 
 
 def _numeric_column(table: RawTable, column: str, problems: list[InputProblem]) -> np.ndarray:
-    """The column as floats in SI; bad cells are reported and become NaN."""
+    """The column as a new array of floats in SI; bad cells are reported and become NaN."""
     values = table.frame[column]
     if values.dtype.kind in "fiu":
         numbers = values.to_numpy(dtype=float)
@@ -420,7 +423,7 @@ def _numeric_column(table: RawTable, column: str, problems: list[InputProblem]) 
     kind = SCHEMAS[table.name][column].kind
     unit = table.units.get(column)
     if kind == "dimensionless" or not unit:
-        return numbers
+        return numbers.copy()  # never a view of the raw table
     if to_si(0.0, unit, kind) != 0.0:  # an offset unit (degF, K)
         return to_si(numbers, unit, kind)
     return np.multiply(numbers, to_si(1.0, unit, kind))  # one pass, one new array
@@ -457,6 +460,8 @@ class _Labels:
         stripped = np.array([str(text).strip() for text in texts], dtype=object)
         merged, values = pd.factorize(stripped)  # " A1" and "A1" are one specimen
         merged = np.where(values[merged] == "", -1, merged)
+        if np.array_equal(merged, np.arange(len(texts))):
+            return cls(codes, values)  # nothing merged or emptied: the codes stand
         return cls(np.append(merged, -1)[codes], values)  # code -1 stays -1
 
     def strings(self) -> pd.arrays.StringArray:
@@ -472,25 +477,28 @@ class _Labels:
 def _convert(table: RawTable, problems: list[InputProblem]) -> tuple[pd.DataFrame, _Labels]:
     """The table in SI with its value problems reported, and its specimen ids as codes."""
     schema = SCHEMAS[table.name]
-    out = pd.DataFrame({"source_row": table.frame["source_row"].to_numpy()})
+    rows = table.frame["source_row"].to_numpy(dtype=np.int32)  # a new array, not a view
+    n = rows.size
+    columns: dict[str, object] = {"source_row": rows}
     ids = None
     for column, spec in schema.items():
         present = column in table.frame.columns
         if spec.kind in _TEXT_KINDS:
             if present:
                 labels = _Labels.of(table.frame[column])
-                out[column] = labels.strings()
+                columns[column] = labels.strings()
                 ids = labels if column == "specimen" else ids
+                if spec.required:
+                    _report(problems, table, labels.codes < 0, column, "value missing")
             else:
-                out[column] = pd.array([pd.NA] * len(out), dtype="string")
-            if spec.required and present:
-                _report(problems, table, labels.codes < 0, column, "value missing")
+                columns[column] = pd.array([pd.NA] * n, dtype="string")
             continue
         if not present:
-            out[column] = np.nan
+            if column not in _LEFT_OUT_WHEN_ABSENT.get(table.name, ()):
+                columns[column] = np.full(n, np.nan)
             continue
         values = _numeric_column(table, column, problems)
-        out[column] = values
+        columns[column] = values
         finite = np.isfinite(values)
         if spec.required:
             empty = table.frame[column].isna().to_numpy()
@@ -499,7 +507,8 @@ def _convert(table: RawTable, problems: list[InputProblem]) -> tuple[pd.DataFram
             _report(problems, table, finite & (values <= 0), column, "must be greater than zero")
         if column in _NON_NEGATIVE.get(table.name, ()):
             _report(problems, table, finite & (values < 0), column, "must not be negative")
-    return out, ids
+    # every column is a new array: the frame takes them as they are (no copy, no consolidation)
+    return pd.DataFrame(columns, copy=False), ids
 
 
 def _check_specimens(

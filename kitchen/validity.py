@@ -391,10 +391,11 @@ def curvature_test(
     xc = np.subtract(x, line.x_mean)
     xc2 = np.multiply(xc, xc)
     s2 = line.sxx
-    s3 = float(np.dot(xc2, xc))
-    s4 = float(np.dot(xc2, xc2))
+    # einsum, not dot: no BLAS threads to wait for on a busy machine
+    s3 = float(np.einsum("i,i->", xc2, xc))
+    s4 = float(np.einsum("i,i->", xc2, xc2))
     sqq = s4 - s2 * s2 / n - s3 * s3 / s2
-    sqr = float(np.dot(xc2, y)) - line.y_mean * s2 - line.slope * s3
+    sqr = float(np.einsum("i,i->", xc2, y)) - line.y_mean * s2 - line.slope * s3
     dof = n - 3
     sse_line = line.residual_standard_deviation**2 * (n - 2)
     if not sqq > 0:

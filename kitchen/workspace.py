@@ -145,6 +145,8 @@ class Workspace:
     def _effective_table(self, name: str) -> RawTable:
         """The table as written with the standing revisions that name it applied."""
         own = [r for r in self._revisions if r.table == name]
+        if not own:
+            return self._written[name]  # never changed in place: revisions apply to copies
         tables, _ = apply_revisions({name: self._written[name]}, own)
         return tables[name]
 

@@ -342,3 +342,12 @@ def test_memo_style_is_applied(clay):
     assert isinstance(figure, go.Figure)
     assert "DejaVu Serif" in figure.layout.template.layout.font.family
     assert figure.layout.template.layout.legend.traceorder == "grouped"
+
+
+def test_caption_goes_above_the_plot_when_the_legend_is_below(clay):
+    figure = charts.compaction_conductivity_figure(clay[1])
+    captioned = charts.add_caption(figure, CAUTIONS)
+    note = captioned.layout.annotations[-1]
+    assert (note.y, note.yanchor) == (1.0, "bottom")  # between the title and the plot
+    assert captioned.layout.margin.t > figure.layout.margin.t
+    assert captioned.layout.margin.b == figure.layout.margin.b

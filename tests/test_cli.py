@@ -19,7 +19,7 @@ def run(*arguments, cwd=None):
 
 
 def test_report_writes_results(tmp_path):
-    done = run("report", SAMPLES / "clay_liner", "--out", tmp_path)
+    done = run("report", SAMPLES / "clay_liner", "--out", tmp_path, "--no-images")
     assert done.returncode == 0, done.stderr
     table = pd.read_csv(tmp_path / "results.csv")
     assert len(table) == 14
@@ -29,6 +29,7 @@ def test_report_writes_results(tmp_path):
 def test_report_options(tmp_path):
     done = run(
         "report",
+        "--no-images",
         SAMPLES / "drainage_sand",
         "--out",
         tmp_path,

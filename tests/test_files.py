@@ -117,3 +117,16 @@ def test_concurrent_appends_keep_every_row(tmp_path):
         (w, i) for w in range(workers) for i in range(count)
     ]
     assert all(padding == worker * 1500 for worker, _, padding in rows)  # none torn or mixed
+
+
+def test_written_files_get_the_usual_mode(tmp_path):
+    # A file written atomically is as readable as one written by open(): 0666 less the
+    # umask (common practice, no source), not the owner-only mode of a temporary file.
+    from kitchen.files import atomic_write_bytes
+
+    umask = os.umask(0o022)
+    try:
+        path = atomic_write_bytes(tmp_path / "memo.csv", b"a,b\n")
+        assert path.stat().st_mode & 0o777 == 0o644
+    finally:
+        os.umask(umask)

@@ -135,11 +135,17 @@ def test_refresh_figure_keeps_the_state_new_views_are_drawn_from():
     # itself only refreshes when the FigureWidget is displayed on its own
     widget = go.FigureWidget()
     refresh_figure(widget, go.Figure(go.Scatter(x=[1, 2], y=[5, 6], name="k")))
-    assert [trace["y"] for trace in widget._widget_data] == [(5, 6)] or [
-        list(trace["y"]) for trace in widget._widget_data
-    ] == [[5, 6]]
+    assert list(widget._widget_data[0]["y"]) == [5, 6]
     refresh_figure(
         widget, go.Figure(go.Scatter(x=[1, 2], y=[7, 8], name="k"), layout={"height": 500})
     )
     assert list(widget._widget_data[0]["y"]) == [7, 8]
     assert widget._widget_layout["height"] == 500
+
+
+def test_refresh_figure_carries_the_template_size_to_new_views():
+    # plotly's view draws a figure without a top-level height at 360 px
+    template = go.layout.Template(layout={"width": 980, "height": 620})
+    widget = go.FigureWidget()
+    refresh_figure(widget, go.Figure(go.Scatter(x=[1], y=[1]), layout={"template": template}))
+    assert (widget._widget_layout["width"], widget._widget_layout["height"]) == (980, 620)

@@ -123,7 +123,12 @@ def test_sand_series_has_no_compaction_plane_and_says_so():
     panel = series_chart_panel(SAMPLES / "drainage_sand", criterion="1e-3 m/s")
     assert panel.error.message == ""
     assert any("no specimen has a molding water content" in note for note in panel.error.notes)
-    assert panel._boxes["compaction"].children == (panel.missing["compaction"],)
+    assert panel.drawn == {"compaction": False, "void_ratio": True, "dry_density": True}
+    assert panel.chart_choice.value == "void_ratio"
+    assert panel.chart_box.children == (panel.figures["void_ratio"],)
+    panel.chart_choice.value = "compaction"
+    assert panel.chart_box.children == (panel.missing["compaction"],)
+    assert "not drawn" in panel.missing["compaction"].value
     assert len(panel.figures["void_ratio"].data) > 0
 
 

@@ -209,6 +209,9 @@ def refresh_figure(widget: go.FigureWidget, figure: go.Figure) -> None:
         old.type == new.type for old, new in zip(widget.data, new_traces, strict=True)
     )
     layout = figure.layout.to_plotly_json()
+    for key in ("width", "height"):  # a new view falls back to 360 px without them
+        if layout.get(key) is None and figure.layout.template.layout[key] is not None:
+            layout[key] = figure.layout.template.layout[key]
     if layout.get("template") == widget.layout.template.to_plotly_json():
         layout.pop("template", None)
     if same:

@@ -420,6 +420,8 @@ def falling_head_panel(
         fit_choice=widgets.ToggleButtons(
             options=[(FIT_LABELS[name], name) for name in FALLING_HEAD_FITS],
             value=fit,
+            description="Fit",
+            layout=widgets.Layout(width="auto"),
         ),
         propose=widgets.Button(description="Propose a window", icon="magic"),
         figure=go.FigureWidget(),
@@ -430,12 +432,12 @@ def falling_head_panel(
         settings=settings,
         _state=state,
     )
-    panel.fit_choice.style.button_width = "230px"
+    panel.fit_choice.style.button_width = "250px"
     panel.propose.layout.width = "180px"
     panel._specimen_changed()
     panel.widget.children = [
         widgets.HBox([panel.specimen, panel.propose]),
-        widgets.HBox([widgets.Label("Fit", layout=widgets.Layout(width="86px")), panel.fit_choice]),
+        panel.fit_choice,
         panel.window,
         panel.window_label,
         panel.error.widget,

@@ -142,7 +142,10 @@ class RevisePanel:
         revisions = read_revisions(self.series_path)
         self.history.value = _history_html(revisions)
         standing = [r for r in self.effective.applied]
+        keep = self.withdraw_choice.value
         self.withdraw_choice.options = [(f"{r.id}: {r.describe()}", r.id) for r in standing]
+        ids = [r.id for r in standing]
+        self.withdraw_choice.value = keep if keep in ids else (ids[-1] if ids else None)
         self.withdraw.disabled = not standing
 
     def _choose_table(self, _change=None) -> None:
@@ -304,6 +307,8 @@ def revise_panel(
             options=[(TABLE_LABELS[name], name) for name in present],
             value="specimens",
             description="Revise",
+            layout=widgets.Layout(width="auto"),
+            style={"button_width": "200px"},
         ),
         specimen=widgets.Dropdown(description="Specimen"),
         field=widgets.Dropdown(description="Field"),

@@ -108,6 +108,12 @@ class SeriesChartPanel:
         Units of the charts.
     figures : dict of str to plotly.graph_objects.FigureWidget
         ``"compaction"``, ``"void_ratio"``, ``"dry_density"`` (see :data:`CHARTS`).
+    chart_choice : ipywidgets.ToggleButtons
+        Which chart the chart box shows.
+    chart_box : ipywidgets.Box
+        The chart chosen, or why it is not drawn.
+    drawn : dict of str to bool
+        Whether each chart could be drawn for the series.
     verdicts : ipywidgets.HTML
         The count of each verdict and the geometric mean.
     table : ipywidgets.HTML
@@ -148,8 +154,17 @@ class SeriesChartPanel:
     images: bool = True
     analysis: SeriesAnalysis | None = None
     exported: list | None = None
+    chart_choice: widgets.ToggleButtons | None = None
+    chart_box: widgets.Box | None = None
     missing: dict = field(default_factory=dict)
-    _boxes: dict = field(default_factory=dict)
+    drawn: dict = field(default_factory=dict)
+
+    def _show_chart(self, _change=None) -> None:
+        """Show the chosen chart (or why it is not drawn) in the chart box."""
+        key = self.chart_choice.value
+        shown = self.figures[key] if self.drawn.get(key) else self.missing[key]
+        if self.chart_box.children != (shown,):
+            self.chart_box.children = [shown]
 
     @property
     def criterion_value(self) -> float:
@@ -175,14 +190,13 @@ class SeriesChartPanel:
                     new = charts.conductivity_trend_figure(self.analysis, key, unit, density)
             except ValueError as error:
                 not_drawn.append(f"{title}: not drawn — {error}")
-                self.missing[
-                    key
-                ].value = f"<i>{html.escape(title)}: not drawn — {html.escape(str(error))}</i>"
-                self.figures[key].layout.title.text = ""
-                self._boxes[key].children = [self.missing[key]]
+                words = f"{html.escape(title)}: not drawn — {html.escape(str(error))}"
+                self.missing[key].value = f"<i>{words}</i>"
+                self.drawn[key] = False
                 continue
-            self._boxes[key].children = [figure]
+            self.drawn[key] = True
             refresh_figure(figure, new)
+        self._show_chart()
         counts = self.analysis.counts
         mean = self.analysis.geometric_mean
         parts = [f"{html.escape(v)}: {counts[v]}" for v in VERDICTS]
@@ -322,16 +336,26 @@ def series_chart_panel(
         images=images,
     )
     panel.missing = {key: widgets.HTML() for key, _ in CHARTS}
-    panel._boxes = {key: widgets.VBox([figures[key]]) for key, _ in CHARTS}
+    # one chart at a time in a plain box: a FigureWidget in a hidden tab is never drawn
+    panel.chart_choice = widgets.ToggleButtons(
+        options=[(title, key) for key, title in CHARTS],
+        value=CHARTS[0][0],
+        description="Chart",
+        layout=widgets.Layout(width="auto"),
+    )
+    panel.chart_choice.style.button_width = "150px"
+    panel.chart_box = widgets.Box()
     panel.refresh()
-    tabs = widgets.Tab(children=[panel._boxes[key] for key, _ in CHARTS])
-    for index, (_, title) in enumerate(CHARTS):
-        tabs.set_title(index, title)
+    first = next((key for key, _ in CHARTS if panel.drawn.get(key)), CHARTS[0][0])
+    panel.chart_choice.value = first
+    panel._show_chart()
+    panel.chart_choice.observe(panel._show_chart, names="value")
     panel.widget.children = [
         widgets.HBox([criterion_box, k_unit, density]),
         panel.verdicts,
         panel.error.widget,
-        tabs,
+        panel.chart_choice,
+        panel.chart_box,
         widgets.HTML("<b>Specimens against the criterion</b>"),
         panel.table,
         widgets.HBox([export_box, export]),

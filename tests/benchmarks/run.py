@@ -101,18 +101,19 @@ class Outcome:
         return self.value <= self.limit and self.agrees
 
     def line(self) -> str:
-        ours = f"{self.ours:.2f}x" if self.kind == "memory" else _ms(self.ours)
-        peer = _ms(self.peer) if self.peer is not None else ""
-        if self.kind == "ratio":
-            measured, limit = f"{self.value:.2f}x", f"<= {self.limit:g}x"
-        elif self.kind == "memory":
-            measured, limit = f"{self.value:.2f}x", f"<= {self.limit:g}x raw"
+        if self.kind == "memory":
+            ours, limit = f"{self.ours:.2f}x raw", f"<= {self.limit:g}x raw"
         else:
-            measured, limit = _ms(self.value), f"< {_ms(self.limit)}"
+            ours = _ms(self.ours)
+            limit = f"<= {self.limit:g}x" if self.kind == "ratio" else f"< {_ms(self.limit)}"
+        peer = _ms(self.peer) if self.peer is not None else ""
+        ratio = f"{self.ours / self.peer:.2f}x" if self.peer is not None else ""
         verdict = "met" if self.met else "MISSED"
-        return f"  {self.name:<46} {ours:>10} {peer:>10} {measured:>9} {limit:>14}  {verdict}" + (
-            f"\n  {'':<46} {self.agreement}" if self.agreement else ""
-        )
+        text = f"  {self.name:<44} {ours:>11} {peer:>10} {ratio:>7} {limit:>12}  {verdict}"
+        return text + (f"\n  {'':<4}{self.agreement}" if self.agreement else "")
+
+
+HEADER = f"  {'target':<44} {'ours':>11} {'peer':>10} {'ratio':>7} {'limit':>12}"
 
 
 def _ms(seconds: float) -> str:
@@ -469,7 +470,7 @@ def main(argv=None) -> int:
             arguments.repeats,
             Path(work),
         )
-    print(f"\n  {'target':<46} {'ours':>10} {'peer':>10} {'measured':>9} {'limit':>14}")
+    print("\n" + HEADER)
     for outcome in outcomes:
         print(outcome.line())
     for note in notes:
