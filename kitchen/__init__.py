@@ -8,8 +8,13 @@ compaction state across the series.
 The modules follow the data's path: :mod:`kitchen.units` and :mod:`kitchen.series` (load),
 :mod:`kitchen.specimen` (phase relations), :mod:`kitchen.water` (density, viscosity),
 :mod:`kitchen.constant_head` and :mod:`kitchen.falling_head` (test reductions, sharing
-:mod:`kitchen.fitting`), :mod:`kitchen.results` (the per-specimen results table), and the
-command line in :mod:`kitchen.cli`.
+:mod:`kitchen.fitting`), :mod:`kitchen.validity` (termination criteria and fit
+diagnostics), :mod:`kitchen.uncertainty` (intervals after the GUM), :mod:`kitchen.results`
+(the per-specimen results table), :mod:`kitchen.compaction` and :mod:`kitchen.trends`
+(the series across compaction states), :mod:`kitchen.revisions` (the append-only log of
+corrections), :mod:`kitchen.charts` and :mod:`kitchen.memo` (figures and the exported
+pack), :mod:`kitchen.panels` (the notebooks' widgets) and the command line in
+:mod:`kitchen.cli`.
 
 Nomenclature
 ------------

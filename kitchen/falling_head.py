@@ -502,6 +502,21 @@ class FallingHeadRecord:
         A measured capillary rise in the standpipe, subtracted from every head; overrides
         ``settings.capillary_rise``. [m]
 
+    Attributes
+    ----------
+    time, head : numpy.ndarray
+        The readings as given. [s], [m]
+    corrected_head, log_head : numpy.ndarray
+        Heads less the capillary rise, and their logarithm. [m], [-]
+    reference_time : numpy.ndarray
+        Reference-equivalent time from the first reading (the elapsed time when no
+        temperature is recorded). [s]
+    increment_time, increment_k : numpy.ndarray
+        k between successive readings at the reference temperature, and their middle
+        times (formed on first use). [s], [m/s]
+    capillary_rise, scale, mean_temperature : float
+        The rise subtracted [m], a·L/A [m], the record's time-weighted temperature [degC].
+
     Notes
     -----
     Preparing costs a few passes over the readings (the viscosity ratio at every reading,
@@ -563,10 +578,12 @@ class FallingHeadRecord:
         self._prepare_temperature(readings)
         self._prepare_heads(capillary_rise)
         self.inflow, self.outflow = (
-            readings[c].to_numpy(float) if c in readings.columns else np.full(n, np.nan)
+            readings[c].to_numpy(float) if c in readings.columns else None
             for c in ("inflow_volume", "outflow_volume")
         )
-        self._volumes = bool(np.any(np.isfinite(self.inflow) & np.isfinite(self.outflow)))
+        self._volumes = self.inflow is not None and self.outflow is not None
+        if self._volumes:
+            self._volumes = bool(np.any(np.isfinite(self.inflow) & np.isfinite(self.outflow)))
 
     @cached_property
     def increment_time(self) -> np.ndarray:
@@ -605,16 +622,16 @@ class FallingHeadRecord:
             "temperature",
             "a water temperature between 0 and 100 degC",
         )
-        # running count of missing temperatures, kept only when some are missing
-        self._missing = None if known.all() else np.concatenate(([0], np.cumsum(~known)))
+        self._missing = np.flatnonzero(~known)  # positions of the readings without one
         if known.all():
             filled = temperature
         elif known.any():
             filled = np.interp(time, time[known], temperature[known])
         else:
             filled = None
-        self.temperature = filled
+        self.temperature_recorded = filled is not None
         if filled is None:
+            self.mean_temperature = math.nan
             self.reference_time = time - time[0]
             self._temperature_area = None
             return
@@ -623,6 +640,7 @@ class FallingHeadRecord:
         )
         steps = np.diff(time) * 0.5 * (filled[1:] + filled[:-1])
         self._temperature_area = np.concatenate(([0.0], np.cumsum(steps)))
+        self.mean_temperature = self._mean_temperature(0, self.n)
 
     def _prepare_heads(self, capillary_rise):
         settings = self.settings
@@ -636,7 +654,7 @@ class FallingHeadRecord:
                 )
             self.capillary_note = f"heads less a measured capillary rise of {rise * 1e3:.1f} mm"
         elif settings.capillary_rise == "jurin":
-            t = float(np.mean(self.temperature)) if self.temperature is not None else 20.0
+            t = self.mean_temperature if self.temperature_recorded else 20.0
             bore = math.sqrt(4 * self.inflow_area / math.pi)
             rise = jurin_capillary_rise(bore, t)
             words = f"standpipe bore {bore * 1e3:.2f} mm"
@@ -888,8 +906,8 @@ class FallingHeadRecord:
         sl = slice(start, stop)
         tau = self.reference_time[sl]
         heads = self.corrected_head[sl]
-        missing = 0 if self._missing is None else int(self._missing[stop] - self._missing[start])
-        if self.temperature is None:
+        missing = int(np.searchsorted(self._missing, stop) - np.searchsorted(self._missing, start))
+        if not self.temperature_recorded:
             notes.append(
                 "temperature not recorded: k not corrected to the reference temperature "
                 "(about 2.5 % per degC)"
@@ -966,10 +984,11 @@ class FallingHeadRecord:
                 line = fit_line(tau, log_used[sl])
                 k_reference = -line.slope * self.scale
                 r_squared = line.r_squared
-                # signs of the residuals without forming them: y > ȳ + b·(x − x̄)
-                residuals = (log_used[sl] - line.slope * tau) > (
-                    line.y_mean - line.slope * line.x_mean
-                )
+                # signs of the residuals, y − b·x > ȳ − b·x̄, in one scratch array
+                scratch = np.multiply(tau, line.slope)
+                np.subtract(log_used[sl], scratch, out=scratch)
+                residuals = scratch > line.y_mean - line.slope * line.x_mean
+                del scratch
             self._refuse_no_fall(k_reference, start, stop)
             fitted = None
             if line is not None:

@@ -391,7 +391,8 @@ def curvature_test(
     xc = np.subtract(x, line.x_mean)
     xc2 = np.multiply(xc, xc)
     s2 = line.sxx
-    # einsum, not dot: no BLAS threads to wait for on a busy machine
+    # einsum rather than dot: single-threaded, so no waiting on BLAS threads when the
+    # machine is busy, and as fast as memory allows otherwise
     s3 = float(np.einsum("i,i->", xc2, xc))
     s4 = float(np.einsum("i,i->", xc2, xc2))
     sqq = s4 - s2 * s2 / n - s3 * s3 / s2

@@ -24,7 +24,8 @@ import pandas as pd
 
 from .constant_head import ConstantHeadAnalysis, collection_table, constant_head_analysis
 from .falling_head import FallingHeadAnalysis, FallingHeadRecord
-from .results import Settings, _row
+from .results import Settings
+from .results import _row as results_row  # a row exactly as series_results builds it
 from .revisions import (
     EffectiveSeries,
     Revision,
@@ -379,8 +380,10 @@ class Workspace:
         for specimen, state_row in self._state_rows.items():
             if specimen in self._rows["constant_head"]:
                 analysis = self.constant_head(specimen)
-                rows.append(_row(state_row, "constant_head", analysis, analysis.gradient_max))
+                gradient = analysis.gradient_max
+                rows.append(results_row(state_row, "constant_head", analysis, gradient))
             if specimen in self._rows["falling_head"]:
                 analysis = self.falling_head(specimen)
-                rows.append(_row(state_row, "falling_head", analysis, analysis.gradient_start))
+                gradient = analysis.gradient_start
+                rows.append(results_row(state_row, "falling_head", analysis, gradient))
         return pd.DataFrame(rows)

@@ -102,10 +102,11 @@ def test_refresh_after_a_height_revision_equals_a_full_recompute(tmp_path):
     specimen = workspace.specimen_ids()[1]
     height = workspace.series.specimens["height"].iloc[1] * 1e3
     bench.revise_height(folder, specimen, height + 0.3)
-    moved, results, figures = bench.refresh(workspace)
+    moved, results, figures, stages = bench.refresh(workspace)
     full, _ = bench.full_recompute(folder, specimen)
     assert moved == (specimen,)
     assert len(figures) == 2  # the series chart and the revised specimen's chart
+    assert len(stages) == 5 and all(seconds >= 0 for seconds in stages.values())
     assert results.drop(columns=["verdicts"]).equals(full.drop(columns=["verdicts"]))
     assert results.loc[1, "height"] == pytest.approx((height + 0.3) * 1e-3, rel=1e-12)
 

@@ -32,6 +32,9 @@ ROOT = Path(__file__).resolve().parents[1]
 ARTIFACTS = ROOT / "tests" / "artifacts"
 CHROMIUM = Path(os.environ.get("KITCHEN_CHROMIUM", "/usr/bin/chromium"))
 CHROMIUM_FLAGS = [
+    "--disable-background-timer-throttling",
+    "--disable-renderer-backgrounding",
+    "--disable-backgrounding-occluded-windows",
     "--no-sandbox",
     "--disable-gpu",
     "--disable-quic",
@@ -89,6 +92,7 @@ def lab(tmp_path_factory):
         f"--ServerApp.root_dir={root / 'notebooks'}",
         f"--LabServerApp.user_settings_dir={root / 'settings'}",
         f"--LabServerApp.workspaces_dir={root / 'workspaces'}",
+        "--LabApp.expose_app_in_browser=True",
     ]  # fmt: skip
     if hasattr(os, "geteuid") and os.geteuid() == 0:
         command.append("--allow-root")
@@ -152,38 +156,56 @@ def _shut_down_kernels(lab) -> None:
         urllib.request.urlopen(urllib.request.Request(url, method="DELETE"), timeout=10)
 
 
-def _run_all(browser, lab, name: str):
-    """Open a notebook, run all cells, wait until every code cell has run; return the page."""
+ALL_RAN = """() => {
+    const prompts = [...document.querySelectorAll('.jp-CodeCell .jp-InputPrompt')];
+    return prompts.length > 0 && prompts.every(p => /\\[\\d+\\]/.test(p.textContent));
+}"""
+IDLE = ".jp-Notebook-ExecutionIndicator[data-status='idle']"
+OPEN = """async (path) => {
+    const app = window.jupyterapp;
+    const panel = await app.commands.execute('docmanager:open', {path, factory: 'Notebook'});
+    await panel.context.ready;
+    await panel.sessionContext.ready;
+    return panel.sessionContext.session ? panel.sessionContext.session.kernel.name : null;
+}"""
+CLOSE = """() => {
+    const panel = window.jupyterapp.shell.currentWidget;
+    if (panel && panel.context) { panel.context.model.dirty = false; panel.dispose(); }
+}"""
+
+
+@pytest.fixture(scope="module")
+def lab_page(browser, lab):
+    """One JupyterLab page for every notebook: the app and plotly.js load once."""
+    page = browser.new_page()
+    page.goto(f"{lab['base']}/lab?token={lab['token']}&reset")
+    page.wait_for_function("() => window.jupyterapp !== undefined", timeout=90_000)
+    page.evaluate("async () => { await window.jupyterapp.restored; }")
+    # fold the file browser away: more room for the panels
+    page.evaluate("() => window.jupyterapp.commands.execute('application:toggle-left-area')")
+    yield page
+    page.close()
+
+
+def _ran(page, lab, name: str):
+    """Open a notebook in the page, run all its cells and check them; return the page."""
     from playwright.sync_api import TimeoutError as PlaywrightTimeout
 
-    page = browser.new_page()
-    page.goto(f"{lab['base']}/lab/tree/{name}?token={lab['token']}&reset")
-    idle = ".jp-Notebook-ExecutionIndicator[data-status='idle']"
-    page.wait_for_selector(idle, timeout=60_000)
-    # on a loaded machine JupyterLab may ask for the kernel when its start is slow: take
-    # the notebook's own (Python 3)
-    choose = page.locator(".jp-Dialog:has-text('Select Kernel') .jp-mod-accept")
+    kernel = page.evaluate(OPEN, name)
+    if kernel is None:  # on a loaded machine JupyterLab may ask for the kernel: take Python 3
+        choose = page.locator(".jp-Dialog:has-text('Select Kernel') .jp-mod-accept")
+        try:
+            choose.click(timeout=10_000)
+        except PlaywrightTimeout:
+            pass
     try:
-        choose.wait_for(timeout=2_000)
-        choose.click()
-        page.wait_for_selector(idle, timeout=60_000)
-    except PlaywrightTimeout:
-        pass
-    page.keyboard.press("Control+b")  # fold the file browser away: more room for the panel
-    page.click(".lm-MenuBar-itemLabel:text-is('Run')")
-    page.click(".lm-Menu-itemLabel:text-is('Run All Cells')")
-    try:
-        page.wait_for_function(
-            """() => {
-                const prompts = [...document.querySelectorAll('.jp-CodeCell .jp-InputPrompt')];
-                return prompts.length > 0 && prompts.every(p => /\\[\\d+\\]/.test(p.textContent));
-            }""",
-            timeout=RUN_TIMEOUT,
-        )
+        page.wait_for_selector(IDLE, timeout=90_000)
+        page.evaluate("() => window.jupyterapp.commands.execute('notebook:run-all-cells')")
+        page.wait_for_function(ALL_RAN, timeout=RUN_TIMEOUT)
+        page.wait_for_selector(IDLE, timeout=RUN_TIMEOUT)
     except Exception:
         page.screenshot(path=str(ARTIFACTS / f"{Path(name).stem}_failed.png"))
         raise
-    page.wait_for_selector(".jp-Notebook-ExecutionIndicator[data-status='idle']")
     stderr = page.locator(".jp-OutputArea-output[data-mime-type='application/vnd.jupyter.stderr']")
     texts = stderr.all_inner_texts()
     failures = [text for text in texts if "Traceback" in text or "Error" in text]
@@ -195,6 +217,21 @@ def _run_all(browser, lab, name: str):
     problems = page.locator(".kitchen-problem").all_inner_texts()
     assert not problems, f"{name}: the panel reports a problem: {problems}"
     return page
+
+
+@pytest.fixture()
+def notebook(lab_page, lab):
+    """Run a notebook (``notebook(name)``); close it and stop its kernel afterwards."""
+    opened = []
+
+    def run(name: str):
+        opened.append(name)
+        return _ran(lab_page, lab, name)
+
+    yield run
+    if opened:
+        lab_page.evaluate(CLOSE)
+        _shut_down_kernels(lab)
 
 
 def _plotly_drawn(page, figures: int) -> None:
@@ -215,109 +252,89 @@ def _screenshot(page, name: str) -> None:
     page.screenshot(path=str(ARTIFACTS / f"{name}.png"))
 
 
-def test_open_a_series(browser, lab):
-    page = _run_all(browser, lab, "01_open_a_series.ipynb")
-    try:
-        box = page.locator(".widget-text input").first
-        assert box.input_value() == "../sample_data/clay_liner"
-        table = page.locator(".kitchen-table").first
-        assert "QF-14" in table.inner_text()
-        progress = page.locator(".widget-label", has_text="14 specimens")
-        assert progress.count() == 1
-        page.locator(".widget-text").first.scroll_into_view_if_needed()
-        _screenshot(page, "01_open_a_series")
-    finally:
-        page.close()
-        _shut_down_kernels(lab)
+def test_open_a_series(notebook, lab):
+    page = notebook("01_open_a_series.ipynb")
+    box = page.locator(".widget-text input").first
+    assert box.input_value() == "../sample_data/clay_liner"
+    table = page.locator(".kitchen-table").first
+    assert "QF-14" in table.inner_text()
+    progress = page.locator(".widget-label", has_text="14 specimens")
+    assert progress.count() == 1
+    page.locator(".widget-text").first.scroll_into_view_if_needed()
+    _screenshot(page, "01_open_a_series")
 
 
-def test_falling_head_slider_changes_k(browser, lab):
-    page = _run_all(browser, lab, "02_falling_head.ipynb")
-    try:
-        _plotly_drawn(page, 2)
-        titles = " ".join(page.locator(".js-plotly-plot .gtitle").all_text_contents())
-        assert "Specimen QF-02" in titles
-        page.locator(".kitchen-falling-head").scroll_into_view_if_needed()
-        _screenshot(page, "02_falling_head_proposed")
-        shown = page.locator(".kitchen-k")
-        label = page.locator(".kitchen-window-times")
-        k_before, times_before = shown.inner_text(), label.inner_text()
-        assert k_before.endswith("m/s")
-        handle = page.locator(".noUi-handle-lower").first
-        handle.focus()
-        for _ in range(12):  # twelve readings earlier: into QF-02's early transient
-            page.keyboard.press("ArrowLeft")
-        page.wait_for_function(
-            "([before]) => document.querySelector('.kitchen-k').textContent !== before",
-            arg=[k_before],
-            timeout=90_000,
-        )
-        assert label.inner_text() != times_before
-        k_after = shown.inner_text()
-        assert k_after != k_before and k_after.endswith("m/s")
-        _screenshot(page, "02_falling_head_moved")
-    finally:
-        page.close()
-        _shut_down_kernels(lab)
+def test_falling_head_slider_changes_k(notebook, lab):
+    page = notebook("02_falling_head.ipynb")
+    _plotly_drawn(page, 2)
+    titles = " ".join(page.locator(".js-plotly-plot .gtitle").all_text_contents())
+    assert "Specimen QF-02" in titles
+    page.locator(".kitchen-falling-head").scroll_into_view_if_needed()
+    _screenshot(page, "02_falling_head_proposed")
+    shown = page.locator(".kitchen-k")
+    label = page.locator(".kitchen-window-times")
+    k_before, times_before = shown.inner_text(), label.inner_text()
+    assert k_before.endswith("m/s")
+    handle = page.locator(".noUi-handle-lower").first
+    handle.focus()
+    for _ in range(12):  # twelve readings earlier: into QF-02's early transient
+        page.keyboard.press("ArrowLeft")
+    page.wait_for_function(
+        "([before]) => document.querySelector('.kitchen-k').textContent !== before",
+        arg=[k_before],
+        timeout=90_000,
+    )
+    assert label.inner_text() != times_before
+    k_after = shown.inner_text()
+    assert k_after != k_before and k_after.endswith("m/s")
+    _screenshot(page, "02_falling_head_moved")
 
 
-def test_constant_head(browser, lab):
-    page = _run_all(browser, lab, "03_constant_head.ipynb")
-    try:
-        _plotly_drawn(page, 1)
-        titles = " ".join(page.locator(".js-plotly-plot .gtitle").all_text_contents())
-        assert "Specimen DL-A" in titles
-        assert page.locator(".kitchen-k").inner_text().endswith("m/s")
-        page.locator(".js-plotly-plot").first.scroll_into_view_if_needed()
-        _screenshot(page, "03_constant_head")
-    finally:
-        page.close()
-        _shut_down_kernels(lab)
+def test_constant_head(notebook, lab):
+    page = notebook("03_constant_head.ipynb")
+    _plotly_drawn(page, 1)
+    titles = " ".join(page.locator(".js-plotly-plot .gtitle").all_text_contents())
+    assert "Specimen DL-A" in titles
+    assert page.locator(".kitchen-k").inner_text().endswith("m/s")
+    page.locator(".js-plotly-plot").first.scroll_into_view_if_needed()
+    _screenshot(page, "03_constant_head")
 
 
-def test_series_chart(browser, lab):
-    page = _run_all(browser, lab, "04_series_chart.ipynb")
-    try:
-        _plotly_drawn(page, 1)
-        verdicts = page.locator(".kitchen-criterion")
-        assert verdicts.inner_text() == "1.00 × 10⁻⁹ m/s"
-        page.locator(".js-plotly-plot").first.scroll_into_view_if_needed()
-        _screenshot(page, "04_series_chart_compaction")
-        page.locator(".widget-toggle-button", has_text="k and void ratio").click()
-        page.wait_for_function(
-            "() => [...document.querySelectorAll('.js-plotly-plot .gtitle')]"
-            ".some(t => /void ratio/i.test(t.textContent))",
-            timeout=90_000,
-        )
-        _plotly_drawn(page, 1)
-        page.wait_for_timeout(800)
-        _screenshot(page, "04_series_chart_void_ratio")
-    finally:
-        page.close()
-        _shut_down_kernels(lab)
+def test_series_chart(notebook, lab):
+    page = notebook("04_series_chart.ipynb")
+    _plotly_drawn(page, 1)
+    verdicts = page.locator(".kitchen-criterion")
+    assert verdicts.inner_text() == "1.00 × 10⁻⁹ m/s"
+    page.locator(".js-plotly-plot").first.scroll_into_view_if_needed()
+    _screenshot(page, "04_series_chart_compaction")
+    page.locator(".widget-toggle-button", has_text="k and void ratio").click()
+    page.wait_for_function(
+        "() => [...document.querySelectorAll('.js-plotly-plot .gtitle')]"
+        ".some(t => /void ratio/i.test(t.textContent))",
+        timeout=90_000,
+    )
+    _plotly_drawn(page, 1)
+    page.wait_for_timeout(800)
+    _screenshot(page, "04_series_chart_void_ratio")
 
 
-def test_revise(browser, lab):
-    page = _run_all(browser, lab, "05_revise.ipynb")
-    try:
-        assert page.get_by_text("No revisions yet").count() >= 1
-        value = page.locator(".widget-text:has(label:text-is('New value')) input")
-        reason = page.locator(".widget-text:has(label:text-is('Reason')) input")
-        value.fill("4.8 in")
-        reason.fill("re-measured after test")
-        reason.press("Tab")
-        page.locator("button", has_text="Record revision").click()
-        page.wait_for_function(
-            "() => [...document.querySelectorAll('p')].some(p => /Revision [0-9a-f]{8} "
-            "recorded/.test(p.textContent))",
-            timeout=90_000,
-        )
-        assert not page.locator(".kitchen-problem").count()
-        assert "QF-01" in page.locator(".kitchen-table").first.inner_text()
-        # the copy was revised, never the sample data in the served folder
-        assert not (lab["root"] / "sample_data" / "clay_liner" / "revisions.csv").exists()
-        page.locator("button", has_text="Record revision").scroll_into_view_if_needed()
-        _screenshot(page, "05_revise")
-    finally:
-        page.close()
-        _shut_down_kernels(lab)
+def test_revise(notebook, lab):
+    page = notebook("05_revise.ipynb")
+    assert page.get_by_text("No revisions yet").count() >= 1
+    value = page.locator(".widget-text:has(label:text-is('New value')) input")
+    reason = page.locator(".widget-text:has(label:text-is('Reason')) input")
+    value.fill("4.8 in")
+    reason.fill("re-measured after test")
+    reason.press("Tab")
+    page.locator("button", has_text="Record revision").click()
+    page.wait_for_function(
+        "() => [...document.querySelectorAll('p')].some(p => /Revision [0-9a-f]{8} "
+        "recorded/.test(p.textContent))",
+        timeout=90_000,
+    )
+    assert not page.locator(".kitchen-problem").count()
+    assert "QF-01" in page.locator(".kitchen-table").first.inner_text()
+    # the copy was revised, never the sample data in the served folder
+    assert not (lab["root"] / "sample_data" / "clay_liner" / "revisions.csv").exists()
+    page.locator("button", has_text="Record revision").scroll_into_view_if_needed()
+    _screenshot(page, "05_revise")

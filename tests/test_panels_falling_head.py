@@ -9,7 +9,8 @@ import pytest
 
 from kitchen.charts import MAX_TRACE_POINTS
 from kitchen.falling_head import FallingHeadRecord
-from kitchen.panels.falling_head import falling_head_panel, format_elapsed
+from kitchen.panels.falling_head import falling_head_panel
+from kitchen.panels.figures import format_elapsed
 from kitchen.results import Settings
 from kitchen.series import load_series
 from kitchen.specimen import specimen_state

@@ -13,16 +13,13 @@ all readings.
 from __future__ import annotations
 
 import html
-import math
 from dataclasses import dataclass, field
 
 import ipywidgets as widgets
-import numpy as np
 import pandas as pd
 import plotly.graph_objects as go
 
 from .. import charts
-from ..display_units import k_unit
 from ..falling_head import FALLING_HEAD_FITS, FallingHeadAnalysis, FallingHeadRecord
 from ..results import Settings, reference_label
 from ..series import Series
@@ -34,14 +31,9 @@ from .common import (
     format_number,
     refresh_figure,
 )
+from .figures import format_elapsed, increments_figure
 
-__all__ = [
-    "FIT_LABELS",
-    "FallingHeadPanel",
-    "falling_head_panel",
-    "format_elapsed",
-    "increments_figure",
-]
+__all__ = ["FIT_LABELS", "FallingHeadPanel", "falling_head_panel"]
 
 FIT_LABELS = {
     "log_linear": "ln h against time (datum known)",
@@ -50,120 +42,6 @@ FIT_LABELS = {
 """How the two falling-head fits are named on the toggle."""
 
 _MARKS = {True: "✔", False: "✘", None: "–"}
-
-
-def format_elapsed(seconds: float) -> str:
-    """Elapsed time for people: seconds, minutes or hours with three figures."""
-    if not math.isfinite(seconds):
-        return "–"
-    if seconds < 120:
-        return f"{seconds:.0f} s"
-    if seconds < 3 * 3600:
-        return f"{seconds / 60:.1f} min"
-    return f"{seconds / 3600:.2f} h"
-
-
-def _time_scale(analysis: FallingHeadAnalysis) -> tuple[str, float]:
-    span = float(analysis.time[-1] - analysis.time[0])
-    if span >= 3 * 3600:
-        return "h", 3600.0
-    if span >= 180:
-        return "min", 60.0
-    return "s", 1.0
-
-
-def increments_figure(
-    analysis: FallingHeadAnalysis, settings: Settings, k_unit_name: str = "m/s"
-) -> go.Figure:
-    """k between successive readings against time, with the window, k and the steady band.
-
-    Parameters
-    ----------
-    analysis : FallingHeadAnalysis
-        One window of one specimen (:meth:`kitchen.falling_head.FallingHeadRecord.analyse`).
-    settings : Settings
-        For the reference temperature and the steady-values band (``settings.criteria``).
-    k_unit_name : {"m/s", "cm/s"}
-
-    Returns
-    -------
-    plotly.graph_objects.Figure
-        Every incremental k (grey outside the window), the values the steady-values
-        criterion judges (filled), the window's k and the band of ±25 % (±50 % below
-        1×10⁻¹⁰ m/s, ASTM D5084 from memory; the limits of ``settings.criteria``) about it.
-    """
-    unit = k_unit(k_unit_name)
-    scale_name, divisor = _time_scale(analysis)
-    label = reference_label(settings)
-    window_start = analysis.time[analysis.start] / divisor
-    window_end = analysis.time[analysis.stop - 1] / divisor
-    figure = go.Figure(layout=dict(template=charts.memo_template(), height=360))
-    figure.add_vrect(
-        x0=window_start, x1=window_end, fillcolor="rgba(46,107,87,0.09)", line_width=0,
-        layer="below",
-    )  # fmt: skip
-    k = analysis.k_reference
-    band = settings.criteria.band(k) if hasattr(settings, "criteria") else 0.25
-    figure.add_hrect(
-        y0=k * (1 - band) * unit.factor, y1=k * (1 + band) * unit.factor,
-        fillcolor="rgba(29,39,49,0.07)", line_width=0, layer="below",
-    )  # fmt: skip
-    time = np.asarray(analysis.increment_time, dtype=float)
-    values = np.asarray(analysis.increment_k, dtype=float)
-    finite = np.isfinite(values)
-    keep = charts.decimation_indices(np.where(finite, values, np.nan))
-    figure.add_trace(
-        go.Scatter(
-            x=time[keep] / divisor,
-            y=values[keep] * unit.factor,
-            mode="markers",
-            name="k between successive readings",
-            marker=dict(symbol="circle-open", size=6, color=charts.MUTED),
-            hovertemplate="t = %{x:.4g} " + scale_name + "<br>k = %{y:.3g}<extra></extra>",
-        )
-    )
-    judged_time = np.asarray(analysis.value_time, dtype=float)
-    judged = np.asarray(analysis.value_k, dtype=float)
-    keep = charts.decimation_indices(judged)
-    step = analysis.value_step
-    figure.add_trace(
-        go.Scatter(
-            x=judged_time[keep] / divisor,
-            y=judged[keep] * unit.factor,
-            mode="markers",
-            name="values judged for steadiness"
-            + ("" if step == 1 else f" (over {step} reading intervals)"),
-            marker=dict(symbol="circle", size=7, color=charts.INK),
-        )
-    )
-    reach = [analysis.time[0] / divisor, analysis.time[-1] / divisor]
-    figure.add_trace(
-        go.Scatter(
-            x=reach,
-            y=[k * unit.factor] * 2,
-            mode="lines",
-            name=f"{label} of the window, ±{100 * band:g} % shaded",
-            line=dict(color=charts.VERDICT_COLOURS["does not meet"], width=1.6),
-        )
-    )
-    inside = judged[np.isfinite(judged)]
-    if inside.size:
-        low, high = float(inside.min()), float(inside.max())
-        low, high = min(low, k * (1 - band)), max(high, k * (1 + band))
-        pad = 0.15 * (high - low)
-        figure.update_yaxes(range=[(low - pad) * unit.factor, (high + pad) * unit.factor])
-    figure.update_xaxes(title_text=f"elapsed time t [{scale_name}]")
-    figure.update_yaxes(
-        title_text=f"incremental k at {settings.reference_temperature:g} °C [{unit.unit}]",
-        exponentformat="power",
-    )
-    figure.update_layout(
-        title_text=f"Specimen {analysis.specimen}: k between readings",
-        legend=dict(orientation="h", x=0.0, xanchor="left", y=-0.22, yanchor="top"),
-        margin=dict(t=50, b=110),
-        height=420,
-    )
-    return figure
 
 
 def _summary_html(analysis: FallingHeadAnalysis, settings: Settings) -> str:
