@@ -59,6 +59,8 @@ def test_height_revision_moves_density_and_k_as_the_physics_says(panel, copy):
     expected = what_changed(before, after, 1e-9)
     assert panel.changed.equals(expected)
     assert "QF-03" in panel.changes.value and "in force" in panel.history.value
+    shown = f"{row['dry_density_before'] / 1000:.3f} → {row['dry_density_after'] / 1000:.3f}"
+    assert shown in panel.changes.value  # before and after side by side, in Mg/m3
     assert "121.92 mm" in panel.current.value
 
 

@@ -34,6 +34,7 @@ __all__ = [
     "refresh_figure",
     "format_number",
     "format_conductivity",
+    "format_fixed",
     "html_table",
     "caution_box",
     "scratch_copy",
@@ -52,7 +53,8 @@ _STYLE = """<style>
 .kitchen-table th, .kitchen-table td {padding: 2px 8px; border-bottom: 1px solid #ddd;
   text-align: right; white-space: nowrap;}
 .kitchen-table th {background: #f1efe8; text-align: center;}
-.kitchen-table td.kitchen-text {text-align: left; white-space: normal;}
+.kitchen-table th {white-space: normal; min-width: 3em;}
+.kitchen-table td.kitchen-text {text-align: left; white-space: normal; min-width: 14em;}
 .kitchen-caution {border-left: 4px solid #b5651d; padding: 0.2em 0.8em; background: #faf6ef;}
 </style>"""
 
@@ -236,6 +238,13 @@ def format_number(value, digits: int = 3) -> str:
     if isinstance(value, (int, np.integer)):
         return str(int(value))
     return f"{float(value):.{digits}g}"
+
+
+def format_fixed(value, decimals: int) -> str:
+    """A number with a fixed count of decimals, or "–" when not a number."""
+    if value is None or value is pd.NA or not math.isfinite(float(value)):
+        return "–"
+    return f"{float(value):.{decimals}f}"
 
 
 def format_conductivity(value, unit: str = "m/s", digits: int = 3) -> str:

@@ -18,7 +18,7 @@ from ..results import Settings, results_table, series_results
 from ..revisions import EffectiveSeries, load_effective_series
 from ..series import Series
 from ..water import VISCOSITY_METHODS
-from .common import MessageArea, ProgressBar, format_conductivity, format_number, html_table
+from .common import MessageArea, ProgressBar, format_conductivity, format_fixed, html_table
 
 __all__ = ["SeriesPanel", "series_panel", "VISCOSITY_LABELS"]
 
@@ -39,14 +39,12 @@ def _formats(table: pd.DataFrame) -> dict:
     for column in table.columns:
         if column.startswith("k") and column.endswith("[m/s]"):
             formats[column] = _k_format
-        elif column.endswith("[%]"):
-            formats[column] = lambda v: format_number(v, 3)
-        elif column == "dry_density [Mg/m3]":
-            formats[column] = lambda v: "–" if pd.isna(v) else f"{v:.3f}"
-        elif column in ("void_ratio", "porosity"):
-            formats[column] = lambda v: "–" if pd.isna(v) else f"{v:.3f}"
-        elif column == "temperature [degC]":
-            formats[column] = lambda v: "–" if pd.isna(v) else f"{v:.1f}"
+        elif column.endswith("[%]") or column == "temperature [degC]":
+            formats[column] = lambda v: format_fixed(v, 1)
+        elif column in ("dry_density [Mg/m3]", "void_ratio", "porosity", "specific_gravity"):
+            formats[column] = lambda v: format_fixed(v, 3)
+        elif column.endswith("[mm]") or column.endswith("[g]") or column.endswith("[mm2]"):
+            formats[column] = lambda v: format_fixed(v, 2)
     return formats
 
 
@@ -225,7 +223,7 @@ def series_panel(path: str | Path, settings: Settings | None = None) -> SeriesPa
     )
     for index, title in enumerate(("Results", "Checks", "Specimens as read")):
         tabs.set_title(index, title)
-    error, progress = MessageArea(), ProgressBar("Loading")
+    error, progress = MessageArea(), ProgressBar()
     box = widgets.VBox(
         [
             widgets.HBox([path_box, load]),

@@ -14,6 +14,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 import ipywidgets as widgets
+import numpy as np
 import pandas as pd
 
 from ..results import Settings, reference_label, series_results
@@ -29,7 +30,7 @@ from ..revisions import (
     withdraw,
 )
 from ..series import SCHEMAS, read_tables
-from .common import MessageArea, format_conductivity, html_table
+from .common import MessageArea, format_conductivity, format_fixed, html_table
 from .series_chart import parse_criterion
 
 __all__ = ["RevisePanel", "revise_panel", "changes_view_table"]
@@ -45,8 +46,30 @@ def _number(value) -> str:
     return "–" if pd.isna(value) else f"{value:.4g}"
 
 
+def _side_by_side(before, after, show) -> str:
+    old, new = show(before), show(after)
+    return old if old == new else f"{old} → {new}"
+
+
+def _yes_no(value) -> str:
+    if value is None or value is pd.NA or (isinstance(value, float) and np.isnan(value)):
+        return "–"
+    return "yes" if bool(value) else "no"
+
+
 def changes_view_table(changed: pd.DataFrame, label: str) -> pd.DataFrame:
-    """:func:`kitchen.revisions.what_changed` as shown: Mg/m³, k in m/s, verdicts in words."""
+    """:func:`kitchen.revisions.what_changed` as shown: each quantity "before → after".
+
+    Dry density in Mg/m³ (three decimals), void ratio (three decimals), k in m/s (three
+    figures), valid and verdict in words; a quantity that did not move shows one value.
+    """
+    quantities = (
+        ("dry_density", "ρd [Mg/m³]", lambda v: format_fixed(v / 1000.0, 3)),
+        ("void_ratio", "e", lambda v: format_fixed(v, 3)),
+        ("k_reference", f"{label} [m/s]", format_conductivity),
+        ("valid", "valid", _yes_no),
+        ("verdict", "verdict", lambda v: "–" if v is None or v is pd.NA else str(v)),
+    )
     out = pd.DataFrame(
         {
             "specimen": changed["specimen"],
@@ -54,16 +77,13 @@ def changes_view_table(changed: pd.DataFrame, label: str) -> pd.DataFrame:
             "what moved": changed["moved"].str.replace("k_reference", label),
         }
     )
-    for quantity, title, scale in (
-        ("dry_density", "ρd [Mg/m³]", 1e-3),
-        ("void_ratio", "e", 1.0),
-        ("k_reference", f"{label} [m/s]", 1.0),
-    ):
-        for side in ("before", "after"):
-            out[f"{title} {side}"] = pd.to_numeric(changed[f"{quantity}_{side}"]) * scale
-    for quantity in ("valid", "verdict"):
-        for side in ("before", "after"):
-            out[f"{quantity} {side}"] = changed[f"{quantity}_{side}"]
+    for quantity, title, show in quantities:
+        out[title] = [
+            _side_by_side(before, after, show)
+            for before, after in zip(
+                changed[f"{quantity}_before"], changed[f"{quantity}_after"], strict=True
+            )
+        ]
     return out
 
 
@@ -248,13 +268,7 @@ class RevisePanel:
         if self.changed.empty:
             body = "<p>No result moved.</p>"
         else:
-            shown = changes_view_table(self.changed, label)
-            k = lambda v: format_conductivity(v)  # noqa: E731
-            body = html_table(
-                shown,
-                {f"{label} [m/s] before": k, f"{label} [m/s] after": k},
-                text_columns=("what moved",),
-            )
+            body = html_table(changes_view_table(self.changed, label), text_columns=("what moved",))
         self.changes.value = f"<p>{html.escape(headline)}</p>{body}"
 
 

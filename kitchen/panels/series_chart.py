@@ -29,6 +29,7 @@ from .common import (
     MessageArea,
     ProgressBar,
     format_conductivity,
+    format_fixed,
     html_table,
     open_effective,
     refresh_figure,
@@ -217,6 +218,13 @@ class SeriesChartPanel:
             column: (lambda v, u=unit: format_conductivity(v / K_UNITS[u].factor, u))
             for column in (f"{label} [{unit}]", f"low [{unit}]", f"high [{unit}]")
         }
+        k_format.update(
+            {
+                "w [%]": lambda v: format_fixed(v, 1),
+                "ρd [Mg/m³]": lambda v: format_fixed(v, 3),
+                "e": lambda v: format_fixed(v, 3),
+            }
+        )
         self.table.value = html_table(verdict_table(self.analysis, unit, label), k_format)
         self.error.show_notes(not_drawn + list(self.analysis.notes))
 
