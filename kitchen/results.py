@@ -23,7 +23,7 @@ from .water import VISCOSITY_METHODS
 
 CAPILLARY_RISE_OPTIONS = ("off", "jurin")
 
-__all__ = ["Settings", "series_results", "results_table", "reference_label"]
+__all__ = ["Settings", "series_results", "results_table", "reference_label", "result_row"]
 
 
 @dataclass(frozen=True)
@@ -139,7 +139,8 @@ def _state_checks(row: pd.Series) -> list[str]:
     return checks
 
 
-def _row(state_row, method, analysis, gradient) -> dict:
+def result_row(state_row, method, analysis, gradient) -> dict:
+    """One row of the results table, from a specimen's state and one test's analysis."""
     row = {column: state_row[column] for column in STATE_COLUMNS}
     row.update(
         method=method,
@@ -209,7 +210,9 @@ def series_results(
         )
         for specimen in pd.unique(collections["specimen"]):
             analysis = constant_head_analysis(collections, by_id.loc[specimen], settings)
-            rows.append(_row(by_id.loc[specimen], "constant_head", analysis, analysis.gradient_max))
+            rows.append(
+                result_row(by_id.loc[specimen], "constant_head", analysis, analysis.gradient_max)
+            )
     if not series.falling_head.empty:
         for specimen, readings in series.falling_head.groupby("specimen", sort=False):
             try:
@@ -223,7 +226,7 @@ def series_results(
             except ValueError as error:
                 raise ValueError(f"{series.name}, falling-head readings: {error}") from error
             rows.append(
-                _row(by_id.loc[specimen], "falling_head", analysis, analysis.gradient_start)
+                result_row(by_id.loc[specimen], "falling_head", analysis, analysis.gradient_start)
             )
     frame = pd.DataFrame(rows)
     order = {specimen: index for index, specimen in enumerate(state["specimen"])}

@@ -25,7 +25,7 @@ import pandas as pd
 from .constant_head import ConstantHeadAnalysis, collection_table, constant_head_analysis
 from .falling_head import FallingHeadAnalysis, FallingHeadRecord
 from .results import Settings
-from .results import _row as results_row  # a row exactly as series_results builds it
+from .results import result_row as results_row
 from .revisions import (
     EffectiveSeries,
     Revision,
