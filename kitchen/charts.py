@@ -14,6 +14,7 @@ from __future__ import annotations
 import html
 import textwrap
 from dataclasses import replace
+from functools import lru_cache
 
 import numpy as np
 import pandas as pd
@@ -91,6 +92,21 @@ def memo_template() -> go.layout.Template:
     )
 
 
+@lru_cache(maxsize=1)
+def _template() -> go.layout.Template:
+    """The memo template built once; figures copy it when it is set on their layout."""
+    return memo_template()
+
+
+@lru_cache(maxsize=1)
+def _two_panel_axes() -> dict:
+    """The axes of the compaction-conductivity grid (two rows sharing the x axis), built once."""
+    layout = make_subplots(
+        rows=2, cols=1, shared_xaxes=True, vertical_spacing=0.05, row_heights=[0.58, 0.42]
+    ).layout.to_plotly_json()
+    return {key: layout[key] for key in ("xaxis", "yaxis", "xaxis2", "yaxis2")}
+
+
 def decimation_indices(values, max_points: int = MAX_TRACE_POINTS) -> np.ndarray:
     """Indices of the points to draw so a trace keeps at most `max_points` points.
 
@@ -122,15 +138,22 @@ def decimation_indices(values, max_points: int = MAX_TRACE_POINTS) -> np.ndarray
     buckets = (max_points - 2) // 2
     size = -(-n // buckets)
     buckets = -(-n // size)
-    low = np.full(buckets * size, np.inf)
-    high = np.full(buckets * size, -np.inf)
-    finite = np.where(np.isnan(y), np.inf, y)
-    low[:n] = finite
-    high[:n] = np.where(np.isnan(y), -np.inf, y)
+    # one padded copy, NaN and padding set to +inf for the minima, then to -inf for the maxima
+    nan = np.flatnonzero(np.isnan(y))
+    padded = np.empty(buckets * size)
+    padded[:n] = y
+    padded[nan] = padded[n:] = np.inf
     start = np.arange(buckets) * size
-    lows = start + np.argmin(low.reshape(buckets, size), axis=1)
-    highs = start + np.argmax(high.reshape(buckets, size), axis=1)
-    chosen = np.unique(np.concatenate(([0, n - 1], lows, highs)))
+    lows = start + np.argmin(padded.reshape(buckets, size), axis=1)
+    padded[nan] = padded[n:] = -np.inf
+    highs = start + np.argmax(padded.reshape(buckets, size), axis=1)
+    # the buckets are in order, so the sorted union needs no sort: the smaller of each
+    # bucket's two indices, then the larger, with repeats dropped
+    pairs = np.empty(2 * buckets + 2, dtype=lows.dtype)
+    pairs[0], pairs[-1] = 0, n - 1
+    np.minimum(lows, highs, out=pairs[1:-1:2])
+    np.maximum(lows, highs, out=pairs[2:-1:2])
+    chosen = pairs[np.concatenate(([True], pairs[1:] != pairs[:-1]))]
     return chosen[chosen < n]
 
 
@@ -197,28 +220,37 @@ def _group_title(effort: str) -> str:
     return f"effort: {html.escape(str(effort))}"
 
 
-def _effort_styles(specimens: pd.DataFrame) -> dict[str, tuple[str, str]]:
+def _effort_styles(specimens: pd.DataFrame, order=None) -> dict[str, tuple[str, str]]:
+    """Marker symbol and line dash of each effort; `order` is its :func:`_effort_order`
+    when already known."""
+    order = _effort_order(specimens) if order is None else order
     return {
         effort: (EFFORT_SYMBOLS[i % len(EFFORT_SYMBOLS)], EFFORT_DASHES[i % len(EFFORT_DASHES)])
-        for i, effort in enumerate(_effort_order(specimens))
+        for i, effort in enumerate(order)
     }
+
+
+_HOVER_COLUMNS = ("specimen", "method", "water_content", "void_ratio", "k", "k_low", "k_high")
 
 
 def _hover(rows: pd.DataFrame, unit: DisplayUnit, analysis: SeriesAnalysis) -> list[str]:
     texts = []
-    for _, row in rows.iterrows():
-        w = "–" if pd.isna(row["water_content"]) else f"{100 * row['water_content']:.1f} %"
+    columns = [rows[c].tolist() for c in (*_HOVER_COLUMNS, "verdict")]
+    for specimen, method, water, void_ratio, k, k_low, k_high, verdict in zip(
+        *columns, strict=True
+    ):
+        w = "–" if pd.isna(water) else f"{100 * water:.1f} %"
         interval = "no interval"
-        if pd.notna(row["k_low"]):
+        if pd.notna(k_low):
             interval = (
-                f"{scientific(row['k_low'] * unit.factor, html=True)} – "
-                f"{scientific(row['k_high'] * unit.factor, html=True)}"
+                f"{scientific(k_low * unit.factor, html=True)} – "
+                f"{scientific(k_high * unit.factor, html=True)}"
             )
         texts.append(
-            f"<b>{_escaped(row['specimen'])}</b> ({_escaped(row['method']).replace('_', ' ')})<br>"
-            f"w = {w}, e = {row['void_ratio']:.3f}<br>"
-            f"k = {scientific(row['k'] * unit.factor, html=True)} {unit.unit}<br>"
-            f"{100 * analysis.confidence:g} %: {interval}<br>{row['verdict']}"
+            f"<b>{_escaped(specimen)}</b> ({_escaped(method).replace('_', ' ')})<br>"
+            f"w = {w}, e = {void_ratio:.3f}<br>"
+            f"k = {scientific(k * unit.factor, html=True)} {unit.unit}<br>"
+            f"{100 * analysis.confidence:g} %: {interval}<br>{verdict}"
         )
     return texts
 
@@ -231,21 +263,45 @@ def _specimen_traces(
     `error_bars` is None for no bars, or the shortest bar drawn in decades of k: a bar
     shorter than that would hide inside the marker and look like a dot in it.
     """
+    return [
+        go.Scatter(trace)
+        for trace in _specimen_trace_specs(analysis, x, y, unit, show_legend, error_bars)
+    ]
+
+
+def _specimen_trace_specs(
+    analysis,
+    x,
+    y,
+    unit: DisplayUnit,
+    show_legend: bool,
+    error_bars: float | None,
+    order=None,
+    **axes,
+) -> list[dict]:
+    """The traces of :func:`_specimen_traces` as plain dicts (validated when a figure is
+    built from them), each with `axes` (``xaxis``, ``yaxis``) added; `order` is the
+    :func:`_effort_order` of the specimens when already known."""
     frame = analysis.specimens
-    styles = _effort_styles(frame)
-    labels = frame["effort"].astype("string").fillna(NO_EFFORT)
+    order = _effort_order(frame) if order is None else order
+    styles = _effort_styles(frame, order)
+    labels = frame["effort"].astype("string").fillna(NO_EFFORT).to_numpy(dtype=object)
+    is_verdict = {v: (frame["verdict"] == v).to_numpy(dtype=bool) for v in VERDICTS}
+    hover = np.array(_hover(frame, unit, analysis), dtype=object)
+    names = np.array([_escaped(v) for v in frame["specimen"]], dtype=object)
+    k_all, k_low_all, k_high_all = (frame[c].to_numpy() for c in ("k", "k_low", "k_high"))
+    x, y = np.asarray(x), np.asarray(y)
     traces = []
-    for effort in _effort_order(frame):
+    for effort in order:
         for verdict in VERDICTS:
-            mask = ((labels == effort) & (frame["verdict"] == verdict)).to_numpy()
+            mask = (labels == effort) & is_verdict[verdict]
             if not mask.any():
                 continue
-            rows = frame[mask]
             error = None
             if error_bars is not None:
-                k = rows["k"].to_numpy() * unit.factor
-                k_high = rows["k_high"].to_numpy() * unit.factor
-                k_low = rows["k_low"].to_numpy() * unit.factor
+                k = k_all[mask] * unit.factor
+                k_high = k_high_all[mask] * unit.factor
+                k_low = k_low_all[mask] * unit.factor
                 with np.errstate(invalid="ignore", divide="ignore"):
                     shown = np.log10(k_high / k_low) >= error_bars
                 error = dict(
@@ -258,13 +314,14 @@ def _specimen_traces(
                     width=0,
                 )
             traces.append(
-                go.Scatter(
-                    x=np.asarray(x)[mask],
-                    y=np.asarray(y)[mask],
+                dict(
+                    type="scatter",
+                    x=x[mask],
+                    y=y[mask],
                     mode="markers",
                     name=verdict,
                     legendgroup=f"effort {effort}",
-                    legendgrouptitle_text=_group_title(effort),
+                    legendgrouptitle=dict(text=_group_title(effort)),
                     showlegend=show_legend,
                     marker=dict(
                         symbol=styles[effort][0] + VERDICT_FILL[verdict],
@@ -273,10 +330,11 @@ def _specimen_traces(
                         line=dict(width=1.6, color=VERDICT_COLOURS[verdict]),
                     ),
                     error_y=error,
-                    text=[_escaped(v) for v in rows["specimen"]],
-                    hovertext=_hover(rows, unit, analysis),
+                    text=names[mask].tolist(),
+                    hovertext=hover[mask].tolist(),
                     hoverinfo="text",
                     meta={"verdict": verdict, "effort": effort},
+                    **axes,
                 )
             )
     return traces
@@ -342,21 +400,25 @@ def _k_axis(analysis, unit: DisplayUnit, extra=()) -> tuple[dict, str]:
     return axis, note
 
 
+def _note_spec(text: str) -> dict:
+    """A note in the top left corner of a panel, as an annotation's properties."""
+    return dict(
+        text=text,
+        xref="x domain",
+        yref="y domain",
+        x=0.01,
+        y=0.99,
+        xanchor="left",
+        yanchor="top",
+        showarrow=False,
+        font=dict(size=11, color=MUTED),
+        bgcolor="rgba(255,255,255,0.85)",
+    )
+
+
 def _note(figure: go.Figure, text: str, **where) -> None:
     if text:
-        figure.add_annotation(
-            text=text,
-            xref="x domain",
-            yref="y domain",
-            x=0.01,
-            y=0.99,
-            xanchor="left",
-            yanchor="top",
-            showarrow=False,
-            font=dict(size=11, color=MUTED),
-            bgcolor="rgba(255,255,255,0.85)",
-            **where,
-        )
+        figure.add_annotation(**_note_spec(text), **where)
 
 
 def _interval_texts(unit: DisplayUnit, *values) -> list[str]:
@@ -407,17 +469,18 @@ def compaction_conductivity_figure(
     plane = replace(analysis, specimens=frame)
     w_pct = frame["water_content"].to_numpy() * 100.0
     x_range = _padded(w_pct, 0.08)
-    figure = make_subplots(
-        rows=2, cols=1, shared_xaxes=True, vertical_spacing=0.05, row_heights=[0.58, 0.42]
-    )
-    figure.update_layout(template=memo_template(), height=1040)
+    # the traces and the layout are gathered as plain dicts and validated once, when the
+    # figure is built: adding them one at a time re-validates the whole figure each time
+    top, bottom = dict(xaxis="x", yaxis="y"), dict(xaxis="x2", yaxis="y2")
+    data, annotations = [], []
     y_values = [frame["dry_density"].to_numpy()]
     zone = analysis.acceptable_zone
     if zone is not None and zone.kind != "empty":
         vertices = zone.vertices
         closed = np.vstack([vertices, vertices[:1]]) if zone.kind == "polygon" else vertices
-        figure.add_trace(
-            go.Scatter(
+        data.append(
+            dict(
+                type="scatter",
                 x=closed[:, 0] * 100.0,
                 y=closed[:, 1] * du.factor,
                 mode="lines" if zone.kind != "point" else "markers",
@@ -430,37 +493,38 @@ def compaction_conductivity_figure(
                 name=f"acceptable zone ({zone.kind}: hull of specimens that meet)",
                 legendgroup="zone",
                 hoverinfo="name",
-            ),
-            row=1,
-            col=1,
+                **top,
+            )
         )
-    styles = _effort_styles(frame)
-    for effort in _effort_order(frame):
+    order = _effort_order(frame)
+    styles = _effort_styles(frame, order)
+    for effort in order:
         curve = analysis.compaction_curves.get(effort)
         if curve is None:
             continue
         w = np.linspace(curve.tested_water_content.min(), curve.tested_water_content.max(), 60)
         rho = np.asarray(curve.dry_density(w))
         y_values.append(rho)
-        figure.add_trace(
-            go.Scatter(
+        data.append(
+            dict(
+                type="scatter",
                 x=w * 100.0,
                 y=rho * du.factor,
                 mode="lines",
                 name=f"compaction curve ({curve.method})",
                 legendgroup=f"effort {effort}",
-                legendgrouptitle_text=_group_title(effort),
+                legendgrouptitle=dict(text=_group_title(effort)),
                 line=dict(color=INK, width=1.5, dash=styles.get(effort, ("", "solid"))[1]),
                 hoverinfo="name",
-            ),
-            row=1,
-            col=1,
+                **top,
+            )
         )
     line = analysis.line_of_optimums
     if line is not None and line.optimum_water_content.size:
         w_opt = line.optimum_water_content
-        figure.add_trace(
-            go.Scatter(
+        data.append(
+            dict(
+                type="scatter",
                 x=w_opt * 100.0,
                 y=line.maximum_dry_density * du.factor,
                 mode="markers",
@@ -469,14 +533,14 @@ def compaction_conductivity_figure(
                 marker=dict(symbol="star", size=13, color="white", line=dict(color=INK, width=1.4)),
                 text=[_escaped(v) for v in line.efforts],
                 hoverinfo="text+x+y",
-            ),
-            row=1,
-            col=1,
+                **top,
+            )
         )
         if line.slope is not None:
             w = np.array(_padded(w_opt, 0.35))
-            figure.add_trace(
-                go.Scatter(
+            data.append(
+                dict(
+                    type="scatter",
                     x=w * 100.0,
                     y=np.asarray(line.dry_density(w)) * du.factor,
                     mode="lines",
@@ -484,9 +548,8 @@ def compaction_conductivity_figure(
                     legendgroup="optimums",
                     line=dict(color=INK, width=1.3, dash="dashdot"),
                     hoverinfo="name",
-                ),
-                row=1,
-                col=1,
+                    **top,
+                )
             )
     y_low, y_high = _padded(np.concatenate(y_values) * du.factor, 0.10)
     if analysis.specific_gravity is not None:
@@ -497,62 +560,74 @@ def compaction_conductivity_figure(
             name = (
                 "zero-air-voids (S = 100 %)" if saturation == 1 else f"S = {100 * saturation:.0f} %"
             )
-            figure.add_trace(
-                go.Scatter(
+            data.append(
+                dict(
+                    type="scatter",
                     x=w * 100.0,
                     y=rho,
                     mode="lines",
                     name=f"{name}, Gs = {analysis.specific_gravity:g}",
                     legendgroup="saturation",
-                    legendgrouptitle_text="saturation lines",
+                    legendgrouptitle=dict(text="saturation lines"),
                     line=dict(
                         color=MUTED,
                         width=1.5 if saturation == 1 else 1.1,
                         dash=SATURATION_DASHES.get(saturation, "dot"),
                     ),
                     hoverinfo="name",
-                ),
-                row=1,
-                col=1,
+                    **top,
+                )
             )
             inside = np.flatnonzero((rho >= y_low) & (rho <= y_high))
             if inside.size:
                 last = inside[-1]
-                figure.add_annotation(
-                    x=w[last] * 100.0,
-                    y=rho[last],
-                    text=f"S = {100 * saturation:.0f} %",
-                    showarrow=False,
-                    xanchor="right",
-                    yanchor="bottom",
-                    font=dict(size=10, color=MUTED),
-                    row=1,
-                    col=1,
+                annotations.append(
+                    dict(
+                        x=w[last] * 100.0,
+                        y=rho[last],
+                        text=f"S = {100 * saturation:.0f} %",
+                        showarrow=False,
+                        xanchor="right",
+                        yanchor="bottom",
+                        font=dict(size=10, color=MUTED),
+                        xref="x",
+                        yref="y",
+                    )
                 )
     k_axis, note = _k_axis(plane, ku)
     shortest = ERROR_BAR_FRACTION * (k_axis["range"][1] - k_axis["range"][0])
-    for trace in _specimen_traces(plane, w_pct, frame["dry_density"] * du.factor, ku, True, None):
-        figure.add_trace(trace, row=1, col=1)
-    for trace in _specimen_traces(plane, w_pct, frame["k"] * ku.factor, ku, False, shortest):
-        figure.add_trace(trace, row=2, col=1)
-    if not note:
-        figure.add_trace(_criterion_trace(analysis, x_range, ku), row=2, col=1)
-    _note(figure, note, row=2, col=1)
-    figure.update_xaxes(range=list(x_range))
-    figure.update_xaxes(title_text="molding water content w [%]", row=2, col=1)
-    figure.update_yaxes(title_text=du.title(), range=[y_low, y_high], row=1, col=1)
-    figure.update_yaxes(
-        title_text=_k_title(ku, analysis.reference_temperature), row=2, col=1, **k_axis
+    density = frame["dry_density"] * du.factor
+    data += _specimen_trace_specs(plane, w_pct, density, ku, True, None, order, **top)
+    data += _specimen_trace_specs(
+        plane, w_pct, frame["k"] * ku.factor, ku, False, shortest, order, **bottom
     )
-    figure.update_layout(
-        title_text="Compaction and hydraulic conductivity"
-        f"<br><sup>criterion k ≤ {scientific(analysis.criterion * ku.factor, html=True)} "
-        f"{ku.unit}; filled: meets, open: does not meet, dotted: not conclusive</sup>",
+    if not note:
+        criterion = _criterion_trace(analysis, x_range, ku).to_plotly_json()
+        data.append(dict(criterion, **bottom))
+    if note:
+        annotations.append(dict(_note_spec(note), xref="x2 domain", yref="y2 domain"))
+    axes = _two_panel_axes()
+    k_title = _k_title(ku, analysis.reference_temperature)
+    layout = dict(
+        template=_template(),
+        xaxis=dict(axes["xaxis"], range=list(x_range)),
+        yaxis=dict(axes["yaxis"], title=dict(text=du.title()), range=[y_low, y_high]),
+        xaxis2=dict(
+            axes["xaxis2"], range=list(x_range), title=dict(text="molding water content w [%]")
+        ),
+        yaxis2=dict(axes["yaxis2"], title=dict(text=k_title), **k_axis),
+        title=dict(
+            text="Compaction and hydraulic conductivity"
+            f"<br><sup>criterion k ≤ {scientific(analysis.criterion * ku.factor, html=True)} "
+            f"{ku.unit}; filled: meets, open: does not meet, dotted: not conclusive</sup>"
+        ),
         margin=dict(t=95, b=60),
         legend=dict(orientation="h", x=0.0, xanchor="left", y=-0.075, yanchor="top"),
         height=1120,
     )
-    return figure
+    if annotations:
+        layout["annotations"] = annotations
+    return go.Figure(data=data, layout=layout)
 
 
 # --- trends against void ratio, dry density, water content ---------------------------------
@@ -793,33 +868,58 @@ def falling_head_figure(
     head = np.asarray(source.head if readings is None else readings["head"], dtype=float)
     unit, divisor = _time_unit(float(time[-1] - time[0]) if time.size else 0.0)
     start, stop = int(result.start), int(result.stop)
-    used = np.zeros(time.size, dtype=bool)
-    used[start:stop] = True
-    figure = go.Figure(layout=dict(template=memo_template()))
-    figure.add_vrect(
-        x0=time[start] / divisor,
-        x1=time[stop - 1] / divisor,
-        fillcolor="rgba(46,107,87,0.09)",
-        line_width=0,
-        layer="below",
-        annotation_text="reading window",
-        annotation_position="top left",
-        annotation_font=dict(size=11, color=ZONE),
+    # the traces, shapes and annotations are gathered as plain dicts and validated once
+    shapes = [
+        dict(
+            type="rect",
+            x0=time[start] / divisor,
+            x1=time[stop - 1] / divisor,
+            xref="x",
+            y0=0,
+            y1=1,
+            yref="y domain",
+            fillcolor="rgba(46,107,87,0.09)",
+            line=dict(width=0),
+            layer="below",
+        )
+    ]
+    annotations = [
+        dict(
+            text="reading window",
+            font=dict(size=11, color=ZONE),
+            showarrow=False,
+            x=min(shapes[0]["x0"], shapes[0]["x1"]),
+            xanchor="left",
+            xref="x",
+            y=1,
+            yanchor="top",
+            yref="y domain",
+        )
+    ]
+    outside = (
+        (np.concatenate((time[:start], time[stop:])), np.concatenate((head[:start], head[stop:])))
+        if start > 0 or stop < time.size
+        else (time[:0], head[:0])
     )
     markers = (
         (
-            ~used,
+            outside,
             "readings outside the window",
             dict(symbol="circle-open", size=6, color=MUTED, line=dict(width=1.2)),
         ),
-        (used, "readings in the window", dict(symbol="circle", size=5, color=INK)),
+        (
+            (time[start:stop], head[start:stop]),
+            "readings in the window",
+            dict(symbol="circle", size=5, color=INK),
+        ),
     )
-    for mask, name, marker in markers:
-        if mask.any():
-            t, h = time[mask], head[mask]
+    data = []
+    for (t, h), name, marker in markers:
+        if t.size:
             keep = decimation_indices(h, max_points)
-            figure.add_trace(
-                go.Scatter(
+            data.append(
+                dict(
+                    type="scatter",
                     x=t[keep] / divisor,
                     y=h[keep],
                     mode="markers",
@@ -832,8 +932,9 @@ def falling_head_figure(
     t = time[start:stop] if fitted.size == stop - start else time[[start, stop - 1]]
     keep = decimation_indices(fitted, max_points)
     datum = getattr(result, "fit_kind", "log_linear") == "datum"
-    figure.add_trace(
-        go.Scatter(
+    data.append(
+        dict(
+            type="scatter",
             x=t[keep] / divisor,
             y=fitted[keep],
             mode="lines",
@@ -844,25 +945,48 @@ def falling_head_figure(
     )
     asymptote = float(getattr(result, "asymptote", 0.0) or 0.0)
     if datum and asymptote > 0:
-        figure.add_hline(
-            y=asymptote,
-            line=dict(color=MUTED, dash="dot", width=1.2),
-            annotation_text=f"h∞ = {asymptote:.4g} m",
-            annotation_position="bottom right",
+        shapes.append(
+            dict(
+                type="line",
+                x0=0,
+                x1=1,
+                xref="x domain",
+                y0=asymptote,
+                y1=asymptote,
+                yref="y",
+                line=dict(color=MUTED, dash="dot", width=1.2),
+            )
         )
-    figure.update_xaxes(title_text=f"elapsed time t [{unit}]")
-    figure.update_yaxes(title_text="head difference h [m]", type="log", exponentformat="power")
+        annotations.append(
+            dict(
+                text=f"h∞ = {asymptote:.4g} m",
+                showarrow=False,
+                x=1,
+                xanchor="right",
+                xref="x domain",
+                y=asymptote,
+                yanchor="top",
+                yref="y",
+            )
+        )
     k_text, low, high = _interval_texts(
         ku, result.k_reference, result.k_reference_low, result.k_reference_high
     )
     label = f"k{reference_temperature:g}".replace(".", "_")
-    figure.update_layout(
-        title_text=f"Specimen {html.escape(str(result.specimen))}: falling head<br><sup>"
-        f"{label} = {k_text} {ku.unit} (95 %: {low} – {high}), readings {start + 1}–{stop} "
-        f"of {time.size}</sup>",
+    layout = dict(
+        template=_template(),
+        shapes=shapes,
+        annotations=annotations,
+        xaxis=dict(title=dict(text=f"elapsed time t [{unit}]")),
+        yaxis=dict(title=dict(text="head difference h [m]"), type="log", exponentformat="power"),
+        title=dict(
+            text=f"Specimen {html.escape(str(result.specimen))}: falling head<br><sup>"
+            f"{label} = {k_text} {ku.unit} (95 %: {low} – {high}), readings {start + 1}–{stop} "
+            f"of {time.size}</sup>"
+        ),
         legend=dict(x=0.99, xanchor="right", y=0.99, yanchor="top"),
     )
-    return figure
+    return go.Figure(data=data, layout=layout)
 
 
 def constant_head_figure(

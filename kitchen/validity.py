@@ -713,6 +713,24 @@ def _suffix(values: np.ndarray) -> np.ndarray:
     return np.cumsum(values[::-1])[::-1]
 
 
+def _within_critical(t: np.ndarray, dof: np.ndarray, probability: float) -> np.ndarray:
+    """``t <= stdtrit(dof, probability)`` element by element, with few quantiles computed.
+
+    The quantile of Student's t above the median falls as the degrees of freedom grow, so
+    the quantiles at the fewest and the most degrees of freedom bound all the others: only
+    the values of `t` between those bounds (widened by a few rounding units) need their own
+    quantile. The result is the same as computing every quantile, which costs about a
+    microsecond each.
+    """
+    ends = special.stdtrit(np.array([dof.min(), dof.max()]), probability)
+    high, low = float(ends.max()) * (1 + 1e-12), float(ends.min()) * (1 - 1e-12)
+    passed = t <= low
+    unsure = np.flatnonzero(~passed & (t <= high))
+    if unsure.size:
+        passed[unsure] = t[unsure] <= special.stdtrit(dof[unsure], probability)
+    return passed
+
+
 def propose_window(
     reference_time,
     log_head,
@@ -772,6 +790,7 @@ def propose_window(
     if n < minimum_readings or n - keep < 1:
         return WindowProposal(0, n, False, "too few readings to leave any out")
     starts = np.arange(0, n - keep + 1)
+    head = slice(0, starts.size)  # the same positions as `starts`, without a gather
     span = x[-1] - x[0]
     u = (x - x[-1]) / span
     v = y - y[-1]
@@ -787,7 +806,7 @@ def propose_window(
         "xxy": _suffix(u2 * v),
         "yy": _suffix(v * v),
     }
-    m, s1, s2, s3, s4, sy, sxy, sxxy, syy = (sums[k][starts] for k in sums)
+    m, s1, s2, s3, s4, sy, sxy, sxxy, syy = (sums[k][head] for k in sums)
     mu = s1 / m
     c2 = s2 - m * mu * mu
     c3 = s3 - 3 * mu * s2 + 2 * m * mu**3
@@ -804,14 +823,14 @@ def propose_window(
         sse = np.maximum(cyy - cxy * cxy / c2 - b2 * sqy, 0.0)
         se = np.sqrt(sse / (m - 3) / sqq)
         t = np.where(se > 0, b2 / se, 0.0)
-        width = -u[starts]  # each window spans u from u[start] to 0
-        middle = 0.5 * u[starts] - mu
+        width = -u[head]  # each window spans u from u[start] to 0
+        middle = 0.5 * u[head] - mu
         change = 2 * b2 * width / (slope + b2 * (2 * middle - c3 / c2))
-    critical = special.stdtrit(m - 3, 1 - criteria.trend_level / 2)
-    trend_ok = (np.abs(t) <= critical) | (np.abs(change) < criteria.trend_minimum_change)
+    trend_ok = _within_critical(np.abs(t), m - 3, 1 - criteria.trend_level / 2)
+    trend_ok |= np.abs(change) < criteria.trend_minimum_change
     k = -scale * slope / span
     limit = recommended_maximum_gradient(k, criteria.gradient_table)
-    g = np.asarray(gradient, dtype=float)[starts]
+    g = np.asarray(gradient, dtype=float)[head]
     gradient_ok = ~(g > limit)  # NaN limit (outside the table): not judged
     reynolds_ok = ~(reynolds_per_k * k * g > criteria.reynolds_limit)
     flow_ok = np.ones(starts.size, dtype=bool)
@@ -822,7 +841,7 @@ def propose_window(
         if both.sum() >= 2:
             last = np.flatnonzero(both)[-1]
             positions = np.where(both, np.arange(n), n)
-            first = np.minimum.accumulate(positions[::-1])[::-1][starts]
+            first = np.minimum.accumulate(positions[::-1])[::-1][head]
             usable = first < last
             safe = np.where(usable, first, last)
             with np.errstate(divide="ignore", invalid="ignore"):

@@ -149,3 +149,18 @@ def test_refresh_figure_carries_the_template_size_to_new_views():
     widget = go.FigureWidget()
     refresh_figure(widget, go.Figure(go.Scatter(x=[1], y=[1]), layout={"template": template}))
     assert (widget._widget_layout["width"], widget._widget_layout["height"]) == (980, 620)
+
+
+def test_an_expected_failure_is_a_refusal_not_a_fault():
+    class NoBrowser(RuntimeError):
+        pass
+
+    area = MessageArea()
+
+    @area.guard("exporting", expected=(NoBrowser,))
+    def export():
+        raise NoBrowser("static chart export needs Chromium")
+
+    export()
+    assert area.message == "Could not finish exporting: static chart export needs Chromium"
+    assert "<details>" not in area.widget.value

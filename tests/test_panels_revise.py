@@ -83,8 +83,11 @@ def test_a_reading_can_be_revised(panel, copy):
     panel.table_choice.value = "falling_head"
     panel.specimen.value = "QF-05"
     assert panel.field.value == "head"
-    first = panel.reading.options[-1][1]  # the last reading of QF-05, by file row
+    # QF-05: 41 readings (sample_data/README.md), rows 215-255 of clay_liner/falling_head.csv
+    assert (panel.reading.min, panel.reading.max) == (215, 255)
+    first = 255  # its last reading
     panel.reading.value = first
+    assert "row 255: time" in panel.current.value
     panel.value.value = "0.5 m"  # far below the reading before: allowed, heads only fall
     panel.reason.value = "transcription error"
     panel.record.click()
@@ -104,3 +107,23 @@ def test_refused_revisions_write_nothing_and_say_why(panel, copy, value, reason,
     panel.record.click()
     assert message in panel.error.message
     assert not (copy / "revisions.csv").exists() or read_revisions(copy) == ()
+
+
+def test_current_value_is_shown_in_the_unit_of_the_file(panel):
+    # sample_data/clay_liner/specimens.csv: QF-11 gives its dry soil as mold masses
+    panel.specimen.value = "QF-11"
+    panel.field.value = "water_content"
+    assert "18.7 %" in panel.current.value
+    panel.field.value = "dry_mass"
+    assert "from the mold masses" in panel.current.value
+    panel.field.value = "d10"
+    assert "not a column of the file" in panel.current.value
+
+
+def test_only_the_revised_specimen_is_reduced_again(panel):
+    panel.specimen.value = "QF-07"
+    panel.value.value = "117.0 mm"
+    panel.reason.value = "re-measured"
+    panel.record.click()
+    assert panel.workspace.last_moved == ("QF-07",)
+    assert "Reduced again: QF-07" in panel.changes.value

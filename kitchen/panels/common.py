@@ -90,8 +90,13 @@ class MessageArea:
         self.notes = list(dict.fromkeys(notes))
         self._render()
 
-    def show_error(self, error: BaseException, doing: str) -> None:
-        """Show `error`, raised while `doing` (for example "refitting the window")."""
+    def show_error(self, error: BaseException, doing: str, expected: tuple = ()) -> None:
+        """Show `error`, raised while `doing` (for example "refitting the window").
+
+        A SeriesError or RevisionError is listed problem by problem; a ValueError,
+        OSError, KeyError or one of the `expected` types is a refusal shown in words; any
+        other error is a fault, shown with its traceback folded away.
+        """
         self.exception = error
         if isinstance(error, (SeriesError, RevisionError)):
             kind = "series" if isinstance(error, SeriesError) else "revisions"
@@ -101,7 +106,7 @@ class MessageArea:
                 f"<b>{len(error.problems)} problem(s) with the {kind}</b> — nothing was "
                 f"changed. Correct the files and try again.<ul>{items}</ul>"
             )
-        elif isinstance(error, (ValueError, UnitError, OSError, KeyError)):
+        elif isinstance(error, (ValueError, UnitError, OSError, KeyError, *expected)):
             text = error.args[0] if isinstance(error, KeyError) and error.args else str(error)
             self.message = f"Could not finish {doing}: {text}"
             body = f"<b>Could not finish {html.escape(doing)}:</b> {html.escape(str(text))}"
@@ -130,10 +135,11 @@ class MessageArea:
             parts.append(f"<div class='kitchen-note'><b>Notes</b><ul>{items}</ul></div>")
         self.widget.value = "".join(parts) if len(parts) > 1 else ""
 
-    def guard(self, doing: str) -> Callable:
+    def guard(self, doing: str, expected: tuple = ()) -> Callable:
         """Decorate a callback: its errors and warnings are shown here, never lost.
 
-        The decorated function returns its own value, or None when it raised.
+        The decorated function returns its own value, or None when it raised. `expected`
+        names further exception types that are refusals in words, not faults.
         """
 
         def decorate(function):
@@ -145,7 +151,7 @@ class MessageArea:
                     try:
                         value = function(*args, **kwargs)
                     except Exception as error:  # shown to the engineer, in words
-                        self.show_error(error, doing)
+                        self.show_error(error, doing, expected)
                         value = None
                 caught_notes = [str(w.message) for w in caught]
                 self.notes = list(dict.fromkeys([*self.notes, *caught_notes]))

@@ -1,8 +1,8 @@
 """The panel of the falling-head notebook: choose the reading window of one specimen.
 
-The slider runs over reading numbers, not times (a float slider snaps its values in the
-browser; see the notebook-stack notes in the developer guide), and the times of the
-window's ends are written beside it. On release of the slider the window is refitted
+The slider runs over reading numbers, not times (a float slider snaps a value set from
+code to its step grid in the browser and sends the snapped value back), and the times of
+the window's ends are written beside it. On release of the slider the window is refitted
 with every reading in it: k at the reference temperature with its interval, the
 incremental k, the fit diagnostics and the validity verdicts all follow. The fit can be
 switched between ln h against time (tailwater datum known) and the decay to a fitted

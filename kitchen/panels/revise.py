@@ -5,6 +5,9 @@ value with its unit and the reason. It is appended to the series' revision log; 
 files are never written. The panel then shows, for every specimen whose results moved,
 the dry density, void ratio, k and verdict before and after, and the whole log with the
 status of each row. A revision can be withdrawn by a later row; nothing is deleted.
+
+The series is held open in a :class:`kitchen.workspace.Workspace`, so a revision reduces
+again only the specimens it touches.
 """
 
 from __future__ import annotations
@@ -17,33 +20,44 @@ import ipywidgets as widgets
 import numpy as np
 import pandas as pd
 
-from ..results import Settings, reference_label, series_results
-from ..revisions import (
-    EffectiveSeries,
-    Revision,
-    apply_revisions,
-    history_table,
-    load_effective_series,
-    read_revisions,
-    revise,
-    what_changed,
-    withdraw,
-)
-from ..series import SCHEMAS, read_tables
+from ..results import Settings, reference_label
+from ..revisions import Revision, history_table, what_changed
+from ..series import SCHEMAS
+from ..units import to_si
+from ..workspace import Workspace
 from .common import MessageArea, format_conductivity, format_fixed, html_table
 from .series_chart import parse_criterion
 
-__all__ = ["RevisePanel", "revise_panel", "changes_view_table"]
+__all__ = ["RevisePanel", "revise_panel", "changes_view_table", "file_value"]
 
 TABLE_LABELS = {
     "specimens": "a specimen value",
     "falling_head": "a falling-head reading",
     "constant_head": "a constant-head collection",
 }
+FIRST_FIELD = {"specimens": "height", "falling_head": "head", "constant_head": "volume"}
+READING_COLUMNS = {
+    "falling_head": ("time", "head", "temperature"),
+    "constant_head": ("head_difference", "duration", "volume", "outflow_mass", "temperature"),
+}
 
 
-def _number(value) -> str:
-    return "–" if pd.isna(value) else f"{value:.4g}"
+def _from_mold(row: pd.Series) -> bool:
+    return all(
+        name in row.index and pd.notna(row[name]) for name in ("mold_mass", "mold_and_soil_mass")
+    )
+
+
+def file_value(value, table: str, column: str, unit: str | None) -> str:
+    """An SI value of the series written back in the unit of the file's column."""
+    if value is None or value is pd.NA or (isinstance(value, float) and np.isnan(value)):
+        return "(empty)"
+    kind = SCHEMAS[table][column].kind
+    if kind in ("id", "label") or not unit:
+        return str(value)
+    offset = to_si(0.0, unit, kind)
+    number = (float(value) - offset) / (to_si(1.0, unit, kind) - offset)
+    return f"{number:.10g} {unit}"
 
 
 def _side_by_side(before, after, show) -> str:
@@ -96,13 +110,16 @@ class RevisePanel:
     widget : ipywidgets.VBox
     series_path : pathlib.Path
         The series revised (its log is ``revisions.csv`` beside the data).
+    workspace : Workspace
+        The series held open, its results cached per specimen.
     table_choice : ipywidgets.ToggleButtons
         ``specimens``, ``falling_head`` or ``constant_head``.
-    specimen, field, reading : ipywidgets.Dropdown
-        What to revise; ``reading`` holds the reading's row number in the file and is
-        used only for reading tables.
+    specimen, field : ipywidgets.Dropdown
+        What to revise.
+    reading : ipywidgets.BoundedIntText
+        For a reading: its row number in the file (the header is row 1).
     current : ipywidgets.HTML
-        The value as it stands (revisions applied), with its unit.
+        The value as it stands (revisions applied), in the unit of the file.
     value, reason, who : ipywidgets.Text
         The new value with its unit (``116.5 mm``), why (required), who (optional).
     criterion : ipywidgets.Text
@@ -110,7 +127,7 @@ class RevisePanel:
     record : ipywidgets.Button
         Appends the revision to the log and shows what it moved.
     withdraw_choice : ipywidgets.Dropdown
-        Revisions in force.
+        Revisions in force (the latest chosen).
     withdraw : ipywidgets.Button
         Withdraws the chosen revision (with ``reason``) by a new row.
     changes : ipywidgets.HTML
@@ -122,19 +139,17 @@ class RevisePanel:
         :func:`kitchen.revisions.what_changed` of the last action.
     last : Revision or None
         The row the last action appended.
-    effective : EffectiveSeries
-        The series with the revisions applied, as it now stands.
     results : pandas.DataFrame
-        Its results.
-    settings : Settings
+        The results of the series as it now stands.
     """
 
     widget: widgets.VBox
     series_path: Path
+    workspace: Workspace
     table_choice: widgets.ToggleButtons
     specimen: widgets.Dropdown
     field: widgets.Dropdown
-    reading: widgets.Dropdown
+    reading: widgets.BoundedIntText
     current: widgets.HTML
     value: widgets.Text
     reason: widgets.Text
@@ -146,22 +161,32 @@ class RevisePanel:
     changes: widgets.HTML
     history: widgets.HTML
     error: MessageArea
-    settings: Settings
-    effective: EffectiveSeries | None = None
     results: pd.DataFrame | None = None
     changed: pd.DataFrame | None = None
     last: Revision | None = None
-    _raw: dict | None = None
 
-    # --- reading the series as it stands ----------------------------------------------------
-    def _reload(self) -> None:
-        self.effective = load_effective_series(self.series_path)
-        self.results = series_results(self.effective.series, self.settings)
-        tables, _ = read_tables(self.series_path)
-        self._raw, _ = apply_revisions(tables, read_revisions(self.series_path))
-        revisions = read_revisions(self.series_path)
-        self.history.value = _history_html(revisions)
-        standing = [r for r in self.effective.applied]
+    @property
+    def settings(self) -> Settings:
+        return self.workspace.settings
+
+    # --- the series as it stands ------------------------------------------------------------
+    def _frame(self, table: str) -> pd.DataFrame:
+        return (
+            self.workspace.series.specimens
+            if table == "specimens"
+            else getattr(self.workspace.series, table)
+        )
+
+    def _unit(self, table: str, column: str) -> str | None:
+        return self.workspace.series.units.get(table, {}).get(column)
+
+    def _in_file(self, table: str, column: str) -> bool:
+        return column in self.workspace.series.units.get(table, {})
+
+    def _refresh_log(self) -> None:
+        self.results = self.workspace.results()
+        self.history.value = _history_html(self.workspace.revisions)
+        standing = list(self.workspace.effective.applied)
         keep = self.withdraw_choice.value
         self.withdraw_choice.options = [(f"{r.id}: {r.describe()}", r.id) for r in standing]
         ids = [r.id for r in standing]
@@ -170,18 +195,17 @@ class RevisePanel:
 
     def _choose_table(self, _change=None) -> None:
         table = self.table_choice.value
-        raw = self._raw[table]
-        ids = list(pd.unique(raw.frame["specimen"].dropna().astype(str)))
+        frame = self._frame(table)
+        ids = list(pd.unique(frame["specimen"].dropna().astype(str)))
         keep = self.specimen.value if self.specimen.value in ids else (ids[0] if ids else None)
         self.specimen.options = ids
         self.specimen.value = keep
         fields = [name for name in SCHEMAS[table] if name != "specimen"]
         labels = []
         for name in fields:
-            unit = raw.units.get(name)
+            unit = self._unit(table, name)
             labels.append((f"{name} [{unit}]" if unit else name, name))
-        first = {"specimens": "height", "falling_head": "head", "constant_head": "volume"}
-        keep_field = self.field.value if self.field.value in fields else first[table]
+        keep_field = self.field.value if self.field.value in fields else FIRST_FIELD[table]
         self.field.options = labels
         self.field.value = keep_field
         self._choose_specimen()
@@ -191,19 +215,12 @@ class RevisePanel:
         reading_table = table != "specimens"
         self.reading.layout.display = "" if reading_table else "none"
         if reading_table and self.specimen.value is not None:
-            raw = self._raw[table]
-            rows = raw.frame[raw.frame["specimen"].astype(str) == self.specimen.value]
-            options = []
-            for _, row in rows.iterrows():
-                parts = [f"row {int(row['source_row'])}"]
-                for name in ("time", "head", "head_difference", "duration"):
-                    if name in rows.columns:
-                        unit = raw.units.get(name) or ""
-                        parts.append(f"{name} {_number(row[name])} {unit}".rstrip())
-                options.append((", ".join(parts), int(row["source_row"])))
-            keep = self.reading.value if self.reading.value in [v for _, v in options] else None
-            self.reading.options = options
-            self.reading.value = keep if keep is not None else (options[0][1] if options else None)
+            rows = self.workspace.readings(self.specimen.value, table)["source_row"]
+            first, last = int(rows.min()), int(rows.max())
+            with self.reading.hold_trait_notifications():
+                self.reading.min, self.reading.max = first, last
+                if not first <= self.reading.value <= last:
+                    self.reading.value = first
         self._show_current()
 
     def _show_current(self, _change=None) -> None:
@@ -211,18 +228,30 @@ class RevisePanel:
         if self.specimen.value is None or field is None:
             self.current.value = ""
             return
-        raw = self._raw[table]
-        frame = raw.frame
+        frame = self._frame(table)
         rows = frame["specimen"].astype(str) == self.specimen.value
+        where = ""
         if table != "specimens":
             rows &= frame["source_row"] == self.reading.value
-        if field not in frame.columns or not rows.any():
-            text = "(not given in the file)"
+            if not rows.any():
+                specimen = html.escape(self.specimen.value)
+                self.current.value = f"Row {self.reading.value} is not a reading of {specimen}"
+                return
+            row = frame.loc[rows].iloc[0]
+            parts = [
+                f"{name} {file_value(row[name], table, name, self._unit(table, name))}"
+                for name in READING_COLUMNS[table]
+                if self._in_file(table, name)
+            ]
+            where = f" (row {self.reading.value}: {html.escape(', '.join(parts))})"
+        if not self._in_file(table, field):
+            text = "(not a column of the file)"
         else:
-            value = frame.loc[rows, field].iloc[0]
-            unit = raw.units.get(field)
-            text = "(empty)" if pd.isna(value) else f"{value} {unit or ''}".strip()
-        self.current.value = f"Now: <b>{html.escape(text)}</b>"
+            row = frame.loc[rows].iloc[0]
+            text = file_value(row[field], table, field, self._unit(table, field))
+            if field == "dry_mass" and _from_mold(row):
+                text += " (from the mold masses: the dry_mass cell is empty)"
+        self.current.value = f"Now: <b>{html.escape(text)}</b>{where}"
 
     # --- actions ----------------------------------------------------------------------------
     def record_revision(self, _button=None) -> None:
@@ -232,8 +261,7 @@ class RevisePanel:
     def _record(self) -> None:
         table = self.table_choice.value
         before = self.results
-        self.last = revise(
-            self.series_path,
+        self.last = self.workspace.revise(
             specimen=self.specimen.value,
             field=self.field.value,
             value=self.value.value,
@@ -253,14 +281,13 @@ class RevisePanel:
         if not self.withdraw_choice.value:
             raise ValueError("no revision in force to withdraw")
         before = self.results
-        self.last = withdraw(
-            self.series_path, self.withdraw_choice.value, reason=self.reason.value,
-            who=self.who.value,
-        )  # fmt: skip
+        self.last = self.workspace.withdraw(
+            self.withdraw_choice.value, reason=self.reason.value, who=self.who.value
+        )
         self._after(before, f"Withdrawal {self.last.id} recorded: {self.last.describe()}.")
 
     def _after(self, before: pd.DataFrame, headline: str) -> None:
-        self._reload()
+        self._refresh_log()
         self._show_current()
         criterion = parse_criterion(self.criterion.value)
         self.changed = what_changed(before, self.results, criterion)
@@ -269,7 +296,12 @@ class RevisePanel:
             body = "<p>No result moved.</p>"
         else:
             body = html_table(changes_view_table(self.changed, label), text_columns=("what moved",))
-        self.changes.value = f"<p>{html.escape(headline)}</p>{body}"
+        moved = ", ".join(self.workspace.last_moved) or "none"
+        self.changes.value = (
+            f"<p>{html.escape(headline)}</p>{body}"
+            f"<p><small>Reduced again: {html.escape(moved)}; every other specimen's results "
+            "came from the cache.</small></p>"
+        )
 
 
 def _history_html(revisions) -> str:
@@ -310,13 +342,16 @@ def revise_panel(
     RevisePanel
     """
     path = Path(series_path)
-    settings = settings or Settings()
-    tables, _ = read_tables(path)
-    present = [name for name in TABLE_LABELS if name in tables]
+    workspace = Workspace(path, settings)
+    series = workspace.series
+    present = [
+        name for name in TABLE_LABELS if name == "specimens" or not getattr(series, name).empty
+    ]
     wide = {"style": {"description_width": "initial"}}
     panel = RevisePanel(
         widget=widgets.VBox(),
         series_path=path,
+        workspace=workspace,
         table_choice=widgets.ToggleButtons(
             options=[(TABLE_LABELS[name], name) for name in present],
             value="specimens",
@@ -326,7 +361,9 @@ def revise_panel(
         ),
         specimen=widgets.Dropdown(description="Specimen"),
         field=widgets.Dropdown(description="Field"),
-        reading=widgets.Dropdown(description="Reading", layout=widgets.Layout(width="420px")),
+        reading=widgets.BoundedIntText(
+            value=2, min=2, max=2, description="File row", layout=widgets.Layout(width="200px")
+        ),
         current=widgets.HTML(),
         value=widgets.Text(description="New value", placeholder="with its unit: 116.5 mm"),
         reason=widgets.Text(
@@ -344,9 +381,8 @@ def revise_panel(
         changes=widgets.HTML(),
         history=widgets.HTML(),
         error=MessageArea(),
-        settings=settings,
     )
-    panel._reload()
+    panel._refresh_log()
     panel._choose_table()
     panel.table_choice.observe(panel._choose_table, names="value")
     panel.specimen.observe(panel._choose_specimen, names="value")

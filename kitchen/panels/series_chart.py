@@ -230,7 +230,10 @@ class SeriesChartPanel:
 
     def write_memo_pack(self, _button=None) -> None:
         """Export the memo pack to ``export_folder`` (the export button calls this)."""
-        self.error.guard(f"exporting to {self.export_folder.value!r}")(self._export)()
+        from ..memo import ImageExportUnavailable
+
+        doing = f"exporting to {self.export_folder.value!r}"
+        self.error.guard(doing, expected=(ImageExportUnavailable,))(self._export)()
 
     def _export(self) -> None:
         from .. import memo
