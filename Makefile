@@ -20,7 +20,7 @@ lab: $(STAMP)
 
 # pytest exits 5 when it collects no test: that is a failure here, not a pass.
 test: $(STAMP)
-	@$(BIN)/python -m pytest tests; code=$$?; \
+	@$(BIN)/python -m pytest tests --doctest-modules kitchen; code=$$?; \
 	  if [ $$code -eq 5 ]; then echo "make test: no tests were collected" >&2; exit 1; fi; \
 	  exit $$code
 	@$(BIN)/python -m pytest --nbval-lax notebooks; code=$$?; \

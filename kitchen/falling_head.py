@@ -58,7 +58,7 @@ from .validity import (
     steady_values_check,
     trend_check,
 )
-from .water import viscosity_ratio, water_density, water_viscosity
+from .water import viscosity_ratio, water_density, water_surface_tension, water_viscosity
 
 if TYPE_CHECKING:  # the settings live with the results table, which imports this module
     from .results import Settings
@@ -119,7 +119,7 @@ def falling_head_conductivity(standpipe_area, flow_length, area, head_start, hea
     L = 200 mm, A = 1000 mm², a = 40 mm², head 500 → 300 mm in 180 s.
 
     >>> k = falling_head_conductivity(40e-6, 0.200, 1000e-6, 0.500, 0.300, 180.0)
-    >>> round(k * 100, 5)  # cm/s
+    >>> round(float(k) * 100, 5)  # cm/s
     0.00227
     """
     return standpipe_area * flow_length / (area * elapsed) * np.log(head_start / head_end)
@@ -215,36 +215,6 @@ def reference_elapsed_time(time, temperature, reference_temperature=20.0, viscos
     )
     steps = np.diff(time) * 0.5 * (inverse[1:] + inverse[:-1])
     return np.concatenate(([0.0], np.cumsum(steps)))
-
-
-def water_surface_tension(temperature):
-    """Surface tension of water against air.
-
-    Parameters
-    ----------
-    temperature : float or array_like
-        Water temperature. [degC]
-
-    Returns
-    -------
-    float or numpy.ndarray
-        σ = B·τ^μ·(1 + b·τ), τ = 1 − T/Tc, B = 235.8 mN/m, b = −0.625, μ = 1.256,
-        Tc = 647.096 K. [N/m]
-
-    References
-    ----------
-    IAPWS R1-76(2014), Revised Release on Surface Tension of Ordinary Water Substance
-    (coefficients from memory; 72.74 mN/m at 20 °C).
-
-    Examples
-    --------
-    >>> round(water_surface_tension(20.0) * 1e3, 2)
-    72.74
-    """
-    t = np.asarray(temperature, dtype=float)
-    tau = 1.0 - (t + 273.15) / 647.096
-    sigma = 235.8e-3 * tau**1.256 * (1.0 - 0.625 * tau)
-    return float(sigma) if sigma.ndim == 0 else sigma
 
 
 def jurin_capillary_rise(diameter, temperature=20.0):
