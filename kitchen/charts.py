@@ -11,6 +11,7 @@ greyscale print.
 
 from __future__ import annotations
 
+import copy
 import html
 import textwrap
 from dataclasses import replace
@@ -99,12 +100,17 @@ def _template() -> go.layout.Template:
 
 
 @lru_cache(maxsize=1)
-def _two_panel_axes() -> dict:
+def _two_panel_grid() -> dict:
     """The axes of the compaction-conductivity grid (two rows sharing the x axis), built once."""
     layout = make_subplots(
         rows=2, cols=1, shared_xaxes=True, vertical_spacing=0.05, row_heights=[0.58, 0.42]
     ).layout.to_plotly_json()
     return {key: layout[key] for key in ("xaxis", "yaxis", "xaxis2", "yaxis2")}
+
+
+def _two_panel_axes() -> dict:
+    """A copy of :func:`_two_panel_grid`, free to change."""
+    return copy.deepcopy(_two_panel_grid())
 
 
 def decimation_indices(values, max_points: int = MAX_TRACE_POINTS) -> np.ndarray:
@@ -341,8 +347,14 @@ def _specimen_trace_specs(
 
 
 def _criterion_trace(analysis, x_range, unit: DisplayUnit, show_legend=True) -> go.Scatter:
+    return go.Scatter(_criterion_spec(analysis, x_range, unit, show_legend))
+
+
+def _criterion_spec(analysis, x_range, unit: DisplayUnit, show_legend=True) -> dict:
+    """The criterion line as a trace's properties."""
     value = analysis.criterion * unit.factor
-    return go.Scatter(
+    return dict(
+        type="scatter",
         x=list(x_range),
         y=[value, value],
         mode="lines",
@@ -602,8 +614,7 @@ def compaction_conductivity_figure(
         plane, w_pct, frame["k"] * ku.factor, ku, False, shortest, order, **bottom
     )
     if not note:
-        criterion = _criterion_trace(analysis, x_range, ku).to_plotly_json()
-        data.append(dict(criterion, **bottom))
+        data.append(dict(_criterion_spec(analysis, x_range, ku), **bottom))
     if note:
         annotations.append(dict(_note_spec(note), xref="x2 domain", yref="y2 domain"))
     axes = _two_panel_axes()
