@@ -438,11 +438,13 @@ def compaction_curves(table: pd.DataFrame, method="quadratic") -> dict:
                 f"curves: {rows}",
                 stacklevel=2,
             )
-    used = effort.notna() & w.notna()
+    used = (effort.notna() & w.notna()).to_numpy()
+    labels = effort.to_numpy(dtype=object)
+    w_values, rho_values = w.to_numpy(), rho.to_numpy()
     curves = {}
-    for name in pd.unique(effort[used]):
-        rows = used & (effort == name)
-        points, distinct = int(rows.sum()), int(w[rows].nunique())
+    for name in pd.unique(labels[used]):
+        rows = used & (labels == name)
+        points, distinct = int(rows.sum()), len(np.unique(w_values[rows]))
         if points < needed or distinct < needed:
             warnings.warn(
                 f"effort {_show(name)}: {points} specimen(s) at {distinct} distinct water "
@@ -451,7 +453,7 @@ def compaction_curves(table: pd.DataFrame, method="quadratic") -> dict:
                 stacklevel=2,
             )
             continue
-        curve = _fit_curve(w[rows].to_numpy(), rho[rows].to_numpy(), method)
+        curve = _fit_curve(w_values[rows], rho_values[rows], method)
         if curve.message:
             warnings.warn(f"effort {_show(name)}: {curve.message}", stacklevel=2)
         curves[name] = curve
