@@ -22,7 +22,7 @@ import pandas as pd
 import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
-from .display_units import DisplayUnit, density_unit, k_unit, scientific
+from .display_units import DisplayUnit, density_unit, distinct_texts, k_unit, scientific
 from .series_analysis import SATURATION_LINES, VERDICTS, SeriesAnalysis
 from .trends import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE
 
@@ -431,19 +431,6 @@ def _note_spec(text: str) -> dict:
 def _note(figure: go.Figure, text: str, **where) -> None:
     if text:
         figure.add_annotation(**_note_spec(text), **where)
-
-
-def _interval_texts(unit: DisplayUnit, *values) -> list[str]:
-    """The values written with enough digits to tell them apart (at most 6)."""
-    texts = []
-    for digits in range(3, 7):
-        texts = [scientific(v * unit.factor, digits, html=True) for v in values]
-        if len(set(texts)) == len(set(values)):
-            break
-    return texts
-
-
-# --- the compaction–conductivity chart ------------------------------------------------------
 
 
 def compaction_conductivity_figure(
@@ -980,7 +967,7 @@ def falling_head_figure(
                 yref="y",
             )
         )
-    k_text, low, high = _interval_texts(
+    k_text, low, high = distinct_texts(
         ku, result.k_reference, result.k_reference_low, result.k_reference_high
     )
     label = f"k{reference_temperature:g}".replace(".", "_")
@@ -1082,7 +1069,7 @@ def constant_head_figure(
         rangemode="tozero",
         exponentformat="power",
     )
-    k_text, low_text, high_text = _interval_texts(ku, k, low, high)
+    k_text, low_text, high_text = distinct_texts(ku, k, low, high)
     figure.update_layout(
         title_text=f"Specimen {html.escape(str(result.specimen))}: constant head<br><sup>"
         f"{label} = {k_text} {ku.unit} (95 %: {low_text} – {high_text}), {result.n} "

@@ -26,6 +26,7 @@ __all__ = [
     "DisplayUnit",
     "k_unit",
     "density_unit",
+    "distinct_texts",
     "scientific",
 ]
 
@@ -132,3 +133,17 @@ def scientific(value: float, digits: int = 3, html: bool = False) -> str:
         power = str(exponent).replace("-", "−")
         return f"{lead}10<sup>{power}</sup>"
     return f"{lead}10{str(exponent).translate(_SUPERSCRIPT)}"
+
+
+def distinct_texts(unit: DisplayUnit, *values: float, html: bool = True) -> list[str]:
+    """The values in ``unit``, written with enough digits (3 to 6) to tell them apart.
+
+    An interval such as 7.556e-9 to 7.562e-9 m/s would print as "7.56 – 7.56" with three
+    digits; this adds digits until the texts differ wherever the values do.
+    """
+    texts: list[str] = []
+    for digits in range(3, 7):
+        texts = [scientific(v * unit.factor, digits, html=html) for v in values]
+        if len(set(texts)) == len(set(values)):
+            break
+    return texts

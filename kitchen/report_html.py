@@ -12,7 +12,7 @@ import math
 
 import pandas as pd
 
-from .display_units import DisplayUnit, scientific
+from .display_units import DisplayUnit, distinct_texts, scientific
 from .provenance import Provenance
 from .series_analysis import ANALYSIS_METHODS, VERDICTS, SeriesAnalysis
 from .trends import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE
@@ -89,16 +89,6 @@ def _number(value, digits: int = 3) -> str:
     if math.isinf(value):
         return "∞" if value > 0 else "−∞"
     return f"{value:.{digits}g}"
-
-
-def _distinct(unit: DisplayUnit, *values) -> list[str]:
-    """Values in `unit`, with enough digits (3 to 6) to tell them apart."""
-    texts = []
-    for digits in range(3, 7):
-        texts = [scientific(v * unit.factor, digits, html=True) for v in values]
-        if len(set(texts)) == len(set(values)):
-            break
-    return texts
 
 
 def _table(header, rows, numeric=(), nowrap=()) -> str:
@@ -190,7 +180,7 @@ def _specimen_rows(analysis: SeriesAnalysis, ku: DisplayUnit, du: DisplayUnit) -
         interval = "–"
         k_text = scientific(row["k"] * ku.factor, html=True)
         if pd.notna(row["k_low"]):
-            k_text, low, high = _distinct(ku, row["k"], row["k_low"], row["k_high"])
+            k_text, low, high = distinct_texts(ku, row["k"], row["k_low"], row["k_high"])
             interval = f"{low} – {high}"
         water = row["water_content"]
         saturation = pd.to_numeric(row["saturation"], errors="coerce")

@@ -89,3 +89,13 @@ def test_scientific(value, text):
 def test_scientific_html_and_digits():
     assert scientific(7.559208e-9, html=True) == "7.56×10<sup>−9</sup>"
     assert scientific(7.559208e-9, digits=5) == "7.5592×10⁻⁹"
+
+
+def test_distinct_texts_add_digits_until_values_differ():
+    # Common practice, no source: an interval is printed with enough digits to show its ends.
+    from kitchen.display_units import distinct_texts, k_unit
+
+    low, high = distinct_texts(k_unit("m/s"), 7.556e-9, 7.562e-9, html=False)
+    assert low != high
+    same = distinct_texts(k_unit("m/s"), 7.5e-9, 7.5e-9, html=False)
+    assert same[0] == same[1]
