@@ -23,6 +23,7 @@ import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
 from .display_units import DisplayUnit, density_unit, distinct_texts, k_unit, scientific
+from .results import reference_label
 from .series_analysis import SATURATION_LINES, VERDICTS, SeriesAnalysis
 from .trends import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE
 
@@ -205,7 +206,7 @@ def add_caption(figure: go.Figure, lines, width: int = 160) -> go.Figure:
 
 
 def _k_title(unit: DisplayUnit, reference_temperature: float) -> str:
-    label = f"k{reference_temperature:g}".replace(".", "_")
+    label = reference_label(reference_temperature)
     return f"hydraulic conductivity {label} [{unit.unit}]"
 
 
@@ -970,7 +971,7 @@ def falling_head_figure(
     k_text, low, high = distinct_texts(
         ku, result.k_reference, result.k_reference_low, result.k_reference_high
     )
-    label = f"k{reference_temperature:g}".replace(".", "_")
+    label = reference_label(reference_temperature)
     layout = dict(
         template=_template(),
         shapes=shapes,
@@ -1062,7 +1063,7 @@ def constant_head_figure(
             hovertemplate="i = %{x:.3g}<br>v = %{y:.3g} " + ku.unit + "<extra></extra>",
         )
     )
-    label = f"k{reference_temperature:g}".replace(".", "_")
+    label = reference_label(reference_temperature)
     figure.update_xaxes(title_text="hydraulic gradient i [–]", rangemode="tozero")
     figure.update_yaxes(
         title_text=f"Darcy velocity at {reference_temperature:g} °C, v·R<sub>T</sub> [{ku.unit}]",

@@ -35,7 +35,7 @@ from .files import atomic_write_bytes, spreadsheet_safe
 from .memo_tables import checks_table, fits_table, specimens_table
 from .provenance import Provenance, memo_provenance
 from .report_html import chart_page, report_page
-from .results import Settings, results_table, series_results
+from .results import Settings, reference_label, results_table, series_results
 from .series import Series
 from .series_analysis import SeriesAnalysis, analyse_series
 from .specimen import specimen_state
@@ -424,7 +424,7 @@ def export_memo_pack(
     if results is None:
         results = series_results(series, settings, windows)
     analysis = analyse_series(results, criterion, settings.reference_temperature)
-    label = f"k{settings.reference_temperature:g}".replace(".", "_")
+    label = reference_label(settings)
     criterion_text = (
         f"criterion {label} ≤ {display_units.scientific(criterion * ku.factor)} {ku.unit}"
     )

@@ -11,16 +11,13 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
+from .results import reference_label
 from .series_analysis import SeriesAnalysis
 
 __all__ = ["specimens_table", "fits_table", "checks_table"]
 
 FIT_COLUMNS = ["fit", "subject", "quantity", "value", "low", "high", "unit", "n", "note"]
 """Columns of :func:`fits_table`; ``low`` and ``high`` bound the interval where there is one."""
-
-
-def _k_label(analysis: SeriesAnalysis) -> str:
-    return f"k{analysis.reference_temperature:g}".replace(".", "_")
 
 
 def specimens_table(analysis: SeriesAnalysis) -> pd.DataFrame:
@@ -41,7 +38,7 @@ def specimens_table(analysis: SeriesAnalysis) -> pd.DataFrame:
         ``grading_note`` (predictions, not measurements).
     """
     rows = analysis.specimens
-    label = _k_label(analysis)
+    label = reference_label(analysis.reference_temperature)
     table = pd.DataFrame(
         {
             "specimen": rows["specimen"].astype(str),
@@ -267,7 +264,7 @@ def fits_table(analysis: SeriesAnalysis) -> pd.DataFrame:
             _row(
                 "geometric mean",
                 "all specimens",
-                f"geometric mean of {_k_label(analysis)}",
+                f"geometric mean of {reference_label(analysis.reference_temperature)}",
                 mean.geometric_mean,
                 "m/s",
                 mean.low,

@@ -14,6 +14,7 @@ import pandas as pd
 
 from .display_units import DisplayUnit, distinct_texts, scientific
 from .provenance import Provenance
+from .results import reference_label
 from .series_analysis import ANALYSIS_METHODS, VERDICTS, SeriesAnalysis
 from .trends import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE
 
@@ -318,7 +319,7 @@ def report_page(
     skipped : iterable of str
         Charts not drawn, and why.
     """
-    label = f"k{analysis.reference_temperature:g}".replace(".", "_")
+    label = reference_label(analysis.reference_temperature)
     title = f"Hydraulic conductivity of series {provenance.series}"
     specimens = _table(
         [

@@ -106,9 +106,18 @@ class Settings:
         return replace(self, **changes)
 
 
-def reference_label(settings: Settings) -> str:
-    """Name of the corrected-k column, after the reference temperature (``k20``)."""
-    return f"k{settings.reference_temperature:g}".replace(".", "_")
+def reference_label(reference: Settings | float) -> str:
+    """Name of the corrected k, after the reference temperature: ``k20``, ``k10``, ``k27_5``.
+
+    Parameters
+    ----------
+    reference : Settings or float
+        Settings, or the reference temperature itself. [degC]
+    """
+    temperature = (
+        reference.reference_temperature if isinstance(reference, Settings) else float(reference)
+    )
+    return f"k{temperature:g}".replace(".", "_")
 
 
 STATE_COLUMNS = [
