@@ -25,6 +25,7 @@ rise in standpipes (from memory).
 
 from __future__ import annotations
 
+import copy
 import math
 from dataclasses import dataclass
 from functools import cached_property
@@ -57,6 +58,7 @@ from .validity import (
     sign_runs_test,
     steady_values_check,
     trend_check,
+    window_trends,
 )
 from .water import viscosity_ratio, water_density, water_surface_tension, water_viscosity
 
@@ -529,6 +531,21 @@ class FallingHeadRecord:
         self._check(np.isfinite(head) & (head > 0), "head", "a positive number [m]")
         self._check(np.r_[True, np.diff(time) > 0], "time", "a time later than the reading before")
         self.head = head
+        self._set_specimen(specimen_row)
+        self._prepare_temperature(readings)
+        self._given_rise = capillary_rise
+        self._prepare_heads(capillary_rise)
+        self.inflow, self.outflow = (
+            readings[c].to_numpy(float) if c in readings.columns else None
+            for c in ("inflow_volume", "outflow_volume")
+        )
+        self._volumes = self.inflow is not None and self.outflow is not None
+        if self._volumes:
+            self._volumes = bool(np.any(np.isfinite(self.inflow) & np.isfinite(self.outflow)))
+
+    def _set_specimen(self, specimen_row) -> None:
+        """Dimensions and standpipes from the specimen's row (nothing of the readings)."""
+        specimen = self.specimen
         self.height = _number(specimen_row, "height", specimen, "m")
         diameter = _number(specimen_row, "diameter", specimen, "m", required=False)
         if "area" in specimen_row.index and not pd.isna(specimen_row["area"]):
@@ -545,15 +562,54 @@ class FallingHeadRecord:
         self.standpipe_area = float(effective_standpipe_area(self.inflow_area, self.outflow_area))
         self.scale = self.standpipe_area * self.height / self.area
         self.d10 = _number(specimen_row, "d10", specimen, "m", required=False)
-        self._prepare_temperature(readings)
-        self._prepare_heads(capillary_rise)
-        self.inflow, self.outflow = (
-            readings[c].to_numpy(float) if c in readings.columns else None
-            for c in ("inflow_volume", "outflow_volume")
+
+    def with_specimen(self, specimen_row: pd.Series) -> FallingHeadRecord:
+        """The same readings against a revised row of the same specimen, not prepared again.
+
+        Parameters
+        ----------
+        specimen_row : pandas.Series
+            The specimen's state as for the constructor, with a new height, diameter or
+            any other value of the specimens table.
+
+        Returns
+        -------
+        FallingHeadRecord
+            A new record sharing this one's reading arrays (they are never written to):
+            the reference time, the running temperature integral and the trend of every
+            trial window depend on the readings alone. Only when a standpipe area changed
+            and the capillary rise depends on it (Jurin's law) are the corrected heads
+            formed again. The same as a record built from scratch on the new row.
+        """
+        if str(specimen_row["specimen"]) != self.specimen:
+            raise ValueError(
+                f"specimen {self.specimen}: a record takes the rows of its own specimen, got "
+                f"{specimen_row['specimen']!r}"
+            )
+        other = copy.copy(self)
+        for derived in ("increment_k",):  # depends on the scale a·L/A
+            other.__dict__.pop(derived, None)
+        other._set_specimen(specimen_row)
+        same_bores = np.array_equal(
+            [self.inflow_area, self.outflow_area],
+            [other.inflow_area, other.outflow_area],
+            equal_nan=True,
         )
-        self._volumes = self.inflow is not None and self.outflow is not None
-        if self._volumes:
-            self._volumes = bool(np.any(np.isfinite(self.inflow) & np.isfinite(self.outflow)))
+        if not same_bores and self._rise_from_bores:
+            other.__dict__.pop("_trends", None)  # ln h changes with the rise
+            other._prepare_heads(self._given_rise)
+        return other
+
+    @property
+    def _rise_from_bores(self) -> bool:
+        return self._given_rise is None and self.settings.capillary_rise == "jurin"
+
+    @cached_property
+    def _trends(self):
+        """The trend of every trial window (:func:`kitchen.validity.window_trends`)."""
+        return window_trends(
+            self.reference_time, self.log_head, self.settings.criteria, self._minimum_readings()
+        )
 
     @cached_property
     def increment_time(self) -> np.ndarray:
@@ -756,6 +812,7 @@ class FallingHeadRecord:
             inflow=self.inflow,
             outflow=self.outflow,
             reynolds_per_k=reynolds_per_k,
+            trends=self._trends,
         )
 
     def _minimum_readings(self) -> int:

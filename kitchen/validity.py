@@ -42,6 +42,7 @@ __all__ = [
     "CurvatureTest",
     "RunsTest",
     "WindowProposal",
+    "WindowTrends",
     "recommended_maximum_gradient",
     "reynolds_number",
     "steady_values_check",
@@ -53,6 +54,7 @@ __all__ = [
     "gradient_check",
     "reynolds_check",
     "gradient_independence_check",
+    "window_trends",
     "propose_window",
     "is_valid",
 ]
@@ -731,6 +733,97 @@ def _within_critical(t: np.ndarray, dof: np.ndarray, probability: float) -> np.n
     return passed
 
 
+@dataclass(frozen=True)
+class WindowTrends:
+    """What the window proposal needs of the readings alone, for every trial start.
+
+    Built by :func:`window_trends` from the reference time and ln h; the specimen's
+    dimensions do not enter, so a revised height or diameter reuses it.
+    """
+
+    n: int
+    """Readings in the record. [-]"""
+    starts: int
+    """Trial starts: readings 0 to ``starts - 1``. [-]"""
+    span: float
+    """Reference time from the first reading to the last. [s]"""
+    slope: np.ndarray
+    """Slope of ln h on the scaled time, for each start (multiply by −scale/span for k)."""
+    trend_ok: np.ndarray
+    """Whether each start's window passes the trend criterion."""
+    reason: str = ""
+    """Why no start can be judged (too few readings), else empty."""
+
+
+def window_trends(reference_time, log_head, criteria: Criteria, minimum_readings: int = 6):
+    """The slope and the trend verdict of every window ending at the last reading.
+
+    Parameters
+    ----------
+    reference_time : array_like
+        Reference-equivalent time of every reading. [s]
+    log_head : array_like
+        ln of the (corrected) head of every reading. [-]
+    criteria : Criteria
+        ``trend_level``, ``trend_minimum_change`` and ``window_minimum_fraction``.
+    minimum_readings : int
+        Fewest readings in a window. [-]
+
+    Returns
+    -------
+    WindowTrends
+
+    Notes
+    -----
+    Every start is judged at once from suffix sums of powers of the time measured back
+    from the last reading (an origin inside every window, so the centred moments lose at
+    most about two digits): the slope and the quadratic term of each window come from a
+    few arithmetic operations, with no refit per window. The tool's own rule.
+    """
+    x = np.asarray(reference_time, dtype=float)
+    y = np.asarray(log_head, dtype=float)
+    n = x.size
+    keep = max(int(math.ceil(criteria.window_minimum_fraction * n)), minimum_readings)
+    if n < minimum_readings or n - keep < 1:
+        empty = np.zeros(0)
+        return WindowTrends(
+            n, 0, 0.0, empty, empty.astype(bool), "too few readings to leave any out"
+        )
+    count = n - keep + 1
+    head = slice(0, count)  # the positions of the starts, without a gather
+    span = float(x[-1] - x[0])
+    u = (x - x[-1]) / span
+    v = y - y[-1]
+    u2 = u * u
+    sums = [
+        np.arange(n, 0, -1, dtype=float),
+        *(_suffix(values) for values in (u, u2, u2 * u, u2 * u2, v, u * v, u2 * v, v * v)),
+    ]
+    m, s1, s2, s3, s4, sy, sxy, sxxy, syy = (values[head] for values in sums)
+    mu = s1 / m
+    c2 = s2 - m * mu * mu
+    c3 = s3 - 3 * mu * s2 + 2 * m * mu**3
+    c4 = s4 - 4 * mu * s3 + 6 * mu * mu * s2 - 3 * m * mu**4
+    y_mean = sy / m
+    cxy = sxy - m * mu * y_mean
+    cyy = syy - m * y_mean * y_mean
+    cxxy = (sxxy - 2 * mu * sxy + mu * mu * sy) - y_mean * c2
+    slope = cxy / c2
+    sqq = c4 - c2 * c2 / m - c3 * c3 / c2
+    sqy = cxxy - c3 / c2 * cxy
+    with np.errstate(divide="ignore", invalid="ignore"):
+        b2 = np.where(sqq > 0, sqy / sqq, 0.0)
+        sse = np.maximum(cyy - cxy * cxy / c2 - b2 * sqy, 0.0)
+        se = np.sqrt(sse / (m - 3) / sqq)
+        t = np.where(se > 0, b2 / se, 0.0)
+        width = -u[head]  # each window spans u from u[start] to 0
+        middle = 0.5 * u[head] - mu
+        change = 2 * b2 * width / (slope + b2 * (2 * middle - c3 / c2))
+    trend_ok = _within_critical(np.abs(t), m - 3, 1 - criteria.trend_level / 2)
+    trend_ok |= np.abs(change) < criteria.trend_minimum_change
+    return WindowTrends(n, count, span, slope, trend_ok)
+
+
 def propose_window(
     reference_time,
     log_head,
@@ -743,6 +836,7 @@ def propose_window(
     inflow=None,
     outflow=None,
     reynolds_per_k: float = math.nan,
+    trends: WindowTrends | None = None,
 ) -> WindowProposal:
     """The longest window ending at the last reading that meets every criterion.
 
@@ -766,6 +860,9 @@ def propose_window(
         Cumulative inflow and outflow volumes at each reading, NaN where not read. [m3]
     reynolds_per_k : float
         Reynolds number per unit of k·i (ρw·d10/(μ·R_T)); NaN without d10. [s/m]
+    trends : WindowTrends, optional
+        :func:`window_trends` of the same readings, criteria and `minimum_readings`, when
+        already at hand (a record keeps it); computed here otherwise.
 
     Returns
     -------
@@ -777,63 +874,22 @@ def propose_window(
     -----
     The criteria concern the final values of a test, so the proposal keeps the last
     reading and leaves out early ones; it never leaves out more than
-    1 − ``window_minimum_fraction`` of the readings. Every start is judged at once from
-    suffix sums of powers of the time measured back from the last reading (an origin
-    inside every window, so the centred moments lose at most about two digits): the slope
-    and the quadratic term of each window come from a few arithmetic operations, with no
-    refit per window. The tool's own rule.
+    1 − ``window_minimum_fraction`` of the readings. The trend of every window comes
+    from :func:`window_trends`; the gradient, Reynolds and flow-ratio criteria are then
+    judged for every start at once. The tool's own rule.
     """
-    x = np.asarray(reference_time, dtype=float)
-    y = np.asarray(log_head, dtype=float)
-    n = x.size
-    keep = max(int(math.ceil(criteria.window_minimum_fraction * n)), minimum_readings)
-    if n < minimum_readings or n - keep < 1:
-        return WindowProposal(0, n, False, "too few readings to leave any out")
-    starts = np.arange(0, n - keep + 1)
-    head = slice(0, starts.size)  # the same positions as `starts`, without a gather
-    span = x[-1] - x[0]
-    u = (x - x[-1]) / span
-    v = y - y[-1]
-    u2 = u * u
-    sums = {
-        "1": np.arange(n, 0, -1, dtype=float),
-        "x": _suffix(u),
-        "xx": _suffix(u2),
-        "xxx": _suffix(u2 * u),
-        "x4": _suffix(u2 * u2),
-        "y": _suffix(v),
-        "xy": _suffix(u * v),
-        "xxy": _suffix(u2 * v),
-        "yy": _suffix(v * v),
-    }
-    m, s1, s2, s3, s4, sy, sxy, sxxy, syy = (sums[k][head] for k in sums)
-    mu = s1 / m
-    c2 = s2 - m * mu * mu
-    c3 = s3 - 3 * mu * s2 + 2 * m * mu**3
-    c4 = s4 - 4 * mu * s3 + 6 * mu * mu * s2 - 3 * m * mu**4
-    y_mean = sy / m
-    cxy = sxy - m * mu * y_mean
-    cyy = syy - m * y_mean * y_mean
-    cxxy = (sxxy - 2 * mu * sxy + mu * mu * sy) - y_mean * c2
-    slope = cxy / c2
-    sqq = c4 - c2 * c2 / m - c3 * c3 / c2
-    sqy = cxxy - c3 / c2 * cxy
-    with np.errstate(divide="ignore", invalid="ignore"):
-        b2 = np.where(sqq > 0, sqy / sqq, 0.0)
-        sse = np.maximum(cyy - cxy * cxy / c2 - b2 * sqy, 0.0)
-        se = np.sqrt(sse / (m - 3) / sqq)
-        t = np.where(se > 0, b2 / se, 0.0)
-        width = -u[head]  # each window spans u from u[start] to 0
-        middle = 0.5 * u[head] - mu
-        change = 2 * b2 * width / (slope + b2 * (2 * middle - c3 / c2))
-    trend_ok = _within_critical(np.abs(t), m - 3, 1 - criteria.trend_level / 2)
-    trend_ok |= np.abs(change) < criteria.trend_minimum_change
-    k = -scale * slope / span
+    if trends is None:
+        trends = window_trends(reference_time, log_head, criteria, minimum_readings)
+    n = trends.n
+    if trends.reason:
+        return WindowProposal(0, n, False, trends.reason)
+    head = slice(0, trends.starts)
+    k = -scale * trends.slope / trends.span
     limit = recommended_maximum_gradient(k, criteria.gradient_table)
     g = np.asarray(gradient, dtype=float)[head]
     gradient_ok = ~(g > limit)  # NaN limit (outside the table): not judged
     reynolds_ok = ~(reynolds_per_k * k * g > criteria.reynolds_limit)
-    flow_ok = np.ones(starts.size, dtype=bool)
+    flow_ok = np.ones(trends.starts, dtype=bool)
     if inflow is not None and outflow is not None:
         inflow = np.asarray(inflow, dtype=float)
         outflow = np.asarray(outflow, dtype=float)
@@ -848,7 +904,7 @@ def propose_window(
                 ratio = (outflow[last] - outflow[safe]) / (inflow[last] - inflow[safe])
             inside = (ratio >= criteria.flow_ratio_low) & (ratio <= criteria.flow_ratio_high)
             flow_ok = ~usable | inside
-    passing = trend_ok & gradient_ok & reynolds_ok & flow_ok & bool(steady_passed)
+    passing = trends.trend_ok & gradient_ok & reynolds_ok & flow_ok & bool(steady_passed)
     if not passing.any():
         return WindowProposal(
             0,
@@ -857,7 +913,7 @@ def propose_window(
             "no window ending at the last reading and keeping at least "
             f"{_percent(criteria.window_minimum_fraction)} of the readings meets every criterion",
         )
-    start = int(starts[np.argmax(passing)])
+    start = int(np.argmax(passing))
     return WindowProposal(
         start, n, True, "the longest window ending at the last reading that meets every criterion"
     )

@@ -119,7 +119,9 @@ class Workspace:
     -----
     The cache keeps, for each specimen and method, the last reduction and the digest of
     its inputs; a falling-head record (the prepared readings) is kept apart from its
-    analysis, so that moving the reading window reuses the record. The digest of each
+    analysis, so that moving the reading window reuses the record, and a revised height or
+    diameter reuses the record's reading arrays
+    (:meth:`kitchen.falling_head.FallingHeadRecord.with_specimen`). The digest of each
     specimen's readings is computed once, when its table is built.
     """
 
@@ -134,7 +136,7 @@ class Workspace:
         self._tables = {name: self._effective_table(name) for name in self._written}
         self._series = build_series(self._tables, self.path, self._input_files)
         self._cache: dict[tuple[str, str], tuple[str, object]] = {}
-        self._records: dict[str, tuple[str, FallingHeadRecord]] = {}
+        self._records: dict[str, tuple[str, str, FallingHeadRecord]] = {}
         self._rows: dict[str, dict] = {}
         self._reading_digests: dict[str, dict[str, str]] = {}
         self._index_readings(READING_TABLES)
@@ -336,20 +338,24 @@ class Workspace:
         )
 
     def _analyse(self, specimen: str, readings: pd.DataFrame) -> FallingHeadAnalysis:
-        record_key = _digest(
-            self._specimen_digests[specimen],
+        readings_key = _digest(
             self._reading_digests["falling_head"][specimen],
             self._settings,
             self._rises.get(specimen),
         )
+        row_key = self._specimen_digests[specimen]
         try:
             held = self._records.get(specimen)
-            if held is None or held[0] != record_key:
+            if held is None or held[0] != readings_key:
                 record = FallingHeadRecord(
                     readings, self._state_rows[specimen], self._settings, self._rises.get(specimen)
                 )
-                self._records[specimen] = held = (record_key, record)
-            return held[1].analyse(self._windows.get(specimen))
+            elif held[1] != row_key:  # a revised height, diameter, ...: the readings stand
+                record = held[2].with_specimen(self._state_rows[specimen])
+            else:
+                record = held[2]
+            self._records[specimen] = (readings_key, row_key, record)
+            return record.analyse(self._windows.get(specimen))
         except ValueError as error:  # as kitchen.results.series_results words it
             raise ValueError(f"{self._series.name}, falling-head readings: {error}") from error
 

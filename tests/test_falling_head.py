@@ -1,5 +1,6 @@
 """Falling-head reduction against a textbook worked example, round trips and invariants."""
 
+import dataclasses
 import json
 from pathlib import Path
 
@@ -439,3 +440,56 @@ def test_bad_analysis_requests_are_named():
     flat = readings.assign(head=1.0)
     with pytest.raises(ValueError, match="the head does not fall over readings 1 to 40"):
         falling_head_analysis(flat, specimen)
+
+
+def _assert_same_analysis(a, b):
+    for field in dataclasses.fields(a):
+        if field.name.startswith("_"):
+            continue
+        x, y = getattr(a, field.name), getattr(b, field.name)
+        if isinstance(x, np.ndarray):
+            np.testing.assert_array_equal(x, y, err_msg=field.name)
+        elif x is not None and dataclasses.is_dataclass(x):
+            assert dataclasses.asdict(x).keys() == dataclasses.asdict(y).keys(), field.name
+            _assert_same_analysis(x, y)
+        else:
+            assert x == y or (x != x and y != y), field.name  # NaN stands for NaN
+
+
+@pytest.mark.parametrize(
+    "change, settings_changes",
+    [
+        ({"height": 0.121}, {}),
+        ({"area": 0.0079}, {}),
+        ({"standpipe_area": 2.4e-6}, {}),
+        ({"standpipe_area": 2.4e-6}, {"capillary_rise": "jurin"}),
+        ({"height": 0.109, "tailwater_standpipe_area": 3.0e-6}, {"capillary_rise": "jurin"}),
+    ],
+)
+def test_a_record_for_a_revised_specimen_is_the_record_built_afresh(change, settings_changes):
+    # with_specimen reuses the reading arrays: every number must be what a record built from
+    # the revised row gives (the tool's own shortcut, checked against its own full path)
+    readings, specimen = _record(n=300, noise=0.4e-3, temperature=np.linspace(18, 22, 300))
+    readings.loc[:20, "head"] += np.linspace(4e-3, 0.0, 21)  # an early transient to leave out
+    settings = _settings(**settings_changes)
+    record = FallingHeadRecord(readings, specimen, settings)
+    record.analyse()  # the trends of every trial window are now held by the record
+    revised = specimen.copy()
+    for name, value in change.items():
+        revised[name] = value
+    reused = record.with_specimen(revised)
+    assert reused.time is record.time  # the readings are shared, not prepared again
+    fresh = FallingHeadRecord(readings, revised, settings)
+    _assert_same_analysis(reused.analyse(), fresh.analyse())
+    _assert_same_analysis(reused.analyse((5, 250)), fresh.analyse((5, 250)))
+    np.testing.assert_array_equal(reused.increment_k, fresh.increment_k)
+    _assert_same_analysis(
+        record.analyse(), FallingHeadRecord(readings, specimen, settings).analyse()
+    )
+
+
+def test_a_record_takes_only_its_own_specimen():
+    readings, specimen = _record()
+    record = FallingHeadRecord(readings, specimen)
+    with pytest.raises(ValueError, match="specimen C1: a record takes the rows of its own"):
+        record.with_specimen(pd.concat([specimen.drop("specimen"), pd.Series({"specimen": "C2"})]))

@@ -61,6 +61,7 @@ def test_a_height_revision_recomputes_that_specimen_only(clay):
     assert workspace.sync() == ("QF-04",)
     after = {s: workspace.falling_head(s) for s in workspace.specimen_ids()}
     assert [s for s in before if after[s] is not before[s]] == ["QF-04"]
+    assert after["QF-04"].time is before["QF-04"].time  # the readings were not prepared again
     assert workspace.series.specimens.set_index("specimen").loc["QF-04", "height"] == 0.1171
     assert_same_results(workspace, clay)
 
