@@ -99,6 +99,12 @@ def _add_memo_options(report) -> None:
         action="store_true",
         help="skip the PNG and SVG charts (they need Chromium); HTML charts are still written",
     )
+    report.add_argument(
+        "--self-contained",
+        action="store_true",
+        help="inline plotly.js (about 4.8 MB) in every HTML page so each opens on its own; "
+        "by default the pack holds it once, in charts/plotly.min.js",
+    )
 
 
 def _progress(done: int, total: int, what: str) -> None:
@@ -154,6 +160,7 @@ def _report(arguments) -> int:
         density_unit=arguments.density_unit,
         results=results,
         images=not arguments.no_images,
+        self_contained=arguments.self_contained,
         revision_count=effective.revision_count,
         revision_log=effective.log_path if effective.log_sha256 else None,
         revision_log_sha256=effective.log_sha256,

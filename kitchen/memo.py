@@ -4,19 +4,33 @@
 
 - ``results.csv`` and ``results.xlsx`` (sheets ``specimens``, ``tests``, ``fits``,
   ``checks`` and ``cautions``), every text cell spreadsheet-safe;
-- ``charts/NAME.html`` (interactive, plotly.js inlined, opens offline), ``charts/NAME.png``
+- ``charts/plotly.min.js`` (:data:`CHART_SCRIPT`): plotly.js, once for the whole pack;
+- ``charts/NAME.html`` (interactive, loading ``plotly.min.js`` beside it), ``charts/NAME.png``
   and ``charts/NAME.svg`` (static, through kaleido and Chromium) for each chart;
-- ``report.html``: one self-contained page with the specimens table, the charts, the
-  methods and their sources, the criteria applied, the cautions and the provenance.
+- ``report.html``: the specimens table, the charts (loading ``charts/plotly.min.js``), the
+  methods and their sources, the criteria applied, the cautions and the provenance, which
+  names the version, size and SHA-256 of the plotly.js the pages run.
+
+The pages load plotly.js by relative paths and make no request to the network, so the pack
+opens offline wherever its folder goes, whole: copied, moved, or zipped and unzipped. A
+reviewer receives the pack as one folder or one zip; a chart page sent on its own, or
+opened from inside a zip without unzipping, finds no plotly.js and says so. With
+``self_contained=True`` (``report --self-contained``) every HTML page inlines plotly.js
+instead and stands alone, for a page that must travel by itself (the PNG and SVG charts
+always do), at about 4.8 MB a page.
 
 Every item carries the cautions. Every file goes through
-:func:`kitchen.files.atomic_write_bytes`.
+:func:`kitchen.files.atomic_write_bytes`, so each is whole or absent. A pack is refused
+before any file is written when images are asked for without Chromium; a failure part-way
+leaves the files already written, plotly.js first among the pages, so every page present
+can draw its charts.
 """
 
 from __future__ import annotations
 
 import io
 import math
+import posixpath
 import re
 import threading
 import time
@@ -34,13 +48,14 @@ from .falling_head import falling_head_analysis
 from .files import atomic_write_bytes, spreadsheet_safe
 from .memo_tables import checks_table, fits_table, specimens_table
 from .provenance import Provenance, memo_provenance
-from .report_html import chart_page, report_page
+from .report_html import ChartScript, chart_page, report_page
 from .results import Settings, reference_label, results_table, series_results
 from .series import Series
 from .series_analysis import SeriesAnalysis, analyse_series
 from .specimen import specimen_state
 
 __all__ = [
+    "CHART_SCRIPT",
     "MEMO_CAUTIONS",
     "ImageExportUnavailable",
     "MemoPack",
@@ -56,6 +71,10 @@ MEMO_CAUTIONS = CAUTIONS + (
     "personnel.",
 )
 """The cautions every exported item carries: :data:`kitchen.CAUTIONS` and ASTM D5084's own."""
+
+CHART_SCRIPT = "charts/plotly.min.js"
+"""Where a pack keeps plotly.js, ``/``-separated from the pack's folder; pages load it by a
+path relative to their own folder."""
 
 PNG_SCALE = 2
 """PNG pixels per layout pixel: a 980-pixel chart prints 16 cm wide at about 300 dpi."""
@@ -346,10 +365,11 @@ def _settings_dict(settings: Settings) -> dict:
     return flat
 
 
-def _figure_html(figure, name: str, with_plotly: bool) -> str:
+def _figure_html(figure, name: str) -> str:
+    """The figure as an HTML fragment without plotly.js (the page's head loads it)."""
     return figure.to_html(
         full_html=False,
-        include_plotlyjs=with_plotly,
+        include_plotlyjs=False,
         div_id=f"chart-{name}",
         config={"displaylogo": False, "responsive": False},
     )
@@ -366,6 +386,7 @@ def export_memo_pack(
     results: pd.DataFrame | None = None,
     windows: dict | None = None,
     images: bool = True,
+    self_contained: bool = False,
     revision_count: int = 0,
     revision_log: str | Path | None = None,
     revision_log_sha256: str | None = None,
@@ -393,6 +414,10 @@ def export_memo_pack(
         Falling-head reading windows ``{specimen: (start, stop)}``.
     images : bool, default True
         Write PNG and SVG beside each chart's HTML (needs Chromium).
+    self_contained : bool, default False
+        Inline plotly.js in every HTML page, so that each opens on its own (about 4.8 MB a
+        page). By default it is written once, as :data:`CHART_SCRIPT`, and every page
+        loads it: a pack many times smaller, which opens as a whole folder.
     revision_count, revision_log, revision_log_sha256 : optional
         The revisions applied (see :func:`kitchen.revisions.load_effective_series`).
     progress : callable, optional
@@ -411,7 +436,7 @@ def export_memo_pack(
     OSError
         When an input cannot be read or the folder cannot be written.
     """
-    from plotly.offline import get_plotlyjs
+    from plotly.offline import get_plotlyjs, get_plotlyjs_version
 
     from .charts import add_caption
 
@@ -454,8 +479,13 @@ def export_memo_pack(
         "fits": fits_table(analysis),
         "checks": checks_table(results, analysis, skipped),
     }
+    script = ChartScript(
+        get_plotlyjs(), get_plotlyjs_version(), None if self_contained else CHART_SCRIPT
+    )
     formats = ("html", "png", "svg") if images else ("html",)
     steps = ["results.csv", "results.xlsx"]
+    if script.path is not None:
+        steps.append(script.path)
     steps += [f"charts/{name}.{ext}" for name, _, _ in charts for ext in formats]
     steps.append("report.html")
     written: list[Path] = []
@@ -472,13 +502,16 @@ def export_memo_pack(
     )
     notes = _notes_sheet(provenance, criterion_text)
     write("results.xlsx", "workbook", lambda: workbook_bytes(tables, notes))
+    if script.path is not None:  # before any page that loads it
+        write(script.path, "script", lambda: script.content)
     caption = _caption(provenance, criterion_text)
     for name, title, figure in charts:
+        page = f"charts/{name}.html"
         write(
-            f"charts/{name}.html",
+            page,
             "chart",
-            lambda f=figure, n=name, t=title: chart_page(
-                t, _figure_html(f, n, True), MEMO_CAUTIONS, provenance
+            lambda f=figure, n=name, t=title, p=page: chart_page(
+                t, _figure_html(f, n), MEMO_CAUTIONS, provenance, script, posixpath.dirname(p)
             ).encode("utf-8"),
         )
         if images:
@@ -487,7 +520,7 @@ def export_memo_pack(
                 write(
                     f"charts/{name}.{ext}", "chart", lambda c=captioned, e=ext: figure_image(c, e)
                 )
-    fragments = [(name, title, _figure_html(figure, name, False)) for name, title, figure in charts]
+    fragments = [(name, title, _figure_html(figure, name)) for name, title, figure in charts]
     write(
         "report.html",
         "report",
@@ -495,7 +528,7 @@ def export_memo_pack(
             analysis,
             tables,
             fragments,
-            get_plotlyjs(),
+            script,
             provenance,
             MEMO_CAUTIONS,
             ku,

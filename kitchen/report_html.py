@@ -1,14 +1,22 @@
 """The HTML pages of the memo pack, built as text: the report of a series and one per chart.
 
-The pages are self-contained: styles inline, plotly.js inlined once per page (passed in
-by :mod:`kitchen.memo`, which turns the figures into HTML), no request to the network.
-Every value that comes from the input (specimen ids, effort labels, notes) is escaped.
+The pages make no request to the network: styles are inline, and plotly.js, described by
+a :class:`ChartScript`, is either a file of the pack that each page loads by a relative
+path (``<script src="plotly.min.js">``), or inlined in every page. With a shared file, a
+page opened without it (a chart mailed on its own, a page opened from inside a zip) shows
+a notice saying what is missing instead of blank charts. :mod:`kitchen.memo` turns the
+figures into HTML and decides which. Every value that comes from the input (specimen ids,
+effort labels, notes) is escaped.
 """
 
 from __future__ import annotations
 
+import hashlib
 import html
 import math
+import posixpath
+from dataclasses import dataclass
+from functools import cached_property
 
 import pandas as pd
 
@@ -18,7 +26,7 @@ from .results import reference_label
 from .series_analysis import ANALYSIS_METHODS, VERDICTS, SeriesAnalysis
 from .trends import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE
 
-__all__ = ["REDUCTION_METHODS", "VERDICT_MARKS", "chart_page", "report_page"]
+__all__ = ["REDUCTION_METHODS", "VERDICT_MARKS", "ChartScript", "chart_page", "report_page"]
 
 REDUCTION_METHODS = (
     (
@@ -107,6 +115,71 @@ def _table(header, rows, numeric=(), nowrap=()) -> str:
     return f"<table><thead><tr>{head}</tr></thead><tbody>{''.join(body)}</tbody></table>"
 
 
+@dataclass(frozen=True)
+class ChartScript:
+    """plotly.js as the pages of a pack load it, and what a reviewer can check it against.
+
+    Attributes
+    ----------
+    code : str
+        plotly.js itself (``plotly.offline.get_plotlyjs()``).
+    version : str
+        The plotly.js version (``plotly.offline.get_plotlyjs_version()``).
+    path : str or None
+        The file holding `code` inside the pack, ``/``-separated from the pack's folder
+        (``charts/plotly.min.js``), which each page loads by a path relative to its own
+        folder; None when every page inlines `code`.
+    """
+
+    code: str
+    version: str
+    path: str | None = None
+
+    @cached_property
+    def content(self) -> bytes:
+        """The bytes of the file at `path` (the code in UTF-8)."""
+        return self.code.encode("utf-8")
+
+    @cached_property
+    def sha256(self) -> str:
+        """SHA-256 of :attr:`content`, in hex."""
+        return hashlib.sha256(self.content).hexdigest()
+
+    def source(self, folder: str) -> str:
+        """The path of the file relative to a page in `folder` (``""``: the pack's folder)."""
+        if self.path is None:
+            raise ValueError("this plotly.js is inlined in each page: it has no file to load")
+        return posixpath.relpath(self.path, folder or ".")
+
+    def element(self, folder: str) -> str:
+        """The ``<script>`` element that gives a page in `folder` plotly.js."""
+        if self.path is None:
+            return f'<script type="text/javascript">{self.code}</script>\n'
+        return f'<script type="text/javascript" src="{_e(self.source(folder))}"></script>\n'
+
+    def notice(self, folder: str) -> tuple[str, str]:
+        """A hidden notice for the top of a page in `folder`, and the check that shows it.
+
+        The check, placed at the end of the page, reveals the notice when plotly.js did not
+        load; an inlined script always loads, so it needs neither (two empty strings).
+        """
+        if self.path is None:
+            return "", ""
+        text = (
+            "The interactive charts of this page did not load: they need plotly.js, which "
+            f"the page loads from <code>{_e(self.source(folder))}</code> (relative to the "
+            "page), and it was not found. Open the page from the memo pack's folder, kept "
+            "whole (unzip the pack first), or ask for a pack exported self-contained. The "
+            "PNG and SVG charts of the pack need no script."
+        )
+        notice = f'<p class="cautions" id="chart-script-missing" hidden>{text}</p>\n'
+        check = (
+            '<script>if (typeof Plotly === "undefined") '
+            '{ document.getElementById("chart-script-missing").hidden = false; }</script>\n'
+        )
+        return notice, check
+
+
 def _page(title: str, body: str, head_script: str = "") -> str:
     return (
         '<!DOCTYPE html>\n<html lang="en">\n<head>\n<meta charset="utf-8">\n'
@@ -121,7 +194,16 @@ def _cautions(cautions) -> str:
     return f'<section class="cautions"><strong>Cautions</strong><ul>{items}</ul></section>'
 
 
-def _provenance(provenance: Provenance) -> str:
+def _script_row(script: ChartScript) -> tuple[str, str]:
+    where = "inlined in every page" if script.path is None else f"<code>{_e(script.path)}</code>"
+    return (
+        "chart script",
+        f"plotly.js {_e(script.version)}, {where}, {len(script.content)} bytes, SHA-256 "
+        f'<span class="hash">{script.sha256}</span>',
+    )
+
+
+def _provenance(provenance: Provenance, script: ChartScript) -> str:
     rows = [
         ("tool", f"kitchen {_e(provenance.tool_version)}"),
         ("exported", _e(provenance.created)),
@@ -139,6 +221,7 @@ def _provenance(provenance: Provenance) -> str:
         )
     )
     rows.append(("environment", _e(", ".join(f"{n} {v}" for n, v in provenance.environment))))
+    rows.append(_script_row(script))
     rows = [(f'<span class="nowrap">{a}</span>', b) for a, b in rows]
     files = _table(
         ["input file", "bytes", "SHA-256"],
@@ -151,7 +234,14 @@ def _provenance(provenance: Provenance) -> str:
     return _table(["item", "value"], rows) + files
 
 
-def chart_page(title: str, figure_html: str, cautions, provenance: Provenance) -> str:
+def chart_page(
+    title: str,
+    figure_html: str,
+    cautions,
+    provenance: Provenance,
+    script: ChartScript | None = None,
+    folder: str = "",
+) -> str:
     """A page holding one interactive chart, its cautions and a provenance line.
 
     Parameters
@@ -159,20 +249,26 @@ def chart_page(title: str, figure_html: str, cautions, provenance: Provenance) -
     title : str
         The chart's title.
     figure_html : str
-        The figure as an HTML fragment with plotly.js inlined
-        (``Figure.to_html(full_html=False, include_plotlyjs=True)``).
+        The figure as an HTML fragment (``Figure.to_html(full_html=False, ...)``); with
+        plotly.js inlined when `script` is None.
     cautions : iterable of str
     provenance : Provenance
+    script : ChartScript, optional
+        How the page gets plotly.js; None when `figure_html` carries it.
+    folder : str, default ""
+        The page's folder inside the pack, ``/``-separated (``charts``), from which the
+        script's relative path is worked out.
     """
     line = (
         f"kitchen {_e(provenance.tool_version)} · series {_e(provenance.series)} · exported "
         f"{_e(provenance.created)} · {provenance.revision_count} revision(s) applied"
     )
+    notice, check = script.notice(folder) if script is not None else ("", "")
     body = (
-        f'<h1>{_e(title)}</h1>\n<div class="chart">{figure_html}</div>\n'
-        f'{_cautions(cautions)}\n<p class="note">{line}</p>'
+        f'<h1>{_e(title)}</h1>\n{notice}<div class="chart">{figure_html}</div>\n'
+        f'{_cautions(cautions)}\n<p class="note">{line}</p>\n{check}'
     )
-    return _page(title, body)
+    return _page(title, body, script.element(folder) if script is not None else "")
 
 
 def _specimen_rows(analysis: SeriesAnalysis, ku: DisplayUnit, du: DisplayUnit) -> list:
@@ -292,7 +388,7 @@ def report_page(
     analysis: SeriesAnalysis,
     tables: dict,
     charts,
-    plotly_js: str,
+    script: ChartScript,
     provenance: Provenance,
     cautions,
     ku: DisplayUnit,
@@ -300,7 +396,7 @@ def report_page(
     criterion_text: str,
     skipped=(),
 ) -> str:
-    """The self-contained report of a series.
+    """The report of a series, at the top of the memo pack.
 
     Parameters
     ----------
@@ -308,8 +404,9 @@ def report_page(
     tables : dict of str to pandas.DataFrame
         ``fits`` and ``checks`` (:mod:`kitchen.memo_tables`).
     charts : iterable of (name, title, figure HTML without plotly.js)
-    plotly_js : str
-        plotly.js, inlined once in the page's head.
+    script : ChartScript
+        plotly.js: loaded once in the page's head, from its file in the pack or inlined;
+        its version, size and SHA-256 go in the provenance.
     provenance : Provenance
     cautions : iterable of str
     ku, du : DisplayUnit
@@ -362,12 +459,13 @@ def report_page(
         f"<li>Reference temperature and viscosity: see the settings under Provenance.</li></ul>"
     )
     notes = "".join(f"<li>{_e(n)}</li>" for n in list(analysis.notes) + list(skipped))
+    notice, check = script.notice("")
     body = "\n".join(
         [
             f"<h1>{_e(title)}</h1>",
             f'<p class="lede">Exported {_e(provenance.created)} by kitchen '
             f"{_e(provenance.tool_version)}; {provenance.revision_count} revision(s) applied.</p>",
-            _cautions(cautions),
+            notice + _cautions(cautions),
             "<h2>Summary</h2>",
             _summary(analysis, ku, criterion_text),
             "<h2>Specimens</h2>",
@@ -388,8 +486,8 @@ def report_page(
             "<h2>Cautions</h2>",
             _cautions(cautions),
             "<h2>Provenance</h2>",
-            _provenance(provenance),
+            _provenance(provenance, script),
+            check,
         ]
     )
-    script = f'<script type="text/javascript">{plotly_js}</script>\n'
-    return _page(title, body, script)
+    return _page(title, body, script.element(""))

@@ -1,8 +1,11 @@
 """The memo pack: the files exist and parse, carry the cautions, and name their inputs.
 
-Tests that make PNG and SVG need Debian's chromium. Where it is missing they are skipped,
-saying so, except in continuous integration (CI=true), where they run and fail: the CI
-script installs chromium.
+Tests that make PNG and SVG, or open the pack in a browser, need Debian's chromium (and
+the browser test the playwright package). Where it is missing they are skipped, saying
+so, except in continuous integration (CI=true), where they run and fail: the CI script
+installs chromium.
+
+plotly.js is checked against plotly's own bundled copy, ``plotly.offline.get_plotlyjs()``.
 """
 
 import hashlib
@@ -13,15 +16,17 @@ import shutil
 import subprocess
 import sys
 import xml.etree.ElementTree as ElementTree
+import zipfile
 from pathlib import Path
+from urllib.parse import urlsplit
 
 import pandas as pd
 import pytest
 from openpyxl import load_workbook
-from plotly.offline import get_plotlyjs
+from plotly.offline import get_plotlyjs, get_plotlyjs_version
 
 from kitchen import CAUTIONS, __version__
-from kitchen.memo import MEMO_CAUTIONS, export_memo_pack
+from kitchen.memo import CHART_SCRIPT, MEMO_CAUTIONS, export_memo_pack
 from kitchen.results import Settings, results_table, series_results
 from kitchen.revisions import load_effective_series, revise
 from kitchen.series import load_series
@@ -35,10 +40,16 @@ needs_chromium = pytest.mark.skipif(
 )
 PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"  # PNG specification (ISO/IEC 15948), section 5.2
 SHEETS = ["specimens", "tests", "fits", "checks", "cautions"]
+PLOTLY_JS = get_plotlyjs().encode("utf-8")  # plotly's own bundled plotly.min.js
+SCRIPT_SOURCE = re.compile(r"<script\b[^>]*\bsrc=\"([^\"]*)\"")
 
 
 def sha256(path: Path) -> str:
     return hashlib.sha256(path.read_bytes()).hexdigest()
+
+
+def html_pages(folder: Path) -> list[Path]:
+    return sorted(folder.rglob("*.html"))
 
 
 def run(*arguments, env=None):
@@ -71,22 +82,54 @@ def test_pack_files_and_progress(clay_pack):
         "conductivity_water_content",
     ] + [f"specimen_{s}_falling_head" for s in series.specimen_ids()]
     assert names == sorted(
-        ["results.csv", "results.xlsx", "report.html"] + [f"charts/{c}.html" for c in charts]
+        ["results.csv", "results.xlsx", "report.html", CHART_SCRIPT]
+        + [f"charts/{c}.html" for c in charts]
     )
     assert all(p.is_file() and p.stat().st_size > 0 for p in pack)
     assert [c[0] for c in calls] == list(range(1, len(pack) + 1))
     assert {c[1] for c in calls} == {len(pack)}
     assert calls[0][2] == "table results.csv" and calls[-1][2] == "report report.html"
     assert "chart charts/compaction_conductivity.html" in [c[2] for c in calls]
+    steps = [c[2] for c in calls]
+    first_page = min(i for i, step in enumerate(steps) if step.endswith(".html"))
+    assert steps.index(f"script {CHART_SCRIPT}") < first_page  # written before any page
 
 
-def test_chart_pages_open_offline_with_their_data(clay_pack):
+def test_plotly_js_is_written_once_for_the_whole_pack(clay_pack):
+    _, pack, _ = clay_pack
+    everything = [p for p in pack.folder.rglob("*") if p.is_file()]
+    copies = {
+        p.relative_to(pack.folder).as_posix(): p.read_bytes().count(PLOTLY_JS) for p in everything
+    }
+    assert sum(copies.values()) == 1 and copies[CHART_SCRIPT] == 1
+    assert (pack.folder / CHART_SCRIPT).read_bytes() == PLOTLY_JS  # the file, byte for byte
+    total = sum(p.stat().st_size for p in everything)
+    assert len(html_pages(pack.folder)) > 2  # inlined in each page, as many copies as pages
+    assert total < 2 * len(PLOTLY_JS)  # one copy and the rest, not one copy a page
+
+
+def test_every_page_loads_plotly_js_by_a_relative_path_inside_the_pack(clay_pack):
+    _, pack, _ = clay_pack
+    root = pack.folder.resolve()
+    for page in html_pages(pack.folder):
+        sources = SCRIPT_SOURCE.findall(page.read_text())
+        assert len(sources) == 1, page
+        parts = urlsplit(sources[0])
+        assert not parts.scheme and not parts.netloc and not sources[0].startswith("/"), page
+        target = (page.parent / sources[0]).resolve()
+        assert target.is_relative_to(root) and target == (root / CHART_SCRIPT), page
+        assert target in {p.resolve() for p in pack}
+    chart = (pack.folder / "charts" / "compaction_conductivity.html").read_text()
+    report = (pack.folder / "report.html").read_text()
+    assert 'src="plotly.min.js"' in chart and 'src="charts/plotly.min.js"' in report
+
+
+def test_chart_pages_hold_their_data(clay_pack):
     series, pack, _ = clay_pack
-    header = get_plotlyjs()[:300]
     page = (pack.folder / "charts" / "compaction_conductivity.html").read_text()
-    assert page.count(header) == 1  # plotly.js inlined, once
-    assert not re.search(r"<script[^>]+src=", page)  # nothing to fetch
-    assert 'id="chart-compaction_conductivity"' in page and "Plotly.newPlot" in page
+    assert get_plotlyjs()[:300] not in page  # loaded from the pack, not inlined
+    assert 'id="chart-compaction_conductivity"' in page and page.count("Plotly.newPlot") == 1
+    assert 'id="chart-script-missing" hidden' in page  # shown only when plotly.js is missing
     for specimen in series.specimen_ids():
         assert specimen in page
     for caution in MEMO_CAUTIONS:
@@ -95,12 +138,11 @@ def test_chart_pages_open_offline_with_their_data(clay_pack):
     assert "readings in the window" in single and html.escape(CAUTIONS[0]) in single
 
 
-def test_report_is_self_contained_and_traceable(clay_pack):
+def test_report_is_traceable(clay_pack):
     series, pack, _ = clay_pack
     page = (pack.folder / "report.html").read_text()
-    assert page.count(get_plotlyjs()[:300]) == 1
-    assert not re.search(r"<script[^>]+src=", page)
-    assert page.count("Plotly.newPlot") == len([p for p in pack if p.parent.name == "charts"])
+    assert get_plotlyjs()[:300] not in page
+    assert page.count("Plotly.newPlot") == len(html_pages(pack.folder / "charts"))
     for caution in MEMO_CAUTIONS:
         assert html.escape(caution) in page
     for path in series.input_files:
@@ -110,6 +152,12 @@ def test_report_is_self_contained_and_traceable(clay_pack):
     ]
     assert f"kitchen {__version__}" in page and "revisions applied" in page
     assert "k20 [cm/s]" in page and "Methods and their sources" in page
+    script = pack.folder / CHART_SCRIPT  # the script the pages run, as written
+    assert (
+        f"plotly.js {get_plotlyjs_version()}, <code>{CHART_SCRIPT}</code>, "
+        f"{script.stat().st_size} bytes, SHA-256 "
+        f'<span class="hash">{sha256(script)}</span>'
+    ) in page
 
 
 def test_workbook_sheets(clay_pack):
@@ -217,7 +265,8 @@ def test_command_line_writes_the_pack_with_images(cli_pack):
     progress = [line for line in done.stderr.splitlines() if line.startswith("[")]
     total = int(re.match(r"\[1/(\d+)\] table results.csv$", progress[0]).group(1))
     assert len(progress) == total and progress[-1] == f"[{total}/{total}] report report.html"
-    assert f"[5/{total}] chart charts/conductivity_void_ratio.svg" in progress
+    assert progress[2] == f"[3/{total}] script {CHART_SCRIPT}"
+    assert f"[6/{total}] chart charts/conductivity_void_ratio.svg" in progress
     pngs, svgs = sorted(out.glob("charts/*.png")), sorted(out.glob("charts/*.svg"))
     assert len(pngs) == len(svgs) == 6  # two series charts, four specimens
     for png in pngs:
@@ -272,3 +321,98 @@ def test_command_line_without_images(tmp_path):
     assert done.returncode == 0, done.stderr
     assert (tmp_path / "report.html").exists() and (tmp_path / "results.xlsx").exists()
     assert not list(tmp_path.glob("charts/*.png")) and list(tmp_path.glob("charts/*.html"))
+
+
+def test_command_line_self_contained_pages_stand_alone(tmp_path):
+    done = run("report", SAMPLES / "drainage_sand", "--out", tmp_path, "--no-images",
+               "--self-contained")  # fmt: skip
+    assert done.returncode == 0, done.stderr
+    assert not (tmp_path / CHART_SCRIPT).exists() and "script" not in done.stderr
+    pages = html_pages(tmp_path)
+    assert len(pages) == 7  # report and six charts: two series charts, four specimens
+    for page in pages:
+        data = page.read_bytes()
+        assert data.count(PLOTLY_JS) == 1, page  # plotly's own file, inlined whole, once
+        assert not SCRIPT_SOURCE.search(data.decode()), page  # nothing to load
+        assert b"chart-script-missing" not in data
+    report = (tmp_path / "report.html").read_text()
+    digest = hashlib.sha256(PLOTLY_JS).hexdigest()
+    assert f"plotly.js {get_plotlyjs_version()}, inlined in every page" in report
+    assert digest in report
+
+
+# --- in a browser: the pack, zipped and unzipped elsewhere, draws its charts offline -------
+
+
+def _require_playwright():
+    problems = [] if CHROMIUM else ["Debian's chromium (apt-get install chromium)"]
+    try:
+        import playwright.sync_api  # noqa: F401
+    except ImportError:
+        problems.append("the playwright package (pip install '.[test]')")
+    if problems:
+        reason = "opening the pack in a browser needs " + " and ".join(problems)
+        if os.environ.get("CI") == "true":
+            pytest.fail(reason + " — CI=true, so this is a failure, not a skip")
+        pytest.skip(reason)
+
+
+def _open_pages(paths):
+    """Each page from file://, in headless Chromium: requests, charts drawn, notice shown."""
+    from playwright.sync_api import sync_playwright
+
+    seen = []
+    with sync_playwright() as playwright:
+        browser = playwright.chromium.launch(
+            executable_path=shutil.which("chromium") or "/usr/bin/chromium",
+            headless=True,
+            args=["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
+                  "--disable-background-networking", "--disable-component-update",
+                  "--disable-sync"],
+        )  # fmt: skip
+        try:
+            page = browser.new_page()
+            requests = []
+            page.on("request", lambda request: requests.append(request.url))
+            for path in paths:
+                requests.clear()
+                page.goto(path.resolve().as_uri(), wait_until="load")
+                seen.append(
+                    dict(
+                        requests=list(requests),
+                        plotly=page.evaluate("typeof Plotly !== 'undefined'"),
+                        drawn=page.locator(".js-plotly-plot .main-svg").count(),
+                        notice=page.locator("#chart-script-missing").is_visible(),
+                    )
+                )
+        finally:
+            browser.close()
+    return seen
+
+
+@pytest.mark.browser
+@pytest.mark.slow
+def test_zipped_pack_opens_offline_elsewhere_and_a_lone_page_says_why_it_cannot(
+    clay_pack, tmp_path
+):
+    _require_playwright()
+    _, pack, _ = clay_pack
+    archive = tmp_path / "pack.zip"
+    with zipfile.ZipFile(archive, "w") as bundle:
+        for path in pack:
+            bundle.write(path, path.relative_to(pack.folder).as_posix())
+    moved = tmp_path / "elsewhere" / "memo"
+    with zipfile.ZipFile(archive) as bundle:
+        bundle.extractall(moved)
+    lone = tmp_path / "mailed" / "conductivity_void_ratio.html"
+    lone.parent.mkdir()
+    shutil.copy(moved / "charts" / lone.name, lone)
+    charts = len(html_pages(moved / "charts"))
+    report, chart, alone = _open_pages(
+        [moved / "report.html", moved / "charts" / "compaction_conductivity.html", lone]
+    )
+    for opened in (report, chart, alone):
+        assert all(url.startswith("file://") for url in opened["requests"]), opened["requests"]
+    assert report["plotly"] and report["drawn"] >= charts and not report["notice"]
+    assert chart["plotly"] and chart["drawn"] >= 1 and not chart["notice"]
+    assert not alone["plotly"] and alone["drawn"] == 0 and alone["notice"]

@@ -1,5 +1,6 @@
 """The memo's HTML pages: what they hold, and that input text is escaped."""
 
+import hashlib
 import html
 from pathlib import Path
 
@@ -9,13 +10,15 @@ import pytest
 from kitchen.display_units import density_unit, k_unit
 from kitchen.memo_tables import checks_table, fits_table
 from kitchen.provenance import memo_provenance
-from kitchen.report_html import VERDICT_MARKS, chart_page, report_page
+from kitchen.report_html import VERDICT_MARKS, ChartScript, chart_page, report_page
 from kitchen.results import series_results
 from kitchen.series import load_series
 from kitchen.series_analysis import analyse_series
 
 SAMPLES = Path(__file__).resolve().parents[1] / "sample_data"
 CAUTIONS = ("Lab k & field k differ.", "Defer to local codes <and> licensed practice.")
+SHARED = ChartScript("/*PLOTLY-JS*/", "4.1.1", "charts/plotly.min.js")
+INLINED = ChartScript("/*PLOTLY-JS*/", "4.1.1")
 
 
 @pytest.fixture(scope="module")
@@ -38,6 +41,49 @@ def test_chart_page(clay):
     for caution in CAUTIONS:
         assert html.escape(caution) in page
     assert f"kitchen {provenance.tool_version}" in page and "revision(s) applied" in page
+    assert "<script" not in page  # no script given: the figure carries its own
+
+
+def test_chart_page_loads_the_shared_script_from_its_folder(clay):
+    _, _, provenance = clay
+    page = chart_page("A", "<div>FIGURE</div>", CAUTIONS, provenance, SHARED, "charts")
+    head = page[: page.index("</head>")]
+    assert '<script type="text/javascript" src="plotly.min.js"></script>' in head
+    assert "/*PLOTLY-JS*/" not in page
+    notice = '<p class="cautions" id="chart-script-missing" hidden>'
+    assert page.count(notice) == 1 and "<code>plotly.min.js</code>" in page
+    check = 'if (typeof Plotly === "undefined")'
+    assert page.index(notice) < page.index("FIGURE") < page.index(check)  # check comes last
+    inlined = chart_page("A", "<div>FIGURE</div>", CAUTIONS, provenance, INLINED, "charts")
+    assert inlined.count("/*PLOTLY-JS*/") == 1 and "src=" not in inlined
+    assert "chart-script-missing" not in inlined
+
+
+@pytest.mark.parametrize(
+    "path, folder, expected",  # POSIX relative paths, common practice, no source
+    [
+        ("charts/plotly.min.js", "", "charts/plotly.min.js"),
+        ("charts/plotly.min.js", "charts", "plotly.min.js"),
+        ("charts/plotly.min.js", "pages/specimens", "../../charts/plotly.min.js"),
+        ("plotly.min.js", "charts", "../plotly.min.js"),
+    ],
+)
+def test_script_path_relative_to_a_page(path, folder, expected):
+    assert ChartScript("x", "1", path).source(folder) == expected
+
+
+def test_inlined_script_has_no_file_to_load():
+    with pytest.raises(ValueError, match="inlined in each page"):
+        INLINED.source("charts")
+    assert INLINED.element("charts") == '<script type="text/javascript">/*PLOTLY-JS*/</script>\n'
+    assert INLINED.notice("charts") == ("", "")
+
+
+def test_script_hash_is_that_of_its_bytes():
+    text = "/* ρ */ var a = 1;"  # not ASCII: hashed as UTF-8, counted in bytes
+    script = ChartScript(text, "1", "charts/plotly.min.js")
+    assert script.sha256 == hashlib.sha256(text.encode("utf-8")).hexdigest()
+    assert len(script.content) == len(text) + 1  # ρ takes two bytes in UTF-8 (RFC 3629)
 
 
 def test_report_page(clay):
@@ -46,7 +92,7 @@ def test_report_page(clay):
         analysis,
         tables,
         [("cc", "Compaction", "<div>CC-FIGURE</div>")],
-        "/*PLOTLY-JS*/",
+        SHARED,
         provenance,
         CAUTIONS,
         k_unit("cm/s"),
@@ -54,7 +100,13 @@ def test_report_page(clay):
         "criterion k20 ≤ 1e-7 cm/s",
         ["trend: not drawn (too few)"],
     )
-    assert page.count("/*PLOTLY-JS*/") == 1 and "<div>CC-FIGURE</div>" in page
+    assert "/*PLOTLY-JS*/" not in page and "<div>CC-FIGURE</div>" in page
+    assert '<script type="text/javascript" src="charts/plotly.min.js"></script>' in page
+    assert page.count('id="chart-script-missing" hidden') == 1
+    assert (
+        f"plotly.js 4.1.1, <code>charts/plotly.min.js</code>, {len(SHARED.content)} bytes, "
+        f'SHA-256 <span class="hash">{hashlib.sha256(b"/*PLOTLY-JS*/").hexdigest()}</span>'
+    ) in page
     for heading in (
         "Summary",
         "Specimens",
@@ -81,7 +133,7 @@ def test_report_page(clay):
 def test_report_escapes_input_text(clay):
     analysis, tables, provenance = clay
     page = report_page(
-        analysis, tables, [], "", provenance, CAUTIONS, k_unit(), density_unit(), "criterion", []
+        analysis, tables, [], INLINED, provenance, CAUTIONS, k_unit(), density_unit(), "criterion"
     )
     assert "<script>alert(1)</script>" not in page and "<i>heavy</i>" not in page
     assert "&lt;script&gt;alert(1)&lt;/script&gt;" in page and "&lt;i&gt;heavy&lt;/i&gt;" in page
@@ -93,7 +145,7 @@ def test_report_shows_the_dry_density_in_the_unit_chosen(clay):
         analysis,
         tables,
         [],
-        "",
+        INLINED,
         provenance,
         CAUTIONS,
         k_unit(),
