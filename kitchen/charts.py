@@ -33,8 +33,10 @@ __all__ = [
     "decimation_indices",
     "add_caption",
     "compaction_conductivity_figure",
+    "compaction_conductivity_spec",
     "conductivity_trend_figure",
     "falling_head_figure",
+    "falling_head_spec",
     "constant_head_figure",
 ]
 
@@ -462,6 +464,21 @@ def compaction_conductivity_figure(
     acceptable zone drawn on the compaction plane from the specimens that meet the
     criterion.
     """
+    return go.Figure(compaction_conductivity_spec(analysis, k_unit_name, density_unit_name))
+
+
+def compaction_conductivity_spec(
+    analysis: SeriesAnalysis, k_unit_name: str = "m/s", density_unit_name: str = "Mg/m³"
+) -> dict:
+    """The figure of :func:`compaction_conductivity_figure` as a spec: plain dicts, not validated.
+
+    Returns
+    -------
+    dict
+        ``{"data": [trace dicts], "layout": {...}}``; ``plotly.graph_objects.Figure(spec)``
+        is the figure, and :func:`kitchen.panels.refresh.refresh_figure` brings a live
+        figure to it sending only what changed.
+    """
     ku, du = k_unit(k_unit_name), density_unit(density_unit_name)
     frame = analysis.specimens[analysis.specimens["on_compaction_plane"]]
     if frame.empty:
@@ -626,7 +643,7 @@ def compaction_conductivity_figure(
     )
     if annotations:
         layout["annotations"] = annotations
-    return go.Figure(data=data, layout=layout)
+    return dict(data=data, layout=layout)
 
 
 # --- trends against void ratio, dry density, water content ---------------------------------
@@ -861,6 +878,27 @@ def falling_head_figure(
     ----------
     ASTM D5084, Methods B and C: ln h falls linearly with time (from memory).
     """
+    return go.Figure(
+        falling_head_spec(readings, result, k_unit_name, reference_temperature, max_points)
+    )
+
+
+def falling_head_spec(
+    readings: pd.DataFrame | None,
+    result,
+    k_unit_name: str = "m/s",
+    reference_temperature: float = 20.0,
+    max_points: int = MAX_TRACE_POINTS,
+) -> dict:
+    """The figure of :func:`falling_head_figure` as a spec: plain dicts, not validated.
+
+    Returns
+    -------
+    dict
+        ``{"data": [trace dicts], "layout": {...}}``; ``plotly.graph_objects.Figure(spec)``
+        is the figure, and :func:`kitchen.panels.refresh.refresh_figure` brings a live
+        figure to it sending only what changed.
+    """
     ku = k_unit(k_unit_name)
     source = result if readings is None else readings
     time = np.asarray(source.time if readings is None else readings["time"], dtype=float)
@@ -985,7 +1023,7 @@ def falling_head_figure(
         ),
         legend=dict(x=0.99, xanchor="right", y=0.99, yanchor="top"),
     )
-    return go.Figure(data=data, layout=layout)
+    return dict(data=data, layout=layout)
 
 
 def constant_head_figure(

@@ -514,44 +514,63 @@ def _convert(table: RawTable, problems: list[InputProblem]) -> tuple[pd.DataFram
 def _check_specimens(
     table: RawTable, frame: pd.DataFrame, problems: list[InputProblem]
 ) -> pd.DataFrame:
+    """Checks across the columns of the specimens table; fills the dry mass from the mold
+    masses and the standpipe areas from their diameters. Takes the frame `_convert` made
+    (new arrays, owned here) and returns it with the diameters left out."""
+
+    def column(name: str) -> np.ndarray:
+        return frame[name].to_numpy(dtype=float)
+
     ids = frame["specimen"]
-    duplicated = ids.duplicated(keep=False) & ids.notna()
-    _report(problems, table, duplicated.to_numpy(), "specimen", "specimen id given more than once")
-    has_dry = frame["dry_mass"].notna()
-    has_mold = frame["mold_mass"].notna() & frame["mold_and_soil_mass"].notna()
-    neither = ~has_dry & ~has_mold
+    duplicated = (ids.duplicated(keep=False) & ids.notna()).to_numpy()
+    _report(problems, table, duplicated, "specimen", "specimen id given more than once")
+    dry, mold, full = column("dry_mass"), column("mold_mass"), column("mold_and_soil_mass")
+    has_dry = ~np.isnan(dry)
+    has_mold = ~np.isnan(mold) & ~np.isnan(full)
     _report(
         problems,
         table,
-        neither.to_numpy(),
+        ~has_dry & ~has_mold,
         "dry_mass",
         "no dry mass: give dry_mass, or both mold_mass and mold_and_soil_mass",
     )
     by_mold = ~has_dry & has_mold
-    soil = frame["mold_and_soil_mass"] - frame["mold_mass"]
+    soil = full - mold
     _report(
         problems,
         table,
-        (by_mold & (soil <= 0)).to_numpy(),
+        by_mold & (soil <= 0),
         "mold_and_soil_mass",
         "must be greater than mold_mass (the difference is the dry soil)",
     )
-    frame.loc[by_mold, "dry_mass"] = soil[by_mold]
-    gs = frame["specific_gravity"]
+    if by_mold.any():
+        frame["dry_mass"] = np.where(by_mold, soil, dry)
+    gs = column("specific_gravity")
+    with np.errstate(invalid="ignore"):
+        odd = ~np.isnan(gs) & ((gs < 1.5) | (gs > 4.0))
     _report(
         problems,
         table,
-        (gs.notna() & ((gs < 1.5) | (gs > 4.0))).to_numpy(),
+        odd,
         "specific_gravity",
         "expected a specific gravity of soil solids between 1.5 and 4.0 (typically 2.6-2.8)",
     )
     for prefix in ("", "tailwater_"):
-        diameter, area = f"{prefix}standpipe_diameter", f"{prefix}standpipe_area"
-        both = frame[diameter].notna() & frame[area].notna()
-        _report(problems, table, both.to_numpy(), area, f"give {diameter} or {area}, not both")
-        from_diameter = frame[area].isna() & frame[diameter].notna()
-        frame.loc[from_diameter, area] = np.pi * frame.loc[from_diameter, diameter] ** 2 / 4
-    return frame.drop(columns=["standpipe_diameter", "tailwater_standpipe_diameter"])
+        diameter_name, area_name = f"{prefix}standpipe_diameter", f"{prefix}standpipe_area"
+        diameter, area = column(diameter_name), column(area_name)
+        has_diameter, has_area = ~np.isnan(diameter), ~np.isnan(area)
+        _report(
+            problems,
+            table,
+            has_diameter & has_area,
+            area_name,
+            f"give {diameter_name} or {area_name}, not both",
+        )
+        from_diameter = has_diameter & ~has_area
+        if from_diameter.any():
+            frame[area_name] = np.where(from_diameter, np.pi * diameter**2 / 4, area)
+        del frame[diameter_name]
+    return frame
 
 
 def _check_known(table: RawTable, ids: _Labels, known: set, problems):

@@ -165,12 +165,22 @@ class Workspace:
             }
 
     def _index_specimens(self) -> None:
-        self._state = specimen_state(self._series.specimens)
-        by_id = self._state.set_index("specimen", drop=False)  # rows as series_results takes them
-        self._state_rows = {specimen: by_id.loc[specimen] for specimen in by_id.index}
-        self._specimen_digests = {
-            specimen: _digest(tuple(row.items())) for specimen, row in self._state_rows.items()
-        }
+        """Each specimen's row of the state table (as series_results takes them) and its
+        digest; the row of a specimen whose values did not change is kept as it was."""
+        self._state = state = specimen_state(self._series.specimens)
+        columns = state.columns
+        held_rows = getattr(self, "_state_rows", {})
+        held_digests = getattr(self, "_specimen_digests", {})
+        rows, digests = {}, {}
+        for values in state.to_numpy(dtype=object):
+            row = dict(zip(columns, values, strict=True))
+            specimen = row["specimen"]
+            digests[specimen] = digest = _digest(tuple(row.items()))
+            if held_digests.get(specimen) == digest:
+                rows[specimen] = held_rows[specimen]
+            else:
+                rows[specimen] = pd.Series(values, index=columns, name=specimen, dtype=object)
+        self._state_rows, self._specimen_digests = rows, digests
 
     def _slice(self, table: str, specimen: str) -> pd.DataFrame:
         frame = getattr(self._series, table)
@@ -206,6 +216,10 @@ class Workspace:
     def specimen_ids(self) -> list[str]:
         """The specimens, in the order of the specimens table."""
         return list(self._state_rows)
+
+    def has_readings(self, specimen: str, table: str = "falling_head") -> bool:
+        """Whether a specimen has rows in a readings table."""
+        return specimen in self._rows.get(table, {})
 
     def readings(self, specimen: str, table: str = "falling_head") -> pd.DataFrame:
         """One specimen's rows of a readings table (``falling_head`` or ``constant_head``)."""

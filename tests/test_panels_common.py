@@ -2,14 +2,12 @@
 
 import warnings
 
-import plotly.graph_objects as go
 import pytest
 
 from kitchen.panels.common import (
     MessageArea,
     ProgressBar,
     format_conductivity,
-    refresh_figure,
     scratch_copy,
 )
 from kitchen.series import InputProblem, SeriesError
@@ -84,27 +82,6 @@ def test_progress_bar_counts_and_finishes():
     assert bar.bar.value == 5 and bar.bar.bar_style == "success"
 
 
-def test_refresh_figure_updates_traces_in_place():
-    widget = go.FigureWidget(go.Figure(go.Scatter(x=[1, 2], y=[3, 4], name="readings")))
-    first = widget.data[0]
-    refresh_figure(
-        widget,
-        go.Figure(
-            go.Scatter(x=[5, 6, 7], y=[1, 1, 1], name="readings"), layout={"title": {"text": "new"}}
-        ),
-    )
-    assert widget.data[0] is first  # same trace object: updated, not replaced
-    assert widget.data[0].x == (5, 6, 7)
-    assert widget.layout.title.text == "new"
-
-
-def test_refresh_figure_replaces_traces_when_the_structure_changes():
-    widget = go.FigureWidget(go.Figure(go.Scatter(x=[1], y=[1])))
-    refresh_figure(widget, go.Figure([go.Scatter(x=[1], y=[2]), go.Bar(x=[1], y=[3])]))
-    assert [trace.type for trace in widget.data] == ["scatter", "bar"]
-    assert widget.data[1].y == (3,)
-
-
 @pytest.mark.parametrize(
     ("value", "unit", "text"),
     [
@@ -128,27 +105,6 @@ def test_scratch_copy_leaves_the_original_alone(tmp_path):
     assert (source / "specimens.csv").read_text() == "specimen\nA\n"
     with pytest.raises(FileNotFoundError, match="not found"):
         scratch_copy(tmp_path / "missing")
-
-
-def test_refresh_figure_keeps_the_state_new_views_are_drawn_from():
-    # a FigureWidget shown inside a box is drawn from its synchronised state, which plotly
-    # itself only refreshes when the FigureWidget is displayed on its own
-    widget = go.FigureWidget()
-    refresh_figure(widget, go.Figure(go.Scatter(x=[1, 2], y=[5, 6], name="k")))
-    assert list(widget._widget_data[0]["y"]) == [5, 6]
-    refresh_figure(
-        widget, go.Figure(go.Scatter(x=[1, 2], y=[7, 8], name="k"), layout={"height": 500})
-    )
-    assert list(widget._widget_data[0]["y"]) == [7, 8]
-    assert widget._widget_layout["height"] == 500
-
-
-def test_refresh_figure_carries_the_template_size_to_new_views():
-    # plotly's view draws a figure without a top-level height at 360 px
-    template = go.layout.Template(layout={"width": 980, "height": 620})
-    widget = go.FigureWidget()
-    refresh_figure(widget, go.Figure(go.Scatter(x=[1], y=[1]), layout={"template": template}))
-    assert (widget._widget_layout["width"], widget._widget_layout["height"]) == (980, 620)
 
 
 def test_an_expected_failure_is_a_refusal_not_a_fault():

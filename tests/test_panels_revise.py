@@ -127,3 +127,34 @@ def test_only_the_revised_specimen_is_reduced_again(panel):
     panel.record.click()
     assert panel.workspace.last_moved == ("QF-07",)
     assert "Reduced again: QF-07" in panel.changes.value
+
+
+def test_the_charts_follow_a_revision(panel, copy):
+    # the panel's charts, redrawn by sending only what changed, are the charts built afresh
+    # from the effective data (and the specimen's k in its chart title moves with L)
+    import json
+
+    import plotly.graph_objects as go
+    from plotly.io.json import to_json_plotly
+
+    from kitchen import charts
+    from kitchen.series_analysis import analyse_series
+
+    def traces(figure):
+        data = [trace.to_plotly_json() for trace in figure.data]
+        for trace in data:
+            trace.pop("uid", None)
+        return json.loads(to_json_plotly(data))
+
+    panel.specimen.value = "QF-06"
+    title = panel.specimen_chart.layout.title.text
+    panel.value.value = "118.5 mm"
+    panel.reason.value = "re-measured after test"
+    panel.record.click()
+    assert panel.error.message == ""
+    series = load_effective_series(copy).series
+    analysis = analyse_series(series_results(series), 1e-9)
+    fresh = go.Figure(charts.compaction_conductivity_spec(analysis))
+    assert traces(panel.series_chart) == traces(fresh)
+    assert panel.specimen_chart.layout.title.text != title
+    assert "Specimen QF-06" in panel.specimen_chart.layout.title.text

@@ -1,4 +1,7 @@
-"""Parts every panel shares: a message area, a progress bar, figure refresh, number formats.
+"""Parts every panel shares: a message area, a progress bar, number formats.
+
+Figure refresh lives in :mod:`kitchen.panels.refresh` (:func:`refresh_figure` is named here
+too).
 
 The message area is where a panel says, in words, what went wrong in a callback: the
 problems of a :class:`~kitchen.series.SeriesError` as a list, any other refusal as its
@@ -8,7 +11,6 @@ lost to the kernel log. Warnings raised while a callback runs are shown there to
 
 from __future__ import annotations
 
-import copy
 import functools
 import html
 import math
@@ -22,11 +24,11 @@ from pathlib import Path
 import ipywidgets as widgets
 import numpy as np
 import pandas as pd
-import plotly.graph_objects as go
 
 from ..revisions import EffectiveSeries, RevisionError, load_effective_series
 from ..series import Series, SeriesError
 from ..units import UnitError
+from .refresh import refresh_figure
 
 __all__ = [
     "MessageArea",
@@ -188,53 +190,6 @@ class ProgressBar:
         self.bar.value = self.bar.max if not failed else self.bar.value
         self.bar.bar_style = "danger" if failed else "success"
         self.label.value = text
-
-
-def _trace_json(trace) -> dict:
-    data = trace.to_plotly_json()
-    data.pop("uid", None)
-    return data
-
-
-def refresh_figure(widget: go.FigureWidget, figure: go.Figure) -> None:
-    """Bring a live FigureWidget to the state of a freshly built figure, in place.
-
-    When the new figure has the same traces (count and types) each trace is updated in
-    place, inside one ``batch_update``, so open views receive one message; otherwise the
-    traces are replaced. The layout is updated key by key (the template only when it
-    changed).
-
-    Notes
-    -----
-    Open views follow the changes as messages, but a view created later (the panel
-    displayed after this call, a second display, a page reload with the kernel alive) is
-    drawn from the widget's synchronised state, which plotly sets only when a FigureWidget
-    is displayed on its own. That state is brought up to date here too, so a FigureWidget
-    inside a box or a tab shows the figure as it now is, not as it was first built.
-    """
-    new_traces = list(figure.data)
-    same = len(new_traces) == len(widget.data) and all(
-        old.type == new.type for old, new in zip(widget.data, new_traces, strict=True)
-    )
-    layout = figure.layout.to_plotly_json()
-    for key in ("width", "height"):  # a new view falls back to 360 px without them
-        if layout.get(key) is None and figure.layout.template.layout[key] is not None:
-            layout[key] = figure.layout.template.layout[key]
-    if layout.get("template") == widget.layout.template.to_plotly_json():
-        layout.pop("template", None)
-    if same:
-        with widget.batch_update():
-            for old, new in zip(widget.data, new_traces, strict=True):
-                old.update(_trace_json(new), overwrite=True)
-            widget.layout.update(layout, overwrite=True)
-    else:
-        with widget.batch_update():
-            widget.data = ()
-            widget.layout.update(layout, overwrite=True)
-        widget.add_traces([_trace_json(trace) for trace in new_traces])
-    # the state new views are drawn from (what FigureWidget._repr_mimebundle_ does)
-    widget._widget_layout = copy.deepcopy(widget._layout_obj._props)
-    widget._widget_data = copy.deepcopy(widget._data)
 
 
 def format_number(value, digits: int = 3) -> str:

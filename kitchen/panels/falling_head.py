@@ -207,7 +207,7 @@ class FallingHeadPanel:
         analysis = self.analysis
         readings = self.readings()
         label = reference_label(self.settings)
-        figure = charts.falling_head_figure(
+        figure = charts.falling_head_spec(
             readings, analysis, "m/s", self.settings.reference_temperature
         )
         refresh_figure(self.figure, figure)

@@ -19,13 +19,17 @@ from pathlib import Path
 import ipywidgets as widgets
 import numpy as np
 import pandas as pd
+import plotly.graph_objects as go
 
+from .. import charts
 from ..results import Settings, reference_label
 from ..revisions import Revision, history_table, what_changed
 from ..series import SCHEMAS
+from ..series_analysis import analyse_series
 from ..units import to_si
 from ..workspace import Workspace
 from .common import MessageArea, format_conductivity, format_fixed, html_table
+from .refresh import refresh_figure
 from .series_chart import parse_criterion
 
 __all__ = ["RevisePanel", "revise_panel", "changes_view_table", "file_value"]
@@ -134,6 +138,15 @@ class RevisePanel:
         What the last revision (or withdrawal) moved.
     history : ipywidgets.HTML
         The revision log, each row with its status.
+    series_chart : plotly.graph_objects.FigureWidget
+        Compaction and k of the series as it stands (the memo's series chart), redrawn
+        after each revision by sending only what moved.
+    specimen_chart : plotly.graph_objects.FigureWidget
+        Head against time of the specimen in the form, when it has falling-head readings.
+    chart_note : ipywidgets.HTML
+        Why a chart is not drawn, when it is not.
+    chart_boxes : tuple of ipywidgets.Box
+        The boxes of the specimen chart and the series chart (hidden when not drawn).
     error : MessageArea
     changed : pandas.DataFrame or None
         :func:`kitchen.revisions.what_changed` of the last action.
@@ -161,6 +174,10 @@ class RevisePanel:
     changes: widgets.HTML
     history: widgets.HTML
     error: MessageArea
+    series_chart: go.FigureWidget | None = None
+    specimen_chart: go.FigureWidget | None = None
+    chart_note: widgets.HTML | None = None
+    chart_boxes: tuple = ()
     results: pd.DataFrame | None = None
     changed: pd.DataFrame | None = None
     last: Revision | None = None
@@ -192,6 +209,35 @@ class RevisePanel:
         ids = [r.id for r in standing]
         self.withdraw_choice.value = keep if keep in ids else (ids[-1] if ids else None)
         self.withdraw.disabled = not standing
+
+    def redraw(self, _change=None) -> None:
+        """Draw the series chart and the chart of the specimen in the form, as they stand."""
+        self.error.guard("drawing the charts")(self._redraw)()
+
+    def _redraw(self) -> None:
+        notes = []
+        criterion = parse_criterion(self.criterion.value)
+        analysis = analyse_series(self.results, criterion, self.settings.reference_temperature)
+        try:
+            refresh_figure(self.series_chart, charts.compaction_conductivity_spec(analysis))
+            self.chart_boxes[1].layout.display = ""
+        except ValueError as error:
+            notes.append(f"Series chart not drawn: {error}")
+            self.chart_boxes[1].layout.display = "none"
+        specimen = self.specimen.value
+        drawn = specimen is not None and self.workspace.has_readings(specimen)
+        self.chart_boxes[0].layout.display = "" if drawn else "none"
+        if drawn:
+            spec = charts.falling_head_spec(
+                None,
+                self.workspace.falling_head(specimen),
+                "m/s",
+                self.settings.reference_temperature,
+            )
+            refresh_figure(self.specimen_chart, spec)
+        elif specimen is not None:
+            notes.append(f"Specimen {specimen} has no falling-head readings: no head chart.")
+        self.chart_note.value = "".join(f"<p><i>{html.escape(n)}</i></p>" for n in notes)
 
     def _choose_table(self, _change=None) -> None:
         table = self.table_choice.value
@@ -289,6 +335,7 @@ class RevisePanel:
     def _after(self, before: pd.DataFrame, headline: str) -> None:
         self._refresh_log()
         self._show_current()
+        self._redraw()
         criterion = parse_criterion(self.criterion.value)
         self.changed = what_changed(before, self.results, criterion)
         label = reference_label(self.settings)
@@ -381,7 +428,11 @@ def revise_panel(
         changes=widgets.HTML(),
         history=widgets.HTML(),
         error=MessageArea(),
+        series_chart=go.FigureWidget(),
+        specimen_chart=go.FigureWidget(),
+        chart_note=widgets.HTML(),
     )
+    panel.chart_boxes = (widgets.Box([panel.specimen_chart]), widgets.Box([panel.series_chart]))
     panel._refresh_log()
     panel._choose_table()
     panel.table_choice.observe(panel._choose_table, names="value")
@@ -390,6 +441,9 @@ def revise_panel(
     panel.reading.observe(panel._show_current, names="value")
     panel.record.on_click(panel.record_revision)
     panel.withdraw.on_click(panel.withdraw_revision)
+    panel.redraw()
+    panel.specimen.observe(panel.redraw, names="value")
+    panel.criterion.observe(panel.redraw, names="value")
     panel.widget.children = [
         widgets.HTML(f"Series: <code>{html.escape(str(path))}</code>"),
         panel.table_choice,
@@ -400,6 +454,8 @@ def revise_panel(
         panel.error.widget,
         widgets.HTML("<b>What moved</b>"),
         panel.changes,
+        panel.chart_note,
+        *panel.chart_boxes,
         widgets.HTML("<b>Revision log</b>"),
         panel.history,
         widgets.HBox([panel.withdraw_choice, panel.withdraw]),

@@ -186,7 +186,7 @@ class SeriesChartPanel:
             figure = self.figures[key]
             try:
                 if key == "compaction":
-                    new = charts.compaction_conductivity_figure(self.analysis, unit, density)
+                    new = charts.compaction_conductivity_spec(self.analysis, unit, density)
                 else:
                     new = charts.conductivity_trend_figure(self.analysis, key, unit, density)
             except ValueError as error:
