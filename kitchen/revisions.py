@@ -23,6 +23,7 @@ from __future__ import annotations
 import csv
 import hashlib
 import io
+import os
 import re
 import secrets
 from dataclasses import dataclass, replace
@@ -34,7 +35,16 @@ import numpy as np
 import pandas as pd
 
 from .files import append_line, folder_lock
-from .series import SCHEMAS, TABLE_NAMES, RawTable, Series, SeriesError, build_series, read_tables
+from .series import (
+    SCHEMAS,
+    TABLE_NAMES,
+    RawTable,
+    Series,
+    SeriesError,
+    build_series,
+    read_tables,
+    rebuild_series,
+)
 from .units import UnitError, format_header, parse_value, split_header, to_si
 
 __all__ = [
@@ -42,6 +52,8 @@ __all__ = [
     "Revision",
     "RevisionError",
     "EffectiveSeries",
+    "HeldSeries",
+    "file_stamps",
     "revisions_path",
     "read_revisions",
     "apply_revisions",
@@ -367,17 +379,18 @@ def _table_name(tables: dict[str, RawTable], table: str | None, reading: int | N
 def _locate(tables, table: str, specimen: str, reading: int | None, known: dict | None = None):
     """The table and frame index of a value; a RevisionError naming what is not there.
 
-    ``known`` keeps each table's specimen ids between calls (they are never revised).
+    ``known`` keeps, between calls, the specimen ids of the specimens table and the row
+    numbers of a readings table (neither is ever revised).
     """
     raw = tables.get(table)
     if raw is None:
         raise RevisionError(f"the series has no {table} table")
     known = {} if known is None else known
-    if table not in known:
-        column = raw.frame["specimen"] if "specimen" in raw.frame else pd.Series([], dtype=object)
-        known[table] = column.map(_cell_text)
-    ids = known[table]
+    column = raw.frame["specimen"] if "specimen" in raw.frame else pd.Series([], dtype=object)
     if table == "specimens":
+        if table not in known:
+            known[table] = column.map(_cell_text)
+        ids = known[table]
         matches = np.flatnonzero(ids.to_numpy(dtype=object) == specimen)
         if len(matches) == 0:
             known = sorted(set(ids) - {""})
@@ -392,16 +405,18 @@ def _locate(tables, table: str, specimen: str, reading: int | None, known: dict 
         raise RevisionError(
             f"a value of {table} needs its reading: the reading's row number in {raw.file}"
         )
-    rows = raw.frame["source_row"].to_numpy()
+    if table not in known:
+        known[table] = raw.frame["source_row"].to_numpy()
+    rows = known[table]
     matches = np.flatnonzero(rows == reading)
     if len(matches) == 0:
         span = f"rows {rows.min()}-{rows.max()}" if len(rows) else "no rows"
         raise RevisionError(f"{raw.file} has no reading at row {reading} (its readings: {span})")
     index = raw.frame.index[matches[0]]
-    if ids.iloc[matches[0]] != specimen:
+    owner = _cell_text(column.iloc[matches[0]])  # only this row's id is read
+    if owner != specimen:
         raise RevisionError(
-            f"{raw.file} row {reading} is a reading of specimen {ids.iloc[matches[0]]!r}, "
-            f"not of {specimen!r}"
+            f"{raw.file} row {reading} is a reading of specimen {owner!r}, not of {specimen!r}"
         )
     return raw, index
 
@@ -456,9 +471,13 @@ def _set(raw: RawTable, index, column: str, applied: str) -> str | None:
 
 
 def _apply(tables: dict[str, RawTable], revisions) -> tuple[dict, list, list[str]]:
-    """Apply standing revisions to copies; skip (and name) those that no longer fit."""
-    tables = {name: table.copy() for name, table in tables.items()}
+    """Apply standing revisions to copies; skip (and name) those that no longer fit.
+
+    Only the tables a standing revision names are copied; the others are returned as given
+    (nothing here writes to them)."""
     standing, _ = _standing(revisions)
+    named = {revision.table for revision in standing}  # only these are written to
+    tables = {name: table.copy() if name in named else table for name, table in tables.items()}
     applied, problems, known = [], [], {}
     for revision in standing:
         where = f"revision {revision.id} ({revision.describe()})"
@@ -571,13 +590,56 @@ def _load_problems(tables, source: Path, input_files) -> list[str]:
     return []
 
 
-def _record(series_path, make) -> Revision:
-    """Read, make a row, check the effective data still load, append — under one lock."""
+def file_stamps(files) -> tuple[tuple[int, int], ...]:
+    """Size and modification time (ns) of each file: what tells that a file was rewritten."""
+    return tuple((status.st_size, status.st_mtime_ns) for status in map(os.stat, files))
+
+
+@dataclass(frozen=True)
+class HeldSeries:
+    """A series a caller holds open (:class:`kitchen.workspace.Workspace`): what recording
+    a revision would otherwise read and validate again.
+
+    Used only while every input file still has its `stamps` and the log holds exactly
+    `revisions`; otherwise the files are read again, as without it.
+    """
+
+    tables: dict[str, RawTable]
+    """The raw tables as read (never written to)."""
+    input_files: tuple[Path, ...]
+    stamps: tuple[tuple[int, int], ...]
+    """:func:`file_stamps` of `input_files`, taken when they were read."""
+    revisions: tuple[Revision, ...]
+    """The log rows `series` was built with."""
+    series: Series
+    """The effective series of `tables` with `revisions` applied."""
+
+    def current(self, existing) -> bool:
+        """Whether the files are as read and the log holds `existing` as when held."""
+        if tuple(existing) != self.revisions:
+            return False
+        try:
+            return file_stamps(self.input_files) == self.stamps
+        except OSError:
+            return False
+
+
+def _record(series_path, make, held: HeldSeries | None = None) -> Revision:
+    """Read, make a row, check the effective data still load, append — under one lock.
+
+    With `held` current, the raw tables are not read again and only the tables the log
+    names are validated again (:func:`kitchen.series.rebuild_series`); the held series
+    loaded, so nothing is refused for a problem already there.
+    """
     source = Path(series_path)
     log = revisions_path(source)
     with folder_lock(log.parent):
-        raw, input_files = read_tables(source)
         _, existing = _read_log(log)
+        usable = held is not None and held.current(existing)
+        if usable:
+            raw, input_files = held.tables, held.input_files
+        else:
+            raw, input_files = read_tables(source)
         before, _, before_trouble = _apply(raw, existing)
         revision = make(before, existing)
         if revision.action == REVISE:  # it applies on top of the rest
@@ -586,9 +648,17 @@ def _record(series_path, make) -> Revision:
         else:
             after, _, after_trouble = _apply(raw, (*existing, revision))
         new = [problem for problem in after_trouble if problem not in before_trouble]
-        loads_after = _load_problems(after, source, input_files)
+        if usable:
+            changed = {r.table for r in (*existing, revision)}
+            try:
+                rebuild_series(held.series, after, changed)
+                loads_after = []
+            except SeriesError as error:
+                loads_after = [str(problem) for problem in error.problems]
+        else:
+            loads_after = _load_problems(after, source, input_files)
         if loads_after:  # refuse only what this row adds to problems already there
-            loads_before = set(_load_problems(before, source, input_files))
+            loads_before = set() if usable else set(_load_problems(before, source, input_files))
             new += [
                 f"the effective data would not load: {problem}"
                 for problem in loads_after
@@ -612,6 +682,7 @@ def revise(
     table: str | None = None,
     who: str = "",
     when: str | datetime | None = None,
+    held: HeldSeries | None = None,
 ) -> Revision:
     """Record a revision of one value of a series; the raw files are not touched.
 
@@ -638,6 +709,9 @@ def revise(
         Who makes the revision (free text).
     when : str or datetime, optional
         ISO 8601 with a time zone; default now, in the local time zone.
+    held : HeldSeries, optional
+        The series as a caller holds it open; while its files and log are unchanged the
+        raw files are not read again (the checks are the same).
 
     Returns
     -------
@@ -687,7 +761,7 @@ def revise(
             reason=reason,
         )
 
-    return _record(series_path, make)
+    return _record(series_path, make, held)
 
 
 def withdraw(
@@ -697,6 +771,7 @@ def withdraw(
     reason: str,
     who: str = "",
     when: str | datetime | None = None,
+    held: HeldSeries | None = None,
 ) -> Revision:
     """Withdraw a revision by appending a row that names it; the log loses nothing.
 
@@ -706,7 +781,7 @@ def withdraw(
         Series folder or ``.xlsx`` workbook.
     revision_id : str
         The id of the revision to withdraw (see :func:`read_revisions`, ``history``).
-    reason, who, when
+    reason, who, when, held
         As for :func:`revise`.
 
     Returns
@@ -757,7 +832,7 @@ def withdraw(
             log_row=None,
         )
 
-    return _record(series_path, make)
+    return _record(series_path, make, held)
 
 
 # --- the effective data ---------------------------------------------------------------------
@@ -859,35 +934,40 @@ def format_history(revisions) -> str:
 # --- what a revision changed ----------------------------------------------------------------
 
 _COMPARED = ("dry_density", "void_ratio", "k_reference", "valid")
+_NUMBERS = ("dry_density", "void_ratio", "k_reference")
 _RELATIVE = 1e-12
 
 
-def _verdicts(results: pd.DataFrame, criterion) -> pd.Series:
+def _verdicts(results: pd.DataFrame, criterion) -> np.ndarray:
     from .trends import classify_against_criterion
 
-    out = pd.Series(pd.NA, index=results.index, dtype=object)
+    out = np.full(len(results), pd.NA, dtype=object)
     if criterion is None:
         return out
-    k = results[["k_reference", "k_reference_low", "k_reference_high"]].astype(float)
-    usable = np.isfinite(k).all(axis=1) & (k > 0).all(axis=1)
+    k, low, high = (
+        pd.to_numeric(results[c], errors="coerce").to_numpy(dtype=float)
+        for c in ("k_reference", "k_reference_low", "k_reference_high")
+    )
+    with np.errstate(invalid="ignore"):
+        usable = np.isfinite(k) & np.isfinite(low) & np.isfinite(high)
+        usable &= (k > 0) & (low > 0) & (high > 0)
     out[~usable] = "no result"
     if usable.any():
-        out[usable] = classify_against_criterion(
-            k.loc[usable, "k_reference"],
-            k.loc[usable, "k_reference_low"],
-            k.loc[usable, "k_reference_high"],
-            criterion,
-        )
+        out[usable] = classify_against_criterion(k[usable], low[usable], high[usable], criterion)
     return out
 
 
-def _moved(before: pd.Series, after: pd.Series, number: bool) -> np.ndarray:
+def _moved(old: np.ndarray, new: np.ndarray, number: bool) -> np.ndarray:
     if number:
-        old, new = before.to_numpy(dtype=float), after.to_numpy(dtype=float)
+        old, new = old.astype(float), new.astype(float)
         same = np.isclose(old, new, rtol=_RELATIVE, atol=0.0) | (np.isnan(old) & np.isnan(new))
         return ~same
-    old, new = before.astype(object), after.astype(object)
-    return ~((old == new).fillna(False) | (old.isna() & new.isna())).to_numpy(dtype=bool)
+    gone_old, gone_new = pd.isna(old), pd.isna(new)
+    equal = np.array(
+        [not (a or b) and x == y for x, y, a, b in zip(old, new, gone_old, gone_new, strict=True)],
+        dtype=bool,
+    )
+    return ~(equal | (gone_old & gone_new))
 
 
 def what_changed(
@@ -913,41 +993,55 @@ def what_changed(
         ``<quantity>_after`` for ``dry_density`` [kg/m3], ``void_ratio``,
         ``k_reference`` [m/s] (k20 at the default reference temperature), ``valid`` and
         ``verdict`` (``<NA>`` without a criterion; ``"no result"`` where k is missing).
+        Rows in the order of `before`, then those of `after` alone.
 
     Notes
     -----
     Numbers count as moved when they differ by more than one part in 10¹²; a specimen
-    present on one side only counts as moved.
+    present on one side only counts as moved. The two tables are aligned on (specimen,
+    method) with arrays: the tables hold one row per test, so this is quick beside the
+    reductions it compares.
     """
     needed = ["specimen", "method", *_COMPARED, "k_reference_low", "k_reference_high"]
     for name, frame in (("before", before), ("after", after)):
         missing = [c for c in needed if c not in frame.columns]
         if missing:
             raise ValueError(f"{name}: results table lacks the columns {', '.join(missing)}")
+    quantities = [*_COMPARED, "verdict"]
     sides = []
     for frame in (before, after):
-        side = frame[needed].copy()
-        side["verdict"] = _verdicts(frame, criterion)
-        sides.append(side.drop(columns=["k_reference_low", "k_reference_high"]))
-    merged = sides[0].merge(
-        sides[1], on=["specimen", "method"], how="outer", suffixes=("_before", "_after"),
-        indicator=True, sort=False,
-    )  # fmt: skip
-    quantities = [*_COMPARED, "verdict"]
-    moved = {
-        q: _moved(merged[f"{q}_before"], merged[f"{q}_after"], q not in ("valid", "verdict"))
-        for q in quantities
-    }
-    one_side = (merged["_merge"] != "both").to_numpy()
+        values = {q: frame[q].to_numpy(dtype=object) for q in _COMPARED}
+        values["verdict"] = _verdicts(frame, criterion)
+        keys = list(zip(frame["specimen"], frame["method"], strict=True))
+        sides.append((dict(zip(keys, range(len(keys)), strict=True)), values))
+    (old_at, old), (new_at, new) = sides
+    keys = list(old_at) + [key for key in new_at if key not in old_at]
+
+    def aligned(at, values, q):
+        out = np.full(len(keys), np.nan if q in _NUMBERS else pd.NA, dtype=object)
+        for i, key in enumerate(keys):
+            if key in at:
+                out[i] = values[q][at[key]]
+        return out
+
+    columns = {"specimen": [key[0] for key in keys], "method": [key[1] for key in keys]}
+    moved = {}
+    for q in quantities:
+        columns[f"{q}_before"] = aligned(old_at, old, q)
+        columns[f"{q}_after"] = aligned(new_at, new, q)
+        moved[q] = _moved(columns[f"{q}_before"], columns[f"{q}_after"], q in _NUMBERS)
+    one_side = np.array([(key in old_at) != (key in new_at) for key in keys], dtype=bool)
     words = [
         ", ".join(q for q in quantities if moved[q][i]) or "present on one side only"
-        for i in range(len(merged))
+        for i in range(len(keys))
     ]
-    merged["moved"] = words
-    keep = np.logical_or.reduce([*moved.values(), one_side])
-    columns = ["specimen", "method", "moved"]
-    columns += [f"{q}_{side}" for q in quantities for side in ("before", "after")]
-    return merged.loc[keep, columns].reset_index(drop=True)
+    keep = np.logical_or.reduce([*moved.values(), one_side]) if keys else np.zeros(0, bool)
+    table = {"specimen": columns["specimen"], "method": columns["method"], "moved": words}
+    for q in quantities:
+        for side in ("before", "after"):
+            values = columns[f"{q}_{side}"]
+            table[f"{q}_{side}"] = values.astype(float) if q in _NUMBERS else values
+    return pd.DataFrame(table).loc[keep].reset_index(drop=True)
 
 
 def revision_effect(

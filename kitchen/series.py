@@ -641,10 +641,10 @@ def _tested(frame: pd.DataFrame) -> set:
 
 
 def _empty_readings(name: str) -> pd.DataFrame:
-    return pd.DataFrame(
-        {column: pd.Series(dtype=float) for column in SCHEMAS[name]}
-        | {"specimen": pd.Series(dtype="string"), "source_row": pd.Series(dtype=int)}
-    )
+    columns = {column: np.empty(0) for column in SCHEMAS[name]}
+    columns["specimen"] = pd.array([], dtype="string")
+    columns["source_row"] = np.empty(0, dtype=int)
+    return pd.DataFrame(columns)
 
 
 def _assemble(tables, source, input_files, previous: Series | None, changed) -> Series:

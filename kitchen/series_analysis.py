@@ -224,37 +224,50 @@ def _require_results(results) -> None:
 
 
 def _one_per_specimen(results: pd.DataFrame, notes: list[str]) -> pd.DataFrame:
-    frame = results.reset_index(drop=True)
+    """One row per specimen, in the order of the table: its first valid result, else its
+    first result."""
+    specimens = results["specimen"].to_numpy(dtype=object)
     valid = (
-        frame["valid"].astype(bool) if "valid" in frame.columns else pd.Series(True, frame.index)
+        results["valid"].to_numpy(dtype=bool)
+        if "valid" in results.columns
+        else np.ones(len(results), dtype=bool)
     )
-    order = frame.assign(_rank=(~valid).astype(int), _position=np.arange(len(frame)))
-    order = order.sort_values(["_rank", "_position"], kind="stable")
-    kept = order.drop_duplicates("specimen", keep="first").sort_values("_position")
-    repeated = frame["specimen"][frame["specimen"].duplicated()].unique()
-    for specimen in repeated:
-        method = kept.loc[kept["specimen"] == specimen, "method"].iloc[0]
+    chosen: dict = {}
+    repeated = []
+    for position, (specimen, is_valid) in enumerate(zip(specimens, valid, strict=True)):
+        held = chosen.get(specimen)
+        if held is None:
+            chosen[specimen] = position
+        else:
+            repeated.append(specimen)
+            if is_valid and not valid[held]:
+                chosen[specimen] = position
+    methods = results["method"].to_numpy(dtype=object)
+    for specimen in dict.fromkeys(repeated):
+        method = methods[chosen[specimen]]
         notes.append(f"specimen {specimen} has more than one result: the {method} result is used")
-    return kept.drop(columns=["_rank", "_position"]).reset_index(drop=True)
+    return results.iloc[sorted(chosen.values())].reset_index(drop=True)
 
 
 def _usable_conductivity(frame: pd.DataFrame, notes: list[str]) -> pd.DataFrame:
-    k = pd.to_numeric(frame["k_reference"], errors="coerce").astype(float)
-    usable = np.isfinite(k) & (k > 0)
-    for specimen in frame.loc[~usable, "specimen"]:
+    def numbers(column):
+        return pd.to_numeric(frame[column], errors="coerce").to_numpy(dtype=float)
+
+    k, low, high = numbers("k_reference"), numbers("k_reference_low"), numbers("k_reference_high")
+    with np.errstate(invalid="ignore"):
+        usable = np.isfinite(k) & (k > 0)
+    specimens = frame["specimen"].to_numpy(dtype=object)
+    for specimen in specimens[~usable]:
         notes.append(f"specimen {specimen}: no usable conductivity, left out of the analysis")
-    out = frame.loc[usable].copy().reset_index(drop=True)
-    out["k"] = k[usable].to_numpy()
-    low = pd.to_numeric(out["k_reference_low"], errors="coerce").astype(float).to_numpy()
-    high = pd.to_numeric(out["k_reference_high"], errors="coerce").astype(float).to_numpy()
-    k_values = out["k"].to_numpy()
-    bounded = np.isfinite(low) & np.isfinite(high) & (low > 0) & (low <= k_values)
-    bounded &= high >= k_values
-    out["k_low"] = np.where(bounded, low, np.nan)
-    out["k_high"] = np.where(bounded, high, np.nan)
-    for specimen in out.loc[~bounded, "specimen"]:
+    k, low, high = k[usable], low[usable], high[usable]
+    with np.errstate(invalid="ignore"):
+        bounded = np.isfinite(low) & np.isfinite(high) & (low > 0) & (low <= k) & (high >= k)
+    for specimen in specimens[usable][~bounded]:
         notes.append(f"specimen {specimen}: no interval on k, so its verdict is not conclusive")
-    return out
+    out = frame.iloc[np.flatnonzero(usable)].reset_index(drop=True)
+    return out.assign(
+        k=k, k_low=np.where(bounded, low, np.nan), k_high=np.where(bounded, high, np.nan)
+    )
 
 
 def _verdicts(frame: pd.DataFrame, criterion: float) -> np.ndarray:

@@ -28,8 +28,10 @@ from .results import Settings
 from .results import result_row as results_row
 from .revisions import (
     EffectiveSeries,
+    HeldSeries,
     Revision,
     apply_revisions,
+    file_stamps,
     log_sha256,
     read_revisions,
     revise,
@@ -128,14 +130,17 @@ class Workspace:
     def __init__(self, series_path: str | Path, settings: Settings | None = None):
         self.path = Path(series_path)
         self._settings = settings or Settings()
+        self._settings_digest = _digest(self._settings)
         self._windows: dict[str, tuple[int, int] | None] = {}
         self._rises: dict[str, float | None] = {}
         self._written, self._input_files = read_tables(self.path)
+        self._stamps = file_stamps(self._input_files)
         self._revisions: tuple[Revision, ...] = read_revisions(self.path)
         self._log_sha256 = log_sha256(self.path)
         self._tables = {name: self._effective_table(name) for name in self._written}
         self._series = build_series(self._tables, self.path, self._input_files)
         self._cache: dict[tuple[str, str], tuple[str, object]] = {}
+        self._result_rows: dict[tuple[str, str], tuple[object, pd.Series, dict]] = {}
         self._records: dict[str, tuple[str, str, FallingHeadRecord]] = {}
         self._rows: dict[str, dict] = {}
         self._reading_digests: dict[str, dict[str, str]] = {}
@@ -235,7 +240,7 @@ class Workspace:
         return _digest(
             self._specimen_digests[specimen],
             self._reading_digests[table][specimen],
-            self._settings,
+            self._settings_digest,
             self._windows.get(specimen) if falling else None,
             self._rises.get(specimen) if falling else None,
         )
@@ -252,6 +257,9 @@ class Workspace:
     def sync(self) -> tuple[str, ...]:
         """Read the revision log again and apply what was added since.
 
+        A raw file rewritten since it was read (its size or modification time changed)
+        is read again, with every table.
+
         Returns
         -------
         tuple of str
@@ -265,6 +273,12 @@ class Workspace:
         """
         revisions = read_revisions(self.path)
         held = self._revisions
+        try:
+            rewritten = file_stamps(self._input_files) != self._stamps
+        except OSError:
+            rewritten = True
+        if rewritten:  # a raw file was edited behind the workspace: read every table again
+            return self._reread(revisions)
         if revisions[: len(held)] == held:
             changed = {r.table for r in revisions[len(held) :]}
         else:  # rows were changed or removed (by hand): apply the whole log again
@@ -288,6 +302,25 @@ class Workspace:
         self._index_readings([name for name in names if name in READING_TABLES])
         return self._moved(before)
 
+    def _reread(self, revisions) -> tuple[str, ...]:
+        """Read the raw files and the log again, as when the workspace was opened."""
+        held = (self._written, self._input_files, self._stamps, self._revisions)
+        before = self._inputs()
+        try:
+            self._written, self._input_files = read_tables(self.path)
+            self._stamps = file_stamps(self._input_files)
+            self._revisions = revisions
+            tables = {name: self._effective_table(name) for name in self._written}
+            series = build_series(tables, self.path, self._input_files)
+        except Exception:
+            self._written, self._input_files, self._stamps, self._revisions = held
+            raise
+        self._tables, self._series = tables, series
+        self._log_sha256 = log_sha256(self.path)
+        self._index_specimens()
+        self._index_readings(READING_TABLES)
+        return self._moved(before)
+
     def _moved(self, before: dict) -> tuple[str, ...]:
         after = self._inputs()
         moved = {
@@ -300,15 +333,21 @@ class Workspace:
 
         The specimens it moved are those :meth:`sync` returns; see :attr:`last_moved`.
         """
-        row = revise(self.path, **revision)
+        row = revise(self.path, **revision, held=self._held())
         self.last_moved = self.sync()
         return row
 
     def withdraw(self, revision_id: str, **details) -> Revision:
         """Withdraw a revision (:func:`kitchen.revisions.withdraw`) and apply the log again."""
-        row = withdraw(self.path, revision_id, **details)
+        row = withdraw(self.path, revision_id, **details, held=self._held())
         self.last_moved = self.sync()
         return row
+
+    def _held(self) -> HeldSeries:
+        """The raw tables held, so that recording a revision need not read them again."""
+        return HeldSeries(
+            self._written, tuple(self._input_files), self._stamps, self._revisions, self._series
+        )
 
     @property
     def settings(self) -> Settings:
@@ -318,6 +357,7 @@ class Workspace:
     def set_settings(self, settings: Settings) -> tuple[str, ...]:
         """Use other settings; returns the specimens whose results are now out of date."""
         before, self._settings = self._inputs(), settings
+        self._settings_digest = _digest(settings)
         return self._moved(before)
 
     def set_window(self, specimen: str, window: tuple[int, int] | None) -> tuple[str, ...]:
@@ -354,7 +394,7 @@ class Workspace:
     def _analyse(self, specimen: str, readings: pd.DataFrame) -> FallingHeadAnalysis:
         readings_key = _digest(
             self._reading_digests["falling_head"][specimen],
-            self._settings,
+            self._settings_digest,
             self._rises.get(specimen),
         )
         row_key = self._specimen_digests[specimen]
@@ -398,12 +438,22 @@ class Workspace:
         """
         rows = []
         for specimen, state_row in self._state_rows.items():
-            if specimen in self._rows["constant_head"]:
-                analysis = self.constant_head(specimen)
-                gradient = analysis.gradient_max
-                rows.append(results_row(state_row, "constant_head", analysis, gradient))
-            if specimen in self._rows["falling_head"]:
-                analysis = self.falling_head(specimen)
-                gradient = analysis.gradient_start
-                rows.append(results_row(state_row, "falling_head", analysis, gradient))
+            for table in READING_TABLES:
+                if specimen in self._rows[table]:
+                    rows.append(self._result_row(specimen, state_row, table))
         return pd.DataFrame(rows)
+
+    def _result_row(self, specimen: str, state_row: pd.Series, table: str) -> dict:
+        """One row of the results table; kept while the analysis and the row stand."""
+        if table == "falling_head":
+            analysis = self.falling_head(specimen)
+            gradient = analysis.gradient_start
+        else:
+            analysis = self.constant_head(specimen)
+            gradient = analysis.gradient_max
+        held = self._result_rows.get((specimen, table))
+        if held is None or held[0] is not analysis or held[1] is not state_row:
+            held = (analysis, state_row, results_row(state_row, table, analysis, gradient))
+            self._result_rows[specimen, table] = held
+        # lists copied: a caller may change its table without changing the one kept here
+        return {k: list(v) if isinstance(v, list) else v for k, v in held[2].items()}

@@ -8,6 +8,7 @@ import shutil
 import subprocess
 import sys
 import tempfile
+from functools import partial
 from pathlib import Path
 
 import numpy as np
@@ -33,6 +34,7 @@ from kitchen.revisions import (
     what_changed,
 )
 from kitchen.series import SeriesError, load_series, read_tables
+from kitchen.workspace import Workspace
 
 SAMPLES = Path(__file__).resolve().parents[1] / "sample_data"
 WHEN = "2025-05-02T14:30:00+02:00"
@@ -306,15 +308,19 @@ _REFUSED = [
 ]
 
 
+@pytest.mark.parametrize("through", ["files", "workspace"])
 @pytest.mark.parametrize("with_log", [False, True], ids=["no log yet", "log exists"])
 @pytest.mark.parametrize(("changes", "message"), _REFUSED, ids=[m for _, m in _REFUSED])
-def test_refused_revision_writes_nothing(small, changes, message, with_log):
+def test_refused_revision_writes_nothing(small, changes, message, with_log, through):
+    # "workspace": recorded from the tables a Workspace holds (HeldSeries), which must
+    # refuse exactly what reading the files again refuses
     if with_log:
         revise(small, specimen="A2", field="height", value="116.9 mm", reason="re-measured")
     raw, log = raw_digests(small), log_bytes(small)
     request = {"specimen": "A1", "field": "height", "value": "117 mm", "reason": "r"} | changes
+    record = Workspace(small).revise if through == "workspace" else partial(revise, small)
     with pytest.raises(RevisionError) as caught:
-        revise(small, **request)
+        record(**request)
     assert message in str(caught.value)
     assert raw_digests(small) == raw and log_bytes(small) == log
     assert (log is None) == (not with_log)
@@ -343,6 +349,22 @@ def test_refused_withdrawals_write_nothing(small):
 
 
 # --- raw data the loader refuses, raw files edited, logs damaged -----------------------------
+
+
+def test_a_workspace_reads_a_file_again_once_it_was_rewritten(small):
+    workspace = Workspace(small)
+    assert workspace._held().current(read_revisions(small))
+    specimens = small / "specimens.csv"
+    specimens.write_text(SPECIMENS.replace("A1,101.6,116.4", "A1,101.6,116.45"), encoding="utf-8")
+    assert not workspace._held().current(read_revisions(small))
+    row = workspace.revise(specimen="A1", field="height", value="117 mm", reason="re-measured")
+    assert row.old_value == "116.45 mm"  # as the file now reads, not as the workspace held it
+    assert workspace.series.specimens.loc[0, "height"] == pytest.approx(0.117)
+    assert workspace._held().current(read_revisions(small))  # read again by the sync
+    other = revise(small, specimen="A2", field="height", value="117 mm", reason="re-measured")
+    assert not workspace._held().current(read_revisions(small))  # a row it has not read
+    workspace.sync()
+    assert workspace._held().current(read_revisions(small)) and other in workspace.revisions
 
 
 def test_revision_can_correct_a_value_the_loader_refuses(tmp_path):
