@@ -212,10 +212,25 @@ def _k_title(unit: DisplayUnit, reference_temperature: float) -> str:
     return f"hydraulic conductivity {label} [{unit.unit}]"
 
 
+def _effort_labels(specimens: pd.DataFrame) -> np.ndarray:
+    """Each specimen's effort as text, :data:`NO_EFFORT` where none is given."""
+    return np.array(
+        [NO_EFFORT if pd.isna(e) else str(e) for e in specimens["effort"]], dtype=object
+    )
+
+
 def _effort_order(specimens: pd.DataFrame) -> list[str]:
-    labels = specimens["effort"].astype("string").fillna(NO_EFFORT)
-    mean = specimens.assign(_label=labels).groupby("_label", sort=False)["dry_density"].mean()
-    return list(mean.sort_values(kind="stable").index)
+    """The efforts by their specimens' mean dry density, lowest first (ties: as they come)."""
+    labels = _effort_labels(specimens)
+    density = specimens["dry_density"].to_numpy(dtype=float)
+    sums: dict[str, list[float]] = {}
+    for label, value in zip(labels, density, strict=True):
+        total = sums.setdefault(label, [0.0, 0])
+        if not np.isnan(value):
+            total[0] += value
+            total[1] += 1
+    means = {label: total / count if count else np.nan for label, (total, count) in sums.items()}
+    return sorted(means, key=lambda label: (np.isnan(means[label]), means[label]))
 
 
 def _escaped(value) -> str:
@@ -286,17 +301,21 @@ def _specimen_trace_specs(
     show_legend: bool,
     error_bars: float | None,
     order=None,
+    hover=None,
     **axes,
 ) -> list[dict]:
     """The traces of :func:`_specimen_traces` as plain dicts (validated when a figure is
     built from them), each with `axes` (``xaxis``, ``yaxis``) added; `order` is the
-    :func:`_effort_order` of the specimens when already known."""
+    :func:`_effort_order` of the specimens and `hover` their :func:`_hover` texts, when
+    already known."""
     frame = analysis.specimens
     order = _effort_order(frame) if order is None else order
     styles = _effort_styles(frame, order)
-    labels = frame["effort"].astype("string").fillna(NO_EFFORT).to_numpy(dtype=object)
-    is_verdict = {v: (frame["verdict"] == v).to_numpy(dtype=bool) for v in VERDICTS}
-    hover = np.array(_hover(frame, unit, analysis), dtype=object)
+    labels = _effort_labels(frame)
+    verdicts = frame["verdict"].to_numpy(dtype=object)
+    is_verdict = {v: verdicts == v for v in VERDICTS}
+    if hover is None:
+        hover = np.array(_hover(frame, unit, analysis), dtype=object)
     names = np.array([_escaped(v) for v in frame["specimen"]], dtype=object)
     k_all, k_low_all, k_high_all = (frame[c].to_numpy() for c in ("k", "k_low", "k_high"))
     x, y = np.asarray(x), np.asarray(y)
@@ -614,9 +633,10 @@ def compaction_conductivity_spec(
     k_axis, note = _k_axis(plane, ku)
     shortest = ERROR_BAR_FRACTION * (k_axis["range"][1] - k_axis["range"][0])
     density = frame["dry_density"] * du.factor
-    data += _specimen_trace_specs(plane, w_pct, density, ku, True, None, order, **top)
+    hover = np.array(_hover(frame, ku, plane), dtype=object)
+    data += _specimen_trace_specs(plane, w_pct, density, ku, True, None, order, hover, **top)
     data += _specimen_trace_specs(
-        plane, w_pct, frame["k"] * ku.factor, ku, False, shortest, order, **bottom
+        plane, w_pct, frame["k"] * ku.factor, ku, False, shortest, order, hover, **bottom
     )
     if not note:
         data.append(dict(_criterion_spec(analysis, x_range, ku), **bottom))

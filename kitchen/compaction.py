@@ -110,12 +110,18 @@ def _require_columns(table, required: tuple[str, ...], what: str) -> None:
         )
 
 
-def _table_numbers(table: pd.DataFrame, column: str, allow_missing: bool) -> pd.Series:
-    """A float column; non-numbers (and NaN unless `allow_missing`) raise naming the row."""
-    values = pd.to_numeric(table[column], errors="coerce").astype(float)
-    bad = values.isna() & table[column].notna() | np.isinf(values)
+def _table_numbers(table: pd.DataFrame, column: str, allow_missing: bool) -> np.ndarray:
+    """A float column as an array; non-numbers (and NaN unless `allow_missing`) raise
+    naming the row."""
+    given = table[column]
+    if given.dtype.kind == "f":
+        values = given.to_numpy(dtype=float)
+        bad = np.isinf(values)
+    else:
+        values = pd.to_numeric(given, errors="coerce").to_numpy(dtype=float)
+        bad = np.isnan(values) & given.notna().to_numpy() | np.isinf(values)
     if not allow_missing:
-        bad |= values.isna()
+        bad |= np.isnan(values)
     if bad.any():
         rows = "; ".join(
             f"{_row(table, i)}: {_show(table.at[i, column])}" for i in table.index[bad][:5]
@@ -299,19 +305,24 @@ def _fit_curve(w: np.ndarray, rho: np.ndarray, method: str) -> CompactionCurve:
             f"distinct water contents; got {w.size} specimen(s) at {distinct} distinct "
             "water content(s)"
         )
-    scaled = np.polynomial.Polynomial.fit(w, rho, degree)
-    power = np.zeros(needed)
-    converted = scaled.convert().coef
-    power[: converted.size] = converted
-    curve = np.polynomial.Polynomial(power)
-    residuals = rho - scaled(w)
+    # least squares in x = (w - centre)/half, which spans [-1, 1] (as numpy's
+    # Polynomial.fit does, for conditioning), then the coefficients in powers of w
+    low, high = float(w.min()), float(w.max())
+    centre, half = 0.5 * (low + high), 0.5 * (high - low)
+    x = (w - centre) / half
+    scaled, *_ = np.linalg.lstsq(np.vander(x, needed), rho, rcond=None)  # highest first
+    power = np.zeros(1)
+    for coefficient in scaled:  # Horner's rule on polynomials: q(x) with x = w/half - c/half
+        power = np.polyadd(np.polymul(power, [1.0 / half, -centre / half]), [coefficient])
+    power = np.concatenate([np.zeros(needed - power.size), power])  # highest power first
+    residuals = rho - np.polyval(scaled, x)
     dof = w.size - needed
     rsd = float(np.sqrt(np.sum(residuals**2) / dof)) if dof > 0 else None
-    slope, bend = curve.deriv(), curve.deriv(2)
-    roots = slope.roots()
+    slope = np.polyder(power)
+    bend = np.polyder(slope)
+    roots = np.roots(slope) if np.any(slope) else np.zeros(0)
     real = roots[np.abs(roots.imag) <= 1e-9 * np.maximum(1.0, np.abs(roots.real))].real
-    maxima = [float(r) for r in real if bend(r) < 0]
-    low, high = float(w.min()), float(w.max())
+    maxima = [float(r) for r in real if np.polyval(bend, r) < 0]
     w_opt = rho_max = None
     inside, message = False, ""
     if not maxima:
@@ -321,7 +332,7 @@ def _fit_curve(w: np.ndarray, rho: np.ndarray, method: str) -> CompactionCurve:
         )
     else:
         w_opt = maxima[0]
-        rho_max = float(curve(w_opt))
+        rho_max = float(np.polyval(power, w_opt))
         inside = low <= w_opt <= high
         if not inside:
             message = (
@@ -331,7 +342,7 @@ def _fit_curve(w: np.ndarray, rho: np.ndarray, method: str) -> CompactionCurve:
             )
     return CompactionCurve(
         method=method,
-        coefficients=tuple(float(c) for c in power[::-1]),
+        coefficients=tuple(float(c) for c in power),
         optimum_water_content=w_opt,
         maximum_dry_density=rho_max,
         n=int(w.size),
@@ -419,28 +430,29 @@ def compaction_curves(table: pd.DataFrame, method="quadratic") -> dict:
     needed = _degree(method) + 1
     w = _table_numbers(table, "water_content", allow_missing=True)
     rho = _table_numbers(table, "dry_density", allow_missing=False)
-    for values, ok, column, expected in (
-        (w, _plausible_water_content(w) | w.isna(), "water_content", _WATER_CONTENT_EXPECTED),
-        (rho, _plausible_dry_density(rho), "dry_density", _DRY_DENSITY_EXPECTED),
-    ):
+    has_w = ~np.isnan(w)
+    with np.errstate(invalid="ignore"):
+        checks = (
+            (w, _plausible_water_content(w) | ~has_w, "water_content", _WATER_CONTENT_EXPECTED),
+            (rho, _plausible_dry_density(rho), "dry_density", _DRY_DENSITY_EXPECTED),
+        )
+    for values, ok, column, expected in checks:
         if not ok.all():
-            rows = "; ".join(f"{_row(table, i)}: {_show(values[i])}" for i in table.index[~ok][:5])
+            bad = np.flatnonzero(~ok)[:5]
+            rows = "; ".join(f"{_row(table, table.index[i])}: {_show(values[i])}" for i in bad)
             raise ValueError(f"column {column!r}: expected {expected}; {rows}")
-    effort = table["effort"]
-    for missing, what in (
-        (effort.isna(), "an effort"),
-        (effort.notna() & w.isna(), "a water content"),
-    ):
+    labels = table["effort"].to_numpy(dtype=object)
+    has_effort = ~pd.isna(labels)
+    for missing, what in ((~has_effort, "an effort"), (has_effort & ~has_w, "a water content")):
         if missing.any():
-            rows = ", ".join(_row(table, i) for i in table.index[missing])
+            rows = ", ".join(_row(table, table.index[i]) for i in np.flatnonzero(missing))
             warnings.warn(
                 f"{int(missing.sum())} specimen(s) without {what} left out of the compaction "
                 f"curves: {rows}",
                 stacklevel=2,
             )
-    used = (effort.notna() & w.notna()).to_numpy()
-    labels = effort.to_numpy(dtype=object)
-    w_values, rho_values = w.to_numpy(), rho.to_numpy()
+    used = has_effort & has_w
+    w_values, rho_values = w, rho
     curves = {}
     for name in pd.unique(labels[used]):
         rows = used & (labels == name)

@@ -312,12 +312,12 @@ def _recorded(call, notes: list[str], prefix: str = ""):
 
 
 def _trend(frame, column, name, notes, confidence, label):
-    rows = frame[column].notna()
+    values = frame[column].to_numpy(dtype=float)
+    rows = ~np.isnan(values)
     if rows.sum() < 3:
         notes.append(f"{label}: fewer than 3 specimens with a value, no trend fitted")
         return None
-    values = frame.loc[rows, column].to_numpy(float)
-    k = frame.loc[rows, "k"].to_numpy(float)
+    values, k = values[rows], frame["k"].to_numpy(dtype=float)[rows]
     if name == "void_ratio":
         return _recorded(
             lambda: fit_log_conductivity_void_ratio(values, k, confidence=confidence),
@@ -388,12 +388,23 @@ def analyse_series(
     frame = _usable_conductivity(_one_per_specimen(results, notes), notes)
     if frame.empty:
         raise ValueError("results table: no specimen has a usable conductivity")
-    frame["verdict"] = _verdicts(frame, criterion)
-    frame["meets"] = frame["verdict"] == MEETS
-    water = pd.to_numeric(frame["water_content"], errors="coerce").astype(float)
-    frame["water_content"] = water
-    frame["on_compaction_plane"] = water.notna()
-    plane = frame[frame["on_compaction_plane"]]
+    # every column is formed as an array and set in two passes: a dozen specimens make
+    # the pandas overhead of setting one column at a time the larger part of the cost
+    verdict = _verdicts(frame, criterion)
+
+    def numbers(column):
+        return pd.to_numeric(frame[column], errors="coerce").to_numpy(dtype=float)
+
+    water = numbers("water_content")
+    on_plane = ~np.isnan(water)
+    frame = frame.assign(
+        verdict=verdict,
+        meets=verdict == MEETS,
+        water_content=water,
+        on_compaction_plane=on_plane,
+        **{column: numbers(column) for column in ("dry_density", "void_ratio", "d10")},
+    )
+    plane = frame.iloc[np.flatnonzero(on_plane)]
     gs = _specific_gravity(frame, notes if not plane.empty else [])
 
     curves: dict = {}
@@ -415,27 +426,28 @@ def analyse_series(
         )
         if zone is not None and zone.message:
             notes.append(f"acceptable zone: {zone.message}")
-    frame["in_zone"] = False
+    in_zone = np.zeros(len(frame), dtype=bool)
     if zone is not None:
-        inside = zone.contains(plane["water_content"], plane["dry_density"])
-        frame.loc[plane.index, "in_zone"] = np.asarray(inside, dtype=bool)
+        inside = zone.contains(water[on_plane], frame["dry_density"].to_numpy()[on_plane])
+        in_zone[on_plane] = np.asarray(inside, dtype=bool)
 
     optimum_of = {
         effort: curve.optimum_water_content
         for effort, curve in curves.items()
         if curve.peak_found and curve.peak_within_range
     }
-    w_opt = frame["effort"].map(lambda e: optimum_of.get(e, np.nan) if pd.notna(e) else np.nan)
-    frame["water_content_from_optimum"] = water - pd.to_numeric(w_opt).astype(float)
+    w_opt = np.array(
+        [np.nan if pd.isna(e) else optimum_of.get(e, np.nan) for e in frame["effort"]],
+        dtype=float,
+    )
+    frame = frame.assign(in_zone=in_zone, water_content_from_optimum=water - w_opt)
 
-    for column in ("dry_density", "void_ratio", "d10"):
-        frame[column] = pd.to_numeric(frame[column], errors="coerce").astype(float)
     void_trend = _trend(frame, "void_ratio", "void_ratio", notes, confidence, "k against e")
     if void_trend is not None and void_trend.message:
         notes.append(f"k against e: {void_trend.message}")
     density_trend = _trend(frame, "dry_density", "dry_density", notes, confidence, "k against ρd")
     water_trend = None
-    if frame["water_content_from_optimum"].notna().any():
+    if not np.isnan(water - w_opt).all():
         water_trend = _trend(
             frame,
             "water_content_from_optimum",

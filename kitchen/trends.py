@@ -558,8 +558,8 @@ def grading_predictions(table: pd.DataFrame) -> pd.DataFrame:
     See :func:`hazen_conductivity` and :func:`chapuis_conductivity`.
     """
     _require_columns(table, ("specimen", "d10", "void_ratio"), "grading table")
-    d10 = _table_numbers(table, "d10", allow_missing=True)
-    e = _table_numbers(table, "void_ratio", allow_missing=True)
+    d10 = pd.Series(_table_numbers(table, "d10", allow_missing=True), index=table.index)
+    e = pd.Series(_table_numbers(table, "void_ratio", allow_missing=True), index=table.index)
     for values, column, expected in (
         (d10, "d10", "a positive d10 in m (0.2 mm is 0.0002)"),
         (e, "void_ratio", "a positive void ratio"),

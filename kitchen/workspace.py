@@ -17,6 +17,7 @@ specimens changed (:meth:`Workspace.sync`) so that a panel redraws only their ch
 from __future__ import annotations
 
 import hashlib
+import time
 from pathlib import Path
 
 import numpy as np
@@ -148,6 +149,9 @@ class Workspace:
         self._index_specimens()
         self.last_moved: tuple[str, ...] = ()
         """The specimens moved by the last :meth:`revise` or :meth:`withdraw`."""
+        self.last_timings: dict[str, float] = {}
+        """Seconds the last :meth:`revise` or :meth:`withdraw` spent recording the row and
+        applying it."""
 
     # --- the effective data ----------------------------------------------------------------
     def _effective_table(self, name: str) -> RawTable:
@@ -333,14 +337,23 @@ class Workspace:
 
         The specimens it moved are those :meth:`sync` returns; see :attr:`last_moved`.
         """
-        row = revise(self.path, **revision, held=self._held())
-        self.last_moved = self.sync()
-        return row
+        return self._recorded(lambda: revise(self.path, **revision, held=self._held()))
 
     def withdraw(self, revision_id: str, **details) -> Revision:
         """Withdraw a revision (:func:`kitchen.revisions.withdraw`) and apply the log again."""
-        row = withdraw(self.path, revision_id, **details, held=self._held())
+        return self._recorded(
+            lambda: withdraw(self.path, revision_id, **details, held=self._held())
+        )
+
+    def _recorded(self, record) -> Revision:
+        started = time.perf_counter()
+        row = record()
+        recorded = time.perf_counter()
         self.last_moved = self.sync()
+        self.last_timings = {
+            "recording the revision": recorded - started,
+            "effective data": time.perf_counter() - recorded,
+        }
         return row
 
     def _held(self) -> HeldSeries:
@@ -385,10 +398,14 @@ class Workspace:
 
     def falling_head(self, specimen: str) -> FallingHeadAnalysis:
         """One specimen's falling-head analysis; from the cache while its inputs are unchanged."""
-        readings = self.readings(specimen, "falling_head")
+        if not self.has_readings(specimen):
+            self.readings(specimen)  # raises, naming the specimen and the file
         key = self._key(specimen, "falling_head")
         return self._cached(
-            specimen, "falling_head", key, lambda: self._analyse(specimen, readings)
+            specimen,
+            "falling_head",
+            key,
+            lambda: self._analyse(specimen, self.readings(specimen, "falling_head")),
         )
 
     def _analyse(self, specimen: str, readings: pd.DataFrame) -> FallingHeadAnalysis:

@@ -147,3 +147,17 @@ def test_the_series_chart_after_a_height_revision(tmp_path):
     assert 0 < sent < whole / 4
     assert _state(widget) == _whole(revised)
     assert list(widget._widget_data[0]["x"]) == list(widget.data[0].x)  # what new views draw
+
+
+def test_a_refresh_sends_changes_only_not_the_whole_state():
+    # plotly's widget sends its whole figure when _widget_data is set as a trait; a refresh
+    # keeps the kernel's copy current for a browser that connects later, without sending it
+    widget = go.FigureWidget()
+    refresh_figure(widget, {"data": [{"type": "scatter", "y": np.arange(3.0)}], "layout": {}})
+    sent = []
+    original = widget.send_state
+    widget.send_state = lambda key=None: sent.append(key) or original(key)
+    refresh_figure(widget, {"data": [{"type": "scatter", "y": np.arange(4.0)}], "layout": {}})
+    keys = {k for key in sent for k in ([key] if isinstance(key, str) else key or ["all"])}
+    assert keys and not keys & {"_widget_data", "_widget_layout", "all"}
+    assert list(widget._widget_data[0]["y"]) == [0.0, 1.0, 2.0, 3.0]  # what get_state sends

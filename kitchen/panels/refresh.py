@@ -114,11 +114,10 @@ def refresh_figure(widget: go.FigureWidget, figure) -> int:
     is updated in place (same traces) or the traces are replaced. The layout is updated
     key by key.
 
-    Open views follow the changes as messages, but a view created later (the panel
-    displayed after this call, a second display, a page reload with the kernel alive) is
-    drawn from the widget's synchronised state, which plotly sets only when a FigureWidget
-    is displayed on its own. That state is brought up to date here too, so a FigureWidget
-    inside a box or a tab shows the figure as it now is, not as it was first built.
+    The browser's model follows the changes as messages, and views drawn later from it
+    (the panel displayed after this call, a second display) show the figure as it now is.
+    The kernel's copy of the synchronised state, sent to a browser that connects later (a
+    page reload with the kernel alive), is brought up to date too, without sending it.
     """
     spec = figure_spec(figure)
     layout = dict(spec["layout"])
@@ -164,7 +163,21 @@ def refresh_figure(widget: go.FigureWidget, figure) -> int:
             widget.add_traces(new_traces)
         sent = sum(len(trace) for trace in new_traces) + len(sent_layout)
     setattr(widget, _SHOWN, spec)
-    # the state new views are drawn from (what FigureWidget._repr_mimebundle_ does)
-    widget._widget_layout = copy.deepcopy(widget._layout_obj._props)
-    widget._widget_data = copy.deepcopy(widget._data)
+    _keep_state(widget)
     return sent
+
+
+def _keep_state(widget: go.FigureWidget) -> None:
+    """Bring the widget's synchronised state up to date without sending it.
+
+    Plotly sets ``_widget_data`` and ``_widget_layout`` (what a view is first drawn from)
+    only when a FigureWidget is displayed on its own. The browser's copy of the model is
+    kept current by the update messages above (plotly.js applies each one to it), so
+    only the kernel's copy is stale: it is what a browser that connects later (a page
+    reload) is sent. Setting the traits the usual way would send the whole figure to the
+    browser again after every refresh, and redraw it; the values are stored as they are
+    instead, for the next time the state is asked for.
+    """
+    state = widget._trait_values  # traitlets' store: no change notification, no message
+    state["_widget_layout"] = copy.deepcopy(widget._layout_obj._props)
+    state["_widget_data"] = copy.deepcopy(widget._data)

@@ -13,7 +13,8 @@ again only the specimens it touches.
 from __future__ import annotations
 
 import html
-from dataclasses import dataclass
+import time
+from dataclasses import dataclass, field
 from pathlib import Path
 
 import ipywidgets as widgets
@@ -147,6 +148,8 @@ class RevisePanel:
         Why a chart is not drawn, when it is not.
     chart_boxes : tuple of ipywidgets.Box
         The boxes of the specimen chart and the series chart (hidden when not drawn).
+    timings : dict of str to float
+        Seconds spent in each stage of the last revision or withdrawal, recording first.
     error : MessageArea
     changed : pandas.DataFrame or None
         :func:`kitchen.revisions.what_changed` of the last action.
@@ -178,6 +181,7 @@ class RevisePanel:
     specimen_chart: go.FigureWidget | None = None
     chart_note: widgets.HTML | None = None
     chart_boxes: tuple = ()
+    timings: dict = field(default_factory=dict)
     results: pd.DataFrame | None = None
     changed: pd.DataFrame | None = None
     last: Revision | None = None
@@ -306,7 +310,7 @@ class RevisePanel:
 
     def _record(self) -> None:
         table = self.table_choice.value
-        before = self.results
+        before, started = self.results, time.perf_counter()
         self.last = self.workspace.revise(
             specimen=self.specimen.value,
             field=self.field.value,
@@ -316,7 +320,7 @@ class RevisePanel:
             table=table,
             who=self.who.value,
         )
-        self._after(before, f"Revision {self.last.id} recorded: {self.last.describe()}.")
+        self._after(before, f"Revision {self.last.id} recorded: {self.last.describe()}.", started)
         self.value.value = ""
 
     def withdraw_revision(self, _button=None) -> None:
@@ -326,16 +330,27 @@ class RevisePanel:
     def _withdraw(self) -> None:
         if not self.withdraw_choice.value:
             raise ValueError("no revision in force to withdraw")
-        before = self.results
+        before, started = self.results, time.perf_counter()
         self.last = self.workspace.withdraw(
             self.withdraw_choice.value, reason=self.reason.value, who=self.who.value
         )
-        self._after(before, f"Withdrawal {self.last.id} recorded: {self.last.describe()}.")
+        self._after(before, f"Withdrawal {self.last.id} recorded: {self.last.describe()}.", started)
 
-    def _after(self, before: pd.DataFrame, headline: str) -> None:
+    def _after(self, before: pd.DataFrame, headline: str, started: float) -> None:
+        clock = [started]
+
+        def lap(stage: str) -> None:
+            now = time.perf_counter()
+            self.timings[stage], clock[0] = now - clock[0], now
+
+        self.timings = {}
+        self.timings.update(self.workspace.last_timings)
+        clock[0] = time.perf_counter()
         self._refresh_log()
+        lap("results and log")
         self._show_current()
         self._redraw()
+        lap("charts")
         criterion = parse_criterion(self.criterion.value)
         self.changed = what_changed(before, self.results, criterion)
         label = reference_label(self.settings)
@@ -343,11 +358,13 @@ class RevisePanel:
             body = "<p>No result moved.</p>"
         else:
             body = html_table(changes_view_table(self.changed, label), text_columns=("what moved",))
+        lap("what moved")
         moved = ", ".join(self.workspace.last_moved) or "none"
+        took = 1e3 * (time.perf_counter() - started)
         self.changes.value = (
             f"<p>{html.escape(headline)}</p>{body}"
             f"<p><small>Reduced again: {html.escape(moved)}; every other specimen's results "
-            "came from the cache.</small></p>"
+            f"came from the cache. Recorded, reduced and redrawn in {took:.0f} ms.</small></p>"
         )
 
 
