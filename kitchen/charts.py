@@ -380,7 +380,7 @@ def _criterion_spec(analysis, x_range, unit: DisplayUnit, show_legend=True) -> d
         x=list(x_range),
         y=[value, value],
         mode="lines",
-        name=f"criterion k ≤ {scientific(value, html=True)} {unit.unit}",
+        name=f"criterion k {analysis.criterion.symbol} {scientific(value, html=True)} {unit.unit}",
         legendgroup="criterion",
         showlegend=show_legend,
         line=dict(color=INK, width=1.8, dash="longdash"),
@@ -420,7 +420,8 @@ def _k_axis(analysis, unit: DisplayUnit, extra=()) -> tuple[dict, str]:
     else:
         side = "below" if criterion < low else "above"
         note = (
-            f"criterion k ≤ {scientific(analysis.criterion * unit.factor, html=True)} "
+            f"criterion k {analysis.criterion.symbol} "
+            f"{scientific(analysis.criterion * unit.factor, html=True)} "
             f"{unit.unit} lies far {side} the plotted range"
         )
     pad = max(0.15, 0.06 * (high - low))
@@ -654,7 +655,8 @@ def compaction_conductivity_spec(
         yaxis2=dict(axes["yaxis2"], title=dict(text=k_title), **k_axis),
         title=dict(
             text="Compaction and hydraulic conductivity"
-            f"<br><sup>criterion k ≤ {scientific(analysis.criterion * ku.factor, html=True)} "
+            f"<br><sup>criterion k {analysis.criterion.symbol} "
+            f"{scientific(analysis.criterion * ku.factor, html=True)} "
             f"{ku.unit}; filled: meets, open: does not meet, dotted: not conclusive</sup>"
         ),
         margin=dict(t=95, b=60),

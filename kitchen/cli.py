@@ -23,6 +23,7 @@ from .memo import ImageExportUnavailable
 from .results import CAPILLARY_RISE_OPTIONS, Settings, results_table, series_results
 from .revisions import load_effective_series
 from .series import TABLE_NAMES, SeriesError
+from .trends import CRITERION_KINDS, as_criterion
 from .uncertainty import PROPAGATION_METHODS
 from .water import VISCOSITY_METHODS
 
@@ -83,8 +84,9 @@ def _add_memo_options(report) -> None:
         "--criterion",
         type=float,
         default=1e-9,
-        help="largest k allowed, m/s, from the project specification (default 1e-9)",
+        help="k limit from the project specification, m/s (default 1e-9, a largest k allowed)",
     )
+    _add_criterion_kind(report)
     report.add_argument(
         "--k-unit", choices=("m/s", "cm/s"), default="m/s", help="k unit of charts and report"
     )
@@ -105,6 +107,22 @@ def _add_memo_options(report) -> None:
         help="inline plotly.js (about 4.8 MB) in every HTML page so each opens on its own; "
         "by default the pack holds it once, in charts/plotly.min.js",
     )
+
+
+def _add_criterion_kind(command) -> None:
+    command.add_argument(
+        "--criterion-kind",
+        choices=CRITERION_KINDS,
+        default="maximum",
+        help="maximum: the largest k allowed (a liner, k <= criterion); minimum: the smallest "
+        "k required (a drainage layer, k >= criterion)",
+    )
+
+
+def _criterion(arguments):
+    if arguments.criterion is None:
+        return None
+    return as_criterion(arguments.criterion, arguments.criterion_kind)
 
 
 def _progress(done: int, total: int, what: str) -> None:
@@ -130,8 +148,9 @@ def _add_revision_commands(commands) -> None:
     revise.add_argument("--reason", required=True, help="why (required)")
     revise.add_argument("--who", default="", help="who makes the revision")
     revise.add_argument(
-        "--criterion", type=float, help="largest k allowed, m/s, to show each verdict"
+        "--criterion", type=float, help="k limit, m/s, to show each verdict before and after"
     )
+    _add_criterion_kind(revise)
     history = commands.add_parser("history", help="list a series' revisions")
     history.add_argument("series", type=Path, help="series folder or .xlsx workbook")
     history.add_argument("--out", type=Path, help="also write the history to this CSV file")
@@ -155,7 +174,7 @@ def _report(arguments) -> int:
         series,
         arguments.out,
         settings=settings,
-        criterion=arguments.criterion,
+        criterion=_criterion(arguments),
         k_unit=arguments.k_unit,
         density_unit=arguments.density_unit,
         results=results,
@@ -203,7 +222,7 @@ def _revise(arguments, parser) -> int:
         print(f"recorded revision {row.id}")
     print(f"  {row.describe()}")
     try:
-        moved = revision_effect(arguments.series, row.id, criterion=arguments.criterion)
+        moved = revision_effect(arguments.series, row.id, criterion=_criterion(arguments))
     except Exception as error:  # the revision stands; only the summary failed
         print(
             f"kitchen: revision {row.id} is recorded, but what it changed could not be worked "

@@ -402,8 +402,10 @@ def export_memo_pack(
         Folder for the pack; created when missing.
     settings : Settings, optional
         Reference temperature and viscosity method.
-    criterion : float, default 1e-9
-        Largest conductivity allowed, from the project specification. [m/s]
+    criterion : float or Criterion, default 1e-9
+        Largest conductivity allowed (a number), or a :class:`kitchen.trends.Criterion` of
+        either kind (a drainage layer's smallest k required), from the project
+        specification. [m/s]
     k_unit : {"m/s", "cm/s"}
         Conductivity unit of the charts and the report.
     density_unit : {"Mg/m³", "kN/m³", "lb/ft³"}
@@ -449,13 +451,16 @@ def export_memo_pack(
     if results is None:
         results = series_results(series, settings, windows)
     analysis = analyse_series(results, criterion, settings.reference_temperature)
+    criterion = analysis.criterion
     label = reference_label(settings)
     criterion_text = (
-        f"criterion {label} ≤ {display_units.scientific(criterion * ku.factor)} {ku.unit}"
+        f"criterion {label} {criterion.symbol} "
+        f"{display_units.scientific(criterion * ku.factor)} {ku.unit} ({criterion.words})"
     )
     chosen = {
         **_settings_dict(settings),
         "criterion [m/s]": f"{criterion:g}",
+        "criterion kind": criterion.kind,
         "k unit": ku.unit,
         "density unit": du.unit,
         "confidence": f"{analysis.confidence:g}",

@@ -299,6 +299,23 @@ def _specimen_rows(analysis: SeriesAnalysis, ku: DisplayUnit, du: DisplayUnit) -
     return rows
 
 
+def _verdict_rule(analysis: SeriesAnalysis, label: str) -> str:
+    """How a verdict is reached against the analysis's criterion, as HTML."""
+    interval = f"{100 * analysis.confidence:g} % interval of {label}"
+    if analysis.criterion.kind == "minimum":
+        meets, fails = "lower end", "upper end"
+        meets_how, fails_how = "at or above", "below"
+    else:
+        meets, fails = "upper end", "lower end"
+        meets_how, fails_how = "at or below", "above"
+    return (
+        f"{VERDICT_MARKS[MEETS]} meets where the {meets} of the {interval} is {meets_how} "
+        f"the criterion; {VERDICT_MARKS[DOES_NOT_MEET]} does not meet where its {fails} is "
+        f"{fails_how} it; {VERDICT_MARKS[NOT_CONCLUSIVE]} not conclusive where the interval "
+        "straddles it."
+    )
+
+
 def _summary(analysis: SeriesAnalysis, ku: DisplayUnit, criterion_text: str) -> str:
     counts = analysis.counts
     words = ", ".join(f"{VERDICT_MARKS[v]} {_e(v)}: {counts[v]}" for v in VERDICTS)
@@ -451,10 +468,7 @@ def report_page(
     criteria = (
         f"<ul><li>{_e(criterion_text)} (from the project specification; an input, never a "
         "constant).</li>"
-        f"<li>Verdict: {VERDICT_MARKS[MEETS]} meets where the upper end of the "
-        f"{100 * analysis.confidence:g} % interval of {label} is at or below the criterion; "
-        f"{VERDICT_MARKS[DOES_NOT_MEET]} does not meet where its lower end is above it; "
-        f"{VERDICT_MARKS[NOT_CONCLUSIVE]} not conclusive where the interval straddles it.</li>"
+        f"<li>Verdict: {_verdict_rule(analysis, label)}</li>"
         f"<li>Acceptable zone: {zone}.</li>"
         f"<li>Reference temperature and viscosity: see the settings under Provenance.</li></ul>"
     )

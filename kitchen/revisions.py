@@ -981,8 +981,9 @@ def what_changed(
         From :func:`kitchen.results.series_results`, before and after a revision. Needs
         ``specimen``, ``method``, ``dry_density``, ``void_ratio``, ``k_reference``,
         ``k_reference_low``, ``k_reference_high`` and ``valid``.
-    criterion : float, optional
-        Largest conductivity allowed; when given, each side's verdict from
+    criterion : float or Criterion, optional
+        Largest conductivity allowed (a number), or a :class:`kitchen.trends.Criterion` of
+        either kind; when given, each side's verdict from
         :func:`kitchen.trends.classify_against_criterion`. [m/s]
 
     Returns

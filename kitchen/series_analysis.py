@@ -31,6 +31,7 @@ from .trends import (
     MEETS,
     NOT_CONCLUSIVE,
     ConductivityTrend,
+    Criterion,
     GeometricMean,
     VoidRatioTrend,
     classify_against_criterion,
@@ -70,9 +71,11 @@ ANALYSIS_METHODS = (
     ),
     (
         "verdict against the criterion",
-        "meets where the upper end of the 95 % interval of k is at or below the criterion, "
-        "does not meet where the lower end is above it, not conclusive where the interval "
-        "straddles it (or there is no interval)",
+        "against a largest k allowed: meets where the upper end of the 95 % interval of k "
+        "is at or below it, does not meet where the lower end is above it; against a "
+        "smallest k required: meets where the lower end is at or above it, does not meet "
+        "where the upper end is below it; not conclusive where the interval straddles the "
+        "criterion (or there is no interval)",
         "the tool's own rule; criterion from the project specification (1×10⁻⁹ m/s is "
         "common for liners: US 40 CFR 258.40, EU Directive 1999/31/EC Annex I)",
     ),
@@ -134,8 +137,9 @@ class SeriesAnalysis:
 
     Attributes
     ----------
-    criterion : float
-        Largest conductivity allowed. [m/s]
+    criterion : Criterion
+        Largest conductivity allowed (kind ``"maximum"``) or smallest required (kind
+        ``"minimum"``); a float in m/s. [m/s]
     reference_temperature : float
         Temperature the conductivities are corrected to, for labels. [degC]
     confidence : float
@@ -167,7 +171,7 @@ class SeriesAnalysis:
         What was left out and why, and cautions raised by the analyses.
     """
 
-    criterion: float
+    criterion: Criterion
     reference_temperature: float
     confidence: float
     specimens: pd.DataFrame
@@ -346,8 +350,10 @@ def analyse_series(
         ``dry_density`` [kg/m3], ``void_ratio`` [-], ``saturation`` [-],
         ``specific_gravity`` [-], ``d10`` [m], ``k_reference``, ``k_reference_low``,
         ``k_reference_high`` [m/s], and ``valid`` when present.
-    criterion : float
-        Largest conductivity allowed, from the project specification. [m/s]
+    criterion : float or Criterion
+        Largest conductivity allowed (a number), or a :class:`kitchen.trends.Criterion`
+        of either kind (a drainage layer's smallest k required), from the project
+        specification. [m/s]
     reference_temperature : float, default 20.0
         Temperature the results are corrected to, carried for labels. [degC]
     confidence : float, default 0.95
@@ -378,12 +384,14 @@ def analyse_series(
     :mod:`kitchen.compaction` and :mod:`kitchen.trends`.
     """
     _require_results(results)
+    kind = criterion.kind if isinstance(criterion, Criterion) else "maximum"
     try:
-        criterion = float(criterion)
+        limit = float(criterion)
     except (TypeError, ValueError):
         raise ValueError(f"criterion: expected a conductivity in m/s, got {criterion!r}") from None
-    if not np.isfinite(criterion) or criterion <= 0:
+    if not np.isfinite(limit) or limit <= 0:
         raise ValueError(f"criterion: expected a positive conductivity in m/s, got {criterion!r}")
+    criterion = Criterion(limit, kind)
     notes: list[str] = []
     frame = _usable_conductivity(_one_per_specimen(results, notes), notes)
     if frame.empty:

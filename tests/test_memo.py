@@ -323,6 +323,26 @@ def test_command_line_without_images(tmp_path):
     assert not list(tmp_path.glob("charts/*.png")) and list(tmp_path.glob("charts/*.html"))
 
 
+def test_command_line_drainage_criterion_is_a_smallest_k(tmp_path):
+    # the invented drainage sand meets a smallest k of 1e-4 m/s (truth.json: k20 of 1.5e-4
+    # to 3.5e-3 m/s); the report, the workbook and every chart say which way the limit goes
+    done = run("report", SAMPLES / "drainage_sand", "--out", tmp_path, "--no-images",
+               "--criterion", "1e-4", "--criterion-kind", "minimum")  # fmt: skip
+    assert done.returncode == 0, done.stderr
+    report = (tmp_path / "report.html").read_text()
+    assert "k20 ≥ 1×10⁻⁴ m/s (smallest k required)" in report
+    assert "meets: 4" in report and "lower end of the 95 % interval" in report
+    notes = pd.read_excel(tmp_path / "results.xlsx", sheet_name="cautions")
+    assert "minimum" in notes.to_string()
+    for chart in tmp_path.glob("charts/*.html"):
+        text = chart.read_text()
+        if "criterion k" in text:
+            assert "criterion k \\u2265" in text and "\\u2264" not in text, chart.name
+    bad = run("report", SAMPLES / "drainage_sand", "--out", tmp_path / "x", "--no-images",
+              "--criterion-kind", "least")  # fmt: skip
+    assert bad.returncode == 2 and "invalid choice: 'least'" in bad.stderr
+
+
 def test_command_line_self_contained_pages_stand_alone(tmp_path):
     done = run("report", SAMPLES / "drainage_sand", "--out", tmp_path, "--no-images",
                "--self-contained")  # fmt: skip

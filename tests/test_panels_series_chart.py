@@ -29,11 +29,33 @@ def panel(clay):
 
 
 @pytest.mark.parametrize(
-    ("text", "value"),
-    [("1e-9 m/s", 1e-9), ("1e-7 cm/s", 1e-9), ("2.5e-10m/s", 2.5e-10)],
+    ("text", "value", "kind"),
+    [
+        ("1e-9 m/s", 1e-9, "maximum"),
+        ("1e-7 cm/s", 1e-9, "maximum"),
+        ("2.5e-10m/s", 2.5e-10, "maximum"),
+        ("≤ 1e-9 m/s", 1e-9, "maximum"),
+        ("k <= 1e-9 m/s", 1e-9, "maximum"),
+        ("max 1e-9 m/s", 1e-9, "maximum"),
+        ("≥ 1e-4 m/s", 1e-4, "minimum"),
+        (">=1e-2 cm/s", 1e-4, "minimum"),
+        ("Min 1e-4 m/s", 1e-4, "minimum"),
+    ],
 )
-def test_criterion_is_read_with_its_unit(text, value):
-    assert parse_criterion(text) == value
+def test_criterion_is_read_with_its_unit_and_direction(text, value, kind):
+    criterion = parse_criterion(text)
+    assert criterion == value and criterion.kind == kind
+
+
+def test_a_drainage_criterion_reaches_the_verdicts_and_the_chart():
+    # the invented drainage sand (sample_data/drainage_sand/truth.json): every k20 is above
+    # the smallest k of 1e-4 m/s such a layer is often required to have (from memory)
+    panel = series_chart_panel(SAMPLES / "drainage_sand", criterion="≥ 1e-4 m/s")
+    assert panel.analysis.criterion.kind == "minimum"
+    assert panel.analysis.counts["meets"] == 4
+    assert "k20 ≥" in panel.verdicts.value
+    names = [trace.name for trace in panel.figures["void_ratio"].data if trace.name]
+    assert any(name.startswith("criterion k ≥") for name in names)
 
 
 @pytest.mark.parametrize(

@@ -15,7 +15,7 @@ from scipy import stats
 from kitchen.results import series_results
 from kitchen.series import load_series
 from kitchen.series_analysis import VERDICTS, analyse_series
-from kitchen.trends import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE
+from kitchen.trends import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE, Criterion
 
 SAMPLES = Path(__file__).resolve().parents[1] / "sample_data"
 
@@ -286,3 +286,17 @@ def test_sample_sand_has_no_compaction_plane_but_predictions():
     e_ref, k_ref = analysis.kozeny_carman_reference
     assert analysis.kozeny_carman_conductivity(e_ref) == pytest.approx(k_ref)
     assert k_ref == pytest.approx(stats.gmean(analysis.specimens["k"]), rel=1e-12)
+
+
+def test_sample_sand_against_the_smallest_k_a_drainage_layer_requires():
+    # the invented drainage sand was generated with k20 of 1.5e-4 to 3.5e-3 m/s (truth.json):
+    # every specimen meets a smallest k of 1e-4 m/s, none a liner's largest of 1e-9 m/s
+    results = series_results(load_series(SAMPLES / "drainage_sand"))
+    truth = json.loads((SAMPLES / "drainage_sand" / "truth.json").read_text())
+    drainage = analyse_series(results, Criterion(1e-4, "minimum"))
+    assert drainage.criterion.kind == "minimum"
+    for _, row in drainage.specimens.iterrows():
+        k_true = truth["specimens"][row["specimen"]]["k20_m_per_s"]
+        assert row["verdict"] == (MEETS if k_true >= 1e-4 else DOES_NOT_MEET), row["specimen"]
+    assert drainage.counts[MEETS] == 4
+    assert analyse_series(results, 1e-9).counts[DOES_NOT_MEET] == 4

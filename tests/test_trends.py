@@ -148,6 +148,34 @@ def test_classification_on_hand_made_intervals():
     assert isinstance(array, np.ndarray) and list(array) == ["does not meet"]
 
 
+def test_classification_against_a_smallest_k_required():
+    # a drainage layer: the specification names the smallest k (1e-4 m/s here, an input);
+    # the same intervals mirrored: the whole interval at or above meets, below does not
+    minimum = trends.Criterion(1e-4, "minimum")
+    k = np.array([3e-4, 5e-5, 1.1e-4, 1.2e-4, 9e-5])
+    low = np.array([2e-4, 4e-5, 9e-5, 1e-4, 8e-5])
+    high = np.array([4e-4, 6e-5, 1.3e-4, 1.4e-4, 1e-4 - 1e-12])
+    verdict = trends.classify_against_criterion(k, low, high, minimum)
+    # A: above; B: below; C: straddles; D: bottom on the line (meets); E: top just below
+    assert list(verdict) == ["meets", "does not meet", "not conclusive", "meets", "does not meet"]
+    maximum = trends.classify_against_criterion(k, low, high, trends.Criterion(1e-4))
+    assert list(maximum) == ["does not meet", "meets", "not conclusive", "not conclusive", "meets"]
+
+
+def test_a_criterion_is_a_float_that_knows_its_direction():
+    import pickle
+
+    c = trends.Criterion(1e-4, "minimum")
+    assert c == 1e-4 and c * 100 == pytest.approx(1e-2) and c.symbol == "≥"
+    assert pickle.loads(pickle.dumps(c)).kind == "minimum"
+    assert trends.as_criterion(1e-9).kind == "maximum" and trends.as_criterion(c) is not None
+    assert trends.as_criterion(2e-9, "minimum") == trends.Criterion(2e-9, "minimum")
+    with pytest.raises(ValueError, match="expected 'maximum'"):
+        trends.Criterion(1e-4, "most")
+    with pytest.raises(ValueError, match="minimum: expected a positive"):
+        trends.as_criterion(-1.0, "minimum")
+
+
 @pytest.mark.parametrize(
     "args, message",
     [

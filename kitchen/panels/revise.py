@@ -399,7 +399,8 @@ def revise_panel(
     settings : Settings, optional
         Reference temperature and viscosity method of the before/after comparison.
     criterion : str, default "1e-9 m/s"
-        The largest k allowed, for the verdicts before and after.
+        The criterion, for the verdicts before and after: the largest k allowed
+        (``1e-9 m/s``) or the smallest required (``≥ 1e-4 m/s``).
 
     Returns
     -------
@@ -436,7 +437,7 @@ def revise_panel(
             layout=widgets.Layout(width="460px"),
         ),
         who=widgets.Text(description="Who", placeholder="optional"),
-        criterion=widgets.Text(value=criterion, description="Largest k allowed", **wide),
+        criterion=widgets.Text(value=criterion, description="k criterion", **wide),
         record=widgets.Button(description="Record revision", button_style="primary"),
         withdraw_choice=widgets.Dropdown(
             description="In force", layout=widgets.Layout(width="620px")

@@ -25,6 +25,7 @@ from ..results import Settings, reference_label, series_results
 from ..revisions import EffectiveSeries
 from ..series import Series
 from ..series_analysis import VERDICTS, SeriesAnalysis, analyse_series
+from ..trends import Criterion
 from .common import (
     MessageArea,
     ProgressBar,
@@ -45,12 +46,24 @@ CHARTS = (
 """The panel's charts: key and tab title."""
 
 _CRITERION = re.compile(
-    r"^\s*(?P<number>[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(?P<unit>\S*)\s*$"
+    r"^\s*(?:k\s*)?(?P<op><=|≤|>=|≥|max(?:imum)?|min(?:imum)?)?\s*"
+    r"(?P<number>[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(?P<unit>\S*)\s*$",
+    re.IGNORECASE,
 )
+_MINIMUM_OPS = (">=", "≥", "min", "minimum")
 
 
-def parse_criterion(text: str) -> float:
-    """The criterion typed by a person, ``"1e-9 m/s"`` or ``"1e-7 cm/s"``, in m/s.
+def parse_criterion(text: str) -> Criterion:
+    """The criterion typed by a person, in m/s, with its direction.
+
+    ``"1e-9 m/s"``, ``"≤ 1e-9 m/s"``, ``"<= 1e-7 cm/s"`` or ``"max 1e-9 m/s"``: the largest
+    k allowed (a liner). ``"≥ 1e-4 m/s"``, ``">= 1e-2 cm/s"`` or ``"min 1e-4 m/s"``: the
+    smallest k required (a drainage layer).
+
+    Returns
+    -------
+    Criterion
+        A float in m/s with its ``kind``, ``"maximum"`` or ``"minimum"``.
 
     Raises
     ------
@@ -60,7 +73,8 @@ def parse_criterion(text: str) -> float:
     match = _CRITERION.match(str(text))
     if match is None:
         raise ValueError(
-            f"criterion {text!r}: expected a number and its unit, for example 1e-9 m/s"
+            f"criterion {text!r}: expected a number and its unit, for example 1e-9 m/s "
+            "(largest k allowed) or ≥ 1e-4 m/s (smallest k required)"
         )
     unit = match.group("unit")
     if unit not in K_UNITS:
@@ -72,7 +86,8 @@ def parse_criterion(text: str) -> float:
     value = float(Decimal(match.group("number")) / Decimal(K_UNITS[unit].factor))
     if not value > 0:
         raise ValueError(f"criterion {text!r}: expected a positive conductivity")
-    return value
+    op = (match.group("op") or "").lower()
+    return Criterion(value, "minimum" if op in _MINIMUM_OPS else "maximum")
 
 
 def verdict_table(analysis: SeriesAnalysis, unit: str, label: str) -> pd.DataFrame:
@@ -104,7 +119,8 @@ class SeriesChartPanel:
     ----------
     widget : ipywidgets.VBox
     criterion : ipywidgets.Text
-        The largest k allowed, with its unit (``1e-9 m/s``).
+        The criterion with its unit: the largest k allowed (``1e-9 m/s``), or the
+        smallest required (``≥ 1e-4 m/s``); see :func:`parse_criterion`.
     k_unit, density_unit : ipywidgets.ToggleButtons
         Units of the charts.
     figures : dict of str to plotly.graph_objects.FigureWidget
@@ -168,7 +184,7 @@ class SeriesChartPanel:
             self.chart_box.children = [shown]
 
     @property
-    def criterion_value(self) -> float:
+    def criterion_value(self) -> Criterion:
         """The criterion in m/s, as typed. [m/s]"""
         return parse_criterion(self.criterion.value)
 
@@ -202,7 +218,7 @@ class SeriesChartPanel:
         mean = self.analysis.geometric_mean
         parts = [f"{html.escape(v)}: {counts[v]}" for v in VERDICTS]
         line = (
-            f"Against <b>{label} ≤ "
+            f"Against <b>{label} {criterion.symbol} "
             f"<span class='kitchen-criterion'>{format_conductivity(criterion, unit)}</span></b>: "
             + ", ".join(parts)
             + f" (of {len(self.analysis.specimens)} specimens)."
@@ -307,7 +323,8 @@ def series_chart_panel(
     results = series_results(series, settings)
     criterion_box = widgets.Text(
         value=str(criterion),
-        description="Largest k allowed",
+        description="k criterion",
+        placeholder="1e-9 m/s (largest) or ≥ 1e-4 m/s (smallest)",
         continuous_update=False,
         style={"description_width": "initial"},
         layout=widgets.Layout(width="280px"),
