@@ -105,6 +105,23 @@ def test_scratch_copy_leaves_the_original_alone(tmp_path):
     assert (source / "specimens.csv").read_text() == "specimen\nA\n"
     with pytest.raises(FileNotFoundError, match="not found"):
         scratch_copy(tmp_path / "missing")
+    again = scratch_copy(source, tmp_path / "scratch")  # a second run replaces the first copy
+    assert again == copy and (again / "specimens.csv").read_text() == "specimen\nA\n"
+    assert [p.name for p in (tmp_path / "scratch").iterdir()] == ["series"]
+    with pytest.raises(ValueError, match="would replace the series itself"):
+        scratch_copy(source, tmp_path)
+
+
+def test_scratch_copy_of_a_workbook_takes_its_own_log(tmp_path):
+    # a workbook's log sits beside it as <stem>.revisions.csv (kitchen.revisions)
+    book = tmp_path / "liner.xlsx"
+    book.write_bytes(b"not read here")
+    (tmp_path / "liner.revisions.csv").write_text("log")
+    copy = scratch_copy(book, tmp_path / "scratch")
+    assert (tmp_path / "scratch" / "liner.revisions.csv").read_text() == "log"
+    (tmp_path / "liner.revisions.csv").unlink()
+    scratch_copy(book, tmp_path / "scratch")
+    assert copy.exists() and not (tmp_path / "scratch" / "liner.revisions.csv").exists()
 
 
 def test_an_expected_failure_is_a_refusal_not_a_fault():

@@ -25,7 +25,7 @@ import ipywidgets as widgets
 import numpy as np
 import pandas as pd
 
-from ..revisions import EffectiveSeries, RevisionError, load_effective_series
+from ..revisions import EffectiveSeries, RevisionError, load_effective_series, revisions_path
 from ..series import Series, SeriesError
 from ..units import UnitError
 from .refresh import refresh_figure
@@ -262,34 +262,49 @@ def caution_box(cautions: Iterable[str]) -> widgets.HTML:
     )
 
 
+SCRATCH_FOLDER = Path(tempfile.gettempdir()) / "kitchen-scratch"
+"""Where :func:`scratch_copy` puts its copies unless told otherwise."""
+
+
 def scratch_copy(path: str | Path, folder: str | Path | None = None) -> Path:
-    """Copy a series folder (or a workbook with its revisions log) to a scratch folder.
+    """Copy a series folder (or a workbook with its revision log) to a scratch folder.
 
     Parameters
     ----------
     path : str or pathlib.Path
         A series folder, or an ``.xlsx`` workbook.
     folder : str or pathlib.Path, optional
-        Where to put the copy; a new temporary folder by default.
+        Where to put the copy; :data:`SCRATCH_FOLDER` by default.
 
     Returns
     -------
     pathlib.Path
-        The copy, to revise without touching the original.
+        The copy, to revise without touching the original. A scratch copy made before
+        under the same name is replaced (with its revisions), so running a notebook again
+        starts from the series as it is and leaves one copy, not one per run.
     """
     source = Path(path)
     if not source.exists():
         raise FileNotFoundError(f"{source}: not found; expected a series folder or .xlsx")
-    target_root = Path(folder) if folder is not None else Path(tempfile.mkdtemp(prefix="kitchen-"))
+    target_root = Path(folder) if folder is not None else SCRATCH_FOLDER
     target_root.mkdir(parents=True, exist_ok=True)
     target = target_root / source.name
+    log = revisions_path(source)
+    if target.resolve() == source.resolve():
+        raise ValueError(f"{source}: the scratch copy would replace the series itself")
+    if target.is_dir():
+        shutil.rmtree(target)
+    elif target.exists():
+        target.unlink()
     if source.is_dir():
         shutil.copytree(source, target)
     else:
         shutil.copy2(source, target)
-        log = source.with_name("revisions.csv")
+        copied_log = revisions_path(target)
         if log.exists():
-            shutil.copy2(log, target_root / log.name)
+            shutil.copy2(log, copied_log)
+        elif copied_log.exists():
+            copied_log.unlink()  # an earlier copy's revisions, not the series'
     return target
 
 
