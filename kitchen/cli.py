@@ -26,6 +26,7 @@ from .series import TABLE_NAMES, SeriesError
 from .trends import CRITERION_KINDS, as_criterion
 from .uncertainty import PROPAGATION_METHODS
 from .water import VISCOSITY_METHODS
+from .windows import chosen_windows, read_window_choices, window_log_sha256, windows_path
 
 __all__ = ["main", "build_parser"]
 
@@ -87,6 +88,12 @@ def _add_memo_options(report) -> None:
         help="k limit from the project specification, m/s (default 1e-9, a largest k allowed)",
     )
     _add_criterion_kind(report)
+    report.add_argument(
+        "--proposed-windows",
+        action="store_true",
+        help="use the tool's proposed reading window for every specimen, not the windows "
+        "recorded in the series' window log (windows.csv)",
+    )
     report.add_argument(
         "--k-unit", choices=("m/s", "cm/s"), default="m/s", help="k unit of charts and report"
     )
@@ -151,6 +158,22 @@ def _add_revision_commands(commands) -> None:
         "--criterion", type=float, help="k limit, m/s, to show each verdict before and after"
     )
     _add_criterion_kind(revise)
+    window = commands.add_parser(
+        "window",
+        help="record the falling-head reading window chosen for a specimen",
+        description="Append a row to the series' window log (windows.csv in the series "
+        "folder, <stem>.windows.csv beside a workbook); report then reduces the specimen with "
+        "that window. The readings are named by their row numbers in the readings file.",
+    )
+    window.add_argument("series", type=Path, help="series folder or .xlsx workbook")
+    window.add_argument("--specimen", required=True, help="specimen id")
+    window.add_argument("--first-row", type=int, help="file row of the window's first reading")
+    window.add_argument("--last-row", type=int, help="file row of its last reading (included)")
+    window.add_argument(
+        "--proposed", action="store_true", help="hand the specimen back to the tool's proposal"
+    )
+    window.add_argument("--reason", required=True, help="why this window (required)")
+    window.add_argument("--who", default="", help="who chose it")
     history = commands.add_parser("history", help="list a series' revisions")
     history.add_argument("series", type=Path, help="series folder or .xlsx workbook")
     history.add_argument("--out", type=Path, help="also write the history to this CSV file")
@@ -168,7 +191,9 @@ def _report(arguments) -> int:
     )
     effective = load_effective_series(arguments.series)
     series = effective.series
-    results = series_results(series, settings)
+    choices = () if arguments.proposed_windows else read_window_choices(arguments.series)
+    windows = chosen_windows(series, choices)
+    results = series_results(series, settings, windows)
     table = results_table(results, settings)
     pack = export_memo_pack(
         series,
@@ -178,6 +203,9 @@ def _report(arguments) -> int:
         k_unit=arguments.k_unit,
         density_unit=arguments.density_unit,
         results=results,
+        windows=windows,
+        window_choices=choices,
+        window_log_sha256=window_log_sha256(arguments.series) if choices else None,
         images=not arguments.no_images,
         self_contained=arguments.self_contained,
         revision_count=effective.revision_count,
@@ -189,6 +217,8 @@ def _report(arguments) -> int:
     print(f"{len(table)} result row(s) for {series.name} written to {path}")
     print(f"memo pack: {len(pack)} file(s) in {arguments.out} ({pack.seconds:.1f} s)")
     print(f"{effective.revision_count} revision(s) applied from {effective.log_path}")
+    if windows:
+        print(f"{len(windows)} reading window(s) chosen, from {windows_path(arguments.series)}")
     return 0
 
 
@@ -258,6 +288,32 @@ def _change_words(change) -> str:
     return "; ".join(words)
 
 
+def _window(arguments, parser) -> int:
+    from .windows import choose_window, clear_window, standing_choices
+
+    given = arguments.first_row is not None, arguments.last_row is not None
+    if arguments.proposed == any(given) or (not arguments.proposed and not all(given)):
+        parser.error("give --first-row and --last-row, or --proposed")
+    if arguments.proposed:
+        row = clear_window(
+            arguments.series, arguments.specimen, reason=arguments.reason, who=arguments.who
+        )
+    else:
+        row = choose_window(
+            arguments.series,
+            arguments.specimen,
+            arguments.first_row,
+            arguments.last_row,
+            reason=arguments.reason,
+            who=arguments.who,
+        )
+    print(f"recorded window {row.id} in {windows_path(arguments.series)}: {row.describe()}")
+    standing = [c for c in standing_choices(read_window_choices(arguments.series)).values()]
+    chosen = [c.describe() for c in standing if not c.proposed]
+    print(f"windows on record: {'; '.join(chosen) if chosen else 'none (all proposed)'}")
+    return 0
+
+
 def _history(arguments) -> int:
     from .files import write_csv
     from .revisions import format_history, history_table, read_revisions, revisions_path
@@ -283,6 +339,8 @@ def main(argv: list[str] | None = None) -> int:
             return _report(arguments)
         if arguments.command == "revise":
             return _revise(arguments, parser)
+        if arguments.command == "window":
+            return _window(arguments, parser)
         if arguments.command == "history":
             return _history(arguments)
     except SeriesError as error:

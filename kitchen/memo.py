@@ -53,6 +53,7 @@ from .results import Settings, reference_label, results_table, series_results
 from .series import Series
 from .series_analysis import SeriesAnalysis, analyse_series
 from .specimen import specimen_state
+from .windows import standing_choices
 
 __all__ = [
     "CHART_SCRIPT",
@@ -365,6 +366,25 @@ def _settings_dict(settings: Settings) -> dict:
     return flat
 
 
+def _windows_text(windows: dict | None, choices) -> str:
+    """The falling-head reading windows in force, in words, for the provenance."""
+    if not windows:
+        return "proposed by the tool for every specimen"
+    standing = standing_choices(choices)
+    parts = []
+    for specimen, (start, stop) in windows.items():
+        choice = standing.get(specimen)
+        if choice is not None and not choice.proposed:
+            who = f"{choice.who}, " if choice.who else ""
+            parts.append(
+                f"{specimen}: file rows {choice.first_row}-{choice.last_row} "
+                f"({who}{choice.when}: {choice.reason})"
+            )
+        else:
+            parts.append(f"{specimen}: readings {start + 1}-{stop}")
+    return "chosen for " + "; ".join(parts) + "; proposed by the tool for the others"
+
+
 def _figure_html(figure, name: str) -> str:
     """The figure as an HTML fragment without plotly.js (the page's head loads it)."""
     return figure.to_html(
@@ -385,6 +405,8 @@ def export_memo_pack(
     density_unit: str = "Mg/m³",
     results: pd.DataFrame | None = None,
     windows: dict | None = None,
+    window_choices=(),
+    window_log_sha256: str | None = None,
     images: bool = True,
     self_contained: bool = False,
     revision_count: int = 0,
@@ -413,7 +435,13 @@ def export_memo_pack(
     results : pandas.DataFrame, optional
         :func:`kitchen.results.series_results` of the series, when already reduced.
     windows : dict, optional
-        Falling-head reading windows ``{specimen: (start, stop)}``.
+        Falling-head reading windows ``{specimen: (start, stop)}``; the others are
+        proposed by the tool.
+    window_choices : sequence of WindowChoice, optional
+        The rows of the series' window log (:func:`kitchen.windows.read_window_choices`),
+        so that the provenance names who chose each window, when and why.
+    window_log_sha256 : str, optional
+        SHA-256 of that log (:func:`kitchen.windows.window_log_sha256`).
     images : bool, default True
         Write PNG and SVG beside each chart's HTML (needs Chromium).
     self_contained : bool, default False
@@ -465,7 +493,8 @@ def export_memo_pack(
         "density unit": du.unit,
         "confidence": f"{analysis.confidence:g}",
         "compaction curve": "quadratic",
-        "reading windows": windows or "all readings",
+        "reading windows": _windows_text(windows, window_choices),
+        "window log SHA-256": window_log_sha256 or "no window log",
     }
     provenance = memo_provenance(
         series.input_files,

@@ -41,6 +41,7 @@ from .revisions import (
 )
 from .series import TABLE_NAMES, RawTable, Series, build_series, read_tables, rebuild_series
 from .specimen import specimen_state
+from .windows import chosen_windows, read_window_choices
 
 __all__ = ["Workspace", "frame_digest"]
 
@@ -147,6 +148,9 @@ class Workspace:
         self._reading_digests: dict[str, dict[str, str]] = {}
         self._index_readings(READING_TABLES)
         self._index_specimens()
+        self._window_choices: tuple = ()
+        self._logged_windows: dict[str, tuple[int, int]] = {}
+        self._apply_choices(read_window_choices(self.path))
         self.last_moved: tuple[str, ...] = ()
         """The specimens moved by the last :meth:`revise` or :meth:`withdraw`."""
         self.last_timings: dict[str, float] = {}
@@ -245,7 +249,7 @@ class Workspace:
             self._specimen_digests[specimen],
             self._reading_digests[table][specimen],
             self._settings_digest,
-            self._windows.get(specimen) if falling else None,
+            self._window_of(specimen) if falling else None,
             self._rises.get(specimen) if falling else None,
         )
 
@@ -287,24 +291,47 @@ class Workspace:
             changed = {r.table for r in revisions[len(held) :]}
         else:  # rows were changed or removed (by hand): apply the whole log again
             changed = {r.table for r in revisions} | {r.table for r in held}
-        if not changed:
+        choices = read_window_choices(self.path)
+        if not changed and choices == self._window_choices:
             return ()
         before = self._inputs()
-        names = tuple(name for name in TABLE_NAMES if name in changed and name in self._written)
-        tables = dict(self._tables)
-        self._revisions, old = revisions, held
-        try:
-            tables.update({name: self._effective_table(name) for name in names})
-            series = rebuild_series(self._series, tables, names)
-        except Exception:
-            self._revisions = old
-            raise
-        self._tables, self._series = tables, series
-        self._log_sha256 = log_sha256(self.path)
-        if "specimens" in names:
-            self._index_specimens()
-        self._index_readings([name for name in names if name in READING_TABLES])
+        if changed:
+            names = tuple(name for name in TABLE_NAMES if name in changed and name in self._written)
+            tables = dict(self._tables)
+            self._revisions, old = revisions, held
+            try:
+                tables.update({name: self._effective_table(name) for name in names})
+                series = rebuild_series(self._series, tables, names)
+            except Exception:
+                self._revisions = old
+                raise
+            self._tables, self._series = tables, series
+            self._log_sha256 = log_sha256(self.path)
+            if "specimens" in names:
+                self._index_specimens()
+            self._index_readings([name for name in names if name in READING_TABLES])
+        self._apply_choices(choices)
         return self._moved(before)
+
+    def _apply_choices(self, choices) -> None:
+        """Take the windows of the window log; a window set since for a specimen the log
+        now names again gives way to the log."""
+        if choices == self._window_choices:
+            return
+        logged = chosen_windows(self._series, choices)
+        renamed = {c.specimen for c in choices[len(self._window_choices) :]}
+        if choices[: len(self._window_choices)] != self._window_choices:
+            renamed = {c.specimen for c in choices} | {c.specimen for c in self._window_choices}
+        for specimen in renamed:
+            self._windows.pop(specimen, None)
+        self._window_choices, self._logged_windows = choices, logged
+
+    def _window_of(self, specimen: str) -> tuple[int, int] | None:
+        """The window a specimen is reduced with: set here, else from the log, else None
+        (the tool proposes one)."""
+        if specimen in self._windows:
+            return self._windows[specimen]
+        return self._logged_windows.get(specimen)
 
     def _reread(self, revisions) -> tuple[str, ...]:
         """Read the raw files and the log again, as when the workspace was opened."""
@@ -323,6 +350,8 @@ class Workspace:
         self._log_sha256 = log_sha256(self.path)
         self._index_specimens()
         self._index_readings(READING_TABLES)
+        self._window_choices = ()  # the rows are checked again against the readings read
+        self._apply_choices(read_window_choices(self.path))
         return self._moved(before)
 
     def _moved(self, before: dict) -> tuple[str, ...]:
@@ -374,7 +403,10 @@ class Workspace:
         return self._moved(before)
 
     def set_window(self, specimen: str, window: tuple[int, int] | None) -> tuple[str, ...]:
-        """Choose a specimen's falling-head reading window (None: the tool proposes one)."""
+        """Try a falling-head reading window for a specimen (None: the tool proposes one).
+
+        The window holds in this workspace only; one recorded in the window log
+        (:func:`kitchen.windows.choose_window`) holds wherever the series is opened."""
         self.readings(specimen)
         before = self._inputs()
         self._windows[specimen] = None if window is None else tuple(int(v) for v in window)
@@ -426,7 +458,7 @@ class Workspace:
             else:
                 record = held[2]
             self._records[specimen] = (readings_key, row_key, record)
-            return record.analyse(self._windows.get(specimen))
+            return record.analyse(self._window_of(specimen))
         except ValueError as error:  # as kitchen.results.series_results words it
             raise ValueError(f"{self._series.name}, falling-head readings: {error}") from error
 

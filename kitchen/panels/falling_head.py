@@ -24,6 +24,15 @@ from ..falling_head import FALLING_HEAD_FITS, FallingHeadAnalysis, FallingHeadRe
 from ..results import Settings, reference_label
 from ..series import Series
 from ..specimen import specimen_state
+from ..windows import (
+    WindowChoice,
+    choose_window,
+    chosen_windows,
+    clear_window,
+    read_window_choices,
+    standing_choices,
+    windows_path,
+)
 from .common import (
     MessageArea,
     as_series,
@@ -120,6 +129,16 @@ class FallingHeadPanel:
         ``"log_linear"`` or ``"datum"`` (:data:`FIT_LABELS`).
     propose : ipywidgets.Button
         Sets the window the tool proposes (the longest that meets every criterion).
+    keep : ipywidgets.Button
+        Records the window shown in the series' window log (:mod:`kitchen.windows`), with
+        ``reason`` and ``who``: the series chart, the memo pack and the command line then
+        reduce the specimen with it.
+    release : ipywidgets.Button
+        Records that the specimen goes back to the tool's proposal.
+    reason, who : ipywidgets.Text
+        Why this window (required to keep one), and who chose it.
+    choice_label : ipywidgets.HTML
+        The window on record for the specimen, with who, when and why.
     figure : plotly.graph_objects.FigureWidget
         Head against time, log head axis, with the fitted curve and the window.
     increments : plotly.graph_objects.FigureWidget
@@ -141,6 +160,11 @@ class FallingHeadPanel:
     window_label: widgets.HTML
     fit_choice: widgets.ToggleButtons
     propose: widgets.Button
+    keep: widgets.Button
+    release: widgets.Button
+    reason: widgets.Text
+    who: widgets.Text
+    choice_label: widgets.HTML
     figure: go.FigureWidget
     increments: go.FigureWidget
     summary: widgets.HTML
@@ -149,6 +173,8 @@ class FallingHeadPanel:
     settings: Settings
     analysis: FallingHeadAnalysis | None = None
     records: dict = field(default_factory=dict)
+    choices: tuple = ()
+    windows: dict = field(default_factory=dict)
     _state: pd.DataFrame | None = None
     _readings: dict = field(default_factory=dict)
     _quiet: bool = False
@@ -179,7 +205,44 @@ class FallingHeadPanel:
         self.error.guard("refitting with the other fit")(self._fit)(self._chosen())
 
     def _specimen_changed(self, _change=None) -> None:
-        self.error.guard(f"opening specimen {self.specimen.value}")(self._fit)(None)
+        window = self.windows.get(self.specimen.value)
+        self.error.guard(f"opening specimen {self.specimen.value}")(self._fit)(window)
+
+    def keep_window(self, _button=None) -> None:
+        """Record the window shown in the window log, with the reason typed."""
+        self.error.guard("recording the window")(self._keep)()
+
+    def release_window(self, _button=None) -> None:
+        """Record that the specimen goes back to the tool's proposal, and show it."""
+        self.error.guard("handing the window back to the proposal")(self._release)()
+
+    def _keep(self) -> None:
+        rows = self.readings()["source_row"].to_numpy()
+        start, stop = self._chosen()
+        choose_window(
+            self.series.source,
+            self.specimen.value,
+            int(rows[start]),
+            int(rows[stop - 1]),
+            reason=self.reason.value,
+            who=self.who.value,
+            series=self.series,
+        )
+        self._reload_choices()
+        self.reason.value = ""
+        self._fit((start, stop))
+
+    def _release(self) -> None:
+        clear_window(
+            self.series.source, self.specimen.value, reason=self.reason.value, who=self.who.value
+        )
+        self._reload_choices()
+        self.reason.value = ""
+        self._fit(None)
+
+    def _reload_choices(self) -> None:
+        self.choices = read_window_choices(self.series.source)
+        self.windows = chosen_windows(self.series, self.choices)
 
     def propose_window(self, _button=None) -> None:
         """Set the window the tool proposes for the specimen and fit shown."""
@@ -223,6 +286,33 @@ class FallingHeadPanel:
             f"{label} = {format_conductivity(analysis.k_reference)}"
         )
         self.summary.value = _summary_html(analysis, self.settings)
+        self.choice_label.value = _choice_html(
+            standing_choices(self.choices).get(self.specimen.value),
+            self.windows.get(self.specimen.value),
+            (analysis.start, analysis.stop),
+            windows_path(self.series.source).name,
+        )
+
+
+def _choice_html(choice: WindowChoice | None, kept, shown, log: str) -> str:
+    """What the window log holds for the specimen, beside the window shown."""
+    if choice is None or choice.proposed:
+        held = "No window on record: the series chart and the memo use the tool's proposal."
+        if choice is not None:
+            held = (
+                f"Handed back to the tool's proposal ({html.escape(choice.when)}"
+                f"{', ' + html.escape(choice.who) if choice.who else ''}: "
+                f"{html.escape(choice.reason)})."
+            )
+    else:
+        who = f", {html.escape(choice.who)}" if choice.who else ""
+        held = (
+            f"On record in <code>{html.escape(log)}</code>: file rows {choice.first_row}–"
+            f"{choice.last_row} ({html.escape(choice.when)}{who}: {html.escape(choice.reason)})."
+        )
+        if tuple(shown) != tuple(kept):
+            held += " <b>The window shown is not the one on record.</b>"
+    return f"<div class='kitchen-window-choice'>{held}</div>"
 
 
 def falling_head_panel(
@@ -302,6 +392,15 @@ def falling_head_panel(
             layout=widgets.Layout(width="auto"),
         ),
         propose=widgets.Button(description="Propose a window", icon="magic"),
+        keep=widgets.Button(description="Keep this window", icon="check"),
+        release=widgets.Button(description="Back to the proposal", icon="undo"),
+        reason=widgets.Text(
+            description="Reason",
+            placeholder="required to keep a window: early readings before saturation",
+            layout=widgets.Layout(width="520px"),
+        ),
+        who=widgets.Text(description="Who", placeholder="optional"),
+        choice_label=widgets.HTML(),
         figure=go.FigureWidget(),
         increments=go.FigureWidget(),
         summary=widgets.HTML(),
@@ -311,13 +410,17 @@ def falling_head_panel(
         _state=state,
     )
     panel.fit_choice.style.button_width = "250px"
-    panel.propose.layout.width = "180px"
+    for button in (panel.propose, panel.keep, panel.release):
+        button.layout.width = "190px"
+    panel._reload_choices()
     panel._specimen_changed()
     panel.widget.children = [
         widgets.HBox([panel.specimen, panel.propose]),
         panel.fit_choice,
         panel.window,
         panel.window_label,
+        widgets.HBox([panel.keep, panel.release, panel.reason, panel.who]),
+        panel.choice_label,
         panel.error.widget,
         panel.figure,
         panel.summary,
@@ -328,4 +431,6 @@ def falling_head_panel(
     panel.window.observe(panel._window_moved, names="value")
     panel.fit_choice.observe(panel._fit_changed, names="value")
     panel.propose.on_click(panel.propose_window)
+    panel.keep.on_click(panel.keep_window)
+    panel.release.on_click(panel.release_window)
     return panel

@@ -26,6 +26,7 @@ from ..revisions import EffectiveSeries
 from ..series import Series
 from ..series_analysis import VERDICTS, SeriesAnalysis, analyse_series
 from ..trends import Criterion
+from ..windows import chosen_windows, read_window_choices, window_log_sha256
 from .common import (
     MessageArea,
     ProgressBar,
@@ -151,6 +152,11 @@ class SeriesChartPanel:
         The series' revisions, for the provenance of the memo pack (known when the panel
         was given a path or an EffectiveSeries).
     settings : Settings
+    windows : dict
+        The falling-head reading windows on record (:func:`kitchen.windows.chosen_windows`);
+        the other specimens use the tool's proposal.
+    window_choices : tuple of WindowChoice
+        The rows of the series' window log, for the memo's provenance.
     """
 
     widget: widgets.VBox
@@ -171,6 +177,8 @@ class SeriesChartPanel:
     images: bool = True
     analysis: SeriesAnalysis | None = None
     exported: list | None = None
+    windows: dict = field(default_factory=dict)
+    window_choices: tuple = ()
     chart_choice: widgets.ToggleButtons | None = None
     chart_box: widgets.Box | None = None
     missing: dict = field(default_factory=dict)
@@ -273,6 +281,11 @@ class SeriesChartPanel:
                 k_unit=self.k_unit.value,
                 density_unit=self.density_unit.value,
                 results=self.results,
+                windows=self.windows,
+                window_choices=self.window_choices,
+                window_log_sha256=window_log_sha256(self.series.source)
+                if self.window_choices
+                else None,
                 images=self.images,
                 progress=self.progress,
                 **revisions,
@@ -320,7 +333,9 @@ def series_chart_panel(
     """
     series, effective = open_effective(series)
     settings = settings or Settings()
-    results = series_results(series, settings)
+    choices = read_window_choices(series.source)
+    windows = chosen_windows(series, choices)
+    results = series_results(series, settings, windows)
     criterion_box = widgets.Text(
         value=str(criterion),
         description="k criterion",
@@ -361,6 +376,8 @@ def series_chart_panel(
         settings=settings,
         results=results,
         effective=effective,
+        windows=windows,
+        window_choices=choices,
         images=images,
     )
     panel.missing = {key: widgets.HTML() for key, _ in CHARTS}
