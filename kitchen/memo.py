@@ -130,8 +130,12 @@ def memo_charts(
     k_unit_name: str = "m/s",
     density_unit_name: str = "Mg/m³",
     windows: dict | None = None,
+    capillary_rises: dict | None = None,
 ) -> tuple[list[tuple[str, str, object]], list[str]]:
     """Every chart of the memo, and why any chart was not drawn.
+
+    The specimen charts are reduced with the same `windows` and `capillary_rises` as
+    :func:`kitchen.results.series_results`, so each shows the k of the results table.
 
     Returns
     -------
@@ -176,7 +180,7 @@ def memo_charts(
             built.append((name, title, build()))
         except ValueError as error:
             skipped.append(f"{title}: not drawn ({error})")
-    windows = windows or {}
+    windows, rises = windows or {}, capillary_rises or {}
     reference = settings.reference_temperature
     state = specimen_state(series.specimens).set_index("specimen", drop=False)
     taken: set = set()
@@ -184,7 +188,11 @@ def memo_charts(
         name = "specimen_" + _safe_name(f"{specimen}_falling_head", taken)
         try:
             record = falling_head_analysis(
-                readings, state.loc[specimen], settings, windows.get(specimen)
+                readings,
+                state.loc[specimen],
+                settings,
+                windows.get(specimen),
+                capillary_rise=rises.get(specimen),
             )
             figure = charts.falling_head_figure(readings, record, k_unit_name, reference)
         except (ValueError, KeyError) as error:
@@ -405,6 +413,7 @@ def export_memo_pack(
     density_unit: str = "Mg/m³",
     results: pd.DataFrame | None = None,
     windows: dict | None = None,
+    capillary_rises: dict | None = None,
     window_choices=(),
     window_log_sha256: str | None = None,
     images: bool = True,
@@ -437,6 +446,9 @@ def export_memo_pack(
     windows : dict, optional
         Falling-head reading windows ``{specimen: (start, stop)}``; the others are
         proposed by the tool.
+    capillary_rises : dict, optional
+        Measured capillary rises ``{specimen: rise [m]}``, as for
+        :func:`kitchen.results.series_results`.
     window_choices : sequence of WindowChoice, optional
         The rows of the series' window log (:func:`kitchen.windows.read_window_choices`),
         so that the provenance names who chose each window, when and why.
@@ -477,7 +489,7 @@ def export_memo_pack(
         start_image_export()
     out = Path(out)
     if results is None:
-        results = series_results(series, settings, windows)
+        results = series_results(series, settings, windows, capillary_rises)
     analysis = analyse_series(results, criterion, settings.reference_temperature)
     criterion = analysis.criterion
     label = reference_label(settings)
@@ -495,6 +507,11 @@ def export_memo_pack(
         "compaction curve": "quadratic",
         "reading windows": _windows_text(windows, window_choices),
         "window log SHA-256": window_log_sha256 or "no window log",
+        "measured capillary rises": ", ".join(
+            f"{specimen}: {1e3 * rise:.1f} mm" for specimen, rise in capillary_rises.items()
+        )
+        if capillary_rises
+        else "none (see capillary_rise)",
     }
     provenance = memo_provenance(
         series.input_files,
@@ -506,7 +523,9 @@ def export_memo_pack(
         revision_log_sha256,
         started,
     )
-    charts, skipped = memo_charts(series, analysis, settings, ku.unit, du.unit, windows)
+    charts, skipped = memo_charts(
+        series, analysis, settings, ku.unit, du.unit, windows, capillary_rises
+    )
     tables = {
         "specimens": specimens_table(analysis),
         "tests": results_table(results, settings),
