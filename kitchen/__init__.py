@@ -5,15 +5,18 @@ readings), works out each specimen's as-molded state, reduces each test to a hyd
 conductivity corrected to a reference temperature, and relates conductivity to the
 compaction state across the series.
 
-The modules follow the data's path: :mod:`kitchen.units` and :mod:`kitchen.series` (load),
-:mod:`kitchen.specimen` (phase relations), :mod:`kitchen.water` (density, viscosity),
-:mod:`kitchen.constant_head` and :mod:`kitchen.falling_head` (test reductions, sharing
-:mod:`kitchen.fitting`), :mod:`kitchen.validity` (termination criteria and fit
-diagnostics), :mod:`kitchen.uncertainty` (intervals after the GUM), :mod:`kitchen.results`
-(the per-specimen results table), :mod:`kitchen.compaction` and :mod:`kitchen.trends`
-(the series across compaction states), :mod:`kitchen.revisions` (the append-only log of
-corrections), :mod:`kitchen.charts` and :mod:`kitchen.memo` (figures and the exported
-pack), :mod:`kitchen.panels` (the notebooks' widgets) and the command line in
+The modules follow the data's path: :mod:`kitchen.units`, :mod:`kitchen.raw_tables`,
+:mod:`kitchen.table_checks` and :mod:`kitchen.series` (load), :mod:`kitchen.specimen`
+(phase relations), :mod:`kitchen.water` (density, viscosity), :mod:`kitchen.constant_head`
+and :mod:`kitchen.falling_head` with its record, window and evidence modules (test
+reductions, sharing the fits gathered in :mod:`kitchen.fitting`), :mod:`kitchen.validity`
+(termination criteria and fit diagnostics), :mod:`kitchen.uncertainty` (intervals after the
+GUM), :mod:`kitchen.results` (the per-specimen results table), :mod:`kitchen.compaction`
+and :mod:`kitchen.trends` (the series across compaction states), :mod:`kitchen.revisions`
+(the append-only log of corrections) and :mod:`kitchen.window_log` (the reading windows
+chosen, with their reasons), :mod:`kitchen.workspace` (a series held open, recomputed
+specimen by specimen), :mod:`kitchen.charts` and :mod:`kitchen.memo` (figures and the
+exported pack), :mod:`kitchen.panels` (the notebooks' widgets) and the command line in
 :mod:`kitchen.cli`.
 
 Nomenclature

@@ -26,7 +26,7 @@ from .series import TABLE_NAMES, SeriesError
 from .trends import CRITERION_KINDS, as_criterion
 from .uncertainty import PROPAGATION_METHODS
 from .water import VISCOSITY_METHODS
-from .windows import chosen_windows, read_window_choices, window_log_sha256, windows_path
+from .window_log import chosen_windows, read_window_choices, window_log_sha256, windows_path
 
 __all__ = ["main", "build_parser"]
 
@@ -289,7 +289,7 @@ def _change_words(change) -> str:
 
 
 def _window(arguments, parser) -> int:
-    from .windows import choose_window, clear_window, standing_choices
+    from .window_log import choose_window, clear_window, standing_choices
 
     given = arguments.first_row is not None, arguments.last_row is not None
     if arguments.proposed == any(given) or (not arguments.proposed and not all(given)):

@@ -53,7 +53,7 @@ from .results import Settings, reference_label, results_table, series_results
 from .series import Series
 from .series_analysis import SeriesAnalysis, analyse_series
 from .specimen import specimen_state
-from .windows import standing_choices
+from .window_log import standing_choices
 
 __all__ = [
     "CHART_SCRIPT",
@@ -450,10 +450,10 @@ def export_memo_pack(
         Measured capillary rises ``{specimen: rise [m]}``, as for
         :func:`kitchen.results.series_results`.
     window_choices : sequence of WindowChoice, optional
-        The rows of the series' window log (:func:`kitchen.windows.read_window_choices`),
+        The rows of the series' window log (:func:`kitchen.window_log.read_window_choices`),
         so that the provenance names who chose each window, when and why.
     window_log_sha256 : str, optional
-        SHA-256 of that log (:func:`kitchen.windows.window_log_sha256`).
+        SHA-256 of that log (:func:`kitchen.window_log.window_log_sha256`).
     images : bool, default True
         Write PNG and SVG beside each chart's HTML (needs Chromium).
     self_contained : bool, default False

@@ -11,6 +11,12 @@ specification with other limits can be followed.
 The standard gives no numeric test for a trend; the tests here are the tool's own and
 every sentence that uses one says so.
 
+This module holds the checks: steady values, the trend, outflow/inflow, the gradient, the
+Reynolds number, k against gradient, and :func:`is_valid` over their verdicts. The limits
+and :class:`Verdict` are in :mod:`kitchen.validity_criteria`, the curvature and runs tests
+in :mod:`kitchen.curvature_tests`, the window proposal in :mod:`kitchen.window_proposal`;
+their names are importable from here too.
+
 References
 ----------
 .. [D5084] ASTM D5084, Standard Test Methods for Measurement of Hydraulic Conductivity of
@@ -28,12 +34,20 @@ References
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
 
 import numpy as np
-from scipy import special
 
-from .fitting import LinearFit, fit_line
+from .curvature_tests import CurvatureTest, RunsTest, curvature_test, runs_test, sign_runs_test
+from .line_fit import LinearFit, fit_line
+from .validity_criteria import (
+    GRADIENT_TABLE,
+    Criteria,
+    Verdict,
+    _percent,
+    _signed,
+    recommended_maximum_gradient,
+)
+from .window_proposal import WindowProposal, WindowTrends, propose_window, window_trends
 
 __all__ = [
     "GRADIENT_TABLE",
@@ -58,199 +72,6 @@ __all__ = [
     "propose_window",
     "is_valid",
 ]
-
-GRADIENT_TABLE = (
-    (1e-6, 1e-5, 2.0),
-    (1e-7, 1e-6, 5.0),
-    (1e-8, 1e-7, 10.0),
-    (1e-9, 1e-8, 20.0),
-    (0.0, 1e-9, 30.0),
-)
-"""Recommended maximum gradient by k: rows (k from [m/s], k below [m/s], gradient).
-
-ASTM D5084 (from memory): 1e-5 to 1e-6 m/s → 2; 1e-6 to 1e-7 → 5; 1e-7 to 1e-8 → 10;
-1e-8 to 1e-9 → 20; below 1e-9 → 30. A k on a boundary takes the row it starts
-(k = 1e-6 m/s → 2)."""
-
-
-@dataclass(frozen=True)
-class Criteria:
-    """Limits of the validity criteria; defaults from ASTM D5084 where it gives one.
-
-    Parameters
-    ----------
-    steady_count : int
-        Consecutive k values that must lie within the band (D5084: 4). [-]
-    steady_tolerance : float
-        Half-width of the band about their mean (D5084: 0.25). [-]
-    low_k_tolerance : float
-        Half-width below ``low_k_threshold`` (D5084: 0.50). [-]
-    low_k_threshold : float
-        k below which the wider band applies (D5084: 1e-10). [m/s]
-    trend_level : float
-        Significance level of the tool's trend test (0.05). [-]
-    trend_minimum_change : float
-        Smallest change of k across the window counted as a trend even when significant;
-        0 (default) counts every significant change. Raise it for long logged records,
-        where changes too small to matter are still detectable. [-]
-    flow_ratio_low, flow_ratio_high : float
-        Limits of outflow/inflow (D5084: 0.75 and 1.25). [-]
-    gradient_table : tuple of (float, float, float)
-        Recommended maximum gradient by k, see :data:`GRADIENT_TABLE`.
-    reynolds_limit : float
-        Largest Reynolds number on d10 for Darcy's law (Bear 1972: about 1). [-]
-    value_precision : float
-        Falling head: each k value spans enough readings that the head-scale resolution
-        alone makes at most this relative standard uncertainty in it (0.05; the tool's
-        own rule). [-]
-    window_minimum_fraction : float
-        A proposed falling-head window keeps at least this fraction of the readings
-        (0.5; the tool's own rule). [-]
-    """
-
-    steady_count: int = 4
-    steady_tolerance: float = 0.25
-    low_k_tolerance: float = 0.50
-    low_k_threshold: float = 1e-10
-    trend_level: float = 0.05
-    trend_minimum_change: float = 0.0
-    flow_ratio_low: float = 0.75
-    flow_ratio_high: float = 1.25
-    gradient_table: tuple[tuple[float, float, float], ...] = GRADIENT_TABLE
-    reynolds_limit: float = 1.0
-    value_precision: float = 0.05
-    window_minimum_fraction: float = 0.5
-
-    def __post_init__(self):
-        if not isinstance(self.steady_count, (int, np.integer)) or self.steady_count < 2:
-            raise ValueError(
-                f"steady_count must be a whole number of at least 2, got {self.steady_count!r}"
-            )
-        fractions = {
-            "steady_tolerance": self.steady_tolerance,
-            "low_k_tolerance": self.low_k_tolerance,
-            "trend_level": self.trend_level,
-            "value_precision": self.value_precision,
-            "window_minimum_fraction": self.window_minimum_fraction,
-        }
-        for name, value in fractions.items():
-            if not 0.0 < value < 1.0:
-                raise ValueError(f"{name} must be a fraction between 0 and 1, got {value!r}")
-        if not 0.0 <= self.trend_minimum_change < 1.0:
-            raise ValueError(
-                "trend_minimum_change must be a fraction from 0 to 1, got "
-                f"{self.trend_minimum_change!r}"
-            )
-        if not 0.0 < self.flow_ratio_low < 1.0 < self.flow_ratio_high:
-            raise ValueError(
-                "outflow/inflow limits must bracket 1 (low between 0 and 1, high above 1), got "
-                f"{self.flow_ratio_low!r} and {self.flow_ratio_high!r}"
-            )
-        if not self.low_k_threshold > 0 or not self.reynolds_limit > 0:
-            raise ValueError("low_k_threshold and reynolds_limit must be positive")
-        rows = sorted(self.gradient_table, key=lambda row: row[0])
-        for index, row in enumerate(rows):
-            if len(row) != 3 or not (0 <= row[0] < row[1]) or not row[2] > 0:
-                raise ValueError(
-                    f"gradient_table row {row!r} must be (k from, k below, maximum gradient) "
-                    "with 0 <= k from < k below and a positive gradient [m/s, m/s, -]"
-                )
-            if index and rows[index - 1][1] > row[0]:
-                raise ValueError(f"gradient_table rows {rows[index - 1]!r} and {row!r} overlap")
-
-    def band(self, k_mean: float) -> float:
-        """Half-width of the steady band for values of mean ``k_mean``. [-]"""
-        return self.low_k_tolerance if k_mean < self.low_k_threshold else self.steady_tolerance
-
-
-@dataclass(frozen=True)
-class Verdict:
-    """One criterion's outcome: ``passed`` is None when it does not apply."""
-
-    criterion: str
-    passed: bool | None
-    sentence: str
-
-
-@dataclass(frozen=True)
-class CurvatureTest:
-    """The t-test of a quadratic term added to a straight line y = a + b·x.
-
-    ``change`` is the relative change of the slope from the first to the last x, against
-    the slope at the middle (for ln h on time: the change of k across the window), with
-    ``change_low``/``change_high`` its interval at 1 − ``level``.
-    """
-
-    coefficient: float
-    t_statistic: float
-    p_value: float
-    degrees_of_freedom: int
-    change: float
-    change_low: float
-    change_high: float
-    level: float
-
-    @property
-    def significant(self) -> bool:
-        return self.p_value < self.level
-
-
-@dataclass(frozen=True)
-class RunsTest:
-    """The runs test on the signs of residuals: too few runs means systematic curvature."""
-
-    runs: int
-    expected_runs: float
-    positive: int
-    negative: int
-    z: float
-    p_value: float
-    level: float
-
-    @property
-    def significant(self) -> bool:
-        return self.p_value < self.level
-
-
-@dataclass(frozen=True)
-class WindowProposal:
-    """The reading window the tool proposes: readings ``start`` to ``stop - 1``."""
-
-    start: int
-    stop: int
-    meets_criteria: bool
-    reason: str
-
-
-def recommended_maximum_gradient(k, table=GRADIENT_TABLE):
-    """Recommended maximum hydraulic gradient for a conductivity.
-
-    Parameters
-    ----------
-    k : float or array_like
-        Hydraulic conductivity. [m/s]
-    table : tuple of (float, float, float)
-        Rows (k from, k below, gradient); default :data:`GRADIENT_TABLE`.
-
-    Returns
-    -------
-    float or numpy.ndarray
-        Gradient; NaN where k is outside the table (above 1e-5 m/s by default). [-]
-
-    References
-    ----------
-    ASTM D5084, table of recommended maximum gradients (from memory).
-
-    Examples
-    --------
-    >>> recommended_maximum_gradient(5e-9)
-    20.0
-    """
-    k = np.asarray(k, dtype=float)
-    out = np.full(k.shape, np.nan)
-    for low, high, gradient in table:
-        out = np.where((k >= low) & (k < high), gradient, out)
-    return float(out) if out.ndim == 0 else out
 
 
 def reynolds_number(darcy_velocity, d10, water_density, water_viscosity):
@@ -277,19 +98,6 @@ def reynolds_number(darcy_velocity, d10, water_density, water_viscosity):
     Bear (1972), *Dynamics of Fluids in Porous Media*, §5.11 (from memory).
     """
     return water_density * darcy_velocity * d10 / water_viscosity
-
-
-def _percent(value: float) -> str:
-    """A fraction in percent: whole numbers as such, else two significant digits."""
-    percent = value * 100
-    if abs(percent) >= 9.5 or abs(percent - round(percent)) < 1e-9:
-        return f"{percent:.0f} %"
-    return f"{percent:.1f} %"
-
-
-def _signed(value: float) -> str:
-    """A signed percentage to one decimal, without a negative zero."""
-    return f"{round(value * 100, 1) + 0.0:+.1f} %"
 
 
 def steady_values_check(values, criteria: Criteria, spacing: str = "") -> Verdict:
@@ -349,84 +157,6 @@ def steady_values_check(values, criteria: Criteria, spacing: str = "") -> Verdic
     return Verdict("steady_values", passed, sentence)
 
 
-def curvature_test(
-    x, y, level: float = 0.05, line: LinearFit | None = None, increasing: bool = False
-) -> CurvatureTest:
-    """Test for curvature: a quadratic term added to the straight line of y on x.
-
-    Parameters
-    ----------
-    x, y : array_like
-        The data, at least 4 points. [any units]
-    level : float
-        Significance level. [-]
-    line : LinearFit, optional
-        The straight-line fit of ``y`` on ``x`` when already computed (saves passes).
-    increasing : bool
-        True when ``x`` is known to increase (its range is then read from its ends).
-
-    Returns
-    -------
-    CurvatureTest
-        t = b2/se(b2) with n − 3 degrees of freedom, two-sided p; the relative change of
-        the slope across the range of x.
-
-    Notes
-    -----
-    The quadratic is written in the centred x with the squared term made orthogonal to
-    1 and x, so its coefficient is Σ q·r / Σ q² with r the straight line's residuals and
-    the residual sum of squares falls by (Σ q·r)²/Σ q²; no matrix is formed, and
-    Σ q·r = Σ x_c²·y − ȳ·Σ x_c² − b·Σ x_c³ needs no array of residuals: five passes over
-    the data besides the line.
-
-    References
-    ----------
-    Draper & Smith, *Applied Regression Analysis*, ch. 2, extra sum of squares and the
-    t-test of an added term (from memory).
-    """
-    x = np.asarray(x, dtype=float)
-    y = np.asarray(y, dtype=float)
-    n = x.size
-    if n < 4:
-        raise ValueError(f"a curvature test needs at least 4 points, got {n}")
-    line = line or fit_line(x, y)
-    xc = np.subtract(x, line.x_mean)
-    xc2 = np.multiply(xc, xc)
-    s2 = line.sxx
-    # einsum rather than dot: single-threaded, so no waiting on BLAS threads when the
-    # machine is busy, and as fast as memory allows otherwise
-    s3 = float(np.einsum("i,i->", xc2, xc))
-    s4 = float(np.einsum("i,i->", xc2, xc2))
-    sqq = s4 - s2 * s2 / n - s3 * s3 / s2
-    sqr = float(np.einsum("i,i->", xc2, y)) - line.y_mean * s2 - line.slope * s3
-    dof = n - 3
-    sse_line = line.residual_standard_deviation**2 * (n - 2)
-    if not sqq > 0:
-        return CurvatureTest(0.0, 0.0, 1.0, dof, 0.0, 0.0, 0.0, level)
-    b2 = sqr / sqq
-    sse = max(sse_line - sqr * sqr / sqq, 0.0)
-    se = math.sqrt(sse / dof / sqq) if dof > 0 else math.inf
-    if se > 0:
-        t = b2 / se
-    else:
-        t = math.copysign(math.inf, b2) if b2 else 0.0
-    p = float(2 * special.stdtr(dof, -abs(t))) if math.isfinite(t) else 0.0
-    x_low, x_high = (float(x[0]), float(x[-1])) if increasing else (x.min(), x.max())
-    x_middle = 0.5 * (x_low + x_high) - line.x_mean
-    slope_middle = line.slope + b2 * (2 * x_middle - s3 / s2)
-    span = x_high - x_low
-    tq = float(special.stdtrit(dof, 1 - level / 2)) if dof > 0 else math.inf
-    if slope_middle == 0:
-        change = low = high = math.nan
-    else:
-        change = 2 * b2 * span / slope_middle
-        ends = sorted(
-            (2 * (b2 - tq * se) * span / slope_middle, 2 * (b2 + tq * se) * span / slope_middle)
-        )
-        low, high = ends
-    return CurvatureTest(float(b2), float(t), p, dof, float(change), low, high, level)
-
-
 def trend_check(curvature: CurvatureTest, criteria: Criteria) -> Verdict:
     """No significant trend in k: the tool's own test on the curvature of ln h.
 
@@ -478,49 +208,6 @@ def trend_check(curvature: CurvatureTest, criteria: Criteria) -> Verdict:
         f"t-test at the {_percent(criteria.trend_level)} level{gate}"
     )
     return Verdict("trend", not bool(trend), sentence)
-
-
-def runs_test(residuals, level: float = 0.05) -> RunsTest:
-    """Runs test on the signs of residuals, one-sided for too few runs.
-
-    Parameters
-    ----------
-    residuals : array_like
-        Residuals in reading order; exact zeros are left out. [any unit]
-    level : float
-        Significance level. [-]
-
-    Returns
-    -------
-    RunsTest
-        Number of runs, its expectation 1 + 2·n₊·n₋/n, z with a continuity correction and
-        the lower-tail p (too few runs: the residuals keep their sign over stretches, as
-        they do about a curve).
-
-    References
-    ----------
-    Wald & Wolfowitz (1940), Ann. Math. Statist. 11(2):147; Draper & Smith, *Applied
-    Regression Analysis*, ch. 7 (from memory). Normal approximation to the number of runs.
-    """
-    r = np.asarray(residuals, dtype=float)
-    return sign_runs_test(r[r != 0] > 0, level)
-
-
-def sign_runs_test(positive, level: float = 0.05) -> RunsTest:
-    """Runs test on a sequence of signs (True for a positive residual); see :func:`runs_test`."""
-    signs = np.asarray(positive, dtype=bool)
-    positive = int(np.count_nonzero(signs))
-    negative = int(signs.size - positive)
-    n = positive + negative
-    if positive == 0 or negative == 0:
-        return RunsTest(1 if n else 0, 1.0, positive, negative, 0.0, 1.0, level)
-    runs = 1 + int(np.count_nonzero(signs[1:] != signs[:-1]))
-    product = 2.0 * positive * negative
-    expected = 1.0 + product / n
-    variance = product * (product - n) / (n * n * (n - 1.0))
-    z = (runs - expected + 0.5) / math.sqrt(variance) if variance > 0 else 0.0
-    p = float(special.ndtr(z))
-    return RunsTest(runs, expected, positive, negative, z, p, level)
 
 
 def flow_ratio_check(inflow: float, outflow: float, criteria: Criteria) -> Verdict:
@@ -709,214 +396,6 @@ def gradient_independence_check(
         "tool's own test, on the mean of the collections at each head"
     )
     return Verdict("gradient_independence", bool(independent), sentence), fit
-
-
-def _suffix(values: np.ndarray) -> np.ndarray:
-    return np.cumsum(values[::-1])[::-1]
-
-
-def _within_critical(t: np.ndarray, dof: np.ndarray, probability: float) -> np.ndarray:
-    """``t <= stdtrit(dof, probability)`` element by element, with few quantiles computed.
-
-    The quantile of Student's t above the median falls as the degrees of freedom grow, so
-    the quantiles at the fewest and the most degrees of freedom bound all the others: only
-    the values of `t` between those bounds (widened by a few rounding units) need their own
-    quantile. The result is the same as computing every quantile, which costs about a
-    microsecond each.
-    """
-    ends = special.stdtrit(np.array([dof.min(), dof.max()]), probability)
-    high, low = float(ends.max()) * (1 + 1e-12), float(ends.min()) * (1 - 1e-12)
-    passed = t <= low
-    unsure = np.flatnonzero(~passed & (t <= high))
-    if unsure.size:
-        passed[unsure] = t[unsure] <= special.stdtrit(dof[unsure], probability)
-    return passed
-
-
-@dataclass(frozen=True)
-class WindowTrends:
-    """What the window proposal needs of the readings alone, for every trial start.
-
-    Built by :func:`window_trends` from the reference time and ln h; the specimen's
-    dimensions do not enter, so a revised height or diameter reuses it.
-    """
-
-    n: int
-    """Readings in the record. [-]"""
-    starts: int
-    """Trial starts: readings 0 to ``starts - 1``. [-]"""
-    span: float
-    """Reference time from the first reading to the last. [s]"""
-    slope: np.ndarray
-    """Slope of ln h on the scaled time, for each start (multiply by −scale/span for k)."""
-    trend_ok: np.ndarray
-    """Whether each start's window passes the trend criterion."""
-    reason: str = ""
-    """Why no start can be judged (too few readings), else empty."""
-
-
-def window_trends(reference_time, log_head, criteria: Criteria, minimum_readings: int = 6):
-    """The slope and the trend verdict of every window ending at the last reading.
-
-    Parameters
-    ----------
-    reference_time : array_like
-        Reference-equivalent time of every reading. [s]
-    log_head : array_like
-        ln of the (corrected) head of every reading. [-]
-    criteria : Criteria
-        ``trend_level``, ``trend_minimum_change`` and ``window_minimum_fraction``.
-    minimum_readings : int
-        Fewest readings in a window. [-]
-
-    Returns
-    -------
-    WindowTrends
-
-    Notes
-    -----
-    Every start is judged at once from suffix sums of powers of the time measured back
-    from the last reading (an origin inside every window, so the centred moments lose at
-    most about two digits): the slope and the quadratic term of each window come from a
-    few arithmetic operations, with no refit per window. The tool's own rule.
-    """
-    x = np.asarray(reference_time, dtype=float)
-    y = np.asarray(log_head, dtype=float)
-    n = x.size
-    keep = max(int(math.ceil(criteria.window_minimum_fraction * n)), minimum_readings)
-    if n < minimum_readings or n - keep < 1:
-        empty = np.zeros(0)
-        return WindowTrends(
-            n, 0, 0.0, empty, empty.astype(bool), "too few readings to leave any out"
-        )
-    count = n - keep + 1
-    head = slice(0, count)  # the positions of the starts, without a gather
-    span = float(x[-1] - x[0])
-    u = (x - x[-1]) / span
-    v = y - y[-1]
-    u2 = u * u
-    sums = [
-        np.arange(n, 0, -1, dtype=float),
-        *(_suffix(values) for values in (u, u2, u2 * u, u2 * u2, v, u * v, u2 * v, v * v)),
-    ]
-    m, s1, s2, s3, s4, sy, sxy, sxxy, syy = (values[head] for values in sums)
-    mu = s1 / m
-    c2 = s2 - m * mu * mu
-    c3 = s3 - 3 * mu * s2 + 2 * m * mu**3
-    c4 = s4 - 4 * mu * s3 + 6 * mu * mu * s2 - 3 * m * mu**4
-    y_mean = sy / m
-    cxy = sxy - m * mu * y_mean
-    cyy = syy - m * y_mean * y_mean
-    cxxy = (sxxy - 2 * mu * sxy + mu * mu * sy) - y_mean * c2
-    slope = cxy / c2
-    sqq = c4 - c2 * c2 / m - c3 * c3 / c2
-    sqy = cxxy - c3 / c2 * cxy
-    with np.errstate(divide="ignore", invalid="ignore"):
-        b2 = np.where(sqq > 0, sqy / sqq, 0.0)
-        sse = np.maximum(cyy - cxy * cxy / c2 - b2 * sqy, 0.0)
-        se = np.sqrt(sse / (m - 3) / sqq)
-        t = np.where(se > 0, b2 / se, 0.0)
-        width = -u[head]  # each window spans u from u[start] to 0
-        middle = 0.5 * u[head] - mu
-        change = 2 * b2 * width / (slope + b2 * (2 * middle - c3 / c2))
-    trend_ok = _within_critical(np.abs(t), m - 3, 1 - criteria.trend_level / 2)
-    trend_ok |= np.abs(change) < criteria.trend_minimum_change
-    return WindowTrends(n, count, span, slope, trend_ok)
-
-
-def propose_window(
-    reference_time,
-    log_head,
-    gradient,
-    scale: float,
-    criteria: Criteria,
-    *,
-    steady_passed: bool = True,
-    minimum_readings: int = 6,
-    inflow=None,
-    outflow=None,
-    reynolds_per_k: float = math.nan,
-    trends: WindowTrends | None = None,
-) -> WindowProposal:
-    """The longest window ending at the last reading that meets every criterion.
-
-    Parameters
-    ----------
-    reference_time : array_like
-        Reference-equivalent time of every reading. [s]
-    log_head : array_like
-        ln of the (corrected) head of every reading. [-]
-    gradient : array_like
-        Hydraulic gradient at every reading. [-]
-    scale : float
-        a·L/A, so that k = −scale · slope of ln h on reference time. [m]
-    criteria : Criteria
-        Limits; ``window_minimum_fraction`` bounds how many readings may be left out.
-    steady_passed : bool
-        Whether the last k values meet the band (they are the same for every window).
-    minimum_readings : int
-        Fewest readings in a window. [-]
-    inflow, outflow : array_like, optional
-        Cumulative inflow and outflow volumes at each reading, NaN where not read. [m3]
-    reynolds_per_k : float
-        Reynolds number per unit of k·i (ρw·d10/(μ·R_T)); NaN without d10. [s/m]
-    trends : WindowTrends, optional
-        :func:`window_trends` of the same readings, criteria and `minimum_readings`, when
-        already at hand (a record keeps it); computed here otherwise.
-
-    Returns
-    -------
-    WindowProposal
-        Readings ``start`` to the last; when no window meets every criterion, every
-        reading, with ``meets_criteria`` False.
-
-    Notes
-    -----
-    The criteria concern the final values of a test, so the proposal keeps the last
-    reading and leaves out early ones; it never leaves out more than
-    1 − ``window_minimum_fraction`` of the readings. The trend of every window comes
-    from :func:`window_trends`; the gradient, Reynolds and flow-ratio criteria are then
-    judged for every start at once. The tool's own rule.
-    """
-    if trends is None:
-        trends = window_trends(reference_time, log_head, criteria, minimum_readings)
-    n = trends.n
-    if trends.reason:
-        return WindowProposal(0, n, False, trends.reason)
-    head = slice(0, trends.starts)
-    k = -scale * trends.slope / trends.span
-    limit = recommended_maximum_gradient(k, criteria.gradient_table)
-    g = np.asarray(gradient, dtype=float)[head]
-    gradient_ok = ~(g > limit)  # NaN limit (outside the table): not judged
-    reynolds_ok = ~(reynolds_per_k * k * g > criteria.reynolds_limit)
-    flow_ok = np.ones(trends.starts, dtype=bool)
-    if inflow is not None and outflow is not None:
-        inflow = np.asarray(inflow, dtype=float)
-        outflow = np.asarray(outflow, dtype=float)
-        both = np.isfinite(inflow) & np.isfinite(outflow)
-        if both.sum() >= 2:
-            last = np.flatnonzero(both)[-1]
-            positions = np.where(both, np.arange(n), n)
-            first = np.minimum.accumulate(positions[::-1])[::-1][head]
-            usable = first < last
-            safe = np.where(usable, first, last)
-            with np.errstate(divide="ignore", invalid="ignore"):
-                ratio = (outflow[last] - outflow[safe]) / (inflow[last] - inflow[safe])
-            inside = (ratio >= criteria.flow_ratio_low) & (ratio <= criteria.flow_ratio_high)
-            flow_ok = ~usable | inside
-    passing = trends.trend_ok & gradient_ok & reynolds_ok & flow_ok & bool(steady_passed)
-    if not passing.any():
-        return WindowProposal(
-            0,
-            n,
-            False,
-            "no window ending at the last reading and keeping at least "
-            f"{_percent(criteria.window_minimum_fraction)} of the readings meets every criterion",
-        )
-    start = int(np.argmax(passing))
-    return WindowProposal(
-        start, n, True, "the longest window ending at the last reading that meets every criterion"
-    )
 
 
 def is_valid(verdicts) -> bool:

@@ -41,7 +41,7 @@ from .revisions import (
 )
 from .series import TABLE_NAMES, RawTable, Series, build_series, read_tables, rebuild_series
 from .specimen import specimen_state
-from .windows import chosen_windows, read_window_choices
+from .window_log import chosen_windows, read_window_choices
 
 __all__ = ["Workspace", "frame_digest"]
 
@@ -406,7 +406,7 @@ class Workspace:
         """Try a falling-head reading window for a specimen (None: the tool proposes one).
 
         The window holds in this workspace only; one recorded in the window log
-        (:func:`kitchen.windows.choose_window`) holds wherever the series is opened."""
+        (:func:`kitchen.window_log.choose_window`) holds wherever the series is opened."""
         self.readings(specimen)
         before = self._inputs()
         self._windows[specimen] = None if window is None else tuple(int(v) for v in window)

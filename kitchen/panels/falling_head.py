@@ -24,7 +24,7 @@ from ..falling_head import FALLING_HEAD_FITS, FallingHeadAnalysis, FallingHeadRe
 from ..results import Settings, reference_label
 from ..series import Series
 from ..specimen import specimen_state
-from ..windows import (
+from ..window_log import (
     WindowChoice,
     choose_window,
     chosen_windows,
@@ -130,7 +130,7 @@ class FallingHeadPanel:
     propose : ipywidgets.Button
         Sets the window the tool proposes (the longest that meets every criterion).
     keep : ipywidgets.Button
-        Records the window shown in the series' window log (:mod:`kitchen.windows`), with
+        Records the window shown in the series' window log (:mod:`kitchen.window_log`), with
         ``reason`` and ``who``: the series chart, the memo pack and the command line then
         reduce the specimen with it.
     release : ipywidgets.Button

@@ -26,7 +26,7 @@ from ..revisions import EffectiveSeries
 from ..series import Series
 from ..series_analysis import VERDICTS, SeriesAnalysis, analyse_series
 from ..trends import Criterion
-from ..windows import chosen_windows, read_window_choices, window_log_sha256
+from ..window_log import chosen_windows, read_window_choices, window_log_sha256
 from .common import (
     MessageArea,
     ProgressBar,
@@ -153,7 +153,7 @@ class SeriesChartPanel:
         was given a path or an EffectiveSeries).
     settings : Settings
     windows : dict
-        The falling-head reading windows on record (:func:`kitchen.windows.chosen_windows`);
+        The falling-head reading windows on record (:func:`kitchen.window_log.chosen_windows`);
         the other specimens use the tool's proposal.
     window_choices : tuple of WindowChoice
         The rows of the series' window log, for the memo's provenance.

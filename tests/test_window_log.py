@@ -19,7 +19,7 @@ from kitchen.panels.falling_head import falling_head_panel
 from kitchen.panels.series_chart import series_chart_panel
 from kitchen.results import series_results
 from kitchen.revisions import load_effective_series
-from kitchen.windows import (
+from kitchen.window_log import (
     WindowLogError,
     choose_window,
     chosen_windows,

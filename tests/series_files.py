@@ -1,0 +1,39 @@
+"""A small series written as CSV text, for the tests of reading, checking and building it."""
+
+from pathlib import Path
+
+import pytest
+
+from kitchen.series import SeriesError, load_series
+
+SPECIMENS = """specimen,diameter [mm],height [mm],dry_mass [g],specific_gravity,water_content [%],effort,standpipe_diameter [mm]
+A1,101.6,116.4,1650,2.70,18.0,standard,5
+A2,101.6,116.4,1600,2.70,16.0,standard,5
+"""
+FALLING = """specimen,time [min],head [cm],temperature [degC]
+A1,0,100,20
+A1,10,95,20.5
+A1,20,90.3,21
+A2,0,100,19
+A2,10,97,19
+A2,20,94.1,19
+"""
+CONSTANT = """specimen,head_difference [cm],duration [s],volume [mL],outflow_mass [g],temperature [degC]
+A1,50,300,350,,21
+A1,40,300,,280,21
+"""
+
+
+def write_series(folder: Path, **tables: str) -> Path:
+    folder.mkdir(parents=True, exist_ok=True)
+    contents = {"specimens": SPECIMENS, "falling_head": FALLING} | tables
+    for name, text in contents.items():
+        if text is not None:
+            (folder / f"{name}.csv").write_text(text, encoding="utf-8")
+    return folder
+
+
+def problems_of(folder: Path) -> list[str]:
+    with pytest.raises(SeriesError) as caught:
+        load_series(folder)
+    return [str(problem) for problem in caught.value.problems]
