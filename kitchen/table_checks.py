@@ -19,7 +19,7 @@ import pandas as pd
 from .raw_tables import _TEXT_KINDS, SCHEMAS, InputProblem, RawTable
 from .units import to_si
 
-__all__ = ["HEAD_RISE_TOLERANCE"]
+__all__ = ["HEAD_RISE_TOLERANCE", "HEAD_RISE_SCATTERS", "head_rise_tolerance"]
 
 
 _POSITIVE = {
@@ -51,7 +51,36 @@ carries volumes; an empty column of 10⁶ readings would cost 8 MB)."""
 
 
 HEAD_RISE_TOLERANCE = 0.002
-"""A falling-head reading may rise this much above the one before it (resolution). [m]"""
+"""A falling-head reading may rise this much above the one before it (resolution), or
+more for a logger record whose heads scatter more (see :func:`head_rise_tolerance`). [m]"""
+
+HEAD_RISE_SCATTERS = 8.0
+"""How many standard deviations of the scatter of successive head changes a rise may reach
+before it counts as a refill or an error (Gaussian noise exceeds 8 σ about once in 10¹⁵
+readings)."""
+
+
+def head_rise_tolerance(head: np.ndarray) -> float:
+    """The largest rise between successive readings of one specimen taken as scatter. [m]
+
+    The larger of :data:`HEAD_RISE_TOLERANCE` and :data:`HEAD_RISE_SCATTERS` times a robust
+    standard deviation of the successive changes of head (1.4826 times their median
+    absolute deviation from their median, which the slow fall of a long record barely
+    moves). A transducer logging every second scatters by more than the head falls between
+    two readings, so its heads rise often and by a few millimetres; a refilled standpipe
+    rises by centimetres. The tool's own rule.
+
+    References
+    ----------
+    Rousseeuw, P. J. and Croux, C. (1993), J. Am. Stat. Assoc. 88(424), 1273–1283: the
+    median absolute deviation, scaled by 1.4826, as a robust estimate of σ for normal data.
+    """
+    steps = np.diff(np.asarray(head, dtype=float))
+    steps = steps[np.isfinite(steps)]
+    if steps.size < 8:  # too few to judge the scatter: the resolution alone
+        return HEAD_RISE_TOLERANCE
+    spread = 1.4826 * float(np.median(np.abs(steps - np.median(steps))))
+    return max(HEAD_RISE_TOLERANCE, HEAD_RISE_SCATTERS * spread)
 
 
 def _numeric_column(table: RawTable, column: str, problems: list[InputProblem]) -> np.ndarray:
@@ -259,14 +288,27 @@ def _check_readings(table: RawTable, frame: pd.DataFrame, ids: _Labels, known: s
         "time",
         "time does not increase from the reading before",
     )
-    _report(
-        problems,
-        table,
-        same & np.r_[False, np.diff(head) > HEAD_RISE_TOLERANCE],
-        "head",
-        f"head rises from the reading before by more than {HEAD_RISE_TOLERANCE * 1e3:g} mm "
-        "(in a falling-head test it only falls; was the standpipe refilled?)",
-    )
+    starts = np.flatnonzero(~same)
+    rises = same & np.r_[False, np.diff(head) > HEAD_RISE_TOLERANCE]
+    for start, stop in zip(starts, np.r_[starts[1:], codes.size], strict=True):
+        if not rises[start:stop].any():  # the common case: nothing to judge
+            continue
+        tolerance = head_rise_tolerance(head[start:stop])
+        run = np.zeros(codes.size, dtype=bool)
+        run[start + 1 : stop] = np.diff(head[start:stop]) > tolerance
+        why = (
+            "its resolution"
+            if tolerance == HEAD_RISE_TOLERANCE
+            else f"{HEAD_RISE_SCATTERS:g} times the scatter of this specimen's successive heads"
+        )
+        _report(
+            problems,
+            table,
+            run,
+            "head",
+            f"head rises from the reading before by more than {tolerance * 1e3:.3g} mm ({why}; "
+            "in a falling-head test it only falls; was the standpipe refilled?)",
+        )
     first_row = {}
     rows = frame["source_row"].to_numpy()
     for index in np.flatnonzero(~same):  # once per run of one specimen's readings

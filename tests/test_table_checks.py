@@ -1,9 +1,11 @@
 """Checking the values of a series: every bad value named by file, row and column."""
 
+import numpy as np
 import pytest
 from series_files import CONSTANT, FALLING, SPECIMENS, problems_of, write_series
 
 from kitchen.series import load_series
+from kitchen.table_checks import HEAD_RISE_SCATTERS, HEAD_RISE_TOLERANCE, head_rise_tolerance
 
 
 def test_mold_masses_give_dry_mass(tmp_path):
@@ -89,3 +91,38 @@ def test_a_text_id_column_in_many_rows_is_stored_once(tmp_path):
     )
     ids = series.falling_head["specimen"].to_numpy(dtype=object)
     assert len({id(value) for value in ids}) == 1
+
+
+def _logger_csv(noise_mm: float, refill_at: int | None = None, n: int = 20_000) -> str:
+    # a transducer read every second: the head falls 0.2 m over the record (k of a clay),
+    # far less between two readings than the transducer scatters
+    rng = np.random.default_rng(11)
+    t = np.arange(n, dtype=float)
+    head = 1.2 * np.exp(-t / 1.2e5) + rng.normal(0.0, noise_mm * 1e-3, n)
+    if refill_at is not None:
+        head[refill_at:] += 0.05  # the standpipe topped up by 5 cm
+    lines = ["specimen,time [s],head [m],temperature [degC]"]
+    lines += [f"A1,{ti:.0f},{hi:.5f},20" for ti, hi in zip(t, head, strict=True)]
+    return "\n".join(lines) + "\n"
+
+
+def test_a_noisy_logger_record_loads_and_a_refill_is_still_caught(tmp_path):
+    # 1 mm scatter: successive heads rise by up to about 6 mm, which is scatter, not a refill
+    noisy = _logger_csv(1.0)
+    series = load_series(write_series(tmp_path / "noisy", falling_head=noisy))
+    assert len(series.falling_head) == 20_000
+    problems = problems_of(write_series(tmp_path / "refill", falling_head=_logger_csv(1.0, 9000)))
+    assert len(problems) == 1
+    assert problems[0].startswith("falling_head.csv, row 9002, column 'head [m]': head rises")
+    assert "times the scatter of this specimen's successive heads" in problems[0]
+
+
+def test_head_rise_tolerance_follows_the_scatter():
+    # for normal data 1.4826 * MAD estimates sigma (Rousseeuw & Croux 1993); successive
+    # differences of noise of sd s have sd s * sqrt(2)
+    rng = np.random.default_rng(5)
+    head = 1.0 + rng.normal(0.0, 1e-3, 200_000)
+    expected = HEAD_RISE_SCATTERS * 1e-3 * np.sqrt(2)
+    assert head_rise_tolerance(head) == pytest.approx(expected, rel=0.02)
+    assert head_rise_tolerance(np.linspace(1.0, 0.9, 50)) == HEAD_RISE_TOLERANCE  # no scatter
+    assert head_rise_tolerance(np.array([1.0, 0.99, 0.98])) == HEAD_RISE_TOLERANCE  # too few
