@@ -34,6 +34,7 @@ from .falling_head_evidence import (
 from .line_fit import fit_line
 from .uncertainty import fit_quantity
 from .validity import (
+    datum_check,
     gradient_check,
     reynolds_check,
     reynolds_number,
@@ -183,6 +184,8 @@ def _analyse(record, start, stop, fit, proposed, notes, method_notes) -> Falling
         gradient_check(gradient_start, k_reference, criteria),
         reynolds_check(reynolds, criteria),
     )
+    if decay is not None:
+        verdicts += (datum_check(asymptote, low_inf, high_inf, criteria),)
     runs = None
     if residuals is not None and residuals.size >= 10:
         if residuals.dtype == bool:

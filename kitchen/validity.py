@@ -67,6 +67,7 @@ __all__ = [
     "flow_ratio_check",
     "gradient_check",
     "reynolds_check",
+    "datum_check",
     "gradient_independence_check",
     "window_trends",
     "propose_window",
@@ -320,6 +321,46 @@ def reynolds_check(reynolds: float, criteria: Criteria) -> Verdict:
         passed,
         f"Reynolds number on d10 at most {criteria.reynolds_limit:g} (laminar flow, Darcy's law "
         f"holds; Bear 1972): {'yes' if passed else 'no'} — {reynolds:.2g} at the largest velocity",
+    )
+
+
+def datum_check(asymptote: float, low: float, high: float, criteria: Criteria) -> Verdict:
+    """The datum-fitted decay's datum h∞ within the tolerance of the datum read.
+
+    Parameters
+    ----------
+    asymptote, low, high : float
+        The fitted datum h∞ and the ends of its interval. [m]
+    criteria : Criteria
+        ``datum_tolerance``.
+
+    Returns
+    -------
+    Verdict
+        ``datum``: passed when the interval of h∞ reaches within ±``datum_tolerance``.
+
+    Notes
+    -----
+    The decay h = h∞ + (h0 − h∞)·exp(−t/τ) corrects for a tailwater datum known only to a
+    few centimetres. An early transient or a drift in k also bends ln h against time, and
+    the decay absorbs it as a datum offset of tens of centimetres, with a k that can be
+    twice the steady value. The tool's own rule.
+    """
+    tolerance = criteria.datum_tolerance
+    passed = bool(low <= tolerance and high >= -tolerance)
+    verdict = "yes" if passed else "no"
+    return Verdict(
+        "datum",
+        passed,
+        f"fitted datum within ±{tolerance * 1e3:.0f} mm of the datum read: {verdict} — "
+        f"h∞ = {asymptote * 1e3:.0f} mm (95 % interval {low * 1e3:.0f} to {high * 1e3:.0f} mm)"
+        + (
+            ""
+            if passed
+            else "; an early transient or a drift in k, not a datum error: use the log-linear "
+            "fit, or a window without the transient"
+        )
+        + "; the tool's own rule",
     )
 
 

@@ -77,6 +77,11 @@ class Criteria:
     window_minimum_fraction : float
         A proposed falling-head window keeps at least this fraction of the readings
         (0.5; the tool's own rule). [-]
+    datum_tolerance : float
+        The datum-fitted decay is taken as a tailwater-datum correction only while its
+        fitted datum h∞ can lie within this much of the datum read (50 mm; the tool's own
+        rule). A larger h∞ is an early transient or a drift in k bending ln h, not a datum
+        error. [m]
     """
 
     steady_count: int = 4
@@ -91,6 +96,7 @@ class Criteria:
     reynolds_limit: float = 1.0
     value_precision: float = 0.05
     window_minimum_fraction: float = 0.5
+    datum_tolerance: float = 0.05
 
     def __post_init__(self):
         if not isinstance(self.steady_count, (int, np.integer)) or self.steady_count < 2:
@@ -119,6 +125,10 @@ class Criteria:
             )
         if not self.low_k_threshold > 0 or not self.reynolds_limit > 0:
             raise ValueError("low_k_threshold and reynolds_limit must be positive")
+        if not self.datum_tolerance > 0:
+            raise ValueError(
+                f"datum_tolerance must be a positive length [m], got {self.datum_tolerance!r}"
+            )
         rows = sorted(self.gradient_table, key=lambda row: row[0])
         for index, row in enumerate(rows):
             if len(row) != 3 or not (0 <= row[0] < row[1]) or not row[2] > 0:

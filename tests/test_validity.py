@@ -11,6 +11,7 @@ from kitchen.validity import (
     Criteria,
     Verdict,
     curvature_test,
+    datum_check,
     flow_ratio_check,
     gradient_check,
     gradient_independence_check,
@@ -165,6 +166,7 @@ def test_each_name_is_the_object_of_its_home_module():
         "flow_ratio_check",
         "gradient_check",
         "reynolds_check",
+        "datum_check",
         "gradient_independence_check",
         "is_valid",
     )
@@ -173,3 +175,22 @@ def test_each_name_is_the_object_of_its_home_module():
         assert getattr(validity, name) is getattr(home, name), name
     for name in own:
         assert getattr(validity, name).__module__ == "kitchen.validity", name
+
+
+@pytest.mark.parametrize(
+    ("asymptote", "low", "high", "passed"),
+    [
+        (0.004, -0.01, 0.018, True),  # the datum read is right: h∞ about zero
+        (0.066, 0.040, 0.092, True),  # the interval reaches within 50 mm
+        (0.222, 0.168, 0.274, False),  # an early transient absorbed as a datum offset
+        (-0.120, -0.150, -0.090, False),
+    ],
+)
+def test_datum_check_against_the_tolerance(asymptote, low, high, passed):
+    # the tool's own rule (Criteria.datum_tolerance, 50 mm by default)
+    verdict = datum_check(asymptote, low, high, Criteria())
+    assert verdict.criterion == "datum" and verdict.passed is passed
+    assert f"h∞ = {asymptote * 1e3:.0f} mm" in verdict.sentence
+    assert datum_check(0.222, 0.168, 0.274, Criteria(datum_tolerance=0.3)).passed
+    with pytest.raises(ValueError, match="datum_tolerance must be a positive length"):
+        Criteria(datum_tolerance=0.0)
