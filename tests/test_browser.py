@@ -338,3 +338,10 @@ def test_revise(notebook, lab):
     assert not (lab["root"] / "sample_data" / "clay_liner" / "revisions.csv").exists()
     page.locator("button", has_text="Record revision").scroll_into_view_if_needed()
     _screenshot(page, "05_revise")
+    # the specimen's chart and the series chart, redrawn in place after the revision
+    _plotly_drawn(page, 2)
+    titles = " ".join(page.locator(".js-plotly-plot .gtitle").all_text_contents())
+    assert "Specimen QF-01" in titles and "Compaction and hydraulic conductivity" in titles
+    assert page.locator("small", has_text="Recorded, reduced and redrawn in").count() == 1
+    page.locator(".js-plotly-plot").last.scroll_into_view_if_needed()
+    _screenshot(page, "05_revise_charts")
