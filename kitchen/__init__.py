@@ -12,11 +12,13 @@ and :mod:`kitchen.falling_head` with its record, window and evidence modules (te
 reductions, sharing the fits gathered in :mod:`kitchen.fitting`), :mod:`kitchen.validity`
 (termination criteria and fit diagnostics), :mod:`kitchen.uncertainty` (intervals after the
 GUM), :mod:`kitchen.results` (the per-specimen results table), :mod:`kitchen.compaction`
-and :mod:`kitchen.trends` (the series across compaction states), :mod:`kitchen.revisions`
-(the append-only log of corrections) and :mod:`kitchen.window_log` (the reading windows
-chosen, with their reasons), :mod:`kitchen.workspace` (a series held open, recomputed
-specimen by specimen), :mod:`kitchen.charts` and :mod:`kitchen.memo` (figures and the
-exported pack), :mod:`kitchen.panels` (the notebooks' widgets) and the command line in
+and :mod:`kitchen.trends` with the saturation lines, the acceptable zone, the criterion and
+the grading predictions beside them (the series across compaction states),
+:mod:`kitchen.revisions` (the append-only log of corrections: its log, the effective data,
+recording, history) and :mod:`kitchen.window_log` (the reading windows chosen, with their
+reasons), :mod:`kitchen.workspace` (a series held open, recomputed specimen by specimen),
+:mod:`kitchen.charts` (the memo style, the series charts and the specimen charts) and
+:mod:`kitchen.memo` (the exported pack), :mod:`kitchen.panels` (the notebooks' widgets) and the command line in
 :mod:`kitchen.cli`.
 
 Nomenclature

@@ -29,7 +29,7 @@ import numpy as np
 import pandas as pd
 
 from .files import append_line, folder_lock
-from .revisions import _check_when, _when
+from .revision_log import _check_when, _when
 from .series import Series
 
 __all__ = [

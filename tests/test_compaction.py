@@ -1,4 +1,8 @@
-"""Tests for kitchen.compaction: saturation lines, compaction curves, line of optimums, zone."""
+"""Tests for kitchen.compaction: compaction curves, the line of optimums, and the names it offers.
+
+The saturation lines are tested in tests/test_saturation_lines.py, the acceptable zone in
+tests/test_compaction_zone.py.
+"""
 
 import warnings
 
@@ -7,70 +11,29 @@ import pandas as pd
 import pytest
 from scipy import optimize, stats
 
-from kitchen import compaction
-from kitchen.specimen import degree_of_saturation, void_ratio
-
-# --- saturation lines ------------------------------------------------------------------------
+from kitchen import analysis_checks, compaction, compaction_zone, saturation_lines
 
 
-def test_zero_air_voids_published_value():
-    # Das, Principles of Geotechnical Engineering; Holtz & Kovacs (book, from memory):
-    # w = 20 %, Gs = 2.70 -> 1.753 Mg/m3. Tolerance: half a unit of the last printed digit.
-    rho = compaction.zero_air_voids_dry_density(0.20, 2.70)
-    assert rho == pytest.approx(1753.0, abs=0.5)
-
-
-def test_constant_saturation_published_value():
-    # Same sources (book, from memory): S = 90 % -> 1.688 Mg/m3. The exact value, 1687.5
-    # kg/m3, sits on the rounding edge of the printed digits; allow half a unit plus 1e-6.
-    rho = compaction.constant_saturation_dry_density(0.20, 2.70, 0.90)
-    assert rho == pytest.approx(1688.0, abs=0.5 + 1e-6)
-
-
-def test_saturation_line_round_trips_through_phase_relations():
-    # S = w·Gs/e with e = Gs·ρw/ρd − 1 (Das, phase relations): the line must give back S.
-    w = np.linspace(0.05, 0.35, 7)
-    for s in (0.7, 0.85, 1.0):
-        rho = compaction.constant_saturation_dry_density(w, 2.68, s)
-        e = void_ratio(rho, 2.68)
-        np.testing.assert_allclose(degree_of_saturation(w, 2.68, e), s, rtol=1e-12)
-
-
-def test_zero_air_voids_is_full_saturation_and_keeps_the_input_kind():
-    w = pd.Series([0.10, 0.15, 0.25], index=["a", "b", "c"])
-    zav = compaction.zero_air_voids_dry_density(w, 2.65)
-    assert isinstance(zav, pd.Series) and list(zav.index) == ["a", "b", "c"]
-    np.testing.assert_allclose(zav, compaction.constant_saturation_dry_density(w, 2.65, 1.0))
-    assert isinstance(compaction.zero_air_voids_dry_density(0.1, 2.65), float)
-    assert isinstance(compaction.zero_air_voids_dry_density([0.1, 0.2], 2.65), np.ndarray)
-    # Hand check: 2650 / (1 + 0.1·2.65) = 2094.86 kg/m3.
-    assert compaction.zero_air_voids_dry_density(0.1, 2.65) == pytest.approx(2094.862, abs=1e-3)
-
-
-@pytest.mark.parametrize(
-    "kwargs, message",
-    [
-        (dict(water_content=-0.1, specific_gravity=2.7, saturation=0.9), "water_content"),
-        (dict(water_content=0.2, specific_gravity=2700, saturation=0.9), "between 1 and 10"),
-        (dict(water_content=0.2, specific_gravity=2.7, saturation=90), "not 90"),
-        (dict(water_content=0.2, specific_gravity=2.7, saturation=0.0), "0 < S"),
-        (dict(water_content=0.2, specific_gravity=2.7, saturation=0.9, water_density=-1), "kg/m3"),
-        (dict(water_content=[0.1, 0.2], specific_gravity=[2.7] * 3, saturation=1), "has 3"),
-        (dict(water_content="wet", specific_gravity=2.7, saturation=0.9), "expected numbers"),
-    ],
-)
-def test_saturation_line_bad_input(kwargs, message):
-    with pytest.raises(ValueError, match=message):
-        compaction.constant_saturation_dry_density(**kwargs)
-
-
-def test_saturation_line_names_the_index_of_a_missing_value():
-    w = pd.Series([0.1, np.nan], index=["S1", "S2"])
-    with pytest.raises(
-        ValueError,
-        match=r"water_content: expected a finite number \(not NaN or infinite\); got nan at index 'S2'",
-    ):
-        compaction.zero_air_voids_dry_density(w, 2.7)
+def test_each_name_is_the_object_of_its_home_module():
+    # the project's own layout: the saturation lines and the acceptable zone live in modules of
+    # their own; kitchen.compaction offers their names too
+    homes = dict.fromkeys(
+        ("zero_air_voids_dry_density", "constant_saturation_dry_density"), saturation_lines
+    )
+    homes |= dict.fromkeys(("AcceptableZone", "acceptable_zone"), compaction_zone)
+    own = (
+        "CompactionCurve",
+        "LineOfOptimums",
+        "fit_compaction_curve",
+        "compaction_curves",
+        "line_of_optimums",
+    )
+    assert sorted(compaction.__all__) == sorted([*homes, *own])
+    for name, home in homes.items():
+        assert getattr(compaction, name) is getattr(home, name), name
+    for name in own:
+        assert getattr(compaction, name).__module__ == "kitchen.compaction", name
+    assert compaction._numbers is analysis_checks._numbers  # one set of input checks
 
 
 # --- compaction curves -----------------------------------------------------------------------
@@ -265,77 +228,3 @@ def test_line_of_optimums_with_one_effort_has_no_line():
 def test_line_of_optimums_bad_input(curves, message):
     with pytest.raises(ValueError, match=message):
         compaction.line_of_optimums(curves)
-
-
-# --- acceptable zone -------------------------------------------------------------------------
-
-# Constructed series: meeting specimens at the corners of w 0.16–0.20, ρd 1700–1800 and one
-# in the middle; failing specimens outside that rectangle.
-ZONE_W = np.array([0.16, 0.20, 0.20, 0.16, 0.18, 0.12, 0.24, 0.18])
-ZONE_RHO = np.array([1700.0, 1700.0, 1800.0, 1800.0, 1750.0, 1650.0, 1700.0, 1850.0])
-ZONE_MEETS = np.array([True, True, True, True, True, False, False, False])
-
-
-def test_acceptable_zone_is_the_rectangle_of_meeting_specimens():
-    zone = compaction.acceptable_zone(ZONE_W, ZONE_RHO, ZONE_MEETS)
-    assert zone.kind == "polygon" and zone.vertices.shape == (4, 2)
-    corners = {(0.16, 1700.0), (0.20, 1700.0), (0.20, 1800.0), (0.16, 1800.0)}
-    assert {(round(w, 10), round(r, 6)) for w, r in zone.vertices} == corners
-    x, y = zone.vertices.T  # counterclockwise: positive shoelace area
-    assert 0.5 * np.sum(x * np.roll(y, -1) - np.roll(x, -1) * y) == pytest.approx(0.04 * 100)
-    assert (zone.n_meeting, zone.n_not_meeting) == (5, 3)
-    assert zone.not_meeting_inside == () and zone.message == ""
-    assert "Daniel & Benson (1990) draw the zone by judgement" in zone.method
-    probe_w = np.array([0.18, 0.17, 0.16, 0.20, 0.15, 0.18, 0.21, 0.18])
-    probe_rho = np.array([1750.0, 1720.0, 1750.0, 1800.0, 1750.0, 1801.0, 1750.0, 1699.0])
-    expected = [True, True, True, True, False, False, False, False]  # edges count as inside
-    assert list(zone.contains(probe_w, probe_rho)) == expected
-    assert zone.contains(0.18, 1750.0) is True
-
-
-def test_acceptable_zone_lists_failing_specimens_inside_it():
-    meets = pd.Series(ZONE_MEETS, index=[f"Z{i}" for i in range(8)])
-    w = np.append(ZONE_W, 0.19)
-    rho = np.append(ZONE_RHO, 1760.0)
-    meets = pd.concat([meets, pd.Series([False], index=["Z8"])])
-    zone = compaction.acceptable_zone(w, rho, meets)
-    assert zone.not_meeting_inside == ("Z8",)
-    assert "1 specimen(s) that do not meet the criterion lie inside the zone" in zone.message
-
-
-def test_acceptable_zone_degenerate_cases():
-    point = compaction.acceptable_zone([0.18, 0.12], [1750.0, 1650.0], [True, False])
-    assert point.kind == "point" and "single point" in point.message
-    assert list(point.contains([0.18, 0.181], [1750.0, 1750.0])) == [True, False]
-
-    pair = compaction.acceptable_zone([0.16, 0.20, 0.12], [1700, 1800, 1650], [True, True, False])
-    assert pair.kind == "segment" and "segment, not an area" in pair.message
-    assert list(pair.contains([0.18, 0.18, 0.22], [1750.0, 1760.0, 1850.0])) == [True, False, False]
-
-    line = compaction.acceptable_zone([0.16, 0.18, 0.20], [1700, 1750, 1800], [True, True, True])
-    assert line.kind == "segment"
-    np.testing.assert_allclose(sorted(map(tuple, line.vertices)), [(0.16, 1700), (0.20, 1800)])
-
-    empty = compaction.acceptable_zone([0.16, 0.20], [1700, 1800], [False, False])
-    assert empty.kind == "empty" and empty.vertices.shape == (0, 2)
-    assert not empty.contains([0.16, 0.2], [1700, 1800]).any()
-
-
-@pytest.mark.parametrize(
-    "w, rho, meets, message",
-    [
-        (
-            [0.1, 0.2],
-            [1700, 1750],
-            [True, "yes"],
-            "meets: expected True or False.*'yes' at position 1",
-        ),
-        ([0.1, 0.2], [1700, 1750], [1, 0], "meets: expected True or False"),
-        ([0.1, np.nan], [1700, 1750], [True, True], "water_content: expected a finite.*position 1"),
-        ([0.1, 0.2], [1700, 1750, 1800], [True, True], "dry_density has 3"),
-        ([], [], [], "no specimens"),
-    ],
-)
-def test_acceptable_zone_bad_input(w, rho, meets, message):
-    with pytest.raises(ValueError, match=message):
-        compaction.acceptable_zone(w, rho, np.array(meets, dtype=object) if meets else [])
