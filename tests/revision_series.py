@@ -5,15 +5,13 @@ import hashlib
 import io
 from pathlib import Path
 
+from series_files import SPECIMENS
+
 from kitchen.revision_log import revisions_path
 
 SAMPLES = Path(__file__).resolve().parents[1] / "sample_data"
 WHEN = "2025-05-02T14:30:00+02:00"
 
-SPECIMENS = """specimen,diameter [mm],height [mm],dry_mass [g],specific_gravity,water_content [%],effort,standpipe_diameter [mm]
-A1,101.6,116.4,1650,2.70,18.0,standard,5
-A2,101.6,116.4,1600,2.70,16.0,standard,5
-"""
 FALLING = """specimen,time [min],head [cm],temperature [degC]
 A1,0,100,20
 A1,10,95,20.5
