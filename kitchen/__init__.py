@@ -18,8 +18,8 @@ the grading predictions beside them (the series across compaction states),
 recording, history) and :mod:`kitchen.window_log` (the reading windows chosen, with their
 reasons), :mod:`kitchen.workspace` (a series held open, recomputed specimen by specimen),
 :mod:`kitchen.charts` (the memo style, the series charts and the specimen charts) and
-:mod:`kitchen.memo` (the exported pack), :mod:`kitchen.panels` (the notebooks' widgets) and the command line in
-:mod:`kitchen.cli`.
+:mod:`kitchen.memo` (the exported pack), :mod:`kitchen.panels` (the notebooks' widgets)
+and the command line in :mod:`kitchen.cli`.
 
 Nomenclature
 ------------

@@ -174,6 +174,11 @@ def _add_revision_commands(commands) -> None:
     )
     window.add_argument("--reason", required=True, help="why this window (required)")
     window.add_argument("--who", default="", help="who chose it")
+    verify = commands.add_parser(
+        "verify",
+        help="check a memo pack against its manifest (sizes and SHA-256 of every file)",
+    )
+    verify.add_argument("pack", type=Path, help="the memo pack's folder")
     history = commands.add_parser("history", help="list a series' revisions")
     history.add_argument("series", type=Path, help="series folder or .xlsx workbook")
     history.add_argument("--out", type=Path, help="also write the history to this CSV file")
@@ -314,6 +319,19 @@ def _window(arguments, parser) -> int:
     return 0
 
 
+def _verify(arguments) -> int:
+    from .pack_manifest import MANIFEST, read_manifest, verify_pack
+
+    problems = verify_pack(arguments.pack)
+    if problems:
+        for problem in problems:
+            print(f"kitchen: {arguments.pack}: {problem}", file=sys.stderr)
+        return EXIT_INPUT
+    files = len(read_manifest(arguments.pack))
+    print(f"{arguments.pack}: all {files} file(s) of {MANIFEST} present and as exported")
+    return 0
+
+
 def _history(arguments) -> int:
     from .files import write_csv
     from .revisions import format_history, history_table, read_revisions, revisions_path
@@ -339,6 +357,8 @@ def main(argv: list[str] | None = None) -> int:
             return _report(arguments)
         if arguments.command == "revise":
             return _revise(arguments, parser)
+        if arguments.command == "verify":
+            return _verify(arguments)
         if arguments.command == "window":
             return _window(arguments, parser)
         if arguments.command == "history":

@@ -9,7 +9,10 @@
   and ``charts/NAME.svg`` (static, through kaleido and Chromium) for each chart;
 - ``report.html``: the specimens table, the charts (loading ``charts/plotly.min.js``), the
   methods and their sources, the criteria applied, the cautions and the provenance, which
-  names the version, size and SHA-256 of the plotly.js the pages run.
+  names the version, size and SHA-256 of the plotly.js the pages run;
+- ``manifest.csv``, last: every file above with its size and SHA-256
+  (:mod:`kitchen.pack_manifest`), so a reviewer can check the pack received is the pack
+  exported, and a pack with a manifest is known to be whole.
 
 The pages load plotly.js by relative paths and make no request to the network, so the pack
 opens offline wherever its folder goes, whole: copied, moved, or zipped and unzipped. A
@@ -23,7 +26,8 @@ Every item carries the cautions. Every file goes through
 :func:`kitchen.files.atomic_write_bytes`, so each is whole or absent. A pack is refused
 before any file is written when images are asked for without Chromium; a failure part-way
 leaves the files already written, plotly.js first among the pages, so every page present
-can draw its charts.
+can draw its charts, and no new manifest. Exporting again into the same folder removes the
+files the previous manifest lists that the new pack no longer has, and nothing else.
 """
 
 from __future__ import annotations
@@ -47,6 +51,7 @@ from .constant_head import collection_table, constant_head_analysis
 from .falling_head import falling_head_analysis
 from .files import atomic_write_bytes, spreadsheet_safe
 from .memo_tables import checks_table, fits_table, specimens_table
+from .pack_manifest import read_manifest, write_manifest
 from .provenance import Provenance, memo_provenance
 from .report_html import ChartScript, chart_page, report_page
 from .results import Settings, reference_label, results_table, series_results
@@ -103,6 +108,10 @@ class MemoPack:
     analysis: SeriesAnalysis
     provenance: Provenance
     seconds: float
+    manifest: Path | None = None
+    """``manifest.csv``: every file of `files` with its size and SHA-256."""
+    removed: tuple[Path, ...] = ()
+    """Files of a pack exported before into the same folder that this one no longer has."""
 
     def __iter__(self):
         return iter(self.files)
@@ -488,6 +497,7 @@ def export_memo_pack(
     if images:
         start_image_export()
     out = Path(out)
+    previous = read_manifest(out)  # an unreadable manifest stops the export here
     if results is None:
         results = series_results(series, settings, windows, capillary_rises)
     analysis = analyse_series(results, criterion, settings.reference_temperature)
@@ -590,4 +600,7 @@ def export_memo_pack(
             skipped,
         ).encode("utf-8"),
     )
-    return MemoPack(out, tuple(written), analysis, provenance, time.perf_counter() - clock)
+    manifest, removed = write_manifest(out, written, previous)
+    return MemoPack(
+        out, tuple(written), analysis, provenance, time.perf_counter() - clock, manifest, removed
+    )
