@@ -8,18 +8,21 @@ compaction state across the series.
 The modules follow the data's path: :mod:`kitchen.units`, :mod:`kitchen.raw_tables`,
 :mod:`kitchen.table_checks` and :mod:`kitchen.series` (load), :mod:`kitchen.specimen`
 (phase relations), :mod:`kitchen.water` (density, viscosity), :mod:`kitchen.constant_head`
-and :mod:`kitchen.falling_head` with its record, window and evidence modules (test
-reductions, sharing the fits gathered in :mod:`kitchen.fitting`), :mod:`kitchen.validity`
-(termination criteria and fit diagnostics), :mod:`kitchen.uncertainty` (intervals after the
-GUM), :mod:`kitchen.results` (the per-specimen results table), :mod:`kitchen.compaction`
-and :mod:`kitchen.trends` with the saturation lines, the acceptable zone, the criterion and
-the grading predictions beside them (the series across compaction states),
-:mod:`kitchen.revisions` (the append-only log of corrections: its log, the effective data,
-recording, history) and :mod:`kitchen.window_log` (the reading windows chosen, with their
-reasons), :mod:`kitchen.workspace` (a series held open, recomputed specimen by specimen),
-:mod:`kitchen.charts` (the memo style, the series charts and the specimen charts) and
-:mod:`kitchen.memo` (the exported pack), :mod:`kitchen.panels` (the notebooks' widgets)
-and the command line in :mod:`kitchen.cli`.
+with its collections module and :mod:`kitchen.falling_head` with its record, window and
+evidence modules (test reductions, sharing the fits gathered in :mod:`kitchen.fitting`),
+:mod:`kitchen.validity` (termination criteria and fit diagnostics),
+:mod:`kitchen.uncertainty` (intervals after the GUM: its input quantities and their
+propagation), :mod:`kitchen.results` (the per-specimen results table),
+:mod:`kitchen.compaction` and :mod:`kitchen.trends` with the saturation lines, the
+acceptable zone, the criterion and the grading predictions beside them (the series across
+compaction states), :mod:`kitchen.series_analysis` (all of them in one call, on the result
+chosen for each specimen), :mod:`kitchen.revisions` (the append-only log of corrections: its
+log, the effective data, recording, history) and :mod:`kitchen.window_log` (the reading
+windows chosen, with their reasons), :mod:`kitchen.workspace` (a series held open,
+recomputed specimen by specimen, under digests of its inputs), :mod:`kitchen.charts` (the
+memo style, the series charts and the specimen charts) and :mod:`kitchen.memo` (the
+exported pack: its charts, images, workbook and HTML pages), :mod:`kitchen.panels` (the
+notebooks' widgets) and the command line in :mod:`kitchen.cli`.
 
 Nomenclature
 ------------

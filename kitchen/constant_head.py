@@ -11,6 +11,8 @@ permeability, constant-head test equation k = Q·L/(A·h·t).
 :func:`constant_head_analysis` adds to the reduction the validity verdicts (steady
 values, k against gradient, the gradient limit, the Reynolds number) and the 95 %
 interval that combines the fit with the measurement resolutions; the results table uses it.
+Each collection is reduced in :mod:`kitchen.constant_head_collections`, whose names are
+importable from here.
 """
 
 from __future__ import annotations
@@ -20,6 +22,12 @@ from dataclasses import dataclass
 import numpy as np
 import pandas as pd
 
+from .constant_head_collections import (
+    collection_table,
+    constant_head_conductivity,
+    darcy_velocity,
+    hydraulic_gradient,
+)
 from .fitting import LinearFit, ProportionalFit, fit_through_origin
 from .uncertainty import (
     UncertaintyResult,
@@ -36,7 +44,7 @@ from .validity import (
     reynolds_number,
     steady_values_check,
 )
-from .water import viscosity_ratio, water_density, water_viscosity
+from .water import water_density, water_viscosity
 
 __all__ = [
     "constant_head_conductivity",
@@ -48,147 +56,6 @@ __all__ = [
     "ConstantHeadAnalysis",
     "constant_head_analysis",
 ]
-
-
-def constant_head_conductivity(volume, flow_length, area, head_difference, duration):
-    """Hydraulic conductivity from one constant-head collection, k = Q·L/(A·h·t).
-
-    Parameters
-    ----------
-    volume : float or array_like
-        Volume of water collected. [m3]
-    flow_length : float or array_like
-        Length of the flow path between the points the head difference is measured
-        across (the specimen height, or the manometer tap spacing). [m]
-    area : float or array_like
-        Specimen cross-section area. [m2]
-    head_difference : float or array_like
-        Head difference across ``flow_length``. [m]
-    duration : float or array_like
-        Collection time. [s]
-
-    Returns
-    -------
-    float or array_like
-        Hydraulic conductivity at the test temperature. [m/s]
-
-    References
-    ----------
-    ASTM D2434, calculation of k (from memory for the clause); Das & Sobhan,
-    *Principles of Geotechnical Engineering*, constant-head test equation.
-
-    Examples
-    --------
-    A textbook case (Das, constant-head example; inputs and answer from memory):
-    L = 30 cm, A = 177 cm², h = 50 cm, Q = 350 cm³ in 5 min.
-
-    >>> k = constant_head_conductivity(350e-6, 0.30, 177e-4, 0.50, 300.0)
-    >>> round(k * 100, 6)  # cm/s
-    0.003955
-    """
-    return volume * flow_length / (area * head_difference * duration)
-
-
-def hydraulic_gradient(head_difference, flow_length):
-    """Hydraulic gradient i = h/L.
-
-    Parameters
-    ----------
-    head_difference : float or array_like
-        Head difference. [m]
-    flow_length : float or array_like
-        Flow path length. [m]
-
-    Returns
-    -------
-    float or array_like
-        Gradient. [-]
-
-    References
-    ----------
-    Darcy's law as written in ASTM D2434 and D5084 (i = h/L).
-    """
-    return head_difference / flow_length
-
-
-def darcy_velocity(volume, area, duration):
-    """Darcy (discharge) velocity v = Q/(A·t).
-
-    Parameters
-    ----------
-    volume : float or array_like
-        Volume of water collected. [m3]
-    area : float or array_like
-        Specimen cross-section area. [m2]
-    duration : float or array_like
-        Collection time. [s]
-
-    Returns
-    -------
-    float or array_like
-        Darcy velocity. [m/s]
-
-    References
-    ----------
-    Das & Sobhan, *Principles of Geotechnical Engineering*, Darcy's law v = k·i.
-    """
-    return volume / (area * duration)
-
-
-def collection_table(
-    collections: pd.DataFrame,
-    state: pd.DataFrame,
-    reference_temperature: float = 20.0,
-    viscosity: str = "kestin",
-) -> pd.DataFrame:
-    """Reduce every constant-head collection.
-
-    Parameters
-    ----------
-    collections : pandas.DataFrame
-        The series' ``constant_head`` table: ``specimen``, ``head_difference`` [m],
-        ``duration`` [s], ``volume`` [m3] or ``outflow_mass`` [kg], ``temperature`` [degC],
-        ``flow_length`` [m] (NaN for the specimen height).
-    state : pandas.DataFrame
-        Specimen state (:func:`kitchen.specimen.specimen_state`): ``specimen``, ``area``,
-        ``height``.
-    reference_temperature : float
-        Temperature k is corrected to. [degC]
-    viscosity : str
-        Viscosity method, see :func:`kitchen.water.viscosity_ratio`.
-
-    Returns
-    -------
-    pandas.DataFrame
-        A new frame, one row per collection, adding ``flow_volume`` [m3] (a weighed mass
-        turned into volume with the water density at the collection's temperature, or at
-        the reference temperature when none was recorded — flagged in
-        ``temperature_missing``), ``gradient``, ``darcy_velocity`` [m/s], ``k`` [m/s],
-        ``viscosity_ratio`` and ``k_reference`` [m/s].
-    """
-    out = collections.copy()
-    geometry = state.set_index("specimen")[["area", "height"]]
-    out["area"] = out["specimen"].map(geometry["area"]).to_numpy(float)
-    length = out["flow_length"].to_numpy(float)
-    height = out["specimen"].map(geometry["height"]).to_numpy(float)
-    out["flow_length"] = np.where(np.isnan(length), height, length)
-    temperature = out["temperature"].to_numpy(float)
-    missing = np.isnan(temperature)
-    out["temperature_missing"] = missing
-    used = np.where(missing, reference_temperature, temperature)
-    weighed = out["volume"].isna().to_numpy()
-    volume = out["volume"].to_numpy(float).copy()
-    volume[weighed] = out["outflow_mass"].to_numpy(float)[weighed] / water_density(used[weighed])
-    out["flow_volume"] = volume
-    out["gradient"] = hydraulic_gradient(out["head_difference"], out["flow_length"])
-    out["darcy_velocity"] = darcy_velocity(volume, out["area"], out["duration"])
-    out["k"] = constant_head_conductivity(
-        volume, out["flow_length"], out["area"], out["head_difference"], out["duration"]
-    )
-    ratio = viscosity_ratio(used, reference_temperature, viscosity)
-    out["viscosity_ratio"] = np.where(missing, 1.0, ratio)
-    out["k_reference"] = out["k"] * out["viscosity_ratio"]
-    return out
 
 
 @dataclass(frozen=True)

@@ -28,36 +28,37 @@ before any file is written when images are asked for without Chromium; a failure
 leaves the files already written, plotly.js first among the pages, so every page present
 can draw its charts, and no new manifest. Exporting again into the same folder removes the
 files the previous manifest lists that the new pack no longer has, and nothing else.
+
+The charts are built in :mod:`kitchen.memo_figures`, their static images made in
+:mod:`kitchen.memo_images` and the workbook, with the cautions, written in
+:mod:`kitchen.memo_workbook`. Their names are importable from here.
 """
 
 from __future__ import annotations
 
-import io
-import math
 import posixpath
-import re
-import threading
 import time
 from collections.abc import Callable
 from dataclasses import asdict, dataclass, is_dataclass
 from datetime import UTC, datetime
 from pathlib import Path
 
-import numpy as np
 import pandas as pd
 
-from . import CAUTIONS, __version__, display_units
-from .constant_head import collection_table, constant_head_analysis
-from .falling_head import falling_head_analysis
+from . import display_units
 from .files import atomic_write_bytes, spreadsheet_safe
+from .memo_figures import memo_charts
+from .memo_images import FIRST_IMAGE_TIMEOUT as FIRST_IMAGE_TIMEOUT
+from .memo_images import PNG_SCALE as PNG_SCALE
+from .memo_images import ImageExportUnavailable, figure_image, start_image_export
 from .memo_tables import checks_table, fits_table, specimens_table
+from .memo_workbook import MEMO_CAUTIONS, _notes_sheet, workbook_bytes
 from .pack_manifest import read_manifest, write_manifest
 from .provenance import Provenance, memo_provenance
 from .report_html import ChartScript, chart_page, report_page
 from .results import Settings, reference_label, results_table, series_results
 from .series import Series
 from .series_analysis import SeriesAnalysis, analyse_series
-from .specimen import specimen_state
 from .window_log import standing_choices
 
 __all__ = [
@@ -72,28 +73,9 @@ __all__ = [
     "export_memo_pack",
 ]
 
-MEMO_CAUTIONS = CAUTIONS + (
-    "ASTM D5084 itself says its results apply to the field with caution and by qualified "
-    "personnel.",
-)
-"""The cautions every exported item carries: :data:`kitchen.CAUTIONS` and ASTM D5084's own."""
-
 CHART_SCRIPT = "charts/plotly.min.js"
 """Where a pack keeps plotly.js, ``/``-separated from the pack's folder; pages load it by a
 path relative to their own folder."""
-
-PNG_SCALE = 2
-"""PNG pixels per layout pixel: a 980-pixel chart prints 16 cm wide at about 300 dpi."""
-
-_CHROMIUM_HELP = (
-    "static chart export (PNG, SVG) needs Chromium and found none: install Debian's "
-    "chromium package (apt-get install chromium), or set BROWSER_PATH to a Chromium or "
-    "Chrome executable"
-)
-
-
-class ImageExportUnavailable(RuntimeError):
-    """Static images cannot be made on this machine (no Chromium for kaleido)."""
 
 
 @dataclass(frozen=True)
@@ -120,247 +102,12 @@ class MemoPack:
         return len(self.files)
 
 
-# --- charts ----------------------------------------------------------------------------------
-
-
-def _safe_name(text: str, taken: set) -> str:
-    name = re.sub(r"[^A-Za-z0-9._-]+", "_", str(text)).strip("._") or "specimen"
-    candidate, number = name, 2
-    while candidate.lower() in taken:
-        candidate, number = f"{name}_{number}", number + 1
-    taken.add(candidate.lower())
-    return candidate
-
-
-def memo_charts(
-    series: Series,
-    analysis: SeriesAnalysis,
-    settings: Settings,
-    k_unit_name: str = "m/s",
-    density_unit_name: str = "Mg/m³",
-    windows: dict | None = None,
-    capillary_rises: dict | None = None,
-) -> tuple[list[tuple[str, str, object]], list[str]]:
-    """Every chart of the memo, and why any chart was not drawn.
-
-    The specimen charts are reduced with the same `windows` and `capillary_rises` as
-    :func:`kitchen.results.series_results`, so each shows the k of the results table.
-
-    Returns
-    -------
-    charts : list of (file name, title, plotly Figure)
-        The series charts the data allow, then one chart per specimen and method.
-    skipped : list of str
-        A sentence for each chart left out.
-    """
-    from . import charts
-
-    built, skipped = [], []
-    series_charts = (
-        (
-            "compaction_conductivity",
-            "Compaction and hydraulic conductivity",
-            lambda: charts.compaction_conductivity_figure(analysis, k_unit_name, density_unit_name),
-        ),
-        (
-            "conductivity_void_ratio",
-            "Hydraulic conductivity against void ratio",
-            lambda: charts.conductivity_trend_figure(
-                analysis, "void_ratio", k_unit_name, density_unit_name
-            ),
-        ),
-        (
-            "conductivity_dry_density",
-            "Hydraulic conductivity against dry density",
-            lambda: charts.conductivity_trend_figure(
-                analysis, "dry_density", k_unit_name, density_unit_name
-            ),
-        ),
-        (
-            "conductivity_water_content",
-            "Hydraulic conductivity against water content relative to optimum",
-            lambda: charts.conductivity_trend_figure(
-                analysis, "water_content_from_optimum", k_unit_name, density_unit_name
-            ),
-        ),
-    )
-    for name, title, build in series_charts:
-        try:
-            built.append((name, title, build()))
-        except ValueError as error:
-            skipped.append(f"{title}: not drawn ({error})")
-    windows, rises = windows or {}, capillary_rises or {}
-    reference = settings.reference_temperature
-    state = specimen_state(series.specimens).set_index("specimen", drop=False)
-    taken: set = set()
-    for specimen, readings in series.falling_head.groupby("specimen", sort=False):
-        name = "specimen_" + _safe_name(f"{specimen}_falling_head", taken)
-        try:
-            record = falling_head_analysis(
-                readings,
-                state.loc[specimen],
-                settings,
-                windows.get(specimen),
-                capillary_rise=rises.get(specimen),
-            )
-            figure = charts.falling_head_figure(readings, record, k_unit_name, reference)
-        except (ValueError, KeyError) as error:
-            skipped.append(f"specimen {specimen}, falling head: not drawn ({error})")
-            continue
-        built.append((name, f"Specimen {specimen}: falling head", figure))
-    if not series.constant_head.empty:
-        collections = collection_table(
-            series.constant_head, state.reset_index(drop=True), reference, settings.viscosity
-        )
-        for specimen in pd.unique(collections["specimen"]):
-            name = "specimen_" + _safe_name(f"{specimen}_constant_head", taken)
-            try:
-                record = constant_head_analysis(collections, state.loc[specimen], settings)
-                figure = charts.constant_head_figure(record, k_unit_name, reference)
-            except (ValueError, KeyError) as error:
-                skipped.append(f"specimen {specimen}, constant head: not drawn ({error})")
-                continue
-            built.append((name, f"Specimen {specimen}: constant head", figure))
-    return built, skipped
-
-
-def _browser_path() -> str | None:
-    from choreographer.browsers.chromium import Chromium
-
-    try:
-        return Chromium.find_browser(skip_local=False)
-    except (RuntimeError, ValueError, OSError):
-        return None
-
-
-_image_server = {"started": False, "answered": False}
-FIRST_IMAGE_TIMEOUT = 180.0
-"""Seconds to wait for Chromium to render the first image before giving up. [s]"""
-
-
-def start_image_export() -> None:
-    """Start kaleido's image server once per process, after checking for Chromium.
-
-    Raises
-    ------
-    ImageExportUnavailable
-        When no Chromium is found, naming what to install.
-    """
-    import kaleido
-
-    if _image_server["started"]:
-        return
-    path = _browser_path()
-    if path is None or not Path(path).exists():
-        raise ImageExportUnavailable(_CHROMIUM_HELP)
-    kaleido.start_sync_server(mathjax=False, silence_warnings=True)
-    _image_server["started"] = True
-
-
-def _render(figure_dict: dict, options: dict) -> bytes:
-    """One image from the server; the first waits at most FIRST_IMAGE_TIMEOUT seconds.
-
-    A Chromium that starts but cannot render would otherwise leave the call waiting for
-    ever; after the first image has come back, calls are made directly.
-    """
-    import kaleido
-
-    if _image_server["answered"]:
-        return kaleido.calc_fig_sync(figure_dict, opts=options)
-    outcome: dict = {}
-
-    def first() -> None:
-        try:
-            outcome["image"] = kaleido.calc_fig_sync(figure_dict, opts=options)
-        except Exception as error:  # handed to the caller below
-            outcome["error"] = error
-
-    worker = threading.Thread(target=first, daemon=True)
-    worker.start()
-    worker.join(FIRST_IMAGE_TIMEOUT)
-    if "image" in outcome:
-        _image_server["answered"] = True
-        return outcome["image"]
-    reason = outcome.get("error") or f"no answer within {FIRST_IMAGE_TIMEOUT:g} s"
-    raise ImageExportUnavailable(
-        f"Chromium was found but did not render a chart ({reason}); check that it starts "
-        "headless on this machine (chromium --headless --no-sandbox)"
-    )
-
-
-def figure_image(figure, image_format: str) -> bytes:
-    """A figure as PNG or SVG bytes through kaleido's image server (started when needed)."""
-    start_image_export()
-    layout = figure.layout
-    options = dict(
-        format=image_format,
-        width=layout.width or 980,
-        height=layout.height or 620,
-        scale=PNG_SCALE if image_format == "png" else 1,
-    )
-    return _render(figure.to_dict(), options)
-
-
 def _caption(provenance: Provenance, criterion_text: str) -> list[str]:
     return [f"Caution: {text}" for text in MEMO_CAUTIONS] + [
         f"kitchen {provenance.tool_version} · series {provenance.series} · "
         f"{provenance.created} · {criterion_text} · "
         f"{provenance.revision_count} revision(s) applied"
     ]
-
-
-# --- workbook --------------------------------------------------------------------------------
-
-
-def _cell(value):
-    if value is None or value is pd.NA or value is pd.NaT:
-        return None
-    if isinstance(value, float | np.floating):
-        return None if not math.isfinite(float(value)) else float(value)
-    if isinstance(value, np.integer):
-        return int(value)
-    if isinstance(value, np.bool_):
-        return bool(value)
-    if isinstance(value, list | tuple):
-        return "; ".join(map(str, value))
-    return value
-
-
-def workbook_bytes(sheets: dict[str, pd.DataFrame], notes: pd.DataFrame) -> bytes:
-    """An .xlsx workbook of the sheets given, plus a ``cautions`` sheet, as bytes.
-
-    Every text cell is made spreadsheet-safe (:func:`kitchen.files.spreadsheet_safe`).
-    """
-    from openpyxl import Workbook
-    from openpyxl.styles import Font
-
-    book = Workbook()
-    book.remove(book.active)
-    for name, frame in {**sheets, "cautions": notes}.items():
-        sheet = book.create_sheet(name)
-        safe = spreadsheet_safe(frame.map(_cell) if not frame.empty else frame)
-        sheet.append([str(c) for c in safe.columns])
-        for cell in sheet[1]:
-            cell.font = Font(bold=True)
-        for row in safe.itertuples(index=False):
-            sheet.append([_cell(v) for v in row])
-        sheet.freeze_panes = "A2"
-        for index, column in enumerate(safe.columns, start=1):
-            width = max([len(str(column))] + [len(str(v)) for v in safe[column].head(200)])
-            sheet.column_dimensions[sheet.cell(1, index).column_letter].width = min(width + 2, 80)
-    book.properties.creator = f"kitchen {__version__}"
-    book.properties.description = " ".join(MEMO_CAUTIONS)
-    buffer = io.BytesIO()
-    book.save(buffer)
-    return buffer.getvalue()
-
-
-def _notes_sheet(provenance: Provenance, criterion_text: str) -> pd.DataFrame:
-    rows = [("caution", text) for text in MEMO_CAUTIONS]
-    rows.append(("criterion", criterion_text))
-    rows += [("setting", f"{key} = {value}") for key, value in provenance.settings]
-    rows += [("provenance", line) for line in provenance.lines()]
-    return pd.DataFrame(rows, columns=["item", "text"])
 
 
 # --- the export ------------------------------------------------------------------------------

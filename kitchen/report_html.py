@@ -6,21 +6,17 @@ path (``<script src="plotly.min.js">``), or inlined in every page. With a shared
 page opened without it (a chart mailed on its own, a page opened from inside a zip) shows
 a notice saying what is missing instead of blank charts. :mod:`kitchen.memo` turns the
 figures into HTML and decides which. Every value that comes from the input (specimen ids,
-effort labels, notes) is escaped.
+effort labels, notes) is escaped. The markup the pages share, and :class:`ChartScript`, are
+in :mod:`kitchen.page_markup`; their names are importable from here.
 """
 
 from __future__ import annotations
 
-import hashlib
-import html
-import math
-import posixpath
-from dataclasses import dataclass
-from functools import cached_property
-
 import pandas as pd
 
 from .display_units import DisplayUnit, distinct_texts, scientific
+from .page_markup import STYLE as STYLE
+from .page_markup import ChartScript, _cautions, _e, _number, _page, _table
 from .provenance import Provenance
 from .results import reference_label
 from .series_analysis import ANALYSIS_METHODS, VERDICTS, SeriesAnalysis
@@ -62,136 +58,6 @@ REDUCTION_METHODS = (
 
 VERDICT_MARKS = {MEETS: "●", DOES_NOT_MEET: "○", NOT_CONCLUSIVE: "◎"}
 """The mark beside each verdict: the fill of its marker on the charts."""
-
-STYLE = """
-body { font-family: 'DejaVu Serif', 'Liberation Serif', Georgia, serif; color: #1d2731;
-       margin: 0; background: #fbfbf9; line-height: 1.45; }
-main { max-width: 1060px; margin: 0 auto; padding: 24px 28px 48px; background: white; }
-h1 { font-size: 1.6em; margin: 0.2em 0 0.1em; }
-h2 { font-size: 1.2em; border-bottom: 1px solid #1d2731; padding-bottom: 2px; margin-top: 1.8em; }
-h3 { font-size: 1.0em; margin-top: 1.4em; }
-.lede { color: #69737d; margin-top: 0; }
-.cautions { border-left: 4px solid #a33b20; background: #fbf3f0; padding: 8px 16px; }
-.cautions li { margin: 4px 0; }
-table { border-collapse: collapse; font-size: 0.86em; margin: 8px 0; }
-th, td { border-bottom: 1px solid #e4e7ea; padding: 3px 8px; text-align: left;
-         vertical-align: top; }
-th { border-bottom: 1.5px solid #1d2731; }
-td.nowrap, span.nowrap { white-space: nowrap; }
-td.number { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
-.chart { margin: 12px 0 28px; page-break-inside: avoid; }
-.note { color: #69737d; font-size: 0.86em; }
-code, .hash { font-family: 'DejaVu Sans Mono', monospace; font-size: 0.85em;
-              word-break: break-all; }
-@media print { body { background: white; } main { padding: 0; } }
-"""
-
-
-def _e(value) -> str:
-    return html.escape("" if value is None else str(value))
-
-
-def _number(value, digits: int = 3) -> str:
-    if value is None or pd.isna(value):
-        return "–"
-    value = float(value)
-    if math.isinf(value):
-        return "∞" if value > 0 else "−∞"
-    return f"{value:.{digits}g}"
-
-
-def _table(header, rows, numeric=(), nowrap=()) -> str:
-    """An HTML table; cells are already HTML (escape before)."""
-    head = "".join(f"<th>{h}</th>" for h in header)
-    body = []
-    for row in rows:
-        cells = "".join(
-            f'<td class="number">{c}</td>'
-            if i in numeric
-            else (f'<td class="nowrap">{c}</td>' if i in nowrap else f"<td>{c}</td>")
-            for i, c in enumerate(row)
-        )
-        body.append(f"<tr>{cells}</tr>")
-    return f"<table><thead><tr>{head}</tr></thead><tbody>{''.join(body)}</tbody></table>"
-
-
-@dataclass(frozen=True)
-class ChartScript:
-    """plotly.js as the pages of a pack load it, and what a reviewer can check it against.
-
-    Attributes
-    ----------
-    code : str
-        plotly.js itself (``plotly.offline.get_plotlyjs()``).
-    version : str
-        The plotly.js version (``plotly.offline.get_plotlyjs_version()``).
-    path : str or None
-        The file holding `code` inside the pack, ``/``-separated from the pack's folder
-        (``charts/plotly.min.js``), which each page loads by a path relative to its own
-        folder; None when every page inlines `code`.
-    """
-
-    code: str
-    version: str
-    path: str | None = None
-
-    @cached_property
-    def content(self) -> bytes:
-        """The bytes of the file at `path` (the code in UTF-8)."""
-        return self.code.encode("utf-8")
-
-    @cached_property
-    def sha256(self) -> str:
-        """SHA-256 of :attr:`content`, in hex."""
-        return hashlib.sha256(self.content).hexdigest()
-
-    def source(self, folder: str) -> str:
-        """The path of the file relative to a page in `folder` (``""``: the pack's folder)."""
-        if self.path is None:
-            raise ValueError("this plotly.js is inlined in each page: it has no file to load")
-        return posixpath.relpath(self.path, folder or ".")
-
-    def element(self, folder: str) -> str:
-        """The ``<script>`` element that gives a page in `folder` plotly.js."""
-        if self.path is None:
-            return f'<script type="text/javascript">{self.code}</script>\n'
-        return f'<script type="text/javascript" src="{_e(self.source(folder))}"></script>\n'
-
-    def notice(self, folder: str) -> tuple[str, str]:
-        """A hidden notice for the top of a page in `folder`, and the check that shows it.
-
-        The check, placed at the end of the page, reveals the notice when plotly.js did not
-        load; an inlined script always loads, so it needs neither (two empty strings).
-        """
-        if self.path is None:
-            return "", ""
-        text = (
-            "The interactive charts of this page did not load: they need plotly.js, which "
-            f"the page loads from <code>{_e(self.source(folder))}</code> (relative to the "
-            "page), and it was not found. Open the page from the memo pack's folder, kept "
-            "whole (unzip the pack first), or ask for a pack exported self-contained. The "
-            "PNG and SVG charts of the pack need no script."
-        )
-        notice = f'<p class="cautions" id="chart-script-missing" hidden>{text}</p>\n'
-        check = (
-            '<script>if (typeof Plotly === "undefined") '
-            '{ document.getElementById("chart-script-missing").hidden = false; }</script>\n'
-        )
-        return notice, check
-
-
-def _page(title: str, body: str, head_script: str = "") -> str:
-    return (
-        '<!DOCTYPE html>\n<html lang="en">\n<head>\n<meta charset="utf-8">\n'
-        f'<meta name="generator" content="kitchen">\n<title>{_e(title)}</title>\n'
-        f"<style>{STYLE}</style>\n{head_script}</head>\n<body><main>\n{body}\n</main></body>\n"
-        "</html>\n"
-    )
-
-
-def _cautions(cautions) -> str:
-    items = "".join(f"<li>{_e(text)}</li>" for text in cautions)
-    return f'<section class="cautions"><strong>Cautions</strong><ul>{items}</ul></section>'
 
 
 def _script_row(script: ChartScript) -> tuple[str, str]:

@@ -12,15 +12,14 @@ specimen's height in a series of a dozen long logger records reduces that one sp
 The results are those of :func:`kitchen.results.series_results` on the effective series,
 row for row. Like the rest of the core, this module draws nothing: it says which
 specimens changed (:meth:`Workspace.sync`) so that a panel redraws only their charts.
+The digests, and where each specimen's rows lie, are in :mod:`kitchen.table_digests`.
 """
 
 from __future__ import annotations
 
-import hashlib
 import time
 from pathlib import Path
 
-import numpy as np
 import pandas as pd
 
 from .constant_head import ConstantHeadAnalysis, collection_table, constant_head_analysis
@@ -41,63 +40,12 @@ from .revisions import (
 )
 from .series import TABLE_NAMES, RawTable, Series, build_series, read_tables, rebuild_series
 from .specimen import specimen_state
+from .table_digests import _digest, _groups, _spans, frame_digest
 from .window_log import chosen_windows, read_window_choices
 
 __all__ = ["Workspace", "frame_digest"]
 
 READING_TABLES = ("constant_head", "falling_head")
-
-
-def frame_digest(frame: pd.DataFrame, skip: tuple[str, ...] = ()) -> str:
-    """A digest of a table's values, column by column (names, dtypes and contents).
-
-    Parameters
-    ----------
-    frame : pandas.DataFrame
-        The table; its index is not part of the digest.
-    skip : tuple of str
-        Columns left out (the specimen id of one specimen's readings, say).
-
-    Returns
-    -------
-    str
-        BLAKE2b, 16 bytes, as hex. Numeric columns are hashed from their bytes; other
-        columns from the text of their values.
-    """
-    digest = hashlib.blake2b(digest_size=16)
-    for name in frame.columns:
-        if name in skip:
-            continue
-        values = frame[name].to_numpy()
-        digest.update(f"{name}\x1f{values.dtype}\x1e".encode())
-        if values.dtype.kind in "biuf":
-            digest.update(np.ascontiguousarray(values).view(np.uint8))
-        else:
-            digest.update("\x1f".join(map(repr, values)).encode())
-    return digest.hexdigest()
-
-
-def _digest(*parts) -> str:
-    return hashlib.blake2b("\x1e".join(map(repr, parts)).encode(), digest_size=16).hexdigest()
-
-
-def _spans(frame: pd.DataFrame) -> dict[str, tuple[int, int]]:
-    """Each specimen's rows as positions ``(start, stop)``; they are contiguous in
-    a falling-head table (the loader refuses split readings)."""
-    ids = frame["specimen"].to_numpy(dtype=object)
-    if not ids.size:
-        return {}
-    starts = np.flatnonzero(np.r_[True, ids[1:] != ids[:-1]])
-    stops = np.r_[starts[1:], ids.size]
-    return {ids[a]: (int(a), int(b)) for a, b in zip(starts, stops, strict=True)}
-
-
-def _groups(frame: pd.DataFrame) -> dict[str, np.ndarray]:
-    """Each specimen's row positions, in order of first appearance (any arrangement)."""
-    codes, ids = pd.factorize(frame["specimen"].to_numpy(dtype=object))
-    order = np.argsort(codes, kind="stable")
-    bounds = np.searchsorted(codes[order], np.arange(len(ids) + 1))
-    return {ids[i]: order[bounds[i] : bounds[i + 1]] for i in range(len(ids))}
 
 
 class Workspace:

@@ -25,7 +25,7 @@ import pytest
 from openpyxl import load_workbook
 from plotly.offline import get_plotlyjs, get_plotlyjs_version
 
-from kitchen import CAUTIONS, __version__
+from kitchen import CAUTIONS, __version__, memo, memo_figures, memo_images, memo_workbook
 from kitchen.memo import CHART_SCRIPT, MEMO_CAUTIONS, export_memo_pack
 from kitchen.results import Settings, results_table, series_results
 from kitchen.revisions import load_effective_series, revise
@@ -70,6 +70,22 @@ def clay_pack(tmp_path_factory):
         series, out, images=False, progress=lambda *call: calls.append(call), k_unit="cm/s"
     )
     return series, pack, calls
+
+
+def test_each_name_is_the_object_of_its_home_module():
+    # the project's own layout: the charts, the images and the workbook live in modules of
+    # their own; kitchen.memo offers their names
+    homes = dict.fromkeys(("CHART_SCRIPT", "MemoPack", "export_memo_pack"), memo)
+    homes["memo_charts"] = memo_figures
+    homes |= dict.fromkeys(
+        ("ImageExportUnavailable", "start_image_export", "figure_image"), memo_images
+    )
+    homes |= dict.fromkeys(("MEMO_CAUTIONS", "workbook_bytes"), memo_workbook)
+    assert sorted(memo.__all__) == sorted(homes)
+    for name, home in homes.items():
+        assert getattr(memo, name) is getattr(home, name), name
+    assert memo.PNG_SCALE is memo_images.PNG_SCALE
+    assert memo.FIRST_IMAGE_TIMEOUT is memo_images.FIRST_IMAGE_TIMEOUT
 
 
 def test_pack_files_and_progress(clay_pack):
@@ -186,35 +202,6 @@ def test_results_csv_matches_the_tests_sheet(clay_pack):
     assert len(table) == 14 and "k20 [m/s]" in table
 
 
-@pytest.fixture(scope="module")
-def hostile_series(tmp_path_factory):
-    """The sand series with text a spreadsheet would read as formulas."""
-    folder = tmp_path_factory.mktemp("hostile") / "sand"
-    shutil.copytree(SAMPLES / "drainage_sand", folder)
-    specimens = (folder / "specimens.csv").read_text()
-    lines = specimens.splitlines()
-    lines[0] += ",effort"
-    lines[1:] = [line + ',=HYPERLINK("http://example.invalid")' for line in lines[1:]]
-    (folder / "specimens.csv").write_text("\n".join(lines).replace("DL-A", "-DL-A") + "\n")
-    tests = (folder / "constant_head.csv").read_text().replace("DL-A", "-DL-A")
-    (folder / "constant_head.csv").write_text(tests)
-    return folder
-
-
-def test_formula_like_text_is_neutralised(hostile_series, tmp_path):
-    pack = export_memo_pack(load_series(hostile_series), tmp_path, images=False)
-    csv_text = (tmp_path / "results.csv").read_text()
-    assert "'-DL-A" in csv_text and "'=HYPERLINK" in csv_text
-    book = load_workbook(tmp_path / "results.xlsx")
-    cells = [c for sheet in book for row in sheet.iter_rows() for c in row if c.value is not None]
-    texts = [c for c in cells if isinstance(c.value, str)]
-    assert all(c.data_type != "f" for c in cells)  # no cell became a formula
-    assert not [c.value for c in texts if c.value.startswith(("=", "+", "-", "@"))]
-    assert '\'=HYPERLINK("http://example.invalid")' in [c.value for c in texts]
-    assert "'-DL-A" in [c.value for c in texts]
-    assert len(pack) > 3
-
-
 def test_revisions_are_counted_and_their_log_hashed(tmp_path):
     folder = tmp_path / "clay"
     shutil.copytree(SAMPLES / "clay_liner", folder)
@@ -293,20 +280,6 @@ def test_static_images_carry_the_cautions(cli_pack):
     for caution in MEMO_CAUTIONS:
         first_words = " ".join(caution.split()[:6])
         assert first_words in text
-
-
-def test_command_line_without_chromium_names_what_to_install(tmp_path):
-    done = run(
-        "report",
-        SAMPLES / "drainage_sand",
-        "--out",
-        tmp_path / "out",
-        env={"BROWSER_PATH": str(tmp_path / "no-such-chromium")},
-    )
-    assert done.returncode == 3
-    assert "apt-get install chromium" in done.stderr and "--no-images" in done.stderr
-    assert "Traceback" not in done.stderr
-    assert not (tmp_path / "out").exists()  # refused before writing anything
 
 
 def test_command_line_without_images(tmp_path):
@@ -436,37 +409,3 @@ def test_zipped_pack_opens_offline_elsewhere_and_a_lone_page_says_why_it_cannot(
     assert report["plotly"] and report["drawn"] >= charts and not report["notice"]
     assert chart["plotly"] and chart["drawn"] >= 1 and not chart["notice"]
     assert not alone["plotly"] and alone["drawn"] == 0 and alone["notice"]
-
-
-def test_specimen_charts_use_the_windows_and_rises_of_the_results(tmp_path):
-    # a measured capillary rise and a chosen window reach the specimen charts as they reach
-    # the results table: each chart's title states the k of its row
-    from kitchen import charts
-    from kitchen.falling_head import falling_head_analysis
-    from kitchen.memo import memo_charts
-    from kitchen.series_analysis import analyse_series
-    from kitchen.specimen import specimen_state
-
-    series = load_series(SAMPLES / "clay_liner")
-    settings = Settings()
-    rises, windows = {"QF-01": 0.004}, {"QF-03": (4, 30)}
-    results = series_results(series, settings, windows, rises)
-    analysis = analyse_series(results, 1e-9)
-    built, _ = memo_charts(series, analysis, settings, windows=windows, capillary_rises=rises)
-    titles = {name: figure.layout.title.text for name, _, figure in built}
-    state = specimen_state(series.specimens).set_index("specimen", drop=False)
-    for specimen, window, rise in (("QF-01", None, 0.004), ("QF-03", (4, 30), None)):
-        readings = series.falling_head[series.falling_head["specimen"] == specimen]
-        own = falling_head_analysis(readings, state.loc[specimen], settings, window,
-                                    capillary_rise=rise)  # fmt: skip
-        row = results.set_index("specimen").loc[specimen]
-        assert own.k_reference == row["k_reference"]
-        expected = charts.falling_head_figure(readings, own).layout.title.text
-        assert titles[f"specimen_{specimen}_falling_head"] == expected
-        plain = falling_head_analysis(readings, state.loc[specimen], settings)
-        assert charts.falling_head_figure(readings, plain).layout.title.text != expected
-    pack = export_memo_pack(series, tmp_path, results=results, windows=windows,
-                            capillary_rises=rises, images=False)  # fmt: skip
-    report = (tmp_path / "report.html").read_text()
-    assert "QF-01: 4.0 mm" in report and "QF-03: readings 5-30" in report
-    assert len(pack) > 0

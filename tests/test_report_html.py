@@ -7,6 +7,7 @@ from pathlib import Path
 import pandas as pd
 import pytest
 
+from kitchen import page_markup, report_html
 from kitchen.display_units import density_unit, k_unit
 from kitchen.memo_tables import checks_table, fits_table
 from kitchen.provenance import memo_provenance
@@ -33,6 +34,16 @@ def clay():
     return analysis, tables, provenance
 
 
+def test_each_name_is_the_object_of_its_home_module():
+    # the project's own layout: the markup the pages share lives in a module of its own;
+    # kitchen.report_html offers its names
+    assert sorted(report_html.__all__) == sorted(
+        ["REDUCTION_METHODS", "VERDICT_MARKS", "ChartScript", "chart_page", "report_page"]
+    )
+    assert report_html.ChartScript is page_markup.ChartScript
+    assert report_html.STYLE is page_markup.STYLE
+
+
 def test_chart_page(clay):
     _, _, provenance = clay
     page = chart_page("A <chart>", '<div id="chart-a">FIGURE</div>', CAUTIONS, provenance)
@@ -57,33 +68,6 @@ def test_chart_page_loads_the_shared_script_from_its_folder(clay):
     inlined = chart_page("A", "<div>FIGURE</div>", CAUTIONS, provenance, INLINED, "charts")
     assert inlined.count("/*PLOTLY-JS*/") == 1 and "src=" not in inlined
     assert "chart-script-missing" not in inlined
-
-
-@pytest.mark.parametrize(
-    "path, folder, expected",  # POSIX relative paths, common practice, no source
-    [
-        ("charts/plotly.min.js", "", "charts/plotly.min.js"),
-        ("charts/plotly.min.js", "charts", "plotly.min.js"),
-        ("charts/plotly.min.js", "pages/specimens", "../../charts/plotly.min.js"),
-        ("plotly.min.js", "charts", "../plotly.min.js"),
-    ],
-)
-def test_script_path_relative_to_a_page(path, folder, expected):
-    assert ChartScript("x", "1", path).source(folder) == expected
-
-
-def test_inlined_script_has_no_file_to_load():
-    with pytest.raises(ValueError, match="inlined in each page"):
-        INLINED.source("charts")
-    assert INLINED.element("charts") == '<script type="text/javascript">/*PLOTLY-JS*/</script>\n'
-    assert INLINED.notice("charts") == ("", "")
-
-
-def test_script_hash_is_that_of_its_bytes():
-    text = "/* ρ */ var a = 1;"  # not ASCII: hashed as UTF-8, counted in bytes
-    script = ChartScript(text, "1", "charts/plotly.min.js")
-    assert script.sha256 == hashlib.sha256(text.encode("utf-8")).hexdigest()
-    assert len(script.content) == len(text) + 1  # ρ takes two bytes in UTF-8 (RFC 3629)
 
 
 def test_report_page(clay):

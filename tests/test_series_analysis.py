@@ -8,39 +8,17 @@ import json
 from pathlib import Path
 
 import numpy as np
-import pandas as pd
 import pytest
+from analysis_results import results_frame
 from scipy import stats
 
+from kitchen import result_selection, series_analysis
 from kitchen.results import series_results
 from kitchen.series import load_series
 from kitchen.series_analysis import VERDICTS, analyse_series
 from kitchen.trends import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE, Criterion
 
 SAMPLES = Path(__file__).resolve().parents[1] / "sample_data"
-
-
-def results_frame(rows) -> pd.DataFrame:
-    """A results table as kitchen.results.series_results returns it, from short rows."""
-    frame = pd.DataFrame(rows)
-    defaults = dict(
-        method="falling_head",
-        effort=pd.NA,
-        saturation=0.9,
-        specific_gravity=2.70,
-        d10=np.nan,
-        valid=True,
-    )
-    for column, value in defaults.items():
-        if column not in frame:
-            frame[column] = value
-    if "void_ratio" not in frame:
-        frame["void_ratio"] = 2.70 * 1000.0 / frame["dry_density"] - 1.0
-    for column, factor in (("k_reference_low", 0.95), ("k_reference_high", 1.05)):
-        if column not in frame:
-            frame[column] = frame["k_reference"] * factor
-    frame["checks"] = [[] for _ in range(len(frame))]
-    return frame
 
 
 def compaction_rows():
@@ -66,6 +44,15 @@ def compaction_rows():
 @pytest.fixture(scope="module")
 def constructed():
     return analyse_series(results_frame(compaction_rows()), 1e-9)
+
+
+def test_each_name_is_the_object_of_its_home_module():
+    # the project's own layout: the choice of each specimen's result lives in a module of its
+    # own; kitchen.series_analysis offers its name
+    assert sorted(series_analysis.__all__) == sorted(
+        ["ANALYSIS_METHODS", "SeriesAnalysis", "analyse_series", "VERDICTS"]
+    )
+    assert series_analysis.REQUIRED_COLUMNS is result_selection.REQUIRED_COLUMNS
 
 
 def test_compaction_curves_match_numpy(constructed):
@@ -194,51 +181,6 @@ def test_acceptable_zone_membership():
     assert [analysis.specimens.at[i, "specimen"] for i in zone.not_meeting_inside] == ["inside"]
     assert any("lie inside the zone" in note for note in analysis.notes)
     assert "no specimen has a compactive effort: no compaction curves" in analysis.notes
-
-
-def test_one_result_per_specimen_prefers_a_valid_one():
-    rows = [
-        dict(
-            specimen="S1",
-            method="constant_head",
-            valid=False,
-            water_content=0.2,
-            dry_density=1700,
-            k_reference=1e-8,
-        ),
-        dict(
-            specimen="S1",
-            method="falling_head",
-            valid=True,
-            water_content=0.2,
-            dry_density=1700,
-            k_reference=1e-10,
-        ),
-        dict(
-            specimen="S2",
-            method="falling_head",
-            valid=True,
-            water_content=0.21,
-            dry_density=1690,
-            k_reference=2e-10,
-        ),
-    ]
-    frame = results_frame(rows)
-    frame["valid"] = [False, True, True]
-    analysis = analyse_series(frame, 1e-9)
-    assert list(analysis.specimens["specimen"]) == ["S1", "S2"]
-    assert analysis.specimens.loc[0, "method"] == "falling_head"
-    assert "specimen S1 has more than one result: the falling_head result is used" in analysis.notes
-
-
-def test_unusable_conductivity_is_left_out_with_a_note():
-    rows = [
-        dict(specimen=s, water_content=0.2, dry_density=1700, k_reference=k)
-        for s, k in (("ok", 1e-9), ("gone", np.nan), ("ok2", 2e-9))
-    ]
-    analysis = analyse_series(results_frame(rows), 1e-9)
-    assert list(analysis.specimens["specimen"]) == ["ok", "ok2"]
-    assert "specimen gone: no usable conductivity, left out of the analysis" in analysis.notes
 
 
 def test_saturation_line_check_value():
