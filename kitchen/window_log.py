@@ -30,6 +30,7 @@ import pandas as pd
 
 from .files import append_line, folder_lock
 from .revision_log import _check_when, _when
+from .revision_recording import _new_id
 from .series import Series
 
 __all__ = [
@@ -292,8 +293,7 @@ def _append(series_path, choice_of, series: Series | None) -> WindowChoice:
     log = windows_path(series_path)
     with folder_lock(log.parent):
         existing = read_window_choices(series_path)
-        taken = {c.id for c in existing}
-        choice = choice_of(taken)
+        choice = choice_of(existing)
         if not choice.proposed:
             if series is None:
                 from .revisions import load_effective_series
@@ -309,14 +309,6 @@ def _append(series_path, choice_of, series: Series | None) -> WindowChoice:
         csv.writer(buffer, lineterminator="\n").writerow(["" if v is None else v for v in values])
         append_line(log, buffer.getvalue().encode("utf-8"), header=_HEADER)
     return choice
-
-
-def _new_id(taken) -> str:
-    import secrets
-
-    while (candidate := secrets.token_hex(4)) in taken:
-        pass
-    return candidate
 
 
 def choose_window(
@@ -370,7 +362,7 @@ def choose_window(
         raise WindowLogError(f"last row {last} is not after the first row {first}")
     return _append(
         series_path,
-        lambda taken: WindowChoice(_new_id(taken), when, who, specimen, first, last, reason),
+        lambda existing: WindowChoice(_new_id(existing), when, who, specimen, first, last, reason),
         series,
     )
 
@@ -390,7 +382,7 @@ def clear_window(
     specimen = " ".join(str(specimen).split())
     return _append(
         series_path,
-        lambda taken: WindowChoice(_new_id(taken), when, who, specimen, None, None, reason),
+        lambda existing: WindowChoice(_new_id(existing), when, who, specimen, None, None, reason),
         None,
     )
 
