@@ -26,7 +26,7 @@ from .series import TABLE_NAMES, SeriesError
 from .trends import CRITERION_KINDS, as_criterion
 from .uncertainty import PROPAGATION_METHODS
 from .water import VISCOSITY_METHODS
-from .window_log import chosen_windows, read_window_choices, window_log_sha256, windows_path
+from .window_log import chosen_windows, read_window_choices, windows_path
 
 __all__ = ["main", "build_parser"]
 
@@ -210,7 +210,6 @@ def _report(arguments) -> int:
         results=results,
         windows=windows,
         window_choices=choices,
-        window_log_sha256=window_log_sha256(arguments.series) if choices else None,
         images=not arguments.no_images,
         self_contained=arguments.self_contained,
         revision_count=effective.revision_count,

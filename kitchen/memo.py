@@ -60,6 +60,7 @@ from .results import Settings, reference_label, results_table, series_results
 from .series import Series
 from .series_analysis import SeriesAnalysis, analyse_series
 from .window_log import standing_choices
+from .window_log import window_log_sha256 as window_log_digest
 
 __all__ = [
     "CHART_SCRIPT",
@@ -209,7 +210,8 @@ def export_memo_pack(
         The rows of the series' window log (:func:`kitchen.window_log.read_window_choices`),
         so that the provenance names who chose each window, when and why.
     window_log_sha256 : str, optional
-        SHA-256 of that log (:func:`kitchen.window_log.window_log_sha256`).
+        SHA-256 of that log; read from beside the series when `window_choices` are given
+        (:func:`kitchen.window_log.window_log_sha256`).
     images : bool, default True
         Write PNG and SVG beside each chart's HTML (needs Chromium).
     self_contained : bool, default False
@@ -263,7 +265,9 @@ def export_memo_pack(
         "confidence": f"{analysis.confidence:g}",
         "compaction curve": "quadratic",
         "reading windows": _windows_text(windows, window_choices),
-        "window log SHA-256": window_log_sha256 or "no window log",
+        "window log SHA-256": window_log_sha256
+        or (window_choices and window_log_digest(series.source))
+        or "no window log",
         "measured capillary rises": ", ".join(
             f"{specimen}: {1e3 * rise:.1f} mm" for specimen, rise in capillary_rises.items()
         )

@@ -26,7 +26,7 @@ from ..revisions import EffectiveSeries
 from ..series import Series
 from ..series_analysis import VERDICTS, SeriesAnalysis, analyse_series
 from ..trends import Criterion
-from ..window_log import chosen_windows, read_window_choices, window_log_sha256
+from ..window_log import chosen_windows, read_window_choices
 from .common import (
     MessageArea,
     ProgressBar,
@@ -283,9 +283,6 @@ class SeriesChartPanel:
                 results=self.results,
                 windows=self.windows,
                 window_choices=self.window_choices,
-                window_log_sha256=window_log_sha256(self.series.source)
-                if self.window_choices
-                else None,
                 images=self.images,
                 progress=self.progress,
                 **revisions,
