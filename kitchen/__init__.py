@@ -70,16 +70,3 @@ try:
     __version__ = version("kitchen")
 except PackageNotFoundError:  # running from a source tree that is not installed
     __version__ = "0.0.0+unknown"
-
-CAUTIONS = (
-    "Laboratory hydraulic conductivity can differ from the field value by orders of "
-    "magnitude: for compacted clay liners the field value is often 10 to 1000 times "
-    "higher (clods, desiccation cracks, lift interfaces; Daniel 1984; Benson, Daniel & "
-    "Boutwell 1999).",
-    "Rigid-wall permeameters can leak along the wall; air in the specimen lowers k; "
-    "high gradients can consolidate soft specimens or move fines.",
-    "The governing criterion, test method and reference temperature come from local codes "
-    "and the project specification. These numbers support, and never replace, the "
-    "judgement of the responsible licensed engineer.",
-)
-"""The cautions every report, notebook and exported memo item carries."""

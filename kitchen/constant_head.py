@@ -22,6 +22,7 @@ from dataclasses import dataclass
 import numpy as np
 import pandas as pd
 
+from .settings import Settings
 from .constant_head_collections import (
     collection_table,
     constant_head_conductivity,
@@ -233,7 +234,6 @@ def constant_head_analysis(
     ASTM D2434 and D5084 Method A (from memory); JCGM 100:2008 for the interval.
     """
     if settings is None:
-        from .results import Settings
 
         settings = Settings()
     criteria, resolutions = settings.criteria, settings.resolutions

@@ -37,6 +37,7 @@ from dataclasses import dataclass
 import numpy as np
 import pandas as pd
 
+from .settings import Settings
 from .falling_head_evidence import FallingHeadAnalysis
 from .falling_head_formulas import STANDARD_GRAVITY as STANDARD_GRAVITY
 from .falling_head_formulas import (
@@ -164,7 +165,6 @@ def reduce_falling_head(
     practice for many readings (no source); intervals from the Student t distribution
     of the slope (Draper & Smith, *Applied Regression Analysis*, ch. 1, from memory).
     """
-    from .results import Settings
 
     settings = Settings(reference_temperature=reference_temperature, viscosity=viscosity)
     record = FallingHeadRecord(readings, specimen_row, settings)

@@ -20,7 +20,6 @@ from __future__ import annotations
 import copy
 import math
 from functools import cached_property
-from typing import TYPE_CHECKING
 
 import numpy as np
 import pandas as pd
@@ -34,14 +33,9 @@ from .falling_head_formulas import (
 from .falling_head_window import _analyse, _propose, _propose_datum
 from .window_proposal import window_trends
 
-if TYPE_CHECKING:  # the settings live with the results table, which imports this module
-    from .results import Settings
+from .settings import FALLING_HEAD_FITS, Settings
 
-__all__ = ["FALLING_HEAD_FITS", "FallingHeadRecord"]
-
-FALLING_HEAD_FITS = ("log_linear", "datum")
-"""Fits of a falling-head record: ln h on time, or the decay to a fitted datum."""
-
+__all__ = ["FallingHeadRecord"]
 
 def _number(row, name, specimen, unit, required=True):
     value = row.get(name, np.nan)
@@ -106,7 +100,6 @@ class FallingHeadRecord:
         capillary_rise: float | None = None,
     ):
         if settings is None:
-            from .results import Settings
 
             settings = Settings()
         self.settings: Settings = settings

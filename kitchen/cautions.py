@@ -1,0 +1,25 @@
+"""The cautions: one wording, carried by the README, the notebooks, the panels and every
+exported item.
+
+References
+----------
+Daniel, D. E. (1984). Predicting hydraulic conductivity of clay liners. J. Geotech. Eng.
+110(2):285. Benson, C. H., Daniel, D. E. and Boutwell, G. P. (1999). Field performance of
+compacted clay liners. J. Geotech. Geoenviron. Eng. 125(5). ASTM D5084 (results apply to
+the field "with caution and by qualified personnel"; from memory).
+"""
+
+__all__ = ["CAUTIONS"]
+
+CAUTIONS = (
+    "Laboratory hydraulic conductivity can differ from the field value by orders of "
+    "magnitude: for compacted clay liners the field value is often 10 to 1000 times "
+    "higher (clods, desiccation cracks, lift interfaces; Daniel 1984; Benson, Daniel & "
+    "Boutwell 1999).",
+    "Rigid-wall permeameters can leak along the wall; air in the specimen lowers k; "
+    "high gradients can consolidate soft specimens or move fines.",
+    "The governing criterion, test method and reference temperature come from local codes "
+    "and the project specification. These numbers support, and never replace, the "
+    "judgement of the responsible licensed engineer.",
+)
+"""The cautions every report, notebook and exported memo item carries."""
