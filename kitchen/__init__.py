@@ -5,22 +5,22 @@ readings), works out each specimen's as-molded state, reduces each test to a hyd
 conductivity corrected to a reference temperature, and relates conductivity to the
 compaction state across the series.
 
-The modules follow the data's path: :mod:`kitchen.units`, :mod:`kitchen.raw_tables`,
-:mod:`kitchen.table_checks` and :mod:`kitchen.series` (load), :mod:`kitchen.specimen`
-(phase relations), :mod:`kitchen.water` (density, viscosity), :mod:`kitchen.constant_head`
-with its collections module and :mod:`kitchen.falling_head` with its record, window and
-evidence modules (test reductions, sharing the fits gathered in :mod:`kitchen.fitting`),
-:mod:`kitchen.validity` (termination criteria and fit diagnostics),
-:mod:`kitchen.uncertainty` (intervals after the GUM: its input quantities and their
-propagation), :mod:`kitchen.results` (the per-specimen results table),
-:mod:`kitchen.compaction` and :mod:`kitchen.trends` with the saturation lines, the
+The modules follow the data's path: :mod:`kitchen.io.units`, :mod:`kitchen.io.raw_tables`,
+:mod:`kitchen.io.table_checks` and :mod:`kitchen.io.series` (load), :mod:`kitchen.specimen`
+(phase relations), :mod:`kitchen.water` (density, viscosity), :mod:`kitchen.reduction.constant_head`
+with its collections module and :mod:`kitchen.reduction.falling_head` with its record, window and
+evidence modules (test reductions, sharing the fits gathered in :mod:`kitchen.fits`),
+:mod:`kitchen.validity.checks` (termination criteria and fit diagnostics),
+:mod:`kitchen.uncertainty.conductivity` (intervals after the GUM: its input quantities and their
+propagation), :mod:`kitchen.reduction.results` (the per-specimen results table),
+:mod:`kitchen.analysis.compaction` and :mod:`kitchen.analysis.trends` with the saturation lines, the
 acceptable zone, the criterion and the grading predictions beside them (the series across
-compaction states), :mod:`kitchen.series_analysis` (all of them in one call, on the result
+compaction states), :mod:`kitchen.analysis.series_analysis` (all of them in one call, on the result
 chosen for each specimen), :mod:`kitchen.revisions` (the append-only log of corrections: its
-log, the effective data, recording, history) and :mod:`kitchen.window_log` (the reading
-windows chosen, with their reasons), :mod:`kitchen.workspace` (a series held open,
+log, the effective data, recording, history) and :mod:`kitchen.revisions.window_log` (the reading
+windows chosen, with their reasons), :mod:`kitchen.workspace.workspace` (a series held open,
 recomputed specimen by specimen, under digests of its inputs), :mod:`kitchen.charts` (the
-memo style, the series charts and the specimen charts) and :mod:`kitchen.memo` (the
+memo style, the series charts and the specimen charts) and :mod:`kitchen.memo.pack` (the
 exported pack: its charts, images, workbook and HTML pages), :mod:`kitchen.panels` (the
 notebooks' widgets) and the command line in :mod:`kitchen.cli`.
 

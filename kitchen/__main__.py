@@ -1,5 +1,5 @@
 """Run the command line: ``python -m kitchen``."""
 
-from .cli import main
+from kitchen.cli import main
 
 raise SystemExit(main())

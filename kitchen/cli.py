@@ -5,7 +5,7 @@ files with the revisions of its log applied) and writes its results.
 ``python -m kitchen revise SERIES --specimen ID --field F --value "4.95 in" --reason ...``
 records a revision (``--withdraw ID --reason ...`` withdraws one) and says what it changed;
 ``python -m kitchen history SERIES`` lists the revisions.
-``report`` also writes the memo pack (:mod:`kitchen.memo`): the charts as HTML, PNG and
+``report`` also writes the memo pack (:mod:`kitchen.memo.pack`): the charts as HTML, PNG and
 SVG, ``results.xlsx`` and ``report.html``, printing its progress on stderr.
 Input problems are printed as a list (file, row, column, what was expected) and the
 command exits with status 2; it never shows a traceback for bad input. Without Chromium
@@ -18,15 +18,19 @@ import argparse
 import sys
 from pathlib import Path
 
-from .falling_head import FALLING_HEAD_FITS
-from .memo import ImageExportUnavailable
-from .results import CAPILLARY_RISE_OPTIONS, Settings, results_table, series_results
-from .revisions import load_effective_series
-from .series import TABLE_NAMES, SeriesError
-from .trends import CRITERION_KINDS, as_criterion
-from .uncertainty import PROPAGATION_METHODS
-from .water import VISCOSITY_METHODS
-from .window_log import chosen_windows, read_window_choices, windows_path
+from kitchen.analysis import CRITERION_KINDS, as_criterion
+from kitchen.io import TABLE_NAMES, SeriesError
+from kitchen.memo import ImageExportUnavailable
+from kitchen.reduction import results_table, series_results
+from kitchen.revisions import (
+    chosen_windows,
+    load_effective_series,
+    read_window_choices,
+    windows_path,
+)
+from kitchen.settings import CAPILLARY_RISE_OPTIONS, FALLING_HEAD_FITS, Settings
+from kitchen.uncertainty import PROPAGATION_METHODS
+from kitchen.water import VISCOSITY_METHODS
 
 __all__ = ["main", "build_parser"]
 
@@ -185,7 +189,7 @@ def _add_revision_commands(commands) -> None:
 
 
 def _report(arguments) -> int:
-    from .memo import export_memo_pack
+    from kitchen.memo import export_memo_pack
 
     settings = Settings(
         arguments.reference_temperature,
@@ -227,7 +231,8 @@ def _report(arguments) -> int:
 
 
 def _revise(arguments, parser) -> int:
-    from .revisions import revise, revision_effect, withdraw
+    from kitchen.revisions import revise, withdraw
+    from kitchen.workspace import revision_effect
 
     value_options = ("specimen", "field", "value", "reading", "table")
     if arguments.withdraw:
@@ -293,7 +298,7 @@ def _change_words(change) -> str:
 
 
 def _window(arguments, parser) -> int:
-    from .window_log import choose_window, clear_window, standing_choices
+    from kitchen.revisions import choose_window, clear_window, standing_choices
 
     given = arguments.first_row is not None, arguments.last_row is not None
     if arguments.proposed == any(given) or (not arguments.proposed and not all(given)):
@@ -319,7 +324,7 @@ def _window(arguments, parser) -> int:
 
 
 def _verify(arguments) -> int:
-    from .pack_manifest import MANIFEST, read_manifest, verify_pack
+    from kitchen.memo import MANIFEST, read_manifest, verify_pack
 
     problems = verify_pack(arguments.pack)
     if problems:
@@ -332,8 +337,8 @@ def _verify(arguments) -> int:
 
 
 def _history(arguments) -> int:
-    from .files import write_csv
-    from .revisions import format_history, history_table, read_revisions, revisions_path
+    from kitchen.io import write_csv
+    from kitchen.revisions import format_history, history_table, read_revisions, revisions_path
 
     if not arguments.series.exists():
         raise ValueError(f"{arguments.series}: not found: expected a series folder or .xlsx")

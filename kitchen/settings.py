@@ -26,7 +26,6 @@ FALLING_HEAD_FITS = ("log_linear", "datum")
 CAPILLARY_RISE_OPTIONS = ("off", "jurin")
 
 
-
 @dataclass(frozen=True)
 class Settings:
     """Choices that change the results; every report records them.
@@ -38,12 +37,12 @@ class Settings:
     viscosity : str
         Water viscosity method: ``"kestin"`` (Kestin et al. 1978, default), ``"iapws"``
         (IAPWS 2008) or ``"d5084"`` (the ASTM D5084 equation for R_T).
-    criteria : kitchen.validity.Criteria
+    criteria : kitchen.validity.criteria.Criteria
         Limits of the validity criteria; defaults from ASTM D5084 (4 consecutive values
         within ±25 %, ±50 % below 1e-10 m/s, outflow/inflow 0.75–1.25, the gradient
         table, Reynolds number 1), for example
         ``Settings(criteria=Criteria(steady_tolerance=0.2))``.
-    resolutions : kitchen.uncertainty.Resolutions
+    resolutions : kitchen.uncertainty.input_quantities.Resolutions
         Resolutions of caliper, balance, timer, head scale, volume scale and thermometer
         that enter every interval (defaults 0.01 mm, 0.1 g, 1 s, 1 mm, 1 mL, 0.1 °C).
     uncertainty_method : str
@@ -89,8 +88,8 @@ class Settings:
                 )
         if not isinstance(self.criteria, Criteria) or not isinstance(self.resolutions, Resolutions):
             raise ValueError(
-                "criteria must be a kitchen.validity.Criteria and resolutions a "
-                "kitchen.uncertainty.Resolutions"
+                "criteria must be a kitchen.validity.criteria.Criteria and resolutions a "
+                "kitchen.uncertainty.input_quantities.Resolutions"
             )
         if not isinstance(self.monte_carlo_trials, int) or self.monte_carlo_trials < 1000:
             raise ValueError(

@@ -1,11 +1,11 @@
-"""Results tables as kitchen.results.series_results returns them, built from short rows."""
+"""Results tables as kitchen.reduction.results.series_results returns them, built from short rows."""
 
 import numpy as np
 import pandas as pd
 
 
 def results_frame(rows) -> pd.DataFrame:
-    """A results table as kitchen.results.series_results returns it, from short rows."""
+    """A results table as kitchen.reduction.results.series_results returns it, from short rows."""
     frame = pd.DataFrame(rows)
     defaults = dict(
         method="falling_head",

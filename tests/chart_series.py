@@ -5,9 +5,9 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from kitchen.results import series_results
-from kitchen.series import load_series
-from kitchen.series_analysis import analyse_series
+from kitchen.analysis import analyse_series
+from kitchen.io import load_series
+from kitchen.reduction import series_results
 
 SAMPLES = Path(__file__).resolve().parents[1] / "sample_data"
 # NIST SP 811 (2008), Appendix B, from the exact foot, pound and standard gravity:

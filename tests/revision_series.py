@@ -7,7 +7,7 @@ from pathlib import Path
 
 from series_files import SPECIMENS
 
-from kitchen.revision_log import revisions_path
+from kitchen.revisions import revisions_path
 
 SAMPLES = Path(__file__).resolve().parents[1] / "sample_data"
 WHEN = "2025-05-02T14:30:00+02:00"

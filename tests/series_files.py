@@ -4,7 +4,7 @@ from pathlib import Path
 
 import pytest
 
-from kitchen.series import SeriesError, load_series
+from kitchen.io import SeriesError, load_series
 
 SPECIMENS = """specimen,diameter [mm],height [mm],dry_mass [g],specific_gravity,water_content [%],effort,standpipe_diameter [mm]
 A1,101.6,116.4,1650,2.70,18.0,standard,5

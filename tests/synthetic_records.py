@@ -8,7 +8,7 @@ fraction (used by the tests of the validity criteria and of the window proposal)
 import numpy as np
 import pandas as pd
 
-from kitchen.falling_head_formulas import effective_standpipe_area, reference_elapsed_time
+from kitchen.reduction import effective_standpipe_area, reference_elapsed_time
 
 
 def known_k_record(k20=2.0e-9, n=40, temperature=None, noise=0.0, seed=1, tailwater_area=np.nan):

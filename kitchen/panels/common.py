@@ -4,7 +4,7 @@ Figure refresh lives in :mod:`kitchen.panels.refresh` (:func:`refresh_figure` is
 too).
 
 The message area is where a panel says, in words, what went wrong in a callback: the
-problems of a :class:`~kitchen.series.SeriesError` as a list, any other refusal as its
+problems of a :class:`~kitchen.io.raw_tables.SeriesError` as a list, any other refusal as its
 message, an unexpected failure with its traceback folded away. A callback error is never
 lost to the kernel log. Warnings raised while a callback runs are shown there too, as notes.
 """
@@ -25,15 +25,12 @@ import ipywidgets as widgets
 import numpy as np
 import pandas as pd
 
-from ..revisions import EffectiveSeries, RevisionError, load_effective_series, revisions_path
-from ..series import Series, SeriesError
-from ..units import UnitError
-from .refresh import refresh_figure
+from kitchen.io import Series, SeriesError, UnitError
+from kitchen.revisions import EffectiveSeries, RevisionError, load_effective_series, revisions_path
 
 __all__ = [
     "MessageArea",
     "ProgressBar",
-    "refresh_figure",
     "format_number",
     "format_conductivity",
     "format_fixed",

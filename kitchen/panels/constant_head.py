@@ -16,25 +16,20 @@ import numpy as np
 import pandas as pd
 import plotly.graph_objects as go
 
-from ..charts import constant_head_figure
-from ..constant_head import (
+from kitchen.charts import constant_head_figure
+from kitchen.display_units import K_UNITS
+from kitchen.io import Series
+from kitchen.reduction import (
     ConstantHeadAnalysis,
     ConstantHeadResult,
     collection_table,
     constant_head_analysis,
 )
-from ..display_units import K_UNITS
-from ..results import Settings, reference_label
-from ..series import Series
-from ..specimen import specimen_state
-from .common import (
-    MessageArea,
-    as_series,
-    format_conductivity,
-    format_number,
-    html_table,
-    refresh_figure,
-)
+from kitchen.settings import Settings, reference_label
+from kitchen.specimen import specimen_state
+
+from .common import MessageArea, as_series, format_conductivity, format_number, html_table
+from .refresh import refresh_figure
 
 __all__ = ["ConstantHeadPanel", "constant_head_panel", "collections_view_table"]
 

@@ -19,12 +19,10 @@ import ipywidgets as widgets
 import pandas as pd
 import plotly.graph_objects as go
 
-from .. import charts
-from ..falling_head import FALLING_HEAD_FITS, FallingHeadAnalysis, FallingHeadRecord
-from ..results import Settings, reference_label
-from ..series import Series
-from ..specimen import specimen_state
-from ..window_log import (
+from kitchen import charts
+from kitchen.io import Series
+from kitchen.reduction import FallingHeadAnalysis, FallingHeadRecord
+from kitchen.revisions import (
     WindowChoice,
     choose_window,
     chosen_windows,
@@ -33,14 +31,12 @@ from ..window_log import (
     standing_choices,
     windows_path,
 )
-from .common import (
-    MessageArea,
-    as_series,
-    format_conductivity,
-    format_number,
-    refresh_figure,
-)
+from kitchen.settings import FALLING_HEAD_FITS, Settings, reference_label
+from kitchen.specimen import specimen_state
+
+from .common import MessageArea, as_series, format_conductivity, format_number
 from .figures import format_elapsed, increments_figure
+from .refresh import refresh_figure
 
 __all__ = ["FIT_LABELS", "FallingHeadPanel", "falling_head_panel"]
 
@@ -130,7 +126,7 @@ class FallingHeadPanel:
     propose : ipywidgets.Button
         Sets the window the tool proposes (the longest that meets every criterion).
     keep : ipywidgets.Button
-        Records the window shown in the series' window log (:mod:`kitchen.window_log`), with
+        Records the window shown in the series' window log (:mod:`kitchen.revisions.window_log`), with
         ``reason`` and ``who``: the series chart, the memo pack and the command line then
         reduce the specimen with it.
     release : ipywidgets.Button

@@ -12,10 +12,10 @@ import math
 import numpy as np
 import plotly.graph_objects as go
 
-from .. import charts
-from ..display_units import k_unit
-from ..falling_head import FallingHeadAnalysis
-from ..results import Settings, reference_label
+from kitchen import charts
+from kitchen.display_units import k_unit
+from kitchen.reduction import FallingHeadAnalysis
+from kitchen.settings import Settings, reference_label
 
 __all__ = ["format_elapsed", "increments_figure"]
 
@@ -48,7 +48,7 @@ def increments_figure(
     Parameters
     ----------
     analysis : FallingHeadAnalysis
-        One window of one specimen (:meth:`kitchen.falling_head.FallingHeadRecord.analyse`).
+        One window of one specimen (:meth:`kitchen.reduction.falling_head_record.FallingHeadRecord.analyse`).
     settings : Settings
         For the reference temperature and the steady-values band (``settings.criteria``).
     k_unit_name : {"m/s", "cm/s"}

@@ -14,10 +14,12 @@ from pathlib import Path
 import ipywidgets as widgets
 import pandas as pd
 
-from ..results import Settings, results_table, series_results
-from ..revisions import EffectiveSeries, load_effective_series
-from ..series import Series
-from ..water import VISCOSITY_METHODS
+from kitchen.io import Series
+from kitchen.reduction import results_table, series_results
+from kitchen.revisions import EffectiveSeries, load_effective_series
+from kitchen.settings import Settings
+from kitchen.water import VISCOSITY_METHODS
+
 from .common import MessageArea, ProgressBar, format_conductivity, format_fixed, html_table
 
 __all__ = ["SeriesPanel", "series_panel", "VISCOSITY_LABELS"]
@@ -95,9 +97,9 @@ class SeriesPanel:
         The series with the revisions applied and withdrawn
         (:func:`kitchen.revisions.load_effective_series`).
     results : pandas.DataFrame or None
-        :func:`kitchen.results.series_results` of ``series`` with ``settings``.
+        :func:`kitchen.reduction.results.series_results` of ``series`` with ``settings``.
     table : pandas.DataFrame or None
-        :func:`kitchen.results.results_table` of ``results`` (what is shown).
+        :func:`kitchen.reduction.results.results_table` of ``results`` (what is shown).
     settings : Settings
     """
 

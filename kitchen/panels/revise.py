@@ -22,13 +22,13 @@ import numpy as np
 import pandas as pd
 import plotly.graph_objects as go
 
-from .. import charts
-from ..results import Settings, reference_label
-from ..revisions import Revision, history_table, what_changed
-from ..series import SCHEMAS
-from ..series_analysis import analyse_series
-from ..units import to_si
-from ..workspace import Workspace
+from kitchen import charts
+from kitchen.analysis import analyse_series
+from kitchen.io import SCHEMAS, to_si
+from kitchen.revisions import Revision, history_table
+from kitchen.settings import Settings, reference_label
+from kitchen.workspace import Workspace, what_changed
+
 from .common import MessageArea, format_conductivity, format_fixed, html_table
 from .refresh import refresh_figure
 from .series_chart import parse_criterion
@@ -77,7 +77,7 @@ def _yes_no(value) -> str:
 
 
 def changes_view_table(changed: pd.DataFrame, label: str) -> pd.DataFrame:
-    """:func:`kitchen.revisions.what_changed` as shown: each quantity "before → after".
+    """:func:`kitchen.workspace.what_changed` as shown: each quantity "before → after".
 
     Dry density in Mg/m³ (three decimals), void ratio (three decimals), k in m/s (three
     figures), valid and verdict in words; a quantity that did not move shows one value.
@@ -152,7 +152,7 @@ class RevisePanel:
         Seconds spent in each stage of the last revision or withdrawal, recording first.
     error : MessageArea
     changed : pandas.DataFrame or None
-        :func:`kitchen.revisions.what_changed` of the last action.
+        :func:`kitchen.workspace.what_changed` of the last action.
     last : Revision or None
         The row the last action appended.
     results : pandas.DataFrame

@@ -19,14 +19,14 @@ import ipywidgets as widgets
 import pandas as pd
 import plotly.graph_objects as go
 
-from .. import charts
-from ..display_units import DENSITY_UNITS, K_UNITS
-from ..results import Settings, reference_label, series_results
-from ..revisions import EffectiveSeries
-from ..series import Series
-from ..series_analysis import VERDICTS, SeriesAnalysis, analyse_series
-from ..trends import Criterion
-from ..window_log import chosen_windows, read_window_choices
+from kitchen import charts
+from kitchen.analysis import VERDICTS, Criterion, SeriesAnalysis, analyse_series
+from kitchen.display_units import DENSITY_UNITS, K_UNITS
+from kitchen.io import Series
+from kitchen.reduction import series_results
+from kitchen.revisions import EffectiveSeries, chosen_windows, read_window_choices
+from kitchen.settings import Settings, reference_label
+
 from .common import (
     MessageArea,
     ProgressBar,
@@ -34,8 +34,8 @@ from .common import (
     format_fixed,
     html_table,
     open_effective,
-    refresh_figure,
 )
+from .refresh import refresh_figure
 
 __all__ = ["SeriesChartPanel", "series_chart_panel", "parse_criterion", "CHARTS"]
 
@@ -153,7 +153,7 @@ class SeriesChartPanel:
         was given a path or an EffectiveSeries).
     settings : Settings
     windows : dict
-        The falling-head reading windows on record (:func:`kitchen.window_log.chosen_windows`);
+        The falling-head reading windows on record (:func:`kitchen.revisions.chosen_windows`);
         the other specimens use the tool's proposal.
     window_choices : tuple of WindowChoice
         The rows of the series' window log, for the memo's provenance.
@@ -254,13 +254,13 @@ class SeriesChartPanel:
 
     def write_memo_pack(self, _button=None) -> None:
         """Export the memo pack to ``export_folder`` (the export button calls this)."""
-        from ..memo import ImageExportUnavailable
+        from kitchen.memo import ImageExportUnavailable
 
         doing = f"exporting to {self.export_folder.value!r}"
         self.error.guard(doing, expected=(ImageExportUnavailable,))(self._export)()
 
     def _export(self) -> None:
-        from .. import memo
+        from kitchen import memo
 
         folder = Path(self.export_folder.value.strip())
         self.exported = None

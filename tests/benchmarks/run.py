@@ -51,14 +51,14 @@ from scipy import optimize, stats
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 import logger_records  # noqa: E402  (beside this file)
 
+from kitchen.analysis import analyse_series
 from kitchen.charts import MAX_TRACE_POINTS, compaction_conductivity_figure, falling_head_figure
-from kitchen.falling_head import FallingHeadRecord
-from kitchen.fitting import WindowedLineFit, fit_exponential_decay, fit_line
-from kitchen.panels.revise import revise_panel
-from kitchen.results import Settings, series_results
+from kitchen.fits import WindowedLineFit, fit_exponential_decay, fit_line
+from kitchen.io import load_series
+from kitchen.panels import revise_panel
+from kitchen.reduction import FallingHeadRecord, series_results
 from kitchen.revisions import load_effective_series
-from kitchen.series import load_series
-from kitchen.series_analysis import analyse_series
+from kitchen.settings import Settings
 from kitchen.specimen import specimen_state
 
 CRITERION = 1e-9

@@ -1,0 +1,394 @@
+"""The series analysis in one call: everything the charts and the memo draw on.
+
+:func:`analyse_series` takes the results table (:func:`kitchen.reduction.results.series_results`)
+and the criterion, keeps one result per specimen, marks each against the criterion, and
+runs the analyses of :mod:`kitchen.analysis.compaction` and :mod:`kitchen.analysis.trends` that the data
+allow: compaction curves and the line of optimums, the saturation lines, the acceptable
+zone, log k against void ratio, dry density and water content relative to optimum, the
+geometric mean, and the predictions from grading. An analysis the data do not allow (too
+few specimens, no water contents) is left out, with the reason in ``notes``. Which result
+of each specimen is used, its k and interval, and its verdict are worked out in
+:mod:`kitchen.analysis.result_selection`.
+"""
+
+from __future__ import annotations
+
+import warnings
+from dataclasses import dataclass
+from types import MappingProxyType
+
+import numpy as np
+import pandas as pd
+
+from .compaction import LineOfOptimums, compaction_curves, line_of_optimums
+from .compaction_zone import AcceptableZone, acceptable_zone
+from .criterion import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE, Criterion
+from .grading import grading_predictions, kozeny_carman_ratio
+from .result_selection import REQUIRED_COLUMNS as REQUIRED_COLUMNS
+from .result_selection import (
+    _one_per_specimen,
+    _require_results,
+    _specific_gravity,
+    _usable_conductivity,
+    _verdicts,
+)
+from .saturation_lines import constant_saturation_dry_density
+from .trends import (
+    ConductivityTrend,
+    GeometricMean,
+    VoidRatioTrend,
+    fit_log_conductivity,
+    fit_log_conductivity_void_ratio,
+    geometric_mean_conductivity,
+)
+
+__all__ = ["ANALYSIS_METHODS", "SeriesAnalysis", "analyse_series", "VERDICTS", "SATURATION_LINES"]
+
+VERDICTS = (MEETS, DOES_NOT_MEET, NOT_CONCLUSIVE)
+"""The three verdicts against the criterion, in the order the charts list them."""
+
+ANALYSIS_METHODS = (
+    (
+        "one result per specimen",
+        "the first result that passed every check, in the order of the results table "
+        "(constant head before falling head); the first result when none passed",
+        "the tool's own rule",
+    ),
+    (
+        "verdict against the criterion",
+        "against a largest k allowed: meets where the upper end of the 95 % interval of k "
+        "is at or below it, does not meet where the lower end is above it; against a "
+        "smallest k required: meets where the lower end is at or above it, does not meet "
+        "where the upper end is below it; not conclusive where the interval straddles the "
+        "criterion (or there is no interval)",
+        "the tool's own rule; criterion from the project specification (1×10⁻⁹ m/s is "
+        "common for liners: US 40 CFR 258.40, EU Directive 1999/31/EC Annex I)",
+    ),
+    (
+        "compaction curve",
+        "least-squares quadratic ρd(w) per compactive effort; optimum at its peak",
+        "ASTM D698 / D1557 (peak of the compaction curve); the least-squares polynomial is "
+        "common practice, no source",
+    ),
+    (
+        "zero-air-voids and constant-saturation lines",
+        "ρd = Gs·ρw/(1 + w·Gs/S), ρw = 1.000 Mg/m³",
+        "Das & Sobhan, Principles of Geotechnical Engineering; Holtz & Kovacs",
+    ),
+    (
+        "line of optimums",
+        "straight line through the optimums of the efforts (least squares with three or more)",
+        "Daniel & Benson (1990), J. Geotech. Eng. 116(12):1811",
+    ),
+    (
+        "acceptable zone",
+        "convex hull of the specimens that meet the criterion on the w–ρd plane",
+        "Daniel & Benson (1990), J. Geotech. Eng. 116(12):1811; the hull is the tool's own "
+        "construction of the zone they draw by judgement",
+    ),
+    (
+        "log k against void ratio",
+        "least squares of log10 k on e, Ck = 1/slope, 95 % interval and band",
+        "Tavenas, Jean, Leblond & Leroueil (1983), Can. Geotech. J. 20(4):645",
+    ),
+    (
+        "log k against dry density and water content relative to optimum",
+        "least squares of log10 k, 95 % interval and band",
+        "Mitchell, Hooper & Campanella (1965), JSMFD 91(SM4); log-normal k is common "
+        "practice, no source",
+    ),
+    (
+        "geometric mean",
+        "10^mean(log10 k), Student-t interval on mean log10 k",
+        "common practice, no source",
+    ),
+    (
+        "predictions from grading",
+        "Hazen k = C·d10² (C = 100 cm⁻¹s⁻¹); Chapuis (2004) from d10 and e; Kozeny–Carman "
+        "k ∝ e³/(1+e) through the geometric mean; predictions, not measurements",
+        "Hazen (1892) in Das & Sobhan; Chapuis (2004), Can. Geotech. J. 41(5):787; "
+        "Taylor (1948), Fundamentals of Soil Mechanics",
+    ),
+)
+"""(step, method, source) of every analysis :func:`analyse_series` runs."""
+
+SATURATION_LINES = (1.0, 0.9, 0.8)
+"""Degrees of saturation of the lines drawn on the compaction plane (1.0 is zero-air-voids)."""
+
+
+@dataclass(frozen=True)
+class SeriesAnalysis:
+    """Everything the series charts and the memo need, from one results table.
+
+    Attributes
+    ----------
+    criterion : Criterion
+        Largest conductivity allowed (kind ``"maximum"``) or smallest required (kind
+        ``"minimum"``); a float in m/s. [m/s]
+    reference_temperature : float
+        Temperature the conductivities are corrected to, for labels. [degC]
+    confidence : float
+        Confidence level of the fits' intervals and bands.
+    specimens : pandas.DataFrame
+        One row per specimen with a usable conductivity: the columns of the results table
+        for the result kept, plus ``k``, ``k_low``, ``k_high`` [m/s] (the corrected k and
+        its interval), ``verdict`` (one of :data:`VERDICTS`), ``meets`` (bool),
+        ``water_content_from_optimum`` [-] (NaN where the effort has no optimum),
+        ``on_compaction_plane`` (bool: has a water content) and ``in_zone`` (bool).
+    specific_gravity : float or None
+        Gs of the saturation lines; None when the results carry none. [-]
+    compaction_curves : mapping of effort to CompactionCurve
+    line_of_optimums : LineOfOptimums or None
+    acceptable_zone : AcceptableZone or None
+        None when no specimen has a water content.
+    void_ratio_trend : VoidRatioTrend or None
+    dry_density_trend : ConductivityTrend or None
+        Fitted on dry density in kg/m3.
+    water_content_trend : ConductivityTrend or None
+        Fitted on w − w_opt (a fraction) of the specimens whose effort has an optimum.
+    geometric_mean : GeometricMean or None
+    grading : pandas.DataFrame or None
+        :func:`kitchen.analysis.grading.grading_predictions` for the specimens with a d10.
+    kozeny_carman_reference : (float, float) or None
+        (void ratio, k [m/s]) the Kozeny–Carman curve passes through: the mean void ratio
+        and the geometric mean of the specimens with a d10.
+    notes : tuple of str
+        What was left out and why, and cautions raised by the analyses.
+    """
+
+    criterion: Criterion
+    reference_temperature: float
+    confidence: float
+    specimens: pd.DataFrame
+    specific_gravity: float | None
+    compaction_curves: MappingProxyType
+    line_of_optimums: LineOfOptimums | None
+    acceptable_zone: AcceptableZone | None
+    void_ratio_trend: VoidRatioTrend | None
+    dry_density_trend: ConductivityTrend | None
+    water_content_trend: ConductivityTrend | None
+    geometric_mean: GeometricMean | None
+    grading: pd.DataFrame | None
+    kozeny_carman_reference: tuple[float, float] | None
+    notes: tuple[str, ...]
+
+    @property
+    def counts(self) -> dict[str, int]:
+        """Number of specimens per verdict, in the order of :data:`VERDICTS`."""
+        verdicts = self.specimens["verdict"]
+        return {verdict: int((verdicts == verdict).sum()) for verdict in VERDICTS}
+
+    def saturation_line(self, water_content, saturation):
+        """Dry density on the constant-saturation line of the series' Gs. [kg/m3]
+
+        `water_content` and `saturation` are fractions [-]; see
+        :func:`kitchen.analysis.saturation_lines.constant_saturation_dry_density`.
+        """
+        if self.specific_gravity is None:
+            raise ValueError("the series has no specific gravity: no saturation lines")
+        return constant_saturation_dry_density(water_content, self.specific_gravity, saturation)
+
+    def kozeny_carman_conductivity(self, void_ratio):
+        """k on the Kozeny–Carman curve through ``kozeny_carman_reference``. [m/s]
+
+        A prediction of how k changes with e for one sand (Taylor 1948), not a measurement.
+        """
+        if self.kozeny_carman_reference is None:
+            raise ValueError("no specimen has a d10: no Kozeny–Carman curve")
+        e_ref, k_ref = self.kozeny_carman_reference
+        return k_ref * np.asarray(kozeny_carman_ratio(e_ref, void_ratio))
+
+
+def _recorded(call, notes: list[str], prefix: str = ""):
+    """Run `call`, turning its warnings and a ValueError into notes; None on error."""
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        try:
+            value = call()
+        except ValueError as error:
+            notes.append(f"{prefix}{error}")
+            value = None
+    notes.extend(f"{prefix}{warning.message}" for warning in caught)
+    return value
+
+
+def _trend(frame, column, name, notes, confidence, label):
+    values = frame[column].to_numpy(dtype=float)
+    rows = ~np.isnan(values)
+    if rows.sum() < 3:
+        notes.append(f"{label}: fewer than 3 specimens with a value, no trend fitted")
+        return None
+    values, k = values[rows], frame["k"].to_numpy(dtype=float)[rows]
+    if name == "void_ratio":
+        return _recorded(
+            lambda: fit_log_conductivity_void_ratio(values, k, confidence=confidence),
+            notes,
+            f"{label}: ",
+        )
+    return _recorded(
+        lambda: fit_log_conductivity(values, k, name, confidence=confidence), notes, f"{label}: "
+    )
+
+
+def analyse_series(
+    results: pd.DataFrame,
+    criterion: float,
+    reference_temperature: float = 20.0,
+    confidence: float = 0.95,
+    curve_method: str = "quadratic",
+) -> SeriesAnalysis:
+    """Run the series analyses that the results allow.
+
+    Parameters
+    ----------
+    results : pandas.DataFrame
+        The results table of :func:`kitchen.reduction.results.series_results` (extra columns are
+        carried along): ``specimen``, ``method``, ``effort``, ``water_content`` [-],
+        ``dry_density`` [kg/m3], ``void_ratio`` [-], ``saturation`` [-],
+        ``specific_gravity`` [-], ``d10`` [m], ``k_reference``, ``k_reference_low``,
+        ``k_reference_high`` [m/s], and ``valid`` when present.
+    criterion : float or Criterion
+        Largest conductivity allowed (a number), or a :class:`kitchen.analysis.criterion.Criterion`
+        of either kind (a drainage layer's smallest k required), from the project
+        specification. [m/s]
+    reference_temperature : float, default 20.0
+        Temperature the results are corrected to, carried for labels. [degC]
+    confidence : float, default 0.95
+        Confidence level of the trends and the geometric mean.
+    curve_method : {"quadratic", "cubic"}, default "quadratic"
+        Compaction curve, see :func:`kitchen.analysis.fit_compaction_curve`.
+
+    Returns
+    -------
+    SeriesAnalysis
+
+    Raises
+    ------
+    ValueError
+        When the results table lacks a column, has no rows, or the criterion is not a
+        positive conductivity.
+
+    Notes
+    -----
+    The rules of this function (one result per specimen, a missing interval gives a
+    verdict of not conclusive) are the tool's own; they are listed in
+    :data:`ANALYSIS_METHODS` with the sources of the analyses it calls.
+
+    References
+    ----------
+    Daniel, D. E. and Benson, C. H. (1990). Water content–density criteria for compacted
+    soil liners. J. Geotech. Eng. 116(12), 1811–1830. See also the References of
+    :mod:`kitchen.analysis.compaction` and :mod:`kitchen.analysis.trends`.
+    """
+    _require_results(results)
+    kind = criterion.kind if isinstance(criterion, Criterion) else "maximum"
+    try:
+        limit = float(criterion)
+    except (TypeError, ValueError):
+        raise ValueError(f"criterion: expected a conductivity in m/s, got {criterion!r}") from None
+    if not np.isfinite(limit) or limit <= 0:
+        raise ValueError(f"criterion: expected a positive conductivity in m/s, got {criterion!r}")
+    criterion = Criterion(limit, kind)
+    notes: list[str] = []
+    frame = _usable_conductivity(_one_per_specimen(results, notes), notes)
+    if frame.empty:
+        raise ValueError("results table: no specimen has a usable conductivity")
+    # every column is formed as an array and set in two passes: a dozen specimens make
+    # the pandas overhead of setting one column at a time the larger part of the cost
+    verdict = _verdicts(frame, criterion)
+
+    def numbers(column):
+        return pd.to_numeric(frame[column], errors="coerce").to_numpy(dtype=float)
+
+    water = numbers("water_content")
+    on_plane = ~np.isnan(water)
+    frame = frame.assign(
+        verdict=verdict,
+        meets=verdict == MEETS,
+        water_content=water,
+        on_compaction_plane=on_plane,
+        **{column: numbers(column) for column in ("dry_density", "void_ratio", "d10")},
+    )
+    plane = frame.iloc[np.flatnonzero(on_plane)]
+    gs = _specific_gravity(frame, notes if not plane.empty else [])
+
+    curves: dict = {}
+    optimums = zone = None
+    if plane.empty:
+        notes.append("no specimen has a molding water content: no compaction plane")
+    else:
+        if plane["effort"].notna().any():
+            curves = _recorded(lambda: compaction_curves(plane, method=curve_method), notes) or {}
+        else:
+            notes.append("no specimen has a compactive effort: no compaction curves")
+        if curves:
+            optimums = _recorded(lambda: line_of_optimums(curves), notes)
+            if optimums is not None and optimums.message:
+                notes.append(optimums.message)
+        zone = _recorded(
+            lambda: acceptable_zone(plane["water_content"], plane["dry_density"], plane["meets"]),
+            notes,
+        )
+        if zone is not None and zone.message:
+            notes.append(f"acceptable zone: {zone.message}")
+    in_zone = np.zeros(len(frame), dtype=bool)
+    if zone is not None:
+        inside = zone.contains(water[on_plane], frame["dry_density"].to_numpy()[on_plane])
+        in_zone[on_plane] = np.asarray(inside, dtype=bool)
+
+    optimum_of = {
+        effort: curve.optimum_water_content
+        for effort, curve in curves.items()
+        if curve.peak_found and curve.peak_within_range
+    }
+    w_opt = np.array(
+        [np.nan if pd.isna(e) else optimum_of.get(e, np.nan) for e in frame["effort"]],
+        dtype=float,
+    )
+    frame = frame.assign(in_zone=in_zone, water_content_from_optimum=water - w_opt)
+
+    void_trend = _trend(frame, "void_ratio", "void_ratio", notes, confidence, "k against e")
+    if void_trend is not None and void_trend.message:
+        notes.append(f"k against e: {void_trend.message}")
+    density_trend = _trend(frame, "dry_density", "dry_density", notes, confidence, "k against ρd")
+    water_trend = None
+    if not np.isnan(water - w_opt).all():
+        water_trend = _trend(
+            frame,
+            "water_content_from_optimum",
+            "water_content_from_optimum",
+            notes,
+            confidence,
+            "k against w − w_opt",
+        )
+    mean = _recorded(
+        lambda: geometric_mean_conductivity(frame["k"].to_numpy(), confidence),
+        notes,
+        "geometric mean: ",
+    )
+
+    grading = kc_reference = None
+    graded = frame[frame["d10"].notna()]
+    if not graded.empty:
+        grading = grading_predictions(graded).reset_index(drop=True)
+        e = graded["void_ratio"].dropna()
+        if not e.empty:
+            log_k = np.log10(graded.loc[e.index, "k"].to_numpy())
+            kc_reference = (float(e.mean()), float(10.0 ** log_k.mean()))
+    return SeriesAnalysis(
+        criterion=criterion,
+        reference_temperature=float(reference_temperature),
+        confidence=float(confidence),
+        specimens=frame,
+        specific_gravity=gs,
+        compaction_curves=MappingProxyType(dict(curves)),
+        line_of_optimums=optimums,
+        acceptable_zone=zone,
+        void_ratio_trend=void_trend,
+        dry_density_trend=density_trend,
+        water_content_trend=water_trend,
+        geometric_mean=mean,
+        grading=grading,
+        kozeny_carman_reference=kc_reference,
+        notes=tuple(dict.fromkeys(notes)),
+    )

@@ -1,0 +1,265 @@
+"""The memo chart of the compaction plane above log k against molding water content.
+
+Top panel: dry density against water content with the zero-air-voids and
+constant-saturation lines, each effort's compaction curve, the line of optimums and the
+acceptable zone; bottom panel: each specimen's k with its interval and the criterion line,
+on the same water-content axis. Also as a plain-dict spec
+(:func:`compaction_conductivity_spec`) that a live figure is brought to.
+"""
+
+from __future__ import annotations
+
+import copy
+from dataclasses import replace
+from functools import lru_cache
+
+import numpy as np
+import plotly.graph_objects as go
+from plotly.subplots import make_subplots
+
+from kitchen.analysis import SATURATION_LINES, SeriesAnalysis
+from kitchen.display_units import density_unit, k_unit, scientific
+
+from ._series_parts import (
+    ERROR_BAR_FRACTION,
+    _criterion_spec,
+    _effort_order,
+    _effort_styles,
+    _escaped,
+    _group_title,
+    _hover,
+    _k_axis,
+    _k_title,
+    _note_spec,
+    _padded,
+    _specimen_trace_specs,
+)
+from .style import INK, MUTED, SATURATION_DASHES, ZONE, _template
+
+__all__ = ["compaction_conductivity_figure", "compaction_conductivity_spec"]
+
+
+@lru_cache(maxsize=1)
+def _two_panel_grid() -> dict:
+    """The axes of the compaction-conductivity grid (two rows sharing the x axis), built once."""
+    layout = make_subplots(
+        rows=2, cols=1, shared_xaxes=True, vertical_spacing=0.05, row_heights=[0.58, 0.42]
+    ).layout.to_plotly_json()
+    return {key: layout[key] for key in ("xaxis", "yaxis", "xaxis2", "yaxis2")}
+
+
+def _two_panel_axes() -> dict:
+    """A copy of :func:`_two_panel_grid`, free to change."""
+    return copy.deepcopy(_two_panel_grid())
+
+
+def compaction_conductivity_figure(
+    analysis: SeriesAnalysis, k_unit_name: str = "m/s", density_unit_name: str = "Mg/m³"
+) -> go.Figure:
+    """The memo chart: the compaction plane above log k against water content.
+
+    Parameters
+    ----------
+    analysis : SeriesAnalysis
+        From :func:`kitchen.analysis.analyse_series`; needs specimens with a
+        molding water content.
+    k_unit_name : {"m/s", "cm/s"}, default "m/s"
+    density_unit_name : {"Mg/m³", "kN/m³", "lb/ft³"}, default "Mg/m³"
+        ASCII spellings (``"kN/m3"``) are accepted.
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+        Top: dry density against molding water content with the zero-air-voids and
+        constant-saturation lines, the compaction curve of each effort, the line of
+        optimums and the acceptable zone; bottom: k on a log axis against the same water
+        content, with the criterion line. The two panels share the water-content axis.
+
+    References
+    ----------
+    Daniel, D. E. and Benson, C. H. (1990), J. Geotech. Eng. 116(12), 1811–1830: the
+    acceptable zone drawn on the compaction plane from the specimens that meet the
+    criterion.
+    """
+    return go.Figure(compaction_conductivity_spec(analysis, k_unit_name, density_unit_name))
+
+
+def compaction_conductivity_spec(
+    analysis: SeriesAnalysis, k_unit_name: str = "m/s", density_unit_name: str = "Mg/m³"
+) -> dict:
+    """The figure of :func:`compaction_conductivity_figure` as a spec: plain dicts, not validated.
+
+    Returns
+    -------
+    dict
+        ``{"data": [trace dicts], "layout": {...}}``; ``plotly.graph_objects.Figure(spec)``
+        is the figure, and :func:`kitchen.panels.refresh.refresh_figure` brings a live
+        figure to it sending only what changed.
+    """
+    ku, du = k_unit(k_unit_name), density_unit(density_unit_name)
+    frame = analysis.specimens[analysis.specimens["on_compaction_plane"]]
+    if frame.empty:
+        raise ValueError("no specimen has a molding water content: no compaction plane to draw")
+    plane = replace(analysis, specimens=frame)
+    w_pct = frame["water_content"].to_numpy() * 100.0
+    x_range = _padded(w_pct, 0.08)
+    # the traces and the layout are gathered as plain dicts and validated once, when the
+    # figure is built: adding them one at a time re-validates the whole figure each time
+    top, bottom = dict(xaxis="x", yaxis="y"), dict(xaxis="x2", yaxis="y2")
+    data, annotations = [], []
+    y_values = [frame["dry_density"].to_numpy()]
+    zone = analysis.acceptable_zone
+    if zone is not None and zone.kind != "empty":
+        vertices = zone.vertices
+        closed = np.vstack([vertices, vertices[:1]]) if zone.kind == "polygon" else vertices
+        data.append(
+            dict(
+                type="scatter",
+                x=closed[:, 0] * 100.0,
+                y=closed[:, 1] * du.factor,
+                mode="lines" if zone.kind != "point" else "markers",
+                fill="toself" if zone.kind == "polygon" else None,
+                fillcolor="rgba(46,107,87,0.10)",
+                fillpattern=dict(shape="/", fgcolor="rgba(46,107,87,0.45)", size=9, solidity=0.12)
+                if zone.kind == "polygon"
+                else None,
+                line=dict(color=ZONE, width=1.6, dash="dot"),
+                name=f"acceptable zone ({zone.kind}: hull of specimens that meet)",
+                legendgroup="zone",
+                hoverinfo="name",
+                **top,
+            )
+        )
+    order = _effort_order(frame)
+    styles = _effort_styles(frame, order)
+    for effort in order:
+        curve = analysis.compaction_curves.get(effort)
+        if curve is None:
+            continue
+        w = np.linspace(curve.tested_water_content.min(), curve.tested_water_content.max(), 60)
+        rho = np.asarray(curve.dry_density(w))
+        y_values.append(rho)
+        data.append(
+            dict(
+                type="scatter",
+                x=w * 100.0,
+                y=rho * du.factor,
+                mode="lines",
+                name=f"compaction curve ({curve.method})",
+                legendgroup=f"effort {effort}",
+                legendgrouptitle=dict(text=_group_title(effort)),
+                line=dict(color=INK, width=1.5, dash=styles.get(effort, ("", "solid"))[1]),
+                hoverinfo="name",
+                **top,
+            )
+        )
+    line = analysis.line_of_optimums
+    if line is not None and line.optimum_water_content.size:
+        w_opt = line.optimum_water_content
+        data.append(
+            dict(
+                type="scatter",
+                x=w_opt * 100.0,
+                y=line.maximum_dry_density * du.factor,
+                mode="markers",
+                name="optimum of each effort",
+                legendgroup="optimums",
+                marker=dict(symbol="star", size=13, color="white", line=dict(color=INK, width=1.4)),
+                text=[_escaped(v) for v in line.efforts],
+                hoverinfo="text+x+y",
+                **top,
+            )
+        )
+        if line.slope is not None:
+            w = np.array(_padded(w_opt, 0.35))
+            data.append(
+                dict(
+                    type="scatter",
+                    x=w * 100.0,
+                    y=np.asarray(line.dry_density(w)) * du.factor,
+                    mode="lines",
+                    name="line of optimums",
+                    legendgroup="optimums",
+                    line=dict(color=INK, width=1.3, dash="dashdot"),
+                    hoverinfo="name",
+                    **top,
+                )
+            )
+    y_low, y_high = _padded(np.concatenate(y_values) * du.factor, 0.10)
+    if analysis.specific_gravity is not None:
+        w = np.linspace(x_range[0], x_range[1], 80) / 100.0
+        w = w[w >= 0]
+        for saturation in SATURATION_LINES:
+            rho = np.asarray(analysis.saturation_line(w, saturation)) * du.factor
+            name = (
+                "zero-air-voids (S = 100 %)" if saturation == 1 else f"S = {100 * saturation:.0f} %"
+            )
+            data.append(
+                dict(
+                    type="scatter",
+                    x=w * 100.0,
+                    y=rho,
+                    mode="lines",
+                    name=f"{name}, Gs = {analysis.specific_gravity:g}",
+                    legendgroup="saturation",
+                    legendgrouptitle=dict(text="saturation lines"),
+                    line=dict(
+                        color=MUTED,
+                        width=1.5 if saturation == 1 else 1.1,
+                        dash=SATURATION_DASHES.get(saturation, "dot"),
+                    ),
+                    hoverinfo="name",
+                    **top,
+                )
+            )
+            inside = np.flatnonzero((rho >= y_low) & (rho <= y_high))
+            if inside.size:
+                last = inside[-1]
+                annotations.append(
+                    dict(
+                        x=w[last] * 100.0,
+                        y=rho[last],
+                        text=f"S = {100 * saturation:.0f} %",
+                        showarrow=False,
+                        xanchor="right",
+                        yanchor="bottom",
+                        font=dict(size=10, color=MUTED),
+                        xref="x",
+                        yref="y",
+                    )
+                )
+    k_axis, note = _k_axis(plane, ku)
+    shortest = ERROR_BAR_FRACTION * (k_axis["range"][1] - k_axis["range"][0])
+    density = frame["dry_density"] * du.factor
+    hover = np.array(_hover(frame, ku, plane), dtype=object)
+    data += _specimen_trace_specs(plane, w_pct, density, ku, True, None, order, hover, **top)
+    data += _specimen_trace_specs(
+        plane, w_pct, frame["k"] * ku.factor, ku, False, shortest, order, hover, **bottom
+    )
+    if not note:
+        data.append(dict(_criterion_spec(analysis, x_range, ku), **bottom))
+    if note:
+        annotations.append(dict(_note_spec(note), xref="x2 domain", yref="y2 domain"))
+    axes = _two_panel_axes()
+    k_title = _k_title(ku, analysis.reference_temperature)
+    layout = dict(
+        template=_template(),
+        xaxis=dict(axes["xaxis"], range=list(x_range)),
+        yaxis=dict(axes["yaxis"], title=dict(text=du.title()), range=[y_low, y_high]),
+        xaxis2=dict(
+            axes["xaxis2"], range=list(x_range), title=dict(text="molding water content w [%]")
+        ),
+        yaxis2=dict(axes["yaxis2"], title=dict(text=k_title), **k_axis),
+        title=dict(
+            text="Compaction and hydraulic conductivity"
+            f"<br><sup>criterion k {analysis.criterion.symbol} "
+            f"{scientific(analysis.criterion * ku.factor, html=True)} "
+            f"{ku.unit}; filled: meets, open: does not meet, dotted: not conclusive</sup>"
+        ),
+        margin=dict(t=95, b=60),
+        legend=dict(orientation="h", x=0.0, xanchor="left", y=-0.075, yanchor="top"),
+        height=1120,
+    )
+    if annotations:
+        layout["annotations"] = annotations
+    return dict(data=data, layout=layout)

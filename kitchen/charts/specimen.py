@@ -1,0 +1,321 @@
+"""The charts of one specimen: a falling-head record, and a constant-head test.
+
+Head against time on a log head axis with the fitted line and the reading window (also
+as a plain-dict spec, :func:`falling_head_spec`, that a live figure is brought to), and
+Darcy velocity against gradient with the fit through the origin.
+"""
+
+from __future__ import annotations
+
+import html
+
+import numpy as np
+import pandas as pd
+import plotly.graph_objects as go
+
+from kitchen.analysis import DOES_NOT_MEET
+from kitchen.display_units import distinct_texts, k_unit
+from kitchen.settings import reference_label
+
+from .style import (
+    INK,
+    MAX_TRACE_POINTS,
+    MUTED,
+    VERDICT_COLOURS,
+    ZONE,
+    _template,
+    decimation_indices,
+    memo_template,
+)
+
+__all__ = ["falling_head_figure", "falling_head_spec", "constant_head_figure"]
+
+
+def _time_unit(span_seconds: float) -> tuple[str, float]:
+    if span_seconds >= 3 * 3600:
+        return "h", 3600.0
+    if span_seconds >= 180:
+        return "min", 60.0
+    return "s", 1.0
+
+
+def _fitted_head(result) -> np.ndarray:
+    """Fitted head over the window, for a FallingHeadAnalysis or a FallingHeadResult. [m]"""
+    if hasattr(result, "fitted_head"):
+        return np.asarray(result.fitted_head, dtype=float)
+    fit = getattr(result, "fit", None)
+    if fit is None:
+        return np.asarray(result.head, dtype=float)[[0, -1]]
+    return np.exp(fit.predict(np.asarray(result.reference_time, dtype=float)))
+
+
+def falling_head_figure(
+    readings: pd.DataFrame | None,
+    result,
+    k_unit_name: str = "m/s",
+    reference_temperature: float = 20.0,
+    max_points: int = MAX_TRACE_POINTS,
+) -> go.Figure:
+    """Head against time on a log head axis, with the fitted line and the reading window.
+
+    Parameters
+    ----------
+    readings : pandas.DataFrame or None
+        The specimen's rows of the ``falling_head`` table, ``time`` [s] and ``head`` [m];
+        None to take every reading from `result` (a FallingHeadAnalysis carries them).
+    result : kitchen.reduction.falling_head_evidence.FallingHeadAnalysis or FallingHeadResult
+        The reduction: ``start``, ``stop`` (the window, positions in the readings), the
+        fit (``fitted_head``, or ``fit`` and ``reference_time``), ``k_reference`` with
+        ``k_reference_low`` and ``k_reference_high``.
+    k_unit_name : {"m/s", "cm/s"}
+    reference_temperature : float
+        For the label of k. [degC]
+    max_points : int
+        Longest trace; longer records are decimated (:func:`decimation_indices`).
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+
+    References
+    ----------
+    ASTM D5084, Methods B and C: ln h falls linearly with time (from memory).
+    """
+    return go.Figure(
+        falling_head_spec(readings, result, k_unit_name, reference_temperature, max_points)
+    )
+
+
+def falling_head_spec(
+    readings: pd.DataFrame | None,
+    result,
+    k_unit_name: str = "m/s",
+    reference_temperature: float = 20.0,
+    max_points: int = MAX_TRACE_POINTS,
+) -> dict:
+    """The figure of :func:`falling_head_figure` as a spec: plain dicts, not validated.
+
+    Returns
+    -------
+    dict
+        ``{"data": [trace dicts], "layout": {...}}``; ``plotly.graph_objects.Figure(spec)``
+        is the figure, and :func:`kitchen.panels.refresh.refresh_figure` brings a live
+        figure to it sending only what changed.
+    """
+    ku = k_unit(k_unit_name)
+    source = result if readings is None else readings
+    time = np.asarray(source.time if readings is None else readings["time"], dtype=float)
+    head = np.asarray(source.head if readings is None else readings["head"], dtype=float)
+    unit, divisor = _time_unit(float(time[-1] - time[0]) if time.size else 0.0)
+    start, stop = int(result.start), int(result.stop)
+    # the traces, shapes and annotations are gathered as plain dicts and validated once
+    shapes = [
+        dict(
+            type="rect",
+            x0=time[start] / divisor,
+            x1=time[stop - 1] / divisor,
+            xref="x",
+            y0=0,
+            y1=1,
+            yref="y domain",
+            fillcolor="rgba(46,107,87,0.09)",
+            line=dict(width=0),
+            layer="below",
+        )
+    ]
+    annotations = [
+        dict(
+            text="reading window",
+            font=dict(size=11, color=ZONE),
+            showarrow=False,
+            x=min(shapes[0]["x0"], shapes[0]["x1"]),
+            xanchor="left",
+            xref="x",
+            y=1,
+            yanchor="top",
+            yref="y domain",
+        )
+    ]
+    outside = (
+        (np.concatenate((time[:start], time[stop:])), np.concatenate((head[:start], head[stop:])))
+        if start > 0 or stop < time.size
+        else (time[:0], head[:0])
+    )
+    markers = (
+        (
+            outside,
+            "readings outside the window",
+            dict(symbol="circle-open", size=6, color=MUTED, line=dict(width=1.2)),
+        ),
+        (
+            (time[start:stop], head[start:stop]),
+            "readings in the window",
+            dict(symbol="circle", size=5, color=INK),
+        ),
+    )
+    data = []
+    for (t, h), name, marker in markers:
+        if t.size:
+            keep = decimation_indices(h, max_points)
+            data.append(
+                dict(
+                    type="scatter",
+                    x=t[keep] / divisor,
+                    y=h[keep],
+                    mode="markers",
+                    name=name,
+                    marker=marker,
+                    hovertemplate="t = %{x:.4g} " + unit + "<br>h = %{y:.4g} m<extra></extra>",
+                )
+            )
+    fitted = _fitted_head(result)
+    t = time[start:stop] if fitted.size == stop - start else time[[start, stop - 1]]
+    keep = decimation_indices(fitted, max_points)
+    datum = getattr(result, "fit_kind", "log_linear") == "datum"
+    data.append(
+        dict(
+            type="scatter",
+            x=t[keep] / divisor,
+            y=fitted[keep],
+            mode="lines",
+            name="decay to a fitted datum h∞" if datum else "least-squares line of ln h",
+            line=dict(color=VERDICT_COLOURS[DOES_NOT_MEET], width=2),
+            hoverinfo="name",
+        )
+    )
+    asymptote = float(getattr(result, "asymptote", 0.0) or 0.0)
+    if datum and asymptote > 0:
+        shapes.append(
+            dict(
+                type="line",
+                x0=0,
+                x1=1,
+                xref="x domain",
+                y0=asymptote,
+                y1=asymptote,
+                yref="y",
+                line=dict(color=MUTED, dash="dot", width=1.2),
+            )
+        )
+        annotations.append(
+            dict(
+                text=f"h∞ = {asymptote:.4g} m",
+                showarrow=False,
+                x=1,
+                xanchor="right",
+                xref="x domain",
+                y=asymptote,
+                yanchor="top",
+                yref="y",
+            )
+        )
+    k_text, low, high = distinct_texts(
+        ku, result.k_reference, result.k_reference_low, result.k_reference_high
+    )
+    label = reference_label(reference_temperature)
+    layout = dict(
+        template=_template(),
+        shapes=shapes,
+        annotations=annotations,
+        xaxis=dict(title=dict(text=f"elapsed time t [{unit}]")),
+        yaxis=dict(title=dict(text="head difference h [m]"), type="log", exponentformat="power"),
+        title=dict(
+            text=f"Specimen {html.escape(str(result.specimen))}: falling head<br><sup>"
+            f"{label} = {k_text} {ku.unit} (95 %: {low} – {high}), readings {start + 1}–{stop} "
+            f"of {time.size}</sup>"
+        ),
+        legend=dict(x=0.99, xanchor="right", y=0.99, yanchor="top"),
+    )
+    return dict(data=data, layout=layout)
+
+
+def constant_head_figure(
+    result, k_unit_name: str = "m/s", reference_temperature: float = 20.0
+) -> go.Figure:
+    """Darcy velocity against gradient, with the fit through the origin (slope k).
+
+    Parameters
+    ----------
+    result : kitchen.reduction.ConstantHeadAnalysis or ConstantHeadResult
+        The reduction: its ``collections`` (``gradient``, ``darcy_velocity`` [m/s],
+        ``viscosity_ratio``), the fit of the corrected velocity on the gradient through
+        the origin, and ``k_reference`` with ``k_reference_low`` and ``k_reference_high``
+        (the interval drawn as a band).
+    k_unit_name : {"m/s", "cm/s"}
+        Unit of k, and so of the velocity.
+    reference_temperature : float
+        For the labels. [degC]
+
+    Returns
+    -------
+    plotly.graph_objects.Figure
+
+    References
+    ----------
+    Darcy's law v = k·i; ASTM D2434 (establish the laminar range, from memory).
+    """
+    ku = k_unit(k_unit_name)
+    plain = getattr(result, "result", result)
+    rows = plain.collections
+    i = rows["gradient"].to_numpy(float)
+    v = rows["darcy_velocity"].to_numpy(float) * rows["viscosity_ratio"].to_numpy(float)
+    reach = np.array([0.0, 1.1 * float(i.max())])
+    figure = go.Figure(layout=dict(template=memo_template()))
+    k, low, high = result.k_reference, result.k_reference_low, result.k_reference_high
+    if high > low:
+        figure.add_trace(
+            go.Scatter(
+                x=reach,
+                y=low * reach * ku.factor,
+                mode="lines",
+                line=dict(width=0),
+                showlegend=False,
+                hoverinfo="skip",
+            )
+        )
+        figure.add_trace(
+            go.Scatter(
+                x=reach,
+                y=high * reach * ku.factor,
+                mode="lines",
+                line=dict(width=0),
+                fill="tonexty",
+                fillcolor="rgba(29,39,49,0.11)",
+                hoverinfo="skip",
+                name="95 % interval of k",
+            )
+        )
+    figure.add_trace(
+        go.Scatter(
+            x=reach,
+            y=k * reach * ku.factor,
+            mode="lines",
+            name="v = k·i through the origin",
+            line=dict(color=VERDICT_COLOURS[DOES_NOT_MEET], width=2),
+        )
+    )
+    figure.add_trace(
+        go.Scatter(
+            x=i,
+            y=v * ku.factor,
+            mode="markers",
+            name="timed collections",
+            marker=dict(symbol="square", size=10, color=INK),
+            hovertemplate="i = %{x:.3g}<br>v = %{y:.3g} " + ku.unit + "<extra></extra>",
+        )
+    )
+    label = reference_label(reference_temperature)
+    figure.update_xaxes(title_text="hydraulic gradient i [–]", rangemode="tozero")
+    figure.update_yaxes(
+        title_text=f"Darcy velocity at {reference_temperature:g} °C, v·R<sub>T</sub> [{ku.unit}]",
+        rangemode="tozero",
+        exponentformat="power",
+    )
+    k_text, low_text, high_text = distinct_texts(ku, k, low, high)
+    figure.update_layout(
+        title_text=f"Specimen {html.escape(str(result.specimen))}: constant head<br><sup>"
+        f"{label} = {k_text} {ku.unit} (95 %: {low_text} – {high_text}), {result.n} "
+        "collection(s)</sup>",
+        legend=dict(x=0.01, xanchor="left", y=0.99, yanchor="top"),
+    )
+    return figure

@@ -1,0 +1,349 @@
+"""The memo pack: every chart, table and the report a reviewer needs, written in one go.
+
+:func:`export_memo_pack` writes, into one folder:
+
+- ``results.csv`` and ``results.xlsx`` (sheets ``specimens``, ``tests``, ``fits``,
+  ``checks`` and ``cautions``), every text cell spreadsheet-safe;
+- ``charts/plotly.min.js`` (:data:`CHART_SCRIPT`): plotly.js, once for the whole pack;
+- ``charts/NAME.html`` (interactive, loading ``plotly.min.js`` beside it), ``charts/NAME.png``
+  and ``charts/NAME.svg`` (static, through kaleido and Chromium) for each chart;
+- ``report.html``: the specimens table, the charts (loading ``charts/plotly.min.js``), the
+  methods and their sources, the criteria applied, the cautions and the provenance, which
+  names the version, size and SHA-256 of the plotly.js the pages run;
+- ``manifest.csv``, last: every file above with its size and SHA-256
+  (:mod:`kitchen.memo.manifest`), so a reviewer can check the pack received is the pack
+  exported, and a pack with a manifest is known to be whole.
+
+The pages load plotly.js by relative paths and make no request to the network, so the pack
+opens offline wherever its folder goes, whole: copied, moved, or zipped and unzipped. A
+reviewer receives the pack as one folder or one zip; a chart page sent on its own, or
+opened from inside a zip without unzipping, finds no plotly.js and says so. With
+``self_contained=True`` (``report --self-contained``) every HTML page inlines plotly.js
+instead and stands alone, for a page that must travel by itself (the PNG and SVG charts
+always do), at about 4.8 MB a page.
+
+Every item carries the cautions. Every file goes through
+:func:`kitchen.io.atomic_write_bytes`, so each is whole or absent. A pack is refused
+before any file is written when images are asked for without Chromium; a failure part-way
+leaves the files already written, plotly.js first among the pages, so every page present
+can draw its charts, and no new manifest. Exporting again into the same folder removes the
+files the previous manifest lists that the new pack no longer has, and nothing else.
+
+The charts are built in :mod:`kitchen.memo.figures`, their static images made in
+:mod:`kitchen.memo.images` and the workbook, with the cautions, written in
+:mod:`kitchen.memo.workbook`. Their names are importable from here.
+"""
+
+from __future__ import annotations
+
+import posixpath
+import time
+from collections.abc import Callable
+from dataclasses import asdict, dataclass, is_dataclass
+from datetime import UTC, datetime
+from pathlib import Path
+
+import pandas as pd
+
+from kitchen import display_units
+from kitchen.analysis import SeriesAnalysis, analyse_series
+from kitchen.io import Series, atomic_write_bytes, spreadsheet_safe
+from kitchen.reduction import results_table, series_results
+from kitchen.revisions import standing_choices
+from kitchen.revisions import window_log_sha256 as window_log_digest
+from kitchen.settings import Settings, reference_label
+
+from ._markup import ChartScript
+from .figures import memo_charts
+from .images import FIRST_IMAGE_TIMEOUT as FIRST_IMAGE_TIMEOUT
+from .images import PNG_SCALE as PNG_SCALE
+from .images import figure_image, start_image_export
+from .manifest import read_manifest, write_manifest
+from .pages import chart_page, report_page
+from .provenance import Provenance, memo_provenance
+from .tables import checks_table, fits_table, specimens_table
+from .workbook import MEMO_CAUTIONS, _notes_sheet, workbook_bytes
+
+__all__ = ["CHART_SCRIPT", "MemoPack", "export_memo_pack"]
+
+CHART_SCRIPT = "charts/plotly.min.js"
+"""Where a pack keeps plotly.js, ``/``-separated from the pack's folder; pages load it by a
+path relative to their own folder."""
+
+
+@dataclass(frozen=True)
+class MemoPack:
+    """The files a memo export wrote, with the analysis and provenance behind them.
+
+    Iterating over a pack gives its files; ``seconds`` is how long the export took. [s]
+    """
+
+    folder: Path
+    files: tuple[Path, ...]
+    analysis: SeriesAnalysis
+    provenance: Provenance
+    seconds: float
+    manifest: Path | None = None
+    """``manifest.csv``: every file of `files` with its size and SHA-256."""
+    removed: tuple[Path, ...] = ()
+    """Files of a pack exported before into the same folder that this one no longer has."""
+
+    def __iter__(self):
+        return iter(self.files)
+
+    def __len__(self) -> int:
+        return len(self.files)
+
+
+def _caption(provenance: Provenance, criterion_text: str) -> list[str]:
+    return [f"Caution: {text}" for text in MEMO_CAUTIONS] + [
+        f"kitchen {provenance.tool_version} · series {provenance.series} · "
+        f"{provenance.created} · {criterion_text} · "
+        f"{provenance.revision_count} revision(s) applied"
+    ]
+
+
+# --- the export ------------------------------------------------------------------------------
+
+
+def _settings_dict(settings: Settings) -> dict:
+    """Every field of the settings, nested ones flattened (``criteria.steady_count``)."""
+    flat = {}
+
+    def walk(prefix: str, value) -> None:
+        if is_dataclass(value) and not isinstance(value, type):
+            value = asdict(value)
+        if isinstance(value, dict):
+            for key, item in value.items():
+                walk(f"{prefix}.{key}" if prefix else str(key), item)
+        else:
+            flat[prefix] = value
+
+    walk("", settings)
+    return flat
+
+
+def _windows_text(windows: dict | None, choices) -> str:
+    """The falling-head reading windows in force, in words, for the provenance."""
+    if not windows:
+        return "proposed by the tool for every specimen"
+    standing = standing_choices(choices)
+    parts = []
+    for specimen, (start, stop) in windows.items():
+        choice = standing.get(specimen)
+        if choice is not None and not choice.proposed:
+            who = f"{choice.who}, " if choice.who else ""
+            parts.append(
+                f"{specimen}: file rows {choice.first_row}-{choice.last_row} "
+                f"({who}{choice.when}: {choice.reason})"
+            )
+        else:
+            parts.append(f"{specimen}: readings {start + 1}-{stop}")
+    return "chosen for " + "; ".join(parts) + "; proposed by the tool for the others"
+
+
+def _figure_html(figure, name: str) -> str:
+    """The figure as an HTML fragment without plotly.js (the page's head loads it)."""
+    return figure.to_html(
+        full_html=False,
+        include_plotlyjs=False,
+        div_id=f"chart-{name}",
+        config={"displaylogo": False, "responsive": False},
+    )
+
+
+def export_memo_pack(
+    series: Series,
+    out: str | Path,
+    *,
+    settings: Settings | None = None,
+    criterion: float = 1e-9,
+    k_unit: str = "m/s",
+    density_unit: str = "Mg/m³",
+    results: pd.DataFrame | None = None,
+    windows: dict | None = None,
+    capillary_rises: dict | None = None,
+    window_choices=(),
+    window_log_sha256: str | None = None,
+    images: bool = True,
+    self_contained: bool = False,
+    revision_count: int = 0,
+    revision_log: str | Path | None = None,
+    revision_log_sha256: str | None = None,
+    progress: Callable[[int, int, str], None] | None = None,
+) -> MemoPack:
+    """Write the memo pack of a series into the folder `out`.
+
+    Parameters
+    ----------
+    series : Series
+        The series (its effective data, with revisions applied).
+    out : str or pathlib.Path
+        Folder for the pack; created when missing.
+    settings : Settings, optional
+        Reference temperature and viscosity method.
+    criterion : float or Criterion, default 1e-9
+        Largest conductivity allowed (a number), or a :class:`kitchen.analysis.criterion.Criterion` of
+        either kind (a drainage layer's smallest k required), from the project
+        specification. [m/s]
+    k_unit : {"m/s", "cm/s"}
+        Conductivity unit of the charts and the report.
+    density_unit : {"Mg/m³", "kN/m³", "lb/ft³"}
+        Density unit of the charts and the report (ASCII spellings accepted).
+    results : pandas.DataFrame, optional
+        :func:`kitchen.reduction.results.series_results` of the series, when already reduced.
+    windows : dict, optional
+        Falling-head reading windows ``{specimen: (start, stop)}``; the others are
+        proposed by the tool.
+    capillary_rises : dict, optional
+        Measured capillary rises ``{specimen: rise [m]}``, as for
+        :func:`kitchen.reduction.results.series_results`.
+    window_choices : sequence of WindowChoice, optional
+        The rows of the series' window log (:func:`kitchen.revisions.read_window_choices`),
+        so that the provenance names who chose each window, when and why.
+    window_log_sha256 : str, optional
+        SHA-256 of that log; read from beside the series when `window_choices` are given
+        (:func:`kitchen.revisions.window_log_sha256`).
+    images : bool, default True
+        Write PNG and SVG beside each chart's HTML (needs Chromium).
+    self_contained : bool, default False
+        Inline plotly.js in every HTML page, so that each opens on its own (about 4.8 MB a
+        page). By default it is written once, as :data:`CHART_SCRIPT`, and every page
+        loads it: a pack many times smaller, which opens as a whole folder.
+    revision_count, revision_log, revision_log_sha256 : optional
+        The revisions applied (see :func:`kitchen.revisions.load_effective_series`).
+    progress : callable, optional
+        Called as ``progress(done, total, what)`` before each file is written.
+
+    Returns
+    -------
+    MemoPack
+
+    Raises
+    ------
+    ImageExportUnavailable
+        With `images`, when no Chromium is found (before any file is written).
+    ValueError
+        When the criterion or a unit is not understood.
+    OSError
+        When an input cannot be read or the folder cannot be written.
+    """
+    from plotly.offline import get_plotlyjs, get_plotlyjs_version
+
+    from kitchen.charts import add_caption
+
+    started, clock = datetime.now(UTC), time.perf_counter()
+    settings = settings or Settings()
+    ku, du = display_units.k_unit(k_unit), display_units.density_unit(density_unit)
+    if images:
+        start_image_export()
+    out = Path(out)
+    previous = read_manifest(out)  # an unreadable manifest stops the export here
+    if results is None:
+        results = series_results(series, settings, windows, capillary_rises)
+    analysis = analyse_series(results, criterion, settings.reference_temperature)
+    criterion = analysis.criterion
+    label = reference_label(settings)
+    criterion_text = (
+        f"criterion {label} {criterion.symbol} "
+        f"{display_units.scientific(criterion * ku.factor)} {ku.unit} ({criterion.words})"
+    )
+    chosen = {
+        **_settings_dict(settings),
+        "criterion [m/s]": f"{criterion:g}",
+        "criterion kind": criterion.kind,
+        "k unit": ku.unit,
+        "density unit": du.unit,
+        "confidence": f"{analysis.confidence:g}",
+        "compaction curve": "quadratic",
+        "reading windows": _windows_text(windows, window_choices),
+        "window log SHA-256": window_log_sha256
+        or (window_choices and window_log_digest(series.source))
+        or "no window log",
+        "measured capillary rises": ", ".join(
+            f"{specimen}: {1e3 * rise:.1f} mm" for specimen, rise in capillary_rises.items()
+        )
+        if capillary_rises
+        else "none (see capillary_rise)",
+    }
+    provenance = memo_provenance(
+        series.input_files,
+        series.name,
+        series.source,
+        chosen,
+        revision_count,
+        revision_log,
+        revision_log_sha256,
+        started,
+    )
+    charts, skipped = memo_charts(
+        series, analysis, settings, ku.unit, du.unit, windows, capillary_rises
+    )
+    tables = {
+        "specimens": specimens_table(analysis),
+        "tests": results_table(results, settings),
+        "fits": fits_table(analysis),
+        "checks": checks_table(results, analysis, skipped),
+    }
+    script = ChartScript(
+        get_plotlyjs(), get_plotlyjs_version(), None if self_contained else CHART_SCRIPT
+    )
+    formats = ("html", "png", "svg") if images else ("html",)
+    steps = ["results.csv", "results.xlsx"]
+    if script.path is not None:
+        steps.append(script.path)
+    steps += [f"charts/{name}.{ext}" for name, _, _ in charts for ext in formats]
+    steps.append("report.html")
+    written: list[Path] = []
+
+    def write(relative: str, kind: str, data: Callable[[], bytes]) -> None:
+        if progress is not None:
+            progress(len(written) + 1, len(steps), f"{kind} {relative}")
+        written.append(atomic_write_bytes(out / relative, data()))
+
+    write(
+        "results.csv",
+        "table",
+        lambda: spreadsheet_safe(tables["tests"]).to_csv(index=False).encode("utf-8"),
+    )
+    notes = _notes_sheet(provenance, criterion_text)
+    write("results.xlsx", "workbook", lambda: workbook_bytes(tables, notes))
+    if script.path is not None:  # before any page that loads it
+        write(script.path, "script", lambda: script.content)
+    caption = _caption(provenance, criterion_text)
+    for name, title, figure in charts:
+        page = f"charts/{name}.html"
+        write(
+            page,
+            "chart",
+            lambda f=figure, n=name, t=title, p=page: chart_page(
+                t, _figure_html(f, n), MEMO_CAUTIONS, provenance, script, posixpath.dirname(p)
+            ).encode("utf-8"),
+        )
+        if images:
+            captioned = add_caption(figure, caption)
+            for ext in ("png", "svg"):
+                write(
+                    f"charts/{name}.{ext}", "chart", lambda c=captioned, e=ext: figure_image(c, e)
+                )
+    fragments = [(name, title, _figure_html(figure, name)) for name, title, figure in charts]
+    write(
+        "report.html",
+        "report",
+        lambda: report_page(
+            analysis,
+            tables,
+            fragments,
+            script,
+            provenance,
+            MEMO_CAUTIONS,
+            ku,
+            du,
+            criterion_text,
+            skipped,
+        ).encode("utf-8"),
+    )
+    manifest, removed = write_manifest(out, written, previous)
+    return MemoPack(
+        out, tuple(written), analysis, provenance, time.perf_counter() - clock, manifest, removed
+    )

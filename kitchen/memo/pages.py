@@ -1,0 +1,380 @@
+"""The HTML pages of the memo pack, built as text: the report of a series and one per chart.
+
+The pages make no request to the network: styles are inline, and plotly.js, described by
+a :class:`ChartScript`, is either a file of the pack that each page loads by a relative
+path (``<script src="plotly.min.js">``), or inlined in every page. With a shared file, a
+page opened without it (a chart mailed on its own, a page opened from inside a zip) shows
+a notice saying what is missing instead of blank charts. :mod:`kitchen.memo.pack` turns the
+figures into HTML and decides which. Every value that comes from the input (specimen ids,
+effort labels, notes) is escaped. The markup the pages share, and :class:`ChartScript`, are
+in :mod:`kitchen.memo._markup`; their names are importable from here.
+"""
+
+from __future__ import annotations
+
+import pandas as pd
+
+from kitchen.analysis import (
+    ANALYSIS_METHODS,
+    DOES_NOT_MEET,
+    MEETS,
+    NOT_CONCLUSIVE,
+    VERDICTS,
+    SeriesAnalysis,
+)
+from kitchen.display_units import DisplayUnit, distinct_texts, scientific
+from kitchen.settings import reference_label
+
+from ._markup import STYLE as STYLE
+from ._markup import ChartScript, _cautions, _e, _number, _page, _table
+from .provenance import Provenance
+
+__all__ = ["REDUCTION_METHODS", "VERDICT_MARKS", "chart_page", "report_page"]
+
+REDUCTION_METHODS = (
+    (
+        "specimen state",
+        "A = πD²/4, ρd = Ms/(A·L), e = Gs·ρw/ρd − 1, n = e/(1+e), S = w·Gs/e, ρw = 1.000 Mg/m³",
+        "Das & Sobhan, Principles of Geotechnical Engineering; Holtz & Kovacs",
+    ),
+    (
+        "constant head",
+        "k = Q·L/(A·h·t), i = h/L; per specimen the slope of v on i through the origin",
+        "ASTM D2434; ASTM D5084 Method A; ISO 17892-11",
+    ),
+    (
+        "falling head",
+        "k = a·L/(A·Δt)·ln(h1/h2); with many readings the least squares of ln h on t, "
+        "k = −m·a·L/A; rising tailwater: a = a_in·a_out/(a_in + a_out)",
+        "ASTM D5084 Methods B and C; ASTM D5856; ISO 17892-11; Draper & Smith",
+    ),
+    (
+        "temperature",
+        "k_ref = R_T·k_T, R_T = μ_T/μ_ref; drifting temperature: ln h fitted on ∫dt/R_T",
+        "ASTM D5084, D5856, D2434; μ from Kestin, Sokolov & Wakeham (1978), IAPWS 2008 "
+        "(Huber et al. 2009) or the ASTM D5084 equation",
+    ),
+    (
+        "interval and validity",
+        "95 % interval of k from the fit and the measurement resolutions; validity checks "
+        "recorded per test (see Checks)",
+        "JCGM 100:2008 (GUM); ASTM D5084 termination criteria; trend tests are the tool's own",
+    ),
+)
+"""(step, method, source) of the test reductions (the README's methods table)."""
+
+VERDICT_MARKS = {MEETS: "●", DOES_NOT_MEET: "○", NOT_CONCLUSIVE: "◎"}
+"""The mark beside each verdict: the fill of its marker on the charts."""
+
+
+def _script_row(script: ChartScript) -> tuple[str, str]:
+    where = "inlined in every page" if script.path is None else f"<code>{_e(script.path)}</code>"
+    return (
+        "chart script",
+        f"plotly.js {_e(script.version)}, {where}, {len(script.content)} bytes, SHA-256 "
+        f'<span class="hash">{script.sha256}</span>',
+    )
+
+
+def _provenance(provenance: Provenance, script: ChartScript) -> str:
+    rows = [
+        ("tool", f"kitchen {_e(provenance.tool_version)}"),
+        ("exported", _e(provenance.created)),
+        ("series", f"{_e(provenance.series)} (<code>{_e(provenance.source)}</code>)"),
+    ]
+    rows += [(f"setting: {_e(k)}", _e(v)) for k, v in provenance.settings]
+    rows.append(("revisions applied", str(provenance.revision_count)))
+    log = provenance.revision_log_sha256
+    rows.append(
+        (
+            "revision log SHA-256",
+            f'<span class="hash">{_e(log)}</span> (<code>{_e(provenance.revision_log)}</code>)'
+            if log
+            else "no revision log",
+        )
+    )
+    rows.append(("environment", _e(", ".join(f"{n} {v}" for n, v in provenance.environment))))
+    rows.append(_script_row(script))
+    rows = [(f'<span class="nowrap">{a}</span>', b) for a, b in rows]
+    files = _table(
+        ["input file", "bytes", "SHA-256"],
+        [
+            (f"<code>{_e(f.path)}</code>", str(f.size), f'<span class="hash">{f.sha256}</span>')
+            for f in provenance.input_files
+        ],
+        numeric=(1,),
+    )
+    return _table(["item", "value"], rows) + files
+
+
+def chart_page(
+    title: str,
+    figure_html: str,
+    cautions,
+    provenance: Provenance,
+    script: ChartScript | None = None,
+    folder: str = "",
+) -> str:
+    """A page holding one interactive chart, its cautions and a provenance line.
+
+    Parameters
+    ----------
+    title : str
+        The chart's title.
+    figure_html : str
+        The figure as an HTML fragment (``Figure.to_html(full_html=False, ...)``); with
+        plotly.js inlined when `script` is None.
+    cautions : iterable of str
+    provenance : Provenance
+    script : ChartScript, optional
+        How the page gets plotly.js; None when `figure_html` carries it.
+    folder : str, default ""
+        The page's folder inside the pack, ``/``-separated (``charts``), from which the
+        script's relative path is worked out.
+    """
+    line = (
+        f"kitchen {_e(provenance.tool_version)} · series {_e(provenance.series)} · exported "
+        f"{_e(provenance.created)} · {provenance.revision_count} revision(s) applied"
+    )
+    notice, check = script.notice(folder) if script is not None else ("", "")
+    body = (
+        f'<h1>{_e(title)}</h1>\n{notice}<div class="chart">{figure_html}</div>\n'
+        f'{_cautions(cautions)}\n<p class="note">{line}</p>\n{check}'
+    )
+    return _page(title, body, script.element(folder) if script is not None else "")
+
+
+def _specimen_rows(analysis: SeriesAnalysis, ku: DisplayUnit, du: DisplayUnit) -> list:
+    rows = []
+    for _, row in analysis.specimens.iterrows():
+        interval = "–"
+        k_text = scientific(row["k"] * ku.factor, html=True)
+        if pd.notna(row["k_low"]):
+            k_text, low, high = distinct_texts(ku, row["k"], row["k_low"], row["k_high"])
+            interval = f"{low} – {high}"
+        water = row["water_content"]
+        saturation = pd.to_numeric(row["saturation"], errors="coerce")
+        rows.append(
+            (
+                _e(row["specimen"]),
+                _e(row["effort"]) if pd.notna(row["effort"]) else "–",
+                _e(str(row["method"]).replace("_", " ")),
+                _number(100 * water) if pd.notna(water) else "–",
+                f"{row['dry_density'] * du.factor:.4g}",
+                f"{row['void_ratio']:.3f}",
+                _number(100 * saturation) if pd.notna(saturation) else "–",
+                scientific(row["k"] * ku.factor, html=True),
+                interval,
+                f"{VERDICT_MARKS[row['verdict']]} {_e(row['verdict'])}",
+                "yes" if row["in_zone"] else "no",
+            )
+        )
+    return rows
+
+
+def _verdict_rule(analysis: SeriesAnalysis, label: str) -> str:
+    """How a verdict is reached against the analysis's criterion, as HTML."""
+    interval = f"{100 * analysis.confidence:g} % interval of {label}"
+    if analysis.criterion.kind == "minimum":
+        meets, fails = "lower end", "upper end"
+        meets_how, fails_how = "at or above", "below"
+    else:
+        meets, fails = "upper end", "lower end"
+        meets_how, fails_how = "at or below", "above"
+    return (
+        f"{VERDICT_MARKS[MEETS]} meets where the {meets} of the {interval} is {meets_how} "
+        f"the criterion; {VERDICT_MARKS[DOES_NOT_MEET]} does not meet where its {fails} is "
+        f"{fails_how} it; {VERDICT_MARKS[NOT_CONCLUSIVE]} not conclusive where the interval "
+        "straddles it."
+    )
+
+
+def _summary(analysis: SeriesAnalysis, ku: DisplayUnit, criterion_text: str) -> str:
+    counts = analysis.counts
+    words = ", ".join(f"{VERDICT_MARKS[v]} {_e(v)}: {counts[v]}" for v in VERDICTS)
+    parts = [
+        f"<p>Against the {_e(criterion_text)}: {words} (of {len(analysis.specimens)} "
+        "specimens).</p>"
+    ]
+    mean = analysis.geometric_mean
+    if mean is not None:
+        parts.append(
+            f"<p>Geometric mean k = {scientific(mean.geometric_mean * ku.factor, html=True)} "
+            f"{ku.unit} ({100 * mean.confidence:g} %: "
+            f"{scientific(mean.low * ku.factor, html=True)} – "
+            f"{scientific(mean.high * ku.factor, html=True)}), standard deviation of log10 k "
+            f"{mean.log10_standard_deviation:.2f}, n = {mean.n}.</p>"
+        )
+    for effort, curve in analysis.compaction_curves.items():
+        if curve.peak_found:
+            parts.append(
+                f"<p>Effort {_e(effort)}: optimum water content "
+                f"{100 * curve.optimum_water_content:.1f} %, maximum dry density "
+                f"{curve.maximum_dry_density / 1000:.3f} Mg/m³ ({_e(curve.method)} fit, "
+                f"n = {curve.n}).</p>"
+            )
+    return "".join(parts)
+
+
+def _fits(tables) -> str:
+    fits = tables["fits"]
+    rows = [
+        (
+            _e(r["fit"]),
+            _e(r["subject"]),
+            _e(r["quantity"]),
+            _number(r["value"], 4),
+            _number(r["low"], 4),
+            _number(r["high"], 4),
+            _e(r["unit"]),
+            "–" if pd.isna(r["n"]) else str(int(r["n"])),
+            _e(r["note"]),
+        )
+        for _, r in fits.iterrows()
+    ]
+    return _table(
+        ["fit", "subject", "quantity", "value", "low", "high", "unit", "n", "note"],
+        rows,
+        numeric=(3, 4, 5, 7),
+    )
+
+
+def _checks(tables) -> str:
+    rows = [
+        (_e(r["specimen"]), _e(str(r["method"]).replace("_", " ")), _e(r["check"]))
+        for _, r in tables["checks"].iterrows()
+    ]
+    return _table(["specimen", "test", "check or note"], rows)
+
+
+def _grading(analysis: SeriesAnalysis, ku: DisplayUnit) -> str:
+    if analysis.grading is None:
+        return "<p>No specimen has a d10: no prediction from grading.</p>"
+    rows = []
+    for _, r in analysis.grading.iterrows():
+        rows.append(
+            (
+                _e(r["specimen"]),
+                _number(1000 * r["d10"]),
+                _number(r["void_ratio"]),
+                scientific(r["hazen_k"] * ku.factor, html=True)
+                + ("" if r["hazen_within_range"] else " (outside range)"),
+                scientific(r["chapuis_k"] * ku.factor, html=True)
+                + ("" if r["chapuis_within_range"] else " (outside range)"),
+                _e(r["note"]),
+            )
+        )
+    return (
+        "<p>Predictions, not measurements; each method holds only within its range.</p>"
+        + _table(
+            ["specimen", "d10 [mm]", "e", f"Hazen k [{ku.unit}]", f"Chapuis k [{ku.unit}]", "note"],
+            rows,
+            numeric=(1, 2, 3, 4),
+        )
+    )
+
+
+def report_page(
+    analysis: SeriesAnalysis,
+    tables: dict,
+    charts,
+    script: ChartScript,
+    provenance: Provenance,
+    cautions,
+    ku: DisplayUnit,
+    du: DisplayUnit,
+    criterion_text: str,
+    skipped=(),
+) -> str:
+    """The report of a series, at the top of the memo pack.
+
+    Parameters
+    ----------
+    analysis : SeriesAnalysis
+    tables : dict of str to pandas.DataFrame
+        ``fits`` and ``checks`` (:mod:`kitchen.memo.tables`).
+    charts : iterable of (name, title, figure HTML without plotly.js)
+    script : ChartScript
+        plotly.js: loaded once in the page's head, from its file in the pack or inlined;
+        its version, size and SHA-256 go in the provenance.
+    provenance : Provenance
+    cautions : iterable of str
+    ku, du : DisplayUnit
+        Units of k and of density in the tables.
+    criterion_text : str
+        The criterion in words.
+    skipped : iterable of str
+        Charts not drawn, and why.
+    """
+    label = reference_label(analysis.reference_temperature)
+    title = f"Hydraulic conductivity of series {provenance.series}"
+    specimens = _table(
+        [
+            "specimen",
+            "effort",
+            "test",
+            "w [%]",
+            f"{du.symbol} [{du.unit}]",
+            "e",
+            "S [%]",
+            f"{label} [{ku.unit}]",
+            f"{100 * analysis.confidence:g} % interval",
+            "verdict",
+            "in acceptable zone",
+        ],
+        _specimen_rows(analysis, ku, du),
+        numeric=(3, 4, 5, 6, 7),
+        nowrap=(0, 2, 8, 9),
+    )
+    figures = []
+    for name, chart_title, figure_html in charts:
+        figures.append(
+            f'<h3 id="{_e(name)}">{_e(chart_title)}</h3><div class="chart">{figure_html}</div>'
+        )
+    methods = _table(
+        ["step", "method", "source"],
+        [(_e(a), _e(b), _e(c)) for a, b, c in REDUCTION_METHODS + ANALYSIS_METHODS],
+    )
+    zone = "not drawn (no water contents)"
+    if analysis.acceptable_zone is not None:
+        zone = _e(analysis.acceptable_zone.method)
+    criteria = (
+        f"<ul><li>{_e(criterion_text)} (from the project specification; an input, never a "
+        "constant).</li>"
+        f"<li>Verdict: {_verdict_rule(analysis, label)}</li>"
+        f"<li>Acceptable zone: {zone}.</li>"
+        f"<li>Reference temperature and viscosity: see the settings under Provenance.</li></ul>"
+    )
+    notes = "".join(f"<li>{_e(n)}</li>" for n in list(analysis.notes) + list(skipped))
+    notice, check = script.notice("")
+    body = "\n".join(
+        [
+            f"<h1>{_e(title)}</h1>",
+            f'<p class="lede">Exported {_e(provenance.created)} by kitchen '
+            f"{_e(provenance.tool_version)}; {provenance.revision_count} revision(s) applied.</p>",
+            notice + _cautions(cautions),
+            "<h2>Summary</h2>",
+            _summary(analysis, ku, criterion_text),
+            "<h2>Specimens</h2>",
+            specimens,
+            "<h2>Charts</h2>",
+            "".join(figures) or "<p>No chart could be drawn.</p>",
+            "<h2>Fits</h2>",
+            _fits(tables),
+            "<h2>Predictions from grading</h2>",
+            _grading(analysis, ku),
+            "<h2>Criteria applied</h2>",
+            criteria,
+            "<h2>Checks and notes</h2>",
+            _checks(tables),
+            f"<ul>{notes}</ul>" if notes else "",
+            "<h2>Methods and their sources</h2>",
+            methods,
+            "<h2>Cautions</h2>",
+            _cautions(cautions),
+            "<h2>Provenance</h2>",
+            _provenance(provenance, script),
+            check,
+        ]
+    )
+    return _page(title, body, script.element(""))

@@ -1,0 +1,79 @@
+"""The memo's workbook, and the cautions every exported item carries.
+
+:func:`workbook_bytes` writes the memo's tables as one ``.xlsx`` workbook with a
+``cautions`` sheet (the cautions, the criterion, the settings and the provenance), every text
+cell spreadsheet-safe; :data:`MEMO_CAUTIONS` are the cautions of every page, chart and sheet.
+"""
+
+from __future__ import annotations
+
+import io
+import math
+
+import numpy as np
+import pandas as pd
+
+from kitchen import __version__
+from kitchen.cautions import CAUTIONS
+from kitchen.io import spreadsheet_safe
+
+from .provenance import Provenance
+
+__all__ = ["MEMO_CAUTIONS", "workbook_bytes"]
+
+MEMO_CAUTIONS = CAUTIONS + (
+    "ASTM D5084 itself says its results apply to the field with caution and by qualified "
+    "personnel.",
+)
+"""The cautions every exported item carries: :data:`kitchen.CAUTIONS` and ASTM D5084's own."""
+
+
+def _cell(value):
+    if value is None or value is pd.NA or value is pd.NaT:
+        return None
+    if isinstance(value, float | np.floating):
+        return None if not math.isfinite(float(value)) else float(value)
+    if isinstance(value, np.integer):
+        return int(value)
+    if isinstance(value, np.bool_):
+        return bool(value)
+    if isinstance(value, list | tuple):
+        return "; ".join(map(str, value))
+    return value
+
+
+def workbook_bytes(sheets: dict[str, pd.DataFrame], notes: pd.DataFrame) -> bytes:
+    """An .xlsx workbook of the sheets given, plus a ``cautions`` sheet, as bytes.
+
+    Every text cell is made spreadsheet-safe (:func:`kitchen.io.spreadsheet_safe`).
+    """
+    from openpyxl import Workbook
+    from openpyxl.styles import Font
+
+    book = Workbook()
+    book.remove(book.active)
+    for name, frame in {**sheets, "cautions": notes}.items():
+        sheet = book.create_sheet(name)
+        safe = spreadsheet_safe(frame.map(_cell) if not frame.empty else frame)
+        sheet.append([str(c) for c in safe.columns])
+        for cell in sheet[1]:
+            cell.font = Font(bold=True)
+        for row in safe.itertuples(index=False):
+            sheet.append([_cell(v) for v in row])
+        sheet.freeze_panes = "A2"
+        for index, column in enumerate(safe.columns, start=1):
+            width = max([len(str(column))] + [len(str(v)) for v in safe[column].head(200)])
+            sheet.column_dimensions[sheet.cell(1, index).column_letter].width = min(width + 2, 80)
+    book.properties.creator = f"kitchen {__version__}"
+    book.properties.description = " ".join(MEMO_CAUTIONS)
+    buffer = io.BytesIO()
+    book.save(buffer)
+    return buffer.getvalue()
+
+
+def _notes_sheet(provenance: Provenance, criterion_text: str) -> pd.DataFrame:
+    rows = [("caution", text) for text in MEMO_CAUTIONS]
+    rows.append(("criterion", criterion_text))
+    rows += [("setting", f"{key} = {value}") for key, value in provenance.settings]
+    rows += [("provenance", line) for line in provenance.lines()]
+    return pd.DataFrame(rows, columns=["item", "text"])

@@ -1,0 +1,269 @@
+"""The revision log: its columns, its rows, and reading it back.
+
+Each revision is one row of the series' log: ``revisions.csv`` in the series folder, or
+``<stem>.revisions.csv`` beside an ``.xlsx`` workbook (:func:`revisions_path`). Reading the
+log checks every row (its id, time, table, field and what it withdraws) and names the row
+and column of each one that cannot be read. The time of a row is ISO 8601 with a time
+zone; the helpers that check and make it are shared with :mod:`kitchen.revisions.window_log`.
+"""
+
+from __future__ import annotations
+
+import csv
+import hashlib
+import io
+import re
+from dataclasses import dataclass
+from dataclasses import field as dataclass_field
+from datetime import datetime
+from pathlib import Path
+
+from kitchen.io import SCHEMAS, TABLE_NAMES
+
+__all__ = [
+    "LOG_COLUMNS",
+    "Revision",
+    "RevisionError",
+    "revisions_path",
+    "read_revisions",
+    "log_sha256",
+]
+
+
+LOG_COLUMNS = (
+    "id", "when", "who", "action", "table", "specimen", "reading_row", "field",
+    "old_value", "new_value", "applied_value", "reason", "withdraws",
+)  # fmt: skip
+"""Columns of the revision log, in order."""
+
+REVISE, WITHDRAW = "revise", "withdraw"
+_ID = re.compile(r"^[0-9a-f]{8}$")
+
+
+class RevisionError(ValueError):
+    """A revision that cannot be made or applied, or a log that cannot be read."""
+
+    def __init__(self, problems: list[str] | str):
+        self.problems = [problems] if isinstance(problems, str) else list(problems)
+        if len(self.problems) == 1:
+            super().__init__(self.problems[0])
+        else:
+            lines = [f"{len(self.problems)} problem(s) with the revisions:"]
+            super().__init__("\n".join(lines + [f"  - {p}" for p in self.problems]))
+
+
+@dataclass(frozen=True)
+class Revision:
+    """One row of the revision log (see :data:`LOG_COLUMNS` and the README).
+
+    ``old_value`` is the value as it stood when the revision was made, in the file's unit
+    (``"116.27 mm"``; empty when the cell was empty); ``new_value`` is the value as typed
+    (``"4.95 in"``); ``applied_value`` is the typed value in the file's unit, which is what
+    the effective data hold. A withdrawal row copies the table, specimen, reading and field
+    of the revision it withdraws and names it in ``withdraws``.
+    """
+
+    id: str
+    when: str
+    who: str
+    action: str
+    table: str
+    specimen: str
+    reading_row: int | None
+    field: str
+    old_value: str
+    new_value: str
+    applied_value: str
+    reason: str
+    withdraws: str = ""
+    log_row: int | None = dataclass_field(default=None, compare=False)
+
+    def target(self) -> tuple:
+        """The value this row is about: (table, specimen, reading_row, field)."""
+        return (self.table, self.specimen, self.reading_row, self.field)
+
+    def describe(self) -> str:
+        """The change in words, for messages and the history."""
+        where = f"{self.table} {self.specimen}"
+        if self.reading_row is not None:
+            where += f" reading row {self.reading_row}"
+        if self.action == WITHDRAW:
+            back = _shown(self.new_value)
+            return f"withdraws {self.withdraws}: {where} {self.field} back to {back}"
+        typed = "" if self.new_value == self.applied_value else f" (typed {self.new_value})"
+        return f"{where} {self.field}: {_shown(self.old_value)} -> {self.applied_value}{typed}"
+
+
+def _shown(text: str) -> str:
+    return text if text else "(empty)"
+
+
+def revisions_path(series_path: str | Path) -> Path:
+    """Where a series' revision log lives.
+
+    ``<folder>/revisions.csv`` for a series folder; ``<stem>.revisions.csv`` beside an
+    ``.xlsx`` workbook (``drainage_sand.revisions.csv`` for ``drainage_sand.xlsx``).
+    """
+    path = Path(series_path)
+    if path.suffix.lower() == ".xlsx":
+        return path.with_name(f"{path.stem}.revisions.csv")
+    return path / "revisions.csv"
+
+
+# --- the log --------------------------------------------------------------------------------
+
+
+def _encode(revision: Revision) -> bytes:
+    buffer = io.StringIO()
+    values = [getattr(revision, name) for name in LOG_COLUMNS]
+    csv.writer(buffer, lineterminator="\n").writerow(["" if v is None else v for v in values])
+    return buffer.getvalue().encode("utf-8")
+
+
+_HEADER = (",".join(LOG_COLUMNS) + "\n").encode("utf-8")
+
+
+def _parse_log(data: bytes, label: str) -> tuple[Revision, ...]:
+    try:
+        text = data.decode("utf-8-sig")
+    except UnicodeDecodeError:
+        raise RevisionError(f"{label}: is not UTF-8 text") from None
+    try:
+        records = list(csv.reader(io.StringIO(text, newline="")))
+    except csv.Error as error:
+        raise RevisionError(f"{label}: cannot be read as CSV ({error})") from None
+    if not records or [c.strip() for c in records[0]] != list(LOG_COLUMNS):
+        found = ", ".join(records[0]) if records else "nothing"
+        raise RevisionError(
+            f"{label}, row 1: expected the columns {', '.join(LOG_COLUMNS)}; found {found}"
+        )
+    problems: list[str] = []
+    revisions: list[Revision] = []
+    by_id: dict[str, Revision] = {}
+    withdrawn_by: dict[str, str] = {}
+    for number, record in enumerate(records[1:], start=2):
+        if not any(cell.strip() for cell in record):
+            continue
+        if len(record) != len(LOG_COLUMNS):
+            problems.append(
+                f"{label}, row {number}: expected {len(LOG_COLUMNS)} fields, found "
+                f"{len(record)} (a write cut short, or an edit by hand?)"
+            )
+            continue
+        row = dict(zip(LOG_COLUMNS, (cell.strip() for cell in record), strict=True))
+        found = _check_row(row, label, number, by_id, withdrawn_by)
+        if isinstance(found, str):
+            problems.append(found)
+            continue
+        revisions.append(found)
+        by_id[found.id] = found
+        if found.action == WITHDRAW:
+            withdrawn_by[found.withdraws] = found.id
+    if problems:
+        raise RevisionError(problems)
+    return tuple(revisions)
+
+
+def _check_row(row: dict, label: str, number: int, by_id: dict, withdrawn_by: dict):
+    def problem(column: str, message: str) -> str:
+        return f"{label}, row {number}, column '{column}': {message}"
+
+    if not _ID.match(row["id"]):
+        return problem("id", f"expected 8 hexadecimal digits, found {row['id']!r}")
+    if row["id"] in by_id:
+        first = by_id[row["id"]].log_row
+        return problem("id", f"id {row['id']} is used twice (first at row {first})")
+    try:
+        _check_when(row["when"])
+    except RevisionError as error:
+        return problem("when", str(error))
+    if not row["reason"]:
+        return problem("reason", "every revision needs a reason")
+    reading = None
+    if row["action"] == REVISE:
+        if row["table"] not in TABLE_NAMES:
+            return problem("table", f"expected one of {', '.join(TABLE_NAMES)}")
+        if row["field"] not in SCHEMAS[row["table"]] or row["field"] == "specimen":
+            return problem("field", f"{row['field']!r} is not a value of {row['table']}")
+        if not row["specimen"] or not row["applied_value"]:
+            return problem("specimen" if not row["specimen"] else "applied_value", "empty")
+        if row["table"] != "specimens":
+            if not row["reading_row"].isdigit() or int(row["reading_row"]) < 2:
+                return problem("reading_row", "expected the reading's row number (2 or more)")
+            reading = int(row["reading_row"])
+        if row["withdraws"]:
+            return problem("withdraws", "a revision row withdraws nothing; leave it empty")
+    elif row["action"] == WITHDRAW:
+        target = by_id.get(row["withdraws"])
+        if target is None:
+            return problem("withdraws", f"no earlier revision {row['withdraws']!r} to withdraw")
+        if target.action == WITHDRAW:
+            return problem("withdraws", f"{target.id} is itself a withdrawal")
+        if target.id in withdrawn_by:
+            by = withdrawn_by[target.id]
+            return problem("withdraws", f"{target.id} was already withdrawn by {by}")
+        reading = target.reading_row
+    else:
+        return problem("action", f"expected {REVISE} or {WITHDRAW}, found {row['action']!r}")
+    values = {name: row[name] for name in LOG_COLUMNS if name != "reading_row"}
+    return Revision(**values, reading_row=reading, log_row=number)
+
+
+def _read_log(log: Path) -> tuple[bytes | None, tuple[Revision, ...]]:
+    try:
+        data = log.read_bytes()
+    except FileNotFoundError:
+        return None, ()
+    return data, _parse_log(data, log.name)
+
+
+def read_revisions(series_path: str | Path) -> tuple[Revision, ...]:
+    """Every row of a series' revision log, in order (empty when there is no log).
+
+    Raises
+    ------
+    RevisionError
+        Naming the log's row and column for each row that cannot be read.
+    """
+    return _read_log(revisions_path(series_path))[1]
+
+
+def log_sha256(series_path: str | Path) -> str | None:
+    """SHA-256 (hex) of a series' revision log as it is now; ``None`` when there is none."""
+    log = revisions_path(series_path)
+    try:
+        return hashlib.sha256(log.read_bytes()).hexdigest()
+    except FileNotFoundError:
+        return None
+
+
+def _standing(revisions) -> tuple[list[Revision], list[Revision]]:
+    withdrawn_ids = {r.withdraws for r in revisions if r.action == WITHDRAW}
+    changes = [r for r in revisions if r.action == REVISE]
+    return (
+        [r for r in changes if r.id not in withdrawn_ids],
+        [r for r in changes if r.id in withdrawn_ids],
+    )
+
+
+# --- the time of a row -----------------------------------------------------------------------
+
+
+def _check_when(text: str) -> str:
+    try:
+        moment = datetime.fromisoformat(text)
+    except (TypeError, ValueError):
+        raise RevisionError(
+            f"{text!r} is not an ISO 8601 date and time (for example 2025-05-02T14:30:00+02:00)"
+        ) from None
+    if moment.tzinfo is None:
+        raise RevisionError(f"{text!r} has no time zone; add one (for example +02:00 or Z)")
+    return text
+
+
+def _when(when) -> str:
+    if when is None:
+        return datetime.now().astimezone().isoformat(timespec="seconds")
+    if isinstance(when, datetime):
+        when = when.isoformat(timespec="seconds")
+    return _check_when(str(when).strip())

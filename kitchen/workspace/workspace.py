@@ -1,0 +1,463 @@
+"""A series held open for interactive work: each specimen recomputed only when its inputs change.
+
+In the workbook one series is revised, re-windowed and redrawn many times. A
+:class:`Workspace` holds the series' tables as written, its revision log and its effective
+data, and keeps every specimen's reduction under a digest of what it was computed from:
+the specimen's row of the specimens table, its readings or collections, the settings, its
+reading window and capillary rise. After a revision only the table the revision names is
+validated again (:func:`kitchen.io.rebuild_series`), and only the specimens whose
+inputs changed are reduced again; the others come from the cache. Revising one
+specimen's height in a series of a dozen long logger records reduces that one specimen.
+
+The results are those of :func:`kitchen.reduction.results.series_results` on the effective series,
+row for row. Like the rest of the core, this module draws nothing: it says which
+specimens changed (:meth:`Workspace.sync`) so that a panel redraws only their charts.
+The digests, and where each specimen's rows lie, are in :mod:`kitchen.workspace.digests`.
+"""
+
+from __future__ import annotations
+
+import time
+from pathlib import Path
+
+import pandas as pd
+
+from kitchen.io import TABLE_NAMES, RawTable, Series, build_series, read_tables, rebuild_series
+from kitchen.reduction import (
+    ConstantHeadAnalysis,
+    FallingHeadAnalysis,
+    FallingHeadRecord,
+    collection_table,
+    constant_head_analysis,
+)
+from kitchen.reduction import result_row as results_row
+from kitchen.revisions import (
+    EffectiveSeries,
+    HeldSeries,
+    Revision,
+    apply_revisions,
+    chosen_windows,
+    file_stamps,
+    log_sha256,
+    read_revisions,
+    read_window_choices,
+    revise,
+    revisions_path,
+    withdraw,
+)
+from kitchen.settings import Settings
+from kitchen.specimen import specimen_state
+
+from .digests import _digest, _groups, _spans, frame_digest
+
+__all__ = ["Workspace"]
+
+READING_TABLES = ("constant_head", "falling_head")
+
+
+class Workspace:
+    """A series open for work: effective data, and results cached per specimen.
+
+    Parameters
+    ----------
+    series_path : str or pathlib.Path
+        Series folder or ``.xlsx`` workbook; its revision log is applied
+        (:func:`kitchen.revisions.load_effective_series` gives the same data).
+    settings : Settings, optional
+        Reference temperature, viscosity, criteria and the rest
+        (:class:`kitchen.settings.Settings`).
+
+    Raises
+    ------
+    SeriesError
+        When the effective data do not load (every problem, by file, row and column).
+    RevisionError
+        When the log cannot be read or a revision no longer fits the raw data.
+
+    Notes
+    -----
+    The cache keeps, for each specimen and method, the last reduction and the digest of
+    its inputs; a falling-head record (the prepared readings) is kept apart from its
+    analysis, so that moving the reading window reuses the record, and a revised height or
+    diameter reuses the record's reading arrays
+    (:meth:`kitchen.reduction.falling_head_record.FallingHeadRecord.with_specimen`). The digest of each
+    specimen's readings is computed once, when its table is built.
+    """
+
+    def __init__(self, series_path: str | Path, settings: Settings | None = None):
+        self.path = Path(series_path)
+        self._settings = settings or Settings()
+        self._settings_digest = _digest(self._settings)
+        self._windows: dict[str, tuple[int, int] | None] = {}
+        self._rises: dict[str, float | None] = {}
+        self._written, self._input_files = read_tables(self.path)
+        self._stamps = file_stamps(self._input_files)
+        self._revisions: tuple[Revision, ...] = read_revisions(self.path)
+        self._log_sha256 = log_sha256(self.path)
+        self._tables = {name: self._effective_table(name) for name in self._written}
+        self._series = build_series(self._tables, self.path, self._input_files)
+        self._cache: dict[tuple[str, str], tuple[str, object]] = {}
+        self._result_rows: dict[tuple[str, str], tuple[object, pd.Series, dict]] = {}
+        self._records: dict[str, tuple[str, str, FallingHeadRecord]] = {}
+        self._rows: dict[str, dict] = {}
+        self._reading_digests: dict[str, dict[str, str]] = {}
+        self._index_readings(READING_TABLES)
+        self._index_specimens()
+        self._window_choices: tuple = ()
+        self._logged_windows: dict[str, tuple[int, int]] = {}
+        self._apply_choices(read_window_choices(self.path))
+        self.last_moved: tuple[str, ...] = ()
+        """The specimens moved by the last :meth:`revise` or :meth:`withdraw`."""
+        self.last_timings: dict[str, float] = {}
+        """Seconds the last :meth:`revise` or :meth:`withdraw` spent recording the row and
+        applying it."""
+
+    # --- the effective data ----------------------------------------------------------------
+    def _effective_table(self, name: str) -> RawTable:
+        """The table as written with the standing revisions that name it applied."""
+        own = [r for r in self._revisions if r.table == name]
+        if not own:
+            return self._written[name]  # never changed in place: revisions apply to copies
+        tables, _ = apply_revisions({name: self._written[name]}, own)
+        return tables[name]
+
+    def _index_readings(self, names) -> None:
+        """Each specimen's rows in the readings tables, and the digest of those rows."""
+        for name in names:
+            frame = getattr(self._series, name)
+            rows = _spans(frame) if name == "falling_head" else _groups(frame)
+            self._rows[name] = rows
+            self._reading_digests[name] = {
+                specimen: frame_digest(self._slice(name, specimen), skip=("specimen",))
+                for specimen in rows
+            }
+
+    def _index_specimens(self) -> None:
+        """Each specimen's row of the state table (as series_results takes them) and its
+        digest; the row of a specimen whose values did not change is kept as it was."""
+        self._state = state = specimen_state(self._series.specimens)
+        columns = state.columns
+        held_rows = getattr(self, "_state_rows", {})
+        held_digests = getattr(self, "_specimen_digests", {})
+        rows, digests = {}, {}
+        for values in state.to_numpy(dtype=object):
+            row = dict(zip(columns, values, strict=True))
+            specimen = row["specimen"]
+            digests[specimen] = digest = _digest(tuple(row.items()))
+            if held_digests.get(specimen) == digest:
+                rows[specimen] = held_rows[specimen]
+            else:
+                rows[specimen] = pd.Series(values, index=columns, name=specimen, dtype=object)
+        self._state_rows, self._specimen_digests = rows, digests
+
+    def _slice(self, table: str, specimen: str) -> pd.DataFrame:
+        frame = getattr(self._series, table)
+        rows = self._rows[table][specimen]
+        if isinstance(rows, tuple):
+            return frame.iloc[rows[0] : rows[1]]
+        return frame.iloc[rows]
+
+    @property
+    def series(self) -> Series:
+        """The validated effective series."""
+        return self._series
+
+    @property
+    def revisions(self) -> tuple[Revision, ...]:
+        """Every row of the revision log, as last read."""
+        return self._revisions
+
+    @property
+    def effective(self) -> EffectiveSeries:
+        """The effective series with the revisions applied and withdrawn, for provenance."""
+        withdrawn_ids = {r.withdraws for r in self._revisions if r.action == "withdraw"}
+        changes = [r for r in self._revisions if r.action == "revise"]
+        return EffectiveSeries(
+            series=self._series,
+            applied=tuple(r for r in changes if r.id not in withdrawn_ids),
+            withdrawn=tuple(r for r in changes if r.id in withdrawn_ids),
+            log_path=revisions_path(self.path),
+            log_sha256=self._log_sha256,
+            log_rows=len(self._revisions),
+        )
+
+    def specimen_ids(self) -> list[str]:
+        """The specimens, in the order of the specimens table."""
+        return list(self._state_rows)
+
+    def has_readings(self, specimen: str, table: str = "falling_head") -> bool:
+        """Whether a specimen has rows in a readings table."""
+        return specimen in self._rows.get(table, {})
+
+    def readings(self, specimen: str, table: str = "falling_head") -> pd.DataFrame:
+        """One specimen's rows of a readings table (``falling_head`` or ``constant_head``)."""
+        if table not in READING_TABLES:
+            raise ValueError(f"unknown readings table {table!r}; expected {READING_TABLES}")
+        if specimen not in self._rows[table]:
+            raise KeyError(f"specimen {specimen!r} has no {table} readings in {self.path.name}")
+        return self._slice(table, specimen)
+
+    def _key(self, specimen: str, table: str) -> str:
+        """The digest of everything one reduction of one specimen depends on."""
+        falling = table == "falling_head"
+        return _digest(
+            self._specimen_digests[specimen],
+            self._reading_digests[table][specimen],
+            self._settings_digest,
+            self._window_of(specimen) if falling else None,
+            self._rises.get(specimen) if falling else None,
+        )
+
+    def _inputs(self) -> dict[tuple[str, str], str]:
+        """The digest of every specimen's inputs to each of its reductions."""
+        return {
+            (specimen, table): self._key(specimen, table)
+            for table, digests in self._reading_digests.items()
+            for specimen in digests
+        }
+
+    # --- changes ---------------------------------------------------------------------------
+    def sync(self) -> tuple[str, ...]:
+        """Read the revision log again and apply what was added since.
+
+        A raw file rewritten since it was read (its size or modification time changed)
+        is read again, with every table.
+
+        Returns
+        -------
+        tuple of str
+            The specimens whose inputs changed, in the order of the specimens table:
+            their results and charts are the ones to refresh.
+
+        Raises
+        ------
+        SeriesError, RevisionError
+            As when the workspace is opened; the workspace is then left as it was.
+        """
+        revisions = read_revisions(self.path)
+        held = self._revisions
+        try:
+            rewritten = file_stamps(self._input_files) != self._stamps
+        except OSError:
+            rewritten = True
+        if rewritten:  # a raw file was edited behind the workspace: read every table again
+            return self._reread(revisions)
+        if revisions[: len(held)] == held:
+            changed = {r.table for r in revisions[len(held) :]}
+        else:  # rows were changed or removed (by hand): apply the whole log again
+            changed = {r.table for r in revisions} | {r.table for r in held}
+        choices = read_window_choices(self.path)
+        if not changed and choices == self._window_choices:
+            return ()
+        before = self._inputs()
+        if changed:
+            names = tuple(name for name in TABLE_NAMES if name in changed and name in self._written)
+            tables = dict(self._tables)
+            self._revisions, old = revisions, held
+            try:
+                tables.update({name: self._effective_table(name) for name in names})
+                series = rebuild_series(self._series, tables, names)
+            except Exception:
+                self._revisions = old
+                raise
+            self._tables, self._series = tables, series
+            self._log_sha256 = log_sha256(self.path)
+            if "specimens" in names:
+                self._index_specimens()
+            self._index_readings([name for name in names if name in READING_TABLES])
+        self._apply_choices(choices)
+        return self._moved(before)
+
+    def _apply_choices(self, choices) -> None:
+        """Take the windows of the window log; a window set since for a specimen the log
+        now names again gives way to the log."""
+        if choices == self._window_choices:
+            return
+        logged = chosen_windows(self._series, choices)
+        renamed = {c.specimen for c in choices[len(self._window_choices) :]}
+        if choices[: len(self._window_choices)] != self._window_choices:
+            renamed = {c.specimen for c in choices} | {c.specimen for c in self._window_choices}
+        for specimen in renamed:
+            self._windows.pop(specimen, None)
+        self._window_choices, self._logged_windows = choices, logged
+
+    def _window_of(self, specimen: str) -> tuple[int, int] | None:
+        """The window a specimen is reduced with: set here, else from the log, else None
+        (the tool proposes one)."""
+        if specimen in self._windows:
+            return self._windows[specimen]
+        return self._logged_windows.get(specimen)
+
+    def _reread(self, revisions) -> tuple[str, ...]:
+        """Read the raw files and the log again, as when the workspace was opened."""
+        held = (self._written, self._input_files, self._stamps, self._revisions)
+        before = self._inputs()
+        try:
+            self._written, self._input_files = read_tables(self.path)
+            self._stamps = file_stamps(self._input_files)
+            self._revisions = revisions
+            tables = {name: self._effective_table(name) for name in self._written}
+            series = build_series(tables, self.path, self._input_files)
+        except Exception:
+            self._written, self._input_files, self._stamps, self._revisions = held
+            raise
+        self._tables, self._series = tables, series
+        self._log_sha256 = log_sha256(self.path)
+        self._index_specimens()
+        self._index_readings(READING_TABLES)
+        self._window_choices = ()  # the rows are checked again against the readings read
+        self._apply_choices(read_window_choices(self.path))
+        return self._moved(before)
+
+    def _moved(self, before: dict) -> tuple[str, ...]:
+        after = self._inputs()
+        moved = {
+            key[0] for key in before.keys() | after.keys() if before.get(key) != after.get(key)
+        }
+        return tuple(specimen for specimen in self._state_rows if specimen in moved)
+
+    def revise(self, **revision) -> Revision:
+        """Record a revision (:func:`kitchen.revisions.revise`, same keywords) and apply it.
+
+        The specimens it moved are those :meth:`sync` returns; see :attr:`last_moved`.
+        """
+        return self._recorded(lambda: revise(self.path, **revision, held=self._held()))
+
+    def withdraw(self, revision_id: str, **details) -> Revision:
+        """Withdraw a revision (:func:`kitchen.revisions.withdraw`) and apply the log again."""
+        return self._recorded(
+            lambda: withdraw(self.path, revision_id, **details, held=self._held())
+        )
+
+    def _recorded(self, record) -> Revision:
+        started = time.perf_counter()
+        row = record()
+        recorded = time.perf_counter()
+        self.last_moved = self.sync()
+        self.last_timings = {
+            "recording the revision": recorded - started,
+            "effective data": time.perf_counter() - recorded,
+        }
+        return row
+
+    def _held(self) -> HeldSeries:
+        """The raw tables held, so that recording a revision need not read them again."""
+        return HeldSeries(
+            self._written, tuple(self._input_files), self._stamps, self._revisions, self._series
+        )
+
+    @property
+    def settings(self) -> Settings:
+        """The settings every result is computed with."""
+        return self._settings
+
+    def set_settings(self, settings: Settings) -> tuple[str, ...]:
+        """Use other settings; returns the specimens whose results are now out of date."""
+        before, self._settings = self._inputs(), settings
+        self._settings_digest = _digest(settings)
+        return self._moved(before)
+
+    def set_window(self, specimen: str, window: tuple[int, int] | None) -> tuple[str, ...]:
+        """Try a falling-head reading window for a specimen (None: the tool proposes one).
+
+        The window holds in this workspace only; one recorded in the window log
+        (:func:`kitchen.revisions.choose_window`) holds wherever the series is opened."""
+        self.readings(specimen)
+        before = self._inputs()
+        self._windows[specimen] = None if window is None else tuple(int(v) for v in window)
+        return self._moved(before)
+
+    def set_capillary_rise(self, specimen: str, rise: float | None) -> tuple[str, ...]:
+        """A measured capillary rise for a specimen's standpipe, or None for the setting. [m]"""
+        self.readings(specimen)
+        before = self._inputs()
+        self._rises[specimen] = None if rise is None else float(rise)
+        return self._moved(before)
+
+    # --- reductions ------------------------------------------------------------------------
+    def _cached(self, specimen: str, table: str, key: str, reduce):
+        held = self._cache.get((specimen, table))
+        if held is not None and held[0] == key:
+            return held[1]
+        result = reduce()
+        self._cache[specimen, table] = (key, result)
+        return result
+
+    def falling_head(self, specimen: str) -> FallingHeadAnalysis:
+        """One specimen's falling-head analysis; from the cache while its inputs are unchanged."""
+        if not self.has_readings(specimen):
+            self.readings(specimen)  # raises, naming the specimen and the file
+        key = self._key(specimen, "falling_head")
+        return self._cached(
+            specimen,
+            "falling_head",
+            key,
+            lambda: self._analyse(specimen, self.readings(specimen, "falling_head")),
+        )
+
+    def _analyse(self, specimen: str, readings: pd.DataFrame) -> FallingHeadAnalysis:
+        readings_key = _digest(
+            self._reading_digests["falling_head"][specimen],
+            self._settings_digest,
+            self._rises.get(specimen),
+        )
+        row_key = self._specimen_digests[specimen]
+        try:
+            held = self._records.get(specimen)
+            if held is None or held[0] != readings_key:
+                record = FallingHeadRecord(
+                    readings, self._state_rows[specimen], self._settings, self._rises.get(specimen)
+                )
+            elif held[1] != row_key:  # a revised height, diameter, ...: the readings stand
+                record = held[2].with_specimen(self._state_rows[specimen])
+            else:
+                record = held[2]
+            self._records[specimen] = (readings_key, row_key, record)
+            return record.analyse(self._window_of(specimen))
+        except ValueError as error:  # as kitchen.reduction.results.series_results words it
+            raise ValueError(f"{self._series.name}, falling-head readings: {error}") from error
+
+    def constant_head(self, specimen: str) -> ConstantHeadAnalysis:
+        """One specimen's constant-head analysis; from the cache while its inputs are unchanged."""
+        collections = self.readings(specimen, "constant_head")
+        key = self._key(specimen, "constant_head")
+        settings = self._settings
+
+        def reduce():
+            table = collection_table(
+                collections, self._state, settings.reference_temperature, settings.viscosity
+            )
+            return constant_head_analysis(table, self._state_rows[specimen], settings)
+
+        return self._cached(specimen, "constant_head", key, reduce)
+
+    def results(self) -> pd.DataFrame:
+        """The results table of the effective series, as :func:`kitchen.reduction.results.series_results`.
+
+        Returns
+        -------
+        pandas.DataFrame
+            One row per specimen and method, in the order of the specimens table; only the
+            reductions whose inputs changed since they were last computed are computed.
+        """
+        rows = []
+        for specimen, state_row in self._state_rows.items():
+            for table in READING_TABLES:
+                if specimen in self._rows[table]:
+                    rows.append(self._result_row(specimen, state_row, table))
+        return pd.DataFrame(rows)
+
+    def _result_row(self, specimen: str, state_row: pd.Series, table: str) -> dict:
+        """One row of the results table; kept while the analysis and the row stand."""
+        if table == "falling_head":
+            analysis = self.falling_head(specimen)
+            gradient = analysis.gradient_start
+        else:
+            analysis = self.constant_head(specimen)
+            gradient = analysis.gradient_max
+        held = self._result_rows.get((specimen, table))
+        if held is None or held[0] is not analysis or held[1] is not state_row:
+            held = (analysis, state_row, results_row(state_row, table, analysis, gradient))
+            self._result_rows[specimen, table] = held
+        # lists copied: a caller may change its table without changing the one kept here
+        return {k: list(v) if isinstance(v, list) else v for k, v in held[2].items()}

@@ -1,0 +1,78 @@
+"""The compaction–conductivity chart: its data and labels (not pixels), and its units."""
+
+import numpy as np
+import pytest
+from chart_series import KN_PER_MG, sample_series, specimen_traces
+
+from kitchen.analysis import zero_air_voids_dry_density
+from kitchen.charts import compaction as compaction_chart
+
+
+@pytest.fixture(scope="module")
+def clay():
+    return sample_series("clay_liner")
+
+
+@pytest.fixture(scope="module")
+def sand():
+    return sample_series("drainage_sand")
+
+
+# --- the compaction–conductivity chart ------------------------------------------------------
+
+
+def test_compaction_chart_axes_share_water_content(clay):
+    figure = compaction_chart.compaction_conductivity_figure(clay[1])
+    layout = figure.layout
+    assert layout.xaxis.matches == "x2"  # the two panels share the w axis
+    assert layout.xaxis2.title.text == "molding water content w [%]"
+    assert layout.yaxis.title.text == "dry density ρd [Mg/m³]"
+    assert layout.yaxis2.title.text == "hydraulic conductivity k20 [m/s]"
+    assert layout.yaxis2.type == "log"
+
+
+def test_compaction_chart_points_and_lines(clay):
+    series, analysis = clay
+    figure = compaction_chart.compaction_conductivity_figure(analysis)
+    rows = analysis.specimens.set_index("specimen")
+    top, bottom = specimen_traces(figure, "y"), specimen_traces(figure, "y2")
+    for panel, column, scale in ((top, "dry_density", 1e-3), (bottom, "k", 1.0)):
+        shown = {name: (x, y) for t in panel for name, x, y in zip(t.text, t.x, t.y, strict=True)}
+        assert sorted(shown) == sorted(rows.index)
+        for name, (x, y) in shown.items():
+            assert x == pytest.approx(100 * rows.at[name, "water_content"])
+            assert y == pytest.approx(rows.at[name, column] * scale)
+    zav = next(t for t in figure.data if t.name.startswith("zero-air-voids"))
+    expected = zero_air_voids_dry_density(np.asarray(zav.x) / 100, 2.71) / 1000
+    np.testing.assert_allclose(zav.y, expected, rtol=1e-12)
+    for effort, curve in analysis.compaction_curves.items():
+        line = next(
+            t
+            for t in figure.data
+            if t.legendgroup == f"effort {effort}" and t.name.startswith("compaction")
+        )
+        np.testing.assert_allclose(line.y, curve.dry_density(np.asarray(line.x) / 100) / 1000)
+    zone = next(t for t in figure.data if t.legendgroup == "zone")
+    np.testing.assert_allclose(
+        np.asarray(zone.x)[:-1] / 100, analysis.acceptable_zone.vertices[:, 0]
+    )
+    criterion = next(t for t in figure.data if t.legendgroup == "criterion")
+    assert list(criterion.y) == [1e-9, 1e-9]
+
+
+def test_compaction_chart_unit_switch(clay):
+    analysis = clay[1]
+    base = compaction_chart.compaction_conductivity_figure(analysis)
+    switched = compaction_chart.compaction_conductivity_figure(analysis, "cm/s", "kN/m3")
+    assert switched.layout.yaxis.title.text == "dry unit weight γd [kN/m³]"
+    assert switched.layout.yaxis2.title.text == "hydraulic conductivity k20 [cm/s]"
+    assert len(base.data) == len(switched.data)
+    for before, after in zip(base.data, switched.data, strict=True):
+        scale = KN_PER_MG if before.yaxis == "y" else 100.0  # 1 m/s = 100 cm/s
+        np.testing.assert_allclose(after.y, np.asarray(before.y) * scale, rtol=1e-12)
+        np.testing.assert_allclose(after.x, before.x)
+
+
+def test_compaction_chart_needs_water_contents(sand):
+    with pytest.raises(ValueError, match="no specimen has a molding water content"):
+        compaction_chart.compaction_conductivity_figure(sand[1])

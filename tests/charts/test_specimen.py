@@ -1,0 +1,106 @@
+"""The specimen charts: falling head on a log head axis, constant head through the origin."""
+
+from types import SimpleNamespace
+
+import numpy as np
+import pandas as pd
+import pytest
+from chart_series import sample_series
+
+from kitchen.charts import specimen as specimen_charts
+from kitchen.charts import style as chart_style
+from kitchen.reduction import (
+    collection_table,
+    constant_head_analysis,
+    falling_head_analysis,
+    reduce_falling_head,
+)
+from kitchen.specimen import specimen_state
+
+
+@pytest.fixture(scope="module")
+def clay():
+    return sample_series("clay_liner")
+
+
+@pytest.fixture(scope="module")
+def sand():
+    return sample_series("drainage_sand")
+
+
+# --- per specimen ----------------------------------------------------------------------------
+
+
+def test_falling_head_chart(clay):
+    series, _ = clay
+    state = specimen_state(series.specimens).set_index("specimen", drop=False)
+    readings = series.falling_head[series.falling_head["specimen"] == "QF-01"]
+    record = falling_head_analysis(readings, state.loc["QF-01"], None, (10, 50))
+    figure = specimen_charts.falling_head_figure(readings, record, "cm/s")
+    assert figure.layout.yaxis.type == "log"
+    assert figure.layout.yaxis.title.text == "head difference h [m]"
+    assert figure.layout.xaxis.title.text == "elapsed time t [h]"  # the record spans hours
+    outside = next(t for t in figure.data if t.name == "readings outside the window")
+    inside = next(t for t in figure.data if t.name == "readings in the window")
+    assert len(outside.x) == len(readings) - 40 and len(inside.x) == 40
+    np.testing.assert_allclose(inside.y, readings["head"].to_numpy()[10:50])
+    line = next(t for t in figure.data if t.mode == "lines")
+    np.testing.assert_allclose(line.y, record.fitted_head)
+    window = figure.layout.shapes[0]
+    time = readings["time"].to_numpy()
+    assert (window.x0, window.x1) == pytest.approx((time[10] / 3600, time[49] / 3600))
+    assert "cm/s" in figure.layout.title.text
+
+
+def test_falling_head_chart_takes_the_plain_reduction_too(clay):
+    series, _ = clay
+    state = specimen_state(series.specimens).set_index("specimen", drop=False)
+    readings = series.falling_head[series.falling_head["specimen"] == "QF-03"]
+    result = reduce_falling_head(readings, state.loc["QF-03"])
+    figure = specimen_charts.falling_head_figure(readings, result)
+    line = next(t for t in figure.data if t.mode == "lines")
+    np.testing.assert_allclose(line.y, np.exp(result.fit.predict(result.reference_time)))
+
+
+def test_long_records_are_decimated():
+    n = 200_000
+    time = np.linspace(0.0, 4e5, n)
+    rng = np.random.default_rng(3)
+    head = 1.5 * np.exp(-time / 2e5) + rng.normal(0, 1e-3, n)
+    head[123_457] = 2.0  # a spike that must survive
+    readings = pd.DataFrame({"time": time, "head": head})
+    result = SimpleNamespace(
+        specimen="long",
+        start=1000,
+        stop=n,
+        fitted_head=1.5 * np.exp(-time[1000:] / 2e5),
+        k_reference=1e-9,
+        k_reference_low=0.9e-9,
+        k_reference_high=1.1e-9,
+    )
+    figure = specimen_charts.falling_head_figure(readings, result)
+    assert all(len(t.x) <= chart_style.MAX_TRACE_POINTS for t in figure.data)
+    inside = next(t for t in figure.data if t.name == "readings in the window")
+    assert max(inside.y) == 2.0 and min(inside.y) == head[1000:].min()
+
+
+def test_constant_head_chart(sand):
+    series, _ = sand
+    state = specimen_state(series.specimens)
+    collections = collection_table(series.constant_head, state)
+    record = constant_head_analysis(
+        collections, state.set_index("specimen", drop=False).loc["DL-A"]
+    )
+    for unit, scale in (("m/s", 1.0), ("cm/s", 100.0)):
+        figure = specimen_charts.constant_head_figure(record, unit)
+        assert figure.layout.xaxis.title.text == "hydraulic gradient i [–]"
+        assert (
+            figure.layout.yaxis.title.text == f"Darcy velocity at 20 °C, v·R<sub>T</sub> [{unit}]"
+        )
+        points = next(t for t in figure.data if t.name == "timed collections")
+        rows = record.result.collections
+        np.testing.assert_allclose(points.x, rows["gradient"])
+        expected = rows["darcy_velocity"] * rows["viscosity_ratio"] * scale
+        np.testing.assert_allclose(points.y, expected)
+        line = next(t for t in figure.data if t.name == "v = k·i through the origin")
+        np.testing.assert_allclose(line.y, record.k_reference * np.asarray(line.x) * scale)

@@ -1,0 +1,78 @@
+"""The memo style: min/max decimation of long records, the template, captions in the margin."""
+
+import numpy as np
+import plotly.graph_objects as go
+import pytest
+from chart_series import sample_series
+
+from kitchen.cautions import CAUTIONS
+from kitchen.charts import compaction as compaction_chart
+from kitchen.charts import conductivity_trend as conductivity_trend_chart
+from kitchen.charts import style as chart_style
+
+
+@pytest.fixture(scope="module")
+def clay():
+    return sample_series("clay_liner")
+
+
+# --- decimation ------------------------------------------------------------------------------
+
+
+def test_decimation_keeps_short_records_whole():
+    np.testing.assert_array_equal(
+        chart_style.decimation_indices(np.arange(10.0), 10), np.arange(10)
+    )
+
+
+def test_decimation_caps_points_and_keeps_every_bucket_extreme():
+    rng = np.random.default_rng(7)
+    y = np.cumsum(rng.normal(size=50_003))
+    cap = 1000
+    kept = chart_style.decimation_indices(y, cap)
+    assert kept.size <= cap and np.all(np.diff(kept) > 0)
+    assert {0, y.size - 1, int(np.argmin(y)), int(np.argmax(y))} <= set(kept.tolist())
+    # The same buckets computed one by one: each one's minimum and maximum are kept.
+    buckets = (cap - 2) // 2
+    size = -(-y.size // buckets)
+    for start in range(0, y.size, size):
+        part = y[start : start + size]
+        assert start + int(np.argmin(part)) in kept and start + int(np.argmax(part)) in kept
+
+
+def test_decimation_ignores_nan_and_refuses_a_tiny_cap():
+    y = np.sin(np.linspace(0, 20, 100_000))
+    y[::7] = np.nan
+    kept = chart_style.decimation_indices(y, 500)
+    assert kept.size <= 500 and not np.isnan(y[kept[1:-1]]).any()
+    with pytest.raises(ValueError, match="max_points: expected an integer of at least 4"):
+        chart_style.decimation_indices(y, 3)
+
+
+# --- style and captions ----------------------------------------------------------------------
+
+
+def test_caption_carries_the_cautions_on_a_copy(clay):
+    figure = conductivity_trend_chart.conductivity_trend_figure(clay[1], "void_ratio")
+    captioned = chart_style.add_caption(figure, CAUTIONS)
+    assert len(figure.layout.annotations) == 0 and len(captioned.layout.annotations) == 1
+    text = captioned.layout.annotations[0].text.replace("<br>", " ")
+    for caution in CAUTIONS:
+        assert caution in text
+    assert captioned.layout.height > (figure.layout.height or chart_style.HEIGHT)
+
+
+def test_memo_style_is_applied(clay):
+    figure = conductivity_trend_chart.conductivity_trend_figure(clay[1], "dry_density")
+    assert isinstance(figure, go.Figure)
+    assert "DejaVu Serif" in figure.layout.template.layout.font.family
+    assert figure.layout.template.layout.legend.traceorder == "grouped"
+
+
+def test_caption_goes_above_the_plot_when_the_legend_is_below(clay):
+    figure = compaction_chart.compaction_conductivity_figure(clay[1])
+    captioned = chart_style.add_caption(figure, CAUTIONS)
+    note = captioned.layout.annotations[-1]
+    assert (note.y, note.yanchor) == (1.0, "bottom")  # between the title and the plot
+    assert captioned.layout.margin.t > figure.layout.margin.t
+    assert captioned.layout.margin.b == figure.layout.margin.b

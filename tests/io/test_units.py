@@ -1,0 +1,64 @@
+"""Bracketed units in headers, parsed with pint."""
+
+import pytest
+
+from kitchen.io import UnitError, parse_value, split_header, to_si
+
+
+@pytest.mark.parametrize(
+    ("header", "expected"),
+    [
+        ("height [mm]", ("height", "mm")),
+        ("  Height  [ in ] ", ("height", "in")),
+        ("specimen", ("specimen", None)),
+        ("water_content [%]", ("water_content", "%")),
+        ("standpipe_area [mm^2]", ("standpipe_area", "mm^2")),
+    ],
+)
+def test_split_header(header, expected):
+    assert split_header(header) == expected
+
+
+@pytest.mark.parametrize(
+    ("value", "unit", "kind", "si"),
+    # Exact definitions: 1 in = 25.4 mm (international inch), 1 lb = 0.45359237 kg,
+    # 1 mL = 1 cm^3, degF = 9/5 degC + 32.
+    [
+        (1.0, "in", "length", 0.0254),
+        (116.4, "mm", "length", 0.1164),
+        (1.0, "lb", "mass", 0.45359237),
+        (350.0, "mL", "volume", 350e-6),
+        (350.0, "cm^3", "volume", 350e-6),
+        (5.0, "min", "time", 300.0),
+        (2.0, "h", "time", 7200.0),
+        (40.0, "mm^2", "area", 40e-6),
+        (68.0, "degF", "temperature", 20.0),
+        (293.15, "K", "temperature", 20.0),
+        (18.5, "%", "ratio", 0.185),
+        (0.185, "-", "ratio", 0.185),
+    ],
+)
+def test_to_si(value, unit, kind, si):
+    assert to_si(value, unit, kind) == pytest.approx(si, rel=1e-12, abs=1e-12)
+
+
+def test_wrong_dimension_is_named():
+    with pytest.raises(UnitError, match="'g' is not a length"):
+        to_si(4.95, "g", "length")
+
+
+def test_unknown_unit_is_named():
+    with pytest.raises(UnitError, match="unknown unit 'furlongz'"):
+        to_si(1.0, "furlongz", "length")
+
+
+def test_parse_value():
+    parsed = parse_value("4.95 in", "length")
+    assert (parsed.magnitude, parsed.unit) == (4.95, "in")
+    assert parsed.si == pytest.approx(0.12573)
+
+
+@pytest.mark.parametrize("text", ["4.95", "tall", ""])
+def test_parse_value_needs_number_and_unit(text):
+    with pytest.raises(UnitError):
+        parse_value(text, "length")

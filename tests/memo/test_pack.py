@@ -1,0 +1,397 @@
+"""The memo pack: the files exist and parse, carry the cautions, and name their inputs.
+
+Tests that make PNG and SVG, or open the pack in a browser, need Debian's chromium (and
+the browser test the playwright package). Where it is missing they are skipped, saying
+so, except in continuous integration (CI=true), where they run and fail: the CI script
+installs chromium.
+
+plotly.js is checked against plotly's own bundled copy, ``plotly.offline.get_plotlyjs()``.
+"""
+
+import hashlib
+import html
+import os
+import re
+import shutil
+import subprocess
+import sys
+import xml.etree.ElementTree as ElementTree
+import zipfile
+from pathlib import Path
+from urllib.parse import urlsplit
+
+import pandas as pd
+import pytest
+from openpyxl import load_workbook
+from plotly.offline import get_plotlyjs, get_plotlyjs_version
+
+from kitchen import __version__
+from kitchen.cautions import CAUTIONS
+from kitchen.io import load_series
+from kitchen.memo import CHART_SCRIPT, MEMO_CAUTIONS, export_memo_pack
+from kitchen.reduction import results_table, series_results
+from kitchen.revisions import load_effective_series, revise
+from kitchen.settings import Settings
+
+SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
+CHROMIUM = Path("/usr/bin/chromium").exists() or shutil.which("chromium") is not None
+needs_chromium = pytest.mark.skipif(
+    not CHROMIUM and os.environ.get("CI") != "true",
+    reason="PNG and SVG export needs Debian's chromium (/usr/bin/chromium): apt-get install "
+    "chromium; CI installs it and runs these tests",
+)
+PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"  # PNG specification (ISO/IEC 15948), section 5.2
+SHEETS = ["specimens", "tests", "fits", "checks", "cautions"]
+PLOTLY_JS = get_plotlyjs().encode("utf-8")  # plotly's own bundled plotly.min.js
+SCRIPT_SOURCE = re.compile(r"<script\b[^>]*\bsrc=\"([^\"]*)\"")
+
+
+def sha256(path: Path) -> str:
+    return hashlib.sha256(path.read_bytes()).hexdigest()
+
+
+def html_pages(folder: Path) -> list[Path]:
+    return sorted(folder.rglob("*.html"))
+
+
+def run(*arguments, env=None):
+    return subprocess.run(
+        [sys.executable, "-m", "kitchen", *map(str, arguments)],
+        capture_output=True,
+        text=True,
+        env={**os.environ, **(env or {})},
+    )
+
+
+@pytest.fixture(scope="module")
+def clay_pack(tmp_path_factory):
+    out = tmp_path_factory.mktemp("clay_pack")
+    calls = []
+    series = load_series(SAMPLES / "clay_liner")
+    pack = export_memo_pack(
+        series, out, images=False, progress=lambda *call: calls.append(call), k_unit="cm/s"
+    )
+    return series, pack, calls
+
+
+def test_pack_files_and_progress(clay_pack):
+    series, pack, calls = clay_pack
+    names = sorted(str(p.relative_to(pack.folder)) for p in pack)
+    charts = [
+        "compaction_conductivity",
+        "conductivity_void_ratio",
+        "conductivity_dry_density",
+        "conductivity_water_content",
+    ] + [f"specimen_{s}_falling_head" for s in series.specimen_ids()]
+    assert names == sorted(
+        ["results.csv", "results.xlsx", "report.html", CHART_SCRIPT]
+        + [f"charts/{c}.html" for c in charts]
+    )
+    assert all(p.is_file() and p.stat().st_size > 0 for p in pack)
+    assert [c[0] for c in calls] == list(range(1, len(pack) + 1))
+    assert {c[1] for c in calls} == {len(pack)}
+    assert calls[0][2] == "table results.csv" and calls[-1][2] == "report report.html"
+    assert "chart charts/compaction_conductivity.html" in [c[2] for c in calls]
+    steps = [c[2] for c in calls]
+    first_page = min(i for i, step in enumerate(steps) if step.endswith(".html"))
+    assert steps.index(f"script {CHART_SCRIPT}") < first_page  # written before any page
+
+
+def test_plotly_js_is_written_once_for_the_whole_pack(clay_pack):
+    _, pack, _ = clay_pack
+    everything = [p for p in pack.folder.rglob("*") if p.is_file()]
+    copies = {
+        p.relative_to(pack.folder).as_posix(): p.read_bytes().count(PLOTLY_JS) for p in everything
+    }
+    assert sum(copies.values()) == 1 and copies[CHART_SCRIPT] == 1
+    assert (pack.folder / CHART_SCRIPT).read_bytes() == PLOTLY_JS  # the file, byte for byte
+    total = sum(p.stat().st_size for p in everything)
+    assert len(html_pages(pack.folder)) > 2  # inlined in each page, as many copies as pages
+    assert total < 2 * len(PLOTLY_JS)  # one copy and the rest, not one copy a page
+
+
+def test_every_page_loads_plotly_js_by_a_relative_path_inside_the_pack(clay_pack):
+    _, pack, _ = clay_pack
+    root = pack.folder.resolve()
+    for page in html_pages(pack.folder):
+        sources = SCRIPT_SOURCE.findall(page.read_text())
+        assert len(sources) == 1, page
+        parts = urlsplit(sources[0])
+        assert not parts.scheme and not parts.netloc and not sources[0].startswith("/"), page
+        target = (page.parent / sources[0]).resolve()
+        assert target.is_relative_to(root) and target == (root / CHART_SCRIPT), page
+        assert target in {p.resolve() for p in pack}
+    chart = (pack.folder / "charts" / "compaction_conductivity.html").read_text()
+    report = (pack.folder / "report.html").read_text()
+    assert 'src="plotly.min.js"' in chart and 'src="charts/plotly.min.js"' in report
+
+
+def test_chart_pages_hold_their_data(clay_pack):
+    series, pack, _ = clay_pack
+    page = (pack.folder / "charts" / "compaction_conductivity.html").read_text()
+    assert get_plotlyjs()[:300] not in page  # loaded from the pack, not inlined
+    assert 'id="chart-compaction_conductivity"' in page and page.count("Plotly.newPlot") == 1
+    assert 'id="chart-script-missing" hidden' in page  # shown only when plotly.js is missing
+    for specimen in series.specimen_ids():
+        assert specimen in page
+    for caution in MEMO_CAUTIONS:
+        assert html.escape(caution) in page
+    single = (pack.folder / "charts" / "specimen_QF-01_falling_head.html").read_text()
+    assert "readings in the window" in single and html.escape(CAUTIONS[0]) in single
+
+
+def test_report_is_traceable(clay_pack):
+    series, pack, _ = clay_pack
+    page = (pack.folder / "report.html").read_text()
+    assert get_plotlyjs()[:300] not in page
+    assert page.count("Plotly.newPlot") == len(html_pages(pack.folder / "charts"))
+    for caution in MEMO_CAUTIONS:
+        assert html.escape(caution) in page
+    for path in series.input_files:
+        assert sha256(path) in page  # provenance hashes are those of the inputs
+    assert [f.sha256 for f in pack.provenance.input_files] == [
+        sha256(p) for p in series.input_files
+    ]
+    assert f"kitchen {__version__}" in page and "revisions applied" in page
+    assert "k20 [cm/s]" in page and "Methods and their sources" in page
+    script = pack.folder / CHART_SCRIPT  # the script the pages run, as written
+    assert (
+        f"plotly.js {get_plotlyjs_version()}, <code>{CHART_SCRIPT}</code>, "
+        f"{script.stat().st_size} bytes, SHA-256 "
+        f'<span class="hash">{sha256(script)}</span>'
+    ) in page
+
+
+def test_workbook_sheets(clay_pack):
+    series, pack, _ = clay_pack
+    book = load_workbook(pack.folder / "results.xlsx")
+    assert book.sheetnames == SHEETS
+    expected = results_table(series_results(series), Settings())
+    header = [cell.value for cell in book["tests"][1]]
+    assert header == list(expected.columns)
+    assert book["tests"].max_row == len(expected) + 1
+    k_column = header.index("k20 [m/s]")
+    values = [row[k_column] for row in book["tests"].iter_rows(min_row=2, values_only=True)]
+    assert values == pytest.approx(list(expected["k20 [m/s]"]))
+    notes = [row[1] for row in book["cautions"].iter_rows(min_row=2, values_only=True)]
+    for caution in MEMO_CAUTIONS:
+        assert caution in notes
+    assert any(sha256(series.input_files[0]) in str(n) for n in notes)
+    assert book.properties.description.startswith(CAUTIONS[0][:40])
+    specimens = pd.read_excel(pack.folder / "results.xlsx", sheet_name="specimens")
+    assert list(specimens["specimen"]) == series.specimen_ids()
+
+
+def test_results_csv_matches_the_tests_sheet(clay_pack):
+    series, pack, _ = clay_pack
+    table = pd.read_csv(pack.folder / "results.csv")
+    assert len(table) == 14 and "k20 [m/s]" in table
+
+
+def test_revisions_are_counted_and_their_log_hashed(tmp_path):
+    folder = tmp_path / "clay"
+    shutil.copytree(SAMPLES / "clay_liner", folder)
+    revise(folder, specimen="QF-02", field="height", value="116.38 mm", reason="re-measured")
+    effective = load_effective_series(folder)
+    pack = export_memo_pack(
+        effective.series,
+        tmp_path / "out",
+        images=False,
+        revision_count=effective.revision_count,
+        revision_log=effective.log_path,
+        revision_log_sha256=effective.log_sha256,
+    )
+    page = (tmp_path / "out" / "report.html").read_text()
+    log_hash = sha256(folder / "revisions.csv")
+    assert pack.provenance.revision_count == 1 and pack.provenance.revision_log_sha256 == log_hash
+    assert log_hash in page and "1 revision(s) applied" in page
+    for path in effective.series.input_files:  # the raw files, untouched by the revision
+        assert sha256(path) == sha256(SAMPLES / "clay_liner" / path.name)
+        assert sha256(path) in page
+
+
+# --- with chromium: the command line writes PNG and SVG ------------------------------------
+
+
+@pytest.fixture(scope="module")
+def cli_pack(tmp_path_factory):
+    out = tmp_path_factory.mktemp("cli_pack")
+    done = run(
+        "report",
+        SAMPLES / "drainage_sand",
+        "--out",
+        out,
+        "--criterion",
+        "1e-4",
+        "--k-unit",
+        "cm/s",
+        "--density-unit",
+        "lb/ft3",
+    )
+    return out, done
+
+
+@needs_chromium
+def test_command_line_writes_the_pack_with_images(cli_pack):
+    out, done = cli_pack
+    assert done.returncode == 0, done.stderr
+    progress = [line for line in done.stderr.splitlines() if line.startswith("[")]
+    total = int(re.match(r"\[1/(\d+)\] table results.csv$", progress[0]).group(1))
+    assert len(progress) == total and progress[-1] == f"[{total}/{total}] report report.html"
+    assert progress[2] == f"[3/{total}] script {CHART_SCRIPT}"
+    assert f"[6/{total}] chart charts/conductivity_void_ratio.svg" in progress
+    pngs, svgs = sorted(out.glob("charts/*.png")), sorted(out.glob("charts/*.svg"))
+    assert len(pngs) == len(svgs) == 6  # two series charts, four specimens
+    for png in pngs:
+        data = png.read_bytes()
+        assert data[:8] == PNG_SIGNATURE
+        assert int.from_bytes(data[16:20], "big") == 980 * 2  # IHDR width: 2 px a layout px
+    for svg in svgs:
+        root = ElementTree.fromstring(svg.read_bytes())
+        assert root.tag.endswith("svg")
+        text = " ".join(root.itertext())
+        assert "licensed engineer" in text and "cm/s" in text
+    report = (out / "report.html").read_text()
+    assert "criterion k20 ≤ 0.01 cm/s" in report and "ρd [lb/ft³]" in report
+
+
+@needs_chromium
+def test_static_images_carry_the_cautions(cli_pack):
+    out, _ = cli_pack
+    text = " ".join(
+        ElementTree.fromstring(
+            (out / "charts" / "conductivity_void_ratio.svg").read_bytes()
+        ).itertext()
+    )
+    for caution in MEMO_CAUTIONS:
+        first_words = " ".join(caution.split()[:6])
+        assert first_words in text
+
+
+def test_command_line_without_images(tmp_path):
+    done = run(
+        "report",
+        SAMPLES / "drainage_sand",
+        "--out",
+        tmp_path,
+        "--no-images",
+        env={"BROWSER_PATH": str(tmp_path / "no-such-chromium")},
+    )
+    assert done.returncode == 0, done.stderr
+    assert (tmp_path / "report.html").exists() and (tmp_path / "results.xlsx").exists()
+    assert not list(tmp_path.glob("charts/*.png")) and list(tmp_path.glob("charts/*.html"))
+
+
+def test_command_line_drainage_criterion_is_a_smallest_k(tmp_path):
+    # the invented drainage sand meets a smallest k of 1e-4 m/s (truth.json: k20 of 1.5e-4
+    # to 3.5e-3 m/s); the report, the workbook and every chart say which way the limit goes
+    done = run("report", SAMPLES / "drainage_sand", "--out", tmp_path, "--no-images",
+               "--criterion", "1e-4", "--criterion-kind", "minimum")  # fmt: skip
+    assert done.returncode == 0, done.stderr
+    report = (tmp_path / "report.html").read_text()
+    assert "k20 ≥ 1×10⁻⁴ m/s (smallest k required)" in report
+    assert "meets: 4" in report and "lower end of the 95 % interval" in report
+    notes = pd.read_excel(tmp_path / "results.xlsx", sheet_name="cautions")
+    assert "minimum" in notes.to_string()
+    for chart in tmp_path.glob("charts/*.html"):
+        text = chart.read_text()
+        if "criterion k" in text:
+            assert "criterion k \\u2265" in text and "\\u2264" not in text, chart.name
+    bad = run("report", SAMPLES / "drainage_sand", "--out", tmp_path / "x", "--no-images",
+              "--criterion-kind", "least")  # fmt: skip
+    assert bad.returncode == 2 and "invalid choice: 'least'" in bad.stderr
+
+
+def test_command_line_self_contained_pages_stand_alone(tmp_path):
+    done = run("report", SAMPLES / "drainage_sand", "--out", tmp_path, "--no-images",
+               "--self-contained")  # fmt: skip
+    assert done.returncode == 0, done.stderr
+    assert not (tmp_path / CHART_SCRIPT).exists() and "script" not in done.stderr
+    pages = html_pages(tmp_path)
+    assert len(pages) == 7  # report and six charts: two series charts, four specimens
+    for page in pages:
+        data = page.read_bytes()
+        assert data.count(PLOTLY_JS) == 1, page  # plotly's own file, inlined whole, once
+        assert not SCRIPT_SOURCE.search(data.decode()), page  # nothing to load
+        assert b"chart-script-missing" not in data
+    report = (tmp_path / "report.html").read_text()
+    digest = hashlib.sha256(PLOTLY_JS).hexdigest()
+    assert f"plotly.js {get_plotlyjs_version()}, inlined in every page" in report
+    assert digest in report
+
+
+# --- in a browser: the pack, zipped and unzipped elsewhere, draws its charts offline -------
+
+
+def _require_playwright():
+    problems = [] if CHROMIUM else ["Debian's chromium (apt-get install chromium)"]
+    try:
+        import playwright.sync_api  # noqa: F401
+    except ImportError:
+        problems.append("the playwright package (pip install '.[test]')")
+    if problems:
+        reason = "opening the pack in a browser needs " + " and ".join(problems)
+        if os.environ.get("CI") == "true":
+            pytest.fail(reason + " — CI=true, so this is a failure, not a skip")
+        pytest.skip(reason)
+
+
+def _open_pages(paths):
+    """Each page from file://, in headless Chromium: requests, charts drawn, notice shown."""
+    from playwright.sync_api import sync_playwright
+
+    seen = []
+    with sync_playwright() as playwright:
+        browser = playwright.chromium.launch(
+            executable_path=shutil.which("chromium") or "/usr/bin/chromium",
+            headless=True,
+            args=["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
+                  "--disable-background-networking", "--disable-component-update",
+                  "--disable-sync"],
+        )  # fmt: skip
+        try:
+            page = browser.new_page()
+            requests = []
+            page.on("request", lambda request: requests.append(request.url))
+            for path in paths:
+                requests.clear()
+                page.goto(path.resolve().as_uri(), wait_until="load")
+                seen.append(
+                    dict(
+                        requests=list(requests),
+                        plotly=page.evaluate("typeof Plotly !== 'undefined'"),
+                        drawn=page.locator(".js-plotly-plot .main-svg").count(),
+                        notice=page.locator("#chart-script-missing").is_visible(),
+                    )
+                )
+        finally:
+            browser.close()
+    return seen
+
+
+@pytest.mark.browser
+@pytest.mark.slow
+def test_zipped_pack_opens_offline_elsewhere_and_a_lone_page_says_why_it_cannot(
+    clay_pack, tmp_path
+):
+    _require_playwright()
+    _, pack, _ = clay_pack
+    archive = tmp_path / "pack.zip"
+    with zipfile.ZipFile(archive, "w") as bundle:
+        for path in pack:
+            bundle.write(path, path.relative_to(pack.folder).as_posix())
+    moved = tmp_path / "elsewhere" / "memo"
+    with zipfile.ZipFile(archive) as bundle:
+        bundle.extractall(moved)
+    lone = tmp_path / "mailed" / "conductivity_void_ratio.html"
+    lone.parent.mkdir()
+    shutil.copy(moved / "charts" / lone.name, lone)
+    charts = len(html_pages(moved / "charts"))
+    report, chart, alone = _open_pages(
+        [moved / "report.html", moved / "charts" / "compaction_conductivity.html", lone]
+    )
+    for opened in (report, chart, alone):
+        assert all(url.startswith("file://") for url in opened["requests"]), opened["requests"]
+    assert report["plotly"] and report["drawn"] >= charts and not report["notice"]
+    assert chart["plotly"] and chart["drawn"] >= 1 and not chart["notice"]
+    assert not alone["plotly"] and alone["drawn"] == 0 and alone["notice"]

@@ -1,0 +1,55 @@
+"""Figures only the panels draw: the incremental k of a falling-head record."""
+
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from kitchen.io import load_series
+from kitchen.panels.figures import format_elapsed, increments_figure
+from kitchen.reduction import FallingHeadRecord
+from kitchen.settings import Settings
+from kitchen.specimen import specimen_state
+from kitchen.validity import Criteria
+
+SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
+
+
+@pytest.fixture(scope="module")
+def record():
+    series = load_series(SAMPLES / "clay_liner")
+    readings = series.falling_head[series.falling_head["specimen"] == "QF-05"]
+    state = specimen_state(series.specimens).set_index("specimen", drop=False)
+    return FallingHeadRecord(readings.reset_index(drop=True), state.loc["QF-05"])
+
+
+@pytest.mark.parametrize(
+    ("seconds", "text"), [(45.0, "45 s"), (600.0, "10.0 min"), (36_000.0, "10.00 h")]
+)
+def test_elapsed_time_in_words(seconds, text):
+    assert format_elapsed(seconds) == text
+
+
+def test_increments_follow_the_analysis(record):
+    analysis = record.analyse((5, 41), "log_linear")
+    figure = increments_figure(analysis, Settings())
+    every, judged, line = figure.data
+    np.testing.assert_allclose(every.y, analysis.increment_k)
+    np.testing.assert_allclose(judged.y, analysis.value_k)
+    assert line.y == pytest.approx((analysis.k_reference, analysis.k_reference))
+    # QF-05 runs 10 h (sample_data/README.md): the time axis is in hours
+    np.testing.assert_allclose(every.x, analysis.increment_time / 3600)
+    window, band = figure.layout.shapes
+    assert window.x0 == pytest.approx(analysis.time[5] / 3600)
+    # the steady band: ±25 % of k, ±50 % below 1e-10 m/s (ASTM D5084, from memory)
+    k = analysis.k_reference
+    assert (band.y0, band.y1) == pytest.approx((0.75 * k, 1.25 * k))
+
+
+def test_band_follows_the_criteria_setting(record):
+    settings = Settings(criteria=Criteria(steady_tolerance=0.10))
+    analysis = record.analyse(None, "log_linear")
+    band = increments_figure(analysis, settings, "cm/s").layout.shapes[1]
+    k = analysis.k_reference * 100
+    assert (band.y0, band.y1) == pytest.approx((0.9 * k, 1.1 * k))
+    assert "[cm/s]" in increments_figure(analysis, settings, "cm/s").layout.yaxis.title.text

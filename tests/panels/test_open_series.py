@@ -1,0 +1,74 @@
+"""The open-a-series panel, driven without a browser: set a control, check against the core."""
+
+import shutil
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from kitchen.io import load_series
+from kitchen.panels import series_panel
+from kitchen.reduction import results_table, series_results
+from kitchen.settings import Settings
+
+SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
+
+
+@pytest.fixture(scope="module")
+def panel():
+    return series_panel(SAMPLES / "clay_liner")
+
+
+def test_loads_the_series_and_shows_the_core_results(panel):
+    expected = results_table(series_results(load_series(SAMPLES / "clay_liner")))
+    assert panel.error.message == ""
+    assert list(panel.table["specimen"]) == list(expected["specimen"])
+    np.testing.assert_array_equal(panel.table["k20 [m/s]"], expected["k20 [m/s]"])
+    assert "QF-14" in panel.results_view.value
+    assert "14 specimens, 686 falling-head readings" in panel.progress.label.value
+
+
+def test_failed_checks_are_listed_in_words(panel):
+    # QF-12 has seven readings without a temperature (sample_data/README.md).
+    assert "QF-12" in panel.checks_view.value
+    assert "temperature missing at 7 of 66 readings" in panel.checks_view.value
+
+
+def test_reference_temperature_recomputes(panel):
+    panel.reference_temperature.value = 10.0
+    try:
+        expected = series_results(load_series(SAMPLES / "clay_liner"), Settings(10.0))
+        assert "k10 [m/s]" in panel.table.columns
+        np.testing.assert_array_equal(panel.table["k10 [m/s]"], expected["k_reference"])
+    finally:
+        panel.reference_temperature.value = 20.0
+    assert "k20 [m/s]" in panel.table.columns
+
+
+def test_a_bad_series_lists_its_problems_not_a_traceback(tmp_path):
+    copy = tmp_path / "clay"
+    shutil.copytree(SAMPLES / "clay_liner", copy)
+    lines = (copy / "specimens.csv").read_text().splitlines()
+    header = lines[0].split(",")
+    cells = lines[2].split(",")
+    cells[header.index("specific_gravity")] = "two point seven"
+    lines[2] = ",".join(cells)
+    (copy / "specimens.csv").write_text("\n".join(lines) + "\n")
+    broken = series_panel(copy)
+    assert broken.series is None and broken.table is None
+    assert "specimens.csv, row 3, column 'specific_gravity': expected a number" in (
+        broken.error.message
+    )
+    assert "<li>" in broken.error.widget.value
+    assert "Traceback" not in broken.error.widget.value
+    assert broken.progress.bar.bar_style == "danger"
+
+
+def test_path_box_and_load_button_open_another_series(tmp_path):
+    other = series_panel(tmp_path / "nowhere")
+    assert "not found" in other.error.message
+    other.path.value = str(SAMPLES / "drainage_sand.xlsx")
+    other.load.click()
+    assert other.error.message == ""
+    assert list(other.table["method"].unique()) == ["constant_head"]
+    assert len(other.table) == 4

@@ -1,0 +1,182 @@
+"""The series-chart panel: criterion and units drive the analysis and the charts."""
+
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from kitchen.analysis import analyse_series
+from kitchen.io import load_series
+from kitchen.panels import series_chart_panel
+from kitchen.panels.series_chart import parse_criterion
+from kitchen.reduction import series_results
+
+SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
+
+
+@pytest.fixture(scope="module")
+def clay():
+    return load_series(SAMPLES / "clay_liner")
+
+
+@pytest.fixture(scope="module")
+def clay_results(clay):
+    return series_results(clay)
+
+
+@pytest.fixture()
+def panel(clay):
+    return series_chart_panel(clay)
+
+
+@pytest.mark.parametrize(
+    ("text", "value", "kind"),
+    [
+        ("1e-9 m/s", 1e-9, "maximum"),
+        ("1e-7 cm/s", 1e-9, "maximum"),
+        ("2.5e-10m/s", 2.5e-10, "maximum"),
+        ("≤ 1e-9 m/s", 1e-9, "maximum"),
+        ("k <= 1e-9 m/s", 1e-9, "maximum"),
+        ("max 1e-9 m/s", 1e-9, "maximum"),
+        ("≥ 1e-4 m/s", 1e-4, "minimum"),
+        (">=1e-2 cm/s", 1e-4, "minimum"),
+        ("Min 1e-4 m/s", 1e-4, "minimum"),
+    ],
+)
+def test_criterion_is_read_with_its_unit_and_direction(text, value, kind):
+    criterion = parse_criterion(text)
+    assert criterion == value and criterion.kind == kind
+
+
+def test_a_drainage_criterion_reaches_the_verdicts_and_the_chart():
+    # the invented drainage sand (sample_data/drainage_sand/truth.json): every k20 is above
+    # the smallest k of 1e-4 m/s such a layer is often required to have (from memory)
+    panel = series_chart_panel(SAMPLES / "drainage_sand", criterion="≥ 1e-4 m/s")
+    assert panel.analysis.criterion.kind == "minimum"
+    assert panel.analysis.counts["meets"] == 4
+    assert "k20 ≥" in panel.verdicts.value
+    names = [trace.name for trace in panel.figures["void_ratio"].data if trace.name]
+    assert any(name.startswith("criterion k ≥") for name in names)
+
+
+@pytest.mark.parametrize(
+    ("text", "message"),
+    [
+        ("1e-9", "has no unit"),
+        ("1e-9 m", "has unit 'm'"),
+        ("fast", "expected a number"),
+        ("0 m/s", "positive"),
+    ],
+)
+def test_bad_criterion_is_refused_in_words(text, message):
+    with pytest.raises(ValueError, match=message):
+        parse_criterion(text)
+
+
+def test_verdicts_follow_the_criterion_as_the_core_says(panel, clay_results):
+    expected = analyse_series(clay_results, 1e-9)
+    assert panel.analysis.counts == expected.counts
+    # sample_data/README.md: eight specimens have a true k20 at or below 1e-9 m/s
+    assert expected.counts["meets"] == 8
+    panel.criterion.value = "5e-10 m/s"
+    tighter = analyse_series(clay_results, 5e-10)
+    assert panel.analysis.counts == tighter.counts != expected.counts
+    assert list(panel.analysis.specimens["verdict"]) == list(tighter.specimens["verdict"])
+    assert "5.00 × 10⁻¹⁰ m/s" in panel.verdicts.value
+
+
+def _criterion_line(figure):
+    return next(t for t in figure.data if t.name and t.name.startswith("criterion"))
+
+
+def _specimen_points(figure, axis="y"):
+    """(verdict, k) of every specimen marker on a chart's log-k axis."""
+    return sorted(
+        (t.name, y)
+        for t in figure.data
+        if t.mode == "markers"
+        and t.name in ("meets", "does not meet", "not conclusive")
+        and (t.yaxis or "y") == axis
+        for y in t.y
+    )
+
+
+def test_criterion_moves_the_line_the_markers_and_the_zone(panel):
+    chart = panel.figures["void_ratio"]
+    assert list(_criterion_line(chart).y) == pytest.approx([1e-9, 1e-9])
+    zone_before = next(t for t in panel.figures["compaction"].data if t.fill == "toself").x
+    panel.criterion.value = "1e-8 m/s"
+    assert list(_criterion_line(chart).y) == pytest.approx([1e-8, 1e-8])
+    verdicts = [name for name, _ in _specimen_points(chart)]
+    assert verdicts.count("meets") == panel.analysis.counts["meets"] > 8
+    zone_after = next(t for t in panel.figures["compaction"].data if t.fill == "toself").x
+    assert len(zone_after) != len(zone_before) or not np.allclose(zone_after, zone_before)
+
+
+def test_units_switch_the_axes(panel):
+    metres = _specimen_points(panel.figures["dry_density"])
+    panel.k_unit.value = "cm/s"
+    centimetres = _specimen_points(panel.figures["dry_density"])
+    assert [name for name, _ in centimetres] == [name for name, _ in metres]
+    np.testing.assert_allclose([k for _, k in centimetres], [100 * k for _, k in metres])
+    assert list(_criterion_line(panel.figures["dry_density"]).y) == pytest.approx([1e-7, 1e-7])
+    x_metric = sorted(
+        x for t in panel.figures["dry_density"].data if t.mode == "markers" for x in t.x
+    )
+    panel.density_unit.value = "kN/m³"
+    assert "kN/m³" in panel.figures["dry_density"].layout.xaxis.title.text
+    assert "kN/m³" in panel.figures["compaction"].layout.yaxis.title.text
+    x_weight = sorted(
+        x for t in panel.figures["dry_density"].data if t.mode == "markers" for x in t.x
+    )
+    # gamma_d = rho_d * g_n, g_n = 9.80665 m/s2 exactly (3rd CGPM, 1901)
+    np.testing.assert_allclose(x_weight, np.array(x_metric) * 9.80665, rtol=1e-12)
+
+
+def test_bad_criterion_in_the_box_is_shown_and_the_charts_stay(panel):
+    counts = panel.analysis.counts
+    panel.criterion.value = "1e-9 m"
+    assert "expected one of m/s, cm/s" in panel.error.message
+    assert panel.analysis.counts == counts
+    panel.criterion.value = "1e-9 m/s"
+    assert panel.error.message == ""
+
+
+def test_sand_series_has_no_compaction_plane_and_says_so():
+    panel = series_chart_panel(SAMPLES / "drainage_sand", criterion="1e-3 m/s")
+    assert panel.error.message == ""
+    assert any("no specimen has a molding water content" in note for note in panel.error.notes)
+    assert panel.drawn == {"compaction": False, "void_ratio": True, "dry_density": True}
+    assert panel.chart_choice.value == "void_ratio"
+    assert panel.chart_box.children == (panel.figures["void_ratio"],)
+    panel.chart_choice.value = "compaction"
+    assert panel.chart_box.children == (panel.missing["compaction"],)
+    assert "not drawn" in panel.missing["compaction"].value
+    assert len(panel.figures["void_ratio"].data) > 0
+
+
+def test_export_button_writes_the_memo_pack_with_progress(tmp_path):
+    panel = series_chart_panel(
+        SAMPLES / "clay_liner", export_folder=tmp_path / "memo", images=False
+    )
+    seen = []
+    panel.progress.bar.observe(lambda change: seen.append(change["new"]), names="value")
+    panel.export.click()
+    assert panel.error.message == ""
+    names = {path.relative_to(tmp_path / "memo").as_posix() for path in panel.exported}
+    assert {"results.csv", "results.xlsx", "report.html"} <= names
+    assert all(path.exists() for path in panel.exported)
+    assert seen == sorted(seen) and len(seen) >= 3  # the bar moved forward, file by file
+    assert panel.progress.bar.bar_style == "success"
+    assert f"{len(panel.exported)} file(s) written" in panel.progress.label.value
+    assert not (SAMPLES / "clay_liner" / "results.csv").exists()
+
+
+def test_export_to_an_unwritable_place_is_shown_in_words(tmp_path):
+    blocker = tmp_path / "a file"
+    blocker.write_text("not a folder")
+    panel = series_chart_panel(SAMPLES / "clay_liner", export_folder=blocker, images=False)
+    panel.export.click()
+    assert panel.error.message.startswith("Could not finish exporting")
+    assert panel.progress.bar.bar_style == "danger"
+    assert panel.export.disabled is False

@@ -1,0 +1,75 @@
+"""The falling-head equations against a textbook worked example, Jurin's law and round trips."""
+
+import numpy as np
+import pytest
+from synthetic_records import known_k_record
+
+from kitchen.reduction import (
+    effective_standpipe_area,
+    falling_head_conductivity,
+    incremental_conductivity,
+    jurin_capillary_rise,
+    reading_window,
+    rising_tailwater_conductivity,
+)
+
+
+def test_das_falling_head_example():
+    # Das, Principles of Geotechnical Engineering, falling-head example (inputs confirmed,
+    # answer from memory): L = 200 mm, A = 1000 mm^2, a = 40 mm^2, h 500 -> 300 mm in
+    # 180 s -> k = 2.27e-3 cm/s.
+    k = falling_head_conductivity(40e-6, 0.200, 1000e-6, 0.500, 0.300, 180.0)
+    assert k * 100 == pytest.approx(2.27e-3, abs=0.005e-3)
+    # The head at 100 s follows from the same k (computed): 376.5 mm.
+    rate = k * 1000e-6 / (40e-6 * 0.200)
+    assert 0.500 * np.exp(-rate * 100.0) == pytest.approx(0.3765, abs=5e-5)
+
+
+def test_rising_tailwater_equal_burettes_halve_the_area():
+    # ASTM D5084 Method C (from memory): with a_in = a_out the effective area is a/2.
+    assert effective_standpipe_area(40e-6, 40e-6) == pytest.approx(20e-6)
+    assert effective_standpipe_area(40e-6) == pytest.approx(40e-6)
+    single = falling_head_conductivity(20e-6, 0.2, 1e-3, 0.5, 0.3, 180.0)
+    assert rising_tailwater_conductivity(40e-6, 40e-6, 0.2, 1e-3, 0.5, 0.3, 180.0) == (
+        pytest.approx(single)
+    )
+
+
+def test_jurin_capillary_rise():
+    # Head, Manual of Soil Laboratory Testing, Vol. 2 (from memory; DOMAIN.md section 3):
+    # about 3 mm in a 10 mm tube and 15 mm in a 2 mm tube.
+    assert jurin_capillary_rise(10e-3) * 1e3 == pytest.approx(3.0, abs=0.1)
+    assert jurin_capillary_rise(2e-3) * 1e3 == pytest.approx(15.0, abs=0.3)
+    assert jurin_capillary_rise(np.array([2e-3, 4e-3])) == pytest.approx(
+        [jurin_capillary_rise(2e-3), jurin_capillary_rise(2e-3) / 2]
+    )
+
+
+# --------------------------------------------------------------------------- incremental k
+def test_incremental_k_each_corrected_with_its_own_temperatures():
+    temperature = np.linspace(17.0, 24.0, 40)
+    readings, specimen = known_k_record(temperature=temperature)
+    a, length, area = specimen["standpipe_area"], specimen["height"], specimen["area"]
+    time, k = incremental_conductivity(
+        readings["time"], readings["head"], a, length, area, temperature
+    )
+    assert time.size == 39 and k == pytest.approx(np.full(39, 2.0e-9), rel=1e-9)
+    _, uncorrected = incremental_conductivity(readings["time"], readings["head"], a, length, area)
+    assert uncorrected[0] < 2.0e-9 < uncorrected[-1]  # colder water first, warmer last
+    time3, k3 = incremental_conductivity(
+        readings["time"], readings["head"], a, length, area, temperature, step=3
+    )
+    # readings 39, 36, 33 ... counted back from the last: the last value spans 36 to 39
+    assert k3.size == 13 and k3 == pytest.approx(np.full(13, 2.0e-9), rel=1e-9)
+    assert time3[-1] == pytest.approx(readings["time"].iloc[[36, 39]].mean())
+    with pytest.raises(ValueError, match="step must be a whole number from 1 to 39"):
+        incremental_conductivity(readings["time"], readings["head"], a, length, area, step=40)
+
+
+def test_reading_window_by_time():
+    readings, _ = known_k_record()
+    time = readings["time"].to_numpy()
+    assert reading_window(time, 3600.0, 7 * 3600.0) == (5, 35)
+    assert reading_window(time) == (0, 40)
+    with pytest.raises(ValueError, match="fewer than two readings between"):
+        reading_window(time, 100.0, 200.0)

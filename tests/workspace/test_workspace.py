@@ -1,0 +1,142 @@
+"""The workspace: the same results as a full reduction, with only what changed recomputed.
+
+The reference for every check is the package's own full path, reading the files again and
+reducing every specimen (:func:`kitchen.revisions.load_effective_series` and
+:func:`kitchen.reduction.results.series_results`): the cache must never give anything else.
+"""
+
+import csv
+import shutil
+from pathlib import Path
+
+import pandas as pd
+import pytest
+
+from kitchen.reduction import series_results
+from kitchen.revisions import RevisionError, load_effective_series, revise
+from kitchen.settings import Settings
+from kitchen.workspace import Workspace
+
+SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
+WHEN = "2025-05-02T14:30:00+02:00"
+
+
+@pytest.fixture
+def clay(tmp_path) -> Path:
+    """A copy of the invented clay-liner series (falling head), free to revise."""
+    return Path(shutil.copytree(SAMPLES / "clay_liner", tmp_path / "clay_liner"))
+
+
+@pytest.fixture
+def sand(tmp_path) -> Path:
+    """A copy of the invented drainage-sand series (constant head)."""
+    return Path(shutil.copytree(SAMPLES / "drainage_sand", tmp_path / "drainage_sand"))
+
+
+def full_results(folder: Path, settings=None, **options) -> pd.DataFrame:
+    return series_results(load_effective_series(folder).series, settings, **options)
+
+
+def assert_same_results(workspace: Workspace, folder: Path, **options):
+    pd.testing.assert_frame_equal(
+        workspace.results(), full_results(folder, workspace.settings, **options)
+    )
+
+
+def revise_height(folder: Path, specimen: str, value: str):
+    return revise(
+        folder, specimen=specimen, field="height", value=value, reason="re-measured", when=WHEN
+    )
+
+
+def test_results_are_those_of_a_full_reduction(clay, sand):
+    for folder in (clay, sand):
+        assert_same_results(Workspace(folder), folder)
+
+
+def test_a_height_revision_recomputes_that_specimen_only(clay):
+    workspace = Workspace(clay)
+    before = {s: workspace.falling_head(s) for s in workspace.specimen_ids()}
+    assert workspace.sync() == ()  # nothing new in the log
+    revise_height(clay, "QF-04", "117.10 mm")
+    assert workspace.sync() == ("QF-04",)
+    after = {s: workspace.falling_head(s) for s in workspace.specimen_ids()}
+    assert [s for s in before if after[s] is not before[s]] == ["QF-04"]
+    assert after["QF-04"].time is before["QF-04"].time  # the readings were not prepared again
+    assert workspace.series.specimens.set_index("specimen").loc["QF-04", "height"] == 0.1171
+    assert_same_results(workspace, clay)
+
+
+def test_revise_and_withdraw_through_the_workspace(clay):
+    workspace = Workspace(clay)
+    original = workspace.results()
+    row = workspace.revise(
+        specimen="QF-02", field="height", value="4.6 in", reason="re-measured", when=WHEN
+    )
+    assert workspace.last_moved == ("QF-02",)
+    assert workspace.effective.applied == (row,)
+    workspace.withdraw(row.id, reason="measured the wrong specimen", when=WHEN)
+    assert workspace.last_moved == ("QF-02",)
+    assert workspace.effective.withdrawn == (row,) and workspace.effective.applied == ()
+    pd.testing.assert_frame_equal(workspace.results(), original)
+
+
+def test_a_reading_revision_recomputes_that_specimen_only(clay):
+    workspace = Workspace(clay)
+    readings = workspace.readings("QF-07")
+    row = int(readings["source_row"].iloc[5])
+    head_cm = readings["head"].iloc[5] * 100
+    revise(
+        clay,
+        specimen="QF-07",
+        field="head",
+        value=f"{head_cm - 0.05:.2f} cm",
+        reason="typed wrong",
+        reading=row,
+        when=WHEN,
+    )
+    assert workspace.sync() == ("QF-07",)
+    assert_same_results(workspace, clay)
+
+
+def test_a_new_window_reuses_the_prepared_record(clay):
+    workspace = Workspace(clay)
+    proposed = workspace.falling_head("QF-05")
+    assert workspace.set_window("QF-05", (3, proposed.n)) == ("QF-05",)
+    moved = workspace.falling_head("QF-05")
+    assert (moved.start, moved.stop) == (3, proposed.n)
+    assert moved.time is proposed.time  # the same prepared readings, not a new record
+    assert_same_results(workspace, clay, windows={"QF-05": (3, proposed.n)})
+    assert workspace.set_window("QF-05", None) == ("QF-05",)
+    assert workspace.falling_head("QF-05").start == proposed.start
+
+
+def test_a_capillary_rise_and_new_settings(clay):
+    workspace = Workspace(clay)
+    assert workspace.set_capillary_rise("QF-01", 0.004) == ("QF-01",)
+    assert_same_results(workspace, clay, capillary_rises={"QF-01": 0.004})
+    settings = Settings(reference_temperature=10.0)
+    assert workspace.set_settings(settings) == tuple(workspace.specimen_ids())
+    assert_same_results(workspace, clay, capillary_rises={"QF-01": 0.004})
+
+
+def test_a_log_row_that_no_longer_fits_leaves_the_workspace_as_it_was(clay):
+    workspace = Workspace(clay)
+    before = workspace.results()
+    revise_height(clay, "QF-03", "117.00 mm")
+    log = clay / "revisions.csv"
+    fields = next(csv.reader([log.read_text(encoding="utf-8").splitlines()[-1]]))
+    fields[0], fields[8] = "0badc0de", "1.0 mm"  # id, and an old value the file never held
+    with log.open("a", encoding="utf-8", newline="") as out:
+        csv.writer(out, lineterminator="\n").writerow(fields)
+    with pytest.raises(RevisionError, match="now holds"):
+        workspace.sync()
+    assert workspace.revisions == ()
+    pd.testing.assert_frame_equal(workspace.results(), before)
+
+
+def test_unknown_specimen_is_named(clay):
+    with pytest.raises(KeyError, match="QF-99"):
+        Workspace(clay).readings("QF-99")
+    with pytest.raises(ValueError, match="unknown readings table"):
+        Workspace(clay).readings("QF-01", "readings")
