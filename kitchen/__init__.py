@@ -5,24 +5,29 @@ readings), works out each specimen's as-molded state, reduces each test to a hyd
 conductivity corrected to a reference temperature, and relates conductivity to the
 compaction state across the series.
 
-The modules follow the data's path: :mod:`kitchen.io.units`, :mod:`kitchen.io.raw_tables`,
-:mod:`kitchen.io.table_checks` and :mod:`kitchen.io.series` (load), :mod:`kitchen.specimen`
-(phase relations), :mod:`kitchen.water` (density, viscosity), :mod:`kitchen.reduction.constant_head`
-with its collections module and :mod:`kitchen.reduction.falling_head` with its record, window and
-evidence modules (test reductions, sharing the fits gathered in :mod:`kitchen.fits`),
-:mod:`kitchen.validity.checks` (termination criteria and fit diagnostics),
-:mod:`kitchen.uncertainty.conductivity` (intervals after the GUM: its input quantities and their
-propagation), :mod:`kitchen.reduction.results` (the per-specimen results table),
-:mod:`kitchen.analysis.compaction` and :mod:`kitchen.analysis.trends` with the saturation lines, the
-acceptable zone, the criterion and the grading predictions beside them (the series across
-compaction states), :mod:`kitchen.analysis.series_analysis` (all of them in one call, on the result
-chosen for each specimen), :mod:`kitchen.revisions` (the append-only log of corrections: its
-log, the effective data, recording, history) and :mod:`kitchen.revisions.window_log` (the reading
-windows chosen, with their reasons), :mod:`kitchen.workspace.workspace` (a series held open,
-recomputed specimen by specimen, under digests of its inputs), :mod:`kitchen.charts` (the
-memo style, the series charts and the specimen charts) and :mod:`kitchen.memo.pack` (the
-exported pack: its charts, images, workbook and HTML pages), :mod:`kitchen.panels` (the
-notebooks' widgets) and the command line in :mod:`kitchen.cli`.
+The package follows the data's path, one subpackage per step; each subpackage's
+``__init__`` is its public face, and the others import from it:
+
+- :mod:`kitchen.io`: units at the file boundary, the raw tables, their checks, the
+  validated series, and the files the tool writes (load);
+- :mod:`kitchen.specimen`: phase relations, the as-molded state of each specimen;
+- :mod:`kitchen.water`: water density, viscosity and the temperature ratio R_T;
+- :mod:`kitchen.fits`: the least-squares fits the reductions share;
+- :mod:`kitchen.uncertainty`: intervals after the GUM, from input quantities to k;
+- :mod:`kitchen.validity`: termination criteria, fit diagnostics, the proposed window;
+- :mod:`kitchen.settings`: the settings every result is computed with;
+- :mod:`kitchen.reduction`: the constant-head and falling-head reductions and the
+  per-specimen results table;
+- :mod:`kitchen.revisions`: the append-only logs of corrections and of the reading
+  windows chosen, and the effective data;
+- :mod:`kitchen.workspace`: a series held open, recomputed specimen by specimen under
+  digests of its inputs — the one way to open a series;
+- :mod:`kitchen.analysis`: the series across compaction states, in one call;
+- :mod:`kitchen.display_units`: the k and density units the charts and report show;
+- :mod:`kitchen.charts`: the memo style, the series charts and the specimen charts;
+- :mod:`kitchen.cautions`: the one wording of the cautions every exported item carries;
+- :mod:`kitchen.memo`: the exported pack: charts, images, workbook, HTML pages, manifest;
+- :mod:`kitchen.panels`: the notebooks' widgets; and the command line, :mod:`kitchen.cli`.
 
 Nomenclature
 ------------

@@ -18,19 +18,14 @@ import argparse
 import sys
 from pathlib import Path
 
-from kitchen.analysis import CRITERION_KINDS, as_criterion
+from kitchen.analysis import CRITERION_KINDS, parse_criterion
 from kitchen.io import TABLE_NAMES, SeriesError
 from kitchen.memo import ImageExportUnavailable
-from kitchen.reduction import results_table, series_results
-from kitchen.revisions import (
-    chosen_windows,
-    load_effective_series,
-    read_window_choices,
-    windows_path,
-)
+from kitchen.revisions import read_window_choices, windows_path
 from kitchen.settings import CAPILLARY_RISE_OPTIONS, FALLING_HEAD_FITS, Settings
 from kitchen.uncertainty import PROPAGATION_METHODS
 from kitchen.water import VISCOSITY_METHODS
+from kitchen.workspace import Workspace
 
 __all__ = ["main", "build_parser"]
 
@@ -87,9 +82,11 @@ def build_parser() -> argparse.ArgumentParser:
 def _add_memo_options(report) -> None:
     report.add_argument(
         "--criterion",
-        type=float,
-        default=1e-9,
-        help="k limit from the project specification, m/s (default 1e-9, a largest k allowed)",
+        action=_CriterionOption,
+        default="1e-9",
+        help="k limit from the project specification: a number in m/s, or with its unit and "
+        "direction as in the notebook ('1e-7 cm/s', '>= 1e-4 m/s'); default 1e-9 m/s, a "
+        "largest k allowed",
     )
     _add_criterion_kind(report)
     report.add_argument(
@@ -124,16 +121,32 @@ def _add_criterion_kind(command) -> None:
     command.add_argument(
         "--criterion-kind",
         choices=CRITERION_KINDS,
-        default="maximum",
+        action=_CriterionOption,
         help="maximum: the largest k allowed (a liner, k <= criterion); minimum: the smallest "
-        "k required (a drainage layer, k >= criterion)",
+        "k required (a drainage layer, k >= criterion); default: the direction typed with "
+        "--criterion, else maximum",
     )
 
 
 def _criterion(arguments):
-    if arguments.criterion is None:
+    """The criterion of --criterion and --criterion-kind (None without --criterion)."""
+    if getattr(arguments, "criterion", None) is None:
         return None
-    return as_criterion(arguments.criterion, arguments.criterion_kind)
+    return parse_criterion(
+        arguments.criterion, getattr(arguments, "criterion_kind", None), unit="m/s"
+    )
+
+
+class _CriterionOption(argparse.Action):
+    """Stores --criterion or --criterion-kind, refusing at once a criterion that does not
+    read (:func:`kitchen.analysis.parse_criterion`), before any work is done."""
+
+    def __call__(self, parser, namespace, values, option_string=None):
+        setattr(namespace, self.dest, values)
+        try:
+            _criterion(namespace)
+        except ValueError as error:
+            parser.error(str(error))
 
 
 def _progress(done: int, total: int, what: str) -> None:
@@ -159,7 +172,10 @@ def _add_revision_commands(commands) -> None:
     revise.add_argument("--reason", required=True, help="why (required)")
     revise.add_argument("--who", default="", help="who makes the revision")
     revise.add_argument(
-        "--criterion", type=float, help="k limit, m/s, to show each verdict before and after"
+        "--criterion",
+        action=_CriterionOption,
+        help="k limit, in m/s or with its unit and direction ('>= 1e-4 m/s'), to show each "
+        "verdict before and after",
     )
     _add_criterion_kind(revise)
     window = commands.add_parser(
@@ -198,29 +214,22 @@ def _report(arguments) -> int:
         falling_head_fit=arguments.falling_head_fit,
         capillary_rise=arguments.capillary_rise,
     )
-    effective = load_effective_series(arguments.series)
-    series = effective.series
-    choices = () if arguments.proposed_windows else read_window_choices(arguments.series)
-    windows = chosen_windows(series, choices)
-    results = series_results(series, settings, windows)
-    table = results_table(results, settings)
+    workspace = Workspace(
+        arguments.series, settings, windows_on_record=not arguments.proposed_windows
+    )
+    series, windows = workspace.series, workspace.windows
     pack = export_memo_pack(
-        series,
+        workspace,
         arguments.out,
-        settings=settings,
         criterion=_criterion(arguments),
         k_unit=arguments.k_unit,
         density_unit=arguments.density_unit,
-        results=results,
-        windows=windows,
-        window_choices=choices,
         images=not arguments.no_images,
         self_contained=arguments.self_contained,
-        revision_count=effective.revision_count,
-        revision_log=effective.log_path if effective.log_sha256 else None,
-        revision_log_sha256=effective.log_sha256,
         progress=_progress,
     )
+    table = workspace.results_table()
+    effective = workspace.effective
     path = arguments.out / "results.csv"
     print(f"{len(table)} result row(s) for {series.name} written to {path}")
     print(f"memo pack: {len(pack)} file(s) in {arguments.out} ({pack.seconds:.1f} s)")
@@ -315,6 +324,7 @@ def _window(arguments, parser) -> int:
             arguments.last_row,
             reason=arguments.reason,
             who=arguments.who,
+            series=Workspace(arguments.series).series,
         )
     print(f"recorded window {row.id} in {windows_path(arguments.series)}: {row.describe()}")
     standing = [c for c in standing_choices(read_window_choices(arguments.series)).values()]

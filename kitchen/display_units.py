@@ -28,6 +28,7 @@ __all__ = [
     "density_unit",
     "distinct_texts",
     "scientific",
+    "superscript",
 ]
 
 STANDARD_GRAVITY = 9.80665
@@ -111,7 +112,12 @@ def density_unit(name: str = "Mg/m³") -> DisplayUnit:
     return DENSITY_UNITS[key]
 
 
-_SUPERSCRIPT = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")
+_SUPERSCRIPT = str.maketrans("0123456789-+", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻⁺")
+
+
+def superscript(exponent: int) -> str:
+    """An integer in superscript digits, for powers of ten: ``superscript(-9)`` is ``⁻⁹``."""
+    return str(exponent).translate(_SUPERSCRIPT)
 
 
 def scientific(value: float, digits: int = 3, html: bool = False) -> str:
@@ -132,7 +138,7 @@ def scientific(value: float, digits: int = 3, html: bool = False) -> str:
     if html:
         power = str(exponent).replace("-", "−")
         return f"{lead}10<sup>{power}</sup>"
-    return f"{lead}10{str(exponent).translate(_SUPERSCRIPT)}"
+    return f"{lead}10{superscript(exponent)}"
 
 
 def distinct_texts(unit: DisplayUnit, *values: float, html: bool = True) -> list[str]:

@@ -58,7 +58,7 @@ class Settings:
     capillary_rise : str
         ``"off"`` (default: heads as read) or ``"jurin"`` (heads less the capillary rise
         in the standpipe by Jurin's law from its bore; a measured value per specimen is
-        passed to :func:`series_results` instead).
+        passed to :func:`~kitchen.reduction.series_results` instead).
     """
 
     reference_temperature: float = 20.0

@@ -1,25 +1,40 @@
-"""The command line, run as a user runs it."""
+"""The command line: report, and the revisions (revise, history).
 
+Each command is run in this process (tests/cli_runner.py), which checks what it prints and
+its exit status as a user sees them; ``python -m kitchen`` itself is run once in a new
+interpreter, as a user runs it, by test_report_writes_results.
+
+The log, the effective data, the recording of revisions and their history are tested beside
+their modules, in tests/revisions/.
+"""
+
+import shutil
 import subprocess
 import sys
 from pathlib import Path
 
 import pandas as pd
+import pytest
+from cli_runner import run_cli
+from revision_series import log_rows
+
+from kitchen.io import files
+from kitchen.revisions import revise, revisions_path
 
 SAMPLES = Path(__file__).resolve().parents[1] / "sample_data"
 
 
-def run(*arguments, cwd=None):
-    return subprocess.run(
-        [sys.executable, "-m", "kitchen", *map(str, arguments)],
-        capture_output=True,
-        text=True,
-        cwd=cwd,
-    )
-
-
 def test_report_writes_results(tmp_path):
-    done = run("report", SAMPLES / "clay_liner", "--out", tmp_path, "--no-images")
+    # the entry point, in a new interpreter as a user runs it: the one test that does
+    def python_m_kitchen(*arguments):
+        command = [sys.executable, "-m", "kitchen", *map(str, arguments)]
+        return subprocess.run(command, capture_output=True, text=True)
+
+    usage = python_m_kitchen("--help")
+    assert usage.returncode == 0, usage.stderr
+    assert usage.stdout.startswith("usage: python -m kitchen")
+    assert all(command in usage.stdout for command in ("report", "revise", "history"))
+    done = python_m_kitchen("report", SAMPLES / "clay_liner", "--out", tmp_path, "--no-images")
     assert done.returncode == 0, done.stderr
     table = pd.read_csv(tmp_path / "results.csv")
     assert len(table) == 14
@@ -27,7 +42,7 @@ def test_report_writes_results(tmp_path):
 
 
 def test_report_options(tmp_path):
-    done = run(
+    done = run_cli(
         "report",
         "--no-images",
         SAMPLES / "drainage_sand",
@@ -49,7 +64,7 @@ def test_bad_series_lists_problems_without_traceback(tmp_path):
         "specimen,diameter [mm],height,dry_mass [g],specific_gravity\nA,100,116,1600,2.7\n"
     )
     (folder / "falling_head.csv").write_text("specimen,time [s],head [m]\nA,0,1\nA,60,x\n")
-    done = run("report", folder, "--out", tmp_path / "out")
+    done = run_cli("report", folder, "--out", tmp_path / "out")
     assert done.returncode == 2
     assert "Traceback" not in done.stderr
     assert "specimens.csv, row 1, column 'height'" in done.stderr
@@ -58,6 +73,34 @@ def test_bad_series_lists_problems_without_traceback(tmp_path):
 
 
 def test_missing_series_is_named(tmp_path):
-    done = run("report", tmp_path / "nowhere", "--out", tmp_path / "out")
+    done = run_cli("report", tmp_path / "nowhere", "--out", tmp_path / "out")
     assert done.returncode == 2
     assert "not found" in done.stderr and "Traceback" not in done.stderr
+
+
+def test_criterion_is_typed_as_in_the_notebook(tmp_path):
+    # one reading of a criterion (kitchen.analysis.parse_criterion) for the notebook and the
+    # command line: with its unit and direction; 1e-2 cm/s is 1e-4 m/s (SI, common practice,
+    # no source); the invented drainage sand meets it (sample_data/drainage_sand/truth.json)
+    done = run_cli("report", SAMPLES / "drainage_sand", "--out", tmp_path, "--no-images",
+               "--criterion", ">= 1e-2 cm/s")  # fmt: skip
+    assert done.returncode == 0, done.stderr
+    report = (tmp_path / "report.html").read_text()
+    assert "k20 ≥ 1×10⁻⁴ m/s (smallest k required)" in report and "meets: 4" in report
+
+
+@pytest.mark.parametrize(
+    ("arguments", "message"),
+    [
+        (("--criterion", "fast"), "criterion 'fast': expected a number and its unit"),
+        (("--criterion", "1e-9 m"), "has unit 'm'; expected one of m/s, cm/s"),
+        (("--criterion", "0"), "expected a positive"),
+        (("--criterion", ">= 1e-4 m/s", "--criterion-kind", "maximum"), "its kind is given as"),
+        (("--criterion-kind", "maximum", "--criterion", "min 1e-4"), "its kind is given as"),
+    ],
+)
+def test_a_criterion_that_does_not_read_is_refused_before_any_work(tmp_path, arguments, message):
+    out = tmp_path / "out"
+    done = run_cli("report", SAMPLES / "drainage_sand", "--out", out, "--no-images", *arguments)
+    assert done.returncode == 2 and message in done.stderr
+    assert "Traceback" not in done.stderr and not out.exists()

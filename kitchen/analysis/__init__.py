@@ -1,4 +1,75 @@
-"""FACE-DOCSTRING"""
+"""The series across compaction states: the compaction plane, trends of k, the criterion.
+
+Once each specimen is reduced, the series is read as a whole. One result is kept per
+specimen, and its k and interval are judged against the project's criterion: meets, does
+not meet, or not conclusive where the interval straddles it. On the compaction plane
+(molding water content across, dry density up) sit the zero-air-voids and
+constant-saturation lines, one compaction curve per compactive effort, the line of
+optimums, and the acceptable zone around the specimens that meet (Daniel & Benson 1990).
+Log k is fitted against void ratio, dry density and water content relative to optimum,
+the series is summarised by its geometric mean, and the predictions from grading are shown
+beside the measurements, never as measurements. :func:`analyse_series` does all of it in
+one call, leaving out, with the reason in its notes, what the data do not allow. Nothing
+here draws: :mod:`kitchen.charts` does.
+
+Modules, in the data's order:
+
+- :mod:`.result_selection`: one result per specimen from the results table, k and verdict.
+- :mod:`.criterion`: the :class:`Criterion` on k (largest allowed, smallest required).
+- :mod:`.saturation_lines`: the zero-air-voids and constant-saturation lines.
+- :mod:`.compaction`: each effort's compaction curve, and the line of optimums.
+- :mod:`.compaction_zone`: the acceptable zone, the hull of the specimens that meet.
+- :mod:`.trends`: log k against void ratio, dry density and w − w_opt; the geometric mean.
+- :mod:`.grading`: Hazen, Chapuis and Kozeny–Carman predictions, with their ranges.
+- :mod:`.series_analysis`: all of them in one call, on the result chosen for each specimen.
+- :mod:`._checks`: the input checks they share, bad values named by position or file row.
+
+The public face, which other subpackages import from :mod:`kitchen.analysis` and never from
+its modules: :data:`REQUIRED_COLUMNS`; :class:`Criterion`, :func:`as_criterion`,
+:func:`parse_criterion`, :func:`classify_against_criterion`, :data:`CRITERION_KINDS`, :data:`MEETS`,
+:data:`DOES_NOT_MEET` and :data:`NOT_CONCLUSIVE`; :func:`zero_air_voids_dry_density` and
+:func:`constant_saturation_dry_density`; :func:`fit_compaction_curve`,
+:func:`compaction_curves` (:class:`CompactionCurve`) and :func:`line_of_optimums`
+(:class:`LineOfOptimums`); :func:`acceptable_zone` (:class:`AcceptableZone`);
+:func:`fit_log_conductivity` (:class:`ConductivityTrend`),
+:func:`fit_log_conductivity_void_ratio` (:class:`VoidRatioTrend`) and
+:func:`geometric_mean_conductivity` (:class:`GeometricMean`); :func:`hazen_conductivity`,
+:func:`chapuis_conductivity`, :func:`kozeny_carman_ratio` and :func:`grading_predictions`
+(:class:`GradingPrediction`); :func:`analyse_series` (:class:`SeriesAnalysis`),
+:data:`ANALYSIS_METHODS`, :data:`SATURATION_LINES` and :data:`VERDICTS`.
+
+References
+----------
+Daniel, D. E. and Benson, C. H. (1990). Water content–density criteria for compacted soil
+liners. Journal of Geotechnical Engineering 116(12), 1811–1830 (the line of optimums and
+the acceptable zone on the compaction plane; pages from memory).
+ASTM D698 and ASTM D1557 (laboratory compaction characteristics of soil using standard and
+modified effort): the compaction curve and its optimum (from memory).
+Das, B. M. and Sobhan, K., *Principles of Geotechnical Engineering*: weight–volume
+relationships (ρd = Gs·ρw/(1 + e) with S·e = w·Gs), the compaction chapter, and the
+permeability chapter (Hazen's equation, the Kozeny–Carman ratio) (from memory); Holtz,
+R. D. and Kovacs, W. D., *An Introduction to Geotechnical Engineering*, compaction chapter
+(from memory).
+Mitchell, J. K., Hooper, D. R. and Campanella, R. G. (1965). Permeability of compacted
+clay. Journal of the Soil Mechanics and Foundations Division 91(SM4), 41–65 (pages from
+memory).
+Tavenas, F., Jean, P., Leblond, P. and Leroueil, S. (1983). The permeability of natural
+soft clays. Part II: Permeability characteristics. Canadian Geotechnical Journal 20(4),
+645–660 (title and pages from memory).
+Hazen, A. (1892), as given in Das and Sobhan (from memory); its range of d10 as quoted
+there and by Carrier, W. D. (2003), J. Geotech. Geoenviron. Eng. 129(11), 1054–1056 (from
+memory).
+Chapuis, R. P. (2004). Predicting the saturated hydraulic conductivity of sand and gravel
+using effective diameter and void ratio. Canadian Geotechnical Journal 41(5), 787–795
+(coefficients and range from memory).
+Taylor, D. W. (1948). *Fundamentals of Soil Mechanics*, Wiley, permeability chapter
+(Kozeny–Carman; from memory).
+US 40 CFR 258.40 (design criteria for municipal solid waste landfills: compacted soil
+liner of k ≤ 1×10⁻⁷ cm/s); Council Directive 1999/31/EC on the landfill of waste, Annex I
+(geological barrier k ≤ 1×10⁻⁹ m/s): criteria a project may follow; the criterion is an
+input.
+The geometric mean of a series: k is roughly log-normal (common practice, no source).
+"""
 
 from .compaction import (
     CompactionCurve,
@@ -19,6 +90,7 @@ from .criterion import (
     Criterion,
     as_criterion,
     classify_against_criterion,
+    parse_criterion,
 )
 from .grading import (
     GradingPrediction,
@@ -78,6 +150,7 @@ __all__ = [
     "LineOfOptimums",
     "MEETS",
     "NOT_CONCLUSIVE",
+    "parse_criterion",
     "REQUIRED_COLUMNS",
     "SATURATION_LINES",
     "SeriesAnalysis",

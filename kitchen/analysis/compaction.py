@@ -6,9 +6,8 @@ per compactive effort, the line through their optimums, and the zone that holds 
 whose hydraulic conductivity meets a criterion (Daniel & Benson 1990).
 
 This module holds the compaction curves and the line of optimums. The saturation lines are
-in :mod:`kitchen.analysis.saturation_lines`, the acceptable zone in :mod:`kitchen.analysis.compaction_zone`
-and the input checks in :mod:`kitchen.analysis._checks`; their public names are importable
-from here too.
+in :mod:`kitchen.analysis.saturation_lines`, the acceptable zone in
+:mod:`kitchen.analysis.compaction_zone` and the input checks in :mod:`kitchen.analysis._checks`.
 """
 
 from __future__ import annotations
@@ -23,14 +22,14 @@ import pandas as pd
 from kitchen.fits import LinearFit, fit_line
 
 from ._checks import (
-    _like,
-    _numbers,
-    _require,
-    _require_columns,
-    _row,
-    _same_length,
-    _show,
-    _table_numbers,
+    column_numbers,
+    finite_numbers,
+    like_inputs,
+    require_columns,
+    require_elements,
+    require_same_length,
+    shown_value,
+    table_row_name,
 )
 
 __all__ = [
@@ -112,8 +111,8 @@ class CompactionCurve:
 
     def dry_density(self, water_content):
         """Dry density on the fitted curve. [kg/m3] (`water_content` a fraction [-])."""
-        w = _numbers(water_content, "water_content")
-        return _like(np.polyval(self.coefficients, w), water_content)
+        w = finite_numbers(water_content, "water_content")
+        return like_inputs(np.polyval(self.coefficients, w), water_content)
 
 
 def _fit_curve(w: np.ndarray, rho: np.ndarray, method: str) -> CompactionCurve:
@@ -209,15 +208,17 @@ def fit_compaction_curve(water_content, dry_density, method="quadratic") -> Comp
     and modified effort), calculation section: plot the compaction curve and read the
     optimum water content and maximum dry unit weight at its peak (from memory).
     """
-    w = _numbers(water_content, "water_content")
-    rho = _numbers(dry_density, "dry_density")
+    w = finite_numbers(water_content, "water_content")
+    rho = finite_numbers(dry_density, "dry_density")
     if w.ndim != 1 or rho.ndim != 1:
         raise ValueError("water_content, dry_density: expected one value per specimen (1-D)")
-    _same_length(water_content=w, dry_density=rho)
-    _require(
+    require_same_length(water_content=w, dry_density=rho)
+    require_elements(
         water_content, w, _plausible_water_content(w), "water_content", _WATER_CONTENT_EXPECTED
     )
-    _require(dry_density, rho, _plausible_dry_density(rho), "dry_density", _DRY_DENSITY_EXPECTED)
+    require_elements(
+        dry_density, rho, _plausible_dry_density(rho), "dry_density", _DRY_DENSITY_EXPECTED
+    )
     curve = _fit_curve(w, rho, method)
     if curve.message:
         warnings.warn(curve.message, stacklevel=2)
@@ -246,10 +247,10 @@ def compaction_curves(table: pd.DataFrame, method="quadratic") -> dict:
     ----------
     See :func:`fit_compaction_curve`.
     """
-    _require_columns(table, ("effort", "water_content", "dry_density"), "compaction table")
+    require_columns(table, ("effort", "water_content", "dry_density"), "compaction table")
     needed = _degree(method) + 1
-    w = _table_numbers(table, "water_content", allow_missing=True)
-    rho = _table_numbers(table, "dry_density", allow_missing=False)
+    w = column_numbers(table, "water_content", allow_missing=True)
+    rho = column_numbers(table, "dry_density", allow_missing=False)
     has_w = ~np.isnan(w)
     with np.errstate(invalid="ignore"):
         checks = (
@@ -259,13 +260,15 @@ def compaction_curves(table: pd.DataFrame, method="quadratic") -> dict:
     for values, ok, column, expected in checks:
         if not ok.all():
             bad = np.flatnonzero(~ok)[:5]
-            rows = "; ".join(f"{_row(table, table.index[i])}: {_show(values[i])}" for i in bad)
+            rows = "; ".join(
+                f"{table_row_name(table, table.index[i])}: {shown_value(values[i])}" for i in bad
+            )
             raise ValueError(f"column {column!r}: expected {expected}; {rows}")
     labels = table["effort"].to_numpy(dtype=object)
     has_effort = ~pd.isna(labels)
     for missing, what in ((~has_effort, "an effort"), (has_effort & ~has_w, "a water content")):
         if missing.any():
-            rows = ", ".join(_row(table, table.index[i]) for i in np.flatnonzero(missing))
+            rows = ", ".join(table_row_name(table, table.index[i]) for i in np.flatnonzero(missing))
             warnings.warn(
                 f"{int(missing.sum())} specimen(s) without {what} left out of the compaction "
                 f"curves: {rows}",
@@ -279,7 +282,7 @@ def compaction_curves(table: pd.DataFrame, method="quadratic") -> dict:
         points, distinct = int(rows.sum()), len(np.unique(w_values[rows]))
         if points < needed or distinct < needed:
             warnings.warn(
-                f"effort {_show(name)}: {points} specimen(s) at {distinct} distinct water "
+                f"effort {shown_value(name)}: {points} specimen(s) at {distinct} distinct water "
                 f"content(s); a {method} curve needs at least {needed} at {needed} distinct "
                 "water contents: no curve drawn",
                 stacklevel=2,
@@ -287,7 +290,7 @@ def compaction_curves(table: pd.DataFrame, method="quadratic") -> dict:
             continue
         curve = _fit_curve(w_values[rows], rho_values[rows], method)
         if curve.message:
-            warnings.warn(f"effort {_show(name)}: {curve.message}", stacklevel=2)
+            warnings.warn(f"effort {shown_value(name)}: {curve.message}", stacklevel=2)
         curves[name] = curve
     return curves
 
@@ -331,8 +334,8 @@ class LineOfOptimums:
         """Dry density on the line of optimums. [kg/m3] (`water_content` a fraction [-])."""
         if self.slope is None:
             raise ValueError(f"no line of optimums: {self.message}")
-        w = _numbers(water_content, "water_content")
-        return _like(self.intercept + self.slope * w, water_content)
+        w = finite_numbers(water_content, "water_content")
+        return like_inputs(self.intercept + self.slope * w, water_content)
 
 
 def line_of_optimums(curves: Mapping) -> LineOfOptimums:
@@ -368,7 +371,8 @@ def line_of_optimums(curves: Mapping) -> LineOfOptimums:
     for effort, curve in curves.items():
         if not isinstance(curve, CompactionCurve):
             raise ValueError(
-                f"curves[{_show(effort)}]: expected a CompactionCurve, got {type(curve).__name__}"
+                f"curves[{shown_value(effort)}]: expected a CompactionCurve, "
+                f"got {type(curve).__name__}"
             )
         if not curve.peak_found or not curve.peak_within_range:
             excluded.append((effort, curve.message))

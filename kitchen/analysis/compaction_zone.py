@@ -14,7 +14,7 @@ import numpy as np
 import pandas as pd
 from scipy.spatial import ConvexHull, QhullError
 
-from ._checks import _like, _numbers, _place, _same_length, _show
+from ._checks import element_place, finite_numbers, like_inputs, require_same_length, shown_value
 
 __all__ = ["AcceptableZone", "acceptable_zone"]
 
@@ -64,9 +64,9 @@ class AcceptableZone:
 
     def contains(self, water_content, dry_density):
         """True where (w, ρd) lies inside the zone or on its edge (w [-], ρd [kg/m3])."""
-        w = _numbers(water_content, "water_content")
-        rho = _numbers(dry_density, "dry_density")
-        _same_length(water_content=w, dry_density=rho)
+        w = finite_numbers(water_content, "water_content")
+        rho = finite_numbers(dry_density, "dry_density")
+        require_same_length(water_content=w, dry_density=rho)
         w, rho = np.broadcast_arrays(w, rho)
         q = np.stack([w / self.scale[0], rho / self.scale[1]], axis=-1)
         v = self.vertices / np.asarray(self.scale)
@@ -84,7 +84,7 @@ class AcceptableZone:
                 edge, rel = end - start, q - start
                 cross = edge[0] * rel[..., 1] - edge[1] * rel[..., 0]
                 inside &= cross >= -_ZONE_TOLERANCE * np.hypot(*edge)
-        return _like(inside, water_content, dry_density)
+        return like_inputs(inside, water_content, dry_density)
 
 
 def _flags(meets) -> np.ndarray:
@@ -94,7 +94,7 @@ def _flags(meets) -> np.ndarray:
             if not isinstance(item, bool | np.bool_):
                 raise ValueError(
                     "meets: expected True or False for each specimen (True where it meets "
-                    f"the criterion); got {_show(item)} at {_place(meets, i)}"
+                    f"the criterion); got {shown_value(item)} at {element_place(meets, i)}"
                 )
     return raw.astype(bool)
 
@@ -136,12 +136,12 @@ def acceptable_zone(water_content, dry_density, meets) -> AcceptableZone:
     soil liners. Journal of Geotechnical Engineering 116(12), 1811–1830 (pages from
     memory).
     """
-    w = _numbers(water_content, "water_content")
-    rho = _numbers(dry_density, "dry_density")
+    w = finite_numbers(water_content, "water_content")
+    rho = finite_numbers(dry_density, "dry_density")
     flags = _flags(meets)
     if w.ndim != 1 or rho.ndim != 1 or flags.ndim != 1:
         raise ValueError("water_content, dry_density, meets: expected one value per specimen")
-    _same_length(water_content=w, dry_density=rho, meets=flags)
+    require_same_length(water_content=w, dry_density=rho, meets=flags)
     if w.size == 0:
         raise ValueError("water_content: no specimens given")
     scale = (_span(w), _span(rho))

@@ -13,14 +13,14 @@ import numpy as np
 import pandas as pd
 
 from ._checks import (
-    _like,
-    _numbers,
-    _require,
-    _require_columns,
-    _row,
-    _same_length,
-    _show,
-    _table_numbers,
+    column_numbers,
+    finite_numbers,
+    like_inputs,
+    require_columns,
+    require_elements,
+    require_same_length,
+    shown_value,
+    table_row_name,
 )
 
 __all__ = [
@@ -60,8 +60,8 @@ class GradingPrediction:
 
 
 def _d10(d10) -> np.ndarray:
-    values = _numbers(d10, "d10")
-    _require(
+    values = finite_numbers(d10, "d10")
+    require_elements(
         d10,
         values,
         values > 0,
@@ -72,8 +72,8 @@ def _d10(d10) -> np.ndarray:
 
 
 def _void_ratio(void_ratio, name="void_ratio") -> np.ndarray:
-    values = _numbers(void_ratio, name)
-    _require(void_ratio, values, values > 0, name, "a positive void ratio")
+    values = finite_numbers(void_ratio, name)
+    require_elements(void_ratio, values, values > 0, name, "a positive void ratio")
     return values
 
 
@@ -107,17 +107,17 @@ def hazen_conductivity(d10, coefficient=100.0) -> GradingPrediction:
     Eng. 129(11), 1054–1056 (from memory).
     """
     values = _d10(d10)
-    c = _numbers(coefficient, "coefficient")
+    c = finite_numbers(coefficient, "coefficient")
     if c.ndim != 0 or not c > 0:
         raise ValueError(
             "coefficient: expected one positive Hazen coefficient (about 100); "
-            f"got {_show(coefficient)}"
+            f"got {shown_value(coefficient)}"
         )
     k = 100.0 * float(c) * values**2
     inside = (values >= _HAZEN_D10_RANGE[0]) & (values <= _HAZEN_D10_RANGE[1])
     return GradingPrediction(
-        conductivity=_like(k, d10),
-        within_range=_like(inside, d10),
+        conductivity=like_inputs(k, d10),
+        within_range=like_inputs(inside, d10),
         method="Hazen (1892)",
         validity="clean uniform sand, 0.1 mm ≤ d10 ≤ 3 mm",
     )
@@ -152,7 +152,7 @@ def chapuis_conductivity(d10, void_ratio) -> GradingPrediction:
     """
     d = _d10(d10)
     e = _void_ratio(void_ratio)
-    _same_length(d10=d, void_ratio=e)
+    require_same_length(d10=d, void_ratio=e)
     d_mm = 1000.0 * d
     k_cm = 2.4622 * (d_mm**2 * e**3 / (1.0 + e)) ** 0.7825
     inside = (
@@ -162,8 +162,8 @@ def chapuis_conductivity(d10, void_ratio) -> GradingPrediction:
         & (e <= _CHAPUIS_VOID_RATIO_RANGE[1])
     )
     return GradingPrediction(
-        conductivity=_like(0.01 * k_cm, d10, void_ratio),
-        within_range=_like(inside, d10, void_ratio),
+        conductivity=like_inputs(0.01 * k_cm, d10, void_ratio),
+        within_range=like_inputs(inside, d10, void_ratio),
         method="Chapuis (2004)",
         validity="natural sand and gravel, 0.13 mm ≤ d10 ≤ 1.98 mm, 0.4 ≤ e ≤ 1.5",
     )
@@ -197,8 +197,8 @@ def kozeny_carman_ratio(e_from, e_to):
     """
     a = _void_ratio(e_from, "e_from")
     b = _void_ratio(e_to, "e_to")
-    _same_length(e_from=a, e_to=b)
-    return _like((b**3 / (1.0 + b)) / (a**3 / (1.0 + a)), e_from, e_to)
+    require_same_length(e_from=a, e_to=b)
+    return like_inputs((b**3 / (1.0 + b)) / (a**3 / (1.0 + a)), e_from, e_to)
 
 
 def grading_predictions(table: pd.DataFrame) -> pd.DataFrame:
@@ -223,16 +223,19 @@ def grading_predictions(table: pd.DataFrame) -> pd.DataFrame:
     ----------
     See :func:`hazen_conductivity` and :func:`chapuis_conductivity`.
     """
-    _require_columns(table, ("specimen", "d10", "void_ratio"), "grading table")
-    d10 = pd.Series(_table_numbers(table, "d10", allow_missing=True), index=table.index)
-    e = pd.Series(_table_numbers(table, "void_ratio", allow_missing=True), index=table.index)
+    require_columns(table, ("specimen", "d10", "void_ratio"), "grading table")
+    d10 = pd.Series(column_numbers(table, "d10", allow_missing=True), index=table.index)
+    e = pd.Series(column_numbers(table, "void_ratio", allow_missing=True), index=table.index)
     for values, column, expected in (
         (d10, "d10", "a positive d10 in m (0.2 mm is 0.0002)"),
         (e, "void_ratio", "a positive void ratio"),
     ):
         bad = values <= 0
         if bad.any():
-            rows = "; ".join(f"{_row(table, i)}: {_show(values[i])}" for i in table.index[bad][:5])
+            rows = "; ".join(
+                f"{table_row_name(table, i)}: {shown_value(values[i])}"
+                for i in table.index[bad][:5]
+            )
             raise ValueError(f"column {column!r}: expected {expected}; {rows}")
     hazen_k = pd.Series(np.nan, index=table.index)
     chapuis_k = pd.Series(np.nan, index=table.index)

@@ -32,7 +32,8 @@ REQUIRED_COLUMNS = (
 )
 
 
-def _require_results(results) -> None:
+def require_results_table(results) -> None:
+    """Refuse a results table that is not a DataFrame, lacks a required column, or is empty."""
     if not isinstance(results, pd.DataFrame):
         raise ValueError(f"results: expected a pandas DataFrame, got {type(results).__name__}")
     missing = [column for column in REQUIRED_COLUMNS if column not in results.columns]
@@ -45,7 +46,7 @@ def _require_results(results) -> None:
         raise ValueError("results table: no rows; the series has no reduced test")
 
 
-def _one_per_specimen(results: pd.DataFrame, notes: list[str]) -> pd.DataFrame:
+def one_result_per_specimen(results: pd.DataFrame, notes: list[str]) -> pd.DataFrame:
     """One row per specimen, in the order of the table: its first valid result, else its
     first result."""
     specimens = results["specimen"].to_numpy(dtype=object)
@@ -71,7 +72,13 @@ def _one_per_specimen(results: pd.DataFrame, notes: list[str]) -> pd.DataFrame:
     return results.iloc[sorted(chosen.values())].reset_index(drop=True)
 
 
-def _usable_conductivity(frame: pd.DataFrame, notes: list[str]) -> pd.DataFrame:
+def usable_conductivity(frame: pd.DataFrame, notes: list[str]) -> pd.DataFrame:
+    """The rows with a positive k, with ``k``, ``k_low`` and ``k_high`` added.
+
+    The interval is NaN where it does not bound k; each specimen left out, and each left
+    without an interval, is noted.
+    """
+
     def numbers(column):
         return pd.to_numeric(frame[column], errors="coerce").to_numpy(dtype=float)
 
@@ -92,7 +99,8 @@ def _usable_conductivity(frame: pd.DataFrame, notes: list[str]) -> pd.DataFrame:
     )
 
 
-def _verdicts(frame: pd.DataFrame, criterion: float) -> np.ndarray:
+def criterion_verdicts(frame: pd.DataFrame, criterion: float) -> np.ndarray:
+    """Each row's verdict from its interval against `criterion`; not conclusive without one."""
     verdict = np.full(len(frame), NOT_CONCLUSIVE, dtype=object)
     bounded = frame["k_low"].notna().to_numpy()
     if bounded.any():
@@ -108,7 +116,8 @@ def _verdicts(frame: pd.DataFrame, criterion: float) -> np.ndarray:
     return verdict
 
 
-def _specific_gravity(frame: pd.DataFrame, notes: list[str]) -> float | None:
+def median_specific_gravity(frame: pd.DataFrame, notes: list[str]) -> float | None:
+    """The median Gs of the rows (None when none has one); a spread of values is noted."""
     gs = pd.to_numeric(frame["specific_gravity"], errors="coerce").dropna()
     if gs.empty:
         return None

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from kitchen.specimen import WATER_DENSITY_PHASE
 
-from ._checks import _like, _numbers, _require, _same_length
+from ._checks import finite_numbers, like_inputs, require_elements, require_same_length
 
 __all__ = ["zero_air_voids_dry_density", "constant_saturation_dry_density"]
 
@@ -47,29 +47,31 @@ def constant_saturation_dry_density(
     >>> round(constant_saturation_dry_density(0.20, 2.70, 0.90))
     1688
     """
-    w = _numbers(water_content, "water_content")
-    gs = _numbers(specific_gravity, "specific_gravity")
-    s = _numbers(saturation, "saturation")
-    rho_w = _numbers(water_density, "water_density")
-    _require(water_content, w, w >= 0, "water_content", "a fraction ≥ 0")
-    _require(
+    w = finite_numbers(water_content, "water_content")
+    gs = finite_numbers(specific_gravity, "specific_gravity")
+    s = finite_numbers(saturation, "saturation")
+    rho_w = finite_numbers(water_density, "water_density")
+    require_elements(water_content, w, w >= 0, "water_content", "a fraction ≥ 0")
+    require_elements(
         specific_gravity,
         gs,
         (gs > 1) & (gs <= 10),
         "specific_gravity",
         "a specific gravity of solids between 1 and 10 (dimensionless; most soils 2.6–2.8)",
     )
-    _require(
+    require_elements(
         saturation,
         s,
         (s > 0) & (s <= 1),
         "saturation",
         "a fraction 0 < S ≤ 1 (0.90 for 90 %, not 90)",
     )
-    _require(water_density, rho_w, rho_w > 0, "water_density", "a positive density in kg/m3")
-    _same_length(water_content=w, specific_gravity=gs, saturation=s)
+    require_elements(
+        water_density, rho_w, rho_w > 0, "water_density", "a positive density in kg/m3"
+    )
+    require_same_length(water_content=w, specific_gravity=gs, saturation=s)
     rho_d = gs * rho_w / (1.0 + w * gs / s)
-    return _like(rho_d, water_content, specific_gravity, saturation)
+    return like_inputs(rho_d, water_content, specific_gravity, saturation)
 
 
 def zero_air_voids_dry_density(water_content, specific_gravity, water_density=WATER_DENSITY_PHASE):

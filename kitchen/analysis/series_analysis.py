@@ -1,9 +1,9 @@
 """The series analysis in one call: everything the charts and the memo draw on.
 
-:func:`analyse_series` takes the results table (:func:`kitchen.reduction.results.series_results`)
+:func:`analyse_series` takes the results table (:func:`kitchen.reduction.series_results`)
 and the criterion, keeps one result per specimen, marks each against the criterion, and
-runs the analyses of :mod:`kitchen.analysis.compaction` and :mod:`kitchen.analysis.trends` that the data
-allow: compaction curves and the line of optimums, the saturation lines, the acceptable
+runs the analyses of :mod:`kitchen.analysis.compaction` and :mod:`kitchen.analysis.trends` that
+the data allow: compaction curves and the line of optimums, the saturation lines, the acceptable
 zone, log k against void ratio, dry density and water content relative to optimum, the
 geometric mean, and the predictions from grading. An analysis the data do not allow (too
 few specimens, no water contents) is left out, with the reason in ``notes``. Which result
@@ -26,11 +26,11 @@ from .criterion import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE, Criterion
 from .grading import grading_predictions, kozeny_carman_ratio
 from .result_selection import REQUIRED_COLUMNS as REQUIRED_COLUMNS
 from .result_selection import (
-    _one_per_specimen,
-    _require_results,
-    _specific_gravity,
-    _usable_conductivity,
-    _verdicts,
+    criterion_verdicts,
+    median_specific_gravity,
+    one_result_per_specimen,
+    require_results_table,
+    usable_conductivity,
 )
 from .saturation_lines import constant_saturation_dry_density
 from .trends import (
@@ -280,7 +280,7 @@ def analyse_series(
     soil liners. J. Geotech. Eng. 116(12), 1811–1830. See also the References of
     :mod:`kitchen.analysis.compaction` and :mod:`kitchen.analysis.trends`.
     """
-    _require_results(results)
+    require_results_table(results)
     kind = criterion.kind if isinstance(criterion, Criterion) else "maximum"
     try:
         limit = float(criterion)
@@ -290,12 +290,12 @@ def analyse_series(
         raise ValueError(f"criterion: expected a positive conductivity in m/s, got {criterion!r}")
     criterion = Criterion(limit, kind)
     notes: list[str] = []
-    frame = _usable_conductivity(_one_per_specimen(results, notes), notes)
+    frame = usable_conductivity(one_result_per_specimen(results, notes), notes)
     if frame.empty:
         raise ValueError("results table: no specimen has a usable conductivity")
     # every column is formed as an array and set in two passes: a dozen specimens make
     # the pandas overhead of setting one column at a time the larger part of the cost
-    verdict = _verdicts(frame, criterion)
+    verdict = criterion_verdicts(frame, criterion)
 
     def numbers(column):
         return pd.to_numeric(frame[column], errors="coerce").to_numpy(dtype=float)
@@ -310,7 +310,7 @@ def analyse_series(
         **{column: numbers(column) for column in ("dry_density", "void_ratio", "d10")},
     )
     plane = frame.iloc[np.flatnonzero(on_plane)]
-    gs = _specific_gravity(frame, notes if not plane.empty else [])
+    gs = median_specific_gravity(frame, notes if not plane.empty else [])
 
     curves: dict = {}
     optimums = zone = None

@@ -7,7 +7,7 @@ values, never measurements.
 
 This module holds the trends and the geometric mean. The criterion and the verdicts against
 it are in :mod:`kitchen.analysis.criterion`, the grading predictions in
-:mod:`kitchen.analysis.grading`; their names are importable from here too.
+:mod:`kitchen.analysis.grading`.
 """
 
 from __future__ import annotations
@@ -19,7 +19,15 @@ from scipy import stats
 
 from kitchen.fits import LinearFit, fit_line
 
-from ._checks import _conductivity, _confidence, _like, _numbers, _require, _same_length, _show
+from ._checks import (
+    checked_confidence,
+    conductivity_values,
+    finite_numbers,
+    like_inputs,
+    require_elements,
+    require_same_length,
+    shown_value,
+)
 
 __all__ = [
     "ConductivityTrend",
@@ -57,14 +65,14 @@ class ConductivityTrend:
 
     def conductivity(self, x):
         """k on the fitted line at `x` (units of x as fitted). [m/s]"""
-        values = _numbers(x, self.x_name)
-        return _like(10.0 ** self.fit.predict(values), x)
+        values = finite_numbers(x, self.x_name)
+        return like_inputs(10.0 ** self.fit.predict(values), x)
 
     def band(self, x):
         """(k_low, k_high): confidence band of the fitted line at `x`. [m/s]"""
-        values = _numbers(x, self.x_name)
+        values = finite_numbers(x, self.x_name)
         low, high = self.fit.band(values)
-        return _like(10.0 ** np.asarray(low), x), _like(10.0 ** np.asarray(high), x)
+        return like_inputs(10.0 ** np.asarray(low), x), like_inputs(10.0 ** np.asarray(high), x)
 
 
 @dataclass(frozen=True)
@@ -97,19 +105,19 @@ class VoidRatioTrend(ConductivityTrend):
 def _trend_inputs(x, k, x_name: str, confidence):
     if not isinstance(x_name, str) or not x_name:
         raise ValueError(f"x_name: expected the name of x, such as 'dry_density'; got {x_name!r}")
-    level = _confidence(confidence)
-    values = _numbers(x, x_name)
-    log_k = np.log10(_conductivity(k))
+    level = checked_confidence(confidence)
+    values = finite_numbers(x, x_name)
+    log_k = np.log10(conductivity_values(k))
     if values.ndim != 1 or log_k.ndim != 1:
         raise ValueError(f"{x_name}, k: expected one value per specimen (1-D)")
-    _same_length(**{x_name: values, "k": log_k})
+    require_same_length(**{x_name: values, "k": log_k})
     if values.size < 3:
         raise ValueError(
             f"a trend of log10 k on {x_name} needs at least 3 specimens; got {values.size}"
         )
     if np.ptp(values) == 0:
         raise ValueError(
-            f"{x_name}: all specimens share one value ({_show(values[0])}); no trend to fit"
+            f"{x_name}: all specimens share one value ({shown_value(values[0])}); no trend to fit"
         )
     return values, log_k, level
 
@@ -184,15 +192,15 @@ def fit_log_conductivity_void_ratio(
     645–660 (title and pages from memory).
     """
     e, log_k, level = _trend_inputs(void_ratio, k, "void_ratio", confidence)
-    _require(void_ratio, e, e > 0, "void_ratio", "a positive void ratio")
+    require_elements(void_ratio, e, e > 0, "void_ratio", "a positive void ratio")
     if initial_void_ratio is None:
         e0 = float(e.max())
     else:
-        given = _numbers(initial_void_ratio, "initial_void_ratio")
+        given = finite_numbers(initial_void_ratio, "initial_void_ratio")
         if given.ndim != 0 or not given > 0:
             raise ValueError(
                 "initial_void_ratio: expected one positive void ratio; "
-                f"got {_show(initial_void_ratio)}"
+                f"got {shown_value(initial_void_ratio)}"
             )
         e0 = float(given)
     fit = fit_line(e, log_k, confidence=level)
@@ -270,8 +278,8 @@ def geometric_mean_conductivity(k, confidence=0.95) -> GeometricMean:
     Common practice (no source): k is roughly log-normal, so the mean of log10 k and a
     Student-t interval on it summarise a series.
     """
-    level = _confidence(confidence)
-    log_k = np.log10(_conductivity(k)).ravel()
+    level = checked_confidence(confidence)
+    log_k = np.log10(conductivity_values(k)).ravel()
     if log_k.size < 2:
         raise ValueError(
             f"k: a geometric mean with a spread needs at least 2 values; got {log_k.size}"

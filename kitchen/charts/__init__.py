@@ -1,4 +1,41 @@
-"""FACE-DOCSTRING"""
+"""Figures for the series memo: plain plotly figures, drawn the same way in notebook and print.
+
+Every builder returns a new :class:`plotly.graph_objects.Figure` and leaves its inputs
+alone. Axis titles carry their units; the conductivity and density units are options
+(:mod:`kitchen.display_units`). The look is the memo style of this package: a serif face,
+a dark ink, and three verdict colours that are never the only cue — compactive effort is
+told by marker shape and line dash, the verdict by marker fill — so a chart still reads in
+greyscale print. The compaction chart and the falling-head chart also come as plain-dict
+specs (``*_spec``) that a live figure is brought to without validating the whole figure
+again. The core never imports plotly; this subpackage sits on top of it.
+
+Modules:
+
+- :mod:`.style`: the memo style (template, colours, markers, dashes), decimation, captions.
+- :mod:`._series_parts`: the markers, hover texts, criterion line and k axis they share.
+- :mod:`.compaction`: the compaction plane above log k against molding water content.
+- :mod:`.conductivity_trend`: log k against void ratio, dry density or w − w_opt.
+- :mod:`.specimen`: one specimen's charts: the falling-head record, the constant-head test.
+
+The public face, which other subpackages import from :mod:`kitchen.charts` and never from
+its modules: :func:`compaction_conductivity_figure`, :func:`compaction_conductivity_spec`,
+:func:`conductivity_trend_figure`, :func:`falling_head_figure`, :func:`falling_head_spec`
+and :func:`constant_head_figure` (the figures); :func:`memo_template`,
+:func:`decimation_indices`, :func:`add_caption`, :data:`MAX_TRACE_POINTS`, :data:`WIDTH`,
+:data:`HEIGHT`, :data:`FONT`, :data:`INK`, :data:`MUTED`, :data:`GRID`, :data:`ZONE`,
+:data:`VERDICT_COLOURS`, :data:`VERDICT_FILL`, :data:`EFFORT_SYMBOLS`,
+:data:`EFFORT_DASHES`, :data:`NO_EFFORT` and :data:`SATURATION_DASHES` (the style).
+
+References
+----------
+Daniel, D. E. and Benson, C. H. (1990), J. Geotech. Eng. 116(12), 1811–1830: the
+acceptable zone drawn on the compaction plane from the specimens that meet the criterion.
+Tavenas, F. et al. (1983), Can. Geotech. J. 20(4), 645–660 (e–log k); Chapuis, R. P.
+(2004), Can. Geotech. J. 41(5), 787–795; Hazen (1892) and Kozeny–Carman as in
+:mod:`kitchen.analysis`.
+ASTM D5084, Methods B and C: ln h falls linearly with time (from memory).
+Darcy's law v = k·i; ASTM D2434 (establish the laminar range, from memory).
+"""
 
 from .compaction import (
     compaction_conductivity_figure,

@@ -30,7 +30,7 @@ from .style import (
 )
 
 
-def _k_title(unit: DisplayUnit, reference_temperature: float) -> str:
+def k_axis_title(unit: DisplayUnit, reference_temperature: float) -> str:
     label = reference_label(reference_temperature)
     return f"hydraulic conductivity {label} [{unit.unit}]"
 
@@ -42,7 +42,7 @@ def _effort_labels(specimens: pd.DataFrame) -> np.ndarray:
     )
 
 
-def _effort_order(specimens: pd.DataFrame) -> list[str]:
+def effort_order(specimens: pd.DataFrame) -> list[str]:
     """The efforts by their specimens' mean dry density, lowest first (ties: as they come)."""
     labels = _effort_labels(specimens)
     density = specimens["dry_density"].to_numpy(dtype=float)
@@ -56,21 +56,21 @@ def _effort_order(specimens: pd.DataFrame) -> list[str]:
     return sorted(means, key=lambda label: (np.isnan(means[label]), means[label]))
 
 
-def _escaped(value) -> str:
+def html_escaped(value) -> str:
     """Text from the input, escaped for plotly's HTML-like labels."""
     return html.escape(str(value))
 
 
-def _group_title(effort: str) -> str:
+def effort_group_title(effort: str) -> str:
     if effort == NO_EFFORT:
         return "specimens (no effort given)"
     return f"effort: {html.escape(str(effort))}"
 
 
-def _effort_styles(specimens: pd.DataFrame, order=None) -> dict[str, tuple[str, str]]:
-    """Marker symbol and line dash of each effort; `order` is its :func:`_effort_order`
+def effort_styles(specimens: pd.DataFrame, order=None) -> dict[str, tuple[str, str]]:
+    """Marker symbol and line dash of each effort; `order` is its :func:`effort_order`
     when already known."""
-    order = _effort_order(specimens) if order is None else order
+    order = effort_order(specimens) if order is None else order
     return {
         effort: (EFFORT_SYMBOLS[i % len(EFFORT_SYMBOLS)], EFFORT_DASHES[i % len(EFFORT_DASHES)])
         for i, effort in enumerate(order)
@@ -80,7 +80,7 @@ def _effort_styles(specimens: pd.DataFrame, order=None) -> dict[str, tuple[str, 
 _HOVER_COLUMNS = ("specimen", "method", "water_content", "void_ratio", "k", "k_low", "k_high")
 
 
-def _hover(rows: pd.DataFrame, unit: DisplayUnit, analysis: SeriesAnalysis) -> list[str]:
+def hover_texts(rows: pd.DataFrame, unit: DisplayUnit, analysis: SeriesAnalysis) -> list[str]:
     texts = []
     columns = [rows[c].tolist() for c in (*_HOVER_COLUMNS, "verdict")]
     for specimen, method, water, void_ratio, k, k_low, k_high, verdict in zip(
@@ -94,7 +94,7 @@ def _hover(rows: pd.DataFrame, unit: DisplayUnit, analysis: SeriesAnalysis) -> l
                 f"{scientific(k_high * unit.factor, html=True)}"
             )
         texts.append(
-            f"<b>{_escaped(specimen)}</b> ({_escaped(method).replace('_', ' ')})<br>"
+            f"<b>{html_escaped(specimen)}</b> ({html_escaped(method).replace('_', ' ')})<br>"
             f"w = {w}, e = {void_ratio:.3f}<br>"
             f"k = {scientific(k * unit.factor, html=True)} {unit.unit}<br>"
             f"{100 * analysis.confidence:g} %: {interval}<br>{verdict}"
@@ -102,7 +102,7 @@ def _hover(rows: pd.DataFrame, unit: DisplayUnit, analysis: SeriesAnalysis) -> l
     return texts
 
 
-def _specimen_traces(
+def specimen_traces(
     analysis, x, y, unit: DisplayUnit, show_legend: bool, error_bars: float | None
 ) -> list[go.Scatter]:
     """One trace per effort and verdict: shape by effort, fill and colour by verdict.
@@ -112,11 +112,11 @@ def _specimen_traces(
     """
     return [
         go.Scatter(trace)
-        for trace in _specimen_trace_specs(analysis, x, y, unit, show_legend, error_bars)
+        for trace in specimen_trace_specs(analysis, x, y, unit, show_legend, error_bars)
     ]
 
 
-def _specimen_trace_specs(
+def specimen_trace_specs(
     analysis,
     x,
     y,
@@ -127,19 +127,19 @@ def _specimen_trace_specs(
     hover=None,
     **axes,
 ) -> list[dict]:
-    """The traces of :func:`_specimen_traces` as plain dicts (validated when a figure is
+    """The traces of :func:`specimen_traces` as plain dicts (validated when a figure is
     built from them), each with `axes` (``xaxis``, ``yaxis``) added; `order` is the
-    :func:`_effort_order` of the specimens and `hover` their :func:`_hover` texts, when
+    :func:`effort_order` of the specimens and `hover` their :func:`hover_texts` texts, when
     already known."""
     frame = analysis.specimens
-    order = _effort_order(frame) if order is None else order
-    styles = _effort_styles(frame, order)
+    order = effort_order(frame) if order is None else order
+    styles = effort_styles(frame, order)
     labels = _effort_labels(frame)
     verdicts = frame["verdict"].to_numpy(dtype=object)
     is_verdict = {v: verdicts == v for v in VERDICTS}
     if hover is None:
-        hover = np.array(_hover(frame, unit, analysis), dtype=object)
-    names = np.array([_escaped(v) for v in frame["specimen"]], dtype=object)
+        hover = np.array(hover_texts(frame, unit, analysis), dtype=object)
+    names = np.array([html_escaped(v) for v in frame["specimen"]], dtype=object)
     k_all, k_low_all, k_high_all = (frame[c].to_numpy() for c in ("k", "k_low", "k_high"))
     x, y = np.asarray(x), np.asarray(y)
     traces = []
@@ -172,7 +172,7 @@ def _specimen_trace_specs(
                     mode="markers",
                     name=verdict,
                     legendgroup=f"effort {effort}",
-                    legendgrouptitle=dict(text=_group_title(effort)),
+                    legendgrouptitle=dict(text=effort_group_title(effort)),
                     showlegend=show_legend,
                     marker=dict(
                         symbol=styles[effort][0] + VERDICT_FILL[verdict],
@@ -191,11 +191,11 @@ def _specimen_trace_specs(
     return traces
 
 
-def _criterion_trace(analysis, x_range, unit: DisplayUnit, show_legend=True) -> go.Scatter:
-    return go.Scatter(_criterion_spec(analysis, x_range, unit, show_legend))
+def criterion_trace(analysis, x_range, unit: DisplayUnit, show_legend=True) -> go.Scatter:
+    return go.Scatter(criterion_spec(analysis, x_range, unit, show_legend))
 
 
-def _criterion_spec(analysis, x_range, unit: DisplayUnit, show_legend=True) -> dict:
+def criterion_spec(analysis, x_range, unit: DisplayUnit, show_legend=True) -> dict:
     """The criterion line as a trace's properties."""
     value = analysis.criterion * unit.factor
     return dict(
@@ -211,7 +211,7 @@ def _criterion_spec(analysis, x_range, unit: DisplayUnit, show_legend=True) -> d
     )
 
 
-def _padded(values, fraction=0.06):
+def padded_range(values, fraction=0.06):
     values = np.asarray(values, dtype=float)
     values = values[np.isfinite(values)]
     low, high = float(values.min()), float(values.max())
@@ -225,7 +225,7 @@ CRITERION_REACH = 2.0
 """The criterion line is drawn when it lies within this many decades of the data."""
 
 
-def _k_axis(analysis, unit: DisplayUnit, extra=()) -> tuple[dict, str]:
+def k_axis_layout(analysis, unit: DisplayUnit, extra=()) -> tuple[dict, str]:
     """Log k axis over the data (and the criterion when near); a note when it is left off.
 
     `extra` holds more values to keep in range, already in the display unit.
@@ -258,7 +258,7 @@ def _k_axis(analysis, unit: DisplayUnit, extra=()) -> tuple[dict, str]:
     return axis, note
 
 
-def _note_spec(text: str) -> dict:
+def note_spec(text: str) -> dict:
     """A note in the top left corner of a panel, as an annotation's properties."""
     return dict(
         text=text,
@@ -274,6 +274,6 @@ def _note_spec(text: str) -> dict:
     )
 
 
-def _note(figure: go.Figure, text: str, **where) -> None:
+def add_note(figure: go.Figure, text: str, **where) -> None:
     if text:
-        figure.add_annotation(**_note_spec(text), **where)
+        figure.add_annotation(**note_spec(text), **where)

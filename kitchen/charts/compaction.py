@@ -22,19 +22,19 @@ from kitchen.display_units import density_unit, k_unit, scientific
 
 from ._series_parts import (
     ERROR_BAR_FRACTION,
-    _criterion_spec,
-    _effort_order,
-    _effort_styles,
-    _escaped,
-    _group_title,
-    _hover,
-    _k_axis,
-    _k_title,
-    _note_spec,
-    _padded,
-    _specimen_trace_specs,
+    criterion_spec,
+    effort_order,
+    effort_styles,
+    html_escaped,
+    effort_group_title,
+    hover_texts,
+    k_axis_layout,
+    k_axis_title,
+    note_spec,
+    padded_range,
+    specimen_trace_specs,
 )
-from .style import INK, MUTED, SATURATION_DASHES, ZONE, _template
+from .style import INK, MUTED, SATURATION_DASHES, ZONE, cached_memo_template
 
 __all__ = ["compaction_conductivity_figure", "compaction_conductivity_spec"]
 
@@ -102,7 +102,7 @@ def compaction_conductivity_spec(
         raise ValueError("no specimen has a molding water content: no compaction plane to draw")
     plane = replace(analysis, specimens=frame)
     w_pct = frame["water_content"].to_numpy() * 100.0
-    x_range = _padded(w_pct, 0.08)
+    x_range = padded_range(w_pct, 0.08)
     # the traces and the layout are gathered as plain dicts and validated once, when the
     # figure is built: adding them one at a time re-validates the whole figure each time
     top, bottom = dict(xaxis="x", yaxis="y"), dict(xaxis="x2", yaxis="y2")
@@ -130,8 +130,8 @@ def compaction_conductivity_spec(
                 **top,
             )
         )
-    order = _effort_order(frame)
-    styles = _effort_styles(frame, order)
+    order = effort_order(frame)
+    styles = effort_styles(frame, order)
     for effort in order:
         curve = analysis.compaction_curves.get(effort)
         if curve is None:
@@ -147,7 +147,7 @@ def compaction_conductivity_spec(
                 mode="lines",
                 name=f"compaction curve ({curve.method})",
                 legendgroup=f"effort {effort}",
-                legendgrouptitle=dict(text=_group_title(effort)),
+                legendgrouptitle=dict(text=effort_group_title(effort)),
                 line=dict(color=INK, width=1.5, dash=styles.get(effort, ("", "solid"))[1]),
                 hoverinfo="name",
                 **top,
@@ -165,13 +165,13 @@ def compaction_conductivity_spec(
                 name="optimum of each effort",
                 legendgroup="optimums",
                 marker=dict(symbol="star", size=13, color="white", line=dict(color=INK, width=1.4)),
-                text=[_escaped(v) for v in line.efforts],
+                text=[html_escaped(v) for v in line.efforts],
                 hoverinfo="text+x+y",
                 **top,
             )
         )
         if line.slope is not None:
-            w = np.array(_padded(w_opt, 0.35))
+            w = np.array(padded_range(w_opt, 0.35))
             data.append(
                 dict(
                     type="scatter",
@@ -185,7 +185,7 @@ def compaction_conductivity_spec(
                     **top,
                 )
             )
-    y_low, y_high = _padded(np.concatenate(y_values) * du.factor, 0.10)
+    y_low, y_high = padded_range(np.concatenate(y_values) * du.factor, 0.10)
     if analysis.specific_gravity is not None:
         w = np.linspace(x_range[0], x_range[1], 80) / 100.0
         w = w[w >= 0]
@@ -228,22 +228,22 @@ def compaction_conductivity_spec(
                         yref="y",
                     )
                 )
-    k_axis, note = _k_axis(plane, ku)
+    k_axis, note = k_axis_layout(plane, ku)
     shortest = ERROR_BAR_FRACTION * (k_axis["range"][1] - k_axis["range"][0])
     density = frame["dry_density"] * du.factor
-    hover = np.array(_hover(frame, ku, plane), dtype=object)
-    data += _specimen_trace_specs(plane, w_pct, density, ku, True, None, order, hover, **top)
-    data += _specimen_trace_specs(
+    hover = np.array(hover_texts(frame, ku, plane), dtype=object)
+    data += specimen_trace_specs(plane, w_pct, density, ku, True, None, order, hover, **top)
+    data += specimen_trace_specs(
         plane, w_pct, frame["k"] * ku.factor, ku, False, shortest, order, hover, **bottom
     )
     if not note:
-        data.append(dict(_criterion_spec(analysis, x_range, ku), **bottom))
+        data.append(dict(criterion_spec(analysis, x_range, ku), **bottom))
     if note:
-        annotations.append(dict(_note_spec(note), xref="x2 domain", yref="y2 domain"))
+        annotations.append(dict(note_spec(note), xref="x2 domain", yref="y2 domain"))
     axes = _two_panel_axes()
-    k_title = _k_title(ku, analysis.reference_temperature)
+    k_title = k_axis_title(ku, analysis.reference_temperature)
     layout = dict(
-        template=_template(),
+        template=cached_memo_template(),
         xaxis=dict(axes["xaxis"], range=list(x_range)),
         yaxis=dict(axes["yaxis"], title=dict(text=du.title()), range=[y_low, y_high]),
         xaxis2=dict(

@@ -17,13 +17,13 @@ from kitchen.display_units import DisplayUnit, density_unit, k_unit
 
 from ._series_parts import (
     ERROR_BAR_FRACTION,
-    _criterion_trace,
-    _escaped,
-    _k_axis,
-    _k_title,
-    _note,
-    _padded,
-    _specimen_traces,
+    criterion_trace,
+    html_escaped,
+    k_axis_layout,
+    k_axis_title,
+    add_note,
+    padded_range,
+    specimen_traces,
 )
 from .style import INK, MUTED, memo_template
 
@@ -98,7 +98,7 @@ def conductivity_trend_figure(
     title, scale = _x_axis(against, du)
     plotted = replace(analysis, specimens=frame)
     x = frame[column].to_numpy(float)
-    x_range = _padded(x * scale, 0.08)
+    x_range = padded_range(x * scale, 0.08)
     figure = go.Figure(layout=dict(template=memo_template()))
     trend = getattr(analysis, attribute)
     if trend is not None:
@@ -156,15 +156,15 @@ def conductivity_trend_figure(
     if analysis.grading is not None and against in ("void_ratio", "dry_density"):
         _add_predictions(figure, analysis, frame, column, scale, ku)
     drawn = [np.asarray(trace.y, dtype=float) for trace in figure.data]
-    k_axis, note = _k_axis(plotted, ku, np.concatenate(drawn) if drawn else ())
+    k_axis, note = k_axis_layout(plotted, ku, np.concatenate(drawn) if drawn else ())
     shortest = ERROR_BAR_FRACTION * (k_axis["range"][1] - k_axis["range"][0])
-    for trace in _specimen_traces(plotted, x * scale, frame["k"] * ku.factor, ku, True, shortest):
+    for trace in specimen_traces(plotted, x * scale, frame["k"] * ku.factor, ku, True, shortest):
         figure.add_trace(trace)
     if not note:
-        figure.add_trace(_criterion_trace(analysis, x_range, ku))
-    _note(figure, note)
+        figure.add_trace(criterion_trace(analysis, x_range, ku))
+    add_note(figure, note)
     figure.update_xaxes(title_text=title, range=list(x_range))
-    figure.update_yaxes(title_text=_k_title(ku, analysis.reference_temperature), **k_axis)
+    figure.update_yaxes(title_text=k_axis_title(ku, analysis.reference_temperature), **k_axis)
     subject = {
         "void_ratio": "void ratio",
         "dry_density": du.quantity,
@@ -201,7 +201,7 @@ def _add_predictions(figure, analysis, frame, column, scale, ku):
                         color=MUTED if inside else "#b0b7bd",
                         line=dict(width=2, color=MUTED if inside else "#b0b7bd"),
                     ),
-                    text=[_escaped(v) for v in rows["specimen"]],
+                    text=[html_escaped(v) for v in rows["specimen"]],
                     hovertemplate="%{text}: %{y:.3g} " + ku.unit + f"<extra>{name}</extra>",
                 )
             )

@@ -23,7 +23,7 @@ from .style import (
     MUTED,
     VERDICT_COLOURS,
     ZONE,
-    _template,
+    cached_memo_template,
     decimation_indices,
     memo_template,
 )
@@ -214,7 +214,7 @@ def falling_head_spec(
     )
     label = reference_label(reference_temperature)
     layout = dict(
-        template=_template(),
+        template=cached_memo_template(),
         shapes=shapes,
         annotations=annotations,
         xaxis=dict(title=dict(text=f"elapsed time t [{unit}]")),

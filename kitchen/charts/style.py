@@ -95,7 +95,7 @@ def memo_template() -> go.layout.Template:
 
 
 @lru_cache(maxsize=1)
-def _template() -> go.layout.Template:
+def cached_memo_template() -> go.layout.Template:
     """The memo template built once; figures copy it when it is set on their layout."""
     return memo_template()
 

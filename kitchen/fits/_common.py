@@ -2,9 +2,10 @@
 
 The checks turn bad input into a plain ``ValueError`` that names the offending value (its
 position, or the argument); the dot product runs in blocks short enough to stay on one
-thread; the Student-t quantile gives every interval. The names are internal to the fits of
-:mod:`kitchen.fits.line`, :mod:`kitchen.fits.windowed` and :mod:`kitchen.fits.decay`, which
-import them from here. Pure numpy/scipy.
+thread; the Student-t quantile gives every interval. The module is private to
+:mod:`kitchen.fits`: its names are shared by the fits of :mod:`kitchen.fits.line`,
+:mod:`kitchen.fits.windowed` and :mod:`kitchen.fits.decay`, which import them from here.
+Pure numpy/scipy.
 """
 
 from __future__ import annotations
@@ -14,11 +15,11 @@ import math
 import numpy as np
 from scipy import special
 
-_EPS = np.finfo(np.float64).eps
+MACHINE_EPSILON = np.finfo(np.float64).eps
 
 
 # --------------------------------------------------------------------------- input checks
-def _check_confidence(confidence):
+def checked_confidence(confidence):
     if not isinstance(confidence, (int, float, np.floating)) or not 0.0 < confidence < 1.0:
         raise ValueError(f"confidence must be a fraction between 0 and 1, got {confidence!r}")
     return float(confidence)
@@ -34,7 +35,7 @@ def _as_vector(values, name):
     return array
 
 
-def _paired(x, y, names, minimum, what):
+def paired_vectors(x, y, names, minimum, what):
     x, y = _as_vector(x, names[0]), _as_vector(y, names[1])
     if x.size != y.size:
         raise ValueError(
@@ -45,7 +46,7 @@ def _paired(x, y, names, minimum, what):
     return x, y
 
 
-def _finite_sum(array, name):
+def finite_sum(array, name):
     """Sum of `array`; a non-finite sum is traced to the first offending value."""
     total = float(array.sum())
     if math.isfinite(total):
@@ -57,28 +58,28 @@ def _finite_sum(array, name):
     raise ValueError(f"{name} holds values too large to fit in double precision")
 
 
-def _too_large(*values):
+def refuse_overflow(*values):
     if not all(math.isfinite(v) for v in values):
         raise ValueError("the values are too large to fit in double precision; rescale them")
 
 
-_BLOCK = 8192  # dot products run in blocks this long (see _dot)
+DOT_BLOCK = 8192  # dot products run in blocks this long (see blocked_dot)
 
 
-def _dot(a, b):
-    """Dot product of two long vectors, in blocks of `_BLOCK` summed in Python.
+def blocked_dot(a, b):
+    """Dot product of two long vectors, in blocks of `DOT_BLOCK` summed in Python.
 
     Blocks stay below the length at which OpenBLAS hands a dot product to several threads;
     on a busy machine that hand-off can stall for milliseconds to seconds, while the blocked
     single-thread loop costs about the same as one call on an idle one.
     """
-    if a.size <= _BLOCK:
+    if a.size <= DOT_BLOCK:
         return float(np.dot(a, b))
     return float(
-        sum(np.dot(a[i : i + _BLOCK], b[i : i + _BLOCK]) for i in range(0, a.size, _BLOCK))
+        sum(np.dot(a[i : i + DOT_BLOCK], b[i : i + DOT_BLOCK]) for i in range(0, a.size, DOT_BLOCK))
     )
 
 
-def _t_quantile(confidence, dof):
+def student_t_quantile(confidence, dof):
     """Two-sided Student-t quantile t_{(1+confidence)/2, dof}."""
     return float(special.stdtrit(dof, 0.5 + 0.5 * confidence))

@@ -21,14 +21,14 @@ import numpy as np
 from scipy import optimize
 
 from ._common import (
-    _BLOCK,
-    _EPS,
-    _check_confidence,
-    _dot,
-    _finite_sum,
-    _paired,
-    _t_quantile,
-    _too_large,
+    DOT_BLOCK,
+    MACHINE_EPSILON,
+    blocked_dot,
+    checked_confidence,
+    finite_sum,
+    paired_vectors,
+    refuse_overflow,
+    student_t_quantile,
 )
 
 __all__ = ["DecayFit", "fit_exponential_decay"]
@@ -107,6 +107,40 @@ class DecayFit:
         return self.asymptote + (self.initial - self.asymptote) * decay
 
 
+@dataclass(frozen=True)
+class _DecayTerms:
+    """What one rate gives on the full data (:func:`_decay_terms`).
+
+    ``a`` and ``b`` are the linear parameters of ``h - mean(h) = A + B g(k, u)`` at that rate;
+    ``gauss_newton`` is J^T J and ``hessian`` the full Newton matrix, both in (A, B, rate);
+    ``gradient`` is minus half the gradient of the sum of squares in (A, B, rate);
+    ``sse_drop`` is how far the sum of squares lies below ``sum((h - mean(h))**2)``.
+    """
+
+    a: float
+    b: float
+    gauss_newton: np.ndarray
+    hessian: np.ndarray
+    gradient: np.ndarray
+    sse_drop: float
+
+
+@dataclass(frozen=True)
+class _RateSolution:
+    """Where the Newton iteration on the rate stopped (:func:`_polish_rate`).
+
+    ``status`` is ``"done"``, ``"edge"``, ``"limit"`` or ``"failed"``; ``terms`` are those at
+    ``rate``; ``step`` is the last Newton step in (A, B, rate), still to be applied (zeros
+    unless the iteration converged on an exact Newton step).
+    """
+
+    status: str
+    iterations: int
+    rate: float
+    terms: _DecayTerms
+    step: np.ndarray
+
+
 _RATE_LOW = 1e-4  # lowest rate searched, in 1/record span: time constants up to 1e4 spans
 
 
@@ -142,7 +176,7 @@ def _profile_sse(rates, u, hc, w):
     return np.einsum("ij,ij,j->i", r, r, w)
 
 
-def _decay_terms(rate, u, hc, h_sum, work):
+def _decay_terms(rate, u, hc, h_sum, work) -> _DecayTerms:
     """Linear parameters, Newton system and Gauss-Newton matrix at one rate (full data).
 
     `work` holds four scratch arrays, filled as g, dg/drate, d2g/drate2 and u*exp(-rate u);
@@ -152,8 +186,8 @@ def _decay_terms(rate, u, hc, h_sum, work):
     inverse = 1.0 / rate
     sums = np.zeros(10)
     dot = np.dot
-    for i in range(0, n, _BLOCK):
-        j = i + _BLOCK
+    for i in range(0, n, DOT_BLOCK):
+        j = i + DOT_BLOCK
         uu, hh = u[i:j], hc[i:j]
         g, gk, gkk, e = (row[i:j] for row in work)
         np.multiply(uu, -rate, out=e)
@@ -192,7 +226,7 @@ def _decay_terms(rate, u, hc, h_sum, work):
     # minus half the gradient of sum(r**2) in (A, B, rate); the first two vanish up to rounding
     gradient = np.array([h_sum - n * a - b * sg, shg - a * sg - b * sgg, b * rk])
     sse_drop = 2 * a * h_sum + 2 * b * shg - n * a * a - 2 * a * b * sg - b * b * sgg
-    return a, b, gauss_newton, hessian, gradient, sse_drop
+    return _DecayTerms(a, b, gauss_newton, hessian, gradient, sse_drop)
 
 
 def _newton_step(hessian, gauss_newton, gradient):
@@ -261,11 +295,11 @@ def fit_exponential_decay(t, h, confidence=0.95) -> DecayFit:
     .. [2] Draper & Smith, ch. 24, linearised covariance of nonlinear least squares ([DS]_).
        From memory.
     """
-    confidence = _check_confidence(confidence)
-    t, h = _paired(t, h, ("t", "h"), 4, "an exponential decay fit (three parameters)")
+    confidence = checked_confidence(confidence)
+    t, h = paired_vectors(t, h, ("t", "h"), 4, "an exponential decay fit (three parameters)")
     n = t.size
-    _finite_sum(t, "t")
-    h_mean = _finite_sum(h, "h") / n
+    finite_sum(t, "t")
+    h_mean = finite_sum(h, "h") / n
     steps = np.diff(t)
     if (steps < 0).any():
         i = int(np.flatnonzero(steps < 0)[0]) + 1
@@ -279,22 +313,21 @@ def fit_exponential_decay(t, h, confidence=0.95) -> DecayFit:
     span = float(t[-1] - t[0])
     hc = h - h_mean
     with np.errstate(over="ignore", invalid="ignore"):
-        shh = _dot(hc, hc)
-    _too_large(shh, span)
-    if not shh > n * (64.0 * _EPS * h_mean) ** 2:
+        shh = blocked_dot(hc, hc)
+    refuse_overflow(shh, span)
+    if not shh > n * (64.0 * MACHINE_EPSILON * h_mean) ** 2:
         raise ValueError(f"the head does not change (every value is {h[0]!r}); nothing decays")
     u = (t - t[0]) * (1.0 / span)
 
     rate, rate_high, head_range = _locate_rate(u, h)
     work = [np.empty(n) for _ in range(4)]  # separate blocks: large ones are not recycled
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-        status, iterations, rate, (a, b, jtj), step = _polish_rate(
-            rate, rate_high, u, hc, shh, work
-        )
+        solution = _polish_rate(rate, rate_high, u, hc, shh, work)
+    rate = solution.rate
 
     # apply the last step; residuals updated to second order in the rate step
-    d_a, d_b, d_rate = (float(v) for v in step)
-    a, b, rate_final = a + d_a, b + d_b, rate + d_rate
+    d_a, d_b, d_rate = (float(v) for v in solution.step)
+    a, b, rate_final = solution.terms.a + d_a, solution.terms.b + d_b, rate + d_rate
     g, gk, gkk, scratch = work
     residuals = hc - a
     for coefficient, row in ((b, g), (b * d_rate, gk), (0.5 * b * d_rate * d_rate, gkk)):
@@ -302,46 +335,62 @@ def fit_exponential_decay(t, h, confidence=0.95) -> DecayFit:
             np.multiply(row, coefficient, out=scratch)
             residuals -= scratch
     del work, g, gk, gkk, scratch
-    sse = _dot(residuals, residuals)
+    sse = blocked_dot(residuals, residuals)
     residuals.flags.writeable = False
 
+    iterations = solution.iterations
     message = {
         "edge": _EDGE_MESSAGES["low" if rate <= _RATE_LOW else "high"],
         "limit": f"no convergence after {iterations} full-data iterations",
         "failed": "numerical failure: the normal equations became singular",
         "done": f"converged after {iterations} full-data Newton iteration(s)",
-    }[status]
+    }[solution.status]
     return _decay_result(
-        (h_mean + a, b, rate_final, span, float(t[0])),
-        jtj,
-        (sse, shh, n, confidence, residuals),
-        (iterations, status == "done", message, head_range, h, rate_high),
+        initial=h_mean + a,
+        b=b,
+        rate=rate_final,
+        span=span,
+        start_time=float(t[0]),
+        jtj=solution.terms.gauss_newton,
+        sse=sse,
+        shh=shh,
+        n=n,
+        confidence=confidence,
+        residuals=residuals,
+        iterations=iterations,
+        converged=solution.status == "done",
+        message=message,
+        head_range=head_range,
+        h=h,
+        rate_high=rate_high,
     )
 
 
-def _polish_rate(rate, rate_high, u, hc, shh, work):
+def _polish_rate(rate, rate_high, u, hc, shh, work) -> _RateSolution:
     """Safeguarded Newton iteration on the rate over the full data, from the subsample rate."""
     h_sum = float(hc.sum())
     iterations, best_sse, last_change = 0, math.inf, 0.0
     while True:
         iterations += 1
-        a, b, jtj, hessian, gradient, sse_drop = _decay_terms(rate, u, hc, h_sum, work)
-        if not (math.isfinite(a) and math.isfinite(b) and np.isfinite(hessian).all()):
-            return "failed", iterations, rate, (a, b, jtj), np.zeros(3)
-        sse = shh - sse_drop
+        terms = _decay_terms(rate, u, hc, h_sum, work)
+        if not (
+            math.isfinite(terms.a) and math.isfinite(terms.b) and np.isfinite(terms.hessian).all()
+        ):
+            return _RateSolution("failed", iterations, rate, terms, np.zeros(3))
+        sse = shh - terms.sse_drop
         if sse > best_sse * (1 + 1e-9) + 1e-13 * shh and iterations < _MAX_ITERATIONS:
             last_change *= 0.5  # the last step raised the sum of squares: go back half of it
             rate -= last_change
             continue
         best_sse = sse
-        step, exact = _newton_step(hessian, jtj, gradient)
+        step, exact = _newton_step(terms.hessian, terms.gauss_newton, terms.gradient)
         d_rate = float(step[2])
         if (rate <= _RATE_LOW and d_rate < 0) or (rate >= rate_high and d_rate > 0):
-            return "edge", iterations, rate, (a, b, jtj), np.zeros(3)
+            return _RateSolution("edge", iterations, rate, terms, np.zeros(3))
         if abs(d_rate) <= (_STEP_DONE if exact else 1e-10) * rate:
-            return "done", iterations, rate, (a, b, jtj), step if exact else np.zeros(3)
+            return _RateSolution("done", iterations, rate, terms, step if exact else np.zeros(3))
         if iterations >= _MAX_ITERATIONS:
-            return "limit", iterations, rate, (a, b, jtj), np.zeros(3)
+            return _RateSolution("limit", iterations, rate, terms, np.zeros(3))
         new_rate = rate + max(-0.5 * rate, min(d_rate, rate))
         new_rate = min(max(new_rate, _RATE_LOW), rate_high)
         last_change, rate = new_rate - rate, new_rate
@@ -380,14 +429,36 @@ def _locate_rate(u, h):
     return rate, rate_high, float(np.ptp(hs))
 
 
-def _decay_result(parameters, jtj, fit, status):
-    """Intervals from the linearised covariance and the DecayFit record."""
-    initial, b, rate, span, start_time = parameters
-    sse, shh, n, confidence, residuals = fit
-    iterations, converged, message, head_range, h, rate_high = status
+def _decay_result(
+    *,
+    initial,
+    b,
+    rate,
+    span,
+    start_time,
+    jtj,
+    sse,
+    shh,
+    n,
+    confidence,
+    residuals,
+    iterations,
+    converged,
+    message,
+    head_range,
+    h,
+    rate_high,
+):
+    """Intervals from the linearised covariance and the DecayFit record.
+
+    The model is ``h = initial + b g(rate, u)`` with ``u = (t - start_time) / span``; `jtj` is
+    J^T J in (A, B, rate); `sse` and `shh` are the residual sum of squares and that of the
+    heads about their mean; `head_range` is the range of the heads on the subsample and
+    `rate_high` the upper end of the searched rates.
+    """
     dof = n - 3
     s = math.sqrt(sse / dof)
-    tq = _t_quantile(confidence, dof)
+    tq = student_t_quantile(confidence, dof)
     asymptote = initial + b / rate
     with np.errstate(all="ignore"):
         try:

@@ -23,14 +23,14 @@ from functools import cached_property
 import numpy as np
 
 from ._common import (
-    _BLOCK,
-    _EPS,
-    _check_confidence,
-    _dot,
-    _finite_sum,
-    _paired,
-    _t_quantile,
-    _too_large,
+    DOT_BLOCK,
+    MACHINE_EPSILON,
+    blocked_dot,
+    checked_confidence,
+    finite_sum,
+    paired_vectors,
+    refuse_overflow,
+    student_t_quantile,
 )
 
 __all__ = ["LinearFit", "ProportionalFit", "fit_line", "fit_through_origin"]
@@ -113,15 +113,15 @@ class LinearFit:
         return centre - half, centre + half
 
 
-def _line_result(n, slope, x_mean, y_mean, sxx, syy, sse, confidence, residual_source):
+def linear_fit_from_sums(n, slope, x_mean, y_mean, sxx, syy, sse, confidence, residual_source):
     dof = n - 2
     s = math.sqrt(max(sse, 0.0) / dof)
     slope_se = s / math.sqrt(sxx)
     intercept_se = s * math.sqrt(1.0 / n + x_mean * x_mean / sxx)
     intercept = y_mean - slope * x_mean
-    t = _t_quantile(confidence, dof)
+    t = student_t_quantile(confidence, dof)
     r_squared = 1.0 - max(sse, 0.0) / syy if syy > 0 else 1.0
-    _too_large(slope, intercept, slope_se, intercept_se, r_squared)
+    refuse_overflow(slope, intercept, slope_se, intercept_se, r_squared)
     return LinearFit(
         slope=slope,
         intercept=intercept,
@@ -178,35 +178,35 @@ def fit_line(x, y, confidence=0.95) -> LinearFit:
     .. [1] Draper & Smith, *Applied Regression Analysis*, ch. 1 ([DS]_); Montgomery & Runger,
        ch. 11 ([MR]_). From memory.
     """
-    confidence = _check_confidence(confidence)
-    x, y = _paired(x, y, ("x", "y"), 3, "a straight-line fit")
+    confidence = checked_confidence(confidence)
+    x, y = paired_vectors(x, y, ("x", "y"), 3, "a straight-line fit")
     n = x.size
-    x_mean = _finite_sum(x, "x") / n
-    y_mean = _finite_sum(y, "y") / n
+    x_mean = finite_sum(x, "x") / n
+    y_mean = finite_sum(y, "y") / n
     xc, yc = np.empty(n), np.empty(n)
     sxx = sxy = syy = 0.0
     with np.errstate(over="ignore", invalid="ignore"):
-        for i in range(0, n, _BLOCK):  # centre and sum each block while it is in cache
-            xb = np.subtract(x[i : i + _BLOCK], x_mean, out=xc[i : i + _BLOCK])
-            yb = np.subtract(y[i : i + _BLOCK], y_mean, out=yc[i : i + _BLOCK])
+        for i in range(0, n, DOT_BLOCK):  # centre and sum each block while it is in cache
+            xb = np.subtract(x[i : i + DOT_BLOCK], x_mean, out=xc[i : i + DOT_BLOCK])
+            yb = np.subtract(y[i : i + DOT_BLOCK], y_mean, out=yc[i : i + DOT_BLOCK])
             sxx += np.dot(xb, xb)
             sxy += np.dot(xb, yb)
             syy += np.dot(yb, yb)
     sxx, sxy, syy = float(sxx), float(sxy), float(syy)
-    _too_large(sxx, sxy, syy)
-    if not sxx > n * (64.0 * _EPS * x_mean) ** 2:
+    refuse_overflow(sxx, sxy, syy)
+    if not sxx > n * (64.0 * MACHINE_EPSILON * x_mean) ** 2:
         raise ValueError(
             f"x does not vary (every value is {float(x[0])!r}); the slope of a line is undefined"
         )
     slope = sxy / sxx
     sse = syy - slope * sxy
     if sse <= 1e-6 * syy:  # nearly exact line: sum the squared residuals themselves
-        sse, scratch = 0.0, np.empty(min(n, _BLOCK))
-        for i in range(0, n, _BLOCK):
-            r = np.multiply(xc[i : i + _BLOCK], slope, out=scratch[: min(_BLOCK, n - i)])
-            np.subtract(yc[i : i + _BLOCK], r, out=r)
+        sse, scratch = 0.0, np.empty(min(n, DOT_BLOCK))
+        for i in range(0, n, DOT_BLOCK):
+            r = np.multiply(xc[i : i + DOT_BLOCK], slope, out=scratch[: min(DOT_BLOCK, n - i)])
+            np.subtract(yc[i : i + DOT_BLOCK], r, out=r)
             sse += float(np.dot(r, r))
-    return _line_result(
+    return linear_fit_from_sums(
         n, slope, x_mean, y_mean, sxx, syy, sse, confidence, lambda: yc - slope * xc
     )
 
@@ -280,25 +280,25 @@ def fit_through_origin(x, y, confidence=0.95) -> ProportionalFit:
     .. [1] Montgomery & Runger, ch. 11, regression through the origin ([MR]_); Draper & Smith,
        ch. 1 ([DS]_). From memory.
     """
-    confidence = _check_confidence(confidence)
-    x, y = _paired(x, y, ("x", "y"), 2, "a line through the origin")
+    confidence = checked_confidence(confidence)
+    x, y = paired_vectors(x, y, ("x", "y"), 2, "a line through the origin")
     n = x.size
-    _finite_sum(x, "x")
-    _finite_sum(y, "y")
+    finite_sum(x, "x")
+    finite_sum(y, "y")
     with np.errstate(over="ignore", invalid="ignore"):
-        sxx, syy = _dot(x, x), _dot(y, y)
-    _too_large(sxx, syy)
+        sxx, syy = blocked_dot(x, x), blocked_dot(y, y)
+    refuse_overflow(sxx, syy)
     if sxx == 0.0:
         raise ValueError(
             "x is zero everywhere; the slope of a line through the origin is undefined"
         )
-    slope = _dot(x, y) / sxx
+    slope = blocked_dot(x, y) / sxx
     residuals = y - slope * x
-    sse = _dot(residuals, residuals)
-    _too_large(slope, sse)
+    sse = blocked_dot(residuals, residuals)
+    refuse_overflow(slope, sse)
     s = math.sqrt(sse / (n - 1))
     se = s / math.sqrt(sxx)
-    t = _t_quantile(confidence, n - 1)
+    t = student_t_quantile(confidence, n - 1)
     residuals.flags.writeable = False
     return ProportionalFit(
         slope=slope,

@@ -19,8 +19,8 @@ from fractions import Fraction
 
 import numpy as np
 
-from ._common import _check_confidence, _finite_sum, _paired
-from .line import LinearFit, _line_result
+from ._common import checked_confidence, finite_sum, paired_vectors
+from .line import LinearFit, linear_fit_from_sums
 
 __all__ = ["WindowedLineFit"]
 
@@ -41,7 +41,7 @@ def _two_product(a, b, a_parts, b_parts):
     return p, e
 
 
-def _compensated_prefix(a, extra=None):
+def compensated_prefix_sums(a, extra=None):
     """Prefix sums as unevaluated pairs: sum(a[:k]) + sum(extra[:k]) ~= high[k] + low[k].
 
     ``high`` is the plain running sum; ``low`` accumulates the exact rounding error of every
@@ -65,7 +65,7 @@ class WindowedLineFit:
     """Straight-line fits over windows of one record, in constant time per window.
 
     Prefix sums of 1, x, y, x², xy and y² (x and y shifted by their first values) are built
-    once; :meth:`fit` then gives every statistic of :func:`fit_line` for readings
+    once; :meth:`fit` then gives every statistic of :func:`~kitchen.fits.fit_line` for readings
     ``start .. stop-1`` from a handful of differences. Residuals are computed on access.
 
     Parameters
@@ -82,8 +82,9 @@ class WindowedLineFit:
     four digits). Here each product is split exactly (TwoProduct) and each running sum keeps its
     exact rounding errors in a second running sum (TwoSum), both from [OG]_; a window's sums are
     the exact differences of these pairs, combined in exact rational arithmetic into centred
-    moments, and rounded once. The windowed results then agree with :func:`fit_line` on the
-    slice to about 1e-12 relative. Memory: about 13 float arrays of the record's length.
+    moments, and rounded once. The windowed results then agree with
+    :func:`~kitchen.fits.fit_line` on the slice to about 1e-12 relative. Memory: about 13 float
+    arrays of the record's length.
 
     References
     ----------
@@ -91,9 +92,9 @@ class WindowedLineFit:
     """
 
     def __init__(self, x, y):
-        x, y = _paired(x, y, ("x", "y"), 3, "a windowed line fit")
-        _finite_sum(x, "x")
-        _finite_sum(y, "y")
+        x, y = paired_vectors(x, y, ("x", "y"), 3, "a windowed line fit")
+        finite_sum(x, "x")
+        finite_sum(y, "y")
         self.n = x.size
         self.x_reference = float(x[0])
         self.y_reference = float(y[0])
@@ -101,11 +102,11 @@ class WindowedLineFit:
         self._y = y - self.y_reference
         x_parts, y_parts = _split(self._x), _split(self._y)
         self._prefix = {
-            "x": _compensated_prefix(self._x),
-            "y": _compensated_prefix(self._y),
-            "xx": _compensated_prefix(*_two_product(self._x, self._x, x_parts, x_parts)),
-            "xy": _compensated_prefix(*_two_product(self._x, self._y, x_parts, y_parts)),
-            "yy": _compensated_prefix(*_two_product(self._y, self._y, y_parts, y_parts)),
+            "x": compensated_prefix_sums(self._x),
+            "y": compensated_prefix_sums(self._y),
+            "xx": compensated_prefix_sums(*_two_product(self._x, self._x, x_parts, x_parts)),
+            "xy": compensated_prefix_sums(*_two_product(self._x, self._y, x_parts, y_parts)),
+            "yy": compensated_prefix_sums(*_two_product(self._y, self._y, y_parts, y_parts)),
         }
         # run number of equal consecutive x: a window has constant x iff its ends share a run
         self._run = np.zeros(self.n, dtype=np.int64)
@@ -130,9 +131,9 @@ class WindowedLineFit:
         Returns
         -------
         LinearFit
-            As :func:`fit_line` on ``x[start:stop], y[start:stop]``.
+            As :func:`~kitchen.fits.fit_line` on ``x[start:stop], y[start:stop]``.
         """
-        confidence = _check_confidence(confidence)
+        confidence = checked_confidence(confidence)
         if not all(isinstance(v, (int, np.integer)) for v in (start, stop)):
             raise ValueError(f"window bounds must be integers, got {start!r} and {stop!r}")
         start, stop = int(start), int(stop)
@@ -158,7 +159,7 @@ class WindowedLineFit:
         slope = float(cxy / cxx)
         mean_x, mean_y = float(sx / m), float(sy / m)
         xs, ys = self._x[start:stop], self._y[start:stop]
-        return _line_result(
+        return linear_fit_from_sums(
             m,
             slope,
             float(Fraction(self.x_reference) + sx / m),

@@ -1,4 +1,39 @@
-"""FACE-DOCSTRING"""
+"""Reading a series: units at the file boundary, the raw tables, their checks, the series.
+
+The first step of the data's path. A series folder of CSV files, or one workbook, is read
+as written (:func:`read_tables`: numbers in the file's units, headers checked), then every
+value is checked and converted to SI (:func:`build_series`; :func:`load_series` does both).
+Every problem is collected, each an :class:`InputProblem` naming the file, the row and the
+column, and a series that cannot be used is refused with one :class:`SeriesError` listing
+them all. The revisions of :mod:`kitchen.revisions` are applied between the two steps, so
+the loader's checks run on them too. The files the tool writes go through here as well:
+whole or not at all, and safe to open in a spreadsheet. Raw data files are never written.
+
+Modules, in the data's order:
+
+- :mod:`.units`: bracketed units in column headers, parsed with pint; columns to SI.
+- :mod:`.raw_tables`: the columns each table may hold (``SCHEMAS``); tables read as written.
+- :mod:`.table_checks`: each table's values checked and converted to SI, every problem kept.
+- :mod:`.series`: the validated :class:`Series`, built whole or again for the changed tables.
+- :mod:`.files`: atomic writes, one-write appends, the folder lock, spreadsheet-safe CSV.
+
+The public face, which other subpackages import from :mod:`kitchen.io` and never from its
+modules: :func:`split_header`, :func:`format_header`, :func:`parse_value`, :func:`to_si`,
+:data:`KINDS` and :class:`UnitError` (units); :data:`SCHEMAS`, :data:`TABLE_NAMES`,
+:class:`ColumnSpec`, :class:`RawTable`, :func:`read_tables`, :class:`InputProblem` and
+:class:`SeriesError` (the raw tables); :func:`head_rise_tolerance`,
+:data:`HEAD_RISE_TOLERANCE` and :data:`HEAD_RISE_SCATTERS` (the rise a falling-head reading
+may show); :class:`Series`, :func:`build_series`, :func:`load_series` and
+:func:`rebuild_series`; :func:`atomic_write_bytes`, :func:`atomic_write_text`,
+:func:`append_line`, :func:`folder_lock`, :func:`write_csv` and :func:`spreadsheet_safe`.
+
+References
+----------
+Rousseeuw, P. J. and Croux, C. (1993), J. Am. Stat. Assoc. 88(424), 1273–1283: the median
+absolute deviation, scaled by 1.4826, as a robust estimate of σ (the scatter of successive
+heads in :func:`head_rise_tolerance`).
+The OWASP advice on CSV injection, for the leading apostrophe of :func:`spreadsheet_safe`.
+"""
 
 from .files import (
     append_line,

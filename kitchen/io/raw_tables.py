@@ -291,7 +291,7 @@ def read_tables(path: str | Path) -> tuple[dict[str, RawTable], tuple[Path, ...]
     SeriesError
         When files or sheets are missing or unreadable. Problems with headers (a missing
         column, a missing or unknown unit) are kept in each table's ``problems`` and
-        reported by :func:`build_series` together with the problems in the values.
+        reported by :func:`~kitchen.io.build_series` together with the problems in the values.
     """
     path = Path(path)
     problems: list[InputProblem] = []

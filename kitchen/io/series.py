@@ -11,7 +11,7 @@ Reading is split in two so that revisions can be applied in between:
 
 This module assembles the validated :class:`Series`; the schemas and the reading of the
 raw tables are in :mod:`kitchen.io.raw_tables`, the checks of the values and their
-conversion in :mod:`kitchen.io.table_checks`. Their public names are importable from here.
+conversion in :mod:`kitchen.io.table_checks`.
 """
 
 from __future__ import annotations

@@ -1,4 +1,42 @@
-"""FACE-DOCSTRING"""
+"""The memo pack: every chart, table and the report a reviewer needs, written in one go.
+
+The last step of the data's path. :func:`export_memo_pack` writes into one folder the
+results as CSV and as a workbook, every chart as interactive HTML and as PNG and SVG, the
+report page (the specimens, the charts, the methods and their sources, the criteria
+applied, the cautions and the provenance), plotly.js once for the whole pack, and last a
+manifest of every file with its size and SHA-256, so that a pack with a manifest is a
+whole pack and a reviewer can check the pack received is the pack exported. The pages
+make no request to the network; every item carries the cautions; every file goes through
+:func:`kitchen.io.atomic_write_bytes`, so each is whole or absent.
+
+Modules, in the order a pack is made:
+
+- :mod:`.figures`: the charts the data allow, with the results' windows and rises.
+- :mod:`.images`: PNG and SVG through kaleido and Chromium, one image server per process.
+- :mod:`.tables`: the specimens with their verdicts, the fits, and the checks.
+- :mod:`.workbook`: ``results.xlsx`` with its ``cautions`` sheet.
+- :mod:`.provenance`: which tool, when, with what settings, from which bytes.
+- :mod:`.markup`: the markup the pages share: style, escaping, tables, the page skeleton.
+- :mod:`.pages`: the report page and one page per chart, built as escaped text.
+- :mod:`.manifest`: ``manifest.csv``, written last; checking a pack received.
+- :mod:`.pack`: the export of the whole pack in one call.
+
+The public face, which other subpackages import from :mod:`kitchen.memo` and never from its
+modules: :func:`export_memo_pack` (:class:`MemoPack`) and :data:`CHART_SCRIPT`;
+:func:`memo_charts`; :func:`start_image_export`, :func:`figure_image`,
+:class:`ImageExportUnavailable`, :data:`PNG_SCALE` and :data:`FIRST_IMAGE_TIMEOUT`;
+:func:`specimens_table`, :func:`fits_table`, :func:`checks_table` and :data:`FIT_COLUMNS`;
+:func:`workbook_bytes`; :func:`memo_provenance`,
+:class:`Provenance`, :class:`InputFile` and :func:`file_sha256`; :func:`report_page`,
+:func:`chart_page`, :data:`REDUCTION_METHODS` and :data:`VERDICT_MARKS`; :func:`table_markup`
+(the notebook panels build their tables with it too);
+:func:`write_manifest`, :func:`read_manifest`, :func:`verify_pack`, :data:`MANIFEST` and
+:data:`MANIFEST_COLUMNS`.
+
+The memo rests on no standard of its own: the methods and sources the report page lists
+(:data:`REDUCTION_METHODS`) are those of :mod:`kitchen.reduction` and
+:mod:`kitchen.uncertainty`, and the cautions cite theirs in :mod:`kitchen.cautions`.
+"""
 
 from .figures import (
     memo_charts,
@@ -16,6 +54,9 @@ from .manifest import (
     read_manifest,
     verify_pack,
     write_manifest,
+)
+from .markup import (
+    table_markup,
 )
 from .pack import (
     CHART_SCRIPT,
@@ -41,7 +82,6 @@ from .tables import (
     specimens_table,
 )
 from .workbook import (
-    MEMO_CAUTIONS,
     workbook_bytes,
 )
 
@@ -59,7 +99,6 @@ __all__ = [
     "InputFile",
     "MANIFEST",
     "MANIFEST_COLUMNS",
-    "MEMO_CAUTIONS",
     "memo_charts",
     "memo_provenance",
     "MemoPack",
@@ -70,6 +109,7 @@ __all__ = [
     "report_page",
     "specimens_table",
     "start_image_export",
+    "table_markup",
     "VERDICT_MARKS",
     "verify_pack",
     "workbook_bytes",

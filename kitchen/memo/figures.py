@@ -1,7 +1,7 @@
 """The memo's charts: the series charts the data allow and one chart per specimen and method.
 
-:func:`memo_charts` builds them with the same reading windows and capillary rises as the
-results table, so each specimen chart shows the k of its row, and says in a sentence why
+:func:`memo_charts` draws them from the workspace's own reductions, the ones its results
+table holds, so each specimen chart shows the k of its row, and says in a sentence why
 any chart was not drawn. Each specimen chart is given a file name of its own.
 """
 
@@ -9,13 +9,8 @@ from __future__ import annotations
 
 import re
 
-import pandas as pd
-
 from kitchen.analysis import SeriesAnalysis
-from kitchen.io import Series
-from kitchen.reduction import collection_table, constant_head_analysis, falling_head_analysis
-from kitchen.settings import Settings
-from kitchen.specimen import specimen_state
+from kitchen.workspace import Workspace
 
 __all__ = ["memo_charts"]
 
@@ -30,18 +25,25 @@ def _safe_name(text: str, taken: set) -> str:
 
 
 def memo_charts(
-    series: Series,
+    workspace: Workspace,
     analysis: SeriesAnalysis,
-    settings: Settings,
     k_unit_name: str = "m/s",
     density_unit_name: str = "Mg/m³",
-    windows: dict | None = None,
-    capillary_rises: dict | None = None,
 ) -> tuple[list[tuple[str, str, object]], list[str]]:
     """Every chart of the memo, and why any chart was not drawn.
 
-    The specimen charts are reduced with the same `windows` and `capillary_rises` as
-    :func:`kitchen.reduction.results.series_results`, so each shows the k of the results table.
+    The specimen charts draw the workspace's own reductions (the reading windows on
+    record, the capillary rises set), the ones its results table holds: each chart
+    shows the k of its row, and no specimen is reduced a second time.
+
+    Parameters
+    ----------
+    workspace : Workspace
+        The series as opened (:class:`kitchen.workspace.Workspace`).
+    analysis : SeriesAnalysis
+        The series analysis of the workspace's results.
+    k_unit_name, density_unit_name : str
+        Display units of the charts.
 
     Returns
     -------
@@ -86,36 +88,35 @@ def memo_charts(
             built.append((name, title, build()))
         except ValueError as error:
             skipped.append(f"{title}: not drawn ({error})")
-    windows, rises = windows or {}, capillary_rises or {}
-    reference = settings.reference_temperature
-    state = specimen_state(series.specimens).set_index("specimen", drop=False)
+    reference = workspace.settings.reference_temperature
     taken: set = set()
-    for specimen, readings in series.falling_head.groupby("specimen", sort=False):
-        name = "specimen_" + _safe_name(f"{specimen}_falling_head", taken)
-        try:
-            record = falling_head_analysis(
-                readings,
-                state.loc[specimen],
-                settings,
-                windows.get(specimen),
-                capillary_rise=rises.get(specimen),
-            )
-            figure = charts.falling_head_figure(readings, record, k_unit_name, reference)
-        except (ValueError, KeyError) as error:
-            skipped.append(f"specimen {specimen}, falling head: not drawn ({error})")
-            continue
-        built.append((name, f"Specimen {specimen}: falling head", figure))
-    if not series.constant_head.empty:
-        collections = collection_table(
-            series.constant_head, state.reset_index(drop=True), reference, settings.viscosity
-        )
-        for specimen in pd.unique(collections["specimen"]):
-            name = "specimen_" + _safe_name(f"{specimen}_constant_head", taken)
-            try:
-                record = constant_head_analysis(collections, state.loc[specimen], settings)
-                figure = charts.constant_head_figure(record, k_unit_name, reference)
-            except (ValueError, KeyError) as error:
-                skipped.append(f"specimen {specimen}, constant head: not drawn ({error})")
+    for table, method, figure_of in (
+        (
+            "falling_head",
+            "falling head",
+            lambda specimen: charts.falling_head_figure(
+                workspace.readings(specimen, "falling_head"),
+                workspace.falling_head(specimen),
+                k_unit_name,
+                reference,
+            ),
+        ),
+        (
+            "constant_head",
+            "constant head",
+            lambda specimen: charts.constant_head_figure(
+                workspace.constant_head(specimen), k_unit_name, reference
+            ),
+        ),
+    ):
+        for specimen in workspace.specimen_ids():
+            if not workspace.has_readings(specimen, table):
                 continue
-            built.append((name, f"Specimen {specimen}: constant head", figure))
+            name = "specimen_" + _safe_name(f"{specimen}_{table}", taken)
+            try:
+                figure = figure_of(specimen)
+            except (ValueError, KeyError) as error:
+                skipped.append(f"specimen {specimen}, {method}: not drawn ({error})")
+                continue
+            built.append((name, f"Specimen {specimen}: {method}", figure))
     return built, skipped

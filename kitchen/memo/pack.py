@@ -31,7 +31,7 @@ files the previous manifest lists that the new pack no longer has, and nothing e
 
 The charts are built in :mod:`kitchen.memo.figures`, their static images made in
 :mod:`kitchen.memo.images` and the workbook, with the cautions, written in
-:mod:`kitchen.memo.workbook`. Their names are importable from here.
+:mod:`kitchen.memo.workbook`.
 """
 
 from __future__ import annotations
@@ -43,26 +43,25 @@ from dataclasses import asdict, dataclass, is_dataclass
 from datetime import UTC, datetime
 from pathlib import Path
 
-import pandas as pd
-
 from kitchen import display_units
-from kitchen.analysis import SeriesAnalysis, analyse_series
-from kitchen.io import Series, atomic_write_bytes, spreadsheet_safe
-from kitchen.reduction import results_table, series_results
+from kitchen.analysis import SeriesAnalysis
+from kitchen.cautions import CAUTIONS
+from kitchen.io import atomic_write_bytes, spreadsheet_safe
 from kitchen.revisions import standing_choices
 from kitchen.revisions import window_log_sha256 as window_log_digest
 from kitchen.settings import Settings, reference_label
+from kitchen.workspace import Workspace
 
-from ._markup import ChartScript
 from .figures import memo_charts
 from .images import FIRST_IMAGE_TIMEOUT as FIRST_IMAGE_TIMEOUT
 from .images import PNG_SCALE as PNG_SCALE
 from .images import figure_image, start_image_export
 from .manifest import read_manifest, write_manifest
+from .markup import ChartScript
 from .pages import chart_page, report_page
 from .provenance import Provenance, memo_provenance
 from .tables import checks_table, fits_table, specimens_table
-from .workbook import MEMO_CAUTIONS, _notes_sheet, workbook_bytes
+from .workbook import _notes_sheet, workbook_bytes
 
 __all__ = ["CHART_SCRIPT", "MemoPack", "export_memo_pack"]
 
@@ -96,7 +95,7 @@ class MemoPack:
 
 
 def _caption(provenance: Provenance, criterion_text: str) -> list[str]:
-    return [f"Caution: {text}" for text in MEMO_CAUTIONS] + [
+    return [f"Caution: {text}" for text in CAUTIONS] + [
         f"kitchen {provenance.tool_version} · series {provenance.series} · "
         f"{provenance.created} · {criterion_text} · "
         f"{provenance.revision_count} revision(s) applied"
@@ -153,65 +152,41 @@ def _figure_html(figure, name: str) -> str:
 
 
 def export_memo_pack(
-    series: Series,
+    workspace: Workspace,
     out: str | Path,
     *,
-    settings: Settings | None = None,
     criterion: float = 1e-9,
     k_unit: str = "m/s",
     density_unit: str = "Mg/m³",
-    results: pd.DataFrame | None = None,
-    windows: dict | None = None,
-    capillary_rises: dict | None = None,
-    window_choices=(),
-    window_log_sha256: str | None = None,
     images: bool = True,
     self_contained: bool = False,
-    revision_count: int = 0,
-    revision_log: str | Path | None = None,
-    revision_log_sha256: str | None = None,
     progress: Callable[[int, int, str], None] | None = None,
 ) -> MemoPack:
     """Write the memo pack of a series into the folder `out`.
 
     Parameters
     ----------
-    series : Series
-        The series (its effective data, with revisions applied).
+    workspace : Workspace
+        The series as opened (:class:`kitchen.workspace.Workspace`): its effective data,
+        settings, reading windows on record and capillary rises; every specimen's
+        reduction is taken from it, so the charts show the k of the tables and no
+        specimen is reduced twice.
     out : str or pathlib.Path
         Folder for the pack; created when missing.
-    settings : Settings, optional
-        Reference temperature and viscosity method.
     criterion : float or Criterion, default 1e-9
-        Largest conductivity allowed (a number), or a :class:`kitchen.analysis.criterion.Criterion` of
+        Largest conductivity allowed (a number), or a :class:`kitchen.analysis.Criterion` of
         either kind (a drainage layer's smallest k required), from the project
         specification. [m/s]
     k_unit : {"m/s", "cm/s"}
         Conductivity unit of the charts and the report.
     density_unit : {"Mg/m³", "kN/m³", "lb/ft³"}
         Density unit of the charts and the report (ASCII spellings accepted).
-    results : pandas.DataFrame, optional
-        :func:`kitchen.reduction.results.series_results` of the series, when already reduced.
-    windows : dict, optional
-        Falling-head reading windows ``{specimen: (start, stop)}``; the others are
-        proposed by the tool.
-    capillary_rises : dict, optional
-        Measured capillary rises ``{specimen: rise [m]}``, as for
-        :func:`kitchen.reduction.results.series_results`.
-    window_choices : sequence of WindowChoice, optional
-        The rows of the series' window log (:func:`kitchen.revisions.read_window_choices`),
-        so that the provenance names who chose each window, when and why.
-    window_log_sha256 : str, optional
-        SHA-256 of that log; read from beside the series when `window_choices` are given
-        (:func:`kitchen.revisions.window_log_sha256`).
     images : bool, default True
         Write PNG and SVG beside each chart's HTML (needs Chromium).
     self_contained : bool, default False
         Inline plotly.js in every HTML page, so that each opens on its own (about 4.8 MB a
         page). By default it is written once, as :data:`CHART_SCRIPT`, and every page
         loads it: a pack many times smaller, which opens as a whole folder.
-    revision_count, revision_log, revision_log_sha256 : optional
-        The revisions applied (see :func:`kitchen.revisions.load_effective_series`).
     progress : callable, optional
         Called as ``progress(done, total, what)`` before each file is written.
 
@@ -233,15 +208,17 @@ def export_memo_pack(
     from kitchen.charts import add_caption
 
     started, clock = datetime.now(UTC), time.perf_counter()
-    settings = settings or Settings()
+    settings, series = workspace.settings, workspace.series
+    windows, window_choices = workspace.windows, workspace.window_choices
+    capillary_rises = workspace.capillary_rises
+    effective = workspace.effective
     ku, du = display_units.k_unit(k_unit), display_units.density_unit(density_unit)
     if images:
         start_image_export()
     out = Path(out)
     previous = read_manifest(out)  # an unreadable manifest stops the export here
-    if results is None:
-        results = series_results(series, settings, windows, capillary_rises)
-    analysis = analyse_series(results, criterion, settings.reference_temperature)
+    results = workspace.results()
+    analysis = workspace.analysis(criterion)
     criterion = analysis.criterion
     label = reference_label(settings)
     criterion_text = (
@@ -257,8 +234,7 @@ def export_memo_pack(
         "confidence": f"{analysis.confidence:g}",
         "compaction curve": "quadratic",
         "reading windows": _windows_text(windows, window_choices),
-        "window log SHA-256": window_log_sha256
-        or (window_choices and window_log_digest(series.source))
+        "window log SHA-256": (window_choices and window_log_digest(series.source))
         or "no window log",
         "measured capillary rises": ", ".join(
             f"{specimen}: {1e3 * rise:.1f} mm" for specimen, rise in capillary_rises.items()
@@ -271,17 +247,15 @@ def export_memo_pack(
         series.name,
         series.source,
         chosen,
-        revision_count,
-        revision_log,
-        revision_log_sha256,
+        effective.revision_count,
+        effective.log_path if effective.log_sha256 else None,
+        effective.log_sha256,
         started,
     )
-    charts, skipped = memo_charts(
-        series, analysis, settings, ku.unit, du.unit, windows, capillary_rises
-    )
+    charts, skipped = memo_charts(workspace, analysis, ku.unit, du.unit)
     tables = {
         "specimens": specimens_table(analysis),
-        "tests": results_table(results, settings),
+        "tests": workspace.results_table(),
         "fits": fits_table(analysis),
         "checks": checks_table(results, analysis, skipped),
     }
@@ -317,7 +291,7 @@ def export_memo_pack(
             page,
             "chart",
             lambda f=figure, n=name, t=title, p=page: chart_page(
-                t, _figure_html(f, n), MEMO_CAUTIONS, provenance, script, posixpath.dirname(p)
+                t, _figure_html(f, n), CAUTIONS, provenance, script, posixpath.dirname(p)
             ).encode("utf-8"),
         )
         if images:
@@ -336,7 +310,7 @@ def export_memo_pack(
             fragments,
             script,
             provenance,
-            MEMO_CAUTIONS,
+            CAUTIONS,
             ku,
             du,
             criterion_text,

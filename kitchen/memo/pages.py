@@ -7,7 +7,7 @@ page opened without it (a chart mailed on its own, a page opened from inside a z
 a notice saying what is missing instead of blank charts. :mod:`kitchen.memo.pack` turns the
 figures into HTML and decides which. Every value that comes from the input (specimen ids,
 effort labels, notes) is escaped. The markup the pages share, and :class:`ChartScript`, are
-in :mod:`kitchen.memo._markup`; their names are importable from here.
+in :mod:`kitchen.memo.markup`.
 """
 
 from __future__ import annotations
@@ -25,8 +25,8 @@ from kitchen.analysis import (
 from kitchen.display_units import DisplayUnit, distinct_texts, scientific
 from kitchen.settings import reference_label
 
-from ._markup import STYLE as STYLE
-from ._markup import ChartScript, _cautions, _e, _number, _page, _table
+from .markup import STYLE as STYLE
+from .markup import ChartScript, cautions_markup, escape, number_text, page_markup, table_markup
 from .provenance import Provenance
 
 __all__ = ["REDUCTION_METHODS", "VERDICT_MARKS", "chart_page", "report_page"]
@@ -68,43 +68,46 @@ VERDICT_MARKS = {MEETS: "●", DOES_NOT_MEET: "○", NOT_CONCLUSIVE: "◎"}
 
 
 def _script_row(script: ChartScript) -> tuple[str, str]:
-    where = "inlined in every page" if script.path is None else f"<code>{_e(script.path)}</code>"
+    where = "inlined in every page"
+    if script.path is not None:
+        where = f"<code>{escape(script.path)}</code>"
     return (
         "chart script",
-        f"plotly.js {_e(script.version)}, {where}, {len(script.content)} bytes, SHA-256 "
+        f"plotly.js {escape(script.version)}, {where}, {len(script.content)} bytes, SHA-256 "
         f'<span class="hash">{script.sha256}</span>',
     )
 
 
 def _provenance(provenance: Provenance, script: ChartScript) -> str:
     rows = [
-        ("tool", f"kitchen {_e(provenance.tool_version)}"),
-        ("exported", _e(provenance.created)),
-        ("series", f"{_e(provenance.series)} (<code>{_e(provenance.source)}</code>)"),
+        ("tool", f"kitchen {escape(provenance.tool_version)}"),
+        ("exported", escape(provenance.created)),
+        ("series", f"{escape(provenance.series)} (<code>{escape(provenance.source)}</code>)"),
     ]
-    rows += [(f"setting: {_e(k)}", _e(v)) for k, v in provenance.settings]
+    rows += [(f"setting: {escape(k)}", escape(v)) for k, v in provenance.settings]
     rows.append(("revisions applied", str(provenance.revision_count)))
     log = provenance.revision_log_sha256
     rows.append(
         (
             "revision log SHA-256",
-            f'<span class="hash">{_e(log)}</span> (<code>{_e(provenance.revision_log)}</code>)'
+            f'<span class="hash">{escape(log)}</span> '
+            f"(<code>{escape(provenance.revision_log)}</code>)"
             if log
             else "no revision log",
         )
     )
-    rows.append(("environment", _e(", ".join(f"{n} {v}" for n, v in provenance.environment))))
+    rows.append(("environment", escape(", ".join(f"{n} {v}" for n, v in provenance.environment))))
     rows.append(_script_row(script))
     rows = [(f'<span class="nowrap">{a}</span>', b) for a, b in rows]
-    files = _table(
+    files = table_markup(
         ["input file", "bytes", "SHA-256"],
         [
-            (f"<code>{_e(f.path)}</code>", str(f.size), f'<span class="hash">{f.sha256}</span>')
+            (f"<code>{escape(f.path)}</code>", str(f.size), f'<span class="hash">{f.sha256}</span>')
             for f in provenance.input_files
         ],
         numeric=(1,),
     )
-    return _table(["item", "value"], rows) + files
+    return table_markup(["item", "value"], rows) + files
 
 
 def chart_page(
@@ -133,15 +136,16 @@ def chart_page(
         script's relative path is worked out.
     """
     line = (
-        f"kitchen {_e(provenance.tool_version)} · series {_e(provenance.series)} · exported "
-        f"{_e(provenance.created)} · {provenance.revision_count} revision(s) applied"
+        f"kitchen {escape(provenance.tool_version)} · series {escape(provenance.series)} · "
+        f"exported {escape(provenance.created)} · {provenance.revision_count} revision(s) "
+        "applied"
     )
     notice, check = script.notice(folder) if script is not None else ("", "")
     body = (
-        f'<h1>{_e(title)}</h1>\n{notice}<div class="chart">{figure_html}</div>\n'
-        f'{_cautions(cautions)}\n<p class="note">{line}</p>\n{check}'
+        f'<h1>{escape(title)}</h1>\n{notice}<div class="chart">{figure_html}</div>\n'
+        f'{cautions_markup(cautions)}\n<p class="note">{line}</p>\n{check}'
     )
-    return _page(title, body, script.element(folder) if script is not None else "")
+    return page_markup(title, body, script.element(folder) if script is not None else "")
 
 
 def _specimen_rows(analysis: SeriesAnalysis, ku: DisplayUnit, du: DisplayUnit) -> list:
@@ -156,16 +160,16 @@ def _specimen_rows(analysis: SeriesAnalysis, ku: DisplayUnit, du: DisplayUnit) -
         saturation = pd.to_numeric(row["saturation"], errors="coerce")
         rows.append(
             (
-                _e(row["specimen"]),
-                _e(row["effort"]) if pd.notna(row["effort"]) else "–",
-                _e(str(row["method"]).replace("_", " ")),
-                _number(100 * water) if pd.notna(water) else "–",
+                escape(row["specimen"]),
+                escape(row["effort"]) if pd.notna(row["effort"]) else "–",
+                escape(str(row["method"]).replace("_", " ")),
+                number_text(100 * water) if pd.notna(water) else "–",
                 f"{row['dry_density'] * du.factor:.4g}",
                 f"{row['void_ratio']:.3f}",
-                _number(100 * saturation) if pd.notna(saturation) else "–",
+                number_text(100 * saturation) if pd.notna(saturation) else "–",
                 scientific(row["k"] * ku.factor, html=True),
                 interval,
-                f"{VERDICT_MARKS[row['verdict']]} {_e(row['verdict'])}",
+                f"{VERDICT_MARKS[row['verdict']]} {escape(row['verdict'])}",
                 "yes" if row["in_zone"] else "no",
             )
         )
@@ -191,9 +195,9 @@ def _verdict_rule(analysis: SeriesAnalysis, label: str) -> str:
 
 def _summary(analysis: SeriesAnalysis, ku: DisplayUnit, criterion_text: str) -> str:
     counts = analysis.counts
-    words = ", ".join(f"{VERDICT_MARKS[v]} {_e(v)}: {counts[v]}" for v in VERDICTS)
+    words = ", ".join(f"{VERDICT_MARKS[v]} {escape(v)}: {counts[v]}" for v in VERDICTS)
     parts = [
-        f"<p>Against the {_e(criterion_text)}: {words} (of {len(analysis.specimens)} "
+        f"<p>Against the {escape(criterion_text)}: {words} (of {len(analysis.specimens)} "
         "specimens).</p>"
     ]
     mean = analysis.geometric_mean
@@ -208,9 +212,9 @@ def _summary(analysis: SeriesAnalysis, ku: DisplayUnit, criterion_text: str) -> 
     for effort, curve in analysis.compaction_curves.items():
         if curve.peak_found:
             parts.append(
-                f"<p>Effort {_e(effort)}: optimum water content "
+                f"<p>Effort {escape(effort)}: optimum water content "
                 f"{100 * curve.optimum_water_content:.1f} %, maximum dry density "
-                f"{curve.maximum_dry_density / 1000:.3f} Mg/m³ ({_e(curve.method)} fit, "
+                f"{curve.maximum_dry_density / 1000:.3f} Mg/m³ ({escape(curve.method)} fit, "
                 f"n = {curve.n}).</p>"
             )
     return "".join(parts)
@@ -220,19 +224,19 @@ def _fits(tables) -> str:
     fits = tables["fits"]
     rows = [
         (
-            _e(r["fit"]),
-            _e(r["subject"]),
-            _e(r["quantity"]),
-            _number(r["value"], 4),
-            _number(r["low"], 4),
-            _number(r["high"], 4),
-            _e(r["unit"]),
+            escape(r["fit"]),
+            escape(r["subject"]),
+            escape(r["quantity"]),
+            number_text(r["value"], 4),
+            number_text(r["low"], 4),
+            number_text(r["high"], 4),
+            escape(r["unit"]),
             "–" if pd.isna(r["n"]) else str(int(r["n"])),
-            _e(r["note"]),
+            escape(r["note"]),
         )
         for _, r in fits.iterrows()
     ]
-    return _table(
+    return table_markup(
         ["fit", "subject", "quantity", "value", "low", "high", "unit", "n", "note"],
         rows,
         numeric=(3, 4, 5, 7),
@@ -241,10 +245,10 @@ def _fits(tables) -> str:
 
 def _checks(tables) -> str:
     rows = [
-        (_e(r["specimen"]), _e(str(r["method"]).replace("_", " ")), _e(r["check"]))
+        (escape(r["specimen"]), escape(str(r["method"]).replace("_", " ")), escape(r["check"]))
         for _, r in tables["checks"].iterrows()
     ]
-    return _table(["specimen", "test", "check or note"], rows)
+    return table_markup(["specimen", "test", "check or note"], rows)
 
 
 def _grading(analysis: SeriesAnalysis, ku: DisplayUnit) -> str:
@@ -254,19 +258,19 @@ def _grading(analysis: SeriesAnalysis, ku: DisplayUnit) -> str:
     for _, r in analysis.grading.iterrows():
         rows.append(
             (
-                _e(r["specimen"]),
-                _number(1000 * r["d10"]),
-                _number(r["void_ratio"]),
+                escape(r["specimen"]),
+                number_text(1000 * r["d10"]),
+                number_text(r["void_ratio"]),
                 scientific(r["hazen_k"] * ku.factor, html=True)
                 + ("" if r["hazen_within_range"] else " (outside range)"),
                 scientific(r["chapuis_k"] * ku.factor, html=True)
                 + ("" if r["chapuis_within_range"] else " (outside range)"),
-                _e(r["note"]),
+                escape(r["note"]),
             )
         )
     return (
         "<p>Predictions, not measurements; each method holds only within its range.</p>"
-        + _table(
+        + table_markup(
             ["specimen", "d10 [mm]", "e", f"Hazen k [{ku.unit}]", f"Chapuis k [{ku.unit}]", "note"],
             rows,
             numeric=(1, 2, 3, 4),
@@ -308,7 +312,7 @@ def report_page(
     """
     label = reference_label(analysis.reference_temperature)
     title = f"Hydraulic conductivity of series {provenance.series}"
-    specimens = _table(
+    specimens = table_markup(
         [
             "specimen",
             "effort",
@@ -329,30 +333,32 @@ def report_page(
     figures = []
     for name, chart_title, figure_html in charts:
         figures.append(
-            f'<h3 id="{_e(name)}">{_e(chart_title)}</h3><div class="chart">{figure_html}</div>'
+            f'<h3 id="{escape(name)}">{escape(chart_title)}</h3>'
+            f'<div class="chart">{figure_html}</div>'
         )
-    methods = _table(
+    methods = table_markup(
         ["step", "method", "source"],
-        [(_e(a), _e(b), _e(c)) for a, b, c in REDUCTION_METHODS + ANALYSIS_METHODS],
+        [(escape(a), escape(b), escape(c)) for a, b, c in REDUCTION_METHODS + ANALYSIS_METHODS],
     )
     zone = "not drawn (no water contents)"
     if analysis.acceptable_zone is not None:
-        zone = _e(analysis.acceptable_zone.method)
+        zone = escape(analysis.acceptable_zone.method)
     criteria = (
-        f"<ul><li>{_e(criterion_text)} (from the project specification; an input, never a "
+        f"<ul><li>{escape(criterion_text)} (from the project specification; an input, never a "
         "constant).</li>"
         f"<li>Verdict: {_verdict_rule(analysis, label)}</li>"
         f"<li>Acceptable zone: {zone}.</li>"
         f"<li>Reference temperature and viscosity: see the settings under Provenance.</li></ul>"
     )
-    notes = "".join(f"<li>{_e(n)}</li>" for n in list(analysis.notes) + list(skipped))
+    notes = "".join(f"<li>{escape(n)}</li>" for n in list(analysis.notes) + list(skipped))
     notice, check = script.notice("")
     body = "\n".join(
         [
-            f"<h1>{_e(title)}</h1>",
-            f'<p class="lede">Exported {_e(provenance.created)} by kitchen '
-            f"{_e(provenance.tool_version)}; {provenance.revision_count} revision(s) applied.</p>",
-            notice + _cautions(cautions),
+            f"<h1>{escape(title)}</h1>",
+            f'<p class="lede">Exported {escape(provenance.created)} by kitchen '
+            f"{escape(provenance.tool_version)}; {provenance.revision_count} revision(s) "
+            "applied.</p>",
+            notice + cautions_markup(cautions),
             "<h2>Summary</h2>",
             _summary(analysis, ku, criterion_text),
             "<h2>Specimens</h2>",
@@ -371,10 +377,10 @@ def report_page(
             "<h2>Methods and their sources</h2>",
             methods,
             "<h2>Cautions</h2>",
-            _cautions(cautions),
+            cautions_markup(cautions),
             "<h2>Provenance</h2>",
             _provenance(provenance, script),
             check,
         ]
     )
-    return _page(title, body, script.element(""))
+    return page_markup(title, body, script.element(""))

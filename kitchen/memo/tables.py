@@ -292,7 +292,7 @@ def checks_table(results: pd.DataFrame, analysis: SeriesAnalysis, skipped=()) ->
     Parameters
     ----------
     results : pandas.DataFrame
-        :func:`kitchen.reduction.results.series_results` (``specimen``, ``method``, ``checks``: a list
+        :func:`kitchen.reduction.series_results` (``specimen``, ``method``, ``checks``: a list
         of sentences, or text).
     analysis : SeriesAnalysis
         Its ``notes`` become rows for the series.

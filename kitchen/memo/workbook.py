@@ -1,8 +1,9 @@
-"""The memo's workbook, and the cautions every exported item carries.
+"""The memo's workbook.
 
 :func:`workbook_bytes` writes the memo's tables as one ``.xlsx`` workbook with a
 ``cautions`` sheet (the cautions, the criterion, the settings and the provenance), every text
-cell spreadsheet-safe; :data:`MEMO_CAUTIONS` are the cautions of every page, chart and sheet.
+cell spreadsheet-safe. The cautions are :data:`kitchen.cautions.CAUTIONS`, as on every page
+and chart of the memo.
 """
 
 from __future__ import annotations
@@ -19,13 +20,7 @@ from kitchen.io import spreadsheet_safe
 
 from .provenance import Provenance
 
-__all__ = ["MEMO_CAUTIONS", "workbook_bytes"]
-
-MEMO_CAUTIONS = CAUTIONS + (
-    "ASTM D5084 itself says its results apply to the field with caution and by qualified "
-    "personnel.",
-)
-"""The cautions every exported item carries: :data:`kitchen.CAUTIONS` and ASTM D5084's own."""
+__all__ = ["workbook_bytes"]
 
 
 def _cell(value):
@@ -65,14 +60,14 @@ def workbook_bytes(sheets: dict[str, pd.DataFrame], notes: pd.DataFrame) -> byte
             width = max([len(str(column))] + [len(str(v)) for v in safe[column].head(200)])
             sheet.column_dimensions[sheet.cell(1, index).column_letter].width = min(width + 2, 80)
     book.properties.creator = f"kitchen {__version__}"
-    book.properties.description = " ".join(MEMO_CAUTIONS)
+    book.properties.description = " ".join(CAUTIONS)
     buffer = io.BytesIO()
     book.save(buffer)
     return buffer.getvalue()
 
 
 def _notes_sheet(provenance: Provenance, criterion_text: str) -> pd.DataFrame:
-    rows = [("caution", text) for text in MEMO_CAUTIONS]
+    rows = [("caution", text) for text in CAUTIONS]
     rows.append(("criterion", criterion_text))
     rows += [("setting", f"{key} = {value}") for key, value in provenance.settings]
     rows += [("provenance", line) for line in provenance.lines()]

@@ -1,7 +1,7 @@
 """Parts every panel shares: a message area, a progress bar, number formats.
 
-Figure refresh lives in :mod:`kitchen.panels.refresh` (:func:`refresh_figure` is named here
-too).
+Figure refresh lives in :mod:`kitchen.panels.refresh`
+(:func:`~kitchen.panels.refresh.refresh_figure`).
 
 The message area is where a panel says, in words, what went wrong in a callback: the
 problems of a :class:`~kitchen.io.raw_tables.SeriesError` as a list, any other refusal as its
@@ -25,8 +25,12 @@ import ipywidgets as widgets
 import numpy as np
 import pandas as pd
 
-from kitchen.io import Series, SeriesError, UnitError
-from kitchen.revisions import EffectiveSeries, RevisionError, load_effective_series, revisions_path
+from kitchen.display_units import superscript
+from kitchen.io import SeriesError, UnitError
+from kitchen.memo import table_markup
+from kitchen.revisions import RevisionError, revisions_path
+from kitchen.settings import Settings
+from kitchen.workspace import Workspace
 
 __all__ = [
     "MessageArea",
@@ -35,13 +39,9 @@ __all__ = [
     "format_conductivity",
     "format_fixed",
     "html_table",
-    "caution_box",
     "scratch_copy",
-    "as_series",
-    "open_effective",
+    "open_workspace",
 ]
-
-_SUPERSCRIPT = str.maketrans("0123456789-+", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻⁺")
 
 _STYLE = """<style>
 .kitchen-message ul {margin: 0.2em 0 0.2em 1.2em; padding: 0;}
@@ -54,7 +54,6 @@ _STYLE = """<style>
 .kitchen-table th {background: #f1efe8; text-align: center;}
 .kitchen-table th {white-space: normal; min-width: 3em;}
 .kitchen-table td.kitchen-text {text-align: left; white-space: normal; min-width: 14em;}
-.kitchen-caution {border-left: 4px solid #b5651d; padding: 0.2em 0.8em; background: #faf6ef;}
 </style>"""
 
 
@@ -216,17 +215,19 @@ def format_conductivity(value, unit: str = "m/s", digits: int = 3) -> str:
     mantissa = value / 10.0**exponent
     if round(mantissa, digits - 1) >= 10:
         mantissa, exponent = mantissa / 10, exponent + 1
-    return f"{mantissa:.{digits - 1}f} × 10{str(exponent).translate(_SUPERSCRIPT)} {unit}"
+    return f"{mantissa:.{digits - 1}f} × 10{superscript(exponent)} {unit}"
 
 
 def html_table(frame: pd.DataFrame, formats: dict | None = None, text_columns=()) -> str:
     """A DataFrame as a compact HTML table (values escaped; NaN shown as "–").
 
     ``formats`` maps a column to a function from value to text; other numbers get three
-    significant figures.
+    significant figures. ``text_columns`` are left-aligned and wrap. The markup is that of
+    the memo's pages (:func:`kitchen.memo.table_markup`), in the panels' style.
     """
     formats = formats or {}
-    head = "".join(f"<th>{html.escape(str(c))}</th>" for c in frame.columns)
+    head = [html.escape(str(c)) for c in frame.columns]
+    classes = {i: "kitchen-text" for i, c in enumerate(frame.columns) if c in text_columns}
     rows = []
     for _, row in frame.iterrows():
         cells = []
@@ -242,21 +243,9 @@ def html_table(frame: pd.DataFrame, formats: dict | None = None, text_columns=()
                 text = "–"
             else:
                 text = str(value)
-            kind = " class='kitchen-text'" if column in text_columns else ""
-            cells.append(f"<td{kind}>{html.escape(text)}</td>")
-        rows.append("<tr>" + "".join(cells) + "</tr>")
-    return (
-        f"{_STYLE}<div class='kitchen-table'><table><thead><tr>{head}</tr></thead>"
-        f"<tbody>{''.join(rows)}</tbody></table></div>"
-    )
-
-
-def caution_box(cautions: Iterable[str]) -> widgets.HTML:
-    """The cautions as a framed list, shown under results that could be misused."""
-    items = "".join(f"<li>{html.escape(c)}</li>" for c in cautions)
-    return widgets.HTML(
-        f"{_STYLE}<div class='kitchen-caution'><b>Cautions</b><ul>{items}</ul></div>"
-    )
+            cells.append(html.escape(text))
+        rows.append(cells)
+    return f"{_STYLE}<div class='kitchen-table'>{table_markup(head, rows, classes=classes)}</div>"
 
 
 SCRATCH_FOLDER = Path(tempfile.gettempdir()) / "kitchen-scratch"
@@ -305,18 +294,25 @@ def scratch_copy(path: str | Path, folder: str | Path | None = None) -> Path:
     return target
 
 
-def as_series(series: Series | EffectiveSeries | str | Path) -> Series:
-    """A loaded series, or the effective series (revisions applied) at a path."""
-    return open_effective(series)[0]
+def open_workspace(series: Workspace | str | Path, settings: Settings | None = None) -> Workspace:
+    """The series a panel works on, opened the one way every view opens one.
 
-
-def open_effective(
-    series: Series | EffectiveSeries | str | Path,
-) -> tuple[Series, EffectiveSeries | None]:
-    """The series and, when known, its revisions (loading a path with them applied)."""
-    if isinstance(series, Series):
-        return series, None
-    if isinstance(series, EffectiveSeries):
-        return series.series, series
-    effective = load_effective_series(series)
-    return effective.series, effective
+    Parameters
+    ----------
+    series : Workspace or str or pathlib.Path
+        A series already open (several panels may share one), or the path of a series
+        folder or ``.xlsx`` workbook, opened with its revisions and reading windows on
+        record (:class:`kitchen.workspace.Workspace`).
+    settings : Settings, optional
+        Settings to compute with; an open workspace is switched to them.
+    """
+    if isinstance(series, Workspace):
+        if settings is not None and settings != series.settings:
+            series.set_settings(settings)
+        return series
+    if not isinstance(series, str | Path):
+        raise TypeError(
+            f"expected a series folder, an .xlsx workbook or a Workspace, got "
+            f"{type(series).__name__}"
+        )
+    return Workspace(series, settings)

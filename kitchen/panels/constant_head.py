@@ -22,13 +22,11 @@ from kitchen.io import Series
 from kitchen.reduction import (
     ConstantHeadAnalysis,
     ConstantHeadResult,
-    collection_table,
-    constant_head_analysis,
 )
 from kitchen.settings import Settings, reference_label
-from kitchen.specimen import specimen_state
+from kitchen.workspace import Workspace
 
-from .common import MessageArea, as_series, format_conductivity, format_number, html_table
+from .common import MessageArea, format_conductivity, format_number, html_table, open_workspace
 from .refresh import refresh_figure
 
 __all__ = ["ConstantHeadPanel", "constant_head_panel", "collections_view_table"]
@@ -76,6 +74,9 @@ class ConstantHeadPanel:
     error : MessageArea
     analysis : ConstantHeadAnalysis or None
         The core's analysis of the specimen shown (k, interval, verdicts).
+    workspace : Workspace
+        The series as opened (:class:`kitchen.workspace.Workspace`); the analysis shown
+        is its own.
     series : Series
     settings : Settings
     """
@@ -87,10 +88,9 @@ class ConstantHeadPanel:
     summary: widgets.HTML
     collections: widgets.HTML
     error: MessageArea
+    workspace: Workspace
     series: Series
     settings: Settings
-    table: pd.DataFrame
-    state: pd.DataFrame
     analysis: ConstantHeadAnalysis | None = None
 
     def refresh(self, _change=None) -> None:
@@ -98,8 +98,7 @@ class ConstantHeadPanel:
         self.error.guard(f"reducing specimen {self.specimen.value}")(self._refresh)()
 
     def _refresh(self) -> None:
-        row = self.state.set_index("specimen", drop=False).loc[self.specimen.value]
-        self.analysis = constant_head_analysis(self.table, row, self.settings)
+        self.analysis = self.workspace.constant_head(self.specimen.value)
         unit, label = self.k_unit.value, reference_label(self.settings)
         refresh_figure(
             self.figure,
@@ -177,8 +176,9 @@ def constant_head_panel(
 
     Parameters
     ----------
-    series : Series or str or pathlib.Path
-        A loaded series, or the path of one (loaded with its revisions applied).
+    series : Workspace or str or pathlib.Path
+        A series already open, or the path of a series folder or workbook (opened with
+        its revisions applied, :func:`open_workspace`).
     settings : Settings, optional
         Reference temperature and viscosity method.
     specimen : str, optional
@@ -193,17 +193,15 @@ def constant_head_panel(
     ValueError
         When the series has no constant-head collections.
     """
-    series = as_series(series)
-    settings = settings or Settings()
+    workspace = open_workspace(series, settings)
+    series, settings = workspace.series, workspace.settings
     if series.constant_head.empty:
         raise ValueError(
             f"series {series.name} has no constant-head collections (constant_head.csv)"
         )
-    state = specimen_state(series.specimens)
-    table = collection_table(
-        series.constant_head, state, settings.reference_temperature, settings.viscosity
-    )
-    ids = list(pd.unique(table["specimen"]))
+    ids = [
+        name for name in workspace.specimen_ids() if workspace.has_readings(name, "constant_head")
+    ]
     if specimen is not None and specimen not in ids:
         raise ValueError(
             f"specimen {specimen!r} has no constant-head collections; choose one of "
@@ -220,10 +218,9 @@ def constant_head_panel(
         summary=widgets.HTML(),
         collections=widgets.HTML(),
         error=MessageArea(),
+        workspace=workspace,
         series=series,
         settings=settings,
-        table=table,
-        state=state,
     )
     panel.refresh()
     panel.widget.children = [

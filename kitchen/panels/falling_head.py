@@ -14,6 +14,7 @@ from __future__ import annotations
 
 import html
 from dataclasses import dataclass, field
+from pathlib import Path
 
 import ipywidgets as widgets
 import pandas as pd
@@ -25,16 +26,15 @@ from kitchen.reduction import FallingHeadAnalysis, FallingHeadRecord
 from kitchen.revisions import (
     WindowChoice,
     choose_window,
-    chosen_windows,
     clear_window,
-    read_window_choices,
     standing_choices,
     windows_path,
 )
 from kitchen.settings import FALLING_HEAD_FITS, Settings, reference_label
+from kitchen.workspace import Workspace
 from kitchen.specimen import specimen_state
 
-from .common import MessageArea, as_series, format_conductivity, format_number
+from .common import MessageArea, format_conductivity, format_number, open_workspace
 from .figures import format_elapsed, increments_figure
 from .refresh import refresh_figure
 
@@ -126,9 +126,9 @@ class FallingHeadPanel:
     propose : ipywidgets.Button
         Sets the window the tool proposes (the longest that meets every criterion).
     keep : ipywidgets.Button
-        Records the window shown in the series' window log (:mod:`kitchen.revisions.window_log`), with
-        ``reason`` and ``who``: the series chart, the memo pack and the command line then
-        reduce the specimen with it.
+        Records the window shown in the series' window log
+        (:mod:`kitchen.revisions.window_log`), with ``reason`` and ``who``: the series chart,
+        the memo pack and the command line then reduce the specimen with it.
     release : ipywidgets.Button
         Records that the specimen goes back to the tool's proposal.
     reason, who : ipywidgets.Text
@@ -144,9 +144,11 @@ class FallingHeadPanel:
     error : MessageArea
     analysis : FallingHeadAnalysis or None
         The core's analysis of the window shown.
-    records : dict of str to FallingHeadRecord
-        Each specimen's readings, prepared once.
+    workspace : Workspace
+        The series as opened (:class:`kitchen.workspace.Workspace`): its reductions,
+        prepared records and windows on record are the ones every other view shows.
     series : Series
+        The workspace's effective series.
     settings : Settings
     """
 
@@ -165,10 +167,10 @@ class FallingHeadPanel:
     increments: go.FigureWidget
     summary: widgets.HTML
     error: MessageArea
+    workspace: Workspace
     series: Series
     settings: Settings
     analysis: FallingHeadAnalysis | None = None
-    records: dict = field(default_factory=dict)
     choices: tuple = ()
     windows: dict = field(default_factory=dict)
     _state: pd.DataFrame | None = None
@@ -180,17 +182,13 @@ class FallingHeadPanel:
         """The falling-head rows of a specimen (the one shown by default)."""
         specimen = specimen or self.specimen.value
         if specimen not in self._readings:
-            table = self.series.falling_head
-            self._readings[specimen] = table[table["specimen"] == specimen].reset_index(drop=True)
+            readings = self.workspace.readings(specimen, "falling_head")
+            self._readings[specimen] = readings.reset_index(drop=True)
         return self._readings[specimen]
 
     def record(self, specimen: str | None = None) -> FallingHeadRecord:
-        """The prepared record of a specimen (built on first use)."""
-        specimen = specimen or self.specimen.value
-        if specimen not in self.records:
-            row = self._state.set_index("specimen", drop=False).loc[specimen]
-            self.records[specimen] = FallingHeadRecord(self.readings(specimen), row, self.settings)
-        return self.records[specimen]
+        """The prepared record of a specimen: the workspace's own."""
+        return self.workspace.falling_head_record(specimen or self.specimen.value)
 
     # --- callbacks --------------------------------------------------------------------------
     def _window_moved(self, _change=None) -> None:
@@ -216,13 +214,13 @@ class FallingHeadPanel:
         rows = self.readings()["source_row"].to_numpy()
         start, stop = self._chosen()
         choose_window(
-            self.series.source,
+            self.workspace.path,
             self.specimen.value,
             int(rows[start]),
             int(rows[stop - 1]),
             reason=self.reason.value,
             who=self.who.value,
-            series=self.series,
+            series=self.workspace.series,
         )
         self._reload_choices()
         self.reason.value = ""
@@ -230,15 +228,16 @@ class FallingHeadPanel:
 
     def _release(self) -> None:
         clear_window(
-            self.series.source, self.specimen.value, reason=self.reason.value, who=self.who.value
+            self.workspace.path, self.specimen.value, reason=self.reason.value, who=self.who.value
         )
         self._reload_choices()
         self.reason.value = ""
         self._fit(None)
 
     def _reload_choices(self) -> None:
-        self.choices = read_window_choices(self.series.source)
-        self.windows = chosen_windows(self.series, self.choices)
+        self.workspace.sync()
+        self.series = self.workspace.series
+        self.choices, self.windows = self.workspace.window_choices, self.workspace.windows
 
     def propose_window(self, _button=None) -> None:
         """Set the window the tool proposes for the specimen and fit shown."""
@@ -312,7 +311,7 @@ def _choice_html(choice: WindowChoice | None, kept, shown, log: str) -> str:
 
 
 def falling_head_panel(
-    series: Series | str,
+    series: Workspace | str | Path,
     settings: Settings | None = None,
     specimen: str | None = None,
     fit: str | None = None,
@@ -321,8 +320,9 @@ def falling_head_panel(
 
     Parameters
     ----------
-    series : Series or str or pathlib.Path
-        A loaded series, or the path of one (loaded with its revisions applied).
+    series : Workspace or str or pathlib.Path
+        A series already open, or the path of a series folder or workbook (opened with
+        its revisions and reading windows on record, :func:`open_workspace`).
     settings : Settings, optional
         Reference temperature, viscosity, criteria and resolutions.
     specimen : str, optional
@@ -340,8 +340,8 @@ def falling_head_panel(
     ValueError
         When the series has no falling-head readings, or `specimen` has none.
     """
-    series = as_series(series)
-    settings = settings or Settings()
+    workspace = open_workspace(series, settings)
+    series, settings = workspace.series, workspace.settings
     if series.falling_head.empty:
         raise ValueError(f"series {series.name} has no falling-head readings (falling_head.csv)")
     tested = list(pd.unique(series.falling_head["specimen"]))
@@ -401,6 +401,7 @@ def falling_head_panel(
         increments=go.FigureWidget(),
         summary=widgets.HTML(),
         error=MessageArea(),
+        workspace=workspace,
         series=series,
         settings=settings,
         _state=state,

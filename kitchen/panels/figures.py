@@ -48,7 +48,7 @@ def increments_figure(
     Parameters
     ----------
     analysis : FallingHeadAnalysis
-        One window of one specimen (:meth:`kitchen.reduction.falling_head_record.FallingHeadRecord.analyse`).
+        One window of one specimen (:meth:`kitchen.reduction.FallingHeadRecord.analyse`).
     settings : Settings
         For the reference temperature and the steady-values band (``settings.criteria``).
     k_unit_name : {"m/s", "cm/s"}

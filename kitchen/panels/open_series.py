@@ -15,10 +15,10 @@ import ipywidgets as widgets
 import pandas as pd
 
 from kitchen.io import Series
-from kitchen.reduction import results_table, series_results
-from kitchen.revisions import EffectiveSeries, load_effective_series
+from kitchen.revisions import EffectiveSeries
 from kitchen.settings import Settings
 from kitchen.water import VISCOSITY_METHODS
+from kitchen.workspace import Workspace
 
 from .common import MessageArea, ProgressBar, format_conductivity, format_fixed, html_table
 
@@ -91,15 +91,19 @@ class SeriesPanel:
     error : MessageArea
         Problems with the series, or a failure, in words.
     progress : ProgressBar
+    workspace : Workspace or None
+        The series loaded last, opened as every view opens one
+        (:class:`kitchen.workspace.Workspace`: revisions applied, reading windows on
+        record); None until one loads.
     series : Series or None
-        The series loaded last, with its revisions applied (None until one loads).
+        The workspace's effective series.
     effective : EffectiveSeries or None
-        The series with the revisions applied and withdrawn
-        (:func:`kitchen.revisions.load_effective_series`).
+        The series with the revisions applied and withdrawn, for provenance.
     results : pandas.DataFrame or None
-        :func:`kitchen.reduction.results.series_results` of ``series`` with ``settings``.
+        The workspace's results with ``settings`` (:meth:`Workspace.results`).
     table : pandas.DataFrame or None
-        :func:`kitchen.reduction.results.results_table` of ``results`` (what is shown).
+        The exported results table of ``results`` (what is shown), the one
+        ``python -m kitchen report`` writes.
     settings : Settings
     """
 
@@ -114,6 +118,7 @@ class SeriesPanel:
     error: MessageArea
     progress: ProgressBar
     settings: Settings
+    workspace: Workspace | None = None
     series: Series | None = None
     effective: EffectiveSeries | None = None
     results: pd.DataFrame | None = None
@@ -127,17 +132,18 @@ class SeriesPanel:
         self.error.guard(f"loading {self.path.value!r}")(self._load_now)()
 
     def _load_now(self) -> None:
-        self.series = self.effective = self.results = self.table = None
+        self.workspace = self.series = self.effective = self.results = self.table = None
         for view in (self.results_view, self.specimens_view, self.checks_view):
             view.value = ""
         path = Path(self.path.value.strip())
         self.progress(0, 2, f"reading and checking {path.name}")
         try:
-            effective = load_effective_series(path)
+            workspace = Workspace(path, self.settings)
         except Exception:
             self.progress.finish("the series could not be read (problems listed below)", True)
             raise
-        self.effective, self.series = effective, effective.series
+        self.workspace, self.series = workspace, workspace.series
+        self.effective = effective = workspace.effective
         self.progress(1, 2, "reducing the tests")
         self._recompute()
         series = self.series
@@ -158,8 +164,9 @@ class SeriesPanel:
             reference_temperature=float(self.reference_temperature.value),
             viscosity=self.viscosity.value,
         )
-        self.results = series_results(self.series, self.settings)
-        self.table = results_table(self.results, self.settings)
+        self.workspace.set_settings(self.settings)
+        self.results = self.workspace.results()
+        self.table = self.workspace.results_table()
         shown = self.table.drop(columns=["checks"])
         self.results_view.value = html_table(shown, _formats(shown))
         as_read = specimens_as_read(self.series)

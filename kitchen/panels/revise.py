@@ -23,7 +23,7 @@ import pandas as pd
 import plotly.graph_objects as go
 
 from kitchen import charts
-from kitchen.analysis import analyse_series
+from kitchen.analysis import analyse_series, parse_criterion
 from kitchen.io import SCHEMAS, to_si
 from kitchen.revisions import Revision, history_table
 from kitchen.settings import Settings, reference_label
@@ -31,7 +31,6 @@ from kitchen.workspace import Workspace, what_changed
 
 from .common import MessageArea, format_conductivity, format_fixed, html_table
 from .refresh import refresh_figure
-from .series_chart import parse_criterion
 
 __all__ = ["RevisePanel", "revise_panel", "changes_view_table", "file_value"]
 

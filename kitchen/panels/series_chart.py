@@ -10,9 +10,7 @@ density units of the charts can be switched. An export button writes the memo pa
 from __future__ import annotations
 
 import html
-import re
 from dataclasses import dataclass, field
-from decimal import Decimal
 from pathlib import Path
 
 import ipywidgets as widgets
@@ -20,12 +18,11 @@ import pandas as pd
 import plotly.graph_objects as go
 
 from kitchen import charts
-from kitchen.analysis import VERDICTS, Criterion, SeriesAnalysis, analyse_series
+from kitchen.analysis import VERDICTS, Criterion, SeriesAnalysis, parse_criterion
 from kitchen.display_units import DENSITY_UNITS, K_UNITS
 from kitchen.io import Series
-from kitchen.reduction import series_results
-from kitchen.revisions import EffectiveSeries, chosen_windows, read_window_choices
 from kitchen.settings import Settings, reference_label
+from kitchen.workspace import Workspace
 
 from .common import (
     MessageArea,
@@ -33,11 +30,11 @@ from .common import (
     format_conductivity,
     format_fixed,
     html_table,
-    open_effective,
+    open_workspace,
 )
 from .refresh import refresh_figure
 
-__all__ = ["SeriesChartPanel", "series_chart_panel", "parse_criterion", "CHARTS"]
+__all__ = ["SeriesChartPanel", "series_chart_panel", "CHARTS"]
 
 CHARTS = (
     ("compaction", "Compaction and k"),
@@ -45,50 +42,6 @@ CHARTS = (
     ("dry_density", "k and dry density"),
 )
 """The panel's charts: key and tab title."""
-
-_CRITERION = re.compile(
-    r"^\s*(?:k\s*)?(?P<op><=|≤|>=|≥|max(?:imum)?|min(?:imum)?)?\s*"
-    r"(?P<number>[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(?P<unit>\S*)\s*$",
-    re.IGNORECASE,
-)
-_MINIMUM_OPS = (">=", "≥", "min", "minimum")
-
-
-def parse_criterion(text: str) -> Criterion:
-    """The criterion typed by a person, in m/s, with its direction.
-
-    ``"1e-9 m/s"``, ``"≤ 1e-9 m/s"``, ``"<= 1e-7 cm/s"`` or ``"max 1e-9 m/s"``: the largest
-    k allowed (a liner). ``"≥ 1e-4 m/s"``, ``">= 1e-2 cm/s"`` or ``"min 1e-4 m/s"``: the
-    smallest k required (a drainage layer).
-
-    Returns
-    -------
-    Criterion
-        A float in m/s with its ``kind``, ``"maximum"`` or ``"minimum"``.
-
-    Raises
-    ------
-    ValueError
-        Naming what was typed and what is expected.
-    """
-    match = _CRITERION.match(str(text))
-    if match is None:
-        raise ValueError(
-            f"criterion {text!r}: expected a number and its unit, for example 1e-9 m/s "
-            "(largest k allowed) or ≥ 1e-4 m/s (smallest k required)"
-        )
-    unit = match.group("unit")
-    if unit not in K_UNITS:
-        given = f"unit {unit!r}" if unit else "no unit"
-        raise ValueError(
-            f"criterion {text!r} has {given}; expected one of {', '.join(K_UNITS)}, "
-            "for example 1e-9 m/s"
-        )
-    value = float(Decimal(match.group("number")) / Decimal(K_UNITS[unit].factor))
-    if not value > 0:
-        raise ValueError(f"criterion {text!r}: expected a positive conductivity")
-    op = (match.group("op") or "").lower()
-    return Criterion(value, "minimum" if op in _MINIMUM_OPS else "maximum")
 
 
 def verdict_table(analysis: SeriesAnalysis, unit: str, label: str) -> pd.DataFrame:
@@ -121,7 +74,7 @@ class SeriesChartPanel:
     widget : ipywidgets.VBox
     criterion : ipywidgets.Text
         The criterion with its unit: the largest k allowed (``1e-9 m/s``), or the
-        smallest required (``≥ 1e-4 m/s``); see :func:`parse_criterion`.
+        smallest required (``≥ 1e-4 m/s``); see :func:`kitchen.analysis.parse_criterion`.
     k_unit, density_unit : ipywidgets.ToggleButtons
         Units of the charts.
     figures : dict of str to plotly.graph_objects.FigureWidget
@@ -146,17 +99,14 @@ class SeriesChartPanel:
         Whether the export writes PNG and SVG beside each chart (needs Chromium).
     error : MessageArea
     analysis : SeriesAnalysis or None
+    workspace : Workspace
+        The series as opened (:class:`kitchen.workspace.Workspace`): revisions, reading
+        windows on record and reductions, as the command line's report has them; the memo
+        pack is exported from it.
     results : pandas.DataFrame
+        The workspace's results table.
     series : Series
-    effective : EffectiveSeries or None
-        The series' revisions, for the provenance of the memo pack (known when the panel
-        was given a path or an EffectiveSeries).
     settings : Settings
-    windows : dict
-        The falling-head reading windows on record (:func:`kitchen.revisions.chosen_windows`);
-        the other specimens use the tool's proposal.
-    window_choices : tuple of WindowChoice
-        The rows of the series' window log, for the memo's provenance.
     """
 
     widget: widgets.VBox
@@ -170,15 +120,13 @@ class SeriesChartPanel:
     export: widgets.Button
     progress: ProgressBar
     error: MessageArea
+    workspace: Workspace
     series: Series
     settings: Settings
     results: pd.DataFrame
-    effective: EffectiveSeries | None = None
     images: bool = True
     analysis: SeriesAnalysis | None = None
     exported: list | None = None
-    windows: dict = field(default_factory=dict)
-    window_choices: tuple = ()
     chart_choice: widgets.ToggleButtons | None = None
     chart_box: widgets.Box | None = None
     missing: dict = field(default_factory=dict)
@@ -202,7 +150,7 @@ class SeriesChartPanel:
 
     def _refresh(self) -> None:
         criterion = self.criterion_value
-        self.analysis = analyse_series(self.results, criterion, self.settings.reference_temperature)
+        self.analysis = self.workspace.analysis(criterion)
         unit, density = self.k_unit.value, self.density_unit.value
         label = reference_label(self.settings)
         not_drawn = []
@@ -265,27 +213,15 @@ class SeriesChartPanel:
         folder = Path(self.export_folder.value.strip())
         self.exported = None
         self.export.disabled = True
-        revisions = {}
-        if self.effective is not None:
-            revisions = dict(
-                revision_count=self.effective.revision_count,
-                revision_log=self.effective.log_path,
-                revision_log_sha256=self.effective.log_sha256,
-            )
         try:
             written = memo.export_memo_pack(
-                self.series,
+                self.workspace,
                 folder,
-                settings=self.settings,
                 criterion=self.criterion_value,
                 k_unit=self.k_unit.value,
                 density_unit=self.density_unit.value,
-                results=self.results,
-                windows=self.windows,
-                window_choices=self.window_choices,
                 images=self.images,
                 progress=self.progress,
-                **revisions,
             )
         except Exception:
             self.progress.finish("the export stopped: see the message below", failed=True)
@@ -300,7 +236,7 @@ class SeriesChartPanel:
 
 
 def series_chart_panel(
-    series: Series | EffectiveSeries | str | Path,
+    series: Workspace | str | Path,
     settings: Settings | None = None,
     criterion: str = "1e-9 m/s",
     export_folder: str | Path = "memo_pack",
@@ -310,9 +246,10 @@ def series_chart_panel(
 
     Parameters
     ----------
-    series : Series, EffectiveSeries, str or pathlib.Path
-        The path of a series (loaded with its revisions applied, which the memo pack's
-        provenance then records), or a loaded series.
+    series : Workspace or str or pathlib.Path
+        A series already open, or the path of a series folder or workbook (opened with
+        its revisions and reading windows on record, :func:`open_workspace`; the memo
+        pack's provenance records both).
     settings : Settings, optional
         Reference temperature and viscosity method.
     criterion : str, default "1e-9 m/s"
@@ -328,11 +265,8 @@ def series_chart_panel(
     -------
     SeriesChartPanel
     """
-    series, effective = open_effective(series)
-    settings = settings or Settings()
-    choices = read_window_choices(series.source)
-    windows = chosen_windows(series, choices)
-    results = series_results(series, settings, windows)
+    workspace = open_workspace(series, settings)
+    series, settings, results = workspace.series, workspace.settings, workspace.results()
     criterion_box = widgets.Text(
         value=str(criterion),
         description="k criterion",
@@ -369,12 +303,10 @@ def series_chart_panel(
         export=export,
         progress=ProgressBar("Export"),
         error=MessageArea(),
+        workspace=workspace,
         series=series,
         settings=settings,
         results=results,
-        effective=effective,
-        windows=windows,
-        window_choices=choices,
         images=images,
     )
     panel.missing = {key: widgets.HTML() for key, _ in CHARTS}

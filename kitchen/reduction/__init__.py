@@ -1,4 +1,50 @@
-"""FACE-DOCSTRING"""
+"""The test reductions: each specimen's tests reduced to k at the reference temperature.
+
+A constant-head test gives k = Q·L/(A·h·t) for each timed collection, and per specimen
+from the Darcy velocity against the gradient of all of them. A falling-head record gives
+k from the slope of ln h on the reference-equivalent time over a reading window (the
+window the engineer chose, or the one the tool proposes), with a rising tailwater or, where
+the tailwater datum is uncertain, the three-parameter decay instead. Each reduction comes
+with its 95 % interval, its fit diagnostics and the verdicts of :mod:`kitchen.validity`,
+and the results table gathers one row per specimen and test method.
+
+Modules, in the data's order:
+
+- :mod:`.constant_head_collections`: each collection's k, gradient and Darcy velocity.
+- :mod:`.constant_head`: a specimen's constant-head reduction, with its interval and verdicts.
+- :mod:`.falling_head_formulas`: the falling-head equations in closed form, two-reading k.
+- :mod:`.falling_head_record`: one specimen's readings checked and prepared once.
+- :mod:`.falling_head_window`: one reading window reduced to k, and the window proposed.
+- :mod:`.falling_head_evidence`: one window's :class:`FallingHeadAnalysis` and its evidence.
+- :mod:`.falling_head`: the one-call falling-head analysis and the plain reduction.
+- :mod:`.results`: the results table, one row per specimen and method (SI, and exported).
+
+The public face, which other subpackages import from :mod:`kitchen.reduction` and never
+from its modules: :func:`collection_table`, :func:`constant_head_conductivity`,
+:func:`hydraulic_gradient`, :func:`darcy_velocity`, :func:`reduce_constant_head`
+(:class:`ConstantHeadResult`) and :func:`constant_head_analysis`
+(:class:`ConstantHeadAnalysis`); :func:`falling_head_conductivity`,
+:func:`effective_standpipe_area`, :func:`rising_tailwater_conductivity`,
+:func:`reference_elapsed_time`, :func:`jurin_capillary_rise`,
+:func:`incremental_conductivity` and :func:`reading_window`; :class:`FallingHeadRecord`,
+:class:`FallingHeadAnalysis`, :func:`falling_head_analysis` and :func:`reduce_falling_head`
+(:class:`FallingHeadResult`); :func:`series_results`, :func:`results_table` and
+:func:`result_row`.
+
+References
+----------
+ASTM D2434, Standard Test Method for Permeability of Granular Soils (Constant Head):
+k = Q·L/(A·h·t) (from memory for the clause).
+ASTM D5084, Methods A (constant head), B (falling head, constant tailwater) and C (falling
+head, rising tailwater), calculation section and termination criteria (from memory for the
+clauses). ASTM D5856 and ISO 17892-11 (constant-head and falling-head tests).
+Das, B. M. and Sobhan, K., *Principles of Geotechnical Engineering*, chapter on
+permeability: k = Q·L/(A·h·t), k = (a·L/(A·t))·ln(h1/h2), Darcy's law v = k·i.
+Head, K. H., *Manual of Soil Laboratory Testing*, Vol. 2, permeability tests: capillary
+rise in standpipes (from memory).
+Golub, G. H. & Pereyra, V. (1973), for the separable decay fit of :mod:`kitchen.fits`.
+JCGM 100:2008 (GUM), for the interval of :mod:`kitchen.uncertainty`.
+"""
 
 from .constant_head import (
     ConstantHeadAnalysis,
@@ -13,9 +59,7 @@ from .constant_head_collections import (
     hydraulic_gradient,
 )
 from .falling_head import (
-    FallingHeadResult,
     falling_head_analysis,
-    reduce_falling_head,
 )
 from .falling_head_evidence import (
     FallingHeadAnalysis,
@@ -50,13 +94,11 @@ __all__ = [
     "falling_head_conductivity",
     "FallingHeadAnalysis",
     "FallingHeadRecord",
-    "FallingHeadResult",
     "hydraulic_gradient",
     "incremental_conductivity",
     "jurin_capillary_rise",
     "reading_window",
     "reduce_constant_head",
-    "reduce_falling_head",
     "reference_elapsed_time",
     "result_row",
     "results_table",

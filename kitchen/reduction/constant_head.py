@@ -1,5 +1,10 @@
 """Constant-head test reduction: k for each timed collection, and per specimen from all.
 
+:func:`constant_head_analysis` adds to the reduction the validity verdicts (steady
+values, k against gradient, the gradient limit, the Reynolds number) and the 95 %
+interval that combines the fit with the measurement resolutions; the results table uses it.
+Each collection is reduced in :mod:`kitchen.reduction.constant_head_collections`.
+
 References
 ----------
 ASTM D2434, Standard Test Method for Permeability of Granular Soils (Constant Head):
@@ -7,12 +12,6 @@ k = Q·L/(A·h·t) (from memory for the clause).
 ASTM D5084, Method A (constant head), and ISO 17892-11 (constant-head test).
 Das, B. M. and Sobhan, K., *Principles of Geotechnical Engineering*, chapter on
 permeability, constant-head test equation k = Q·L/(A·h·t).
-
-:func:`constant_head_analysis` adds to the reduction the validity verdicts (steady
-values, k against gradient, the gradient limit, the Reynolds number) and the 95 %
-interval that combines the fit with the measurement resolutions; the results table uses it.
-Each collection is reduced in :mod:`kitchen.reduction.constant_head_collections`, whose names are
-importable from here.
 """
 
 from __future__ import annotations
@@ -78,7 +77,7 @@ def reduce_constant_head(collections: pd.DataFrame, specimen: str) -> ConstantHe
     Parameters
     ----------
     collections : pandas.DataFrame
-        Rows of :func:`collection_table` for one specimen.
+        Rows of :func:`~kitchen.reduction.collection_table` for one specimen.
     specimen : str
         The specimen id.
 
@@ -191,8 +190,8 @@ def constant_head_analysis(
     Parameters
     ----------
     collections : pandas.DataFrame
-        Rows of :func:`collection_table` (any specimens; the specimen's are used), in the
-        order the collections were made.
+        Rows of :func:`~kitchen.reduction.collection_table` (any specimens; the specimen's
+        are used), in the order the collections were made.
     specimen_row : pandas.Series
         The specimen's state: ``specimen``, ``diameter`` [m], optional ``d10`` [m].
     settings : Settings, optional

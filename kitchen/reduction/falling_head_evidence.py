@@ -2,11 +2,12 @@
 
 :class:`FallingHeadAnalysis` holds everything one window of one specimen gives: k with its
 95 % interval, the fit and its diagnostics, the incremental k, the verdicts, and what a
-chart needs. The functions here form parts of that evidence from a prepared
+chart needs. The functions here form parts of that evidence, most from a prepared
 :class:`~kitchen.reduction.falling_head_record.FallingHeadRecord` (their first argument): the k
-values the steady-values criterion judges, the outflow/inflow verdict, the interval of k,
-and the curvature diagnosis in plain words. :mod:`kitchen.reduction.falling_head_window` puts them
-together.
+values the steady-values criterion judges (:func:`last_k_values`), the interval of k
+(:func:`window_interval`), and the curvature diagnosis in plain words
+(:func:`curvature_diagnosis`). :mod:`kitchen.reduction.falling_head_record` puts them
+together with the outflow/inflow verdict.
 
 References
 ----------
@@ -30,9 +31,9 @@ from kitchen.uncertainty import (
     rectangular_quantity,
     resolution_uncertainty,
 )
-from kitchen.validity import Verdict, flow_ratio_check, is_valid
+from kitchen.validity import Verdict, is_valid
 
-from .falling_head_formulas import _values_between
+from .falling_head_formulas import spaced_conductivity
 
 __all__ = ["FallingHeadAnalysis"]
 
@@ -133,8 +134,36 @@ class FallingHeadAnalysis:
         return self.head[self.start : self.stop] - self.fitted_head
 
 
-def _values(record, start, stop, heads, log_head):
-    """The k values judged by the steady-values criterion, and words on their spacing."""
+@dataclass(frozen=True)
+class LastKValues:
+    """The last k values of a window, the ones the steady-values criterion judges.
+
+    ``time`` holds their middle times [s] and ``k`` the values at the reference temperature
+    [m/s], oldest first; each spans ``step`` reading intervals; ``words`` say how they are
+    spaced, for the verdict.
+    """
+
+    time: np.ndarray
+    k: np.ndarray
+    step: int
+    words: str
+
+
+def last_k_values(record, start, stop, heads, log_head) -> LastKValues:
+    """The k values judged by the steady-values criterion, and words on their spacing.
+
+    Each value spans enough reading intervals that the head falls by at least
+    ``sqrt(2)·u/p`` over it, u the standard uncertainty of one head-scale reading and p
+    ``criteria.value_precision``: the fall, a difference of two readings, is then known to p
+    of itself (the tool's own rule). The values are k between readings that far apart
+    (:func:`~kitchen.reduction.falling_head_formulas.spaced_conductivity`).
+
+    References
+    ----------
+    ASTM D5084, termination criteria: the last k values steady (from memory for the clause).
+    JCGM 100:2008 (GUM) 4.3.7 and F.2.2.1 for u
+    (:func:`kitchen.uncertainty.resolution_uncertainty`; from memory for the clauses).
+    """
     criteria, resolutions = record.settings.criteria, record.settings.resolutions
     count = criteria.steady_count
     n = stop - start
@@ -164,38 +193,28 @@ def _values(record, start, stop, heads, log_head):
                 f"the {needed * 1e3:.1f} mm the head-scale resolution calls for"
             )
     sl = slice(start, stop)
-    time, k = _values_between(
+    time, k = spaced_conductivity(
         record.time[sl], record.reference_time[sl], log_head[sl], record.scale, step, count
     )
-    return time, k, step, words
+    return LastKValues(time, k, step, words)
 
 
-def _flow_ratio(record, start, stop) -> Verdict:
-    criteria = record.settings.criteria
-    if not record._volumes:
-        return flow_ratio_check(math.nan, math.nan, criteria)
-    inflow, outflow = record.inflow[start:stop], record.outflow[start:stop]
-    both = np.flatnonzero(np.isfinite(inflow) & np.isfinite(outflow))
-    if both.size < 2:
-        return flow_ratio_check(math.nan, math.nan, criteria)
-    for name, volume in (("inflow_volume", inflow), ("outflow_volume", outflow)):
-        read = volume[np.isfinite(volume)]
-        falls = np.flatnonzero(np.diff(read) < 0)
-        if falls.size:
-            index = start + int(np.flatnonzero(np.isfinite(volume))[falls[0] + 1])
-            return Verdict(
-                "flow_ratio",
-                False,
-                f"outflow/inflow: cannot be judged — {name} decreases at {record._where(index)} "
-                "(the volumes are read as cumulative)",
-            )
-    first, last = both[0], both[-1]
-    return flow_ratio_check(
-        float(inflow[last] - inflow[first]), float(outflow[last] - outflow[first]), criteria
-    )
+def window_interval(record, k_reference, fitted, start, stop, temperature) -> UncertaintyResult:
+    """The 95 % interval of k over readings ``start`` to ``stop - 1`` of `record`.
 
+    `fitted` is the input quantity of the fit (None for two readings, whose head and time
+    resolutions then enter directly through k ∝ ln(h1/h2)/(t2 − t1)); the specimen's
+    dimensions, the standpipe areas and the temperature enter as
+    :func:`kitchen.uncertainty.conductivity_interval` takes them. [m/s]
 
-def _interval(record, k_reference, fitted, start, stop, temperature) -> UncertaintyResult:
+    References
+    ----------
+    JCGM 100:2008 (GUM) 5.1.2 and JCGM 101:2008 (Monte Carlo), through
+    :func:`kitchen.uncertainty.conductivity_interval` (from memory for the clauses).
+    Das, B. M. and Sobhan, K.,
+    *Principles of Geotechnical Engineering*, falling-head test equation
+    k = (a·L/(A·t))·ln(h1/h2).
+    """
     settings = record.settings
     resolutions = settings.resolutions
     readings: tuple[InputQuantity, ...] = ()
@@ -233,7 +252,11 @@ def _interval(record, k_reference, fitted, start, stop, temperature) -> Uncertai
     )
 
 
-def _curvature_note(runs: RunsTest | None, curvature: CurvatureTest | None, datum: bool) -> str:
+def curvature_diagnosis(runs: RunsTest | None, curvature: CurvatureTest | None, datum: bool) -> str:
+    """The curvature warning in plain words, from whichever of the two tests is significant.
+
+    `datum` says the window was fitted by the datum-fitted decay rather than a line.
+    """
     evidence = []
     if runs is not None and runs.significant:
         evidence.append(

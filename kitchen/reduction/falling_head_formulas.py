@@ -201,7 +201,7 @@ def jurin_capillary_rise(diameter, temperature=20.0):
     return 4.0 * water_surface_tension(temperature) / (rho * STANDARD_GRAVITY * diameter)
 
 
-def _values_between(time, reference_time, log_head, scale, step, count=None):
+def spaced_conductivity(time, reference_time, log_head, scale, step, count=None):
     """k between readings ``step`` apart, counted back from the last reading.
 
     With ``count``, only the last ``count`` values (or as many as the readings allow).
@@ -271,7 +271,7 @@ def incremental_conductivity(
     else:
         reference_time = reference_elapsed_time(time, temperature, reference_temperature, viscosity)
     scale = standpipe_area * flow_length / area
-    return _values_between(time, reference_time, np.log(head), scale, int(step))
+    return spaced_conductivity(time, reference_time, np.log(head), scale, int(step))
 
 
 def reading_window(time, start_time=None, end_time=None) -> tuple[int, int]:
@@ -288,7 +288,7 @@ def reading_window(time, start_time=None, end_time=None) -> tuple[int, int]:
     -------
     (int, int)
         Positions of the first reading kept and one past the last, for
-        :meth:`FallingHeadRecord.analyse`.
+        :meth:`~kitchen.reduction.FallingHeadRecord.analyse`.
     """
     time = np.asarray(time, dtype=float)
     start = 0 if start_time is None else int(np.searchsorted(time, start_time, "left"))

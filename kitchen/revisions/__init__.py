@@ -1,4 +1,40 @@
-"""FACE-DOCSTRING"""
+"""Revisions that lose nothing: the append-only logs of corrections and of reading windows.
+
+A revision corrects one value of a series — a specimen's height re-measured after the
+test, a reading typed wrong — without touching the raw files. Each is one row of the
+series' log (``revisions.csv`` in the series folder, or ``<stem>.revisions.csv`` beside an
+``.xlsx`` workbook), appended in one write under the folder lock and checked first against
+the data it would give; rows are never changed or deleted, and a revision is withdrawn by a
+later row that names it. The *effective data* are the raw tables as written with the
+standing revisions applied in the log's order, between :func:`kitchen.io.read_tables` and
+:func:`kitchen.io.build_series`, so every check of the loader runs again on them. The
+reading windows the engineer chooses for falling-head records are kept the same way, in a
+window log with who, when and why.
+
+Modules:
+
+- :mod:`.log`: the revision log: its columns, its rows, reading and checking it back.
+- :mod:`.effective`: the raw tables with the standing revisions applied, and loading them.
+- :mod:`.recording`: :func:`revise` and :func:`withdraw`, checked, then appended in one write.
+- :mod:`.history`: the log as a table and in words, each row with its status.
+- :mod:`.window_log`: reading windows chosen by the engineer, and the windows in force.
+
+The public face, which other subpackages import from :mod:`kitchen.revisions` and never
+from its modules: :class:`Revision`, :class:`RevisionError`, :data:`LOG_COLUMNS`,
+:func:`revisions_path`, :func:`read_revisions` and :func:`log_sha256` (the log);
+:func:`apply_revisions`, :func:`load_effective_series` and :class:`EffectiveSeries`;
+:func:`revise`, :func:`withdraw`, :class:`HeldSeries` and :func:`file_stamps`;
+:func:`history_table` and :func:`format_history`; :class:`WindowChoice`,
+:class:`WindowLogError`, :data:`WINDOW_LOG_COLUMNS`, :func:`windows_path`,
+:func:`read_window_choices`, :func:`window_log_sha256`, :func:`standing_choices`,
+:func:`chosen_windows`, :func:`choose_window`, :func:`clear_window` and
+:func:`window_choice_table` (the window log). What a revision changed in the results is
+worked out in :mod:`kitchen.workspace`.
+
+References
+----------
+ISO 8601, for the time of every row of both logs (a date and time with a time zone).
+"""
 
 from .effective import (
     EffectiveSeries,

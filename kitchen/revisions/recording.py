@@ -265,7 +265,8 @@ def withdraw(
     series_path : str or pathlib.Path
         Series folder or ``.xlsx`` workbook.
     revision_id : str
-        The id of the revision to withdraw (see :func:`read_revisions`, ``history``).
+        The id of the revision to withdraw (see :func:`~kitchen.revisions.read_revisions`,
+        ``history``).
     reason, who, when, held
         As for :func:`revise`.
 

@@ -296,9 +296,10 @@ def _append(series_path, choice_of, series: Series | None) -> WindowChoice:
         choice = choice_of(existing)
         if not choice.proposed:
             if series is None:
-                from .effective import load_effective_series
-
-                series = load_effective_series(series_path).series
+                raise ValueError(
+                    "a chosen window is checked against the series' readings: pass the "
+                    "series as opened (kitchen.workspace.Workspace(...).series)"
+                )
             try:
                 _positions(series, choice, log.name)
             except WindowLogError as error:
@@ -320,7 +321,7 @@ def choose_window(
     reason: str,
     who: str = "",
     when: str | datetime | None = None,
-    series: Series | None = None,
+    series: Series,
 ) -> WindowChoice:
     """Record the reading window chosen for a specimen; the data files are not touched.
 
@@ -339,8 +340,9 @@ def choose_window(
         Who chose it (free text).
     when : str or datetime, optional
         ISO 8601 with a time zone; default now, in the local time zone.
-    series : Series, optional
-        The effective series, when at hand, to check the rows against (loaded otherwise).
+    series : Series
+        The series as opened (``kitchen.workspace.Workspace(series_path).series``): the
+        rows are checked against its readings before anything is written.
 
     Returns
     -------

@@ -8,9 +8,9 @@ distributions. The conductivity models of the reductions are built from these pi
 the fit's own uncertainty (Type A) combined with the resolutions of the caliper, balance,
 timer, head scale, volume scale and thermometer (Type B).
 
-The input quantities and the instrument resolutions are in :mod:`kitchen.uncertainty.input_quantities`,
-the propagation in :mod:`kitchen.uncertainty.propagation`; their names are importable from
-here.
+This module holds that conductivity model (:func:`conductivity_interval`). The input
+quantities and the instrument resolutions are in :mod:`kitchen.uncertainty.input_quantities`,
+the propagation in :mod:`kitchen.uncertainty.propagation`.
 
 References
 ----------
@@ -81,7 +81,7 @@ def conductivity_interval(
     resolutions : Resolutions
         Instrument resolutions.
     fit : InputQuantity, optional
-        The fitted factor (:func:`fit_quantity`).
+        The fitted factor (:func:`~kitchen.uncertainty.fit_quantity`).
     readings : tuple of InputQuantity, optional
         Raw readings, used by ``reading_factor``.
     reading_factor : callable, optional

@@ -1,7 +1,7 @@
 """Propagation of uncertainty: from input quantities through a model to a 95 % interval.
 
 A measurement model ``y = f(x1, x2, …)`` and its input quantities
-(:class:`kitchen.uncertainty.input_quantities.InputQuantity`) give the output's standard uncertainty and
+(:class:`kitchen.uncertainty.InputQuantity`) give the output's standard uncertainty and
 an interval, either by the GUM's law of propagation of uncertainty (first order, with the
 Welch–Satterthwaite effective degrees of freedom, :func:`propagate_first_order`) or by
 Monte Carlo propagation of the distributions (:func:`propagate_monte_carlo`). The result is

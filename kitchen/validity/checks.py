@@ -14,8 +14,8 @@ every sentence that uses one says so.
 This module holds the checks: steady values, the trend, outflow/inflow, the gradient, the
 Reynolds number, k against gradient, and :func:`is_valid` over their verdicts. The limits
 and :class:`Verdict` are in :mod:`kitchen.validity.criteria`, the curvature and runs tests
-in :mod:`kitchen.fits.curvature`, the window proposal in :mod:`kitchen.validity.window_proposal`;
-their names are importable from here too.
+in :mod:`kitchen.fits.curvature`, the window proposal in
+:mod:`kitchen.validity.window_proposal`.
 
 References
 ----------
@@ -143,8 +143,8 @@ def trend_check(curvature: CurvatureTest, criteria: Criteria) -> Verdict:
     Parameters
     ----------
     curvature : CurvatureTest
-        :func:`curvature_test` of ln h on the reference-equivalent time over the window;
-        a trend in k is a change of the slope of ln h, so the quadratic term tests it.
+        :func:`~kitchen.fits.curvature_test` of ln h on the reference-equivalent time over the
+        window; a trend in k is a change of the slope of ln h, so the quadratic term tests it.
     criteria : Criteria
         ``trend_level`` and ``trend_minimum_change``.
 

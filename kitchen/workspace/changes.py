@@ -10,8 +10,9 @@ import numpy as np
 import pandas as pd
 
 from kitchen.analysis import classify_against_criterion
-from kitchen.revisions import read_revisions, revisions_path
-from kitchen.revisions.effective import _load, _position
+from kitchen.revisions import RevisionError, read_revisions, revisions_path
+
+from .workspace import Workspace
 
 __all__ = ["what_changed", "revision_effect"]
 
@@ -63,9 +64,9 @@ def what_changed(
         ``specimen``, ``method``, ``dry_density``, ``void_ratio``, ``k_reference``,
         ``k_reference_low``, ``k_reference_high`` and ``valid``.
     criterion : float or Criterion, optional
-        Largest conductivity allowed (a number), or a :class:`kitchen.analysis.criterion.Criterion` of
+        Largest conductivity allowed (a number), or a :class:`kitchen.analysis.Criterion` of
         either kind; when given, each side's verdict from
-        :func:`kitchen.analysis.criterion.classify_against_criterion`. [m/s]
+        :func:`kitchen.analysis.classify_against_criterion`. [m/s]
 
     Returns
     -------
@@ -132,7 +133,8 @@ def revision_effect(
     """What one row of the log changed: :func:`what_changed` across that row.
 
     Compares the results with the log as it stood just before the row and just after it
-    (for a withdrawal, what withdrawing changed).
+    (for a withdrawal, what withdrawing changed), each opened as a :class:`Workspace`,
+    so with the reading windows on record, as the report reduces the series.
 
     Parameters
     ----------
@@ -145,10 +147,12 @@ def revision_effect(
     criterion : float, optional
         Largest conductivity allowed. [m/s]
     """
-    from kitchen.reduction import series_results
-
     revisions = read_revisions(series_path)
-    position = _position(revisions, revision_id, revisions_path(series_path))
-    before = series_results(_load(series_path, position).series, settings)
-    after = series_results(_load(series_path, position + 1).series, settings)
+    wanted = str(revision_id).strip().lower()
+    ids = [revision.id for revision in revisions]
+    if wanted not in ids:
+        raise RevisionError(f"no revision {revision_id!r} in {revisions_path(series_path)}")
+    position = ids.index(wanted)
+    before = Workspace(series_path, settings, log_rows=position).results()
+    after = Workspace(series_path, settings, log_rows=position + 1).results()
     return what_changed(before, after, criterion)

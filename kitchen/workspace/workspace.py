@@ -22,6 +22,7 @@ from pathlib import Path
 
 import pandas as pd
 
+from kitchen.analysis import SeriesAnalysis, analyse_series
 from kitchen.io import TABLE_NAMES, RawTable, Series, build_series, read_tables, rebuild_series
 from kitchen.reduction import (
     ConstantHeadAnalysis,
@@ -31,6 +32,7 @@ from kitchen.reduction import (
     constant_head_analysis,
 )
 from kitchen.reduction import result_row as results_row
+from kitchen.reduction import results_table
 from kitchen.revisions import (
     EffectiveSeries,
     HeldSeries,
@@ -58,6 +60,13 @@ READING_TABLES = ("constant_head", "falling_head")
 class Workspace:
     """A series open for work: effective data, and results cached per specimen.
 
+    This is the one way into a series: the command line, every panel, the revise summary
+    and the memo pack open a series here, so that the same specimen shows the same k
+    everywhere. It reads the raw tables, applies the standing revisions, takes the
+    reading windows on record, and hands out the reductions (:meth:`falling_head`,
+    :meth:`constant_head`), the results (:meth:`results`, :meth:`results_table`) and the
+    series analysis (:meth:`analysis`), each specimen reduced once while its inputs stand.
+
     Parameters
     ----------
     series_path : str or pathlib.Path
@@ -66,6 +75,12 @@ class Workspace:
     settings : Settings, optional
         Reference temperature, viscosity, criteria and the rest
         (:class:`kitchen.settings.Settings`).
+    log_rows : int, optional
+        Apply only the first `log_rows` rows of the revision log: the series as it stood
+        before a later revision (what a revision changed is two workspaces, one row apart).
+    windows_on_record : bool, default True
+        Reduce each falling-head specimen with the reading window recorded in the window
+        log (:mod:`kitchen.revisions.window_log`); False lets the tool propose every window.
 
     Raises
     ------
@@ -80,19 +95,28 @@ class Workspace:
     its inputs; a falling-head record (the prepared readings) is kept apart from its
     analysis, so that moving the reading window reuses the record, and a revised height or
     diameter reuses the record's reading arrays
-    (:meth:`kitchen.reduction.falling_head_record.FallingHeadRecord.with_specimen`). The digest of each
+    (:meth:`kitchen.reduction.FallingHeadRecord.with_specimen`). The digest of each
     specimen's readings is computed once, when its table is built.
     """
 
-    def __init__(self, series_path: str | Path, settings: Settings | None = None):
+    def __init__(
+        self,
+        series_path: str | Path,
+        settings: Settings | None = None,
+        *,
+        log_rows: int | None = None,
+        windows_on_record: bool = True,
+    ):
         self.path = Path(series_path)
+        self._log_rows = log_rows
+        self._windows_on_record = bool(windows_on_record)
         self._settings = settings or Settings()
         self._settings_digest = _digest(self._settings)
         self._windows: dict[str, tuple[int, int] | None] = {}
         self._rises: dict[str, float | None] = {}
         self._written, self._input_files = read_tables(self.path)
         self._stamps = file_stamps(self._input_files)
-        self._revisions: tuple[Revision, ...] = read_revisions(self.path)
+        self._revisions: tuple[Revision, ...] = self._read_log()
         self._log_sha256 = log_sha256(self.path)
         self._tables = {name: self._effective_table(name) for name in self._written}
         self._series = build_series(self._tables, self.path, self._input_files)
@@ -105,7 +129,7 @@ class Workspace:
         self._index_specimens()
         self._window_choices: tuple = ()
         self._logged_windows: dict[str, tuple[int, int]] = {}
-        self._apply_choices(read_window_choices(self.path))
+        self._apply_choices(self._read_choices())
         self.last_moved: tuple[str, ...] = ()
         """The specimens moved by the last :meth:`revise` or :meth:`withdraw`."""
         self.last_timings: dict[str, float] = {}
@@ -113,6 +137,15 @@ class Workspace:
         applying it."""
 
     # --- the effective data ----------------------------------------------------------------
+    def _read_log(self) -> tuple[Revision, ...]:
+        """The revision log's rows, up to ``log_rows`` when the workspace was opened so."""
+        revisions = read_revisions(self.path)
+        return revisions if self._log_rows is None else revisions[: self._log_rows]
+
+    def _read_choices(self) -> tuple:
+        """The window log's rows, or none when the workspace ignores the windows on record."""
+        return read_window_choices(self.path) if self._windows_on_record else ()
+
     def _effective_table(self, name: str) -> RawTable:
         """The table as written with the standing revisions that name it applied."""
         own = [r for r in self._revisions if r.table == name]
@@ -234,7 +267,7 @@ class Workspace:
         SeriesError, RevisionError
             As when the workspace is opened; the workspace is then left as it was.
         """
-        revisions = read_revisions(self.path)
+        revisions = self._read_log()
         held = self._revisions
         try:
             rewritten = file_stamps(self._input_files) != self._stamps
@@ -246,7 +279,7 @@ class Workspace:
             changed = {r.table for r in revisions[len(held) :]}
         else:  # rows were changed or removed (by hand): apply the whole log again
             changed = {r.table for r in revisions} | {r.table for r in held}
-        choices = read_window_choices(self.path)
+        choices = self._read_choices()
         if not changed and choices == self._window_choices:
             return ()
         before = self._inputs()
@@ -306,7 +339,7 @@ class Workspace:
         self._index_specimens()
         self._index_readings(READING_TABLES)
         self._window_choices = ()  # the rows are checked again against the readings read
-        self._apply_choices(read_window_choices(self.path))
+        self._apply_choices(self._read_choices())
         return self._moved(before)
 
     def _moved(self, before: dict) -> tuple[str, ...]:
@@ -396,26 +429,37 @@ class Workspace:
         )
 
     def _analyse(self, specimen: str, readings: pd.DataFrame) -> FallingHeadAnalysis:
+        try:
+            return self.falling_head_record(specimen).analyse(self._window_of(specimen))
+        except ValueError as error:  # as kitchen.reduction.series_results words it
+            raise ValueError(f"{self._series.name}, falling-head readings: {error}") from error
+
+    def falling_head_record(self, specimen: str) -> FallingHeadRecord:
+        """One specimen's falling-head readings, checked and prepared once
+        (:class:`kitchen.reduction.FallingHeadRecord`), for trying reading windows and fits.
+
+        The record is the one :meth:`falling_head` analyses: kept while the readings, the
+        settings and the capillary rise stand, and moved to a revised height or diameter
+        without preparing the readings again.
+        """
+        readings = self.readings(specimen, "falling_head")
         readings_key = _digest(
             self._reading_digests["falling_head"][specimen],
             self._settings_digest,
             self._rises.get(specimen),
         )
         row_key = self._specimen_digests[specimen]
-        try:
-            held = self._records.get(specimen)
-            if held is None or held[0] != readings_key:
-                record = FallingHeadRecord(
-                    readings, self._state_rows[specimen], self._settings, self._rises.get(specimen)
-                )
-            elif held[1] != row_key:  # a revised height, diameter, ...: the readings stand
-                record = held[2].with_specimen(self._state_rows[specimen])
-            else:
-                record = held[2]
-            self._records[specimen] = (readings_key, row_key, record)
-            return record.analyse(self._window_of(specimen))
-        except ValueError as error:  # as kitchen.reduction.results.series_results words it
-            raise ValueError(f"{self._series.name}, falling-head readings: {error}") from error
+        held = self._records.get(specimen)
+        if held is None or held[0] != readings_key:
+            record = FallingHeadRecord(
+                readings, self._state_rows[specimen], self._settings, self._rises.get(specimen)
+            )
+        elif held[1] != row_key:  # a revised height, diameter, ...: the readings stand
+            record = held[2].with_specimen(self._state_rows[specimen])
+        else:
+            record = held[2]
+        self._records[specimen] = (readings_key, row_key, record)
+        return record
 
     def constant_head(self, specimen: str) -> ConstantHeadAnalysis:
         """One specimen's constant-head analysis; from the cache while its inputs are unchanged."""
@@ -432,7 +476,7 @@ class Workspace:
         return self._cached(specimen, "constant_head", key, reduce)
 
     def results(self) -> pd.DataFrame:
-        """The results table of the effective series, as :func:`kitchen.reduction.results.series_results`.
+        """The results table of the effective series, as :func:`kitchen.reduction.series_results`.
 
         Returns
         -------
@@ -461,3 +505,52 @@ class Workspace:
             self._result_rows[specimen, table] = held
         # lists copied: a caller may change its table without changing the one kept here
         return {k: list(v) if isinstance(v, list) else v for k, v in held[2].items()}
+
+    # --- what the views show ---------------------------------------------------------------
+    @property
+    def revision_count(self) -> int:
+        """How many revisions stand (applied and not withdrawn)."""
+        return self.effective.revision_count
+
+    @property
+    def window_choices(self) -> tuple:
+        """The rows of the window log in force when the workspace last read it."""
+        return self._window_choices
+
+    @property
+    def windows(self) -> dict[str, tuple[int, int]]:
+        """The reading window each falling-head specimen is reduced with, where one was
+        chosen (in the window log, or set here); the others get the window the tool
+        proposes. ``{specimen: (start, stop)}`` as positions in its readings."""
+        chosen = {}
+        for specimen in self._rows.get("falling_head", {}):
+            window = self._window_of(specimen)
+            if window is not None:
+                chosen[specimen] = window
+        return chosen
+
+    @property
+    def capillary_rises(self) -> dict[str, float]:
+        """Measured capillary rises set for specimens' standpipes, ``{specimen: rise}``. [m]"""
+        return {specimen: rise for specimen, rise in self._rises.items() if rise is not None}
+
+    def results_table(self) -> pd.DataFrame:
+        """The exported results table (:func:`kitchen.reduction.results_table`) of
+        :meth:`results`: headers with their units, checks in words."""
+        return results_table(self.results(), self._settings)
+
+    def analysis(self, criterion, confidence: float = 0.95) -> SeriesAnalysis:
+        """The series analysis of :meth:`results` against a criterion
+        (:func:`kitchen.analysis.analyse_series`).
+
+        Parameters
+        ----------
+        criterion : float or Criterion
+            Largest k allowed (a number), or a :class:`kitchen.analysis.Criterion` of
+            either kind. [m/s]
+        confidence : float, default 0.95
+            Confidence of the fitted lines' intervals.
+        """
+        return analyse_series(
+            self.results(), criterion, self._settings.reference_temperature, confidence
+        )

@@ -75,3 +75,63 @@ def test_a_criterion_is_a_float_that_knows_its_direction():
 def test_classification_bad_input(args, message):
     with pytest.raises(ValueError, match=message):
         conductivity_criterion.classify_against_criterion(*args)
+
+
+# --- a criterion as typed ---------------------------------------------------------------------
+# 1 m/s = 100 cm/s (SI, common practice, no source)
+
+
+@pytest.mark.parametrize(
+    ("text", "value", "kind"),
+    [
+        ("1e-9 m/s", 1e-9, "maximum"),
+        ("1e-7 cm/s", 1e-9, "maximum"),
+        ("2.5e-10m/s", 2.5e-10, "maximum"),
+        ("≤ 1e-9 m/s", 1e-9, "maximum"),
+        ("k <= 1e-9 m/s", 1e-9, "maximum"),
+        ("max 1e-9 m/s", 1e-9, "maximum"),
+        ("≥ 1e-4 m/s", 1e-4, "minimum"),
+        (">=1e-2 cm/s", 1e-4, "minimum"),
+        ("Min 1e-4 m/s", 1e-4, "minimum"),
+    ],
+)
+def test_criterion_is_read_with_its_unit_and_direction(text, value, kind):
+    criterion = conductivity_criterion.parse_criterion(text)
+    assert criterion == value and criterion.kind == kind
+
+
+@pytest.mark.parametrize(
+    ("text", "kind", "value", "expected_kind"),
+    [
+        # the command line's --criterion (a number in m/s) and --criterion-kind
+        ("1e-9", None, 1e-9, "maximum"),
+        ("1e-4", "minimum", 1e-4, "minimum"),
+        (".5e-9", "maximum", 5e-10, "maximum"),
+        ("1e-7 cm/s", None, 1e-9, "maximum"),
+        (">= 1e-4 m/s", "minimum", 1e-4, "minimum"),
+        ("min 1e-4", None, 1e-4, "minimum"),
+    ],
+)
+def test_a_number_without_unit_is_read_where_the_unit_is_given(text, kind, value, expected_kind):
+    criterion = conductivity_criterion.parse_criterion(text, kind, unit="m/s")
+    assert criterion == value and criterion.kind == expected_kind
+
+
+@pytest.mark.parametrize(
+    ("text", "kind", "unit", "message"),
+    [
+        ("1e-9", None, None, "has no unit"),
+        ("1e-9 m", None, None, "has unit 'm'"),
+        ("1e-9 m", None, "m/s", "has unit 'm'"),
+        ("fast", None, None, "expected a number and its unit"),
+        ("0 m/s", None, None, "expected a positive"),
+        ("-1e-9", None, "m/s", "expected a positive"),
+        ("1e999 m/s", None, None, "finite"),
+        ("≥ 1e-4 m/s", "maximum", None, "is a smallest k required, but its kind is given as"),
+        ("max 1e-9 m/s", "minimum", None, "is a largest k allowed, but its kind is given as"),
+        ("1e-9 m/s", "most", None, "expected 'maximum'"),
+    ],
+)
+def test_bad_criterion_is_refused_in_words(text, kind, unit, message):
+    with pytest.raises(ValueError, match=message):
+        conductivity_criterion.parse_criterion(text, kind, unit)

@@ -5,7 +5,7 @@ import pandas as pd
 from analysis_results import results_frame
 
 from kitchen.analysis import analyse_series
-from kitchen.analysis.result_selection import _specific_gravity
+from kitchen.analysis.result_selection import median_specific_gravity
 
 
 def test_one_result_per_specimen_prefers_a_valid_one():
@@ -57,11 +57,11 @@ def test_specific_gravity_is_the_median_and_a_spread_is_noted():
     # the median of the values given, against numpy.median (a reference library)
     values = [2.65, 2.70, 2.72, np.nan]
     notes = []
-    gs = _specific_gravity(pd.DataFrame({"specific_gravity": values}), notes)
+    gs = median_specific_gravity(pd.DataFrame({"specific_gravity": values}), notes)
     assert gs == np.nanmedian(values)
     assert notes == [
         "specimens carry 3 values of Gs (2.65 to 2.72): the saturation lines use their median, 2.7"
     ]
     none = []
-    assert _specific_gravity(pd.DataFrame({"specific_gravity": [np.nan]}), none) is None
+    assert median_specific_gravity(pd.DataFrame({"specific_gravity": [np.nan]}), none) is None
     assert none == []

@@ -13,7 +13,6 @@ from kitchen.reduction import (
     collection_table,
     constant_head_analysis,
     falling_head_analysis,
-    reduce_falling_head,
 )
 from kitchen.specimen import specimen_state
 
@@ -52,14 +51,16 @@ def test_falling_head_chart(clay):
     assert "cm/s" in figure.layout.title.text
 
 
-def test_falling_head_chart_takes_the_plain_reduction_too(clay):
+def test_falling_head_chart_draws_the_log_linear_fit(clay):
     series, _ = clay
     state = specimen_state(series.specimens).set_index("specimen", drop=False)
     readings = series.falling_head[series.falling_head["specimen"] == "QF-03"]
-    result = reduce_falling_head(readings, state.loc["QF-03"])
+    result = falling_head_analysis(
+        readings, state.loc["QF-03"], window=(0, len(readings)), fit="log_linear"
+    )
     figure = specimen_charts.falling_head_figure(readings, result)
     line = next(t for t in figure.data if t.mode == "lines")
-    np.testing.assert_allclose(line.y, np.exp(result.fit.predict(result.reference_time)))
+    np.testing.assert_allclose(line.y, np.exp(result.line.predict(result.reference_time)))
 
 
 def test_long_records_are_decimated():

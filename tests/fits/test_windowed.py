@@ -13,7 +13,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from kitchen.fits import WindowedLineFit, fit_line
-from kitchen.fits.windowed import _compensated_prefix
+from kitchen.fits.windowed import compensated_prefix_sums
 
 RTOL = 1e-9  # agreement with reference libraries on well-conditioned data
 
@@ -49,7 +49,7 @@ def test_compensated_prefix_sums_match_fsum():
     # readings: a plain running sum is off by more than 1, the pair by far less than 1e-3
     rng = np.random.default_rng(11)
     values = rng.uniform(0.0, 6e5, 300_000) ** 2
-    high, low = _compensated_prefix(values)
+    high, low = compensated_prefix_sums(values)
     for k in (1, 17, 123_457, 299_999, 300_000):
         error = math.fsum(np.concatenate([[high[k], low[k]], -values[:k]]))
         assert abs(error) <= 1e-3, k

@@ -2,10 +2,13 @@
 
 from pathlib import Path
 
+import pandas as pd
+
 from kitchen.io import load_series
 from kitchen.memo import export_memo_pack
 from kitchen.reduction import series_results
 from kitchen.settings import Settings
+from kitchen.workspace import Workspace
 
 SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
@@ -24,7 +27,13 @@ def test_specimen_charts_use_the_windows_and_rises_of_the_results(tmp_path):
     rises, windows = {"QF-01": 0.004}, {"QF-03": (4, 30)}
     results = series_results(series, settings, windows, rises)
     analysis = analyse_series(results, 1e-9)
-    built, _ = memo_charts(series, analysis, settings, windows=windows, capillary_rises=rises)
+    workspace = Workspace(SAMPLES / "clay_liner", settings)
+    for specimen, rise in rises.items():
+        workspace.set_capillary_rise(specimen, rise)
+    for specimen, window in windows.items():
+        workspace.set_window(specimen, window)
+    pd.testing.assert_frame_equal(workspace.results(), results)
+    built, _ = memo_charts(workspace, analysis)
     titles = {name: figure.layout.title.text for name, _, figure in built}
     state = specimen_state(series.specimens).set_index("specimen", drop=False)
     for specimen, window, rise in (("QF-01", None, 0.004), ("QF-03", (4, 30), None)):
@@ -37,8 +46,7 @@ def test_specimen_charts_use_the_windows_and_rises_of_the_results(tmp_path):
         assert titles[f"specimen_{specimen}_falling_head"] == expected
         plain = falling_head_analysis(readings, state.loc[specimen], settings)
         assert charts.falling_head_figure(readings, plain).layout.title.text != expected
-    pack = export_memo_pack(series, tmp_path, results=results, windows=windows,
-                            capillary_rises=rises, images=False)  # fmt: skip
+    pack = export_memo_pack(workspace, tmp_path, images=False)
     report = (tmp_path / "report.html").read_text()
     assert "QF-01: 4.0 mm" in report and "QF-03: readings 5-30" in report
     assert len(pack) > 0

@@ -8,8 +8,8 @@ from pathlib import Path
 import pytest
 
 from kitchen import cli
-from kitchen.io import load_series
 from kitchen.memo import CHART_SCRIPT, MANIFEST, export_memo_pack, read_manifest, verify_pack
+from kitchen.workspace import Workspace
 
 SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
@@ -17,7 +17,7 @@ SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 @pytest.fixture
 def sand_pack(tmp_path):
     out = tmp_path / "pack"
-    pack = export_memo_pack(load_series(SAMPLES / "drainage_sand"), out, images=False)
+    pack = export_memo_pack(Workspace(SAMPLES / "drainage_sand"), out, images=False)
     return out, pack
 
 
@@ -48,8 +48,9 @@ def test_a_second_export_removes_only_its_own_stale_files(sand_pack, tmp_path):
     out, first = sand_pack
     own = out / "notes-from-the-reviewer.txt"
     own.write_text("mine")
-    series = load_series(SAMPLES / "drainage_sand")
-    second = export_memo_pack(series, out, images=False, self_contained=True)
+    second = export_memo_pack(
+        Workspace(SAMPLES / "drainage_sand"), out, images=False, self_contained=True
+    )
     assert second.removed == (out / CHART_SCRIPT,)  # no longer loaded by any page
     assert not (out / CHART_SCRIPT).exists() and own.read_text() == "mine"
     assert verify_pack(out) == []
@@ -60,7 +61,7 @@ def test_a_damaged_manifest_stops_the_export_before_it_writes(sand_pack):
     (out / MANIFEST).write_text("path,bytes,sha256\n../../etc/passwd,1," + "0" * 64 + "\n")
     before = {p: p.stat().st_mtime_ns for p in out.rglob("*") if p.is_file()}
     with pytest.raises(ValueError, match="row 2: '../../etc/passwd' is not a path inside"):
-        export_memo_pack(load_series(SAMPLES / "drainage_sand"), out, images=False)
+        export_memo_pack(Workspace(SAMPLES / "drainage_sand"), out, images=False)
     assert {p: p.stat().st_mtime_ns for p in out.rglob("*") if p.is_file()} == before
 
 

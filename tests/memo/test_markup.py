@@ -5,7 +5,7 @@ from html.parser import HTMLParser
 
 import pytest
 
-from kitchen.memo._markup import ChartScript, _table
+from kitchen.memo.markup import ChartScript, table_markup
 
 INLINED = ChartScript("/*PLOTLY-JS*/", "4.1.1")
 
@@ -60,7 +60,9 @@ def test_table_cells_read_back_by_an_html_parser():
     # read back by Python's own html.parser (a reference parser): header cells, then one
     # cell per value, numbers right-aligned and kept on one line by their class
     parser = _Cells()
-    parser.feed(_table(["specimen", "k"], [("A &amp; B", "1.2e-9")], numeric=(1,), nowrap=(0,)))
+    parser.feed(
+        table_markup(["specimen", "k"], [("A &amp; B", "1.2e-9")], numeric=(1,), nowrap=(0,))
+    )
     assert parser.cells == [
         ("th", None, "specimen"),
         ("th", None, "k"),

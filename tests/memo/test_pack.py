@@ -27,11 +27,11 @@ from plotly.offline import get_plotlyjs, get_plotlyjs_version
 
 from kitchen import __version__
 from kitchen.cautions import CAUTIONS
-from kitchen.io import load_series
 from kitchen.memo import CHART_SCRIPT, MEMO_CAUTIONS, export_memo_pack
 from kitchen.reduction import results_table, series_results
 from kitchen.revisions import load_effective_series, revise
 from kitchen.settings import Settings
+from kitchen.workspace import Workspace
 
 SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 CHROMIUM = Path("/usr/bin/chromium").exists() or shutil.which("chromium") is not None
@@ -67,11 +67,11 @@ def run(*arguments, env=None):
 def clay_pack(tmp_path_factory):
     out = tmp_path_factory.mktemp("clay_pack")
     calls = []
-    series = load_series(SAMPLES / "clay_liner")
+    workspace = Workspace(SAMPLES / "clay_liner")
     pack = export_memo_pack(
-        series, out, images=False, progress=lambda *call: calls.append(call), k_unit="cm/s"
+        workspace, out, images=False, progress=lambda *call: calls.append(call), k_unit="cm/s"
     )
-    return series, pack, calls
+    return workspace.series, pack, calls
 
 
 def test_pack_files_and_progress(clay_pack):
@@ -193,14 +193,7 @@ def test_revisions_are_counted_and_their_log_hashed(tmp_path):
     shutil.copytree(SAMPLES / "clay_liner", folder)
     revise(folder, specimen="QF-02", field="height", value="116.38 mm", reason="re-measured")
     effective = load_effective_series(folder)
-    pack = export_memo_pack(
-        effective.series,
-        tmp_path / "out",
-        images=False,
-        revision_count=effective.revision_count,
-        revision_log=effective.log_path,
-        revision_log_sha256=effective.log_sha256,
-    )
+    pack = export_memo_pack(Workspace(folder), tmp_path / "out", images=False)
     page = (tmp_path / "out" / "report.html").read_text()
     log_hash = sha256(folder / "revisions.csv")
     assert pack.provenance.revision_count == 1 and pack.provenance.revision_log_sha256 == log_hash

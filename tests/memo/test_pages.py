@@ -18,7 +18,7 @@ from kitchen.memo import (
     memo_provenance,
     report_page,
 )
-from kitchen.memo._markup import ChartScript
+from kitchen.memo.markup import ChartScript
 from kitchen.reduction import series_results
 
 SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"

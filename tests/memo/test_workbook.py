@@ -13,8 +13,8 @@ from openpyxl import load_workbook
 
 from kitchen import __version__
 from kitchen.cautions import CAUTIONS
-from kitchen.io import load_series
 from kitchen.memo import MEMO_CAUTIONS, export_memo_pack, workbook_bytes
+from kitchen.workspace import Workspace
 
 SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
@@ -63,7 +63,7 @@ def hostile_series(tmp_path_factory):
 
 
 def test_formula_like_text_is_neutralised(hostile_series, tmp_path):
-    pack = export_memo_pack(load_series(hostile_series), tmp_path, images=False)
+    pack = export_memo_pack(Workspace(hostile_series), tmp_path, images=False)
     csv_text = (tmp_path / "results.csv").read_text()
     assert "'-DL-A" in csv_text and "'=HYPERLINK" in csv_text
     book = load_workbook(tmp_path / "results.xlsx")

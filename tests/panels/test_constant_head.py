@@ -26,7 +26,7 @@ def collections(sand):
 
 @pytest.fixture()
 def panel(sand):
-    return constant_head_panel(sand)
+    return constant_head_panel(sand.source)
 
 
 def _trace(panel, name):
@@ -80,4 +80,4 @@ def test_series_without_collections_is_refused_in_words():
 
 def test_unknown_specimen_is_refused_with_the_choices(sand):
     with pytest.raises(ValueError, match="choose one of DL-A, DL-B, DL-C, DL-D"):
-        constant_head_panel(sand, specimen="QF-01")
+        constant_head_panel(sand.source, specimen="QF-01")

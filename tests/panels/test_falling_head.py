@@ -35,7 +35,7 @@ def _trace(figure, name):
 
 @pytest.fixture()
 def panel(clay):
-    return falling_head_panel(clay, specimen="QF-02")
+    return falling_head_panel(clay.source, specimen="QF-02")
 
 
 def test_opens_on_the_window_the_core_proposes(panel, clay):
@@ -121,7 +121,7 @@ def test_a_window_too_short_is_refused_in_words(panel):
 
 def test_settings_reach_the_analysis(clay):
     settings = Settings(reference_temperature=10.0)
-    panel = falling_head_panel(clay, settings=settings, specimen="QF-01")
+    panel = falling_head_panel(clay.source, settings=settings, specimen="QF-01")
     expected = _record(clay, "QF-01", settings).analyse(None, "log_linear")
     assert panel.analysis.k_reference == expected.k_reference
     assert "<b>k10</b>" in panel.summary.value

@@ -1,4 +1,4 @@
-"""Falling-head reduction: round trips and invariants of the plain reduction, and its names."""
+"""Falling-head reduction in one call: round trips and invariants, and its names."""
 
 import numpy as np
 import pytest
@@ -6,14 +6,21 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from synthetic_records import known_k_record
 
-from kitchen.reduction import reduce_falling_head
+from kitchen.reduction import FallingHeadRecord, falling_head_analysis
 from kitchen.water import viscosity_ratio, water_surface_tension
+
+
+def _log_linear(readings, specimen, window=None):
+    """The log-linear fit over `window`, every reading by default (no window proposed)."""
+    return falling_head_analysis(
+        readings, specimen, window=window or (0, len(readings)), fit="log_linear"
+    )
 
 
 @pytest.mark.parametrize("tailwater_area", [np.nan, 3.0e-6])
 def test_round_trip_exact(tailwater_area):
     readings, specimen = known_k_record(tailwater_area=tailwater_area)
-    result = reduce_falling_head(readings, specimen)
+    result = _log_linear(readings, specimen)
     assert result.k_reference == pytest.approx(2.0e-9, rel=1e-9)
     assert result.k == pytest.approx(2.0e-9, rel=1e-9)
 
@@ -23,18 +30,20 @@ def test_round_trip_with_drifting_temperature():
     # reference-equivalent time recovers k20; k at test temperature is higher.
     temperature = np.linspace(17.0, 24.0, 40)
     readings, specimen = known_k_record(temperature=temperature)
-    result = reduce_falling_head(readings, specimen)
+    result = _log_linear(readings, specimen)
     assert result.k_reference == pytest.approx(2.0e-9, rel=1e-9)
     assert result.temperature == pytest.approx(20.5, abs=0.01)
     assert result.k == pytest.approx(2.0e-9 / viscosity_ratio(20.5), rel=5e-3)
 
 
 def test_noisy_round_trip_interval_covers_truth():
+    # the 95 % interval of the fitted slope alone, as k: -slope * a·L/A
     covered = 0
     for seed in range(40):
         readings, specimen = known_k_record(noise=0.5e-3, seed=seed)
-        result = reduce_falling_head(readings, specimen)
-        covered += result.k_reference_low <= 2.0e-9 <= result.k_reference_high
+        record = FallingHeadRecord(readings, specimen)
+        line = record.analyse((0, record.n), "log_linear").line
+        covered += -line.slope_high * record.scale <= 2.0e-9 <= -line.slope_low * record.scale
     assert covered >= 34  # a 95 % interval: expect about 38 of 40
 
 
@@ -42,23 +51,23 @@ def test_noisy_round_trip_interval_covers_truth():
 @given(st.floats(0.2, 5.0))
 def test_k_scales_with_height(factor):
     readings, specimen = known_k_record(noise=0.3e-3)
-    base = reduce_falling_head(readings, specimen).k_reference
+    base = _log_linear(readings, specimen).k_reference
     specimen = specimen.copy()
     specimen["height"] *= factor
-    assert reduce_falling_head(readings, specimen).k_reference == pytest.approx(base * factor)
+    assert _log_linear(readings, specimen).k_reference == pytest.approx(base * factor)
 
 
 def test_window_selects_readings():
     readings, specimen = known_k_record()
-    result = reduce_falling_head(readings, specimen, window=(10, 30))
+    result = _log_linear(readings, specimen, window=(10, 30))
     assert (result.n, result.start, result.stop) == (20, 10, 30)
-    assert result.time[0] == readings["time"].iloc[10]
+    assert result.window_time[0] == readings["time"].iloc[10]
 
 
 def test_two_readings_use_the_closed_form():
     readings, specimen = known_k_record()
-    result = reduce_falling_head(readings, specimen, window=(0, 2))
-    assert result.fit is None
+    result = _log_linear(readings, specimen, window=(0, 2))
+    assert result.line is None
     assert result.k_reference == pytest.approx(2.0e-9, rel=1e-9)
     assert any("two readings" in note for note in result.notes)
 
@@ -67,7 +76,7 @@ def test_two_readings_use_the_closed_form():
 def test_bad_window_is_named(window):
     readings, specimen = known_k_record()
     with pytest.raises(ValueError, match="specimen C1: reading window"):
-        reduce_falling_head(readings, specimen, window=window)
+        _log_linear(readings, specimen, window=window)
 
 
 # --------------------------------------------------------------------------- capillary rise

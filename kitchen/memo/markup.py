@@ -1,10 +1,12 @@
 """The markup the memo's pages share: style, escaping, numbers, tables, the page and its script.
 
 Every page of the pack is built from these as text: :data:`STYLE` inline (no request to the
-network), every value from the input escaped, numbers to a few significant figures, tables
-whose cells are already HTML, the page skeleton, the cautions box, and the
-:class:`ChartScript` that says how a page gets plotly.js — a file of the pack loaded by a
-relative path, with a notice shown when it is missing, or inlined in every page.
+network), every value from the input escaped (:func:`escape`), numbers to a few significant
+figures (:func:`number_text`), tables whose cells are already HTML (:func:`table_markup`,
+which the notebook panels' tables use too), the page skeleton (:func:`page_markup`), the
+cautions box (:func:`cautions_markup`), and the :class:`ChartScript` that says how a page
+gets plotly.js — a file of the pack loaded by a relative path, with a notice shown when it
+is missing, or inlined in every page.
 """
 
 from __future__ import annotations
@@ -18,7 +20,15 @@ from functools import cached_property
 
 import pandas as pd
 
-__all__ = ["STYLE", "ChartScript"]
+__all__ = [
+    "STYLE",
+    "ChartScript",
+    "cautions_markup",
+    "escape",
+    "number_text",
+    "page_markup",
+    "table_markup",
+]
 
 STYLE = """
 body { font-family: 'DejaVu Serif', 'Liberation Serif', Georgia, serif; color: #1d2731;
@@ -44,11 +54,13 @@ code, .hash { font-family: 'DejaVu Sans Mono', monospace; font-size: 0.85em;
 """
 
 
-def _e(value) -> str:
+def escape(value) -> str:
+    """`value` as text safe inside HTML (``&``, ``<``, ``>`` and quotes escaped; None: "")."""
     return html.escape("" if value is None else str(value))
 
 
-def _number(value, digits: int = 3) -> str:
+def number_text(value, digits: int = 3) -> str:
+    """A number to `digits` significant figures; "–" when missing, "∞" when infinite."""
     if value is None or pd.isna(value):
         return "–"
     value = float(value)
@@ -57,15 +69,29 @@ def _number(value, digits: int = 3) -> str:
     return f"{value:.{digits}g}"
 
 
-def _table(header, rows, numeric=(), nowrap=()) -> str:
-    """An HTML table; cells are already HTML (escape before)."""
+def table_markup(header, rows, numeric=(), nowrap=(), classes=None) -> str:
+    """An HTML table whose header and cells are HTML already (escape text with :func:`escape`).
+
+    Parameters
+    ----------
+    header : iterable of str
+        The column titles.
+    rows : iterable of iterable of str
+        The cells of each row.
+    numeric, nowrap : iterable of int
+        Positions of the columns whose cells get the class ``number`` (right-aligned, on one
+        line) or ``nowrap`` (on one line) of :data:`STYLE`; ``numeric`` wins.
+    classes : dict of int to str, optional
+        A class of the caller's own for the cells of other columns, by position.
+    """
+    kinds = dict(classes or {})
+    kinds.update(dict.fromkeys(nowrap, "nowrap"))
+    kinds.update(dict.fromkeys(numeric, "number"))
     head = "".join(f"<th>{h}</th>" for h in header)
     body = []
     for row in rows:
         cells = "".join(
-            f'<td class="number">{c}</td>'
-            if i in numeric
-            else (f'<td class="nowrap">{c}</td>' if i in nowrap else f"<td>{c}</td>")
+            f'<td class="{kinds[i]}">{c}</td>' if i in kinds else f"<td>{c}</td>"
             for i, c in enumerate(row)
         )
         body.append(f"<tr>{cells}</tr>")
@@ -112,7 +138,7 @@ class ChartScript:
         """The ``<script>`` element that gives a page in `folder` plotly.js."""
         if self.path is None:
             return f'<script type="text/javascript">{self.code}</script>\n'
-        return f'<script type="text/javascript" src="{_e(self.source(folder))}"></script>\n'
+        return f'<script type="text/javascript" src="{escape(self.source(folder))}"></script>\n'
 
     def notice(self, folder: str) -> tuple[str, str]:
         """A hidden notice for the top of a page in `folder`, and the check that shows it.
@@ -124,7 +150,7 @@ class ChartScript:
             return "", ""
         text = (
             "The interactive charts of this page did not load: they need plotly.js, which "
-            f"the page loads from <code>{_e(self.source(folder))}</code> (relative to the "
+            f"the page loads from <code>{escape(self.source(folder))}</code> (relative to the "
             "page), and it was not found. Open the page from the memo pack's folder, kept "
             "whole (unzip the pack first), or ask for a pack exported self-contained. The "
             "PNG and SVG charts of the pack need no script."
@@ -137,15 +163,17 @@ class ChartScript:
         return notice, check
 
 
-def _page(title: str, body: str, head_script: str = "") -> str:
+def page_markup(title: str, body: str, head_script: str = "") -> str:
+    """A whole page: `title` (escaped here), :data:`STYLE` inline, `head_script`, `body`."""
     return (
         '<!DOCTYPE html>\n<html lang="en">\n<head>\n<meta charset="utf-8">\n'
-        f'<meta name="generator" content="kitchen">\n<title>{_e(title)}</title>\n'
+        f'<meta name="generator" content="kitchen">\n<title>{escape(title)}</title>\n'
         f"<style>{STYLE}</style>\n{head_script}</head>\n<body><main>\n{body}\n</main></body>\n"
         "</html>\n"
     )
 
 
-def _cautions(cautions) -> str:
-    items = "".join(f"<li>{_e(text)}</li>" for text in cautions)
+def cautions_markup(cautions) -> str:
+    """The cautions (plain text, escaped here) as a framed list headed "Cautions"."""
+    items = "".join(f"<li>{escape(text)}</li>" for text in cautions)
     return f'<section class="cautions"><strong>Cautions</strong><ul>{items}</ul></section>'
