@@ -63,10 +63,8 @@ water density           ρw          kg/m³       ``water_density``
 
 Cautions
 --------
-Laboratory conductivity of compacted clay is often 10 to 1000 times lower than the field
-value of the liner built from it. The criterion, method and reference temperature come
-from local codes and the project specification; the numbers support, and never replace,
-the judgement of the responsible licensed engineer.
+Every result carries the cautions of :data:`kitchen.cautions.CAUTIONS`: one wording, which
+the README, the notebooks and every exported item quote as it is written there.
 """
 
 from importlib.metadata import PackageNotFoundError, version

@@ -1,5 +1,5 @@
-"""The cautions: one wording, carried by the README, the notebooks, the panels and every
-exported item.
+"""The cautions: one wording, quoted as it is by the README and the notebooks, and carried
+by every exported item (the report page, each chart page and static image, the workbook).
 
 References
 ----------

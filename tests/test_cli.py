@@ -83,7 +83,7 @@ def test_criterion_is_typed_as_in_the_notebook(tmp_path):
     # command line: with its unit and direction; 1e-2 cm/s is 1e-4 m/s (SI, common practice,
     # no source); the invented drainage sand meets it (sample_data/drainage_sand/truth.json)
     done = run_cli("report", SAMPLES / "drainage_sand", "--out", tmp_path, "--no-images",
-               "--criterion", ">= 1e-2 cm/s")  # fmt: skip
+                   "--criterion", ">= 1e-2 cm/s")  # fmt: skip
     assert done.returncode == 0, done.stderr
     report = (tmp_path / "report.html").read_text()
     assert "k20 ≥ 1×10⁻⁴ m/s (smallest k required)" in report and "meets: 4" in report
@@ -104,3 +104,90 @@ def test_a_criterion_that_does_not_read_is_refused_before_any_work(tmp_path, arg
     done = run_cli("report", SAMPLES / "drainage_sand", "--out", out, "--no-images", *arguments)
     assert done.returncode == 2 and message in done.stderr
     assert "Traceback" not in done.stderr and not out.exists()
+
+
+# --- revisions: revise, history, and a report that applies them -----------------------------
+
+
+@pytest.fixture
+def clay(tmp_path):
+    return Path(shutil.copytree(SAMPLES / "clay_liner", tmp_path / "clay_liner"))
+
+
+def test_command_line_revise_history_report(clay, tmp_path):
+    def main(*arguments):
+        done = run_cli(*arguments)
+        assert done.returncode == 0, done.stderr
+        return done.stdout
+
+    out = main("revise", clay, "--specimen", "QF-01", "--field", "height", "--value", "4.95 in",
+               "--reason", "re-measured after test", "--who", "R. Okafor", "--criterion", "1e-9")  # fmt: skip
+    [row] = log_rows(clay)
+    assert f"recorded revision {row['id']}" in out
+    # 116.27 mm -> 125.73 mm: rho_d falls by 116.27/125.73 (rho_d = Ms/(A L); Das)
+    assert "QF-01 falling_head: dry density 1.7049 -> 1.5767 Mg/m3" in out
+    main("revise", clay, "--specimen", "QF-01", "--field", "head", "--reading", "3",
+         "--value", "184.5 cm", "--reason", "typo")  # fmt: skip
+    out = main("history", clay, "--out", tmp_path / "history.csv")
+    assert "2 row(s)" in out and "reading row 3 head: 184.7 cm -> 184.5 cm" in out
+    assert pd.read_csv(tmp_path / "history.csv")["status"].tolist() == ["in force"] * 2
+    out = main("report", clay, "--out", tmp_path / "out", "--no-images")
+    assert "2 revision(s) applied" in out
+    table = pd.read_csv(tmp_path / "out" / "results.csv")
+    assert table.loc[0, "dry_density [Mg/m3]"] == pytest.approx(1.5767, abs=1e-4)
+    out = main("revise", clay, "--withdraw", row["id"], "--reason", "wrong specimen")
+    assert f"of revision {row['id']}" in out
+
+
+@pytest.mark.parametrize(
+    ("arguments", "message"),
+    [
+        (
+            ["--specimen", "QF-99", "--field", "height", "--value", "4.95 in"],
+            "unknown specimen 'QF-99'",
+        ),
+        (
+            ["--specimen", "QF-01", "--field", "height", "--value", "4.95 g"],
+            "unit 'g' is not a length",
+        ),
+        (["--specimen", "QF-01", "--field", "height"], "revise needs --value"),
+        (["--withdraw", "abcdef12", "--specimen", "QF-01"], "--withdraw takes only --reason"),
+        (["--withdraw", "abcdef12"], "no revision 'abcdef12'"),
+    ],
+)
+def test_command_line_bad_input_exits_2_and_writes_nothing(clay, arguments, message):
+    done = run_cli("revise", clay, *arguments, "--reason", "r")  # usage errors exit 2 too
+    assert done.returncode == 2
+    assert message in done.stderr
+    assert not revisions_path(clay).exists()
+
+
+def test_command_line_bad_input_shows_no_traceback(clay):
+    done = run_cli("revise", clay, "--specimen", "QF-01", "--field", "height", "--value", "-1 mm",
+                   "--reason", "r")  # fmt: skip
+    assert done.returncode == 2 and "Traceback" not in done.stderr
+    assert "must be greater than zero; nothing was written" in done.stderr
+    assert not revisions_path(clay).exists()
+
+
+def _snapshot(folder: Path) -> dict[str, bytes]:
+    return {str(p.relative_to(folder)): p.read_bytes() for p in folder.rglob("*") if p.is_file()}
+
+
+def test_export_failure_leaves_the_previous_report(clay, tmp_path, monkeypatch):
+    out = tmp_path / "out"
+    done = run_cli("report", clay, "--out", out, "--no-images")
+    assert done.returncode == 0, done.stderr
+    previous = _snapshot(out)
+    assert "results.csv" in previous
+    revise(clay, specimen="QF-01", field="height", value="4.95 in", reason="re-measured")
+
+    def full_disk(*arguments):
+        raise OSError(28, "No space left on device")
+
+    monkeypatch.setattr(files.os, "replace", full_disk)
+    done = run_cli("report", clay, "--out", out, "--no-images")
+    monkeypatch.undo()
+    assert done.returncode == 2
+    assert "No space left on device" in done.stderr
+    assert _snapshot(out) == previous  # every file as it was, and no temporary left behind

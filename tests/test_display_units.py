@@ -12,6 +12,7 @@ from kitchen.display_units import (
     density_unit,
     k_unit,
     scientific,
+    superscript,
 )
 
 
@@ -99,3 +100,13 @@ def test_distinct_texts_add_digits_until_values_differ():
     assert low != high
     same = distinct_texts(k_unit("m/s"), 7.5e-9, 7.5e-9, html=False)
     assert same[0] == same[1]
+
+
+@pytest.mark.parametrize(
+    ("exponent", "text"),
+    [(-9, "⁻⁹"), (10, "¹⁰"), (0, "⁰"), (-12345678, "⁻¹²³⁴⁵⁶⁷⁸")],
+)
+def test_superscript(exponent, text):
+    # the superscript digits and minus of Unicode (U+2070, U+00B9, U+00B2, U+00B3,
+    # U+2074-U+2079, U+207B; from memory)
+    assert superscript(exponent) == text

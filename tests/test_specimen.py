@@ -30,8 +30,9 @@ def test_hand_worked_specimen():
 
 
 def test_zero_air_voids_check_value():
-    # Check value (DOMAIN primer, textbook, from memory): w = 20 %, Gs = 2.70, S = 100 %
-    # -> rho_d = 1.753 Mg/m^3. A specimen at that state has S = 1 and e = w*Gs = 0.54.
+    # Check value (textbook: Das & Sobhan; Holtz & Kovacs; from memory): w = 20 %,
+    # Gs = 2.70, S = 100 % -> rho_d = 1.753 Mg/m^3. A specimen at that state has S = 1 and
+    # e = w*Gs = 0.54.
     rho_d = 2.70 * 1000.0 / (1 + 0.20 * 2.70)
     assert rho_d / 1000 == pytest.approx(1.753, abs=5e-4)
     assert degree_of_saturation(0.20, 2.70, void_ratio(rho_d, 2.70)) == pytest.approx(1.0)

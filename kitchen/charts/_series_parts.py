@@ -129,7 +129,7 @@ def specimen_trace_specs(
 ) -> list[dict]:
     """The traces of :func:`specimen_traces` as plain dicts (validated when a figure is
     built from them), each with `axes` (``xaxis``, ``yaxis``) added; `order` is the
-    :func:`effort_order` of the specimens and `hover` their :func:`hover_texts` texts, when
+    :func:`effort_order` of the specimens and `hover` their texts (:func:`hover_texts`), when
     already known."""
     frame = analysis.specimens
     order = effort_order(frame) if order is None else order

@@ -23,11 +23,11 @@ from kitchen.display_units import density_unit, k_unit, scientific
 from ._series_parts import (
     ERROR_BAR_FRACTION,
     criterion_spec,
+    effort_group_title,
     effort_order,
     effort_styles,
-    html_escaped,
-    effort_group_title,
     hover_texts,
+    html_escaped,
     k_axis_layout,
     k_axis_title,
     note_spec,

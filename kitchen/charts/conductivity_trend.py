@@ -17,11 +17,11 @@ from kitchen.display_units import DisplayUnit, density_unit, k_unit
 
 from ._series_parts import (
     ERROR_BAR_FRACTION,
+    add_note,
     criterion_trace,
     html_escaped,
     k_axis_layout,
     k_axis_title,
-    add_note,
     padded_range,
     specimen_traces,
 )

@@ -40,13 +40,8 @@ def _time_unit(span_seconds: float) -> tuple[str, float]:
 
 
 def _fitted_head(result) -> np.ndarray:
-    """Fitted head over the window, for a FallingHeadAnalysis or a FallingHeadResult. [m]"""
-    if hasattr(result, "fitted_head"):
-        return np.asarray(result.fitted_head, dtype=float)
-    fit = getattr(result, "fit", None)
-    if fit is None:
-        return np.asarray(result.head, dtype=float)[[0, -1]]
-    return np.exp(fit.predict(np.asarray(result.reference_time, dtype=float)))
+    """Fitted head over the window, from a FallingHeadAnalysis. [m]"""
+    return np.asarray(result.fitted_head, dtype=float)
 
 
 def falling_head_figure(
@@ -63,9 +58,9 @@ def falling_head_figure(
     readings : pandas.DataFrame or None
         The specimen's rows of the ``falling_head`` table, ``time`` [s] and ``head`` [m];
         None to take every reading from `result` (a FallingHeadAnalysis carries them).
-    result : kitchen.reduction.falling_head_evidence.FallingHeadAnalysis or FallingHeadResult
+    result : kitchen.reduction.FallingHeadAnalysis
         The reduction: ``start``, ``stop`` (the window, positions in the readings), the
-        fit (``fitted_head``, or ``fit`` and ``reference_time``), ``k_reference`` with
+        fitted head over the window (``fitted_head``), ``k_reference`` with
         ``k_reference_low`` and ``k_reference_high``.
     k_unit_name : {"m/s", "cm/s"}
     reference_temperature : float

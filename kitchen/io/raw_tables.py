@@ -80,7 +80,7 @@ SCHEMAS: dict[str, dict[str, ColumnSpec]] = {
 """Columns each table may carry, by internal name."""
 
 
-_TEXT_KINDS = ("id", "label")
+TEXT_KINDS = ("id", "label")
 
 
 @dataclass(frozen=True)
@@ -194,7 +194,7 @@ def _prepare(name: str, label: str, frame: pd.DataFrame, problems: list[InputPro
             problems.append(InputProblem(label, 1, raw_text, f"column '{internal}' given twice"))
             continue
         spec = schema[internal]
-        if spec.kind in _TEXT_KINDS:
+        if spec.kind in TEXT_KINDS:
             if unit:
                 problems.append(
                     InputProblem(label, 1, raw_text, f"'{internal}' is text and takes no unit")
@@ -224,7 +224,7 @@ def _prepare(name: str, label: str, frame: pd.DataFrame, problems: list[InputPro
                 problems.append(InputProblem(label, 1, raw_text, str(error)))
                 continue
         rename[raw] = internal
-        units[internal] = unit if spec.kind not in _TEXT_KINDS else None
+        units[internal] = unit if spec.kind not in TEXT_KINDS else None
         headers[internal] = raw_text
     for column, spec in schema.items():
         if spec.required and column not in rename.values():

@@ -26,12 +26,12 @@ from .raw_tables import SCHEMAS, TABLE_NAMES, InputProblem, RawTable, SeriesErro
 from .raw_tables import ColumnSpec as ColumnSpec
 from .table_checks import HEAD_RISE_TOLERANCE as HEAD_RISE_TOLERANCE
 from .table_checks import (
-    _check_known,
-    _check_readings,
-    _check_specimens,
-    _convert,
-    _Labels,
-    _report,
+    TextCodes,
+    check_known_specimens,
+    check_readings,
+    check_specimens,
+    convert_table,
+    report_rows,
 )
 
 __all__ = ["Series", "build_series", "rebuild_series", "load_series"]
@@ -72,27 +72,29 @@ def _assemble(tables, source, input_files, previous: Series | None, changed) -> 
     problems: list[InputProblem] = [p for name in changed for p in tables[name].problems]
     converted, ids = {}, {}
     for name in changed:
-        converted[name], ids[name] = _convert(tables[name], problems)
+        converted[name], ids[name] = convert_table(tables[name], problems)
     if "specimens" in changed:
-        specimens = _check_specimens(tables["specimens"], converted["specimens"], problems)
+        specimens = check_specimens(tables["specimens"], converted["specimens"], problems)
     else:
         specimens = previous.specimens
     known = set(specimens["specimen"].dropna())
     same_ids = previous is not None and known == set(previous.specimens["specimen"].dropna())
     for name in ("constant_head", "falling_head"):
         if name in changed:
-            _check_readings(tables[name], converted[name], ids[name], known, problems)
+            check_readings(tables[name], converted[name], ids[name], known, problems)
         elif name in tables:  # validated before: only the specimen ids may have gone stale
             converted[name] = getattr(previous, name)
             if not same_ids:
-                _check_known(tables[name], _Labels.of(converted[name]["specimen"]), known, problems)
+                check_known_specimens(
+                    tables[name], TextCodes.of(converted[name]["specimen"]), known, problems
+                )
         else:
             converted[name] = _empty_readings(name)
     if "falling_head" in tables:
         no_standpipe = specimens["standpipe_area"].isna()
         if no_standpipe.any():
             tested = _tested(converted["falling_head"])
-            _report(
+            report_rows(
                 problems,
                 tables["specimens"],
                 (specimens["specimen"].isin(tested) & no_standpipe).to_numpy(),

@@ -1,9 +1,9 @@
 """The checks of a series' values, and their conversion to SI.
 
-Each raw table's columns are converted to SI (:func:`_convert`), and its values checked:
+Each raw table's columns are converted to SI (:func:`convert_table`), and its values checked:
 numbers where numbers belong, positive and non-negative quantities, the dry mass and the
-standpipe areas of the specimens table (:func:`_check_specimens`), known specimen ids, and
-readings in time order with a falling head (:func:`_check_readings`). Every problem is
+standpipe areas of the specimens table (:func:`check_specimens`), known specimen ids, and
+readings in time order with a falling head (:func:`check_readings`). Every problem is
 added to a list as an :class:`~kitchen.io.raw_tables.InputProblem` naming the file, the row
 and the column; :mod:`kitchen.io.series` refuses the series with all of them at once. Text
 columns are handled by their distinct values, and every check is a vectorised pass.
@@ -16,7 +16,7 @@ from dataclasses import dataclass
 import numpy as np
 import pandas as pd
 
-from .raw_tables import _TEXT_KINDS, SCHEMAS, InputProblem, RawTable
+from .raw_tables import SCHEMAS, TEXT_KINDS, InputProblem, RawTable
 from .units import to_si
 
 __all__ = ["HEAD_RISE_TOLERANCE", "HEAD_RISE_SCATTERS", "head_rise_tolerance"]
@@ -110,7 +110,11 @@ def _numeric_column(table: RawTable, column: str, problems: list[InputProblem]) 
     return np.multiply(numbers, to_si(1.0, unit, kind))  # one pass, one new array
 
 
-def _report(problems, table: RawTable, mask: np.ndarray, column: str, message: str, limit=20):
+def report_rows(problems, table: RawTable, mask: np.ndarray, column: str, message: str, limit=20):
+    """Add `message` for each row of `table` where `mask` holds, naming file, row and column.
+
+    The first `limit` rows are named one by one, the rest counted in one more problem.
+    """
     if not mask.any():
         return
     rows = table.frame["source_row"].to_numpy()[mask]
@@ -124,14 +128,14 @@ def _report(problems, table: RawTable, mask: np.ndarray, column: str, message: s
 
 
 @dataclass(frozen=True)
-class _Labels:
+class TextCodes:
     """A text column as codes into its distinct values: ``values[codes]``, -1 where empty."""
 
     codes: np.ndarray
     values: np.ndarray  # distinct stripped texts (object array of str)
 
     @classmethod
-    def of(cls, column: pd.Series) -> _Labels:
+    def of(cls, column: pd.Series) -> TextCodes:
         """Codes of a text column; each distinct text is stripped once, not once per row."""
         if isinstance(column.dtype, pd.CategoricalDtype):
             codes = column.cat.codes.to_numpy()
@@ -155,7 +159,7 @@ class _Labels:
         return counts[1:].astype(bool)
 
 
-def _convert(table: RawTable, problems: list[InputProblem]) -> tuple[pd.DataFrame, _Labels]:
+def convert_table(table: RawTable, problems: list[InputProblem]) -> tuple[pd.DataFrame, TextCodes]:
     """The table in SI with its value problems reported, and its specimen ids as codes."""
     schema = SCHEMAS[table.name]
     rows = table.frame["source_row"].to_numpy(dtype=np.int32)  # a new array, not a view
@@ -164,13 +168,13 @@ def _convert(table: RawTable, problems: list[InputProblem]) -> tuple[pd.DataFram
     ids = None
     for column, spec in schema.items():
         present = column in table.frame.columns
-        if spec.kind in _TEXT_KINDS:
+        if spec.kind in TEXT_KINDS:
             if present:
-                labels = _Labels.of(table.frame[column])
+                labels = TextCodes.of(table.frame[column])
                 columns[column] = labels.strings()
                 ids = labels if column == "specimen" else ids
                 if spec.required:
-                    _report(problems, table, labels.codes < 0, column, "value missing")
+                    report_rows(problems, table, labels.codes < 0, column, "value missing")
             else:
                 columns[column] = pd.array([pd.NA] * n, dtype="string")
             continue
@@ -183,20 +187,22 @@ def _convert(table: RawTable, problems: list[InputProblem]) -> tuple[pd.DataFram
         finite = np.isfinite(values)
         if spec.required:
             empty = table.frame[column].isna().to_numpy()
-            _report(problems, table, empty, column, "value missing; expected a number")
+            report_rows(problems, table, empty, column, "value missing; expected a number")
         if column in _POSITIVE.get(table.name, ()):
-            _report(problems, table, finite & (values <= 0), column, "must be greater than zero")
+            report_rows(
+                problems, table, finite & (values <= 0), column, "must be greater than zero"
+            )
         if column in _NON_NEGATIVE.get(table.name, ()):
-            _report(problems, table, finite & (values < 0), column, "must not be negative")
+            report_rows(problems, table, finite & (values < 0), column, "must not be negative")
     # every column is a new array: the frame takes them as they are (no copy, no consolidation)
     return pd.DataFrame(columns, copy=False), ids
 
 
-def _check_specimens(
+def check_specimens(
     table: RawTable, frame: pd.DataFrame, problems: list[InputProblem]
 ) -> pd.DataFrame:
     """Checks across the columns of the specimens table; fills the dry mass from the mold
-    masses and the standpipe areas from their diameters. Takes the frame `_convert` made
+    masses and the standpipe areas from their diameters. Takes the frame `convert_table` made
     (new arrays, owned here) and returns it with the diameters left out."""
 
     def column(name: str) -> np.ndarray:
@@ -204,11 +210,11 @@ def _check_specimens(
 
     ids = frame["specimen"]
     duplicated = (ids.duplicated(keep=False) & ids.notna()).to_numpy()
-    _report(problems, table, duplicated, "specimen", "specimen id given more than once")
+    report_rows(problems, table, duplicated, "specimen", "specimen id given more than once")
     dry, mold, full = column("dry_mass"), column("mold_mass"), column("mold_and_soil_mass")
     has_dry = ~np.isnan(dry)
     has_mold = ~np.isnan(mold) & ~np.isnan(full)
-    _report(
+    report_rows(
         problems,
         table,
         ~has_dry & ~has_mold,
@@ -217,7 +223,7 @@ def _check_specimens(
     )
     by_mold = ~has_dry & has_mold
     soil = full - mold
-    _report(
+    report_rows(
         problems,
         table,
         by_mold & (soil <= 0),
@@ -229,7 +235,7 @@ def _check_specimens(
     gs = column("specific_gravity")
     with np.errstate(invalid="ignore"):
         odd = ~np.isnan(gs) & ((gs < 1.5) | (gs > 4.0))
-    _report(
+    report_rows(
         problems,
         table,
         odd,
@@ -240,7 +246,7 @@ def _check_specimens(
         diameter_name, area_name = f"{prefix}standpipe_diameter", f"{prefix}standpipe_area"
         diameter, area = column(diameter_name), column(area_name)
         has_diameter, has_area = ~np.isnan(diameter), ~np.isnan(area)
-        _report(
+        report_rows(
             problems,
             table,
             has_diameter & has_area,
@@ -254,12 +260,13 @@ def _check_specimens(
     return frame
 
 
-def _check_known(table: RawTable, ids: _Labels, known: set, problems):
+def check_known_specimens(table: RawTable, ids: TextCodes, known: set, problems):
+    """Report the rows whose specimen id is not among `known` (the specimens table's)."""
     unknown_value = np.array([value not in known for value in ids.values], dtype=bool)
     if not unknown_value.any() or not (unknown_value & ids.present()).any():
         return
     names = ", ".join(sorted(ids.values[unknown_value & ids.present()])[:5])
-    _report(
+    report_rows(
         problems,
         table,
         np.append(unknown_value, False)[ids.codes],
@@ -268,20 +275,25 @@ def _check_known(table: RawTable, ids: _Labels, known: set, problems):
     )
 
 
-def _check_readings(table: RawTable, frame: pd.DataFrame, ids: _Labels, known: set, problems):
-    _check_known(table, ids, known, problems)
+def check_readings(table: RawTable, frame: pd.DataFrame, ids: TextCodes, known: set, problems):
+    """Checks across the columns of a readings table: known specimens; then a volume or an
+    outflow mass per collection (constant head), or readings in time order, a head that does
+    not rise, one run of readings per specimen (falling head)."""
+    check_known_specimens(table, ids, known, problems)
     if table.name == "constant_head":
         neither = frame["volume"].isna() & frame["outflow_mass"].isna()
         both = frame["volume"].notna() & frame["outflow_mass"].notna()
-        _report(problems, table, neither.to_numpy(), "volume", "give volume or outflow_mass")
-        _report(problems, table, both.to_numpy(), "volume", "give volume or outflow_mass, not both")
+        report_rows(problems, table, neither.to_numpy(), "volume", "give volume or outflow_mass")
+        report_rows(
+            problems, table, both.to_numpy(), "volume", "give volume or outflow_mass, not both"
+        )
         return
     codes = ids.codes
     same = np.zeros(codes.size, dtype=bool)  # the reading before is of the same specimen
     np.equal(codes[1:], codes[:-1], out=same[1:])
     time = frame["time"].to_numpy()
     head = frame["head"].to_numpy()
-    _report(
+    report_rows(
         problems,
         table,
         same & np.r_[False, np.diff(time) <= 0],
@@ -301,7 +313,7 @@ def _check_readings(table: RawTable, frame: pd.DataFrame, ids: _Labels, known: s
             if tolerance == HEAD_RISE_TOLERANCE
             else f"{HEAD_RISE_SCATTERS:g} times the scatter of this specimen's successive heads"
         )
-        _report(
+        report_rows(
             problems,
             table,
             run,

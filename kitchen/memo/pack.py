@@ -61,7 +61,8 @@ from .markup import ChartScript
 from .pages import chart_page, report_page
 from .provenance import Provenance, memo_provenance
 from .tables import checks_table, fits_table, specimens_table
-from .workbook import _notes_sheet, workbook_bytes
+from .workbook import notes_sheet
+from .workbook import workbook_bytes
 
 __all__ = ["CHART_SCRIPT", "MemoPack", "export_memo_pack"]
 
@@ -280,7 +281,7 @@ def export_memo_pack(
         "table",
         lambda: spreadsheet_safe(tables["tests"]).to_csv(index=False).encode("utf-8"),
     )
-    notes = _notes_sheet(provenance, criterion_text)
+    notes = notes_sheet(provenance, criterion_text)
     write("results.xlsx", "workbook", lambda: workbook_bytes(tables, notes))
     if script.path is not None:  # before any page that loads it
         write(script.path, "script", lambda: script.content)

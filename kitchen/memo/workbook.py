@@ -66,7 +66,8 @@ def workbook_bytes(sheets: dict[str, pd.DataFrame], notes: pd.DataFrame) -> byte
     return buffer.getvalue()
 
 
-def _notes_sheet(provenance: Provenance, criterion_text: str) -> pd.DataFrame:
+def notes_sheet(provenance: Provenance, criterion_text: str) -> pd.DataFrame:
+    """The workbook's notes sheet: the cautions, the criterion, the settings, the provenance."""
     rows = [("caution", text) for text in CAUTIONS]
     rows.append(("criterion", criterion_text))
     rows += [("setting", f"{key} = {value}") for key, value in provenance.settings]

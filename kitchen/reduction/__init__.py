@@ -13,10 +13,9 @@ Modules, in the data's order:
 - :mod:`.constant_head_collections`: each collection's k, gradient and Darcy velocity.
 - :mod:`.constant_head`: a specimen's constant-head reduction, with its interval and verdicts.
 - :mod:`.falling_head_formulas`: the falling-head equations in closed form, two-reading k.
-- :mod:`.falling_head_record`: one specimen's readings checked and prepared once.
-- :mod:`.falling_head_window`: one reading window reduced to k, and the window proposed.
+- :mod:`.falling_head_record`: a specimen's readings prepared once; each window reduced to k.
 - :mod:`.falling_head_evidence`: one window's :class:`FallingHeadAnalysis` and its evidence.
-- :mod:`.falling_head`: the one-call falling-head analysis and the plain reduction.
+- :mod:`.falling_head`: the falling-head analysis of one specimen in one call.
 - :mod:`.results`: the results table, one row per specimen and method (SI, and exported).
 
 The public face, which other subpackages import from :mod:`kitchen.reduction` and never
@@ -27,9 +26,8 @@ from its modules: :func:`collection_table`, :func:`constant_head_conductivity`,
 :func:`effective_standpipe_area`, :func:`rising_tailwater_conductivity`,
 :func:`reference_elapsed_time`, :func:`jurin_capillary_rise`,
 :func:`incremental_conductivity` and :func:`reading_window`; :class:`FallingHeadRecord`,
-:class:`FallingHeadAnalysis`, :func:`falling_head_analysis` and :func:`reduce_falling_head`
-(:class:`FallingHeadResult`); :func:`series_results`, :func:`results_table` and
-:func:`result_row`.
+:class:`FallingHeadAnalysis` and :func:`falling_head_analysis`; :func:`series_results`,
+:func:`results_table` and :func:`result_row`.
 
 References
 ----------

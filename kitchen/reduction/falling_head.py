@@ -65,4 +65,3 @@ def falling_head_analysis(
     """
     record = FallingHeadRecord(readings, specimen_row, settings, capillary_rise)
     return record.analyse(window, fit)
-

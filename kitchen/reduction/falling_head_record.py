@@ -355,9 +355,10 @@ class FallingHeadRecord:
         Parameters
         ----------
         window : (int, int), optional
-            Readings ``start`` to ``stop - 1`` (positions, see :func:`reading_window` to
-            choose by time). Without one the tool proposes the longest window ending at
-            the last reading that meets every criterion, and says so.
+            Readings ``start`` to ``stop - 1`` (positions, see
+            :func:`~kitchen.reduction.reading_window` to choose by time). Without one the
+            tool proposes the longest window ending at the last reading that meets every
+            criterion, and says so.
         fit : {"log_linear", "datum"}, optional
             ``"log_linear"``: least squares of ln h on the reference-equivalent time.
             ``"datum"``: h = h∞ + (h0 − h∞)·exp(−τ/T), by separable least squares, for an

@@ -27,9 +27,8 @@ from its modules: :class:`Revision`, :class:`RevisionError`, :data:`LOG_COLUMNS`
 :func:`history_table` and :func:`format_history`; :class:`WindowChoice`,
 :class:`WindowLogError`, :data:`WINDOW_LOG_COLUMNS`, :func:`windows_path`,
 :func:`read_window_choices`, :func:`window_log_sha256`, :func:`standing_choices`,
-:func:`chosen_windows`, :func:`choose_window`, :func:`clear_window` and
-:func:`window_choice_table` (the window log). What a revision changed in the results is
-worked out in :mod:`kitchen.workspace`.
+:func:`chosen_windows`, :func:`choose_window` and :func:`clear_window` (the window log).
+What a revision changed in the results is worked out in :mod:`kitchen.workspace`.
 
 References
 ----------
@@ -68,7 +67,6 @@ from .window_log import (
     clear_window,
     read_window_choices,
     standing_choices,
-    window_choice_table,
     window_log_sha256,
     windows_path,
 )
@@ -93,7 +91,6 @@ __all__ = [
     "RevisionError",
     "revisions_path",
     "standing_choices",
-    "window_choice_table",
     "WINDOW_LOG_COLUMNS",
     "window_log_sha256",
     "WindowChoice",

@@ -34,11 +34,11 @@ from kitchen.io import (
 from .log import (
     Revision,
     RevisionError,
-    _read_log,
-    _shown,
-    _standing,
+    read_log,
     read_revisions,
     revisions_path,
+    shown_or_empty,
+    standing_and_withdrawn,
 )
 
 __all__ = ["EffectiveSeries", "apply_revisions", "load_effective_series"]
@@ -97,7 +97,8 @@ def _with_unit(text: str, unit: str | None) -> str:
     return f"{text} {unit}" if text and unit else text
 
 
-def _field_name(table: str, field_text: str) -> str:
+def checked_field_name(table: str, field_text: str) -> str:
+    """The column a revision's field names in `table`; a RevisionError when there is none."""
     name = "_".join(split_header(str(field_text))[0].replace("-", " ").split())
     fields = [f for f in SCHEMAS[table] if f != "specimen"]
     if name == "specimen":
@@ -118,7 +119,9 @@ def _field_name(table: str, field_text: str) -> str:
     return name
 
 
-def _table_name(tables: dict[str, RawTable], table: str | None, reading: int | None) -> str:
+def checked_table_name(tables: dict[str, RawTable], table: str | None, reading: int | None) -> str:
+    """The table a revision names: the one given, else the specimens table without a reading
+    row, else the series' one reading table; a RevisionError when it cannot be told."""
     if table is not None:
         if table not in TABLE_NAMES:
             raise RevisionError(f"unknown table {table!r}; expected {', '.join(TABLE_NAMES)}")
@@ -139,7 +142,7 @@ def _table_name(tables: dict[str, RawTable], table: str | None, reading: int | N
     return readings[0]
 
 
-def _locate(tables, table: str, specimen: str, reading: int | None, known: dict | None = None):
+def locate_row(tables, table: str, specimen: str, reading: int | None, known: dict | None = None):
     """The table and frame index of a value; a RevisionError naming what is not there.
 
     ``known`` keeps, between calls, the specimen ids of the specimens table and the row
@@ -184,13 +187,14 @@ def _locate(tables, table: str, specimen: str, reading: int | None, known: dict 
     return raw, index
 
 
-def _current(raw: RawTable, index, column: str) -> str:
+def current_text(raw: RawTable, index, column: str) -> str:
+    """The value a cell holds now, as text with its unit ("" when the column is absent)."""
     if column not in raw.frame.columns:
         return ""
     return _with_unit(_cell_text(raw.frame.at[index, column]), raw.units.get(column))
 
 
-def _applied_text(value: str, column: str, kind: str, unit: str | None) -> str:
+def applied_text(value: str, column: str, kind: str, unit: str | None) -> str:
     """The typed value in the column's unit (``unit`` None: the typed unit is kept)."""
     if kind in _TEXT_KINDS:
         return " ".join(value.split())
@@ -233,30 +237,30 @@ def _set(raw: RawTable, index, column: str, applied: str) -> str | None:
     return None
 
 
-def _apply(tables: dict[str, RawTable], revisions) -> tuple[dict, list, list[str]]:
+def apply_to_tables(tables: dict[str, RawTable], revisions) -> tuple[dict, list, list[str]]:
     """Apply standing revisions to copies; skip (and name) those that no longer fit.
 
     Only the tables a standing revision names are copied; the others are returned as given
     (nothing here writes to them)."""
-    standing, _ = _standing(revisions)
+    standing, _ = standing_and_withdrawn(revisions)
     named = {revision.table for revision in standing}  # only these are written to
     tables = {name: table.copy() if name in named else table for name, table in tables.items()}
     applied, problems, known = [], [], {}
     for revision in standing:
         where = f"revision {revision.id} ({revision.describe()})"
         try:
-            raw, index = _locate(
+            raw, index = locate_row(
                 tables, revision.table, revision.specimen, revision.reading_row, known
             )
         except RevisionError as error:
             problems.append(f"{where} no longer fits the raw data: {error}")
             continue
-        current = _current(raw, index, revision.field)
+        current = current_text(raw, index, revision.field)
         if current != revision.old_value:
             row = int(raw.frame.at[index, "source_row"])
             problems.append(
-                f"{where}: {raw.file} row {row} now holds {_shown(current)}, not "
-                f"{_shown(revision.old_value)} as when it was made (was the file edited?); "
+                f"{where}: {raw.file} row {row} now holds {shown_or_empty(current)}, not "
+                f"{shown_or_empty(revision.old_value)} as when it was made (was the file edited?); "
                 f"withdraw it with: revise SERIES --withdraw {revision.id} --reason ..."
             )
             continue
@@ -294,7 +298,7 @@ def apply_revisions(
         holds something other than the revision's old value (the file was edited after the
         revision was made).
     """
-    effective, applied, problems = _apply(tables, revisions)
+    effective, applied, problems = apply_to_tables(tables, revisions)
     if problems:
         raise RevisionError(problems)
     return effective, tuple(applied)
@@ -307,14 +311,14 @@ def _load(series_path, limit: int | None = None) -> EffectiveSeries:
     source = Path(series_path)
     log = revisions_path(source)
     raw, input_files = read_tables(source)
-    data, revisions = _read_log(log)
+    data, revisions = read_log(log)
     revisions = revisions if limit is None else revisions[:limit]
     tables, applied = apply_revisions(raw, revisions)
     series = build_series(tables, source, input_files)
     return EffectiveSeries(
         series=series,
         applied=applied,
-        withdrawn=tuple(_standing(revisions)[1]),
+        withdrawn=tuple(standing_and_withdrawn(revisions)[1]),
         log_path=log,
         log_sha256=None if data is None else hashlib.sha256(data).hexdigest(),
         log_rows=len(revisions),

@@ -88,13 +88,16 @@ class Revision:
         if self.reading_row is not None:
             where += f" reading row {self.reading_row}"
         if self.action == WITHDRAW:
-            back = _shown(self.new_value)
+            back = shown_or_empty(self.new_value)
             return f"withdraws {self.withdraws}: {where} {self.field} back to {back}"
         typed = "" if self.new_value == self.applied_value else f" (typed {self.new_value})"
-        return f"{where} {self.field}: {_shown(self.old_value)} -> {self.applied_value}{typed}"
+        return (
+            f"{where} {self.field}: {shown_or_empty(self.old_value)} -> {self.applied_value}{typed}"
+        )
 
 
-def _shown(text: str) -> str:
+def shown_or_empty(text: str) -> str:
+    """A logged value for a message: the text, or "(empty)"."""
     return text if text else "(empty)"
 
 
@@ -113,14 +116,15 @@ def revisions_path(series_path: str | Path) -> Path:
 # --- the log --------------------------------------------------------------------------------
 
 
-def _encode(revision: Revision) -> bytes:
+def encode_revision(revision: Revision) -> bytes:
+    """One revision as a line of the log (CSV, UTF-8)."""
     buffer = io.StringIO()
     values = [getattr(revision, name) for name in LOG_COLUMNS]
     csv.writer(buffer, lineterminator="\n").writerow(["" if v is None else v for v in values])
     return buffer.getvalue().encode("utf-8")
 
 
-_HEADER = (",".join(LOG_COLUMNS) + "\n").encode("utf-8")
+LOG_HEADER = (",".join(LOG_COLUMNS) + "\n").encode("utf-8")
 
 
 def _parse_log(data: bytes, label: str) -> tuple[Revision, ...]:
@@ -174,7 +178,7 @@ def _check_row(row: dict, label: str, number: int, by_id: dict, withdrawn_by: di
         first = by_id[row["id"]].log_row
         return problem("id", f"id {row['id']} is used twice (first at row {first})")
     try:
-        _check_when(row["when"])
+        checked_when(row["when"])
     except RevisionError as error:
         return problem("when", str(error))
     if not row["reason"]:
@@ -209,7 +213,8 @@ def _check_row(row: dict, label: str, number: int, by_id: dict, withdrawn_by: di
     return Revision(**values, reading_row=reading, log_row=number)
 
 
-def _read_log(log: Path) -> tuple[bytes | None, tuple[Revision, ...]]:
+def read_log(log: Path) -> tuple[bytes | None, tuple[Revision, ...]]:
+    """The log's bytes and its rows; ``(None, ())`` when there is no log."""
     try:
         data = log.read_bytes()
     except FileNotFoundError:
@@ -225,7 +230,7 @@ def read_revisions(series_path: str | Path) -> tuple[Revision, ...]:
     RevisionError
         Naming the log's row and column for each row that cannot be read.
     """
-    return _read_log(revisions_path(series_path))[1]
+    return read_log(revisions_path(series_path))[1]
 
 
 def log_sha256(series_path: str | Path) -> str | None:
@@ -237,7 +242,8 @@ def log_sha256(series_path: str | Path) -> str | None:
         return None
 
 
-def _standing(revisions) -> tuple[list[Revision], list[Revision]]:
+def standing_and_withdrawn(revisions) -> tuple[list[Revision], list[Revision]]:
+    """The changes no row withdraws, and those a row withdraws, each in log order."""
     withdrawn_ids = {r.withdraws for r in revisions if r.action == WITHDRAW}
     changes = [r for r in revisions if r.action == REVISE]
     return (
@@ -249,7 +255,8 @@ def _standing(revisions) -> tuple[list[Revision], list[Revision]]:
 # --- the time of a row -----------------------------------------------------------------------
 
 
-def _check_when(text: str) -> str:
+def checked_when(text: str) -> str:
+    """`text` when it is an ISO 8601 date and time with a time zone; else a RevisionError."""
     try:
         moment = datetime.fromisoformat(text)
     except (TypeError, ValueError):
@@ -261,9 +268,10 @@ def _check_when(text: str) -> str:
     return text
 
 
-def _when(when) -> str:
+def when_text(when) -> str:
+    """The time of a row as ISO 8601 text: now (local, to the second) when `when` is None."""
     if when is None:
         return datetime.now().astimezone().isoformat(timespec="seconds")
     if isinstance(when, datetime):
         when = when.isoformat(timespec="seconds")
-    return _check_when(str(when).strip())
+    return checked_when(str(when).strip())

@@ -28,18 +28,25 @@ from kitchen.io import (
     split_header,
 )
 
-from .effective import _applied_text, _apply, _current, _field_name, _locate, _table_name
+from .effective import (
+    applied_text,
+    apply_to_tables,
+    checked_field_name,
+    checked_table_name,
+    current_text,
+    locate_row,
+)
 from .log import (
-    _HEADER,
+    LOG_HEADER,
     REVISE,
     WITHDRAW,
     Revision,
     RevisionError,
-    _encode,
-    _read_log,
-    _standing,
-    _when,
+    encode_revision,
+    read_log,
     revisions_path,
+    standing_and_withdrawn,
+    when_text,
 )
 
 __all__ = ["HeldSeries", "file_stamps", "revise", "withdraw"]
@@ -60,7 +67,8 @@ def _free_text(text, name: str, required: bool) -> str:
     return words
 
 
-def _new_id(existing) -> str:
+def fresh_id(existing) -> str:
+    """Eight random hex digits that no row of `existing` holds as its id."""
     taken = {revision.id for revision in existing}
     while (candidate := secrets.token_hex(4)) in taken:
         pass
@@ -119,19 +127,19 @@ def _record(series_path, make, held: HeldSeries | None = None) -> Revision:
     source = Path(series_path)
     log = revisions_path(source)
     with folder_lock(log.parent):
-        _, existing = _read_log(log)
+        _, existing = read_log(log)
         usable = held is not None and held.current(existing)
         if usable:
             raw, input_files = held.tables, held.input_files
         else:
             raw, input_files = read_tables(source)
-        before, _, before_trouble = _apply(raw, existing)
+        before, _, before_trouble = apply_to_tables(raw, existing)
         revision = make(before, existing)
         if revision.action == REVISE:  # it applies on top of the rest
-            after, _, after_trouble = _apply(before, (revision,))
+            after, _, after_trouble = apply_to_tables(before, (revision,))
             after_trouble = before_trouble + after_trouble
         else:
-            after, _, after_trouble = _apply(raw, (*existing, revision))
+            after, _, after_trouble = apply_to_tables(raw, (*existing, revision))
         new = [problem for problem in after_trouble if problem not in before_trouble]
         if usable:
             changed = {r.table for r in (*existing, revision)}
@@ -152,7 +160,7 @@ def _record(series_path, make, held: HeldSeries | None = None) -> Revision:
         if new:
             new[-1] += "; nothing was written"
             raise RevisionError(new)
-        append_line(log, _encode(revision), header=_HEADER)
+        append_line(log, encode_revision(revision), header=LOG_HEADER)
     return revision
 
 
@@ -211,28 +219,28 @@ def revise(
     """
     reason = _free_text(reason, "reason", required=True)
     who = _free_text(who, "who", required=False)
-    when = _when(when)
+    when = when_text(when)
     specimen = " ".join(str(specimen).split())
     if not str(value).strip():
         raise RevisionError("the new value is empty; type a number and its unit (4.95 in)")
     reading = None if reading is None else int(reading)
 
     def make(tables, existing) -> Revision:
-        name = _table_name(tables, table, reading)
-        column = _field_name(name, field)
-        raw, index = _locate(tables, name, specimen, reading)
+        name = checked_table_name(tables, table, reading)
+        column = checked_field_name(name, field)
+        raw, index = locate_row(tables, name, specimen, reading)
         if column not in raw.frame.columns:
             for problem in getattr(raw, "problems", []):
                 header = split_header(problem.column)[0] if problem.column else ""
                 if "_".join(header.split()) == column:
                     raise RevisionError(f"fix the header in the file first: {problem}")
         unit = raw.units.get(column) if column in raw.frame.columns else None
-        applied = _applied_text(str(value), column, SCHEMAS[name][column].kind, unit)
-        old = _current(raw, index, column)
+        applied = applied_text(str(value), column, SCHEMAS[name][column].kind, unit)
+        old = current_text(raw, index, column)
         if applied == old:
             raise RevisionError(f"{specimen} {column} is already {old}; nothing to revise")
         return Revision(
-            id=_new_id(existing),
+            id=fresh_id(existing),
             when=when,
             who=who,
             action=REVISE,
@@ -284,7 +292,7 @@ def withdraw(
     """
     reason = _free_text(reason, "reason", required=True)
     who = _free_text(who, "who", required=False)
-    when = _when(when)
+    when = when_text(when)
     wanted = str(revision_id).strip().lower()
 
     def make(tables, existing) -> Revision:
@@ -294,7 +302,7 @@ def withdraw(
             raise RevisionError(f"no revision {revision_id!r} in {revisions_path(series_path)}")
         if target.action == WITHDRAW:
             raise RevisionError(f"{target.id} is a withdrawal; make the revision again instead")
-        standing, _ = _standing(existing)
+        standing, _ = standing_and_withdrawn(existing)
         if target not in standing:
             by = next(r.id for r in existing if r.withdraws == target.id)
             raise RevisionError(f"revision {target.id} was already withdrawn by {by}")
@@ -306,7 +314,7 @@ def withdraw(
             )
         return replace(
             target,
-            id=_new_id(existing),
+            id=fresh_id(existing),
             when=when,
             who=who,
             action=WITHDRAW,

@@ -26,12 +26,11 @@ from datetime import datetime
 from pathlib import Path
 
 import numpy as np
-import pandas as pd
 
 from kitchen.io import Series, append_line, folder_lock
 
-from .log import _check_when, _when
-from .recording import _new_id
+from .log import checked_when, when_text
+from .recording import fresh_id
 
 __all__ = [
     "WINDOW_LOG_COLUMNS",
@@ -44,7 +43,6 @@ __all__ = [
     "clear_window",
     "standing_choices",
     "chosen_windows",
-    "window_choice_table",
 ]
 
 WINDOW_LOG_COLUMNS = ("id", "when", "who", "specimen", "first_row", "last_row", "reason")
@@ -151,7 +149,7 @@ def _parse(data: bytes, label: str) -> tuple[WindowChoice, ...]:
             problem("id", f"id {row['id']} is used twice (first at row {seen[row['id']]})")
             continue
         try:
-            _check_when(row["when"])
+            checked_when(row["when"])
         except ValueError as error:
             problem("when", str(error))
             continue
@@ -357,14 +355,14 @@ def choose_window(
     """
     reason = _text(reason, "reason", required=True)
     who = _text(who, "who", required=False)
-    when = _when(when)
+    when = when_text(when)
     specimen = " ".join(str(specimen).split())
     first, last = int(first_row), int(last_row)
     if last <= first:
         raise WindowLogError(f"last row {last} is not after the first row {first}")
     return _append(
         series_path,
-        lambda existing: WindowChoice(_new_id(existing), when, who, specimen, first, last, reason),
+        lambda existing: WindowChoice(fresh_id(existing), when, who, specimen, first, last, reason),
         series,
     )
 
@@ -380,25 +378,10 @@ def clear_window(
     """Hand a specimen back to the tool's proposed window, by a new row of the log."""
     reason = _text(reason, "reason", required=True)
     who = _text(who, "who", required=False)
-    when = _when(when)
+    when = when_text(when)
     specimen = " ".join(str(specimen).split())
     return _append(
         series_path,
-        lambda existing: WindowChoice(_new_id(existing), when, who, specimen, None, None, reason),
+        lambda existing: WindowChoice(fresh_id(existing), when, who, specimen, None, None, reason),
         None,
-    )
-
-
-def window_choice_table(choices) -> pd.DataFrame:
-    """The choices in force, one row per specimen, for the memo and the report."""
-    standing = [c for c in standing_choices(choices).values() if not c.proposed]
-    return pd.DataFrame(
-        {
-            "specimen": [c.specimen for c in standing],
-            "first_row": [c.first_row for c in standing],
-            "last_row": [c.last_row for c in standing],
-            "when": [c.when for c in standing],
-            "who": [c.who for c in standing],
-            "reason": [c.reason for c in standing],
-        }
     )

@@ -39,7 +39,7 @@ import numpy as np
 
 from kitchen.fits import CurvatureTest, LinearFit, fit_line
 
-from .criteria import Criteria, Verdict, _percent, _signed, recommended_maximum_gradient
+from .criteria import Criteria, Verdict, percent_text, recommended_maximum_gradient, signed_percent
 
 __all__ = [
     "reynolds_number",
@@ -128,11 +128,11 @@ def steady_values_check(values, criteria: Criteria, spacing: str = "") -> Verdic
     passed = inside == count
     wider = ""
     if band != criteria.steady_tolerance:
-        wider = f"; ±{_percent(band)} as k is below {criteria.low_k_threshold:.0e} m/s"
+        wider = f"; ±{percent_text(band)} as k is below {criteria.low_k_threshold:.0e} m/s"
     sentence = (
-        f"{inside} of the last {count} k values within ±{_percent(band)} of their mean "
+        f"{inside} of the last {count} k values within ±{percent_text(band)} of their mean "
         f"({mean:.3g} m/s): {'yes' if passed else 'no'} — largest deviation "
-        f"{_percent(float(deviation.max()))}{wider}{tail}"
+        f"{percent_text(float(deviation.max()))}{wider}{tail}"
     )
     return Verdict("steady_values", passed, sentence)
 
@@ -168,24 +168,25 @@ def trend_check(curvature: CurvatureTest, criteria: Criteria) -> Verdict:
         word = "rises" if curvature.change > 0 else "falls"
         ends = sorted((abs(low), abs(high)))
         change = (
-            f"k {word} {_percent(abs(curvature.change))} from the first to the last reading "
-            f"({_percent(1 - curvature.level)} interval {ends[0] * 100:.1f} to "
+            f"k {word} {percent_text(abs(curvature.change))} from the first to the last reading "
+            f"({percent_text(1 - curvature.level)} interval {ends[0] * 100:.1f} to "
             f"{ends[1] * 100:.1f} %)"
         )
     else:
         change = (
-            f"k changes {_signed(curvature.change)} from the first to the last reading "
-            f"({_percent(1 - curvature.level)} interval {_signed(low)} to {_signed(high)})"
+            f"k changes {signed_percent(curvature.change)} from the first to the last reading "
+            f"({percent_text(1 - curvature.level)} interval {signed_percent(low)} to "
+            f"{signed_percent(high)})"
         )
     gate = (
-        f" and a change of at least {_percent(criteria.trend_minimum_change)}"
+        f" and a change of at least {percent_text(criteria.trend_minimum_change)}"
         if criteria.trend_minimum_change
         else ""
     )
     sentence = (
         f"no significant trend in k over the readings used: {'no' if trend else 'yes'} — "
         f"{change}, {p}; the tool's own test: a quadratic term added to ln h against time, "
-        f"t-test at the {_percent(criteria.trend_level)} level{gate}"
+        f"t-test at the {percent_text(criteria.trend_level)} level{gate}"
     )
     return Verdict("trend", not bool(trend), sentence)
 
@@ -410,8 +411,8 @@ def gradient_independence_check(
     sentence = (
         f"k independent of gradient ({unique.size} heads, gradients {mean_gradient.min():.3g} to "
         f"{mean_gradient.max():.3g}): {'yes' if independent else 'no'} — k at each head within "
-        f"±{_percent(spread)} of their mean; v against i has intercept {fit.intercept:.2e} m/s "
-        f"({_percent(1 - criteria.trend_level)} interval {fit.intercept_low:.2e} to "
+        f"±{percent_text(spread)} of their mean; v against i has intercept {fit.intercept:.2e} m/s "
+        f"({percent_text(1 - criteria.trend_level)} interval {fit.intercept_low:.2e} to "
         f"{fit.intercept_high:.2e} m/s, {'includes' if includes_zero else 'excludes'} zero); the "
         "tool's own test, on the mean of the collections at each head"
     )

@@ -184,7 +184,7 @@ def recommended_maximum_gradient(k, table=GRADIENT_TABLE):
     return float(out) if out.ndim == 0 else out
 
 
-def _percent(value: float) -> str:
+def percent_text(value: float) -> str:
     """A fraction in percent: whole numbers as such, else two significant digits."""
     percent = value * 100
     if abs(percent) >= 9.5 or abs(percent - round(percent)) < 1e-9:
@@ -192,6 +192,6 @@ def _percent(value: float) -> str:
     return f"{percent:.1f} %"
 
 
-def _signed(value: float) -> str:
+def signed_percent(value: float) -> str:
     """A signed percentage to one decimal, without a negative zero."""
     return f"{round(value * 100, 1) + 0.0:+.1f} %"

@@ -22,7 +22,7 @@ from dataclasses import dataclass
 import numpy as np
 from scipy import special
 
-from .criteria import Criteria, _percent, recommended_maximum_gradient
+from .criteria import Criteria, percent_text, recommended_maximum_gradient
 
 __all__ = ["WindowProposal", "WindowTrends", "window_trends", "propose_window"]
 
@@ -237,7 +237,8 @@ def propose_window(
             n,
             False,
             "no window ending at the last reading and keeping at least "
-            f"{_percent(criteria.window_minimum_fraction)} of the readings meets every criterion",
+            f"{percent_text(criteria.window_minimum_fraction)} of the readings meets every "
+            "criterion",
         )
     start = int(np.argmax(passing))
     return WindowProposal(

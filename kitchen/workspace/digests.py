@@ -45,11 +45,15 @@ def frame_digest(frame: pd.DataFrame, skip: tuple[str, ...] = ()) -> str:
     return digest.hexdigest()
 
 
-def _digest(*parts) -> str:
+def parts_digest(*parts) -> str:
+    """A digest of the representations of `parts` (a specimen's row, the settings, a window).
+
+    BLAKE2b, 16 bytes, as hex, of the ``repr`` of each part joined by a separator.
+    """
     return hashlib.blake2b("\x1e".join(map(repr, parts)).encode(), digest_size=16).hexdigest()
 
 
-def _spans(frame: pd.DataFrame) -> dict[str, tuple[int, int]]:
+def specimen_spans(frame: pd.DataFrame) -> dict[str, tuple[int, int]]:
     """Each specimen's rows as positions ``(start, stop)``; they are contiguous in
     a falling-head table (the loader refuses split readings)."""
     ids = frame["specimen"].to_numpy(dtype=object)
@@ -60,7 +64,7 @@ def _spans(frame: pd.DataFrame) -> dict[str, tuple[int, int]]:
     return {ids[a]: (int(a), int(b)) for a, b in zip(starts, stops, strict=True)}
 
 
-def _groups(frame: pd.DataFrame) -> dict[str, np.ndarray]:
+def specimen_positions(frame: pd.DataFrame) -> dict[str, np.ndarray]:
     """Each specimen's row positions, in order of first appearance (any arrangement)."""
     codes, ids = pd.factorize(frame["specimen"].to_numpy(dtype=object))
     order = np.argsort(codes, kind="stable")

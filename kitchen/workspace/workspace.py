@@ -30,9 +30,9 @@ from kitchen.reduction import (
     FallingHeadRecord,
     collection_table,
     constant_head_analysis,
+    results_table,
 )
 from kitchen.reduction import result_row as results_row
-from kitchen.reduction import results_table
 from kitchen.revisions import (
     EffectiveSeries,
     HeldSeries,
@@ -50,7 +50,7 @@ from kitchen.revisions import (
 from kitchen.settings import Settings
 from kitchen.specimen import specimen_state
 
-from .digests import _digest, _groups, _spans, frame_digest
+from .digests import frame_digest, parts_digest, specimen_positions, specimen_spans
 
 __all__ = ["Workspace"]
 
@@ -111,7 +111,7 @@ class Workspace:
         self._log_rows = log_rows
         self._windows_on_record = bool(windows_on_record)
         self._settings = settings or Settings()
-        self._settings_digest = _digest(self._settings)
+        self._settings_digest = parts_digest(self._settings)
         self._windows: dict[str, tuple[int, int] | None] = {}
         self._rises: dict[str, float | None] = {}
         self._written, self._input_files = read_tables(self.path)
@@ -158,7 +158,7 @@ class Workspace:
         """Each specimen's rows in the readings tables, and the digest of those rows."""
         for name in names:
             frame = getattr(self._series, name)
-            rows = _spans(frame) if name == "falling_head" else _groups(frame)
+            rows = specimen_spans(frame) if name == "falling_head" else specimen_positions(frame)
             self._rows[name] = rows
             self._reading_digests[name] = {
                 specimen: frame_digest(self._slice(name, specimen), skip=("specimen",))
@@ -176,7 +176,7 @@ class Workspace:
         for values in state.to_numpy(dtype=object):
             row = dict(zip(columns, values, strict=True))
             specimen = row["specimen"]
-            digests[specimen] = digest = _digest(tuple(row.items()))
+            digests[specimen] = digest = parts_digest(tuple(row.items()))
             if held_digests.get(specimen) == digest:
                 rows[specimen] = held_rows[specimen]
             else:
@@ -233,7 +233,7 @@ class Workspace:
     def _key(self, specimen: str, table: str) -> str:
         """The digest of everything one reduction of one specimen depends on."""
         falling = table == "falling_head"
-        return _digest(
+        return parts_digest(
             self._specimen_digests[specimen],
             self._reading_digests[table][specimen],
             self._settings_digest,
@@ -387,7 +387,7 @@ class Workspace:
     def set_settings(self, settings: Settings) -> tuple[str, ...]:
         """Use other settings; returns the specimens whose results are now out of date."""
         before, self._settings = self._inputs(), settings
-        self._settings_digest = _digest(settings)
+        self._settings_digest = parts_digest(settings)
         return self._moved(before)
 
     def set_window(self, specimen: str, window: tuple[int, int] | None) -> tuple[str, ...]:
@@ -443,7 +443,7 @@ class Workspace:
         without preparing the readings again.
         """
         readings = self.readings(specimen, "falling_head")
-        readings_key = _digest(
+        readings_key = parts_digest(
             self._reading_digests["falling_head"][specimen],
             self._settings_digest,
             self._rises.get(specimen),

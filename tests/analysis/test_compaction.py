@@ -1,7 +1,7 @@
 """Tests for kitchen.analysis.compaction: compaction curves, the line of optimums, and the names it offers.
 
-The saturation lines are tested in tests/test_saturation_lines.py, the acceptable zone in
-tests/test_compaction_zone.py.
+The saturation lines are tested in tests/analysis/test_saturation_lines.py, the acceptable
+zone in tests/analysis/test_compaction_zone.py.
 """
 
 import warnings

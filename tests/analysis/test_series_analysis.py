@@ -180,7 +180,7 @@ def test_acceptable_zone_membership():
 
 
 def test_saturation_line_check_value():
-    # Das; Holtz & Kovacs (book, from memory; DOMAIN §1): ZAV at w = 20 %, Gs = 2.70 ->
+    # Das; Holtz & Kovacs (book, from memory): ZAV at w = 20 %, Gs = 2.70 ->
     # 1.753 Mg/m3; S = 90 % -> 1.688 Mg/m3.
     analysis = analyse_series(results_frame(compaction_rows()), 1e-9)
     assert analysis.specific_gravity == 2.70

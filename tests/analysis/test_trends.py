@@ -1,7 +1,7 @@
 """Tests for kitchen.analysis.trends: log k trends, geometric mean, and the names it offers.
 
-The verdicts against a criterion are tested in tests/test_conductivity_criterion.py, the
-grading predictions in tests/test_grading.py.
+The verdicts against a criterion are tested in tests/analysis/test_criterion.py, the
+grading predictions in tests/analysis/test_grading.py.
 """
 
 import numpy as np

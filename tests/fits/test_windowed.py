@@ -2,7 +2,7 @@
 
 Outside references: math.fsum (correctly rounded sums); each window is compared with
 kitchen.fits.fit_line on the slice, itself checked against scipy.stats.linregress in
-tests/test_line_fit.py.
+tests/fits/test_line.py.
 """
 
 import math

@@ -1,30 +1,20 @@
 """Static chart images: without Chromium the export is refused, naming what to install."""
 
-import os
-import subprocess
-import sys
 from pathlib import Path
+
+from cli_runner import run_cli
+
+from kitchen.memo import images
 
 SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
-def run(*arguments, env=None):
-    return subprocess.run(
-        [sys.executable, "-m", "kitchen", *map(str, arguments)],
-        capture_output=True,
-        text=True,
-        env={**os.environ, **(env or {})},
-    )
-
-
-def test_command_line_without_chromium_names_what_to_install(tmp_path):
-    done = run(
-        "report",
-        SAMPLES / "drainage_sand",
-        "--out",
-        tmp_path / "out",
-        env={"BROWSER_PATH": str(tmp_path / "no-such-chromium")},
-    )
+def test_command_line_without_chromium_names_what_to_install(tmp_path, monkeypatch):
+    # as in a fresh process on a machine without Chromium: BROWSER_PATH names none, and no
+    # image server runs yet (one started earlier in this process would be used instead)
+    monkeypatch.setenv("BROWSER_PATH", str(tmp_path / "no-such-chromium"))
+    monkeypatch.setitem(images._image_server, "started", False)
+    done = run_cli("report", SAMPLES / "drainage_sand", "--out", tmp_path / "out")
     assert done.returncode == 3
     assert "apt-get install chromium" in done.stderr and "--no-images" in done.stderr
     assert "Traceback" not in done.stderr

@@ -13,7 +13,7 @@ from openpyxl import load_workbook
 
 from kitchen import __version__
 from kitchen.cautions import CAUTIONS
-from kitchen.memo import MEMO_CAUTIONS, export_memo_pack, workbook_bytes
+from kitchen.memo import export_memo_pack, workbook_bytes
 from kitchen.workspace import Workspace
 
 SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
@@ -43,7 +43,7 @@ def test_workbook_cells_and_cautions_sheet(tmp_path):
     assert all(cell.data_type != "f" for row in book["tests"].iter_rows() for cell in row)
     assert [c.value for c in book["cautions"][2]] == ["caution", CAUTIONS[0]]
     assert book.properties.creator == f"kitchen {__version__}"
-    assert book.properties.description == " ".join(MEMO_CAUTIONS)
+    assert book.properties.description == " ".join(CAUTIONS)
     assert book["tests"].freeze_panes == "A2"
 
 

@@ -1,12 +1,14 @@
 """Shared panel parts: the message area, the progress bar, the figure refresh, formats."""
 
 import warnings
+from html.parser import HTMLParser
 
+import pandas as pd
 import pytest
 
 from kitchen.io import InputProblem, SeriesError
 from kitchen.panels import scratch_copy
-from kitchen.panels.common import MessageArea, ProgressBar, format_conductivity
+from kitchen.panels.common import MessageArea, ProgressBar, format_conductivity, html_table
 
 
 def test_series_error_is_listed_problem_by_problem():
@@ -89,6 +91,55 @@ def test_progress_bar_counts_and_finishes():
 )
 def test_conductivity_format(value, unit, text):
     assert format_conductivity(value, unit) == text
+
+
+class _Cells(HTMLParser):
+    """The header and data cells of a table, with their class and text."""
+
+    def __init__(self):
+        super().__init__()
+        self.cells, self._open = [], None
+
+    def handle_starttag(self, tag, attrs):
+        if tag in ("th", "td"):
+            self._open = [tag, dict(attrs).get("class"), ""]
+
+    def handle_data(self, data):
+        if self._open is not None:
+            self._open[2] += data
+
+    def handle_endtag(self, tag):
+        if tag in ("th", "td") and self._open is not None:
+            self.cells.append(tuple(self._open))
+            self._open = None
+
+
+def test_table_values_are_escaped_and_read_back_by_an_html_parser():
+    # read back by Python's own html.parser (a reference parser)
+    frame = pd.DataFrame(
+        {
+            "specimen": ["A<1>", "B & C"],
+            "k [m/s]": [7.5592e-9, float("nan")],
+            "valid": [True, False],
+            "note": ["ok", None],
+        }
+    )
+    parser = _Cells()
+    parser.feed(html_table(frame, {"k [m/s]": format_conductivity}, text_columns=("note",)))
+    assert parser.cells == [
+        ("th", None, "specimen"),
+        ("th", None, "k [m/s]"),
+        ("th", None, "valid"),
+        ("th", None, "note"),
+        ("td", None, "A<1>"),
+        ("td", None, "7.56 × 10⁻⁹ m/s"),
+        ("td", None, "yes"),
+        ("td", "kitchen-text", "ok"),
+        ("td", None, "B & C"),
+        ("td", None, "–"),
+        ("td", None, "no"),
+        ("td", "kitchen-text", "–"),
+    ]
 
 
 def test_scratch_copy_leaves_the_original_alone(tmp_path):

@@ -36,7 +36,7 @@ def test_rising_tailwater_equal_burettes_halve_the_area():
 
 
 def test_jurin_capillary_rise():
-    # Head, Manual of Soil Laboratory Testing, Vol. 2 (from memory; DOMAIN.md section 3):
+    # Head, Manual of Soil Laboratory Testing, Vol. 2 (from memory):
     # about 3 mm in a 10 mm tube and 15 mm in a 2 mm tube.
     assert jurin_capillary_rise(10e-3) * 1e3 == pytest.approx(3.0, abs=0.1)
     assert jurin_capillary_rise(2e-3) * 1e3 == pytest.approx(15.0, abs=0.3)

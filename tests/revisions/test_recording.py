@@ -257,7 +257,7 @@ def _revise_many(series, worker, count, barrier):
 @pytest.mark.skipif(sys.platform == "win32", reason="the folder lock needs POSIX flock")
 def test_concurrent_revisions_keep_every_row_in_a_consistent_chain(small):
     context = multiprocessing.get_context(START_METHOD)
-    workers, count = 4, 12  # the raw appends are tested 4 x 50 in test_files.py
+    workers, count = 4, 12  # the raw appends are tested 4 x 50 in tests/io/test_files.py
     barrier = context.Barrier(workers)
     processes = [
         context.Process(target=_revise_many, args=(small, worker, count, barrier))

@@ -3,8 +3,8 @@ is reduced, and every choice kept.
 
 The outside reference for the reductions is the core's own reduction of the same window
 given by position (FallingHeadRecord.analyse), itself checked against the standards'
-formulas in test_falling_head.py; here what is checked is that a row of the log names the
-same readings everywhere and that nothing is lost or silently ignored.
+formulas in tests/reduction/test_falling_head_record.py; here what is checked is that a row
+of the log names the same readings everywhere and that nothing is lost or silently ignored.
 """
 
 import hashlib
@@ -24,7 +24,6 @@ from kitchen.revisions import (
     clear_window,
     load_effective_series,
     read_window_choices,
-    window_choice_table,
     windows_path,
 )
 from kitchen.workspace import Workspace
@@ -78,7 +77,6 @@ def test_the_last_row_stands_and_every_row_is_kept(clay):
     assert chosen_windows(series) == {}
     choices = read_window_choices(clay)
     assert [c.reason for c in choices] == ["first try", "second look", "the proposal does as well"]
-    assert window_choice_table(choices).empty
     assert windows_path(SAMPLES / "drainage_sand.xlsx").name == "drainage_sand.windows.csv"
 
 

@@ -12,7 +12,7 @@ from kitchen.validity import GRADIENT_TABLE, Criteria, recommended_maximum_gradi
 @pytest.mark.parametrize(
     ("k", "gradient"),
     [
-        # ASTM D5084 recommended maximum gradients [std, from memory], DOMAIN.md section 5:
+        # ASTM D5084 recommended maximum gradients [std, from memory]:
         # 1e-5 to 1e-6 m/s -> 2; 1e-6 to 1e-7 -> 5; 1e-7 to 1e-8 -> 10; 1e-8 to 1e-9 -> 20;
         # below 1e-9 -> 30. A k on a boundary takes the row it starts.
         (5e-6, 2.0),

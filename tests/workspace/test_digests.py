@@ -4,7 +4,7 @@ import numpy as np
 import pandas as pd
 
 from kitchen.workspace import frame_digest
-from kitchen.workspace.digests import _groups, _spans
+from kitchen.workspace.digests import specimen_positions, specimen_spans
 
 
 def test_frame_digest_follows_the_values_not_the_index():
@@ -25,13 +25,13 @@ def test_specimen_rows_are_those_pandas_groups():
     # positions as one span each
     mixed = pd.DataFrame({"specimen": ["B", "A", "B", "C", "A"], "head": np.arange(5.0)})
     expected = mixed.groupby("specimen", sort=False).indices
-    groups = _groups(mixed)
+    groups = specimen_positions(mixed)
     assert list(groups) == ["B", "A", "C"]
     for specimen, positions in expected.items():
         assert groups[specimen].tolist() == positions.tolist()
     contiguous = mixed.sort_values("specimen", kind="stable").reset_index(drop=True)
-    spans = _spans(contiguous)
+    spans = specimen_spans(contiguous)
     for specimen, positions in contiguous.groupby("specimen").indices.items():
         start, stop = spans[specimen]
         assert list(range(start, stop)) == positions.tolist()
-    assert _spans(contiguous.iloc[:0]) == {}
+    assert specimen_spans(contiguous.iloc[:0]) == {}
