@@ -46,6 +46,7 @@ from .files import (
 from .raw_tables import (
     SCHEMAS,
     TABLE_NAMES,
+    TEXT_KINDS,
     ColumnSpec,
     InputProblem,
     RawTable,
@@ -91,6 +92,7 @@ __all__ = [
     "read_tables",
     "rebuild_series",
     "SCHEMAS",
+    "TEXT_KINDS",
     "Series",
     "SeriesError",
     "split_header",

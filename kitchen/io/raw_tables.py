@@ -22,6 +22,7 @@ from .units import UnitError, split_header, to_si
 
 __all__ = [
     "SCHEMAS",
+    "TEXT_KINDS",
     "TABLE_NAMES",
     "ColumnSpec",
     "InputProblem",

@@ -61,8 +61,7 @@ from .markup import ChartScript
 from .pages import chart_page, report_page
 from .provenance import Provenance, memo_provenance
 from .tables import checks_table, fits_table, specimens_table
-from .workbook import notes_sheet
-from .workbook import workbook_bytes
+from .workbook import notes_sheet, workbook_bytes
 
 __all__ = ["CHART_SCRIPT", "MemoPack", "export_memo_pack"]
 

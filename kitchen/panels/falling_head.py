@@ -31,8 +31,8 @@ from kitchen.revisions import (
     windows_path,
 )
 from kitchen.settings import FALLING_HEAD_FITS, Settings, reference_label
-from kitchen.workspace import Workspace
 from kitchen.specimen import specimen_state
+from kitchen.workspace import Workspace
 
 from .common import MessageArea, format_conductivity, format_number, open_workspace
 from .figures import format_elapsed, increments_figure

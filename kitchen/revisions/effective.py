@@ -20,6 +20,7 @@ import pandas as pd
 from kitchen.io import (
     SCHEMAS,
     TABLE_NAMES,
+    TEXT_KINDS,
     RawTable,
     Series,
     UnitError,
@@ -42,9 +43,6 @@ from .log import (
 )
 
 __all__ = ["EffectiveSeries", "apply_revisions", "load_effective_series"]
-
-
-_TEXT_KINDS = ("id", "label")
 
 
 @dataclass(frozen=True)
@@ -196,7 +194,7 @@ def current_text(raw: RawTable, index, column: str) -> str:
 
 def applied_text(value: str, column: str, kind: str, unit: str | None) -> str:
     """The typed value in the column's unit (``unit`` None: the typed unit is kept)."""
-    if kind in _TEXT_KINDS:
+    if kind in TEXT_KINDS:
         return " ".join(value.split())
     try:
         parsed = parse_value(value, kind)
@@ -216,7 +214,7 @@ def applied_text(value: str, column: str, kind: str, unit: str | None) -> str:
 def _set(raw: RawTable, index, column: str, applied: str) -> str | None:
     """Put an applied value into a raw table; a message when it no longer fits."""
     kind = SCHEMAS[raw.name][column].kind
-    if kind in _TEXT_KINDS:
+    if kind in TEXT_KINDS:
         value, unit = applied, None
     else:
         number, _, unit_text = applied.partition(" ")
@@ -229,9 +227,9 @@ def _set(raw: RawTable, index, column: str, applied: str) -> str | None:
         raw.frame[column] = pd.Series(np.nan, index=raw.frame.index, dtype=object)
         raw.units[column] = unit
         raw.headers[column] = format_header(column, unit)
-    elif kind not in _TEXT_KINDS and (raw.units.get(column) or None) != unit:
+    elif kind not in TEXT_KINDS and (raw.units.get(column) or None) != unit:
         return f"the column is now in {raw.units.get(column)!r}, not {unit!r} as when revised"
-    if not (kind not in _TEXT_KINDS and raw.frame[column].dtype.kind == "f"):
+    if not (kind not in TEXT_KINDS and raw.frame[column].dtype.kind == "f"):
         raw.frame[column] = raw.frame[column].astype(object)
     raw.frame.at[index, column] = value
     return None

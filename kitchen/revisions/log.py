@@ -268,6 +268,35 @@ def checked_when(text: str) -> str:
     return text
 
 
+def free_text(text, name: str, missing: str | None, error: type[Exception]) -> str:
+    """A free-text field of a log row (a reason, who) as it is written.
+
+    White space is folded to single spaces. The text is refused when it is required and
+    empty, and when it starts as a spreadsheet formula would (``=``, ``+``, ``@``), so that
+    a log opened in a spreadsheet runs nothing.
+
+    Parameters
+    ----------
+    text : str or None
+        As typed.
+    name : str
+        The field's name, for the message (``"reason"``).
+    missing : str or None
+        The message when the field is required and empty; None when it may be empty.
+    error : type of Exception
+        Raised with the message (the log's own error type).
+    """
+    words = " ".join(str(text or "").split())
+    if missing is not None and not words:
+        raise error(missing)
+    if words.startswith(("=", "+", "@")):
+        raise error(
+            f"the {name} starts with {words[0]!r}, which a spreadsheet would run as a formula; "
+            "start it with a word"
+        )
+    return words
+
+
 def when_text(when) -> str:
     """The time of a row as ISO 8601 text: now (local, to the second) when `when` is None."""
     if when is None:

@@ -43,6 +43,7 @@ from .log import (
     Revision,
     RevisionError,
     encode_revision,
+    free_text,
     read_log,
     revisions_path,
     standing_and_withdrawn,
@@ -52,19 +53,10 @@ from .log import (
 __all__ = ["HeldSeries", "file_stamps", "revise", "withdraw"]
 
 
-def _free_text(text, name: str, required: bool) -> str:
-    words = " ".join(str(text or "").split())
-    if required and not words:
-        raise RevisionError(
-            f"a revision needs a {name}: say why the value changes "
-            "(for example 're-measured after test'); nothing was written"
-        )
-    if words.startswith(("=", "+", "@")):
-        raise RevisionError(
-            f"the {name} starts with {words[0]!r}, which a spreadsheet would run as a formula; "
-            "start it with a word"
-        )
-    return words
+REASON_NEEDED = (
+    "a revision needs a reason: say why the value changes (for example 're-measured after "
+    "test'); nothing was written"
+)
 
 
 def fresh_id(existing) -> str:
@@ -217,8 +209,8 @@ def revise(
         Unknown specimen, reading or field, a value of the wrong dimension, a missing
         reason, an unchanged value, or a value the loader would refuse. Nothing is written.
     """
-    reason = _free_text(reason, "reason", required=True)
-    who = _free_text(who, "who", required=False)
+    reason = free_text(reason, "reason", REASON_NEEDED, RevisionError)
+    who = free_text(who, "who", None, RevisionError)
     when = when_text(when)
     specimen = " ".join(str(specimen).split())
     if not str(value).strip():
@@ -290,8 +282,8 @@ def withdraw(
         revision of the same value (withdraw that first), or a value the loader would
         then refuse. Nothing is written.
     """
-    reason = _free_text(reason, "reason", required=True)
-    who = _free_text(who, "who", required=False)
+    reason = free_text(reason, "reason", REASON_NEEDED, RevisionError)
+    who = free_text(who, "who", None, RevisionError)
     when = when_text(when)
     wanted = str(revision_id).strip().lower()
 

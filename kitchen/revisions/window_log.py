@@ -29,7 +29,7 @@ import numpy as np
 
 from kitchen.io import Series, append_line, folder_lock
 
-from .log import checked_when, when_text
+from .log import checked_when, free_text, when_text
 from .recording import fresh_id
 
 __all__ = [
@@ -92,19 +92,10 @@ class WindowChoice:
         return f"{self.specimen}: readings at file rows {self.first_row} to {self.last_row}"
 
 
-def _text(text, name: str, required: bool) -> str:
-    words = " ".join(str(text or "").split())
-    if required and not words:
-        raise WindowLogError(
-            f"a chosen window needs a {name}: say why not the tool's proposal (for example "
-            "'early readings before the specimen was saturated'); nothing was written"
-        )
-    if words.startswith(("=", "+", "@")):
-        raise WindowLogError(
-            f"the {name} starts with {words[0]!r}, which a spreadsheet would run as a formula; "
-            "start it with a word"
-        )
-    return words
+REASON_NEEDED = (
+    "a chosen window needs a reason: say why not the tool's proposal (for example 'early "
+    "readings before the specimen was saturated'); nothing was written"
+)
 
 
 def windows_path(series_path: str | Path) -> Path:
@@ -353,8 +344,8 @@ def choose_window(
         A missing reason, rows not of the specimen's readings, fewer than two readings, or
         a log that cannot be read. Nothing is written.
     """
-    reason = _text(reason, "reason", required=True)
-    who = _text(who, "who", required=False)
+    reason = free_text(reason, "reason", REASON_NEEDED, WindowLogError)
+    who = free_text(who, "who", None, WindowLogError)
     when = when_text(when)
     specimen = " ".join(str(specimen).split())
     first, last = int(first_row), int(last_row)
@@ -376,8 +367,8 @@ def clear_window(
     when: str | datetime | None = None,
 ) -> WindowChoice:
     """Hand a specimen back to the tool's proposed window, by a new row of the log."""
-    reason = _text(reason, "reason", required=True)
-    who = _text(who, "who", required=False)
+    reason = free_text(reason, "reason", REASON_NEEDED, WindowLogError)
+    who = free_text(who, "who", None, WindowLogError)
     when = when_text(when)
     specimen = " ".join(str(specimen).split())
     return _append(

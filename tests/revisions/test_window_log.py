@@ -54,7 +54,15 @@ def raw_digests(folder: Path) -> dict[str, str]:
 def test_a_chosen_window_is_the_window_by_position_everywhere(clay):
     rows = rows_of(clay, "QF-02")
     raw = raw_digests(clay)
-    choice = choose_window(clay, "QF-02", rows[8], rows[-3], reason="transient", when=WHEN, series=Workspace(clay).series)
+    choice = choose_window(
+        clay,
+        "QF-02",
+        rows[8],
+        rows[-3],
+        reason="transient",
+        when=WHEN,
+        series=Workspace(clay).series,
+    )
     assert raw_digests(clay) == raw  # the data files are never written
     assert choice.describe() == f"QF-02: readings at file rows {rows[8]} to {rows[-3]}"
     series = load_effective_series(clay).series
@@ -69,8 +77,24 @@ def test_a_chosen_window_is_the_window_by_position_everywhere(clay):
 
 def test_the_last_row_stands_and_every_row_is_kept(clay):
     rows = rows_of(clay, "QF-07")
-    choose_window(clay, "QF-07", rows[2], rows[-1], reason="first try", when=WHEN, series=Workspace(clay).series)
-    choose_window(clay, "QF-07", rows[5], rows[-1], reason="second look", who="lab lead", series=Workspace(clay).series)
+    choose_window(
+        clay,
+        "QF-07",
+        rows[2],
+        rows[-1],
+        reason="first try",
+        when=WHEN,
+        series=Workspace(clay).series,
+    )
+    choose_window(
+        clay,
+        "QF-07",
+        rows[5],
+        rows[-1],
+        reason="second look",
+        who="lab lead",
+        series=Workspace(clay).series,
+    )
     series = load_effective_series(clay).series
     assert chosen_windows(series) == {"QF-07": (5, len(rows))}
     clear_window(clay, "QF-07", reason="the proposal does as well")
@@ -93,7 +117,9 @@ def test_a_bad_choice_is_refused_and_writes_nothing(clay, first, last, reason, m
     rows = rows_of(clay, "QF-03")
     last_row = 99999 if last is None else rows[last]
     with pytest.raises(ValueError, match=message):
-        choose_window(clay, "QF-03", rows[first], last_row, reason=reason, series=Workspace(clay).series)
+        choose_window(
+            clay, "QF-03", rows[first], last_row, reason=reason, series=Workspace(clay).series
+        )
     assert not windows_path(clay).exists()
 
 
@@ -124,7 +150,14 @@ def test_a_damaged_log_is_named_by_row_and_column(clay, line, message):
 def test_a_workspace_follows_the_log(clay):
     workspace = Workspace(clay)
     rows = rows_of(clay, "QF-05")
-    choose_window(clay, "QF-05", rows[3], rows[-1], reason="drop the first readings", series=Workspace(clay).series)
+    choose_window(
+        clay,
+        "QF-05",
+        rows[3],
+        rows[-1],
+        reason="drop the first readings",
+        series=Workspace(clay).series,
+    )
     assert workspace.sync() == ("QF-05",)
     assert workspace.falling_head("QF-05").start == 3
     assert workspace.set_window("QF-05", None) == ("QF-05",)  # tried here, not recorded
