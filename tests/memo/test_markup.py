@@ -1,9 +1,9 @@
 """The markup the memo's pages share: the script of a page, and tables as HTML."""
 
 import hashlib
-from html.parser import HTMLParser
 
 import pytest
+from html_cells import TableCells
 
 from kitchen.memo.markup import ChartScript, table_markup
 
@@ -37,29 +37,10 @@ def test_script_hash_is_that_of_its_bytes():
     assert len(script.content) == len(text) + 1  # ρ takes two bytes in UTF-8 (RFC 3629)
 
 
-class _Cells(HTMLParser):
-    def __init__(self):
-        super().__init__()
-        self.cells, self._open = [], None
-
-    def handle_starttag(self, tag, attrs):
-        if tag in ("th", "td"):
-            self._open = [tag, dict(attrs).get("class"), ""]
-
-    def handle_data(self, data):
-        if self._open is not None:
-            self._open[2] += data
-
-    def handle_endtag(self, tag):
-        if tag in ("th", "td") and self._open is not None:
-            self.cells.append(tuple(self._open))
-            self._open = None
-
-
 def test_table_cells_read_back_by_an_html_parser():
     # read back by Python's own html.parser (a reference parser): header cells, then one
     # cell per value, numbers right-aligned and kept on one line by their class
-    parser = _Cells()
+    parser = TableCells()
     parser.feed(
         table_markup(["specimen", "k"], [("A &amp; B", "1.2e-9")], numeric=(1,), nowrap=(0,))
     )

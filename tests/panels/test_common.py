@@ -1,10 +1,10 @@
 """Shared panel parts: the message area, the progress bar, the figure refresh, formats."""
 
 import warnings
-from html.parser import HTMLParser
 
 import pandas as pd
 import pytest
+from html_cells import TableCells
 
 from kitchen.io import InputProblem, SeriesError
 from kitchen.panels import scratch_copy
@@ -93,27 +93,6 @@ def test_conductivity_format(value, unit, text):
     assert format_conductivity(value, unit) == text
 
 
-class _Cells(HTMLParser):
-    """The header and data cells of a table, with their class and text."""
-
-    def __init__(self):
-        super().__init__()
-        self.cells, self._open = [], None
-
-    def handle_starttag(self, tag, attrs):
-        if tag in ("th", "td"):
-            self._open = [tag, dict(attrs).get("class"), ""]
-
-    def handle_data(self, data):
-        if self._open is not None:
-            self._open[2] += data
-
-    def handle_endtag(self, tag):
-        if tag in ("th", "td") and self._open is not None:
-            self.cells.append(tuple(self._open))
-            self._open = None
-
-
 def test_table_values_are_escaped_and_read_back_by_an_html_parser():
     # read back by Python's own html.parser (a reference parser)
     frame = pd.DataFrame(
@@ -124,7 +103,7 @@ def test_table_values_are_escaped_and_read_back_by_an_html_parser():
             "note": ["ok", None],
         }
     )
-    parser = _Cells()
+    parser = TableCells()
     parser.feed(html_table(frame, {"k [m/s]": format_conductivity}, text_columns=("note",)))
     assert parser.cells == [
         ("th", None, "specimen"),
