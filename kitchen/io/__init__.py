@@ -43,6 +43,12 @@ from .files import (
     spreadsheet_safe,
     write_csv,
 )
+from .project import (
+    PROJECT_SETTINGS,
+    ProjectSetting,
+    project_settings_path,
+    read_project_settings,
+)
 from .raw_tables import (
     SCHEMAS,
     TABLE_NAMES,
@@ -74,6 +80,10 @@ from .units import (
 )
 
 __all__ = [
+    "PROJECT_SETTINGS",
+    "ProjectSetting",
+    "project_settings_path",
+    "read_project_settings",
     "append_line",
     "atomic_write_bytes",
     "atomic_write_text",
