@@ -22,8 +22,18 @@ from pathlib import Path
 
 import pandas as pd
 
-from kitchen.analysis import SeriesAnalysis, analyse_series
-from kitchen.io import TABLE_NAMES, RawTable, Series, build_series, read_tables, rebuild_series
+from kitchen.analysis import Criterion, SeriesAnalysis, analyse_series, parse_criterion
+from kitchen.io import (
+    TABLE_NAMES,
+    InputProblem,
+    RawTable,
+    Series,
+    SeriesError,
+    build_series,
+    read_project_settings,
+    read_tables,
+    rebuild_series,
+)
 from kitchen.reduction import (
     ConstantHeadAnalysis,
     FallingHeadAnalysis,
@@ -115,6 +125,7 @@ class Workspace:
         self._windows: dict[str, tuple[int, int] | None] = {}
         self._rises: dict[str, float | None] = {}
         self._written, self._input_files = read_tables(self.path)
+        self._project = read_project_settings(self.path)
         self._stamps = file_stamps(self._input_files)
         self._revisions: tuple[Revision, ...] = self._read_log()
         self._log_sha256 = log_sha256(self.path)
@@ -327,6 +338,7 @@ class Workspace:
         before = self._inputs()
         try:
             self._written, self._input_files = read_tables(self.path)
+            self._project = read_project_settings(self.path)
             self._stamps = file_stamps(self._input_files)
             self._revisions = revisions
             tables = {name: self._effective_table(name) for name in self._written}
@@ -554,3 +566,28 @@ class Workspace:
         return analyse_series(
             self.results(), criterion, self._settings.reference_temperature, confidence
         )
+
+    @property
+    def project_settings(self) -> dict:
+        """The series' project table as written (:func:`kitchen.io.read_project_settings`),
+        read when the workspace was opened."""
+        return dict(self._project)
+
+    @property
+    def criterion(self) -> Criterion | None:
+        """The criterion the series carries in its project table, or None.
+
+        Raises
+        ------
+        SeriesError
+            When the table's criterion cannot be read, naming its file, row and column.
+        """
+        setting = self._project.get("criterion")
+        if setting is None:
+            return None
+        try:
+            return parse_criterion(setting.value)
+        except ValueError as error:
+            raise SeriesError(
+                [InputProblem(setting.file, setting.row, "value", f"criterion: {error}")]
+            ) from None
