@@ -72,6 +72,32 @@ class EffectiveSeries:
     log_sha256: str | None
     log_rows: int
 
+    @classmethod
+    def from_log(
+        cls, series: Series, revisions, log_path: Path, log_sha256: str | None
+    ) -> EffectiveSeries:
+        """The effective series with what cites it, from the log rows it was built with.
+
+        Parameters
+        ----------
+        series : Series
+            The validated effective data, built with the standing revisions of `revisions`.
+        revisions : sequence of Revision
+            The log rows, in the log's order (revisions and withdrawals).
+        log_path : pathlib.Path
+            Where the log is (or would be).
+        log_sha256 : str or None
+            SHA-256 (hex) of the log's bytes as read; None when there is no log.
+
+        Returns
+        -------
+        EffectiveSeries
+            ``applied``: the standing revisions in log order (what :func:`apply_revisions`
+            applies when it raises nothing); ``withdrawn``: those a later row withdraws.
+        """
+        standing, withdrawn = standing_and_withdrawn(revisions)
+        return cls(series, tuple(standing), tuple(withdrawn), log_path, log_sha256, len(revisions))
+
     @property
     def revision_count(self) -> int:
         """How many revisions were applied."""
@@ -311,16 +337,10 @@ def _load(series_path, limit: int | None = None) -> EffectiveSeries:
     raw, input_files = read_tables(source)
     data, revisions = read_log(log)
     revisions = revisions if limit is None else revisions[:limit]
-    tables, applied = apply_revisions(raw, revisions)
+    tables, _ = apply_revisions(raw, revisions)
     series = build_series(tables, source, input_files)
-    return EffectiveSeries(
-        series=series,
-        applied=applied,
-        withdrawn=tuple(standing_and_withdrawn(revisions)[1]),
-        log_path=log,
-        log_sha256=None if data is None else hashlib.sha256(data).hexdigest(),
-        log_rows=len(revisions),
-    )
+    digest = None if data is None else hashlib.sha256(data).hexdigest()
+    return EffectiveSeries.from_log(series, revisions, log, digest)
 
 
 def _position(revisions, revision_id: str, log: Path) -> int:

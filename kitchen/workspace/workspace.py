@@ -214,15 +214,8 @@ class Workspace:
     @property
     def effective(self) -> EffectiveSeries:
         """The effective series with the revisions applied and withdrawn, for provenance."""
-        withdrawn_ids = {r.withdraws for r in self._revisions if r.action == "withdraw"}
-        changes = [r for r in self._revisions if r.action == "revise"]
-        return EffectiveSeries(
-            series=self._series,
-            applied=tuple(r for r in changes if r.id not in withdrawn_ids),
-            withdrawn=tuple(r for r in changes if r.id in withdrawn_ids),
-            log_path=revisions_path(self.path),
-            log_sha256=self._log_sha256,
-            log_rows=len(self._revisions),
+        return EffectiveSeries.from_log(
+            self._series, self._revisions, revisions_path(self.path), self._log_sha256
         )
 
     def specimen_ids(self) -> list[str]:

@@ -11,6 +11,7 @@ from revision_series import SAMPLES, SPECIMENS, log_rows, raw_digests, small_ser
 from kitchen.io import load_series, read_tables
 from kitchen.reduction import series_results
 from kitchen.revisions import (
+    EffectiveSeries,
     RevisionError,
     apply_revisions,
     history_table,
@@ -41,6 +42,25 @@ def test_effective_series_cites_the_log(clay):
     assert effective.log_sha256 == expected == log_sha256(clay)
     assert effective.revision_count == 1 and effective.log_rows == 1
     assert effective.series.specimens.loc[1, "height"] == pytest.approx(0.1165, rel=1e-15)
+
+
+def test_effective_series_splits_the_log_as_loading_does(small):
+    from kitchen.revisions import withdraw
+
+    first = revise(small, specimen="A1", field="height", value="117 mm", reason="re-measured")
+    second = revise(small, specimen="A1", field="diameter", value="101.5 mm", reason="calipers")
+    withdraw(small, first.id, reason="measured the wrong specimen")
+    loaded = load_effective_series(small)
+    rows = read_revisions(small)
+    cited = EffectiveSeries.from_log(loaded.series, rows, revisions_path(small), log_sha256(small))
+    assert cited.applied == loaded.applied == (rows[1],) and rows[1].id == second.id
+    assert cited.withdrawn == loaded.withdrawn == (rows[0],) and rows[0].id == first.id
+    assert (cited.log_path, cited.log_sha256, cited.log_rows) == (
+        loaded.log_path,
+        loaded.log_sha256,
+        loaded.log_rows,
+    )
+    assert cited.log_rows == 3 and cited.series is loaded.series
 
 
 # --- the physics of a height revision --------------------------------------------------------
