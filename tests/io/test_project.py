@@ -76,7 +76,7 @@ def test_every_problem_is_named_by_row_and_column(clay):
 def test_a_criterion_without_its_unit_is_refused_where_it_stands(clay):
     (clay / "project.csv").write_text("setting,value\ncriterion,1e-7\n", encoding="utf-8")
     with pytest.raises(SeriesError, match=r"project.csv, row 2, column 'value': criterion: .*unit"):
-        Workspace(clay).criterion
+        _ = Workspace(clay).criterion
 
 
 def test_a_table_without_its_columns_is_named(clay):
