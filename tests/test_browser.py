@@ -1,7 +1,9 @@
 """The notebooks in a real browser: JupyterLab on loopback, driven in headless Chromium.
 
-Each notebook is opened in JupyterLab, run with Run All Cells, and checked as an engineer
-would see it: every cell ran without a traceback, the widgets rendered as controls (not as
+One JupyterLab server, one Chromium and one JupyterLab page serve every notebook of the module
+(module-scoped fixtures; the server boots while Chromium starts). Each notebook is opened in
+that page with a kernel of its own, run with Run All Cells, and checked as an engineer would
+see it: every cell ran without a traceback, the widgets rendered as controls (not as
 text), the plotly figures drew, and in the falling-head notebook moving the reading-window
 slider with the keyboard changes the k shown. Screenshots go to ``tests/artifacts/``.
 
@@ -22,6 +24,7 @@ import subprocess
 import sys
 import time
 import urllib.request
+from concurrent.futures import ThreadPoolExecutor
 from pathlib import Path
 
 import pytest
@@ -69,8 +72,12 @@ def _free_port() -> int:
 
 
 @pytest.fixture(scope="module")
-def lab(tmp_path_factory):
-    """JupyterLab on 127.0.0.1 with a token, serving a copy of notebooks/ and sample_data/."""
+def lab_server(tmp_path_factory):
+    """JupyterLab starting on 127.0.0.1 with a token, serving a copy of notebooks/ and sample_data/.
+
+    Started, not waited for: :func:`lab` waits until it answers, so that it boots while
+    :func:`browser` starts Chromium.
+    """
     _require_browser()
     root = tmp_path_factory.mktemp("lab")
     shutil.copytree(ROOT / "notebooks", root / "notebooks",
@@ -108,16 +115,7 @@ def lab(tmp_path_factory):
     server = subprocess.Popen(command, stdout=log, stderr=subprocess.STDOUT, env=environment)
     base = f"http://127.0.0.1:{port}"
     try:
-        deadline = time.monotonic() + 60
-        while True:
-            try:
-                with urllib.request.urlopen(f"{base}/api/status?token={token}", timeout=2):
-                    break
-            except OSError:
-                if server.poll() is not None or time.monotonic() > deadline:
-                    pytest.fail(f"JupyterLab did not start:\n{log_path.read_text()[-3000:]}")
-                time.sleep(0.3)
-        yield {"base": base, "token": token, "root": root, "log": log_path}
+        yield {"base": base, "token": token, "root": root, "log": log_path, "server": server}
     finally:
         server.terminate()
         try:
@@ -129,7 +127,33 @@ def lab(tmp_path_factory):
 
 
 @pytest.fixture(scope="module")
-def browser(lab, tmp_path_factory):
+def lab(lab_server):
+    """The JupyterLab of :func:`lab_server` once it answers, for every notebook of the module.
+
+    Kernels of closed notebooks are stopped in the background (:func:`_shut_down_kernels`);
+    every stop is awaited, and any failure raised, before the server itself is stopped.
+    """
+    base, token, server = lab_server["base"], lab_server["token"], lab_server["server"]
+    deadline = time.monotonic() + 60
+    while True:
+        try:
+            with urllib.request.urlopen(f"{base}/api/status?token={token}", timeout=2):
+                break
+        except OSError:
+            if server.poll() is not None or time.monotonic() > deadline:
+                tail = lab_server["log"].read_text()[-3000:]
+                pytest.fail(f"JupyterLab did not start:\n{tail}")
+            time.sleep(0.3)
+    with ThreadPoolExecutor(max_workers=1) as stopper:
+        lab = dict(lab_server, stopper=stopper, stopping={})
+        yield lab
+    for stop in lab["stopping"].values():
+        stop.result()
+
+
+@pytest.fixture(scope="module")
+def browser(lab_server, tmp_path_factory):
+    """Headless Chromium, started while JupyterLab boots."""
     from playwright.sync_api import sync_playwright
 
     ARTIFACTS.mkdir(parents=True, exist_ok=True)
@@ -147,13 +171,23 @@ def browser(lab, tmp_path_factory):
             context.close()
 
 
+def _delete_session(lab, session_id: str) -> None:
+    url = f"{lab['base']}/api/sessions/{session_id}?token={lab['token']}"
+    with urllib.request.urlopen(urllib.request.Request(url, method="DELETE"), timeout=30):
+        pass  # answered once the kernel has exited
+
+
 def _shut_down_kernels(lab) -> None:
+    """Stop the kernels of the sessions open now, in the background: the next notebook need
+    not wait for them to exit. Sessions are listed here, before the next notebook opens, so
+    that only kernels of closed notebooks are stopped; each is stopped once."""
     request = urllib.request.Request(f"{lab['base']}/api/sessions?token={lab['token']}")
     with urllib.request.urlopen(request, timeout=10) as answer:
         sessions = json.load(answer)
     for session in sessions:
-        url = f"{lab['base']}/api/sessions/{session['id']}?token={lab['token']}"
-        urllib.request.urlopen(urllib.request.Request(url, method="DELETE"), timeout=10)
+        if session["id"] not in lab["stopping"]:
+            stop = lab["stopper"].submit(_delete_session, lab, session["id"])
+            lab["stopping"][session["id"]] = stop
 
 
 ALL_RAN = """() => {
