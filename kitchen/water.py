@@ -2,7 +2,9 @@
 
 Hydraulic conductivity depends on the permeant's viscosity; standards correct the
 conductivity measured at the test temperature T to a reference temperature (20 °C in
-ASTM D5084, D5856 and D2434) with R_T = μ_T / μ_ref, so that k_ref = R_T · k_T.
+ASTM D5084, D5856 and D2434) with R_T = μ_T / μ_ref, so that k_ref = R_T · k_T. Where a
+formula is used outside the temperatures over which it holds,
+:func:`viscosity_range_caution` says so in words, for the checks of a result.
 """
 
 from __future__ import annotations
@@ -18,6 +20,9 @@ __all__ = [
     "viscosity_ratio",
     "d5084_ratio",
     "water_surface_tension",
+    "D5084_AGREEMENT_RANGE",
+    "D5084_TOLERANCE",
+    "viscosity_range_caution",
 ]
 
 VISCOSITY_20C = 1.0016e-3
@@ -160,7 +165,12 @@ def d5084_ratio(temperature):
     -----
     The standard's fit equals 1.0003 at 20 °C, not exactly 1; :func:`viscosity_ratio` with
     ``method="d5084"`` divides by its value at the reference temperature so the ratio is 1
-    there. Within about 0.15 % of IAPWS 2008 over 15–30 °C, about +1.2 % at 10 °C.
+    there. Against IAPWS 2008, as a ratio to 20 °C (measured in the tests): within about
+    0.15 % over 15–30 °C, and within :data:`D5084_TOLERANCE` (0.5 %) for any test and
+    reference temperature in :data:`D5084_AGREEMENT_RANGE` (14–34 °C); +1.2 % at 10 °C, +6 %
+    at 5 °C, +30 % at 1 °C. The range the standard fitted it over is recalled, not read
+    (from memory: the laboratory range, roughly 15–30 °C); the range used for the caution
+    (:func:`viscosity_range_caution`) is the measured one.
 
     References
     ----------
@@ -200,6 +210,84 @@ def water_surface_tension(temperature):
     tau = 1.0 - (t + 273.15) / 647.096
     sigma = 235.8e-3 * tau**1.256 * (1.0 - 0.625 * tau)
     return float(sigma) if sigma.ndim == 0 else sigma
+
+
+D5084_TOLERANCE = 0.005
+"""How far the ASTM D5084 ratio may depart from IAPWS 2008 before a result says so. [-]"""
+
+D5084_AGREEMENT_RANGE = (14.0, 34.0)
+"""Temperatures between which the ASTM D5084 R_T equation, as a ratio of any test
+temperature to any reference temperature in the range, agrees with IAPWS 2008 within
+:data:`D5084_TOLERANCE`: the widest range of whole degrees that does, measured against the
+``iapws`` package in the tests. [degC]"""
+
+
+def viscosity_range_caution(
+    temperature, reference_temperature: float = 20.0, method: str = "kestin"
+) -> str:
+    """A caution in words where the viscosity method is used outside the range it holds in.
+
+    Parameters
+    ----------
+    temperature : float or array_like
+        The test temperature (a result's mean temperature, or its readings' temperatures);
+        NaN values are ignored. [degC]
+    reference_temperature : float, default 20.0
+        The temperature k is corrected to. [degC]
+    method : {"kestin", "iapws", "d5084"}
+        The viscosity method (:func:`viscosity_ratio`).
+
+    Returns
+    -------
+    str
+        "" when the method holds at every temperature given and at the reference: always
+        for ``"iapws"`` (the reference formulation) and ``"kestin"`` (its published range,
+        −8 to 150 °C, covers liquid water at atmospheric pressure; within 0.1 % of IAPWS
+        2008 over 1–40 °C, measured in the tests). For ``"d5084"``, a sentence when a
+        temperature lies outside :data:`D5084_AGREEMENT_RANGE`, with the largest departure
+        of its ratio from that of IAPWS 2008 (:func:`water_viscosity` with ``"iapws"``,
+        evaluated only then).
+
+    References
+    ----------
+    ASTM D5084, the R_T equation (from memory), and Huber, M. L. et al. (2009), J. Phys.
+    Chem. Ref. Data 38(2), 101-125 (IAPWS 2008), as in :func:`d5084_ratio`; Kestin, Sokolov
+    & Wakeham (1978), J. Phys. Chem. Ref. Data 7(3), 941-948 (published range −8 to 150 °C,
+    from memory).
+
+    Examples
+    --------
+    >>> viscosity_range_caution(21.3, method="d5084")
+    ''
+    >>> caution = viscosity_range_caution(5.0, method="d5084")
+    >>> caution.split("; ")[1].split(",")[0]
+    'here its R_T departs from IAPWS 2008 by +6.1 %'
+    """
+    if method not in VISCOSITY_METHODS:
+        names = ", ".join(VISCOSITY_METHODS)
+        raise ValueError(f"unknown viscosity method {method!r}; choose one of {names}")
+    t = np.asarray(temperature, dtype=float).ravel()
+    t = t[np.isfinite(t)]
+    if method != "d5084" or t.size == 0:  # no temperature: k is not corrected at all
+        return ""
+    reference = float(reference_temperature)
+    low, high = D5084_AGREEMENT_RANGE
+    used = np.append(t, reference)
+    beyond = np.maximum(low - used, used - high)
+    if not (beyond > 0).any():
+        return ""
+    farthest = int(np.argmax(beyond))
+    where = "the reference temperature" if farthest == t.size else "the test temperature"
+    exact = viscosity_ratio(t, reference, "iapws")  # only here, once outside the range
+    ratio = np.asarray(viscosity_ratio(t, reference, "d5084") / exact).ravel()
+    departure = float(ratio[np.argmax(np.abs(ratio - 1.0))] - 1.0)
+    return (
+        f"viscosity: the ASTM D5084 R_T equation is used at {used[farthest]:.1f} °C ({where}), "
+        f"outside {low:g}–{high:g} °C where it agrees with IAPWS 2008 within "
+        f"{100 * D5084_TOLERANCE:g} %; here its R_T departs from IAPWS 2008 by "
+        f"{100 * departure:+.1f} %, and so does k at the reference temperature. Use the "
+        "'kestin' or 'iapws' viscosity, or test nearer the reference temperature"
+    )
 
 
 VISCOSITY_METHODS: dict[str, Callable] = {

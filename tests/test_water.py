@@ -7,7 +7,15 @@ from hypothesis import strategies as st
 from iapws._iapws import _Viscosity
 from iapws.iapws95 import IAPWS95
 
-from kitchen.water import d5084_ratio, viscosity_ratio, water_density, water_viscosity
+from kitchen.water import (
+    D5084_AGREEMENT_RANGE,
+    D5084_TOLERANCE,
+    d5084_ratio,
+    viscosity_range_caution,
+    viscosity_ratio,
+    water_density,
+    water_viscosity,
+)
 
 TEMPERATURES = [1.0, 5.0, 10.0, 15.0, 20.0, 22.5, 25.0, 30.0, 35.0, 40.0]
 
@@ -90,3 +98,49 @@ def test_temperature_outside_liquid_water_is_refused(bad):
 def test_unknown_method_is_named():
     with pytest.raises(ValueError, match="unknown viscosity method 'vogel'"):
         viscosity_ratio(20.0, method="vogel")
+
+
+def _d5084_departures(low, high, step=0.5):
+    """Departure of the D5084 ratio from IAPWS 2008 (the `iapws` package) for every test and
+    reference temperature on a grid over [low, high]."""
+    grid = np.arange(low, high + step / 2, step)
+    reference = np.array([_iapws_state(t)[1] for t in grid])
+    ratio = d5084_ratio(grid)
+    # (R_d5084(T)/R_d5084(Tref)) / (mu(T)/mu(Tref)) - 1 over every pair (T, Tref)
+    own = ratio / reference
+    return own[:, None] / own[None, :] - 1.0
+
+
+def test_d5084_agrees_with_iapws_within_its_tolerance_over_its_range_and_no_wider():
+    # Reference: IAPWS 2008 viscosity through the `iapws` package. Inside the range every
+    # pair of test and reference temperatures agrees within the tolerance; a degree wider at
+    # either end, some pair does not.
+    low, high = D5084_AGREEMENT_RANGE
+    assert np.abs(_d5084_departures(low, high)).max() <= D5084_TOLERANCE
+    assert np.abs(_d5084_departures(low - 1, high)).max() > D5084_TOLERANCE
+    assert np.abs(_d5084_departures(low, high + 1)).max() > D5084_TOLERANCE
+
+
+@pytest.mark.parametrize(("temperature", "percent"), [(10.0, 1.2), (5.0, 6.1), (1.0, 30.4)])
+def test_outside_its_range_the_d5084_option_says_so_with_its_departure(temperature, percent):
+    # Departures against IAPWS 2008 through the `iapws` package (measured: +1.2 % at 10 degC,
+    # +6 % at 5 degC, +30 % at 1 degC); the caution quotes them to 0.1 percentage point.
+    _, at_t = _iapws_state(temperature)
+    _, at_20 = _iapws_state(20.0)
+    measured = 100 * (viscosity_ratio(temperature, method="d5084") / (at_t / at_20) - 1)
+    assert measured == pytest.approx(percent, abs=0.15)
+    caution = viscosity_range_caution(temperature, 20.0, "d5084")
+    assert f"is used at {temperature:.1f} °C (the test temperature), outside 14–34 °C" in caution
+    quoted = float(caution.split("departs from IAPWS 2008 by ")[1].split(" %")[0])
+    assert quoted == pytest.approx(measured, abs=0.051)
+
+
+def test_the_range_caution_is_silent_where_the_formula_holds():
+    assert viscosity_range_caution(np.array([17.2, 23.9]), 20.0, "d5084") == ""
+    assert viscosity_range_caution(np.nan, 20.0, "d5084") == ""  # no temperature: no R_T
+    for method in ("kestin", "iapws"):  # within 0.1 % of IAPWS over 1-40 degC (above)
+        assert viscosity_range_caution(1.0, 20.0, method) == ""
+    at_reference = viscosity_range_caution(20.0, 10.0, "d5084")
+    assert "at 10.0 °C (the reference temperature)" in at_reference
+    with pytest.raises(ValueError, match="unknown viscosity method 'andrade'"):
+        viscosity_range_caution(20.0, 20.0, "andrade")

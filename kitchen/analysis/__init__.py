@@ -1,8 +1,10 @@
 """The series across compaction states: the compaction plane, trends of k, the criterion.
 
 Once each specimen is reduced, the series is read as a whole. One result is kept per
-specimen, and its k and interval are judged against the project's criterion: meets, does
-not meet, or not conclusive where the interval straddles it. On the compaction plane
+specimen, and, when the test is valid (or kept on record by the engineer with a reason),
+its k and interval are judged against the project's criterion: meets, does not meet, or
+not conclusive where the interval straddles it; a test that is not valid is not judged,
+and is left out of the zone and the fits. On the compaction plane
 (molding water content across, dry density up) sit the zero-air-voids and
 constant-saturation lines, one compaction curve per compactive effort, the line of
 optimums, and the acceptable zone around the specimens that meet (Daniel & Benson 1990).
@@ -18,7 +20,10 @@ Modules, in the data's order:
 - :mod:`.criterion`: the :class:`Criterion` on k (largest allowed, smallest required).
 - :mod:`.saturation_lines`: the zero-air-voids and constant-saturation lines.
 - :mod:`.compaction`: each effort's compaction curve, and the line of optimums.
-- :mod:`.compaction_zone`: the acceptable zone, the hull of the specimens that meet.
+- :mod:`.compaction_zone`: the acceptable zone, the hull of the specimens that meet with no
+  other specimen inside.
+- :mod:`.fitted_zone`: log10 k20 fitted over the compaction plane, and the zone where its
+  prediction bound meets the criterion.
 - :mod:`.trends`: log k against void ratio, dry density and w − w_opt; the geometric mean.
 - :mod:`.grading`: Hazen, Chapuis and Kozeny–Carman predictions, with their ranges.
 - :mod:`.series_analysis`: all of them in one call, on the result chosen for each specimen.
@@ -27,16 +32,20 @@ Modules, in the data's order:
 The public face, which other subpackages import from :mod:`kitchen.analysis` and never from
 its modules: :data:`REQUIRED_COLUMNS`; :class:`Criterion`, :func:`as_criterion`,
 :func:`parse_criterion`, :func:`classify_against_criterion`, :data:`CRITERION_KINDS`, :data:`MEETS`,
-:data:`DOES_NOT_MEET` and :data:`NOT_CONCLUSIVE`; :func:`zero_air_voids_dry_density` and
-:func:`constant_saturation_dry_density`; :func:`fit_compaction_curve`,
-:func:`compaction_curves` (:class:`CompactionCurve`) and :func:`line_of_optimums`
-(:class:`LineOfOptimums`); :func:`acceptable_zone` (:class:`AcceptableZone`);
+:data:`DOES_NOT_MEET`, :data:`NOT_CONCLUSIVE` and :data:`NOT_JUDGED`;
+:func:`zero_air_voids_dry_density` and :func:`constant_saturation_dry_density`;
+:func:`fit_compaction_curve`, :func:`compaction_curves` (:class:`CompactionCurve`) and
+:func:`line_of_optimums` (:class:`LineOfOptimums`); :func:`acceptable_zone`
+(:class:`AcceptableZone`); :func:`fit_zone`
+(:class:`FittedZone`, :class:`FittedParameter`, :class:`NextSpecimen`) and
+:data:`FITTED_ZONE_ASSUMPTIONS`;
 :func:`fit_log_conductivity` (:class:`ConductivityTrend`),
 :func:`fit_log_conductivity_void_ratio` (:class:`VoidRatioTrend`) and
 :func:`geometric_mean_conductivity` (:class:`GeometricMean`); :func:`hazen_conductivity`,
 :func:`chapuis_conductivity`, :func:`kozeny_carman_ratio` and :func:`grading_predictions`
-(:class:`GradingPrediction`); :func:`analyse_series` (:class:`SeriesAnalysis`),
-:data:`ANALYSIS_METHODS`, :data:`SATURATION_LINES` and :data:`VERDICTS`.
+(:class:`GradingPrediction`), with the ranges they hold in, :data:`HAZEN_VALIDITY`,
+:data:`CHAPUIS_VALIDITY` and :data:`KOZENY_CARMAN_VALIDITY`; :func:`analyse_series`
+(:class:`SeriesAnalysis`), :data:`ANALYSIS_METHODS`, :data:`SATURATION_LINES` and :data:`VERDICTS`.
 
 References
 ----------
@@ -87,12 +96,23 @@ from .criterion import (
     DOES_NOT_MEET,
     MEETS,
     NOT_CONCLUSIVE,
+    NOT_JUDGED,
     Criterion,
     as_criterion,
     classify_against_criterion,
     parse_criterion,
 )
+from .fitted_zone import (
+    FITTED_ZONE_ASSUMPTIONS,
+    FittedParameter,
+    FittedZone,
+    NextSpecimen,
+    fit_zone,
+)
 from .grading import (
+    CHAPUIS_VALIDITY,
+    HAZEN_VALIDITY,
+    KOZENY_CARMAN_VALIDITY,
     GradingPrediction,
     chapuis_conductivity,
     grading_predictions,
@@ -129,6 +149,7 @@ __all__ = [
     "ANALYSIS_METHODS",
     "as_criterion",
     "chapuis_conductivity",
+    "CHAPUIS_VALIDITY",
     "classify_against_criterion",
     "compaction_curves",
     "CompactionCurve",
@@ -138,6 +159,10 @@ __all__ = [
     "CRITERION_KINDS",
     "DOES_NOT_MEET",
     "fit_compaction_curve",
+    "fit_zone",
+    "FITTED_ZONE_ASSUMPTIONS",
+    "FittedParameter",
+    "FittedZone",
     "fit_log_conductivity",
     "fit_log_conductivity_void_ratio",
     "geometric_mean_conductivity",
@@ -145,11 +170,15 @@ __all__ = [
     "grading_predictions",
     "GradingPrediction",
     "hazen_conductivity",
+    "HAZEN_VALIDITY",
+    "KOZENY_CARMAN_VALIDITY",
     "kozeny_carman_ratio",
     "line_of_optimums",
     "LineOfOptimums",
     "MEETS",
+    "NextSpecimen",
     "NOT_CONCLUSIVE",
+    "NOT_JUDGED",
     "parse_criterion",
     "REQUIRED_COLUMNS",
     "SATURATION_LINES",

@@ -4,7 +4,9 @@ A :class:`Criterion` is a limit on the hydraulic conductivity that knows its dir
 largest k allowed (a liner, a cut-off) or the smallest required (a drainage layer, a
 filter). :func:`parse_criterion` reads one as a person types it (the notebook panels and
 the command line). :func:`classify_against_criterion` compares each k and its interval with
-it: meets, does not meet, or not conclusive where the interval straddles the limit.
+it: meets, does not meet, or not conclusive where the interval straddles the limit. A test
+that is not valid gets none of these: it is :data:`NOT_JUDGED` (see
+:mod:`kitchen.analysis.result_selection`).
 """
 
 from __future__ import annotations
@@ -23,6 +25,7 @@ __all__ = [
     "MEETS",
     "DOES_NOT_MEET",
     "NOT_CONCLUSIVE",
+    "NOT_JUDGED",
     "CRITERION_KINDS",
     "Criterion",
     "as_criterion",
@@ -34,6 +37,9 @@ __all__ = [
 MEETS = "meets"
 DOES_NOT_MEET = "does not meet"
 NOT_CONCLUSIVE = "not conclusive"
+NOT_JUDGED = "not judged (test not valid)"
+"""The verdict of a test that failed a validity check and is not kept on record: its k is
+not compared with the criterion, so it neither meets nor fails it (the tool's own rule)."""
 
 
 CRITERION_KINDS = ("maximum", "minimum")

@@ -24,6 +24,9 @@ from ._checks import (
 )
 
 __all__ = [
+    "CHAPUIS_VALIDITY",
+    "HAZEN_VALIDITY",
+    "KOZENY_CARMAN_VALIDITY",
     "GradingPrediction",
     "hazen_conductivity",
     "chapuis_conductivity",
@@ -35,6 +38,16 @@ __all__ = [
 _HAZEN_D10_RANGE = (0.1e-3, 3.0e-3)  # [m]
 _CHAPUIS_D10_RANGE = (0.13e-3, 1.98e-3)  # [m]
 _CHAPUIS_VOID_RATIO_RANGE = (0.4, 1.5)
+
+HAZEN_VALIDITY = "clean uniform sand, 0.1 mm ≤ d10 ≤ 3 mm (uniformity not checked)"
+"""Where Hazen's estimate holds, in words (see :func:`hazen_conductivity`)."""
+CHAPUIS_VALIDITY = "natural sand and gravel, 0.13 mm ≤ d10 ≤ 1.98 mm, 0.4 ≤ e ≤ 1.5"
+"""Where Chapuis's prediction holds, in words (see :func:`chapuis_conductivity`)."""
+KOZENY_CARMAN_VALIDITY = (
+    "one clean sand whose grains and fabric stay the same, between the void ratios it was "
+    "tested at; not for clays, whose k does not follow e³/(1 + e)"
+)
+"""Where the Kozeny–Carman ratio holds, in words (see :func:`kozeny_carman_ratio`)."""
 
 
 @dataclass(frozen=True)
@@ -119,7 +132,7 @@ def hazen_conductivity(d10, coefficient=100.0) -> GradingPrediction:
         conductivity=like_inputs(k, d10),
         within_range=like_inputs(inside, d10),
         method="Hazen (1892)",
-        validity="clean uniform sand, 0.1 mm ≤ d10 ≤ 3 mm",
+        validity=HAZEN_VALIDITY,
     )
 
 
@@ -165,7 +178,7 @@ def chapuis_conductivity(d10, void_ratio) -> GradingPrediction:
         conductivity=like_inputs(0.01 * k_cm, d10, void_ratio),
         within_range=like_inputs(inside, d10, void_ratio),
         method="Chapuis (2004)",
-        validity="natural sand and gravel, 0.13 mm ≤ d10 ≤ 1.98 mm, 0.4 ≤ e ≤ 1.5",
+        validity=CHAPUIS_VALIDITY,
     )
 
 
@@ -186,8 +199,11 @@ def kozeny_carman_ratio(e_from, e_to):
 
     Notes
     -----
-    The proportionality holds for one sand whose grains and fabric stay the same; it is a
-    prediction, not a measurement.
+    The proportionality holds for one sand whose grains and fabric stay the same
+    (:data:`KOZENY_CARMAN_VALIDITY`), and is read here between void ratios the sand was
+    tested at; it fails for clays, whose k falls far faster with e (Mitchell & Soga,
+    *Fundamentals of Soil Behavior*, 3rd ed., chapter on conductivity, from memory). A
+    prediction, not a measurement; the series analysis notes the range it draws it over.
 
     References
     ----------

@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import warnings
 from dataclasses import dataclass
+from functools import partial
 from types import MappingProxyType
 
 import numpy as np
@@ -22,8 +23,9 @@ import pandas as pd
 
 from .compaction import LineOfOptimums, compaction_curves, line_of_optimums
 from .compaction_zone import AcceptableZone, acceptable_zone
-from .criterion import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE, Criterion
-from .grading import grading_predictions, kozeny_carman_ratio
+from .criterion import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE, NOT_JUDGED, Criterion
+from .fitted_zone import FITTED_ZONE_ASSUMPTIONS, FITTED_ZONE_METHOD, FittedZone, fit_zone
+from .grading import KOZENY_CARMAN_VALIDITY, grading_predictions, kozeny_carman_ratio
 from .result_selection import REQUIRED_COLUMNS as REQUIRED_COLUMNS
 from .result_selection import (
     criterion_verdicts,
@@ -31,6 +33,7 @@ from .result_selection import (
     one_result_per_specimen,
     require_results_table,
     usable_conductivity,
+    validity_on_record,
 )
 from .saturation_lines import constant_saturation_dry_density
 from .trends import (
@@ -44,8 +47,9 @@ from .trends import (
 
 __all__ = ["ANALYSIS_METHODS", "SeriesAnalysis", "analyse_series", "VERDICTS", "SATURATION_LINES"]
 
-VERDICTS = (MEETS, DOES_NOT_MEET, NOT_CONCLUSIVE)
-"""The three verdicts against the criterion, in the order the charts list them."""
+VERDICTS = (MEETS, DOES_NOT_MEET, NOT_CONCLUSIVE, NOT_JUDGED)
+"""The verdicts, in the order the charts list them: the three against the criterion, then
+that of a test not valid, which is not judged against it."""
 
 ANALYSIS_METHODS = (
     (
@@ -53,6 +57,16 @@ ANALYSIS_METHODS = (
         "the first result that passed every check, in the order of the results table "
         "(constant head before falling head); the first result when none passed",
         "the tool's own rule",
+    ),
+    (
+        "validity before the verdict",
+        "a test that failed a validity check is not judged against the criterion (neither "
+        "meets nor does not meet), counted apart, and not used to draw the acceptable zone "
+        "or to fit the compaction curves, the trends and the geometric mean, unless the "
+        "engineer keeps it on record with a reason (an append-only log beside the series, "
+        "listed in the memo)",
+        "the tool's own rule; the validity checks are those of each test (ASTM D5084 "
+        "termination criteria and the tool's own trend tests)",
     ),
     (
         "verdict against the criterion",
@@ -82,9 +96,19 @@ ANALYSIS_METHODS = (
     ),
     (
         "acceptable zone",
-        "convex hull of the specimens that meet the criterion on the w–ρd plane",
+        "convex hull of the largest set of specimens that meet the criterion whose hull holds "
+        "no other specimen (no specimen that does not meet, or is not judged, lies in it), on "
+        "the w–ρd plane; the specimens that prevent a larger zone are named",
         "Daniel & Benson (1990), J. Geotech. Eng. 116(12):1811; the hull is the tool's own "
         "construction of the zone they draw by judgement",
+    ),
+    (
+        "fitted zone",
+        f"{FITTED_ZONE_METHOD}. {FITTED_ZONE_ASSUMPTIONS}",
+        "least squares and the prediction interval: Montgomery & Runger, Applied Statistics "
+        "and Probability for Engineers (from memory); regressions of k on compaction "
+        "variables: Benson, Zhai & Wang (1994), J. Geotech. Eng. 120(2):366 (from memory); "
+        "the zone is the tool's own construction",
     ),
     (
         "log k against void ratio",
@@ -132,7 +156,11 @@ class SeriesAnalysis:
     specimens : pandas.DataFrame
         One row per specimen with a usable conductivity: the columns of the results table
         for the result kept, plus ``k``, ``k_low``, ``k_high`` [m/s] (the corrected k and
-        its interval), ``verdict`` (one of :data:`VERDICTS`), ``meets`` (bool),
+        its interval), ``valid`` (bool), ``kept_on_record`` (the engineer's record, in
+        words, of a test kept despite a failed check; "" otherwise), ``judged`` (bool: valid
+        or kept on record; only judged specimens enter the zone, the compaction curves, the
+        trends and the geometric mean), ``verdict`` (one of :data:`VERDICTS`: not judged
+        where ``judged`` is False), ``meets`` (bool),
         ``water_content_from_optimum`` [-] (NaN where the effort has no optimum),
         ``on_compaction_plane`` (bool: has a water content) and ``in_zone`` (bool).
     specific_gravity : float or None
@@ -154,6 +182,10 @@ class SeriesAnalysis:
         and the geometric mean of the specimens with a d10.
     notes : tuple of str
         What was left out and why, and cautions raised by the analyses.
+    fitted_zone : FittedZone or None
+        log10 k20 fitted over the compaction plane on the judged specimens, and where its
+        prediction bound meets the criterion (:func:`kitchen.analysis.fit_zone`); None
+        when the data do not allow it (the reason is in ``notes``).
     """
 
     criterion: Criterion
@@ -171,6 +203,7 @@ class SeriesAnalysis:
     grading: pd.DataFrame | None
     kozeny_carman_reference: tuple[float, float] | None
     notes: tuple[str, ...]
+    fitted_zone: FittedZone | None = None
 
     @property
     def counts(self) -> dict[str, int]:
@@ -236,6 +269,7 @@ def analyse_series(
     reference_temperature: float = 20.0,
     confidence: float = 0.95,
     curve_method: str = "quadratic",
+    kept=None,
 ) -> SeriesAnalysis:
     """Run the series analyses that the results allow.
 
@@ -257,6 +291,11 @@ def analyse_series(
         Confidence level of the trends and the geometric mean.
     curve_method : {"quadratic", "cubic"}, default "quadratic"
         Compaction curve, see :func:`kitchen.analysis.fit_compaction_curve`.
+    kept : mapping of (str, str) to str, optional
+        The tests not valid that the engineer keeps on record, ``{(specimen, method): the
+        record in words (who, when, why)}`` (:attr:`kitchen.workspace.Workspace.kept`):
+        judged against the criterion and used in the zone and the trends. Every other test
+        that is not valid is not judged.
 
     Returns
     -------
@@ -290,7 +329,8 @@ def analyse_series(
         raise ValueError(f"criterion: expected a positive conductivity in m/s, got {criterion!r}")
     criterion = Criterion(limit, kind)
     notes: list[str] = []
-    frame = usable_conductivity(one_result_per_specimen(results, notes), notes)
+    chosen = one_result_per_specimen(results, notes, kept)
+    frame = usable_conductivity(validity_on_record(chosen, kept, notes), notes)
     if frame.empty:
         raise ValueError("results table: no specimen has a usable conductivity")
     # every column is formed as an array and set in two passes: a dozen specimens make
@@ -311,14 +351,19 @@ def analyse_series(
     )
     plane = frame.iloc[np.flatnonzero(on_plane)]
     gs = median_specific_gravity(frame, notes if not plane.empty else [])
+    # validity before compliance: the fits see only the tests judged (valid, or kept on record)
+    judged_plane = plane.iloc[np.flatnonzero(plane["judged"].to_numpy(dtype=bool))]
 
     curves: dict = {}
-    optimums = zone = None
+    optimums = zone = fitted = None
     if plane.empty:
         notes.append("no specimen has a molding water content: no compaction plane")
     else:
-        if plane["effort"].notna().any():
-            curves = _recorded(lambda: compaction_curves(plane, method=curve_method), notes) or {}
+        if judged_plane["effort"].notna().any():
+            fit = partial(compaction_curves, judged_plane, method=curve_method)
+            curves = _recorded(fit, notes) or {}
+        elif plane["effort"].notna().any():
+            notes.append("no judged specimen has a compactive effort: no compaction curves")
         else:
             notes.append("no specimen has a compactive effort: no compaction curves")
         if curves:
@@ -326,11 +371,30 @@ def analyse_series(
             if optimums is not None and optimums.message:
                 notes.append(optimums.message)
         zone = _recorded(
-            lambda: acceptable_zone(plane["water_content"], plane["dry_density"], plane["meets"]),
+            lambda: acceptable_zone(
+                plane["water_content"],
+                plane["dry_density"],
+                plane["meets"],
+                names=plane["specimen"],
+                verdicts=plane["verdict"].to_numpy(),
+            ),
             notes,
         )
         if zone is not None and zone.message:
             notes.append(f"acceptable zone: {zone.message}")
+        fitted = _recorded(
+            lambda: fit_zone(
+                judged_plane["water_content"],
+                judged_plane["dry_density"],
+                judged_plane["k"],
+                criterion,
+                judged_plane["effort"],
+                confidence,
+            ),
+            notes,
+        )
+        if fitted is not None:
+            notes.append(fitted.summary)
     in_zone = np.zeros(len(frame), dtype=bool)
     if zone is not None:
         inside = zone.contains(water[on_plane], frame["dry_density"].to_numpy()[on_plane])
@@ -346,15 +410,16 @@ def analyse_series(
         dtype=float,
     )
     frame = frame.assign(in_zone=in_zone, water_content_from_optimum=water - w_opt)
+    judged = frame.iloc[np.flatnonzero(frame["judged"].to_numpy(dtype=bool))]
 
-    void_trend = _trend(frame, "void_ratio", "void_ratio", notes, confidence, "k against e")
+    void_trend = _trend(judged, "void_ratio", "void_ratio", notes, confidence, "k against e")
     if void_trend is not None and void_trend.message:
         notes.append(f"k against e: {void_trend.message}")
-    density_trend = _trend(frame, "dry_density", "dry_density", notes, confidence, "k against ρd")
+    density_trend = _trend(judged, "dry_density", "dry_density", notes, confidence, "k against ρd")
     water_trend = None
-    if not np.isnan(water - w_opt).all():
+    if judged["water_content_from_optimum"].notna().any():
         water_trend = _trend(
-            frame,
+            judged,
             "water_content_from_optimum",
             "water_content_from_optimum",
             notes,
@@ -362,7 +427,7 @@ def analyse_series(
             "k against w − w_opt",
         )
     mean = _recorded(
-        lambda: geometric_mean_conductivity(frame["k"].to_numpy(), confidence),
+        lambda: geometric_mean_conductivity(judged["k"].to_numpy(), confidence),
         notes,
         "geometric mean: ",
     )
@@ -371,10 +436,16 @@ def analyse_series(
     graded = frame[frame["d10"].notna()]
     if not graded.empty:
         grading = grading_predictions(graded).reset_index(drop=True)
+        graded = graded[graded["judged"]]  # the Kozeny–Carman curve runs through judged k
         e = graded["void_ratio"].dropna()
         if not e.empty:
             log_k = np.log10(graded.loc[e.index, "k"].to_numpy())
             kc_reference = (float(e.mean()), float(10.0 ** log_k.mean()))
+            notes.append(
+                "Kozeny–Carman curve: a prediction through the geometric mean of the judged "
+                f"specimens with a d10, drawn over e = {e.min():.3g} to {e.max():.3g}; it "
+                f"holds for {KOZENY_CARMAN_VALIDITY}"
+            )
     return SeriesAnalysis(
         criterion=criterion,
         reference_temperature=float(reference_temperature),
@@ -391,4 +462,5 @@ def analyse_series(
         grading=grading,
         kozeny_carman_reference=kc_reference,
         notes=tuple(dict.fromkeys(notes)),
+        fitted_zone=fitted,
     )

@@ -3,7 +3,7 @@
 Every builder returns a new :class:`plotly.graph_objects.Figure` and leaves its inputs
 alone. Axis titles carry their units; the conductivity and density units are options
 (:mod:`kitchen.display_units`). The look is the memo style of this package: a serif face,
-a dark ink, and three verdict colours that are never the only cue — compactive effort is
+a dark ink, and four verdict colours that are never the only cue — compactive effort is
 told by marker shape and line dash, the verdict by marker fill — so a chart still reads in
 greyscale print. The compaction chart and the falling-head chart also come as plain-dict
 specs (``*_spec``) that a live figure is brought to without validating the whole figure
@@ -23,7 +23,7 @@ its modules: :func:`compaction_conductivity_figure`, :func:`compaction_conductiv
 and :func:`constant_head_figure` (the figures); :func:`memo_template`,
 :func:`decimation_indices`, :func:`add_caption`, :data:`MAX_TRACE_POINTS`, :data:`WIDTH`,
 :data:`HEIGHT`, :data:`FONT`, :data:`INK`, :data:`MUTED`, :data:`GRID`, :data:`ZONE`,
-:data:`VERDICT_COLOURS`, :data:`VERDICT_FILL`, :data:`EFFORT_SYMBOLS`,
+:data:`VERDICT_COLOURS`, :data:`VERDICT_FACE`, :data:`VERDICT_FILL`, :data:`EFFORT_SYMBOLS`,
 :data:`EFFORT_DASHES`, :data:`NO_EFFORT` and :data:`SATURATION_DASHES` (the style).
 
 References
@@ -61,6 +61,7 @@ from .style import (
     NO_EFFORT,
     SATURATION_DASHES,
     VERDICT_COLOURS,
+    VERDICT_FACE,
     VERDICT_FILL,
     WIDTH,
     ZONE,
@@ -90,6 +91,7 @@ __all__ = [
     "NO_EFFORT",
     "SATURATION_DASHES",
     "VERDICT_COLOURS",
+    "VERDICT_FACE",
     "VERDICT_FILL",
     "WIDTH",
     "ZONE",

@@ -1,9 +1,9 @@
 """The pieces the series charts share: specimen markers, hover texts, the criterion, the k axis.
 
 Each specimen is drawn with the marker shape of its compactive effort and the fill and
-colour of its verdict against the criterion; efforts are ordered by their mean dry
-density. The log-k axis spans the data and, when it lies near, the criterion line; a
-criterion far outside is named in a note instead. Used by
+colour of its verdict against the criterion (or of a test not judged, not valid); efforts
+are ordered by their mean dry density. The log-k axis spans the data and, when it lies
+near, the criterion line; a criterion far outside is named in a note instead. Used by
 :mod:`kitchen.charts.compaction` and :mod:`kitchen.charts.conductivity_trend`.
 """
 
@@ -26,6 +26,7 @@ from .style import (
     MUTED,
     NO_EFFORT,
     VERDICT_COLOURS,
+    VERDICT_FACE,
     VERDICT_FILL,
 )
 
@@ -177,7 +178,7 @@ def specimen_trace_specs(
                     marker=dict(
                         symbol=styles[effort][0] + VERDICT_FILL[verdict],
                         size=11,
-                        color=VERDICT_COLOURS[verdict],
+                        color=VERDICT_FACE[verdict],
                         line=dict(width=1.6, color=VERDICT_COLOURS[verdict]),
                     ),
                     error_y=error,

@@ -53,6 +53,125 @@ def _two_panel_axes() -> dict:
     return copy.deepcopy(_two_panel_grid())
 
 
+def _closed(corners: np.ndarray) -> np.ndarray:
+    return np.vstack([corners, corners[:1]])
+
+
+def _zone_specs(analysis: SeriesAnalysis, frame, density_factor: float, axes: dict) -> list[dict]:
+    """The traces of both zones on the compaction plane, told apart in the legend and in
+    greyscale: the drawn zone hatched (/) in green with a dotted edge; the fitted zone of
+    each effort dotted (.) in ink with its effort's dash, the extent of its fit a thin grey
+    outline and its criterion line a thick grey one, in the same dash.
+
+    The drawn zone is the hull of the specimens that meet with no other specimen inside
+    (Daniel & Benson 1990, J. Geotech. Eng. 116(12):1811, draw it by judgement); the fitted
+    zone, the criterion line and the next specimen come from
+    :func:`kitchen.analysis.fit_zone` (the tool's own construction).
+    """
+    specs = []
+    zone = analysis.acceptable_zone
+    if zone is not None and zone.kind != "empty":
+        polygon = zone.kind == "polygon"
+        corners = _closed(zone.vertices) if polygon else zone.vertices
+        specs.append(
+            dict(
+                type="scatter",
+                x=corners[:, 0] * 100.0,
+                y=corners[:, 1] * density_factor,
+                mode="lines" if zone.kind != "point" else "markers",
+                fill="toself" if polygon else None,
+                fillcolor="rgba(46,107,87,0.10)",
+                fillpattern=dict(shape="/", fgcolor="rgba(46,107,87,0.45)", size=9, solidity=0.12)
+                if polygon
+                else None,
+                line=dict(color=ZONE, width=1.6, dash="dot"),
+                name=f"drawn zone ({zone.kind}): hull of specimens that meet, no other inside",
+                legendgroup="zone",
+                hoverinfo="name",
+                **axes,
+            )
+        )
+    fitted = analysis.fitted_zone
+    if fitted is None:
+        return specs
+    dashes = {effort: dash for effort, (_, dash) in effort_styles(frame).items()}
+    group = dict(legendgroup="fitted zone", legendgrouptitle=dict(text="fitted zone (tool's own)"))
+    end = "upper" if fitted.criterion.kind == "maximum" else "lower"
+    for part in fitted.zones:
+        own = f" ({html_escaped(part.effort)})" if part.effort is not None else ""
+        dash = dashes.get(part.effort, "dash") if part.effort is not None else "dash"
+        if part.extent.size:
+            extent = _closed(part.extent)
+            specs.append(
+                dict(
+                    type="scatter",
+                    x=extent[:, 0] * 100.0,
+                    y=extent[:, 1] * density_factor,
+                    mode="lines",
+                    line=dict(color=MUTED, width=0.8, dash=dash),
+                    name=f"extent of the fit{own}: hull of the tested states",
+                    hoverinfo="name",
+                    **group,
+                    **axes,
+                )
+            )
+        if part.region.size:
+            region = _closed(part.region)
+            specs.append(
+                dict(
+                    type="scatter",
+                    x=region[:, 0] * 100.0,
+                    y=region[:, 1] * density_factor,
+                    mode="lines",
+                    fill="toself",
+                    fillcolor="rgba(29,39,49,0.04)",
+                    fillpattern=dict(
+                        shape=".", fgcolor="rgba(29,39,49,0.55)", size=7, solidity=0.2
+                    ),
+                    line=dict(color=INK, width=1.4, dash=dash),
+                    name=f"fitted zone{own}: {end} {100 * fitted.confidence:g} % prediction "
+                    "bound meets the criterion",
+                    hoverinfo="name",
+                    **group,
+                    **axes,
+                )
+            )
+        if part.criterion_line is not None:
+            specs.append(
+                dict(
+                    type="scatter",
+                    x=part.criterion_line[:, 0] * 100.0,
+                    y=part.criterion_line[:, 1] * density_factor,
+                    mode="lines",
+                    line=dict(color=MUTED, width=2.2, dash=dash),
+                    name=f"fitted{own}: prediction = criterion",
+                    hoverinfo="name",
+                    **group,
+                    **axes,
+                )
+            )
+    spot = fitted.next_specimen
+    if spot is not None:
+        effort = f", {html_escaped(spot.effort)} effort" if spot.effort is not None else ""
+        specs.append(
+            dict(
+                type="scatter",
+                x=[spot.water_content * 100.0],
+                y=[spot.dry_density * density_factor],
+                mode="markers",
+                marker=dict(
+                    symbol="x-thin-open", size=13, color=INK, line=dict(color=INK, width=2.0)
+                ),
+                name="fitted: one more specimen here narrows the boundary most",
+                text=[f"next specimen{effort}"],
+                hoverinfo="text+x+y",
+                **group,
+                **axes,
+            )
+        )
+    return specs
+
+
 def compaction_conductivity_figure(
     analysis: SeriesAnalysis, k_unit_name: str = "m/s", density_unit_name: str = "Mg/m³"
 ) -> go.Figure:
@@ -108,28 +227,7 @@ def compaction_conductivity_spec(
     top, bottom = dict(xaxis="x", yaxis="y"), dict(xaxis="x2", yaxis="y2")
     data, annotations = [], []
     y_values = [frame["dry_density"].to_numpy()]
-    zone = analysis.acceptable_zone
-    if zone is not None and zone.kind != "empty":
-        vertices = zone.vertices
-        closed = np.vstack([vertices, vertices[:1]]) if zone.kind == "polygon" else vertices
-        data.append(
-            dict(
-                type="scatter",
-                x=closed[:, 0] * 100.0,
-                y=closed[:, 1] * du.factor,
-                mode="lines" if zone.kind != "point" else "markers",
-                fill="toself" if zone.kind == "polygon" else None,
-                fillcolor="rgba(46,107,87,0.10)",
-                fillpattern=dict(shape="/", fgcolor="rgba(46,107,87,0.45)", size=9, solidity=0.12)
-                if zone.kind == "polygon"
-                else None,
-                line=dict(color=ZONE, width=1.6, dash="dot"),
-                name=f"acceptable zone ({zone.kind}: hull of specimens that meet)",
-                legendgroup="zone",
-                hoverinfo="name",
-                **top,
-            )
-        )
+    data += _zone_specs(analysis, frame, du.factor, top)
     order = effort_order(frame)
     styles = effort_styles(frame, order)
     for effort in order:
@@ -254,7 +352,8 @@ def compaction_conductivity_spec(
             text="Compaction and hydraulic conductivity"
             f"<br><sup>criterion k {analysis.criterion.symbol} "
             f"{scientific(analysis.criterion * ku.factor, html=True)} "
-            f"{ku.unit}; filled: meets, open: does not meet, dotted: not conclusive</sup>"
+            f"{ku.unit}; filled: meets, open: does not meet, dotted: not conclusive, "
+            "pale: not judged (test not valid)</sup>"
         ),
         margin=dict(t=95, b=60),
         legend=dict(orientation="h", x=0.0, xanchor="left", y=-0.075, yanchor="top"),

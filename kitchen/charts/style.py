@@ -1,10 +1,12 @@
 """The memo style of the figures, and what every figure builder shares.
 
-The look: a serif face, a dark ink, muted greys, and three verdict colours that are never
+The look: a serif face, a dark ink, muted greys, and four verdict colours that are never
 the only cue (compactive effort is told by marker shape and line dash, the verdict by
-marker fill). Here are the colours, marker shapes and dashes, the plotly template
-(:func:`memo_template`), min/max decimation of long records
-(:func:`decimation_indices`) and the caption in a figure's margin (:func:`add_caption`).
+marker fill: solid for meets, open for does not meet, open with a dot for not conclusive,
+a pale face in a dark outline for a test not judged, each telling apart in greyscale).
+Here are the colours, marker shapes and dashes, the plotly template (:func:`memo_template`),
+min/max decimation of long records (:func:`decimation_indices`) and the caption in a
+figure's margin (:func:`add_caption`).
 """
 
 from __future__ import annotations
@@ -15,7 +17,7 @@ from functools import lru_cache
 import numpy as np
 import plotly.graph_objects as go
 
-from kitchen.analysis import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE
+from kitchen.analysis import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE, NOT_JUDGED
 
 __all__ = [
     "EFFORT_DASHES",
@@ -29,6 +31,7 @@ __all__ = [
     "NO_EFFORT",
     "SATURATION_DASHES",
     "VERDICT_COLOURS",
+    "VERDICT_FACE",
     "VERDICT_FILL",
     "WIDTH",
     "ZONE",
@@ -46,8 +49,19 @@ INK = "#1d2731"
 MUTED = "#69737d"
 GRID = "#e4e7ea"
 ZONE = "#2e6b57"
-VERDICT_COLOURS = {MEETS: "#2e6b57", DOES_NOT_MEET: "#a33b20", NOT_CONCLUSIVE: "#a87a12"}
-VERDICT_FILL = {MEETS: "", DOES_NOT_MEET: "-open", NOT_CONCLUSIVE: "-open-dot"}
+VERDICT_COLOURS = {
+    MEETS: "#2e6b57",
+    DOES_NOT_MEET: "#a33b20",
+    NOT_CONCLUSIVE: "#a87a12",
+    NOT_JUDGED: "#4a5d7e",
+}
+"""The colour of each verdict: its marker's outline and its error bar."""
+VERDICT_FILL = {MEETS: "", DOES_NOT_MEET: "-open", NOT_CONCLUSIVE: "-open-dot", NOT_JUDGED: ""}
+"""The suffix each verdict adds to its effort's marker symbol."""
+VERDICT_FACE = {**VERDICT_COLOURS, NOT_JUDGED: "#c9d0da"}
+"""The colour inside each verdict's marker (for an open symbol, plotly draws its outline
+in it): the verdict colour, but a pale face for a test not judged, so that it reads as a
+half-tone between the solid marker that meets and the open one that does not."""
 EFFORT_SYMBOLS = ("circle", "square", "diamond", "triangle-up", "triangle-down", "pentagon")
 EFFORT_DASHES = ("solid", "dash", "dot", "dashdot", "longdash", "longdashdot")
 SATURATION_DASHES = {1.0: "solid", 0.9: "dash", 0.8: "dot"}

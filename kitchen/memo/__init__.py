@@ -13,7 +13,8 @@ Modules, in the order a pack is made:
 
 - :mod:`.figures`: the charts the data allow, with the results' windows and rises.
 - :mod:`.images`: PNG and SVG through kaleido and Chromium, one image server per process.
-- :mod:`.tables`: the specimens with their verdicts, the fits, and the checks.
+- :mod:`.tables`: the specimens with their verdicts, the fits, the checks, the revisions
+  and the tests kept on record.
 - :mod:`.workbook`: ``results.xlsx`` with its ``cautions`` sheet.
 - :mod:`.provenance`: which tool, when, with what settings, from which bytes.
 - :mod:`.markup`: the markup the pages share: style, escaping, tables, the page skeleton.
@@ -25,7 +26,9 @@ The public face, which other subpackages import from :mod:`kitchen.memo` and nev
 modules: :func:`export_memo_pack` (:class:`MemoPack`) and :data:`CHART_SCRIPT`;
 :func:`memo_charts`; :func:`start_image_export`, :func:`figure_image`,
 :class:`ImageExportUnavailable`, :data:`PNG_SCALE` and :data:`FIRST_IMAGE_TIMEOUT`;
-:func:`specimens_table`, :func:`fits_table`, :func:`checks_table` and :data:`FIT_COLUMNS`;
+:func:`specimens_table`, :func:`fits_table`, :func:`checks_table`, :func:`revisions_table`,
+:func:`kept_tests_table`, :data:`FIT_COLUMNS`, :data:`REVISION_COLUMNS` and
+:data:`KEPT_TEST_COLUMNS`;
 :func:`workbook_bytes`; :func:`memo_provenance`,
 :class:`Provenance`, :class:`InputFile` and :func:`file_sha256`; :func:`report_page`,
 :func:`chart_page`, :data:`REDUCTION_METHODS` and :data:`VERDICT_MARKS`; :func:`table_markup`
@@ -77,8 +80,12 @@ from .provenance import (
 )
 from .tables import (
     FIT_COLUMNS,
+    KEPT_TEST_COLUMNS,
+    REVISION_COLUMNS,
     checks_table,
     fits_table,
+    kept_tests_table,
+    revisions_table,
     specimens_table,
 )
 from .workbook import (
@@ -97,6 +104,8 @@ __all__ = [
     "fits_table",
     "ImageExportUnavailable",
     "InputFile",
+    "KEPT_TEST_COLUMNS",
+    "kept_tests_table",
     "MANIFEST",
     "MANIFEST_COLUMNS",
     "memo_charts",
@@ -107,6 +116,8 @@ __all__ = [
     "read_manifest",
     "REDUCTION_METHODS",
     "report_page",
+    "REVISION_COLUMNS",
+    "revisions_table",
     "specimens_table",
     "start_image_export",
     "table_markup",

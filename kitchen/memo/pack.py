@@ -3,13 +3,15 @@
 :func:`export_memo_pack` writes, into one folder:
 
 - ``results.csv`` and ``results.xlsx`` (sheets ``specimens``, ``tests``, ``fits``,
-  ``checks`` and ``cautions``), every text cell spreadsheet-safe;
+  ``checks``, ``revisions``, ``kept tests`` and ``cautions``), every text cell
+  spreadsheet-safe;
 - ``charts/plotly.min.js`` (:data:`CHART_SCRIPT`): plotly.js, once for the whole pack;
 - ``charts/NAME.html`` (interactive, loading ``plotly.min.js`` beside it), ``charts/NAME.png``
   and ``charts/NAME.svg`` (static, through kaleido and Chromium) for each chart;
-- ``report.html``: the specimens table, the charts (loading ``charts/plotly.min.js``), the
-  methods and their sources, the criteria applied, the cautions and the provenance, which
-  names the version, size and SHA-256 of the plotly.js the pages run;
+- ``report.html``: the specimens table, the charts (loading ``charts/plotly.min.js``), every
+  revision of the data and every test kept on record (who, when, what, why), the methods
+  and their sources, the criteria applied, the cautions and the provenance, which names
+  the version, size and SHA-256 of the plotly.js the pages run;
 - ``manifest.csv``, last: every file above with its size and SHA-256
   (:mod:`kitchen.memo.manifest`), so a reviewer can check the pack received is the pack
   exported, and a pack with a manifest is known to be whole.
@@ -47,7 +49,7 @@ from kitchen import display_units
 from kitchen.analysis import SeriesAnalysis
 from kitchen.cautions import CAUTIONS
 from kitchen.io import atomic_write_bytes, spreadsheet_safe
-from kitchen.revisions import standing_choices
+from kitchen.revisions import kept_log_sha256, standing_choices
 from kitchen.revisions import window_log_sha256 as window_log_digest
 from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace
@@ -60,7 +62,13 @@ from .manifest import read_manifest, write_manifest
 from .markup import ChartScript
 from .pages import chart_page, report_page
 from .provenance import Provenance, memo_provenance
-from .tables import checks_table, fits_table, specimens_table
+from .tables import (
+    checks_table,
+    fits_table,
+    kept_tests_table,
+    revisions_table,
+    specimens_table,
+)
 from .workbook import notes_sheet, workbook_bytes
 
 __all__ = ["CHART_SCRIPT", "MemoPack", "export_memo_pack"]
@@ -236,6 +244,8 @@ def export_memo_pack(
         "reading windows": _windows_text(windows, window_choices),
         "window log SHA-256": (window_choices and window_log_digest(series.source))
         or "no window log",
+        "kept-tests log SHA-256": (workspace.kept_tests and kept_log_sha256(series.source))
+        or "no kept-tests log",
         "measured capillary rises": ", ".join(
             f"{specimen}: {1e3 * rise:.1f} mm" for specimen, rise in capillary_rises.items()
         )
@@ -258,6 +268,8 @@ def export_memo_pack(
         "tests": workspace.results_table(),
         "fits": fits_table(analysis),
         "checks": checks_table(results, analysis, skipped),
+        "revisions": revisions_table(workspace.revisions),
+        "kept tests": kept_tests_table(workspace.kept_tests),
     }
     script = ChartScript(
         get_plotlyjs(), get_plotlyjs_version(), None if self_contained else CHART_SCRIPT
@@ -280,7 +292,7 @@ def export_memo_pack(
         "table",
         lambda: spreadsheet_safe(tables["tests"]).to_csv(index=False).encode("utf-8"),
     )
-    notes = notes_sheet(provenance, criterion_text)
+    notes = notes_sheet(provenance, criterion_text, analysis.counts)
     write("results.xlsx", "workbook", lambda: workbook_bytes(tables, notes))
     if script.path is not None:  # before any page that loads it
         write(script.path, "script", lambda: script.content)

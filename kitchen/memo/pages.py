@@ -16,9 +16,13 @@ import pandas as pd
 
 from kitchen.analysis import (
     ANALYSIS_METHODS,
+    CHAPUIS_VALIDITY,
     DOES_NOT_MEET,
+    HAZEN_VALIDITY,
+    KOZENY_CARMAN_VALIDITY,
     MEETS,
     NOT_CONCLUSIVE,
+    NOT_JUDGED,
     VERDICTS,
     SeriesAnalysis,
 )
@@ -63,8 +67,9 @@ REDUCTION_METHODS = (
 )
 """(step, method, source) of the test reductions (the README's methods table)."""
 
-VERDICT_MARKS = {MEETS: "●", DOES_NOT_MEET: "○", NOT_CONCLUSIVE: "◎"}
-"""The mark beside each verdict: the fill of its marker on the charts."""
+VERDICT_MARKS = {MEETS: "●", DOES_NOT_MEET: "○", NOT_CONCLUSIVE: "◎", NOT_JUDGED: "◍"}
+"""The mark beside each verdict: the fill of its marker on the charts (a half-tone for a
+test not judged)."""
 
 
 def _script_row(script: ChartScript) -> tuple[str, str]:
@@ -169,11 +174,21 @@ def _specimen_rows(analysis: SeriesAnalysis, ku: DisplayUnit, du: DisplayUnit) -
                 number_text(100 * saturation) if pd.notna(saturation) else "–",
                 scientific(row["k"] * ku.factor, html=True),
                 interval,
+                _validity_text(row),
                 f"{VERDICT_MARKS[row['verdict']]} {escape(row['verdict'])}",
                 "yes" if row["in_zone"] else "no",
             )
         )
     return rows
+
+
+def _validity_text(row) -> str:
+    """The validity of a specimen's test, for the specimens table."""
+    if bool(row["valid"]):
+        return "yes"
+    if row["kept_on_record"]:
+        return "no, kept on record"
+    return "no"
 
 
 def _verdict_rule(analysis: SeriesAnalysis, label: str) -> str:
@@ -189,7 +204,10 @@ def _verdict_rule(analysis: SeriesAnalysis, label: str) -> str:
         f"{VERDICT_MARKS[MEETS]} meets where the {meets} of the {interval} is {meets_how} "
         f"the criterion; {VERDICT_MARKS[DOES_NOT_MEET]} does not meet where its {fails} is "
         f"{fails_how} it; {VERDICT_MARKS[NOT_CONCLUSIVE]} not conclusive where the interval "
-        "straddles it."
+        f"straddles it. Validity comes first: {VERDICT_MARKS[NOT_JUDGED]} a test that failed a "
+        "validity check is not judged (neither meets nor does not meet), and is not used to "
+        "draw the acceptable zone or to fit the trends, unless the engineer keeps it on "
+        "record with a reason (listed under Revisions and tests kept on record)."
     )
 
 
@@ -251,6 +269,42 @@ def _checks(tables) -> str:
     return table_markup(["specimen", "test", "check or note"], rows)
 
 
+def _on_record(tables) -> str:
+    """Every revision of the data and every test kept on record, as the logs hold them."""
+    revisions = tables.get("revisions")
+    if revisions is None or revisions.empty:
+        parts = ["<p>No revision on record: the data are the files as written.</p>"]
+    else:
+        status = revisions["status"]
+        standing = int((status == "in force").sum())
+        withdrawn = int(status.str.startswith("withdrawn by").sum())
+        parts = [
+            f"<p>{standing} revision(s) in force and {withdrawn} withdrawn; every row of the "
+            "revision log, withdrawals included, in its order, with the old and new values "
+            "in the units of the file. The files as written are never changed.</p>",
+            table_markup(
+                ["id", "status", "when", "who", "table", "specimen", "reading row", "value"]
+                + ["old → new", "as typed", "why"],
+                [tuple(escape(str(v)) for v in row) for row in revisions.itertuples(index=False)],
+                nowrap=(0, 2, 8),
+            ),
+        ]
+    kept = tables.get("kept tests")
+    if kept is None or kept.empty:
+        parts.append("<p>No test kept on record despite a failed check.</p>")
+    else:
+        parts += [
+            "<p>Tests kept on record despite a failed check: each one in force is judged "
+            "against the criterion and used in the zone and the fits.</p>",
+            table_markup(
+                ["id", "status", "when", "who", "specimen", "test", "why"],
+                [tuple(escape(str(v)) for v in row) for row in kept.itertuples(index=False)],
+                nowrap=(0, 2),
+            ),
+        ]
+    return "".join(parts)
+
+
 def _grading(analysis: SeriesAnalysis, ku: DisplayUnit) -> str:
     if analysis.grading is None:
         return "<p>No specimen has a d10: no prediction from grading.</p>"
@@ -269,7 +323,10 @@ def _grading(analysis: SeriesAnalysis, ku: DisplayUnit) -> str:
             )
         )
     return (
-        "<p>Predictions, not measurements; each method holds only within its range.</p>"
+        "<p>Predictions, not measurements; each method holds only within its range: "
+        f"Hazen (1892) for {escape(HAZEN_VALIDITY)}; Chapuis (2004) for "
+        f"{escape(CHAPUIS_VALIDITY)}; the Kozeny–Carman ratio for "
+        f"{escape(KOZENY_CARMAN_VALIDITY)}.</p>"
         + table_markup(
             ["specimen", "d10 [mm]", "e", f"Hazen k [{ku.unit}]", f"Chapuis k [{ku.unit}]", "note"],
             rows,
@@ -323,12 +380,13 @@ def report_page(
             "S [%]",
             f"{label} [{ku.unit}]",
             f"{100 * analysis.confidence:g} % interval",
+            "valid",
             "verdict",
             "in acceptable zone",
         ],
         _specimen_rows(analysis, ku, du),
         numeric=(3, 4, 5, 6, 7),
-        nowrap=(0, 2, 8, 9),
+        nowrap=(0, 2, 8, 10),
     )
     figures = []
     for name, chart_title, figure_html in charts:
@@ -374,6 +432,8 @@ def report_page(
             "<h2>Checks and notes</h2>",
             _checks(tables),
             f"<ul>{notes}</ul>" if notes else "",
+            "<h2>Revisions and tests kept on record</h2>",
+            _on_record(tables),
             "<h2>Methods and their sources</h2>",
             methods,
             "<h2>Cautions</h2>",

@@ -1,9 +1,10 @@
-"""The tables of the memo pack: specimens with their verdicts, the fits, and the checks.
+"""The tables of the memo pack: specimens with their verdicts, the fits, the checks, and
+what the engineer changed or kept on record.
 
 Each function returns a new frame whose headers carry their units (``k20 [m/s]``,
-``dry_density [Mg/m3]``, ``water_content [%]``); these are the ``specimens``, ``fits`` and
-``checks`` sheets of ``results.xlsx`` and the tables of the report. The ``tests`` sheet is
-:func:`kitchen.reduction.results.results_table`.
+``dry_density [Mg/m3]``, ``water_content [%]``); these are the ``specimens``, ``fits``,
+``checks``, ``revisions`` and ``kept tests`` sheets of ``results.xlsx`` and the tables of
+the report. The ``tests`` sheet is :func:`kitchen.reduction.results.results_table`.
 """
 
 from __future__ import annotations
@@ -12,9 +13,19 @@ import numpy as np
 import pandas as pd
 
 from kitchen.analysis import SeriesAnalysis
+from kitchen.revisions import history_table
 from kitchen.settings import reference_label
 
-__all__ = ["specimens_table", "fits_table", "checks_table", "FIT_COLUMNS"]
+__all__ = [
+    "specimens_table",
+    "fits_table",
+    "checks_table",
+    "revisions_table",
+    "kept_tests_table",
+    "FIT_COLUMNS",
+    "REVISION_COLUMNS",
+    "KEPT_TEST_COLUMNS",
+]
 
 FIT_COLUMNS = ["fit", "subject", "quantity", "value", "low", "high", "unit", "n", "note"]
 """Columns of :func:`fits_table`; ``low`` and ``high`` bound the interval where there is one."""
@@ -32,7 +43,9 @@ def specimens_table(analysis: SeriesAnalysis) -> pd.DataFrame:
     pandas.DataFrame
         ``specimen``, ``effort``, ``method``, ``water_content [%]``,
         ``dry_density [Mg/m3]``, ``void_ratio``, ``saturation [%]``, ``specific_gravity``,
-        ``d10 [mm]``, ``k20 [m/s]``, ``k20_low [m/s]``, ``k20_high [m/s]``, ``verdict``,
+        ``d10 [mm]``, ``k20 [m/s]``, ``k20_low [m/s]``, ``k20_high [m/s]``, ``valid``,
+        ``kept_on_record`` (the engineer's keep of a test not valid, in words; "" for
+        none), ``verdict`` (not judged where the test is not valid and not kept),
         ``in_acceptable_zone``, ``water_content_from_optimum [%]``, and where a d10 is
         given ``hazen_prediction [m/s]``, ``chapuis_prediction [m/s]`` and
         ``grading_note`` (predictions, not measurements).
@@ -53,6 +66,8 @@ def specimens_table(analysis: SeriesAnalysis) -> pd.DataFrame:
             f"{label} [m/s]": rows["k"],
             f"{label}_low [m/s]": rows["k_low"],
             f"{label}_high [m/s]": rows["k_high"],
+            "valid": rows["valid"].astype(bool),
+            "kept_on_record": rows["kept_on_record"],
             "verdict": rows["verdict"],
             "in_acceptable_zone": rows["in_zone"],
             "water_content_from_optimum [%]": rows["water_content_from_optimum"] * 100.0,
@@ -231,12 +246,12 @@ def fits_table(analysis: SeriesAnalysis) -> pd.DataFrame:
     trend = analysis.void_ratio_trend
     if trend is not None:
         rows += _trend_rows(
-            "log k against void ratio (Tavenas)", "all specimens", trend, "unit e", 1.0
+            "log k against void ratio (Tavenas)", "specimens judged", trend, "unit e", 1.0
         )
         rows.append(
             _row(
                 "log k against void ratio (Tavenas)",
-                "all specimens",
+                "specimens judged",
                 "change index Ck",
                 trend.change_index,
                 "–",
@@ -248,12 +263,16 @@ def fits_table(analysis: SeriesAnalysis) -> pd.DataFrame:
         )
     if analysis.dry_density_trend is not None:
         rows += _trend_rows(
-            "log k against dry density", "all specimens", analysis.dry_density_trend, "Mg/m3", 1e-3
+            "log k against dry density",
+            "specimens judged",
+            analysis.dry_density_trend,
+            "Mg/m3",
+            1e-3,
         )
     if analysis.water_content_trend is not None:
         rows += _trend_rows(
             "log k against w − w_opt",
-            "specimens of efforts with an optimum",
+            "specimens judged, of efforts with an optimum",
             analysis.water_content_trend,
             "% of water content",
             100.0,
@@ -263,7 +282,7 @@ def fits_table(analysis: SeriesAnalysis) -> pd.DataFrame:
         rows.append(
             _row(
                 "geometric mean",
-                "all specimens",
+                "specimens judged",
                 f"geometric mean of {reference_label(analysis.reference_temperature)}",
                 mean.geometric_mean,
                 "m/s",
@@ -276,7 +295,7 @@ def fits_table(analysis: SeriesAnalysis) -> pd.DataFrame:
         rows.append(
             _row(
                 "geometric mean",
-                "all specimens",
+                "specimens judged",
                 "standard deviation of log10 k",
                 mean.log10_standard_deviation,
                 "decades",
@@ -317,3 +336,95 @@ def checks_table(results: pd.DataFrame, analysis: SeriesAnalysis, skipped=()) ->
     for note in list(analysis.notes) + list(skipped):
         rows.append(("(series)", "analysis", str(note)))
     return pd.DataFrame(rows, columns=["specimen", "method", "check"])
+
+
+REVISION_COLUMNS = [
+    "id",
+    "status",
+    "when",
+    "who",
+    "table",
+    "specimen",
+    "reading_row",
+    "value",
+    "old → new",
+    "as typed",
+    "reason",
+]
+"""Columns of :func:`revisions_table`."""
+
+
+def revisions_table(revisions) -> pd.DataFrame:
+    """Every row of a series' revision log: what changed, who, when and why.
+
+    Parameters
+    ----------
+    revisions : sequence of kitchen.revisions.Revision
+        The log's rows, in order (:attr:`kitchen.workspace.Workspace.revisions`).
+
+    Returns
+    -------
+    pandas.DataFrame
+        Columns :data:`REVISION_COLUMNS`, one row per row of the log: ``status`` (in
+        force, withdrawn by…, withdraws…), ``table``, ``specimen``, ``reading_row`` (the
+        reading's row in its file, for a reading), ``value`` (the column revised),
+        ``old → new`` with the units of the file (for a withdrawal: the value withdrawn →
+        the value restored), ``as typed`` (the new value as typed, where its unit differs
+        from the file's) and ``reason``.
+    """
+    rows = []
+    for revision, status in zip(revisions, history_table(revisions)["status"], strict=True):
+        withdrawal = revision.action == "withdraw"
+        new = revision.new_value if withdrawal else revision.applied_value
+        typed = ""
+        if not withdrawal and revision.new_value != revision.applied_value:
+            typed = revision.new_value
+        rows.append(
+            (
+                revision.id,
+                status,
+                revision.when,
+                revision.who,
+                revision.table,
+                revision.specimen,
+                "" if revision.reading_row is None else str(revision.reading_row),
+                revision.field,
+                f"{revision.old_value or '(empty)'} → {new or '(empty)'}",
+                typed,
+                revision.reason,
+            )
+        )
+    return pd.DataFrame(rows, columns=REVISION_COLUMNS)
+
+
+KEPT_TEST_COLUMNS = ["id", "status", "when", "who", "specimen", "test", "reason"]
+"""Columns of :func:`kept_tests_table`."""
+
+
+def kept_tests_table(rows) -> pd.DataFrame:
+    """Every row of a series' kept-tests log: the tests kept on record despite a failed
+    check, and the keeps withdrawn.
+
+    Parameters
+    ----------
+    rows : sequence of kitchen.revisions.KeptTest
+        The log's rows, in order (:attr:`kitchen.workspace.Workspace.kept_tests`).
+
+    Returns
+    -------
+    pandas.DataFrame
+        Columns :data:`KEPT_TEST_COLUMNS`; ``status`` is ``in force``, ``withdrawn by …``
+        or ``withdraws …``.
+    """
+    withdrawn_by = {row.withdraws: row.id for row in rows if row.withdrawal}
+    out = []
+    for row in rows:
+        if row.withdrawal:
+            status = f"withdraws {row.withdraws}"
+        elif row.id in withdrawn_by:
+            status = f"withdrawn by {withdrawn_by[row.id]}"
+        else:
+            status = "in force"
+        test = row.method.replace("_", " ")
+        out.append((row.id, status, row.when, row.who, row.specimen, test, row.reason))
+    return pd.DataFrame(out, columns=KEPT_TEST_COLUMNS)

@@ -66,10 +66,15 @@ def workbook_bytes(sheets: dict[str, pd.DataFrame], notes: pd.DataFrame) -> byte
     return buffer.getvalue()
 
 
-def notes_sheet(provenance: Provenance, criterion_text: str) -> pd.DataFrame:
-    """The workbook's notes sheet: the cautions, the criterion, the settings, the provenance."""
+def notes_sheet(
+    provenance: Provenance, criterion_text: str, counts: dict | None = None
+) -> pd.DataFrame:
+    """The workbook's notes sheet: the cautions, the criterion, the count of each verdict
+    (`counts`, :attr:`kitchen.analysis.SeriesAnalysis.counts`: the tests not judged counted
+    apart), the settings, the provenance."""
     rows = [("caution", text) for text in CAUTIONS]
     rows.append(("criterion", criterion_text))
+    rows += [("verdicts", f"{verdict}: {n}") for verdict, n in (counts or {}).items()]
     rows += [("setting", f"{key} = {value}") for key, value in provenance.settings]
     rows += [("provenance", line) for line in provenance.lines()]
     return pd.DataFrame(rows, columns=["item", "text"])

@@ -351,7 +351,7 @@ class RevisePanel:
         self._redraw()
         lap("charts")
         criterion = parse_criterion(self.criterion.value)
-        self.changed = what_changed(before, self.results, criterion)
+        self.changed = what_changed(before, self.results, criterion, self.workspace.kept)
         label = reference_label(self.settings)
         if self.changed.empty:
             body = "<p>No result moved.</p>"

@@ -1,7 +1,8 @@
 """The panel of the series-chart notebook: conductivity against compaction, for the memo.
 
 The criterion is typed with its unit (``1e-9 m/s``, ``1e-7 cm/s``); every specimen is
-marked as meeting it, not meeting it, or not conclusive, and the charts follow: the
+marked as meeting it, not meeting it, or not conclusive — or, where its test is not valid
+(and not kept on record by the engineer), as not judged — and the charts follow: the
 compaction–conductivity chart (the compaction plane above log k against water content)
 and log k against void ratio and against dry density with their trends. The k and
 density units of the charts can be switched. An export button writes the memo pack.
@@ -45,7 +46,7 @@ CHARTS = (
 
 
 def verdict_table(analysis: SeriesAnalysis, unit: str, label: str) -> pd.DataFrame:
-    """One row per specimen: state, k with its interval, the verdict."""
+    """One row per specimen: state, k with its interval, its validity beside the verdict."""
     rows = analysis.specimens
     factor = K_UNITS[unit].factor
     return pd.DataFrame(
@@ -59,6 +60,10 @@ def verdict_table(analysis: SeriesAnalysis, unit: str, label: str) -> pd.DataFra
             f"{label} [{unit}]": rows["k"] * factor,
             f"low [{unit}]": rows["k_low"] * factor,
             f"high [{unit}]": rows["k_high"] * factor,
+            "valid": [
+                "yes" if ok else ("no, kept on record" if kept else "no")
+                for ok, kept in zip(rows["valid"], rows["kept_on_record"], strict=True)
+            ],
             "verdict": rows["verdict"],
             "in acceptable zone": rows["in_zone"],
         }

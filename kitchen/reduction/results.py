@@ -14,6 +14,7 @@ import pandas as pd
 from kitchen.io import Series
 from kitchen.settings import Settings, reference_label
 from kitchen.specimen import specimen_state
+from kitchen.water import viscosity_range_caution
 
 from .constant_head import constant_head_analysis
 from .constant_head_collections import collection_table
@@ -49,8 +50,17 @@ def _state_checks(row: pd.Series) -> list[str]:
     return checks
 
 
-def result_row(state_row, method, analysis, gradient) -> dict:
-    """One row of the results table, from a specimen's state and one test's analysis."""
+def result_row(state_row, method, analysis, gradient, settings: Settings | None = None) -> dict:
+    """One row of the results table, from a specimen's state and one test's analysis.
+
+    `settings` are those the analysis was made with: where its viscosity formula is used
+    outside the temperatures it holds at (:func:`kitchen.water.viscosity_range_caution`,
+    on the test's mean temperature), the caution joins the row's ``checks``.
+    """
+    settings = settings or Settings()
+    caution = viscosity_range_caution(
+        analysis.temperature, settings.reference_temperature, settings.viscosity
+    )
     row = {column: state_row[column] for column in STATE_COLUMNS}
     row.update(
         method=method,
@@ -61,7 +71,7 @@ def result_row(state_row, method, analysis, gradient) -> dict:
         k_reference=analysis.k_reference,
         k_reference_low=analysis.k_reference_low,
         k_reference_high=analysis.k_reference_high,
-        checks=list(analysis.checks) + _state_checks(state_row),
+        checks=list(analysis.checks) + _state_checks(state_row) + ([caution] if caution else []),
         notes=list(analysis.method_notes),
         verdicts=analysis.verdicts,
         valid=analysis.valid,
@@ -121,7 +131,9 @@ def series_results(
         for specimen in pd.unique(collections["specimen"]):
             analysis = constant_head_analysis(collections, by_id.loc[specimen], settings)
             rows.append(
-                result_row(by_id.loc[specimen], "constant_head", analysis, analysis.gradient_max)
+                result_row(
+                    by_id.loc[specimen], "constant_head", analysis, analysis.gradient_max, settings
+                )
             )
     if not series.falling_head.empty:
         for specimen, readings in series.falling_head.groupby("specimen", sort=False):
@@ -136,7 +148,9 @@ def series_results(
             except ValueError as error:
                 raise ValueError(f"{series.name}, falling-head readings: {error}") from error
             rows.append(
-                result_row(by_id.loc[specimen], "falling_head", analysis, analysis.gradient_start)
+                result_row(
+                    by_id.loc[specimen], "falling_head", analysis, analysis.gradient_start, settings
+                )
             )
     frame = pd.DataFrame(rows)
     order = {specimen: index for index, specimen in enumerate(state["specimen"])}

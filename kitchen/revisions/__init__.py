@@ -9,7 +9,8 @@ later row that names it. The *effective data* are the raw tables as written with
 standing revisions applied in the log's order, between :func:`kitchen.io.read_tables` and
 :func:`kitchen.io.build_series`, so every check of the loader runs again on them. The
 reading windows the engineer chooses for falling-head records are kept the same way, in a
-window log with who, when and why.
+window log with who, when and why; and so are the tests the engineer keeps on record
+despite a failed check, which the series analysis then judges like valid ones.
 
 Modules:
 
@@ -18,6 +19,7 @@ Modules:
 - :mod:`.recording`: :func:`revise` and :func:`withdraw`, checked, then appended in one write.
 - :mod:`.history`: the log as a table and in words, each row with its status.
 - :mod:`.window_log`: reading windows chosen by the engineer, and the windows in force.
+- :mod:`.kept_tests`: tests kept on record despite a failed check, and the keeps in force.
 
 The public face, which other subpackages import from :mod:`kitchen.revisions` and never
 from its modules: :class:`Revision`, :class:`RevisionError`, :data:`LOG_COLUMNS`,
@@ -27,7 +29,10 @@ from its modules: :class:`Revision`, :class:`RevisionError`, :data:`LOG_COLUMNS`
 :func:`history_table` and :func:`format_history`; :class:`WindowChoice`,
 :class:`WindowLogError`, :data:`WINDOW_LOG_COLUMNS`, :func:`windows_path`,
 :func:`read_window_choices`, :func:`window_log_sha256`, :func:`standing_choices`,
-:func:`chosen_windows`, :func:`choose_window` and :func:`clear_window` (the window log).
+:func:`chosen_windows`, :func:`choose_window` and :func:`clear_window` (the window log);
+:class:`KeptTest`, :class:`KeptTestError`, :data:`KEPT_LOG_COLUMNS`, :data:`KEPT_METHODS`,
+:func:`kept_tests_path`, :func:`read_kept_tests`, :func:`kept_log_sha256`,
+:func:`standing_kept`, :func:`keep_test` and :func:`withdraw_kept_test` (the kept-tests log).
 What a revision changed in the results is worked out in :mod:`kitchen.workspace`.
 
 References
@@ -43,6 +48,18 @@ from .effective import (
 from .history import (
     format_history,
     history_table,
+)
+from .kept_tests import (
+    KEPT_LOG_COLUMNS,
+    KEPT_METHODS,
+    KeptTest,
+    KeptTestError,
+    keep_test,
+    kept_log_sha256,
+    kept_tests_path,
+    read_kept_tests,
+    standing_kept,
+    withdraw_kept_test,
 )
 from .log import (
     LOG_COLUMNS,
@@ -81,9 +98,17 @@ __all__ = [
     "format_history",
     "HeldSeries",
     "history_table",
+    "keep_test",
+    "KEPT_LOG_COLUMNS",
+    "kept_log_sha256",
+    "KEPT_METHODS",
+    "kept_tests_path",
+    "KeptTest",
+    "KeptTestError",
     "load_effective_series",
     "LOG_COLUMNS",
     "log_sha256",
+    "read_kept_tests",
     "read_revisions",
     "read_window_choices",
     "revise",
@@ -91,10 +116,12 @@ __all__ = [
     "RevisionError",
     "revisions_path",
     "standing_choices",
+    "standing_kept",
     "WINDOW_LOG_COLUMNS",
     "window_log_sha256",
     "WindowChoice",
     "WindowLogError",
     "windows_path",
     "withdraw",
+    "withdraw_kept_test",
 ]

@@ -9,7 +9,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from kitchen.analysis import classify_against_criterion
+from kitchen.analysis import NOT_JUDGED, classify_against_criterion
 from kitchen.revisions import RevisionError, read_revisions, revisions_path
 
 from .workspace import Workspace
@@ -22,7 +22,9 @@ _NUMBERS = ("dry_density", "void_ratio", "k_reference")
 _RELATIVE = 1e-12
 
 
-def _verdicts(results: pd.DataFrame, criterion) -> np.ndarray:
+def _verdicts(results: pd.DataFrame, criterion, kept) -> np.ndarray:
+    """Each row's verdict, as the series analysis gives it: not judged where the test is not
+    valid and not kept on record (:mod:`kitchen.analysis.result_selection`)."""
     out = np.full(len(results), pd.NA, dtype=object)
     if criterion is None:
         return out
@@ -36,6 +38,10 @@ def _verdicts(results: pd.DataFrame, criterion) -> np.ndarray:
     out[~usable] = "no result"
     if usable.any():
         out[usable] = classify_against_criterion(k[usable], low[usable], high[usable], criterion)
+    pairs = zip(results["specimen"], results["method"], strict=True)
+    on_record = np.array([pair in kept for pair in pairs], dtype=bool)
+    valid = results["valid"].fillna(False).to_numpy(dtype=bool)
+    out[usable & ~valid & ~on_record] = NOT_JUDGED
     return out
 
 
@@ -53,7 +59,7 @@ def _moved(old: np.ndarray, new: np.ndarray, number: bool) -> np.ndarray:
 
 
 def what_changed(
-    before: pd.DataFrame, after: pd.DataFrame, criterion: float | None = None
+    before: pd.DataFrame, after: pd.DataFrame, criterion: float | None = None, kept=None
 ) -> pd.DataFrame:
     """Every specimen whose results moved, old and new side by side.
 
@@ -66,7 +72,11 @@ def what_changed(
     criterion : float or Criterion, optional
         Largest conductivity allowed (a number), or a :class:`kitchen.analysis.Criterion` of
         either kind; when given, each side's verdict from
-        :func:`kitchen.analysis.classify_against_criterion`. [m/s]
+        :func:`kitchen.analysis.classify_against_criterion`, or not judged where the test
+        is not valid and not kept on record. [m/s]
+    kept : collection of (str, str), optional
+        The tests kept on record despite a failed check, ``(specimen, method)``
+        (:attr:`Workspace.kept`).
 
     Returns
     -------
@@ -94,7 +104,7 @@ def what_changed(
     sides = []
     for frame in (before, after):
         values = {q: frame[q].to_numpy(dtype=object) for q in _COMPARED}
-        values["verdict"] = _verdicts(frame, criterion)
+        values["verdict"] = _verdicts(frame, criterion, kept or {})
         keys = list(zip(frame["specimen"], frame["method"], strict=True))
         sides.append((dict(zip(keys, range(len(keys)), strict=True)), values))
     (old_at, old), (new_at, new) = sides
@@ -154,5 +164,5 @@ def revision_effect(
         raise RevisionError(f"no revision {revision_id!r} in {revisions_path(series_path)}")
     position = ids.index(wanted)
     before = Workspace(series_path, settings, log_rows=position).results()
-    after = Workspace(series_path, settings, log_rows=position + 1).results()
-    return what_changed(before, after, criterion)
+    after = Workspace(series_path, settings, log_rows=position + 1)
+    return what_changed(before, after.results(), criterion, after.kept)

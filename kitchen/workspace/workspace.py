@@ -46,15 +46,18 @@ from kitchen.reduction import result_row as results_row
 from kitchen.revisions import (
     EffectiveSeries,
     HeldSeries,
+    KeptTest,
     Revision,
     apply_revisions,
     chosen_windows,
     file_stamps,
     log_sha256,
+    read_kept_tests,
     read_revisions,
     read_window_choices,
     revise,
     revisions_path,
+    standing_kept,
     withdraw,
 )
 from kitchen.settings import Settings
@@ -98,6 +101,8 @@ class Workspace:
         When the effective data do not load (every problem, by file, row and column).
     RevisionError
         When the log cannot be read or a revision no longer fits the raw data.
+    KeptTestError
+        When the log of tests kept on record cannot be read (naming its row and column).
 
     Notes
     -----
@@ -139,6 +144,7 @@ class Workspace:
         self._index_readings(READING_TABLES)
         self._index_specimens()
         self._window_choices: tuple = ()
+        self._kept_tests: tuple[KeptTest, ...] = read_kept_tests(self.path)
         self._logged_windows: dict[str, tuple[int, int]] = {}
         self._apply_choices(self._read_choices())
         self.last_moved: tuple[str, ...] = ()
@@ -268,11 +274,12 @@ class Workspace:
 
         Raises
         ------
-        SeriesError, RevisionError
+        SeriesError, RevisionError, KeptTestError
             As when the workspace is opened; the workspace is then left as it was.
         """
         revisions = self._read_log()
         held = self._revisions
+        self._kept_tests = read_kept_tests(self.path)  # judges no test again: no one moves
         try:
             rewritten = file_stamps(self._input_files) != self._stamps
         except OSError:
@@ -506,7 +513,8 @@ class Workspace:
             gradient = analysis.gradient_max
         held = self._result_rows.get((specimen, table))
         if held is None or held[0] is not analysis or held[1] is not state_row:
-            held = (analysis, state_row, results_row(state_row, table, analysis, gradient))
+            row = results_row(state_row, table, analysis, gradient, self._settings)
+            held = (analysis, state_row, row)
             self._result_rows[specimen, table] = held
         # lists copied: a caller may change its table without changing the one kept here
         return {k: list(v) if isinstance(v, list) else v for k, v in held[2].items()}
@@ -557,8 +565,25 @@ class Workspace:
             Confidence of the fitted lines' intervals.
         """
         return analyse_series(
-            self.results(), criterion, self._settings.reference_temperature, confidence
+            self.results(),
+            criterion,
+            self._settings.reference_temperature,
+            confidence,
+            kept=self.kept,
         )
+
+    @property
+    def kept_tests(self) -> tuple[KeptTest, ...]:
+        """Every row of the kept-tests log (:mod:`kitchen.revisions.kept_tests`), as last
+        read (when the workspace was opened, and at each :meth:`sync`)."""
+        return self._kept_tests
+
+    @property
+    def kept(self) -> dict[tuple[str, str], str]:
+        """The tests kept on record despite a failed check, in force: ``{(specimen,
+        method): the keep in words (id, who, when, why)}``, as :meth:`analysis` judges
+        them."""
+        return {pair: row.record for pair, row in standing_kept(self._kept_tests).items()}
 
     @property
     def project_settings(self) -> dict:

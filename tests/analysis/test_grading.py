@@ -116,3 +116,13 @@ def test_grading_predictions_table():
 def test_grading_predictions_bad_table(change, message):
     with pytest.raises(ValueError, match=message):
         grading.grading_predictions(change(_grading_table()))
+
+
+def test_every_prediction_names_the_range_it_holds_in():
+    # Hazen 0.1-3 mm (Das, Carrier 2003; from memory), Chapuis 0.13-1.98 mm and e 0.4-1.5
+    # (Chapuis 2004, from memory): the words carried by each prediction quote those ranges
+    assert grading.hazen_conductivity(0.2e-3).validity == grading.HAZEN_VALIDITY
+    assert "0.1 mm ≤ d10 ≤ 3 mm" in grading.HAZEN_VALIDITY
+    assert grading.chapuis_conductivity(0.2e-3, 0.7).validity == grading.CHAPUIS_VALIDITY
+    assert "0.13 mm ≤ d10 ≤ 1.98 mm, 0.4 ≤ e ≤ 1.5" in grading.CHAPUIS_VALIDITY
+    assert "not for clays" in grading.KOZENY_CARMAN_VALIDITY

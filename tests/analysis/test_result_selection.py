@@ -4,7 +4,7 @@ import numpy as np
 import pandas as pd
 from analysis_results import results_frame
 
-from kitchen.analysis import analyse_series
+from kitchen.analysis import MEETS, NOT_JUDGED, analyse_series
 from kitchen.analysis.result_selection import median_specific_gravity
 
 
@@ -65,3 +65,24 @@ def test_specific_gravity_is_the_median_and_a_spread_is_noted():
     none = []
     assert median_specific_gravity(pd.DataFrame({"specific_gravity": [np.nan]}), none) is None
     assert none == []
+
+
+def test_a_test_kept_on_record_comes_before_one_that_is_not():
+    # the rule: the first valid result; else the first kept on record; else the first
+    rows = [
+        dict(specimen="S1", method=m, water_content=0.2, dry_density=1700, k_reference=k)
+        for m, k in (("constant_head", 1e-8), ("falling_head", 1e-10))
+    ]
+    frame = results_frame(rows)
+    frame["valid"] = [False, False]
+    first = analyse_series(frame, 1e-9)
+    assert first.specimens.loc[0, "method"] == "constant_head"
+    assert first.specimens.loc[0, "verdict"] == NOT_JUDGED
+    kept = analyse_series(frame, 1e-9, kept={("S1", "falling_head"): "kept by A. B.: reason"})
+    assert kept.specimens.loc[0, "method"] == "falling_head"
+    assert kept.specimens.loc[0, "kept_on_record"] == "kept by A. B.: reason"
+    assert kept.specimens.loc[0, "verdict"] == MEETS
+    frame["valid"] = [True, False]
+    valid = analyse_series(frame, 1e-9, kept={("S1", "falling_head"): "kept: reason"})
+    assert valid.specimens.loc[0, "method"] == "constant_head"
+    assert valid.specimens.loc[0, "kept_on_record"] == ""  # valid: nothing to keep

@@ -76,3 +76,33 @@ def test_compaction_chart_unit_switch(clay):
 def test_compaction_chart_needs_water_contents(sand):
     with pytest.raises(ValueError, match="no specimen has a molding water content"):
         compaction_chart.compaction_conductivity_figure(sand[1])
+
+
+def test_compaction_chart_draws_both_zones_told_apart(clay):
+    analysis = clay[1]
+    fitted = analysis.fitted_zone
+    drawn_parts = [part for part in fitted.zones if part.region.size]
+    assert drawn_parts and fitted.next_specimen is not None
+    figure = compaction_chart.compaction_conductivity_figure(analysis)
+    drawn = next(t for t in figure.data if t.legendgroup == "zone")
+    group = [t for t in figure.data if t.legendgroup == "fitted zone"]
+    regions = [t for t in group if t.name.startswith("fitted zone")]
+    assert len(regions) == len(drawn_parts)
+    for trace, part in zip(regions, drawn_parts, strict=True):
+        assert f"({part.effort})" in trace.name
+        np.testing.assert_allclose(np.asarray(trace.x)[:-1] / 100, part.region[:, 0])
+        np.testing.assert_allclose(np.asarray(trace.y)[:-1] * 1000, part.region[:, 1])
+    lines = [t for t in group if t.name.endswith("prediction = criterion")]
+    crossing = [part for part in fitted.zones if part.criterion_line is not None]
+    assert len(lines) == len(crossing) >= 1
+    for trace, part in zip(lines, crossing, strict=True):
+        np.testing.assert_allclose(np.asarray(trace.x) / 100, part.criterion_line[:, 0])
+    spot = next(t for t in group if t.mode == "markers")
+    assert spot.x[0] == pytest.approx(100 * fitted.next_specimen.water_content)
+    # told apart in the legend and without colour: names, fill patterns and edges
+    assert drawn.name.startswith("drawn zone") and "no other inside" in drawn.name
+    region = regions[0]
+    assert "upper 95 % prediction bound meets the criterion" in region.name
+    assert "tool's own" in region.legendgrouptitle.text
+    assert drawn.fillpattern.shape == "/" and region.fillpattern.shape == "."
+    assert drawn.line.color != region.line.color

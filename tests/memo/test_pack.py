@@ -21,14 +21,16 @@ from urllib.parse import urlsplit
 import pandas as pd
 import pytest
 from cli_runner import run_cli
+from html_cells import TableCells
 from openpyxl import load_workbook
 from plotly.offline import get_plotlyjs, get_plotlyjs_version
 
 from kitchen import __version__
+from kitchen.analysis import MEETS, NOT_JUDGED
 from kitchen.cautions import CAUTIONS
 from kitchen.memo import CHART_SCRIPT, export_memo_pack
 from kitchen.reduction import results_table, series_results
-from kitchen.revisions import load_effective_series, revise
+from kitchen.revisions import keep_test, load_effective_series, revise, withdraw
 from kitchen.settings import Settings
 from kitchen.workspace import Workspace
 
@@ -40,9 +42,18 @@ needs_chromium = pytest.mark.skipif(
     "chromium; CI installs it and runs these tests",
 )
 PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"  # PNG specification (ISO/IEC 15948), section 5.2
-SHEETS = ["specimens", "tests", "fits", "checks", "cautions"]
+# the revision log and the tests kept on record are listed, each on a sheet of its own
+SHEETS = ["specimens", "tests", "fits", "checks", "revisions", "kept tests", "cautions"]
 PLOTLY_JS = get_plotlyjs().encode("utf-8")  # plotly's own bundled plotly.min.js
 SCRIPT_SOURCE = re.compile(r"<script\b[^>]*\bsrc=\"([^\"]*)\"")
+
+
+def table_rows(markup: str, width: int) -> list[list[str]]:
+    """The data cells of an HTML table, row by row, read back by html.parser."""
+    parser = TableCells()
+    parser.feed(markup)
+    cells = [text for tag, _, text in parser.cells if tag == "td"]
+    return [cells[i : i + width] for i in range(0, len(cells), width)]
 
 
 def sha256(path: Path) -> str:
@@ -193,6 +204,71 @@ def test_revisions_are_counted_and_their_log_hashed(tmp_path):
     for path in effective.series.input_files:  # the raw files, untouched by the revision
         assert sha256(path) == sha256(SAMPLES / "clay_liner" / path.name)
         assert sha256(path) in page
+
+
+def test_the_validity_stands_beside_the_verdict_in_the_workbook_and_the_report(clay_pack):
+    # QF-04 fails its trend check (its k drifts by design, sample_data/README.md): it is
+    # never "meets", and both the specimens sheet and the report's table say why
+    _, pack, _ = clay_pack
+    sheet = pd.read_excel(pack.folder / "results.xlsx", sheet_name="specimens")
+    columns = list(sheet.columns)
+    assert columns.index("valid") + 2 == columns.index("verdict")  # kept_on_record between
+    row = sheet.set_index("specimen").loc["QF-04"]
+    assert not row["valid"] and row["verdict"] == NOT_JUDGED
+    assert (sheet["verdict"] == NOT_JUDGED).sum() == 1 and (sheet["verdict"] == MEETS).sum() == 7
+    page = (pack.folder / "report.html").read_text()
+    specimens = page.split("<h2>Specimens</h2>", 1)[1].split("</table>", 1)[0]
+    assert "<th>valid</th><th>verdict</th>" in specimens
+    cells = specimens.split(">QF-04<", 1)[1].split("</tr>", 1)[0]
+    assert ">no<" in cells and f"◍ {html.escape(NOT_JUDGED)}" in cells and "meets" not in cells
+    assert f"◍ {html.escape(NOT_JUDGED)}: 1" in page  # counted apart in the summary
+    notes = pd.read_excel(pack.folder / "results.xlsx", sheet_name="cautions")
+    counts = notes.loc[notes["item"] == "verdicts", "text"].tolist()
+    assert counts == [f"{MEETS}: 7", "does not meet: 6", "not conclusive: 0", f"{NOT_JUDGED}: 1"]
+
+
+def test_every_revision_withdrawal_and_kept_test_is_listed(tmp_path):
+    folder = tmp_path / "clay"
+    shutil.copytree(SAMPLES / "clay_liner", folder)
+    when = "2025-05-02T14:30:00+02:00"
+    first = revise(folder, specimen="QF-02", field="height", value="116.38 mm",
+                   reason="re-measured after extrusion", who="A. Tester", when=when)  # fmt: skip
+    second = revise(folder, specimen="QF-03", field="height", value="4.58 in",
+                    reason="caliper slipped", who="B. Checker", when=when)  # fmt: skip
+    back = withdraw(folder, second.id, reason="the first reading was right", who="C. Lead")
+    kept = keep_test(folder, "QF-04", "falling_head", reason="drift within the series scatter",
+                     who="C. Lead", when=when, series=Workspace(folder).series)  # fmt: skip
+    export_memo_pack(Workspace(folder), tmp_path / "out", images=False)
+    page = (tmp_path / "out" / "report.html").read_text()
+    listed = page.split("<h2>Revisions and tests kept on record</h2>", 1)[1].split("<h2>")[0]
+    revisions_html, kept_html = listed.split("</table>")[:2]
+    assert table_rows(revisions_html, 11) == [
+        [first.id, "in force", when, "A. Tester", "specimens", "QF-02", "", "height",
+         "116.41 mm → 116.38 mm", "", "re-measured after extrusion"],
+        [second.id, f"withdrawn by {back.id}", when, "B. Checker", "specimens", "QF-03", "",
+         "height", "116.14 mm → 116.332 mm", "4.58 in", "caliper slipped"],
+        [back.id, f"withdraws {second.id}", back.when, "C. Lead", "specimens", "QF-03", "",
+         "height", "116.332 mm → 116.14 mm", "", "the first reading was right"],
+    ]  # fmt: skip
+    assert table_rows(kept_html, 7) == [
+        [kept.id, "in force", when, "C. Lead", "QF-04", "falling head", kept.reason]
+    ]
+    assert "1 revision(s) in force and 1 withdrawn" in listed
+    book = load_workbook(tmp_path / "out" / "results.xlsx")
+    rows = list(book["revisions"].iter_rows(min_row=2, values_only=True))
+    assert [r[:2] for r in rows] == [
+        (first.id, "in force"),
+        (second.id, f"withdrawn by {back.id}"),
+        (back.id, f"withdraws {second.id}"),
+    ]
+    assert [r[-1] for r in rows] == [first.reason, second.reason, back.reason]
+    assert list(book["kept tests"].iter_rows(min_row=2, values_only=True)) == [
+        (kept.id, "in force", when, "C. Lead", "QF-04", "falling head", kept.reason)
+    ]
+    # kept on record, QF-04 is judged again: its k meets the criterion
+    sheet = pd.read_excel(tmp_path / "out" / "results.xlsx", sheet_name="specimens")
+    row = sheet.set_index("specimen").loc["QF-04"]
+    assert not row["valid"] and row["verdict"] == MEETS and kept.id in row["kept_on_record"]
 
 
 # --- with chromium: the command line writes PNG and SVG ------------------------------------

@@ -7,7 +7,12 @@ from pathlib import Path
 import pandas as pd
 import pytest
 
-from kitchen.analysis import analyse_series
+from kitchen.analysis import (
+    CHAPUIS_VALIDITY,
+    HAZEN_VALIDITY,
+    KOZENY_CARMAN_VALIDITY,
+    analyse_series,
+)
 from kitchen.display_units import density_unit, k_unit
 from kitchen.io import load_series
 from kitchen.memo import (
@@ -135,3 +140,18 @@ def test_report_shows_the_dry_density_in_the_unit_chosen(clay):
     rho = analysis.specimens["dry_density"].iloc[2] * density_unit("lb/ft3").factor
     assert f"{rho:.4g}" in page
     assert isinstance(pd.Timestamp(provenance.created), pd.Timestamp)
+
+
+def test_report_names_the_range_each_prediction_holds_in():
+    series = load_series(SAMPLES / "drainage_sand")
+    analysis = analyse_series(series_results(series), 1e-9)
+    results = series_results(series)
+    tables = {"fits": fits_table(analysis), "checks": checks_table(results, analysis)}
+    provenance = memo_provenance(series.input_files, series.name, series.source, {})
+    page = report_page(
+        analysis, tables, [], INLINED, provenance, CAUTIONS, k_unit(), density_unit(), "c"
+    )
+    grading = page.split("<h2>Predictions from grading</h2>", 1)[1].split("<h2>", 1)[0]
+    for words in (HAZEN_VALIDITY, CHAPUIS_VALIDITY, KOZENY_CARMAN_VALIDITY):
+        assert html.escape(words) in grading
+    assert "No revision on record" in page and "No test kept on record" in page

@@ -5,10 +5,12 @@ from pathlib import Path
 
 import numpy as np
 import pytest
+from series_files import FALLING, write_series
 
 from kitchen.io import load_series
 from kitchen.reduction import results_table, series_results
 from kitchen.settings import Settings, reference_label
+from kitchen.workspace import Workspace
 
 SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
@@ -209,3 +211,23 @@ def test_exported_checks_and_notes(clay):
     assert "window proposed by the tool" in good["notes"]
     bad = table[table["specimen"] == "QF-04"].iloc[0]
     assert bad["checks"].startswith("no significant trend")
+
+
+def test_the_d5084_option_says_where_it_leaves_its_range(tmp_path):
+    # A1 is tested cold (5 degC), A2 at 19 degC: with the D5084 R_T equation only A1's row
+    # carries the caution (the equation departs from IAPWS 2008 by +6 % at 5 degC, measured
+    # in tests/test_water.py against the `iapws` package); the default viscosity says nothing
+    cold = FALLING.replace(",20\n", ",5\n").replace(",20.5\n", ",5\n").replace(",21\n", ",5\n")
+    series = load_series(write_series(tmp_path / "cold", falling_head=cold))
+    d5084 = Settings(viscosity="d5084")
+    results = series_results(series, d5084).set_index("specimen")
+    [caution] = [c for c in results.loc["A1", "checks"] if c.startswith("viscosity:")]
+    assert "is used at 5.0 °C (the test temperature), outside 14–34 °C" in caution
+    assert "departs from IAPWS 2008 by +6.1 %" in caution
+    assert not any(c.startswith("viscosity:") for c in results.loc["A2", "checks"])
+    plain = series_results(series).set_index("specimen")
+    assert results.loc["A1", "valid"] == plain.loc["A1", "valid"]  # a caution, not a failure
+    assert not any(c.startswith("viscosity:") for c in plain.loc["A1", "checks"])
+    workspace = Workspace(series.source, d5084).results().set_index("specimen")
+    assert caution in workspace.loc["A1", "checks"]  # the one way in says the same
+    assert caution in results_table(results.reset_index(), d5084).loc[0, "checks"]

@@ -69,6 +69,19 @@ def test_what_changed_without_a_criterion_and_with_missing_k():
     )
 
 
+def test_what_changed_gives_a_test_not_valid_no_verdict_unless_kept():
+    # the verdicts of the revise summary follow the series analysis: validity comes first
+    before = _results([5e-10, 2e-9, 3e-9], valid=(True, True, True))
+    after = _results([5e-10, 2e-9, 3e-9], valid=(False, True, True))
+    moved = what_changed(before, after, criterion=1e-9)
+    assert (moved.loc[0, "verdict_before"], moved.loc[0, "verdict_after"]) == (
+        "meets",
+        "not judged (test not valid)",
+    )
+    kept = what_changed(before, after, criterion=1e-9, kept={("S1", "falling_head")})
+    assert kept.loc[0, "moved"] == "valid" and kept.loc[0, "verdict_after"] == "meets"
+
+
 def test_what_changed_names_missing_columns():
     with pytest.raises(ValueError, match="after: results table lacks the columns valid"):
         what_changed(_results([1e-9] * 3), _results([1e-9] * 3).drop(columns="valid"))
