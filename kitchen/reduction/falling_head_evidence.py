@@ -5,9 +5,11 @@
 chart needs. The functions here form parts of that evidence, most from a prepared
 :class:`~kitchen.reduction.falling_head_record.FallingHeadRecord` (their first argument): the k
 values the steady-values criterion judges (:func:`last_k_values`), the interval of k
-(:func:`window_interval`), and the curvature diagnosis in plain words
-(:func:`curvature_diagnosis`). :mod:`kitchen.reduction.falling_head_record` puts them
-together with the outflow/inflow verdict.
+(:func:`window_interval`), the curvature diagnosis in plain words
+(:func:`curvature_diagnosis`), and what the full record shows when a proposed window leaves
+readings out (:func:`full_record_evidence`, the ``full_record`` criterion).
+:mod:`kitchen.reduction.falling_head_record` puts them together with the outflow/inflow
+verdict.
 
 References
 ----------
@@ -23,17 +25,23 @@ from functools import cached_property
 
 import numpy as np
 
-from kitchen.fits import CurvatureTest, DecayFit, LinearFit, RunsTest
+from kitchen.fits import (
+    CurvatureTest,
+    DecayFit,
+    LinearFit,
+    RunsTest,
+    curvature_test,
+    fit_exponential_decay,
+)
 from kitchen.uncertainty import (
     InputQuantity,
     UncertaintyResult,
     conductivity_interval,
     rectangular_quantity,
-    resolution_uncertainty,
 )
-from kitchen.validity import Verdict, is_valid
+from kitchen.validity import Verdict, is_valid, percent_text
 
-from .falling_head_formulas import spaced_conductivity
+from .falling_head_formulas import span_conductivity
 
 __all__ = ["FallingHeadAnalysis"]
 
@@ -51,7 +59,9 @@ class FallingHeadAnalysis:
     ``line`` is the straight line of ln(corrected head) on reference time over the window
     (the fit itself for ``fit_kind == "log_linear"``; a diagnostic for ``"datum"``);
     ``decay`` the datum-fitted decay (None for the log-linear fit). ``asymptote`` is h∞
-    (0 for the log-linear fit). ``verdicts`` hold every criterion; ``notes`` qualify the
+    (0 for the log-linear fit). ``verdicts`` hold every criterion (with ``full_record``
+    where a proposed window leaves readings out: whether it hides a fault of the whole
+    record, :func:`full_record_evidence`); ``notes`` qualify the
     data and the fit, ``diagnosis`` is the plain-words curvature warning ("" when the
     curvature tests pass), and both go into ``checks``; ``method_notes`` say how k was
     obtained (window, fit, capillary rise).
@@ -149,54 +159,135 @@ class LastKValues:
     words: str
 
 
-def last_k_values(record, start, stop, heads, log_head) -> LastKValues:
-    """The k values judged by the steady-values criterion, and words on their spacing.
+def last_k_values(record, start, stop, heads, log_head, head_scatter, slope) -> LastKValues:
+    """The k values judged by the steady-values criterion, and words on how they are formed.
 
-    Each value spans enough reading intervals that the head falls by at least
-    ``sqrt(2)·u/p`` over it, u the standard uncertainty of one head-scale reading and p
-    ``criteria.value_precision``: the fall, a difference of two readings, is then known to p
-    of itself (the tool's own rule). The values are k between readings that far apart
-    (:func:`~kitchen.reduction.falling_head_formulas.spaced_conductivity`).
+    Parameters
+    ----------
+    record : FallingHeadRecord
+        The prepared record (reference time, reading times, scale a·L/A, settings).
+    start, stop : int
+        The window: readings ``start`` to ``stop - 1``. [-]
+    heads, log_head : numpy.ndarray
+        The heads the fit uses (less the capillary rise, and less h∞ for the datum-fitted
+        decay) at every reading of the record, and their logarithm. [m], [-]
+    head_scatter : float
+        Standard deviation of the readings' heads about the window's fit, as observed
+        (NaN when the window has too few readings to show it). [m]
+    slope : float
+        Slope of ln h on the reference time over the window. [1/s]
+
+    Returns
+    -------
+    LastKValues
+        The last ``criteria.steady_count`` values, oldest first, each spanning ``step``
+        reading intervals.
+
+    Notes
+    -----
+    Each value is the least-squares k of one span of readings
+    (:func:`~kitchen.reduction.falling_head_formulas.span_conductivity`), the spans counted
+    back from the window's last reading and sharing their boundary readings. A span is made
+    just long enough that the scatter of its k, s/(h·√Sττ·|b|) with s the observed head
+    scatter about the fit, h the head at the span's end, Sττ the spread of the span's
+    reference times and b the window's slope, is at most ``criteria.value_precision`` of k
+    (5 % by default, a fifth of the ±25 % band, so that noise alone almost never moves a
+    value out of it); the spans are never longer than a quarter of the window.
+
+    ASTM D5084 forms each of the four k values from two readings, as a manual test reads
+    them; it gives no rule for a logger's record, in which two single readings close in
+    time differ by little more than their own scatter and a value between them can be far
+    off, or negative, on a perfectly steady test. The spans and the least-squares fit over
+    every reading of a span are the tool's own construction; with readings far apart
+    beside their scatter the spans shrink to two readings and the values are the
+    standard's.
 
     References
     ----------
     ASTM D5084, termination criteria: the last k values steady (from memory for the clause).
-    JCGM 100:2008 (GUM) 4.3.7 and F.2.2.1 for u
-    (:func:`kitchen.uncertainty.resolution_uncertainty`; from memory for the clauses).
+    Draper & Smith, *Applied Regression Analysis*, 3rd ed., ch. 1: the standard error of a
+    least-squares slope, s/√Sxx (from memory).
     """
-    criteria, resolutions = record.settings.criteria, record.settings.resolutions
+    criteria = record.settings.criteria
     count = criteria.steady_count
+    precision = criteria.value_precision
     n = stop - start
-    needed = math.sqrt(2.0) * resolution_uncertainty(resolutions.head_scale)
-    needed /= criteria.value_precision
     cap = max((n - 1) // count, 1)
-    step, words = 1, "between successive readings"
-    if needed > 0:
-        back = heads[stop - 2 :: -1]  # a view: readings back from the last one
-        length = 16
-        while True:  # look only as far back as needed
-            falls = back[: min(length, cap)] - heads[stop - 1]
-            reach = np.flatnonzero(falls >= needed)
-            if reach.size or length >= cap:
-                break
-            length *= 16
-        step = int(reach[0]) + 1 if reach.size else cap
-        if step > 1:
-            words = (
-                f"each over {step} reading intervals, for a head fall of at least "
-                f"{needed * 1e3:.1f} mm against the {resolutions.head_scale * 1e3:g} mm "
-                "head scale"
-            )
-        if not reach.size and n - 1 >= count:
+    step, worst = cap, math.nan
+    tau = record.reference_time
+    if n - 1 >= count and math.isfinite(head_scatter) and slope < 0:
+        step, worst = _shortest_span(
+            tau, heads, start, stop, count, head_scatter, -slope, precision
+        )
+    fit = f"a least-squares fit over {step + 1} readings"
+    if step == 1:
+        fit = "two successive readings"
+    if math.isfinite(worst):
+        words = (
+            f"each from {fit}: with the readings' scatter of {head_scatter * 1e3:.2g} mm about "
+            f"the fit, at most {percent_text(max(worst, 0.0))} standard uncertainty in each"
+        )
+        if worst > precision:
             words += (
-                f"; the last value's head fall, {falls[step - 1] * 1e3:.1f} mm, is less than "
-                f"the {needed * 1e3:.1f} mm the head-scale resolution calls for"
+                f", more than the {percent_text(precision)} aimed at: the readings used allow no "
+                "longer spans"
             )
+    else:
+        words = f"each from {fit}"
     sl = slice(start, stop)
-    time, k = spaced_conductivity(
-        record.time[sl], record.reference_time[sl], log_head[sl], record.scale, step, count
-    )
+    time, k = span_conductivity(record.time[sl], tau[sl], log_head[sl], record.scale, step, count)
     return LastKValues(time, k, step, words)
+
+
+def _shortest_span(tau, heads, start, stop, count, head_scatter, rate, precision):
+    """The fewest reading intervals per span that bring every span's k within `precision`.
+
+    Returns the step and the largest relative standard uncertainty of the spans' k at it
+    (see :func:`last_k_values`). Sums of the reference time and its square are taken back
+    from the last reading over a tail of the readings: about twice as long as equally
+    spaced readings would need (from Sττ = Δτ²·m(m² − 1)/12 for m readings Δτ apart), grown
+    eightfold where the spacing calls for more, so that a long record is not read through
+    when short spans suffice; a bisection on the step then finds the shortest span.
+    """
+    n = stop - start
+    spacing = (tau[stop - 1] - tau[start]) / (n - 1)
+    # m³/12 ≥ (s/(h·|b|·p·Δτ))² for equally spaced readings; h the smallest head, the last
+    needed = head_scatter / (heads[stop - 1] * rate * precision * spacing)
+    guess = 2.0 * count * (12.0 * needed * needed) ** (1.0 / 3.0) + 64.0 * count
+    length = int(min(n, guess)) if math.isfinite(guess) else n
+    while True:
+        back = tau[stop - length : stop][::-1] - tau[stop - 1]  # 0 at the last reading
+        first = np.concatenate(([0.0], np.cumsum(back)))
+        second = np.concatenate(([0.0], np.cumsum(back * back)))
+        ends_head = heads[stop - length : stop][::-1]
+        top = (length - 1) // count
+
+        def uncertainty(step, first=first, second=second, ends_head=ends_head):
+            worst, m = 0.0, step + 1
+            for near in range(0, count * step, step):  # each span's end, back from the last
+                far = near + step
+                total = first[far + 1] - first[near]
+                spread = second[far + 1] - second[near] - total * total / m
+                if not (spread > 0 and ends_head[near] > 0):
+                    return math.inf
+                worst = max(worst, head_scatter / (ends_head[near] * math.sqrt(spread) * rate))
+            return worst
+
+        if top >= 1 and (uncertainty(top) <= precision or length == n):
+            break
+        if length == n:  # fewer readings than one reading interval per value
+            return 1, math.nan
+        length = min(n, length * 8)
+    low, high = 0, top  # uncertainty(high) <= precision unless high is the cap
+    if uncertainty(high) > precision:
+        return high, uncertainty(high)
+    while high - low > 1:
+        middle = (low + high) // 2
+        if uncertainty(middle) <= precision:
+            high = middle
+        else:
+            low = middle
+    return high, uncertainty(high)
 
 
 def window_interval(record, k_reference, fitted, start, stop, temperature) -> UncertaintyResult:
@@ -271,3 +362,147 @@ def curvature_diagnosis(runs: RunsTest | None, curvature: CurvatureTest | None, 
         "in the specimen, leakage, swelling or a wrong tailwater datum are the usual causes: "
         "look at the chart, try a later window or the datum-fitted decay"
     )
+
+
+@dataclass(frozen=True)
+class FullRecordEvidence:
+    """What every reading of a record shows when a proposed window leaves some out.
+
+    ``verdict`` is the ``full_record`` criterion (None when the full record gives no
+    curvature to judge); ``note`` says what the full record showed; ``refuted`` is True when
+    the full record's curvature lies in the readings left out (the proposed window's
+    readings refute a wrong datum as its cause, as with an early transient); ``decay`` is
+    the datum-fitted decay over every reading, when fitted.
+    """
+
+    verdict: Verdict | None
+    note: str
+    refuted: bool
+    curvature: CurvatureTest
+    decay: DecayFit | None
+
+
+def _curvature_words(curvature: CurvatureTest) -> str:
+    p = "p < 0.001" if curvature.p_value < 0.001 else f"p = {curvature.p_value:.2g}"
+    word = "falls" if curvature.change < 0 else "rises"
+    return f"k {word} {percent_text(abs(curvature.change))} from the first reading to the last, {p}"
+
+
+def _window_bend(record, start, datum) -> int:
+    """How ln(h − datum) over readings ``start`` to the last bends: +1 or −1 when the tool's
+    curvature test finds it significant (its quadratic term's sign), 0 when not; −1 when
+    the datum lies at or above a head of the window (ln(h − datum) then plunges at its end).
+    """
+    if datum == math.inf:
+        return -1
+    if not math.isfinite(datum):
+        return 0
+    heads = record.corrected_head[start:] - datum
+    if not np.all(heads > 0):
+        return -1
+    test = curvature_test(
+        record.reference_time[start:],
+        np.log(heads),
+        record.settings.criteria.trend_level,
+        increasing=True,
+    )
+    return int(np.sign(test.coefficient)) if test.significant else 0
+
+
+def full_record_evidence(record, start: int | None) -> FullRecordEvidence:
+    """Whether a window proposed from reading ``start`` hides a fault of the whole record.
+
+    With ``start`` None (no window meets every criterion) only the note is formed: whether
+    the curvature of the full record has the shape a wrong datum gives it.
+
+    A proposed window leaves out early readings until the tool's trend test passes. A
+    wrong tailwater datum bends ln h through the whole record, and a window of fewer
+    readings may only be too short to show it: the window would then report a k off by as
+    much as the datum makes (about 2.6 % for 20 mm on a head falling from 1000 to 600 mm)
+    with an interval that does not hold the truth. So the full record is judged too:
+
+    1. the curvature test of ln h over every reading (the trend criterion's test);
+    2. where it is significant, the datum-fitted decay over every reading gives the datum
+       h∞ that would explain the curvature, with its 95 % interval;
+    3. the same curvature test of ln(h − h∞) over the proposed window: when it curves
+       significantly, the window's readings refute the datum that would explain the full
+       record, and the curvature lies in the readings left out (an early transient): the
+       window stands. Otherwise the window's readings cannot tell that datum from none, and
+       the fault may run through the whole record: the ``full_record`` criterion fails with
+       the reason in words.
+
+    The datum is fitted to every reading, the window's included, so ln(h − h∞) over the
+    window is as straight as the full record lets it be: with a true datum error the
+    window's test rejects it far less often than its nominal 5 % (no record of the seeded
+    datum population in ``tests/test_verdict_populations.py`` was refuted).
+
+    The rule is the tool's own; its rates of false alarm and coverage on seeded
+    populations of records are measured by ``tests/benchmarks/verdict_rates.py``.
+
+    References
+    ----------
+    Draper & Smith, *Applied Regression Analysis*, 3rd ed., ch. 2 (t-test of an added
+    term; from memory); Golub & Pereyra (1973) for the decay
+    (:func:`kitchen.fits.fit_exponential_decay`).
+    """
+    criteria = record.settings.criteria
+    line = record.full_line
+    curvature = curvature_test(
+        record.reference_time, record.log_head, criteria.trend_level, line, increasing=True
+    )
+    whole = f"over the full record (all {record.n} readings)"
+    bend = f"{_curvature_words(curvature)}; the tool's own test"
+    if not curvature.significant:
+        note = f"{whole} ln h shows no significant curvature ({bend})"
+        if start is not None:
+            note += ": the readings left out fail another criterion"
+        return FullRecordEvidence(None, note, False, curvature, None)
+    decay = fit_exponential_decay(record.reference_time, record.corrected_head)
+    if not decay.converged:
+        note = (
+            f"{whole} ln h curves ({bend}), but a decay to a fitted datum cannot follow it "
+            f"({decay.message}): not the bend of a wrong datum"
+        )
+        return FullRecordEvidence(None, note, False, curvature, decay)
+    low, high = decay.asymptote_low, decay.asymptote_high
+    k_decay = record.scale / decay.time_constant
+    k_line = -line.slope * record.scale
+    datum = (
+        f"the datum-fitted decay over every reading puts the datum at h∞ = "
+        f"{decay.asymptote * 1e3:.0f} mm (95 % interval {low * 1e3:.0f} to {high * 1e3:.0f} mm), "
+        f"with k {(k_decay / k_line - 1) * 100:+.1f} % from the log-linear fit's"
+    )
+    tolerance = criteria.datum_tolerance
+    if low <= tolerance and high >= -tolerance:
+        shape = "as a wrong datum would"
+        advice = "check the datum, or use the datum-fitted decay"
+    else:
+        shape = "through the whole record"
+        advice = (
+            f"a datum that far off is beyond the ±{tolerance * 1e3:.0f} mm a datum can be misread "
+            "by: a drift in k, or a transient, bends it so"
+        )
+    if start is None:
+        note = f"{whole} ln h curves {shape} ({bend}; {datum}): {advice}"
+        return FullRecordEvidence(None, note, False, curvature, decay)
+    refuted = _window_bend(record, start, decay.asymptote) != 0
+    note = f"{whole} ln h curves ({bend}); {datum}"
+    readings = f"readings {start + 1} to {record.n}"
+    if refuted:
+        verdict = Verdict(
+            "full_record",
+            True,
+            "no fault of the whole record hidden by the proposed window: yes — corrected by "
+            f"that datum, ln(h − h∞) over {readings} curves significantly, so the curvature of "
+            "the full record lies in the readings left out (as an early transient's does), "
+            "not in a wrong datum; the tool's own test",
+        )
+    else:
+        verdict = Verdict(
+            "full_record",
+            False,
+            "no fault of the whole record hidden by the proposed window: no — ln h over the "
+            f"full record curves {shape} ({bend}; {datum}), and {readings} cannot tell that "
+            f"datum from none: {advice}",
+        )
+    return FullRecordEvidence(verdict, note, refuted, curvature, decay)

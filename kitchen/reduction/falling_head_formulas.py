@@ -215,6 +215,52 @@ def spaced_conductivity(time, reference_time, log_head, scale, step, count=None)
     return 0.5 * (time[index[:-1]] + time[index[1:]]), k
 
 
+def span_conductivity(time, reference_time, log_head, scale, step, count):
+    """k from a least-squares line over each of the last spans of ``step`` reading intervals.
+
+    Parameters
+    ----------
+    time, reference_time, log_head : numpy.ndarray
+        Reading times [s], reference-equivalent times [s] and ln h [-] of the readings used,
+        in time order.
+    scale : float
+        a·L/A, so that k = −scale · slope of ln h on the reference time. [m]
+    step : int
+        Reading intervals a span covers (``step + 1`` readings); consecutive spans share
+        their boundary reading, as successive two-reading values share theirs. [-]
+    count : int
+        Spans, counted back from the last reading (fewer when the readings hold fewer). [-]
+
+    Returns
+    -------
+    time : numpy.ndarray
+        Middle time of each span, oldest first. [s]
+    k : numpy.ndarray
+        k_i = −scale·b_i, b_i the least-squares slope Σ(τ − τ̄)(y − ȳ)/Σ(τ − τ̄)² of
+        y = ln h on τ over span i, at the reference temperature. [m/s]
+
+    Notes
+    -----
+    With ``step = 1`` each span holds two readings and k_i is the two-reading value of
+    :func:`falling_head_conductivity`, k = (a·L/(A·Δt))·ln(h1/h2).
+
+    References
+    ----------
+    Das & Sobhan, *Principles of Geotechnical Engineering*, falling-head test: ln h falls
+    linearly in time with slope −k·A/(a·L). Draper & Smith, *Applied Regression Analysis*,
+    3rd ed., ch. 1, the least-squares slope (from memory).
+    """
+    values = min((time.size - 1) // step, count)
+    ends = (time.size - 1) - step * np.arange(values, -1, -1)  # span boundaries, oldest first
+    index = ends[:-1, None] + np.arange(step + 1)
+    x = reference_time[index]
+    y = log_head[index]
+    x = x - x.mean(axis=1, keepdims=True)
+    y = y - y.mean(axis=1, keepdims=True)
+    k = -scale * np.einsum("ij,ij->i", x, y) / np.einsum("ij,ij->i", x, x)
+    return 0.5 * (time[ends[:-1]] + time[ends[1:]]), k
+
+
 def incremental_conductivity(
     time,
     head,

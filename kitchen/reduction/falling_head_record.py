@@ -7,7 +7,10 @@ trial window; :meth:`FallingHeadRecord.analyse` then reduces a window (chosen, o
 by the tool) to a :class:`~kitchen.reduction.falling_head_evidence.FallingHeadAnalysis`:
 the log-linear fit of ln h on the reference-equivalent time, or the datum-fitted decay, then
 every criterion. The window proposed is the longest one ending at the last reading that
-meets every criterion, for either fit. :meth:`FallingHeadRecord.with_specimen` gives the
+meets every criterion, for either fit; where it leaves readings out, the full record is
+judged too, so that a fault running through the whole record (a wrong datum) is not hidden
+by a window too short to show it, and an early transient is not taken for a datum by the
+datum-fitted decay. :meth:`FallingHeadRecord.with_specimen` gives the
 same readings against a revised specimen row without preparing them again. The functions
 after the class do the work of :meth:`FallingHeadRecord.analyse` on the record's prepared
 state (the record is their first argument).
@@ -19,6 +22,8 @@ clauses).
 Head, K. H., *Manual of Soil Laboratory Testing*, Vol. 2, permeability tests: capillary
 rise in standpipes (from memory).
 Golub & Pereyra (1973) for the separable fit (:func:`kitchen.fits.fit_exponential_decay`).
+Hausman, J. A. (1978), Econometrica 46(6):1251, for comparing the datum of two windows
+(from memory).
 """
 
 from __future__ import annotations
@@ -29,6 +34,7 @@ from functools import cached_property
 
 import numpy as np
 import pandas as pd
+from scipy import special
 
 from kitchen.fits import curvature_test, fit_exponential_decay, fit_line, runs_test, sign_runs_test
 from kitchen.settings import FALLING_HEAD_FITS, Settings
@@ -50,6 +56,7 @@ from kitchen.water import viscosity_ratio, water_density, water_viscosity
 from .falling_head_evidence import (
     FallingHeadAnalysis,
     curvature_diagnosis,
+    full_record_evidence,
     last_k_values,
     window_interval,
 )
@@ -106,6 +113,9 @@ class FallingHeadRecord:
         times (formed on first use). [s], [m/s]
     capillary_rise, scale, mean_temperature : float
         The rise subtracted [m], a·L/A [m], the record's time-weighted temperature [degC].
+    full_line : kitchen.fits.LinearFit or None
+        ln h on the reference time over every reading (formed on first use; None for two
+        readings).
 
     Notes
     -----
@@ -212,7 +222,8 @@ class FallingHeadRecord:
             equal_nan=True,
         )
         if not same_bores and self._rise_from_bores:
-            other.__dict__.pop("_trends", None)  # ln h changes with the rise
+            for derived in ("_trends", "full_line"):  # ln h changes with the rise
+                other.__dict__.pop(derived, None)
             other._prepare_heads(self._given_rise)
         return other
 
@@ -226,6 +237,13 @@ class FallingHeadRecord:
         return window_trends(
             self.reference_time, self.log_head, self.settings.criteria, self._minimum_readings()
         )
+
+    @cached_property
+    def full_line(self):
+        """ln h on the reference time over every reading (None for two readings)."""
+        if self.n < 3:
+            return None
+        return fit_line(self.reference_time, self.log_head)
 
     @cached_property
     def increment_time(self) -> np.ndarray:
@@ -390,12 +408,17 @@ class FallingHeadRecord:
             )
         notes: list[str] = []
         method_notes: list[str] = [self.capillary_note] if self.capillary_note else []
+        evidence = None
         if window is None:
             if fit == "datum":
-                start, met, reason = _propose_datum(self)
+                start, met, reason, fit, evidence = _propose_datum(self)
             else:
                 proposal = _propose(self)
                 start, met, reason = proposal.start, proposal.meets_criteria, proposal.reason
+                if met and start > 0:
+                    evidence = full_record_evidence(self, start)
+                elif not met and self._trends.starts and not self._trends.trend_ok[0]:
+                    evidence = full_record_evidence(self, None)
             stop, proposed = self.n, True
             if met and start > 0:
                 method_notes.append(
@@ -414,10 +437,12 @@ class FallingHeadRecord:
             start, stop = self._checked_window(window)
             proposed = False
             method_notes.append(f"readings {start + 1} to {stop} of {self.n} used (window chosen)")
-        return _analyse(self, start, stop, fit, proposed, notes, method_notes)
+        return _analyse(self, start, stop, fit, proposed, notes, method_notes, evidence)
 
 
-def _analyse(record, start, stop, fit, proposed, notes, method_notes) -> FallingHeadAnalysis:
+def _analyse(
+    record, start, stop, fit, proposed, notes, method_notes, evidence=None
+) -> FallingHeadAnalysis:
     settings = record.settings
     criteria = settings.criteria
     n = stop - start
@@ -517,7 +542,14 @@ def _analyse(record, start, stop, fit, proposed, notes, method_notes) -> Falling
         ratio = viscosity_ratio(temperature, settings.reference_temperature, settings.viscosity)
     k = k_reference / ratio
     # criteria
-    judged = last_k_values(record, start, stop, used, log_used)
+    if decay is not None:
+        head_scatter, slope = decay.residual_standard_deviation, -1.0 / decay.time_constant
+    elif line is not None:
+        head_scatter = _head_scatter(line)
+        slope = line.slope
+    else:
+        head_scatter, slope = math.nan, -k_reference / record.scale
+    judged = last_k_values(record, start, stop, used, log_used, head_scatter, slope)
     if not np.all(np.isfinite(judged.k[-criteria.steady_count :])):
         steady = Verdict(
             "steady_values",
@@ -557,6 +589,10 @@ def _analyse(record, start, stop, fit, proposed, notes, method_notes) -> Falling
     )
     if decay is not None:
         verdicts += (datum_check(asymptote, low_inf, high_inf, criteria),)
+    if evidence is not None:
+        notes.append(evidence.note)
+        if evidence.verdict is not None:
+            verdicts += (evidence.verdict,)
     runs = None
     if residuals is not None and residuals.size >= 10:
         if residuals.dtype == bool:
@@ -614,6 +650,17 @@ def _analyse(record, start, stop, fit, proposed, notes, method_notes) -> Falling
     )
 
 
+def _head_scatter(line) -> float:
+    """Standard deviation of the heads about a line fitted to ln h, in head units. [m]
+
+    The line's residual scatter s of ln h is δh/h; at the head exp(ȳ) of the window's
+    mean ln h it is a head scatter of s·exp(ȳ) (first order in δh/h).
+    """
+    if line.n < 3:
+        return math.nan
+    return line.residual_standard_deviation * math.exp(line.y_mean)
+
+
 def _refuse_no_fall(record, k_reference, start, stop):
     if not k_reference > 0:
         raise ValueError(
@@ -651,7 +698,13 @@ def _propose(record):
     settings = record.settings
     criteria = settings.criteria
     heads, log_head = record.corrected_head, record.log_head
-    judged = last_k_values(record, 0, record.n, heads, log_head)
+    line = record.full_line
+    if line is None:
+        judged = last_k_values(record, 0, record.n, heads, log_head, math.nan, -1.0)
+    else:
+        judged = last_k_values(
+            record, 0, record.n, heads, log_head, _head_scatter(line), line.slope
+        )
     steady = steady_values_check(judged.k, criteria, judged.words)
     reynolds_per_k = math.nan
     if math.isfinite(record.d10):
@@ -675,27 +728,96 @@ def _propose(record):
 
 
 def _propose_datum(record, grid: int = 16, refinements: int = 8):
-    """The longest window ending at the last reading whose decay fit meets every criterion.
+    """The window proposed for the datum-fitted decay, and the fit to use over it.
 
-    The decay is refitted for each trial start: on a grid of up to ``grid`` starts, then
-    by bisection (at most ``refinements`` more fits) between the last start that fails
-    and the first that passes. The tool's own rule.
+    Returns ``(start, met, reason, fit, evidence)``: the window is readings ``start`` to
+    the last; ``fit`` is ``"datum"``, or ``"log_linear"`` where the full record shows an
+    early transient (below); ``evidence`` is the full record's
+    (:func:`~kitchen.reduction.falling_head_evidence.full_record_evidence`), or None.
+
+    A decay to a fitted datum follows an early transient as readily as a datum error: over
+    a window that still holds the transient's tail it takes the tail for a datum some tens
+    of millimetres off, within the datum tolerance, and gives k up to about 10 % high with
+    an interval that does not hold the truth; a later start only moves the window to where
+    the tail is just too small to see, and the decay's k sits at the edge of its interval.
+    So the log-linear proposal comes first: where it leaves out early readings and the full
+    record shows that its curvature lies in them, not in a wrong datum (the window's
+    readings refute the datum that would explain it), no datum error is left to fit, and k
+    comes from the log-linear fit over that window, with a note that says why. Otherwise
+    the decay is refitted for each trial start: on a grid of up to ``grid`` starts, then by
+    bisection (at most ``refinements`` more fits) between the last start that fails and
+    the first that passes; the longest window ending at the last reading is proposed whose
+    decay fit meets every criterion and whose fitted datum is a datum's:
+
+    - where the log-linear proposal leaves out early readings, the datum fitted to the
+      trial window agrees with the one fitted to the readings that proposal keeps: a datum
+      error is the same in every window, so the two estimates differ only by their noise,
+      whose variance is the difference of their variances (the longer window's estimate
+      being the more precise, as in Hausman's test); a difference beyond the two-sided
+      normal quantile at ``criteria.trend_level`` belongs to the early readings, as a
+      transient's does;
+    - a datum whose interval excludes zero bends ln h itself: the trial window's ln h
+      curves significantly (the trend criterion's test). A decay can find a datum in the
+      fast fall of a few early readings where ln h shows no curvature.
+
+    The tool's own rule; its rates on seeded populations are measured by
+    ``tests/benchmarks/verdict_rates.py``.
+
+    References
+    ----------
+    Hausman, J. A. (1978). Specification tests in econometrics. Econometrica 46(6),
+    1251-1271 (an efficient and a consistent estimate compared; from memory).
     """
     criteria = record.settings.criteria
+    proposal = _propose(record)
+    reference = None
+    if proposal.meets_criteria and proposal.start > 0:
+        evidence = full_record_evidence(record, proposal.start)
+        if evidence.refuted:
+            reason = (
+                "datum-fitted decay not used: the curvature of the full record lies in its first "
+                f"{proposal.start} readings (an early transient, not a wrong datum: corrected by "
+                "the datum that would explain it, the later readings curve), and a decay fitted "
+                "after them takes the transient's tail for a datum; k from the log-linear fit "
+                f"over the longest window that meets every criterion"
+            )
+            return proposal.start, True, reason, "log_linear", evidence
+        reference = fit_exponential_decay(
+            record.reference_time[proposal.start :], record.corrected_head[proposal.start :]
+        )
     keep = max(math.ceil(criteria.window_minimum_fraction * record.n), record._minimum_readings())
     last_start = record.n - keep
-    reason = "the longest window ending at the last reading whose decay fit meets every criterion"
+    reason = (
+        "the longest window ending at the last reading whose decay fit meets every criterion "
+        "and whose fitted datum bends ln h as a datum would"
+    )
+    limit = float(special.ndtri(1 - criteria.trend_level / 2))
     none = (
         "no window ending at the last reading and keeping at least "
         f"{criteria.window_minimum_fraction * 100:.0f} % of the readings meets every criterion "
         "with the datum-fitted decay"
     )
     if last_start < 0:
-        return 0, False, none
+        return 0, False, none, "datum", None
 
     def passes(start):
         trial = _analyse(record, start, record.n, "datum", True, [], [])
-        return trial.fit_kind == "datum" and trial.valid
+        if not (trial.fit_kind == "datum" and trial.valid):
+            return False
+        if reference is not None and reference.converged and start < proposal.start:
+            spread = reference.asymptote_standard_error**2 - trial.decay.asymptote_standard_error**2
+            gap = abs(trial.asymptote - reference.asymptote)
+            if gap > limit * math.sqrt(max(spread, 0.0)):
+                return False
+        if trial.asymptote_low <= 0.0 <= trial.asymptote_high:
+            return True
+        bend = curvature_test(
+            record.reference_time[start:],
+            record.log_head[start:],
+            criteria.trend_level,
+            increasing=True,
+        )
+        return bend.significant
 
     starts = np.unique(np.linspace(0, last_start, min(grid, last_start + 1)).round().astype(int))
     previous = None
@@ -707,6 +829,6 @@ def _propose_datum(record, grid: int = 16, refinements: int = 8):
                     break
                 middle = (low + high) // 2
                 low, high = (low, middle) if passes(middle) else (middle, high)
-            return high, True, reason
+            return high, True, reason, "datum", None
         previous = start
-    return 0, False, none
+    return 0, False, none, "datum", None

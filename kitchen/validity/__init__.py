@@ -21,7 +21,8 @@ Modules:
 
 The public face, which other subpackages import from :mod:`kitchen.validity` and never from
 its modules: :class:`Criteria`, :class:`Verdict`, :data:`GRADIENT_TABLE` and
-:func:`recommended_maximum_gradient`; :func:`steady_values_check`, :func:`trend_check`,
+:func:`recommended_maximum_gradient`, :func:`percent_text` (a fraction in words);
+:func:`steady_values_check`, :func:`trend_check`,
 :func:`flow_ratio_check`, :func:`gradient_check`, :func:`reynolds_number`,
 :func:`reynolds_check`, :func:`datum_check`, :func:`gradient_independence_check` and
 :func:`is_valid`; :func:`window_trends` (:class:`WindowTrends`) and :func:`propose_window`
@@ -54,6 +55,7 @@ from .criteria import (
     GRADIENT_TABLE,
     Criteria,
     Verdict,
+    percent_text,
     recommended_maximum_gradient,
 )
 from .window_proposal import (
@@ -71,6 +73,7 @@ __all__ = [
     "gradient_independence_check",
     "GRADIENT_TABLE",
     "is_valid",
+    "percent_text",
     "propose_window",
     "recommended_maximum_gradient",
     "reynolds_check",

@@ -71,9 +71,11 @@ class Criteria:
     reynolds_limit : float
         Largest Reynolds number on d10 for Darcy's law (Bear 1972: about 1). [-]
     value_precision : float
-        Falling head: each k value spans enough readings that the head-scale resolution
-        alone makes at most this relative standard uncertainty in it (0.05; the tool's
-        own rule). [-]
+        Falling head: each k value the steady-values criterion judges is a least-squares
+        fit over a span of readings long enough that the record's observed scatter about
+        its fit makes at most this relative standard uncertainty in it (0.05, a fifth of
+        the ±25 % band; the tool's own rule, see
+        :func:`kitchen.reduction.falling_head_evidence.last_k_values`). [-]
     window_minimum_fraction : float
         A proposed falling-head window keeps at least this fraction of the readings
         (0.5; the tool's own rule). [-]

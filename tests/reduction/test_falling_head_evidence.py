@@ -47,3 +47,50 @@ def test_outflow_over_inflow_from_the_readings():
     readings["outflow_volume"] = np.r_[np.arange(20), np.arange(20)] * 1e-6
     analysis = falling_head_analysis(readings, specimen, window=(0, 40))
     assert any("outflow_volume decreases at reading 21" in c for c in analysis.checks)
+
+
+def _steady_logger_record(noise, seed=4, n=20_000):
+    # a head falling from 1.2 m by k20 = 2e-9 m/s over 8 h (known_k_record), read n times
+    return known_k_record(n=n, noise=noise, seed=seed)
+
+
+def test_the_steady_values_span_what_the_observed_scatter_calls_for():
+    # Each k value judged for steadiness is a least-squares fit over a span just long
+    # enough that the scatter about the fit makes at most 5 % uncertainty in it: the span
+    # follows the scatter observed, not the head scale's resolution (the tool's own rule).
+    readings, specimen = _steady_logger_record(1.0e-3)
+    plain = falling_head_analysis(readings, specimen, window=(0, 20_000))
+    coarse = Settings(resolutions=Resolutions(head_scale=1e-2))
+    assert falling_head_analysis(readings, specimen, coarse, (0, 20_000)).value_step == (
+        plain.value_step
+    )
+    steady = next(v for v in plain.verdicts if v.criterion == "steady_values")
+    assert steady.passed and "least-squares fit over" in steady.sentence
+    assert "at most 5.0 % standard uncertainty in each" in steady.sentence
+    # the standard error of a least-squares slope, s/sqrt(Sxx) (Draper & Smith, ch. 1, from
+    # memory), falls as m^1.5 with m equally spaced readings: four times the scatter calls
+    # for spans 4^(2/3) = 2.5 times as long
+    readings, _ = _steady_logger_record(4.0e-3)
+    noisy = falling_head_analysis(readings, specimen, window=(0, 20_000))
+    assert noisy.value_step / plain.value_step == pytest.approx(4 ** (2 / 3), rel=0.1)
+    for analysis in (plain, noisy):
+        assert analysis.valid
+        np.testing.assert_allclose(analysis.value_k, 2.0e-9, rtol=0.2)
+
+
+def test_two_readings_suffice_when_they_are_far_apart_beside_their_scatter():
+    # an exact record: the values are the standard's own, k between successive readings
+    readings, specimen = known_k_record()
+    analysis = falling_head_analysis(readings, specimen, window=(0, 40))
+    assert analysis.value_step == 1
+    np.testing.assert_allclose(analysis.value_k, analysis.increment_k[-4:])
+    steady = next(v for v in analysis.verdicts if v.criterion == "steady_values")
+    assert "each from two successive readings" in steady.sentence
+
+
+def test_a_window_too_short_for_the_scatter_says_so():
+    readings, specimen = known_k_record(n=12, noise=20e-3, seed=2)
+    analysis = falling_head_analysis(readings, specimen, window=(0, 12))
+    steady = next(v for v in analysis.verdicts if v.criterion == "steady_values")
+    assert analysis.value_step == 2  # (12 - 1) // 4 reading intervals at most
+    assert "more than the 5 % aimed at: the readings used allow no longer spans" in steady.sentence

@@ -12,6 +12,7 @@ from kitchen.reduction import (
     reading_window,
     rising_tailwater_conductivity,
 )
+from kitchen.reduction.falling_head_formulas import span_conductivity
 
 
 def test_das_falling_head_example():
@@ -73,3 +74,28 @@ def test_reading_window_by_time():
     assert reading_window(time) == (0, 40)
     with pytest.raises(ValueError, match="fewer than two readings between"):
         reading_window(time, 100.0, 200.0)
+
+
+def test_span_k_is_the_least_squares_slope_of_each_span():
+    # By hand: ln h = 0, -0.1, -0.2, -0.35, -0.4 at t = 0..4 s, scale 1 m; spans of 2
+    # intervals back from the last reading: readings 2-4 and 0-2. Over readings 2-4 the
+    # mean of ln h is -0.31667 and the slope (-1·0.11667 + 1·(-0.08333))/2 = -0.1; over
+    # readings 0-2 it is -0.1: k = 0.1 m/s for both.
+    t = np.arange(5.0)
+    y = np.array([0.0, -0.1, -0.2, -0.35, -0.4])
+    middle, k = span_conductivity(t, t, y, 1.0, 2, 4)
+    np.testing.assert_allclose(k, [0.1, 0.1])
+    np.testing.assert_allclose(middle, [1.0, 3.0])
+    # one interval per span: the two-reading k of falling_head_conductivity (Das)
+    _, k = span_conductivity(t, t, y, 1.0, 1, 4)
+    np.testing.assert_allclose(k, [0.1, 0.1, 0.15, 0.05])
+    two = falling_head_conductivity(1.0, 1.0, 1.0, np.exp(y[:-1]), np.exp(y[1:]), 1.0)
+    np.testing.assert_allclose(k, two)
+
+
+def test_span_k_of_an_exact_record_is_k():
+    readings, specimen = known_k_record(k20=3.0e-9, n=101)
+    scale = specimen["standpipe_area"] * specimen["height"] / specimen["area"]
+    time = readings["time"].to_numpy()
+    _, k = span_conductivity(time, time, np.log(readings["head"].to_numpy()), scale, 7, 4)
+    np.testing.assert_allclose(k, 3.0e-9, rtol=1e-9)

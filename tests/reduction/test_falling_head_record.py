@@ -219,7 +219,11 @@ def test_the_datum_fit_does_not_absorb_a_transient_or_a_drift():
     # sample_data/clay_liner/truth.json: QF-02 and QF-07 open with an early transient,
     # QF-04 drifts; the others have a true datum of zero. A decay that absorbs the
     # transient as a datum offset gives k 20-100 % too high; the datum check refuses it,
-    # so the proposal drops the transient (QF-02, QF-07) or finds no valid window (QF-04).
+    # so the proposal finds no valid window for the drift (QF-04). For the transients the
+    # full record shows the curvature lies in the early readings, so the log-linear fit
+    # over the proposed window gives k (QF-02, QF-07): the old rule's window, whose fitted
+    # datum of tens of mm was the transient's tail, gave k 5.4 and 5.9 % high, its interval
+    # missing the truth, and was held here only to 8 %.
     truth = json.loads((SAMPLES / "clay_liner" / "truth.json").read_text())
     series = load_series(SAMPLES / "clay_liner")
     state = specimen_state(series.specimens).set_index("specimen", drop=False)
@@ -233,7 +237,14 @@ def test_the_datum_fit_does_not_absorb_a_transient_or_a_drift():
             continue
         assert analysis.valid, specimen
         assert abs(analysis.asymptote) < 0.1, specimen
-        assert analysis.k_reference == pytest.approx(k_true, rel=0.08), specimen
+        assert analysis.k_reference_low <= k_true <= analysis.k_reference_high, specimen
+        if specimen in ("QF-02", "QF-07"):
+            assert analysis.fit_kind == "log_linear", specimen
+            assert "datum-fitted decay not used" in analysis.method_notes[-1], specimen
+            assert analysis.k_reference == pytest.approx(k_true, rel=0.0025), specimen
+        else:
+            assert analysis.fit_kind == "datum", specimen
+            assert analysis.k_reference == pytest.approx(k_true, rel=0.02), specimen
 
 
 @pytest.mark.parametrize(
