@@ -14,13 +14,14 @@ import pandas as pd
 import pytest
 
 from kitchen import cli
-from kitchen.panels import falling_head_panel, series_chart_panel, series_panel
+from kitchen.panels import falling_head_panel, revise_panel, series_chart_panel, series_panel
 from kitchen.reduction import FallingHeadRecord
 from kitchen.revisions import choose_window, revise
 from kitchen.workspace import Workspace, revision_effect
 
 SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 SPECIMEN = "QF-05"
+CRITERION = "1e-9 m/s"  # the liner limit of US 40 CFR 258.40 and EU 1999/31/EC Annex I
 
 
 @pytest.fixture()
@@ -41,8 +42,9 @@ def clay(tmp_path) -> Path:
 
 
 def _report_k20(folder: Path, out: Path) -> pd.Series:
-    assert cli.main(["report", str(folder), "--out", str(out), "--no-images"]) == 0
-    table = pd.read_csv(out / "results.csv")
+    arguments = ["report", str(folder), "--out", str(out), "--no-images"]
+    assert cli.main([*arguments, "--criterion", CRITERION]) == 0
+    table = pd.read_csv(out / "results.csv", float_precision="round_trip")
     return table.set_index("specimen")["k20 [m/s]"]
 
 
@@ -62,7 +64,24 @@ def test_every_view_shows_the_k20_of_the_report(clay, tmp_path, capsys):
     moved = revision_effect(clay, row.id).set_index("specimen")
     assert moved.at[SPECIMEN, "k_reference_before"] == report[SPECIMEN]
     after = _report_k20(clay, tmp_path / "pack-after")
+    assert after[SPECIMEN] != report[SPECIMEN]  # the revision moved it
     assert moved.at[SPECIMEN, "k_reference_after"] == after[SPECIMEN]
+
+    # after the revision: the revise panel, the workbook, the series chart and notebook 01
+    revising = revise_panel(clay, criterion=CRITERION)
+    assert revising.results.set_index("specimen").at[SPECIMEN, "k_reference"] == after[SPECIMEN]
+    book = pd.read_excel(tmp_path / "pack-after" / "results.xlsx", sheet_name=None)
+    # two files, two number parsers: the same value to within the last digit of a double
+    in_book = book["tests"].set_index("specimen").at[SPECIMEN, "k20 [m/s]"]
+    assert in_book == pytest.approx(after[SPECIMEN], rel=1e-15)
+    chart = series_chart_panel(clay, criterion=CRITERION, images=False)
+    shown = chart.analysis.specimens.set_index("specimen")
+    assert shown.at[SPECIMEN, "k"] == after[SPECIMEN]
+    verdicts = book["specimens"].set_index("specimen")["verdict"]
+    assert verdicts.to_dict() == shown["verdict"].to_dict()
+    assert (
+        series_panel(clay).table.set_index("specimen").at[SPECIMEN, "k20 [m/s]"] == after[SPECIMEN]
+    )
 
 
 def test_a_report_reduces_each_specimen_once(clay, tmp_path, monkeypatch, capsys):
