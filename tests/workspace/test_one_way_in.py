@@ -44,7 +44,7 @@ def clay(tmp_path) -> Path:
 def _report_k20(folder: Path, out: Path) -> pd.Series:
     arguments = ["report", str(folder), "--out", str(out), "--no-images"]
     assert cli.main([*arguments, "--criterion", CRITERION]) == 0
-    table = pd.read_csv(out / "results.csv", float_precision="round_trip")
+    table = pd.read_csv(out / "results.csv")
     return table.set_index("specimen")["k20 [m/s]"]
 
 
