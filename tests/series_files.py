@@ -1,5 +1,6 @@
 """A small series written as CSV text, for the tests of reading, checking and building it."""
 
+import re
 from pathlib import Path
 
 import pytest
@@ -37,3 +38,31 @@ def problems_of(folder: Path) -> list[str]:
     with pytest.raises(SeriesError) as caught:
         load_series(folder)
     return [str(problem) for problem in caught.value.problems]
+
+
+def write_workbook(path: Path, sheets: dict[str, list[list]], hidden: tuple[str, ...] = ()) -> Path:
+    """A workbook with one sheet per table, each given as rows of cells (the header first);
+    a cell written as text starting with ``=`` is a formula, stored without a saved value."""
+    import openpyxl
+
+    book = openpyxl.Workbook()
+    book.remove(book.active)
+    for name, rows in sheets.items():
+        sheet = book.create_sheet(name)
+        for row in rows:
+            sheet.append(row)
+        if name in hidden:
+            sheet.sheet_state = "hidden"
+    book.save(path)
+    return path
+
+
+def csv_rows(text: str) -> list[list]:
+    """The rows of CSV text as cells: numbers as numbers, everything else as text."""
+    number = re.compile(r"^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$")
+    rows = []
+    for line in text.strip().split("\n"):
+        rows.append(
+            [float(cell) if number.match(cell) else (cell or None) for cell in line.split(",")]
+        )
+    return rows

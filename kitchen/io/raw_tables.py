@@ -8,10 +8,21 @@ person sees in the file, and the problems of the headers. Every problem is an
 :class:`InputProblem` naming the file, the row and the column; a series that cannot be
 used is refused with a :class:`SeriesError` listing them all. Validation and the
 conversion to SI are in :mod:`kitchen.io.table_checks` and :mod:`kitchen.io.series`.
+
+What is read is what a person sees: a text column (a specimen id, an effort) is text,
+``NA`` or ``None`` there being ids like any other; a header given twice is named, not
+renamed; a file that is not comma-separated UTF-8 (semicolons, tabs, UTF-16) is named with
+a hint; a row with more cells than the header is named, never shifted; a hidden table
+sheet, and a formula cell without the value a spreadsheet saved for it, are refused; a
+workbook that would unpack to more than :data:`WORKBOOK_UNPACKED_LIMIT` is refused unread.
 """
 
 from __future__ import annotations
 
+import csv
+import re
+import warnings
+import zipfile
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -86,12 +97,16 @@ TEXT_KINDS = ("id", "label")
 
 @dataclass(frozen=True)
 class InputProblem:
-    """One problem in the input: where it is, and what was expected."""
+    """One problem in the input: where it is, and what was expected.
+
+    ``specimen`` names the specimen the row belongs to, where the check knows it.
+    """
 
     file: str
     row: int | None
     column: str | None
     message: str
+    specimen: str | None = None
 
     def __str__(self) -> str:
         where = [self.file]
@@ -99,6 +114,8 @@ class InputProblem:
             where.append(f"row {self.row}")
         if self.column is not None:
             where.append(f"column '{self.column}'")
+        if self.specimen is not None:
+            where.append(f"specimen {self.specimen}")
         return f"{', '.join(where)}: {self.message}"
 
 
@@ -144,10 +161,58 @@ def _internal_name(header_name: str) -> str:
     return "_".join(header_name.replace("-", " ").split())
 
 
-def _read_csv(path: Path, problems: list[InputProblem]) -> pd.DataFrame | None:
+def _text_column(header: str) -> bool:
+    """Whether a header as written names one of the text columns (ids and labels)."""
+    if not _safe_header(header):
+        return False
+    name = _internal_name(split_header(header)[0])
+    return any(name in schema and schema[name].kind in TEXT_KINDS for schema in SCHEMAS.values())
+
+
+EMPTY_TEXTS = (
+    *("", "#N/A", "#N/A N/A", "#NA", "-1.#IND", "-1.#QNAN", "-NaN", "-nan", "1.#IND"),
+    *("1.#QNAN", "<NA>", "N/A", "NA", "NULL", "NaN", "None", "n/a", "nan", "null"),
+)
+"""Texts read as an empty cell in a column of numbers (the markers spreadsheets and pandas
+write for a missing value). In a text column (a specimen id, an effort) only an empty cell
+is empty: ``NA`` or ``None`` there is an id like any other."""
+
+_SNIFF_BYTES = 4096
+"""How much of a CSV file is looked at for its encoding before it is parsed. [bytes]"""
+
+_FIELDS_MISMATCH = re.compile(r"Expected (\d+) fields in line (\d+), saw (\d+)")
+
+
+def _encoding_problem(start: bytes) -> str | None:
+    """What is wrong with the encoding of a file that begins with `start`, if anything."""
+    if start.startswith((b"\xff\xfe", b"\xfe\xff")):
+        return "is UTF-16 text; save it as UTF-8 CSV"
+    if b"\x00" in start:
+        return (
+            "holds NUL bytes between its characters: it looks like UTF-16 text without a "
+            "byte-order mark; save it as UTF-8 CSV"
+        )
+    return None
+
+
+def _read_csv(path: Path, problems: list[InputProblem]) -> tuple[pd.DataFrame, list[str]] | None:
+    """The table of a CSV file with positional column keys, and its header as written.
+
+    The header is read as text, so a column named twice keeps its name twice (the parser
+    would rename the second); text columns are read as text, an empty cell being their
+    only missing value; a header separated by semicolons or tabs is kept whole for
+    :func:`_prepare` to name.
+    """
     label = path.name
     try:
-        header = pd.read_csv(path, nrows=0, encoding="utf-8-sig")
+        with path.open("rb") as stream:
+            encoding_problem = _encoding_problem(stream.read(_SNIFF_BYTES))
+        if encoding_problem is not None:
+            problems.append(InputProblem(label, None, None, encoding_problem))
+            return None
+        first = pd.read_csv(
+            path, header=None, nrows=1, dtype=str, keep_default_na=False, encoding="utf-8-sig"
+        )
     except UnicodeDecodeError:
         problems.append(InputProblem(label, None, None, "is not UTF-8 text; save it as UTF-8 CSV"))
         return None
@@ -157,32 +222,105 @@ def _read_csv(path: Path, problems: list[InputProblem]) -> pd.DataFrame | None:
     except (pd.errors.ParserError, OSError) as error:
         problems.append(InputProblem(label, None, None, f"cannot be read as CSV ({error})"))
         return None
-    text_columns = {}
-    for raw in header.columns:
-        try:
-            name = _internal_name(split_header(raw)[0])
-        except UnitError:
-            continue
-        if name in ("specimen", "effort"):
-            # as categories: the parser keeps one string per distinct id, not one per row
-            text_columns[raw] = "category"
+    written = [str(text) for text in first.iloc[0]] if len(first) else []
+    if len(written) == 1 and any(mark in written[0] for mark in ";\t"):
+        return pd.DataFrame({0: []}), written  # not comma-separated: the header says it all
+    keys = list(range(len(written)))
+    text_keys = [key for key in keys if _text_column(written[key])]
+    # text columns as categories: the parser keeps one string per distinct id, not per row
+    dtypes = dict.fromkeys(text_keys, "category")
+    empty = {key: [""] if key in text_keys else list(EMPTY_TEXTS) for key in keys}
     try:
-        return pd.read_csv(path, encoding="utf-8-sig", dtype=text_columns, skip_blank_lines=False)
-    except (UnicodeDecodeError, pd.errors.ParserError, ValueError) as error:
+        with warnings.catch_warnings(record=True) as warned:
+            warnings.simplefilter("always", pd.errors.ParserWarning)
+            # index_col=False: a first row with a cell too many is not taken for an index
+            # (which would shift every value of the table by one column); the parser warns
+            frame = pd.read_csv(
+                path,
+                header=0,
+                names=keys,
+                index_col=False,
+                encoding="utf-8-sig",
+                dtype=dtypes,
+                keep_default_na=False,
+                na_values=empty,
+                skip_blank_lines=False,
+            )
+    except pd.errors.ParserError as error:
+        mismatch = _FIELDS_MISMATCH.search(str(error))
+        if mismatch is None:
+            problems.append(InputProblem(label, None, None, f"cannot be read as CSV ({error})"))
+        else:
+            _, line, saw = mismatch.groups()
+            problems.append(InputProblem(label, int(line), None, _too_many_cells(saw, keys)))
+        return None
+    except UnicodeDecodeError:
+        problems.append(InputProblem(label, None, None, "is not UTF-8 text; save it as UTF-8 CSV"))
+        return None
+    except ValueError as error:
         problems.append(InputProblem(label, None, None, f"cannot be read as CSV ({error})"))
         return None
+    for warning in warned:  # any other warning is passed on as it came
+        if not issubclass(warning.category, pd.errors.ParserWarning):
+            warnings.warn_explicit(
+                warning.message, warning.category, warning.filename, warning.lineno
+            )
+    if any(issubclass(warning.category, pd.errors.ParserWarning) for warning in warned):
+        torn = _rows_with_cells_beyond_the_header(path, len(keys))
+        for row, cells in torn[:20]:
+            problems.append(InputProblem(label, row, None, _too_many_cells(cells, keys)))
+        if len(torn) > 20:
+            problems.append(
+                InputProblem(label, None, None, f"{len(torn) - 20} more row(s) with too many cells")
+            )
+    return frame, written
 
 
-def _prepare(name: str, label: str, frame: pd.DataFrame, problems: list[InputProblem]):
-    """Map headers to internal names and units; collect header problems."""
+def _rows_with_cells_beyond_the_header(path: Path, width: int) -> list[tuple[int, int]]:
+    """The rows (as a spreadsheet counts them) with a non-empty cell beyond the header's
+    `width` cells, and how many cells they have; read only when the parser warned."""
+    torn = []
+    with path.open(encoding="utf-8-sig", newline="") as stream:
+        reader = csv.reader(stream)
+        for record in reader:
+            if reader.line_num > 1 and any(cell.strip() for cell in record[width:]):
+                torn.append((reader.line_num, len(record)))
+    return torn
+
+
+def _too_many_cells(cells, keys) -> str:
+    return (
+        f"{cells} cells where the header has {len(keys)}: is there a comma in a value (a "
+        "decimal comma, or text to put in quotes)?"
+    )
+
+
+def column_letters(position: int) -> str:
+    """The spreadsheet letters of the column at `position` (0 → ``A``, 26 → ``AA``)."""
+    letters = ""
+    position += 1
+    while position:
+        position, rest = divmod(position - 1, 26)
+        letters = chr(ord("A") + rest) + letters
+    return letters
+
+
+def _prepare(
+    name: str, label: str, frame: pd.DataFrame, written: list[str], problems: list[InputProblem]
+):
+    """Map headers to internal names and units; collect header problems.
+
+    ``frame`` has one column per header cell, in order; ``written`` holds the headers as
+    written (a header given twice is there twice)."""
     schema = SCHEMAS[name]
     units: dict[str, str | None] = {}
     headers: dict[str, str] = {}
-    rename: dict[str, str] = {}
-    for raw in frame.columns:
-        raw_text = str(raw)
-        if raw_text.startswith("Unnamed:") and frame[raw].isna().all():
-            continue
+    rename: dict = {}
+    first_at: dict[str, int] = {}
+    separated = len(written) == 1 and any(mark in written[0] for mark in ";\t")
+    for position, (raw, raw_text) in enumerate(zip(frame.columns, written, strict=True)):
+        if not raw_text.strip() or separated:
+            continue  # no header (an empty column, notes beside the table), or not CSV
         try:
             header_name, unit = split_header(raw_text)
         except UnitError as error:
@@ -191,9 +329,19 @@ def _prepare(name: str, label: str, frame: pd.DataFrame, problems: list[InputPro
         internal = _internal_name(header_name)
         if internal not in schema:
             continue  # extra columns (notes, operator) are carried by the file, not used
-        if internal in rename.values():
-            problems.append(InputProblem(label, 1, raw_text, f"column '{internal}' given twice"))
+        if internal in first_at:
+            problems.append(
+                InputProblem(
+                    label,
+                    1,
+                    raw_text,
+                    f"column '{internal}' given twice (columns "
+                    f"{column_letters(first_at[internal])} and {column_letters(position)}); "
+                    "keep one",
+                )
+            )
             continue
+        first_at[internal] = position
         spec = schema[internal]
         if spec.kind in TEXT_KINDS:
             if unit:
@@ -229,14 +377,14 @@ def _prepare(name: str, label: str, frame: pd.DataFrame, problems: list[InputPro
         headers[internal] = raw_text
     for column, spec in schema.items():
         if spec.required and column not in rename.values():
-            if column in [
-                _internal_name(split_header(str(c))[0]) for c in frame.columns if _safe_header(c)
-            ]:
+            if column in first_at:
                 continue  # present but refused above; already reported
             hint = ""
-            if len(frame.columns) == 1 and ";" in str(frame.columns[0]):
+            if len(written) == 1 and ";" in written[0]:
                 hint = " (the header has semicolons: save the file comma-separated)"
-            found = ", ".join(str(c) for c in frame.columns) or "none"
+            elif len(written) == 1 and "\t" in written[0]:
+                hint = " (the header has tabs: save the file comma-separated)"
+            found = ", ".join(written) or "none"
             problems.append(
                 InputProblem(
                     label, 1, column, f"required column missing{hint}; columns found: {found}"
@@ -296,34 +444,20 @@ def read_tables(path: str | Path) -> tuple[dict[str, RawTable], tuple[Path, ...]
     """
     path = Path(path)
     problems: list[InputProblem] = []
-    frames: dict[str, tuple[str, pd.DataFrame]] = {}
+    frames: dict[str, tuple[str, pd.DataFrame, list[str]]] = {}
     if path.is_dir():
         files = []
         for name in TABLE_NAMES:
             file = path / f"{name}.csv"
             if file.exists():
-                frame = _read_csv(file, problems)
+                read = _read_csv(file, problems)
                 files.append(file)
-                if frame is not None:
-                    frames[name] = (file.name, frame)
+                if read is not None:
+                    frames[name] = (file.name, *read)
         label_of = {name: f"{name}.csv" for name in TABLE_NAMES}
         input_files = tuple(files)
     elif path.suffix.lower() == ".xlsx" and path.exists():
-        try:
-            sheets = pd.read_excel(path, sheet_name=None, dtype=object)
-        except Exception as error:  # openpyxl raises many kinds for a damaged file
-            problem = InputProblem(path.name, None, None, f"cannot be read ({error})")
-            raise SeriesError([problem]) from error
-        for name in TABLE_NAMES:
-            if name in sheets:
-                frame = sheets[name]
-                for column in frame.columns:
-                    if _safe_header(column) and _internal_name(split_header(str(column))[0]) in (
-                        "specimen",
-                        "effort",
-                    ):
-                        frame[column] = frame[column].map(_cell_text)
-                frames[name] = (f"{path.name} [{name}]", frame)
+        frames = _read_workbook(path, problems)
         label_of = {name: f"{path.name} [{name}]" for name in TABLE_NAMES}
         input_files = (path,)
     else:
@@ -347,11 +481,199 @@ def read_tables(path: str | Path) -> tuple[dict[str, RawTable], tuple[Path, ...]
     if problems:
         raise SeriesError(problems)
     tables: dict[str, RawTable] = {}
-    for name, (label, frame) in frames.items():
+    for name, (label, frame, written) in frames.items():
         header_problems: list[InputProblem] = []
-        kept, units, headers = _prepare(name, label, frame, header_problems)
+        kept, units, headers = _prepare(name, label, frame, written, header_problems)
         tables[name] = RawTable(name, label, kept, units, headers, header_problems)
+    _name_empty_tables(tables)
     return tables, input_files
+
+
+def _name_empty_tables(tables: dict[str, RawTable]) -> None:
+    """A table with its header and no rows below it: the specimens table always, the readings
+    tables when none of them has a row (one empty readings table beside a full one is a
+    method not used)."""
+    readings = [tables[name] for name in ("constant_head", "falling_head") if name in tables]
+    empty = [table for table in tables.values() if len(table.frame) == 0]
+    for table in empty:
+        complete = all(
+            column in table.frame.columns
+            for column, spec in SCHEMAS[table.name].items()
+            if spec.required
+        )
+        if not complete:
+            continue  # a required column is missing: that problem is named already
+        if table.name == "specimens":
+            what = "no specimens below the header: one row per specimen expected"
+        elif all(len(other.frame) == 0 for other in readings):
+            what = "no readings below the header: one row per reading or collection expected"
+        else:
+            continue
+        table.problems.append(InputProblem(table.file, 2, None, what))
+
+
+WORKBOOK_UNPACKED_LIMIT = 64 * 2**20
+"""The most a workbook may unpack to (about 1.5 × 10⁶ cells, some 20 s to read); a longer
+logger record belongs in a CSV file. A larger workbook is refused before it is unpacked,
+so a compressed bomb costs nothing. [bytes]"""
+
+_FORMULA_ELEMENT = re.compile(rb"<(?:[A-Za-z_][\w.-]*:)?f[\s>/]")
+"""A formula element of a worksheet part (``<f>``, ``<f t="shared" …/>``, ``<x:f>``)."""
+
+
+def _has_formulas(archive: zipfile.ZipFile) -> bool:
+    """Whether any worksheet part of the workbook holds a formula (one streaming pass)."""
+    for member in archive.infolist():
+        if not member.filename.startswith("xl/worksheets/"):
+            continue
+        tail = b""
+        with archive.open(member) as stream:
+            while chunk := stream.read(2**20):
+                if _FORMULA_ELEMENT.search(tail + chunk):
+                    return True
+                tail = chunk[-64:]
+    return False
+
+
+def _workbook_problem(path: Path, message: str) -> SeriesError:
+    return SeriesError([InputProblem(path.name, None, None, message)])
+
+
+def _read_workbook(
+    path: Path, problems: list[InputProblem]
+) -> dict[str, tuple[str, pd.DataFrame, list[str]]]:
+    """The table sheets of a workbook: positional column keys, the headers as written.
+
+    A workbook that unpacks to more than :data:`WORKBOOK_UNPACKED_LIMIT` is refused unread.
+    A hidden table sheet, and a formula cell without a value saved by the spreadsheet that
+    last calculated it, are named in `problems`: what the tool reads must be what a person
+    sees. A true/false cell is kept as it is, for the checks to refuse where a number
+    belongs; text columns are read as text, an empty cell being their only missing value.
+    """
+    import openpyxl
+
+    try:
+        with zipfile.ZipFile(path) as archive:
+            unpacked = sum(member.file_size for member in archive.infolist())
+            if unpacked > WORKBOOK_UNPACKED_LIMIT:
+                raise _workbook_problem(
+                    path,
+                    f"unpacks to {unpacked / 2**20:.0f} MB, more than the "
+                    f"{WORKBOOK_UNPACKED_LIMIT / 2**20:.0f} MB a workbook may hold here; "
+                    "save a long record of readings as CSV",
+                )
+            formulas = _has_formulas(archive)
+        book = openpyxl.load_workbook(path, read_only=True, data_only=True)
+    except SeriesError:
+        raise
+    except zipfile.BadZipFile:
+        raise _workbook_problem(path, "cannot be read: not an .xlsx workbook") from None
+    except Exception as error:  # openpyxl raises many kinds for a damaged file
+        raise _workbook_problem(path, f"cannot be read ({error})") from None
+    read: dict[str, tuple[str, pd.DataFrame, list[str]]] = {}
+    rows_of: dict[str, list[tuple]] = {}
+    try:
+        for name in TABLE_NAMES:
+            if name not in book.sheetnames:
+                continue
+            sheet = book[name]
+            label = f"{path.name} [{name}]"
+            if sheet.sheet_state != "visible":
+                problems.append(
+                    InputProblem(
+                        label,
+                        None,
+                        None,
+                        f"the sheet is {sheet.sheet_state.replace('veryH', 'very h')}: unhide "
+                        "it and check what it holds, or remove it; a hidden sheet is not read",
+                    )
+                )
+                continue
+            sheet.reset_dimensions()  # the stored dimensions may be wrong: read every row
+            rows = list(sheet.iter_rows(values_only=True))
+            rows_of[name] = rows
+            read[name] = (label, *_sheet_frame(rows))
+    except Exception as error:  # a damaged sheet part
+        raise _workbook_problem(path, f"cannot be read ({error})") from None
+    finally:
+        book.close()
+    if formulas and rows_of:
+        _name_formulas_without_values(path, rows_of, read, problems)
+    return read
+
+
+def _sheet_frame(rows: list[tuple]) -> tuple[pd.DataFrame, list[str]]:
+    """A sheet's rows as a frame with positional keys, and its header (row 1) as written."""
+    width = max((len(row) for row in rows), default=0)
+    header = list(rows[0]) + [None] * (width - len(rows[0])) if rows else []
+    written = [_header_text(cell) for cell in header]
+    text_keys = {key for key, text in enumerate(written) if _text_column(text)}
+    columns: dict[int, list] = {key: [] for key in range(width)}
+    for row in rows[1:]:
+        for key in range(width):
+            value = row[key] if key < len(row) else None
+            columns[key].append(value)
+    frame = pd.DataFrame(
+        {
+            key: pd.Series(
+                [_cell_text(v) for v in values]
+                if key in text_keys
+                else [_number_cell(v) for v in values],
+                dtype=object,
+            )
+            for key, values in columns.items()
+        },
+        index=pd.RangeIndex(len(rows) - 1 if rows else 0),
+    )
+    return frame, written
+
+
+def _header_text(value) -> str:
+    if value is None:
+        return ""
+    if isinstance(value, float) and value.is_integer():
+        return str(int(value))
+    return str(value)
+
+
+def _number_cell(value):
+    """A cell of a column of numbers: an empty marker (``NA``, ``#N/A``) is an empty cell."""
+    if value is None or (isinstance(value, str) and value.strip() in EMPTY_TEXTS):
+        return np.nan
+    return value
+
+
+def _name_formulas_without_values(path, rows_of, read, problems) -> None:
+    """Name the formula cells of the table sheets that have no saved value."""
+    import openpyxl
+
+    book = openpyxl.load_workbook(path, read_only=True, data_only=False)
+    try:
+        for name, rows in rows_of.items():
+            sheet = book[name]
+            sheet.reset_dimensions()
+            label, _, written = read[name]
+            for row_index, cells in enumerate(sheet.iter_rows()):
+                values = rows[row_index] if row_index < len(rows) else ()
+                for key, cell in enumerate(cells):
+                    if getattr(cell, "data_type", None) != "f":
+                        continue
+                    if key < len(values) and values[key] is not None:
+                        continue
+                    where = f"{column_letters(key)}{row_index + 1}"
+                    header = written[key] if key < len(written) and written[key] else where
+                    problems.append(
+                        InputProblem(
+                            label,
+                            row_index + 1,
+                            header,
+                            f"cell {where} holds a formula with no saved value (the program "
+                            "that wrote the workbook did not calculate it): open and save it "
+                            "in a spreadsheet, or type the value",
+                        )
+                    )
+    finally:
+        book.close()
 
 
 def _cell_text(value):
@@ -359,4 +681,6 @@ def _cell_text(value):
         return np.nan
     if isinstance(value, float) and value.is_integer():
         return str(int(value))
+    if isinstance(value, str) and not value.strip():
+        return np.nan
     return str(value)

@@ -79,12 +79,14 @@ def _assemble(tables, source, input_files, previous: Series | None, changed) -> 
         specimens = previous.specimens
     known = set(specimens["specimen"].dropna())
     same_ids = previous is not None and known == set(previous.specimens["specimen"].dropna())
+    if "specimen" not in tables["specimens"].frame.columns:
+        known = None  # the header lacks it (named there): no id can be looked up
     for name in ("constant_head", "falling_head"):
         if name in changed:
             check_readings(tables[name], converted[name], ids[name], known, problems)
         elif name in tables:  # validated before: only the specimen ids may have gone stale
             converted[name] = getattr(previous, name)
-            if not same_ids:
+            if not same_ids and known is not None:
                 check_known_specimens(
                     tables[name], TextCodes.of(converted[name]["specimen"]), known, problems
                 )

@@ -1,12 +1,15 @@
 """The checks of a series' values, and their conversion to SI.
 
 Each raw table's columns are converted to SI (:func:`convert_table`), and its values checked:
-numbers where numbers belong, positive and non-negative quantities, the dry mass and the
-standpipe areas of the specimens table (:func:`check_specimens`), known specimen ids, and
-readings in time order with a falling head (:func:`check_readings`). Every problem is
-added to a list as an :class:`~kitchen.io.raw_tables.InputProblem` naming the file, the row
-and the column; :mod:`kitchen.io.series` refuses the series with all of them at once. Text
-columns are handled by their distinct values, and every check is a vectorised pass.
+finite numbers where numbers belong (never a true/false cell), positive and non-negative
+quantities, values a laboratory specimen can have (:data:`PLAUSIBLE_RANGES`: a value far
+outside them is a unit written wrongly), the dry mass and the standpipe areas of the
+specimens table and the phase relations they give (:func:`check_specimens`), known specimen
+ids, and readings in time order with a falling head (:func:`check_readings`). Every problem
+is added to a list as an :class:`~kitchen.io.raw_tables.InputProblem` naming the file, the
+row and the column, and the specimen where the check knows it; :mod:`kitchen.io.series`
+refuses the series with all of them at once. Text columns are handled by their distinct
+values, and every check is a vectorised pass.
 """
 
 from __future__ import annotations
@@ -15,6 +18,8 @@ from dataclasses import dataclass
 
 import numpy as np
 import pandas as pd
+
+from kitchen.specimen import degree_of_saturation, dry_density, void_ratio
 
 from .raw_tables import SCHEMAS, TEXT_KINDS, InputProblem, RawTable
 from .units import to_si
@@ -43,6 +48,75 @@ _NON_NEGATIVE = {
     "specimens": ("water_content", "mold_mass"),
     "falling_head": ("time", "inflow_volume", "outflow_volume"),
 }
+
+
+@dataclass(frozen=True)
+class PlausibleRange:
+    """The values a column can hold in a laboratory test, in SI, with the words for them."""
+
+    low: float
+    high: float
+    shown: str  # the range in the words of a message, "10 mm to 1 m"
+    what: str  # what the column is, "a specimen's diameter"
+
+
+_DAY = 86_400.0
+_BORE_AREA = (np.pi * 1e-4**2 / 4, np.pi * 0.3**2 / 4)  # bores of 0.1 mm and 300 mm
+
+PLAUSIBLE_RANGES: dict[str, dict[str, PlausibleRange]] = {
+    "specimens": {
+        "diameter": PlausibleRange(0.010, 1.0, "10 mm to 1 m", "a specimen's diameter"),
+        "height": PlausibleRange(0.005, 1.0, "5 mm to 1 m", "a specimen's height"),
+        "dry_mass": PlausibleRange(0.001, 100.0, "1 g to 100 kg", "a specimen's dry mass"),
+        "mold_mass": PlausibleRange(0.0, 100.0, "0 to 100 kg", "a mold's mass"),
+        "mold_and_soil_mass": PlausibleRange(0.001, 200.0, "1 g to 200 kg", "a mold with its soil"),
+        "water_content": PlausibleRange(0.0, 2.0, "0 to 200 %", "a water content"),
+        "d10": PlausibleRange(1e-7, 0.05, "0.1 µm to 50 mm", "an effective grain size"),
+        "standpipe_diameter": PlausibleRange(1e-4, 0.3, "0.1 mm to 300 mm", "a standpipe bore"),
+        "standpipe_area": PlausibleRange(
+            *_BORE_AREA, "that of a bore of 0.1 mm to 300 mm", "a standpipe's area"
+        ),
+        "tailwater_standpipe_diameter": PlausibleRange(
+            1e-4, 0.3, "0.1 mm to 300 mm", "a standpipe bore"
+        ),
+        "tailwater_standpipe_area": PlausibleRange(
+            *_BORE_AREA, "that of a bore of 0.1 mm to 300 mm", "a standpipe's area"
+        ),
+    },
+    "constant_head": {
+        "head_difference": PlausibleRange(0.0, 100.0, "up to 100 m", "a head difference"),
+        "duration": PlausibleRange(0.0, 30 * _DAY, "up to 30 days", "a collection's duration"),
+        "volume": PlausibleRange(0.0, 0.1, "up to 100 L", "a collected volume"),
+        "outflow_mass": PlausibleRange(0.0, 100.0, "up to 100 kg", "a collected mass"),
+        "temperature": PlausibleRange(0.0, 60.0, "0 to 60 °C", "a water temperature"),
+        "flow_length": PlausibleRange(0.005, 1.0, "5 mm to 1 m", "a flow length"),
+    },
+    "falling_head": {
+        "time": PlausibleRange(0.0, 366 * _DAY, "up to one year", "a test's elapsed time"),
+        "head": PlausibleRange(0.0, 100.0, "up to 100 m", "a head"),
+        "temperature": PlausibleRange(0.0, 60.0, "0 to 60 °C", "a water temperature"),
+        "inflow_volume": PlausibleRange(0.0, 0.1, "up to 100 L", "a cumulative volume"),
+        "outflow_volume": PlausibleRange(0.0, 0.1, "up to 100 L", "a cumulative volume"),
+    },
+}
+"""The values a laboratory permeameter test can hold, by table and column, in SI.
+
+A value outside them is named with "check the unit": it is what a unit written wrongly in
+the header gives (a height in ``[Mm]``, diameters in millimetres under ``[cm]``, a
+temperature in °F under ``[degC]``). The bounds are wide on purpose — a specimen from a
+small mold to a large permeameter, a standpipe from a capillary burette to a pipe, a
+falling-head record logged for weeks — and are common practice, no source. The specific
+gravity has its own check (:func:`check_specimens`)."""
+
+VOID_RATIO_LIMIT = 5.0
+"""The largest void ratio a compacted specimen is taken to have (a compacted clay has
+0.3–1.5; a void ratio above 5 is a peat, or a mass in a unit written wrongly). Common
+practice, no source."""
+
+SATURATION_LIMIT = 1.10
+"""The largest degree of saturation accepted from the as-molded values: a few percent above
+100 % is the scatter of the measured masses, dimensions and Gs; beyond 110 % a value is
+wrong. Common practice, no source."""
 
 
 _LEFT_OUT_WHEN_ABSENT = {"falling_head": ("inflow_volume", "outflow_volume")}
@@ -83,15 +157,29 @@ def head_rise_tolerance(head: np.ndarray) -> float:
     return max(HEAD_RISE_TOLERANCE, HEAD_RISE_SCATTERS * spread)
 
 
-def _numeric_column(table: RawTable, column: str, problems: list[InputProblem]) -> np.ndarray:
-    """The column as a new array of floats in SI; bad cells are reported and become NaN."""
+def _numeric_column(
+    table: RawTable, column: str, problems: list[InputProblem], ids: TextCodes | None = None
+) -> np.ndarray:
+    """The column as a new array of floats in SI; bad cells are reported and become NaN.
+
+    Text that is not a number, a true/false cell, and a number that is not finite (``inf``,
+    or one too large for its unit) are each named, with the specimen of the row."""
     values = table.frame[column]
+    rows = table.frame["source_row"].to_numpy()
     if values.dtype.kind in "fiu":
         numbers = values.to_numpy(dtype=float)
     else:
-        numbers = pd.to_numeric(values, errors="coerce").to_numpy(dtype=float)
-        bad = np.flatnonzero(np.isnan(numbers) & values.notna().to_numpy())
-        rows = table.frame["source_row"].to_numpy()
+        if values.dtype.kind == "b":
+            truth = values.notna().to_numpy()
+        elif values.dtype == object:
+            truth = np.fromiter(map(_is_truth, values), bool, len(values))
+        elif pd.api.types.is_string_dtype(values.dtype):
+            words = values.str.strip().str.lower()
+            truth = words.isin(_TRUTH_WORDS).to_numpy(dtype=bool)
+        else:
+            truth = np.zeros(len(values), dtype=bool)
+        numbers = pd.to_numeric(values.where(~truth), errors="coerce").to_numpy(dtype=float)
+        bad = np.flatnonzero(np.isnan(numbers) & values.notna().to_numpy() & ~truth)
         for index in bad:
             problems.append(
                 InputProblem(
@@ -101,26 +189,159 @@ def _numeric_column(table: RawTable, column: str, problems: list[InputProblem]) 
                     f"expected a number, found {values.iloc[index]!r}",
                 )
             )
+        report_rows(
+            problems,
+            table,
+            truth,
+            column,
+            "expected a number, found a true/false value (TRUE or FALSE is not a number)",
+            ids=ids,
+        )
     kind = SCHEMAS[table.name][column].kind
     unit = table.units.get(column)
     if kind == "dimensionless" or not unit:
-        return numbers.copy()  # never a view of the raw table
-    if to_si(0.0, unit, kind) != 0.0:  # an offset unit (degF, K)
-        return to_si(numbers, unit, kind)
-    return np.multiply(numbers, to_si(1.0, unit, kind))  # one pass, one new array
+        si = numbers.copy()  # never a view of the raw table
+    elif to_si(0.0, unit, kind) != 0.0:  # an offset unit (degF, K)
+        si = to_si(numbers, unit, kind)
+    else:
+        with np.errstate(over="ignore"):
+            si = np.multiply(numbers, to_si(1.0, unit, kind))  # one pass, one new array
+    infinite = np.isinf(si)
+    if infinite.any():
+        for index in np.flatnonzero(infinite)[:_NAMED_ROWS]:
+            problems.append(
+                InputProblem(
+                    table.file,
+                    int(rows[index]),
+                    table.headers[column],
+                    (
+                        f"{_as_written(values.iloc[index])} {unit} is too large a number"
+                        if np.isfinite(numbers[index])
+                        else f"expected a finite number, found {_as_written(values.iloc[index])}"
+                    ),
+                    _specimen_at(ids, index),
+                )
+            )
+        _count_more(problems, table, column, infinite, "expected a finite number")
+        si[infinite] = np.nan
+    return si
 
 
-def report_rows(problems, table: RawTable, mask: np.ndarray, column: str, message: str, limit=20):
-    """Add `message` for each row of `table` where `mask` holds, naming file, row and column.
+_TRUTH_WORDS = ("true", "false")
+
+
+def _is_truth(value) -> bool:
+    """A true/false cell: a workbook's boolean, or the word TRUE or FALSE in any case."""
+    if isinstance(value, bool | np.bool_):
+        return True
+    return isinstance(value, str) and value.strip().lower() in _TRUTH_WORDS
+
+
+_NAMED_ROWS = 20
+"""How many rows one check names one by one; the rest are counted in one more problem."""
+
+
+def _as_written(value) -> str:
+    """A cell as a message shows it: text as written, a number in its shortest form."""
+    if isinstance(value, str):
+        return value.strip()
+    try:
+        return f"{float(value):g}"
+    except (TypeError, ValueError):
+        return str(value)
+
+
+def _specimen_at(ids: TextCodes | None, index: int) -> str | None:
+    """The specimen id of row `index`, where the table has one."""
+    if ids is None or ids.codes[index] < 0:
+        return None
+    return str(ids.values[ids.codes[index]])
+
+
+def _count_more(problems, table: RawTable, column: str, mask: np.ndarray, message: str):
+    more = int(mask.sum()) - _NAMED_ROWS
+    if more > 0:
+        header = table.headers.get(column, column)
+        problems.append(InputProblem(table.file, None, header, f"{more} more row(s): {message}"))
+
+
+def check_plausible(
+    table: RawTable,
+    column: str,
+    si: np.ndarray,
+    ids: TextCodes | None,
+    problems: list[InputProblem],
+    checked: np.ndarray,
+) -> np.ndarray:
+    """Name the values of `column` outside :data:`PLAUSIBLE_RANGES`, where `checked` holds.
+
+    Returns which rows were named."""
+    bounds = PLAUSIBLE_RANGES.get(table.name, {}).get(column)
+    if bounds is None:
+        return np.zeros(si.size, dtype=bool)
+    with np.errstate(invalid="ignore"):
+        outside = checked & np.isfinite(si) & ((si < bounds.low) | (si > bounds.high))
+    if not outside.any():
+        return outside
+    rows = table.frame["source_row"].to_numpy()
+    raw = table.frame[column]
+    unit = table.units.get(column) or ""
+    internal = _INTERNAL_UNITS.get(SCHEMAS[table.name][column].kind, "")
+    for index in np.flatnonzero(outside)[:_NAMED_ROWS]:
+        written = f"{_as_written(raw.iloc[index])} {unit}".strip()
+        if internal == "%":
+            shown = f"{si[index] * 100:.4g} %"
+        else:
+            shown = f"{si[index]:.4g} {internal}".strip()
+        value = written if shown == written else f"{written} ({shown})"
+        problems.append(
+            InputProblem(
+                table.file,
+                int(rows[index]),
+                table.headers.get(column, column),
+                f"{value} is outside {bounds.shown}, what {bounds.what} in a "
+                "laboratory test can be: check the unit",
+                _specimen_at(ids, index),
+            )
+        )
+    _count_more(problems, table, column, outside, f"outside {bounds.shown}: check the unit")
+    return outside
+
+
+_INTERNAL_UNITS = {
+    "length": "m",
+    "area": "m²",
+    "volume": "m³",
+    "mass": "kg",
+    "time": "s",
+    "temperature": "°C",
+    "ratio": "%",
+}
+
+
+def report_rows(
+    problems,
+    table: RawTable,
+    mask: np.ndarray,
+    column: str,
+    message: str,
+    limit=_NAMED_ROWS,
+    ids: TextCodes | None = None,
+):
+    """Add `message` for each row of `table` where `mask` holds, naming file, row and column,
+    and the specimen of the row when its ids are given.
 
     The first `limit` rows are named one by one, the rest counted in one more problem.
     """
     if not mask.any():
         return
-    rows = table.frame["source_row"].to_numpy()[mask]
+    indices = np.flatnonzero(mask)
+    rows = table.frame["source_row"].to_numpy()[indices]
     header = table.headers.get(column, column)
-    for row in rows[:limit]:
-        problems.append(InputProblem(table.file, int(row), header, message))
+    for index, row in zip(indices[:limit], rows[:limit], strict=False):
+        problems.append(
+            InputProblem(table.file, int(row), header, message, _specimen_at(ids, index))
+        )
     if len(rows) > limit:
         problems.append(
             InputProblem(table.file, None, header, f"{len(rows) - limit} more row(s): {message}")
@@ -182,18 +403,22 @@ def convert_table(table: RawTable, problems: list[InputProblem]) -> tuple[pd.Dat
             if column not in _LEFT_OUT_WHEN_ABSENT.get(table.name, ()):
                 columns[column] = np.full(n, np.nan)
             continue
-        values = _numeric_column(table, column, problems)
+        values = _numeric_column(table, column, problems, ids)
         columns[column] = values
         finite = np.isfinite(values)
         if spec.required:
             empty = table.frame[column].isna().to_numpy()
             report_rows(problems, table, empty, column, "value missing; expected a number")
+        signed = finite
         if column in _POSITIVE.get(table.name, ()):
             report_rows(
                 problems, table, finite & (values <= 0), column, "must be greater than zero"
             )
+            signed = finite & (values > 0)
         if column in _NON_NEGATIVE.get(table.name, ()):
             report_rows(problems, table, finite & (values < 0), column, "must not be negative")
+            signed = finite & (values >= 0)
+        check_plausible(table, column, values, ids, problems, signed)
     # every column is a new array: the frame takes them as they are (no copy, no consolidation)
     return pd.DataFrame(columns, copy=False), ids
 
@@ -211,9 +436,16 @@ def check_specimens(
     ids = frame["specimen"]
     duplicated = (ids.duplicated(keep=False) & ids.notna()).to_numpy()
     report_rows(problems, table, duplicated, "specimen", "specimen id given more than once")
+
+    def given(name: str) -> np.ndarray:
+        """Where the file has a cell (a bad one is named already: not as missing too)."""
+        if name not in table.frame.columns:
+            return np.zeros(len(frame), dtype=bool)
+        return table.frame[name].notna().to_numpy() | ~np.isnan(column(name))
+
     dry, mold, full = column("dry_mass"), column("mold_mass"), column("mold_and_soil_mass")
-    has_dry = ~np.isnan(dry)
-    has_mold = ~np.isnan(mold) & ~np.isnan(full)
+    has_dry = given("dry_mass")
+    has_mold = given("mold_mass") & given("mold_and_soil_mass")
     report_rows(
         problems,
         table,
@@ -242,6 +474,20 @@ def check_specimens(
         "specific_gravity",
         "expected a specific gravity of soil solids between 1.5 and 4.0 (typically 2.6-2.8)",
     )
+    if by_mold.any():
+        soil_range = PLAUSIBLE_RANGES["specimens"]["dry_mass"]
+        with np.errstate(invalid="ignore"):
+            far = by_mold & (soil > 0) & ((soil < soil_range.low) | (soil > soil_range.high))
+        report_rows(
+            problems,
+            table,
+            far,
+            "mold_and_soil_mass",
+            f"the dry soil (mold_and_soil_mass - mold_mass) is outside {soil_range.shown}, "
+            f"what {soil_range.what} can be: check the unit",
+            ids=TextCodes.of(frame["specimen"]),
+        )
+    check_phase_relations(table, frame, by_mold, problems)
     for prefix in ("", "tailwater_"):
         diameter_name, area_name = f"{prefix}standpipe_diameter", f"{prefix}standpipe_area"
         diameter, area = column(diameter_name), column(area_name)
@@ -260,6 +506,88 @@ def check_specimens(
     return frame
 
 
+def check_phase_relations(
+    table: RawTable, frame: pd.DataFrame, by_mold: np.ndarray, problems: list[InputProblem]
+) -> None:
+    """Name each specimen whose dry mass gives a void ratio at or below zero, above
+    :data:`VOID_RATIO_LIMIT`, or a saturation above :data:`SATURATION_LIMIT`.
+
+    Only rows whose diameter, height, dry mass and Gs passed their own checks are judged.
+    The problem names the dry-mass column (the mold-and-soil mass where the dry mass is
+    their difference): the mold-and-soil mass typed as the dry mass is the usual cause.
+
+    References
+    ----------
+    Das, B. M. and Sobhan, K., *Principles of Geotechnical Engineering*, weight-volume
+    relationships: ρd = Ms/V, e = Gs·ρw/ρd − 1, S·e = w·Gs (through
+    :mod:`kitchen.specimen`).
+    """
+
+    def column(name: str) -> np.ndarray:
+        return frame[name].to_numpy(dtype=float)
+
+    ranges = PLAUSIBLE_RANGES["specimens"]
+    diameter, height, mass = column("diameter"), column("height"), column("dry_mass")
+    gs, water = column("specific_gravity"), column("water_content")
+    with np.errstate(invalid="ignore"):
+        judged = (
+            _within(diameter, ranges["diameter"])
+            & _within(height, ranges["height"])
+            & _within(mass, ranges["dry_mass"])
+            & (gs >= 1.5)
+            & (gs <= 4.0)
+        )
+    if not judged.any():
+        return
+    with np.errstate(invalid="ignore"):
+        water_judged = np.isfinite(water) & (water >= 0) & (water <= ranges["water_content"].high)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        density = dry_density(mass, diameter, height)
+        e = void_ratio(density, gs)
+        saturation = degree_of_saturation(water, gs, e)
+    ids = TextCodes.of(frame["specimen"])
+    rows = table.frame["source_row"].to_numpy()
+    for index in np.flatnonzero(judged):
+        name = "mold_and_soil_mass" if by_mold[index] else "dry_mass"
+        state = (
+            f"a dry density of {density[index] / 1000:.3g} Mg/m³ and a void ratio of "
+            f"{e[index]:.3g} (with Gs {gs[index]:g})"
+        )
+        if e[index] <= 0:
+            message = (
+                f"this dry mass gives {state}: a void ratio above zero expected, no soil is "
+                "denser than its solids; is it the mass of mold and soil?"
+            )
+        elif e[index] > VOID_RATIO_LIMIT:
+            message = (
+                f"this dry mass gives {state}: a void ratio up to {VOID_RATIO_LIMIT:g} "
+                "expected of a compacted specimen; check the unit"
+            )
+        elif water_judged[index] and saturation[index] > SATURATION_LIMIT:
+            message = (
+                f"this dry mass gives {state}, so a saturation of "
+                f"{saturation[index] * 100:.0f} % at a water content of "
+                f"{water[index] * 100:.3g} %: at most about 100 % expected (up to "
+                f"{SATURATION_LIMIT * 100:.0f} % for scatter); check the dry mass, the water "
+                "content and the dimensions"
+            )
+        else:
+            continue
+        problems.append(
+            InputProblem(
+                table.file,
+                int(rows[index]),
+                table.headers.get(name, name),
+                message,
+                _specimen_at(ids, index),
+            )
+        )
+
+
+def _within(values: np.ndarray, bounds: PlausibleRange) -> np.ndarray:
+    return np.isfinite(values) & (values > 0) & (values >= bounds.low) & (values <= bounds.high)
+
+
 def check_known_specimens(table: RawTable, ids: TextCodes, known: set, problems):
     """Report the rows whose specimen id is not among `known` (the specimens table's)."""
     unknown_value = np.array([value not in known for value in ids.values], dtype=bool)
@@ -275,11 +603,19 @@ def check_known_specimens(table: RawTable, ids: TextCodes, known: set, problems)
     )
 
 
-def check_readings(table: RawTable, frame: pd.DataFrame, ids: TextCodes, known: set, problems):
+def check_readings(
+    table: RawTable, frame: pd.DataFrame, ids: TextCodes | None, known: set | None, problems
+):
     """Checks across the columns of a readings table: known specimens; then a volume or an
     outflow mass per collection (constant head), or readings in time order, a head that does
-    not rise, one run of readings per specimen (falling head)."""
-    check_known_specimens(table, ids, known, problems)
+    not rise, one run of readings per specimen (falling head).
+
+    Without a specimen column (``ids`` None) nothing is checked across rows; without the
+    specimens table's ids (``known`` None) the ids are not looked up."""
+    if ids is None:
+        return  # no specimen column: named with the header, nothing to check across rows
+    if known is not None:
+        check_known_specimens(table, ids, known, problems)
     if table.name == "constant_head":
         neither = frame["volume"].isna() & frame["outflow_mass"].isna()
         both = frame["volume"].notna() & frame["outflow_mass"].notna()
@@ -302,7 +638,8 @@ def check_readings(table: RawTable, frame: pd.DataFrame, ids: TextCodes, known: 
     )
     starts = np.flatnonzero(~same)
     rises = same & np.r_[False, np.diff(head) > HEAD_RISE_TOLERANCE]
-    for start, stop in zip(starts, np.r_[starts[1:], codes.size], strict=True):
+    stops = np.append(starts[1:], codes.size) if starts.size else starts
+    for start, stop in zip(starts, stops, strict=True):
         if not rises[start:stop].any():  # the common case: nothing to judge
             continue
         tolerance = head_rise_tolerance(head[start:stop])

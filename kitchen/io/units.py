@@ -44,6 +44,16 @@ KINDS: dict[str, tuple[str | None, str]] = {
 
 _RATIO_WORDS = {"%": 0.01, "percent": 0.01, "-": 1.0, "1": 1.0, "fraction": 1.0}
 
+UNIT_TEXT_LIMIT = 40
+"""The longest unit text read (``cubic_centimeter`` has 16 characters). [characters]"""
+
+EXPONENT_LIMIT = 1000
+"""The largest product of the exponents of a unit expression (``mm**2``: 2)."""
+
+_POWER = re.compile(r"\*\*")
+_NUMBER = r"[-+]?\d{1,3}(?:\.\d{1,3})?(?![\d.])"
+_EXPONENT = re.compile(rf"\*\*\s*(?:\(\s*(?P<grouped>{_NUMBER})\s*\)|(?P<plain>{_NUMBER}))")
+
 
 class UnitError(ValueError):
     """A unit that is missing, unknown, or of the wrong dimension."""
@@ -54,6 +64,50 @@ def _registry():
     import pint
 
     return pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+
+
+def bounded_unit_text(text: str) -> None:
+    """Refuse a unit expression whose evaluation could take unbounded work.
+
+    pint evaluates a unit as an arithmetic expression, so ``10**10**10`` asks for a number
+    of ten billion digits. A unit is read only when its text has at most
+    :data:`UNIT_TEXT_LIMIT` characters and every power, after pint's own rewriting
+    (``mm²`` → ``mm**(2)``, ``cubic cm`` → ``cm**3``), has a plain number of at most three
+    digits for its exponent, is not raised again, and the product of the exponents is at
+    most :data:`EXPONENT_LIMIT`. The tool's own rule.
+
+    Raises
+    ------
+    UnitError
+        Naming what is refused.
+
+    Examples
+    --------
+    >>> bounded_unit_text("mm^2")
+    >>> bounded_unit_text("10**10**10")
+    Traceback (most recent call last):
+    ...
+    kitchen.io.units.UnitError: unit '10**10**10': a power cannot be raised again
+    """
+    if len(text) > UNIT_TEXT_LIMIT:
+        raise UnitError(
+            f"unit {text[:UNIT_TEXT_LIMIT]!r}...: longer than {UNIT_TEXT_LIMIT} characters"
+        )
+    from pint.util import string_preprocessor
+
+    rewritten = string_preprocessor(text)
+    product = 1.0
+    for power in _POWER.finditer(rewritten):
+        exponent = _EXPONENT.match(rewritten, power.start())
+        if exponent is None:
+            raise UnitError(
+                f"unit {text!r}: an exponent must be a plain number of at most three digits"
+            )
+        if rewritten[exponent.end() :].lstrip().startswith("**"):
+            raise UnitError(f"unit {text!r}: a power cannot be raised again")
+        product *= max(1.0, abs(float(exponent["grouped"] or exponent["plain"])))
+        if product > EXPONENT_LIMIT:
+            raise UnitError(f"unit {text!r}: its exponents multiply to more than {EXPONENT_LIMIT}")
 
 
 def split_header(header: str) -> tuple[str, str | None]:
@@ -100,6 +154,7 @@ def _factor_offset(unit: str, kind: str) -> tuple[float, float]:
             return _RATIO_WORDS[word], 0.0
     registry = _registry()
     text = unit.replace("°C", "degC").replace("°F", "degF").replace("°", "deg")
+    bounded_unit_text(text)
     try:
         parsed = registry.Unit(text)
     except Exception as error:  # pint raises several types for text it cannot read

@@ -1,10 +1,21 @@
 """Reading the raw tables: files, sheets and headers, every bad input named by file, row, column."""
 
+import zipfile
+
 import pandas as pd
 import pytest
-from series_files import CONSTANT, SPECIMENS, problems_of, write_series
+from series_files import (
+    CONSTANT,
+    FALLING,
+    SPECIMENS,
+    csv_rows,
+    problems_of,
+    write_series,
+    write_workbook,
+)
 
 from kitchen.io import SeriesError, load_series, read_tables
+from kitchen.io.raw_tables import WORKBOOK_UNPACKED_LIMIT
 
 
 def test_workbook_problems_name_the_sheet(tmp_path):
@@ -51,6 +62,11 @@ def test_workbook_problems_name_the_sheet(tmp_path):
             {"specimens": SPECIMENS.replace(",", ";")},
             "the header has semicolons",
         ),
+        (
+            {"specimens": SPECIMENS.replace("height [mm]", "height [10**10**10]")},
+            "specimens.csv, row 1, column 'height [10**10**10]': unit '10**10**10': a power "
+            "cannot be raised again",
+        ),
     ],
 )
 def test_bad_input_is_named(tmp_path, tables, expected):
@@ -75,3 +91,251 @@ def test_reading_never_writes_the_raw_files(tmp_path):
     read_tables(folder)
     load_series(folder)
     assert {p.name: p.read_bytes() for p in folder.iterdir()} == before
+
+
+FALLING_HEADER = FALLING.split("\n")[0]
+
+
+@pytest.mark.parametrize(
+    ("falling", "hint"),
+    [
+        (FALLING.replace(",", ";"), "(the header has semicolons: save the file comma-separated)"),
+        # a semicolon export with decimal commas: rows have more commas than the header
+        (
+            FALLING.replace(",", ";").replace("90.3", "90,3"),
+            "(the header has semicolons: save the file comma-separated)",
+        ),
+        (FALLING.replace(",", "\t"), "(the header has tabs: save the file comma-separated)"),
+        (FALLING.replace("specimen,", "sample,"), "; columns found: sample, time [min]"),
+    ],
+)
+def test_a_readings_header_without_a_specimen_column_is_named(tmp_path, falling, hint):
+    problems = problems_of(write_series(tmp_path / "s", falling_head=falling))
+    expected = "falling_head.csv, row 1, column 'specimen': required column missing"
+    assert any(p.startswith(expected) and hint in p for p in problems), problems
+    assert all(p.startswith("falling_head.csv, row 1, column '") for p in problems), problems
+
+
+@pytest.mark.parametrize(
+    ("encoding", "expected"),
+    [
+        ("utf-16-le", "it looks like UTF-16 text without a byte-order mark; save it as UTF-8"),
+        ("utf-16-be", "it looks like UTF-16 text without a byte-order mark; save it as UTF-8"),
+        ("utf-16", "is UTF-16 text; save it as UTF-8 CSV"),
+    ],
+)
+def test_utf16_readings_are_named(tmp_path, encoding, expected):
+    folder = write_series(tmp_path / "s")
+    (folder / "falling_head.csv").write_bytes(FALLING.encode(encoding))
+    problems = problems_of(folder)
+    assert len(problems) == 1 and problems[0].startswith("falling_head.csv: "), problems
+    assert expected in problems[0]
+
+
+def test_a_header_only_readings_file_is_named_in_words(tmp_path):
+    problems = problems_of(write_series(tmp_path / "s", falling_head=FALLING_HEADER + "\n"))
+    assert problems == [
+        "falling_head.csv, row 2: no readings below the header: one row per reading or "
+        "collection expected"
+    ]
+
+
+def test_a_header_only_specimens_file_is_named_in_words(tmp_path):
+    problems = problems_of(write_series(tmp_path / "s", specimens=SPECIMENS.split("\n")[0]))
+    assert "specimens.csv, row 2: no specimens below the header: one row per specimen expected" in (
+        problems
+    )
+
+
+def test_an_empty_readings_table_beside_a_full_one_is_a_method_not_used(tmp_path):
+    folder = write_series(
+        tmp_path / "s", falling_head=FALLING_HEADER + "\n", constant_head=CONSTANT
+    )
+    series = load_series(folder)
+    assert len(series.falling_head) == 0 and len(series.constant_head) == 2
+
+
+MISSING_MARKERS = ["NA", "N/A", "nan", "NaN", "NULL", "null", "None", "#N/A", "<NA>"]
+
+
+@pytest.mark.parametrize("name", MISSING_MARKERS)
+def test_an_id_that_spells_a_missing_value_is_an_id(tmp_path, name):
+    specimens = SPECIMENS.replace("A1,", f"{name},")
+    falling = FALLING.replace("A1,", f"{name},")
+    series = load_series(write_series(tmp_path / "s", specimens=specimens, falling_head=falling))
+    assert series.specimen_ids() == [name, "A2"]
+    assert series.falling_head["specimen"].tolist() == [name] * 3 + ["A2"] * 3
+    book = write_workbook(
+        tmp_path / "book.xlsx",
+        {"specimens": csv_rows(specimens), "falling_head": csv_rows(falling)},
+    )
+    assert load_series(book).specimen_ids() == [name, "A2"]
+
+
+def test_a_missing_marker_in_a_column_of_numbers_is_an_empty_cell(tmp_path):
+    series = load_series(
+        write_series(tmp_path / "s", specimens=SPECIMENS.replace(",18.0,", ",NA,"))
+    )
+    assert series.specimens["water_content"].isna().tolist() == [True, False]
+
+
+@pytest.mark.parametrize(
+    ("specimens", "expected"),
+    [
+        (
+            SPECIMENS.replace("height [mm],", "height [mm],height [mm],").replace(
+                "116.4,", "116.4,116.4,"
+            ),
+            "specimens.csv, row 1, column 'height [mm]': column 'height' given twice "
+            "(columns C and D); keep one",
+        ),
+        (
+            SPECIMENS.replace("height [mm],", "height [mm],Height [in],").replace(
+                "116.4,", "116.4,4.58,"
+            ),
+            "specimens.csv, row 1, column 'Height [in]': column 'height' given twice "
+            "(columns C and D); keep one",
+        ),
+        (
+            "specimen," + SPECIMENS.replace("\nA1,", "\nA1,A1,").replace("\nA2,", "\nA2,A2,"),
+            "specimens.csv, row 1, column 'specimen': column 'specimen' given twice "
+            "(columns A and B); keep one",
+        ),
+    ],
+)
+def test_a_column_given_twice_is_named(tmp_path, specimens, expected):
+    problems = problems_of(write_series(tmp_path / "s", specimens=specimens))
+    assert expected in problems, problems
+    book = write_workbook(
+        tmp_path / "book.xlsx",
+        {"specimens": csv_rows(specimens), "falling_head": csv_rows(FALLING)},
+    )
+    expected_in_book = expected.replace("specimens.csv", "book.xlsx [specimens]")
+    assert expected_in_book in problems_of(book)
+
+
+def test_an_extra_column_given_twice_is_carried(tmp_path):
+    specimens = SPECIMENS.replace("\n", ",notes,notes\n", 1).replace(",5\n", ",5,a,b\n")
+    assert load_series(write_series(tmp_path / "s", specimens=specimens)).specimen_ids() == [
+        "A1",
+        "A2",
+    ]
+
+
+def test_a_row_with_more_cells_than_the_header_is_named(tmp_path):
+    problems = problems_of(
+        write_series(tmp_path / "s", falling_head=FALLING.replace("A1,10,95,", "A1,10,95,5,"))
+    )
+    assert problems == [
+        "falling_head.csv, row 3: 5 cells where the header has 4: is there a comma in a value "
+        "(a decimal comma, or text to put in quotes)?"
+    ]
+
+
+def _book(tmp_path, specimens=SPECIMENS, falling=FALLING, hidden=()):
+    rows = {"specimens": csv_rows(specimens), "falling_head": csv_rows(falling)}
+    return rows, lambda: write_workbook(tmp_path / "book.xlsx", rows, hidden)
+
+
+@pytest.mark.parametrize("truth", [True, False])
+def test_a_true_false_cell_is_not_a_number(tmp_path, truth):
+    rows, write = _book(tmp_path)
+    rows["specimens"][1][1] = truth  # diameter of A1
+    rows["falling_head"][2][2] = truth  # head of A1's second reading
+    problems = problems_of(write())
+    expected = "expected a number, found a true/false value (TRUE or FALSE is not a number)"
+    assert f"book.xlsx [specimens], row 2, column 'diameter [mm]', specimen A1: {expected}" in (
+        problems
+    )
+    assert f"book.xlsx [falling_head], row 3, column 'head [cm]', specimen A1: {expected}" in (
+        problems
+    )
+
+
+def test_a_true_false_column_in_a_csv_file_is_not_a_number(tmp_path):
+    specimens = SPECIMENS.replace(",18.0,", ",TRUE,").replace(",16.0,", ",FALSE,")
+    problems = problems_of(write_series(tmp_path / "s", specimens=specimens))
+    assert problems == [
+        f"specimens.csv, row {row}, column 'water_content [%]', specimen {name}: expected a "
+        "number, found a true/false value (TRUE or FALSE is not a number)"
+        for row, name in ((2, "A1"), (3, "A2"))
+    ]
+
+
+@pytest.mark.parametrize("sheet", ["specimens", "falling_head"])
+def test_a_hidden_table_sheet_is_refused(tmp_path, sheet):
+    _, write = _book(tmp_path, hidden=(sheet,))
+    problems = problems_of(write())
+    assert problems == [
+        f"book.xlsx [{sheet}]: the sheet is hidden: unhide it and check what it holds, or "
+        "remove it; a hidden sheet is not read"
+    ]
+
+
+def test_a_hidden_sheet_the_tool_does_not_read_is_left_alone(tmp_path):
+    rows, _ = _book(tmp_path)
+    rows["scratch"] = [["anything"]]
+    book = write_workbook(tmp_path / "book.xlsx", rows, hidden=("scratch",))
+    assert load_series(book).specimen_ids() == ["A1", "A2"]
+
+
+def test_a_formula_without_a_saved_value_is_named(tmp_path):
+    rows, write = _book(tmp_path)
+    rows["specimens"][2][3] = "=1600*1"  # dry mass of A2: written without a calculated value
+    problems = problems_of(write())
+    assert problems == [
+        "book.xlsx [specimens], row 3, column 'dry_mass [g]': cell D3 holds a formula with no "
+        "saved value (the program that wrote the workbook did not calculate it): open and "
+        "save it in a spreadsheet, or type the value"
+    ]
+
+
+def test_a_workbook_that_unpacks_too_large_is_refused_unread(tmp_path):
+    book = tmp_path / "bomb.xlsx"
+    chunk = b"\0" * 2**20
+    with zipfile.ZipFile(book, "w", zipfile.ZIP_DEFLATED) as archive:
+        with archive.open("xl/worksheets/sheet1.xml", "w") as member:
+            for _ in range(WORKBOOK_UNPACKED_LIMIT // len(chunk) + 1):
+                member.write(chunk)
+    assert book.stat().st_size < WORKBOOK_UNPACKED_LIMIT / 100  # highly compressed
+    with pytest.raises(SeriesError) as caught:
+        load_series(book)
+    (problem,) = caught.value.problems
+    assert str(problem).startswith("bomb.xlsx: unpacks to 65 MB, more than the 64 MB")
+
+
+def test_a_file_that_is_not_a_workbook_is_named(tmp_path):
+    book = tmp_path / "book.xlsx"
+    book.write_text("specimen,height [mm]\n", encoding="utf-8")
+    with pytest.raises(SeriesError, match="book.xlsx: cannot be read: not an .xlsx workbook"):
+        load_series(book)
+
+
+def test_a_first_row_with_a_cell_too_many_is_named_not_shifted(tmp_path):
+    # a parser takes a first row one cell longer than the header for an index, and every
+    # value of the table moves one column: diameters read as heights
+    specimens = SPECIMENS.replace(",5\nA2", ",5,7\nA2")
+    problems = problems_of(write_series(tmp_path / "s", specimens=specimens))
+    assert problems == [
+        "specimens.csv, row 2: 9 cells where the header has 8: is there a comma in a value "
+        "(a decimal comma, or text to put in quotes)?"
+    ]
+
+
+def test_a_trailing_comma_on_every_row_is_an_empty_cell(tmp_path):
+    specimens = SPECIMENS.replace("\n", ",\n")
+    series = load_series(write_series(tmp_path / "s", specimens=specimens))
+    assert series.specimens["diameter"].tolist() == pytest.approx([0.1016, 0.1016])
+    assert series.specimens["height"].tolist() == pytest.approx([0.1164, 0.1164])
+
+
+def test_a_specimens_header_without_a_specimen_column_is_named_once(tmp_path):
+    # the readings' ids cannot be looked up in a table without ids: not one problem per reading
+    problems = problems_of(
+        write_series(tmp_path / "s", specimens=SPECIMENS.replace("specimen,", "sample,"))
+    )
+    assert problems == [
+        "specimens.csv, row 1, column 'specimen': required column missing; columns found: "
+        "sample, diameter [mm], height [mm], dry_mass [g], specific_gravity, "
+        "water_content [%], effort, standpipe_diameter [mm]"
+    ]

@@ -62,3 +62,29 @@ def test_parse_value():
 def test_parse_value_needs_number_and_unit(text):
     with pytest.raises(UnitError):
         parse_value(text, "length")
+
+
+@pytest.mark.parametrize(
+    ("unit", "expected"),
+    [
+        ("10**10**10", "a power cannot be raised again"),
+        ("mm^2^2", "a power cannot be raised again"),
+        ("10¹⁰¹⁰", "an exponent must be a plain number"),
+        ("m**1234", "an exponent must be a plain number"),
+        ("(((10**99)**99)**99)", "its exponents multiply to more than 1000"),
+        ("m" * 41, "longer than 40 characters"),
+    ],
+)
+def test_a_unit_expression_is_refused_before_it_is_evaluated(unit, expected):
+    # evaluating 10**10**10 asks for a number of ten billion digits: the text is refused first
+    with pytest.raises(UnitError, match=expected):
+        to_si(1.0, unit, "length")
+
+
+@pytest.mark.parametrize(
+    ("unit", "si"),
+    # 1 mm = 1e-3 m, so 1 mm² = 1e-6 m² and 1 cm³ = 1e-6 m³ (SI prefixes)
+    [("mm²", 1e-6), ("mm**2", 1e-6), ("(mm)**2", 1e-6), ("square millimeter", 1e-6)],
+)
+def test_ordinary_powers_still_read(unit, si):
+    assert to_si(1.0, unit, "area") == pytest.approx(si, rel=1e-12)
