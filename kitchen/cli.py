@@ -6,7 +6,10 @@ files with the revisions of its log applied) and writes its results.
 records a revision (``--withdraw ID --reason ...`` withdraws one) and says what it changed;
 ``python -m kitchen history SERIES`` lists the revisions.
 ``report`` also writes the memo pack (:mod:`kitchen.memo.pack`): the charts as HTML, PNG and
-SVG, ``results.xlsx`` and ``report.html``, printing its progress on stderr.
+SVG, ``results.xlsx`` and ``report.html``, printing its progress on stderr. The verdicts of
+``report`` and ``revise`` are drawn against ``--criterion`` when it is given, else against
+the criterion of the series' project table; with neither, no verdict is drawn, and the
+command says so.
 Input problems are printed as a list (file, row, column, what was expected) and the
 command exits with status 2; it never shows a traceback for bad input. Without Chromium
 for the PNG and SVG charts it exits with status 3, naming what to install.
@@ -31,6 +34,7 @@ __all__ = ["main", "build_parser"]
 
 EXIT_INPUT = 2
 EXIT_ENVIRONMENT = 3
+_TYPED = "given on the command line"
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -83,10 +87,10 @@ def _add_memo_options(report) -> None:
     report.add_argument(
         "--criterion",
         action=_CriterionOption,
-        default="1e-9",
         help="k limit from the project specification: a number in m/s, or with its unit and "
-        "direction as in the notebook ('1e-7 cm/s', '>= 1e-4 m/s'); default 1e-9 m/s, a "
-        "largest k allowed",
+        "direction as in the notebook ('1e-7 cm/s', '>= 1e-4 m/s'); overrides the criterion "
+        "of the series' project table (project.csv, or a sheet 'project'); default: the "
+        "series' own, and where it has none, no verdict is drawn",
     )
     _add_criterion_kind(report)
     report.add_argument(
@@ -129,12 +133,23 @@ def _add_criterion_kind(command) -> None:
 
 
 def _criterion(arguments):
-    """The criterion of --criterion and --criterion-kind (None without --criterion)."""
+    """The criterion of --criterion and --criterion-kind (None without --criterion: then
+    the series' own is used, and where it has none, no verdict is drawn)."""
     if getattr(arguments, "criterion", None) is None:
         return None
     return parse_criterion(
         arguments.criterion, getattr(arguments, "criterion_kind", None), unit="m/s"
     )
+
+
+def _criterion_words(criterion, source: str) -> str:
+    """The criterion in force and where it comes from, for the printed summary."""
+    if criterion is None:
+        return (
+            "no criterion given (none typed, none in the series' project table): no verdicts "
+            "drawn; give one with --criterion or in the series' project table"
+        )
+    return f"criterion k {criterion.symbol} {float(criterion):g} m/s ({criterion.words}), {source}"
 
 
 class _CriterionOption(argparse.Action):
@@ -175,7 +190,8 @@ def _add_revision_commands(commands) -> None:
         "--criterion",
         action=_CriterionOption,
         help="k limit, in m/s or with its unit and direction ('>= 1e-4 m/s'), to show each "
-        "verdict before and after",
+        "verdict before and after; default: the criterion of the series' project table, "
+        "and where it has none, no verdict",
     )
     _add_criterion_kind(revise)
     window = commands.add_parser(
@@ -218,10 +234,13 @@ def _report(arguments) -> int:
         arguments.series, settings, windows_on_record=not arguments.proposed_windows
     )
     series, windows = workspace.series, workspace.windows
+    criterion, source = workspace.criterion_in_force(_criterion(arguments))
+    typed = _criterion(arguments) is not None
     pack = export_memo_pack(
         workspace,
         arguments.out,
-        criterion=_criterion(arguments),
+        criterion=criterion if typed else None,
+        criterion_source=_TYPED if typed else None,
         k_unit=arguments.k_unit,
         density_unit=arguments.density_unit,
         images=not arguments.no_images,
@@ -234,6 +253,7 @@ def _report(arguments) -> int:
     print(f"{len(table)} result row(s) for {series.name} written to {path}")
     print(f"memo pack: {len(pack)} file(s) in {arguments.out} ({pack.seconds:.1f} s)")
     print(f"{effective.revision_count} revision(s) applied from {effective.log_path}")
+    print(_criterion_words(criterion, _TYPED if typed else source))
     if windows:
         print(f"{len(windows)} reading window(s) chosen, from {windows_path(arguments.series)}")
     return 0
@@ -270,7 +290,9 @@ def _revise(arguments, parser) -> int:
         print(f"recorded revision {row.id}")
     print(f"  {row.describe()}")
     try:
-        moved = revision_effect(arguments.series, row.id, criterion=_criterion(arguments))
+        typed = _criterion(arguments)
+        criterion, source = Workspace(arguments.series).criterion_in_force(typed)
+        moved = revision_effect(arguments.series, row.id, criterion=criterion)
     except Exception as error:  # the revision stands; only the summary failed
         print(
             f"kitchen: revision {row.id} is recorded, but what it changed could not be worked "
@@ -278,6 +300,7 @@ def _revise(arguments, parser) -> int:
             file=sys.stderr,
         )
         return 0
+    print(_criterion_words(criterion, _TYPED if typed is not None else source))
     if moved.empty:
         print("no result moved")
     for _, change in moved.iterrows():

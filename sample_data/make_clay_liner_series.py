@@ -24,9 +24,12 @@ Model
   temperature drifting smoothly through the record; the head is integrated numerically between
   readings, then read to the nearest millimetre after a small seeded reading error.
 
-The script writes ``clay_liner/specimens.csv``, ``clay_liner/falling_head.csv`` and
-``clay_liner/truth.json`` (the true k20 per specimen and the model parameters). It uses numpy
-and pandas only and does not import the package whose reductions these data are meant to check.
+The script writes ``clay_liner/specimens.csv``, ``clay_liner/falling_head.csv``,
+``clay_liner/project.csv`` (the series' project table: the liner criterion, a largest k20 of
+1e-9 m/s, as US 40 CFR 258.40 and EU Directive 1999/31/EC Annex I set for a compacted clay
+liner or geological barrier) and ``clay_liner/truth.json`` (the true k20 per specimen and the
+model parameters). It uses numpy and pandas only and does not import the package whose
+reductions these data are meant to check.
 
 Usage: ``python sample_data/make_clay_liner_series.py [--output DIR]``.
 """
@@ -47,7 +50,8 @@ SITE = "Quillbrook Flats borrow area (fictional)"
 SPECIFIC_GRAVITY = 2.71
 WATER_DENSITY_PHASE = 1000.0  # kg/m3, the convention in phase relations
 REFERENCE_TEMPERATURE = 20.0  # degC
-CRITERION = 1.0e-9  # m/s, a common liner criterion, used here only to describe the scenario
+CRITERION = 1.0e-9  # m/s, the liner criterion of the scenario (40 CFR 258.40; 1999/31/EC Annex I)
+PROJECT_CRITERION = "1e-9 m/s"  # the same, as the project table writes it: a largest k allowed
 MOLD_DIAMETER = 101.6  # mm (4 in mold)
 MOLD_HEIGHT = 116.4  # mm
 MOLD_TARES = [4186.0, 4211.5, 4173.2]  # g, the molds for the specimens weighed in them
@@ -364,6 +368,10 @@ def main(argv=None):
     folder.mkdir(parents=True, exist_ok=True)
     write_csv(specimens, folder / "specimens.csv")
     write_csv(readings, folder / "falling_head.csv")
+    assert float(PROJECT_CRITERION.split()[0]) == CRITERION
+    (folder / "project.csv").write_text(
+        f"setting,value\ncriterion,{PROJECT_CRITERION}\n", encoding="utf-8", newline="\n"
+    )
     document = {
         "series": SERIES,
         "invented": True,

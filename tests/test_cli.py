@@ -16,8 +16,10 @@ from pathlib import Path
 import pandas as pd
 import pytest
 from cli_runner import run_cli
+from html_cells import TableCells
 from revision_series import log_rows
 
+from kitchen.analysis import NO_CRITERION
 from kitchen.io import files
 from kitchen.revisions import revise, revisions_path
 
@@ -191,3 +193,95 @@ def test_export_failure_leaves_the_previous_report(clay, tmp_path, monkeypatch):
     assert done.returncode == 2
     assert "No space left on device" in done.stderr
     assert _snapshot(out) == previous  # every file as it was, and no temporary left behind
+
+
+# --- the criterion belongs to the project -------------------------------------------------
+
+
+def _specimens_of(page: str) -> list[dict[str, str]]:
+    """The data cells of the report's specimens table, row by row."""
+    table = page.split("<h2>Specimens</h2>", 1)[1].split("</table>", 1)[0]
+    parser = TableCells()
+    parser.feed(table)
+    header = [text for tag, _, text in parser.cells if tag == "th"]
+    cells = [text for tag, _, text in parser.cells if tag == "td"]
+    return [dict(zip(header, cells[i : i + len(header)], strict=True)) for i in
+            range(0, len(cells), len(header))]  # fmt: skip
+
+
+def test_a_sand_reported_without_a_criterion_is_not_judged_against_a_liners_limit(tmp_path):
+    # the drainage sand carries no criterion (sample_data/README.md): no verdict is drawn,
+    # and the report says so, rather than a liner's 1e-9 m/s maximum (US 40 CFR 258.40)
+    # failing every sand specimen of k20 2.6e-4 to 8.3e-4 m/s (its truth.json)
+    done = run_cli("report", SAMPLES / "drainage_sand", "--out", tmp_path, "--no-images")
+    assert done.returncode == 0, done.stderr
+    assert "no criterion given" in done.stdout and "no verdicts drawn" in done.stdout
+    page = (tmp_path / "report.html").read_text()
+    judged = page.split("<h2>Methods and their sources</h2>", 1)[0]  # the methods cite 1e-9
+    assert "does not meet" not in judged and "1×10⁻⁹" not in judged
+    rows = _specimens_of(page)
+    assert len(rows) == 4 and all("no criterion given" in row["verdict"] for row in rows)
+    assert "no criterion given: no verdicts and no acceptable zone" in page
+    sheet = pd.read_excel(tmp_path / "results.xlsx", sheet_name="specimens")
+    assert set(sheet["verdict"]) == {NO_CRITERION} and sheet["valid"].all()
+
+
+def test_a_smallest_k_says_at_least_and_claims_no_zone_it_does_not_draw(tmp_path):
+    # 1e-4 m/s as the smallest k of a drainage layer (common practice, no source); the sand
+    # has no water contents, so no acceptable zone is drawn, and no row may say it lies
+    # outside one
+    done = run_cli("report", SAMPLES / "drainage_sand", "--out", tmp_path, "--no-images",
+                   "--criterion", "1e-4", "--criterion-kind", "minimum")  # fmt: skip
+    assert done.returncode == 0, done.stderr
+    page = (tmp_path / "report.html").read_text()
+    rows = _specimens_of(page)
+    assert [row["verdict"] for row in rows] == ["● meets"] * 4
+    assert all(row["in acceptable zone"] != "no" for row in rows)
+    assert "at least 1×10⁻⁴ m/s" in page and "at most" not in page
+    sheet = pd.read_excel(tmp_path / "results.xlsx", sheet_name="specimens")
+    assert sheet["in_acceptable_zone"].isna().all()
+
+
+def test_the_series_criterion_is_used_and_the_command_line_overrides_it(tmp_path):
+    folder = Path(shutil.copytree(SAMPLES / "drainage_sand", tmp_path / "sand"))
+    (folder / "project.csv").write_text("setting,value\ncriterion,>= 1e-4 m/s\n")
+    done = run_cli("report", folder, "--out", tmp_path / "own", "--no-images")
+    assert done.returncode == 0, done.stderr
+    page = (tmp_path / "own" / "report.html").read_text()
+    assert "meets: 4" in page and "project.csv, row 2" in page
+    # a liner's limit typed on the command line overrides the series' own (every sand k20
+    # is above 1e-9 m/s, truth.json)
+    done = run_cli("report", folder, "--out", tmp_path / "typed", "--no-images",
+                   "--criterion", "1e-9")  # fmt: skip
+    page = (tmp_path / "typed" / "report.html").read_text()
+    assert "does not meet: 4" in page and "given on the command line" in page
+
+
+def test_revise_judges_against_the_series_criterion_unless_one_is_typed(clay, tmp_path):
+    # QF-03 (true k20 6.39e-10 m/s) meets the clay liner's 1e-9 m/s of its project table;
+    # a height of 4.8 in keeps it meeting, 1e-10 m/s typed makes it fail (README.md)
+    done = run_cli("revise", clay, "--specimen", "QF-03", "--field", "height", "--value",
+                   "4.8 in", "--reason", "re-measured")  # fmt: skip
+    assert done.returncode == 0, done.stderr
+    assert "verdict meets -> meets" in done.stdout
+    done = run_cli("revise", clay, "--specimen", "QF-03", "--field", "height", "--value",
+                   "4.7 in", "--reason", "again", "--criterion", "1e-10")  # fmt: skip
+    assert "verdict does not meet -> does not meet" in done.stdout
+    (clay / "project.csv").unlink()
+    done = run_cli("revise", clay, "--specimen", "QF-03", "--field", "height", "--value",
+                   "4.6 in", "--reason", "once more")  # fmt: skip
+    assert done.returncode == 0 and "; verdict" not in done.stdout
+    assert "no criterion given" in done.stdout
+
+
+def test_a_project_criterion_that_does_not_read_is_named_where_it_stands(tmp_path):
+    folder = Path(shutil.copytree(SAMPLES / "drainage_sand", tmp_path / "sand"))
+    (folder / "project.csv").write_text("setting,value\ncriterion,>= 1e-4\n")
+    done = run_cli("report", folder, "--out", tmp_path / "out", "--no-images")
+    assert done.returncode == 2 and "Traceback" not in done.stderr
+    assert "project.csv, row 2, column 'value': criterion" in done.stderr
+    assert not (tmp_path / "out").exists()
+    # a criterion typed on the command line stands in for it
+    done = run_cli("report", folder, "--out", tmp_path / "typed", "--no-images",
+                   "--criterion", ">= 1e-4 m/s")  # fmt: skip
+    assert done.returncode == 0, done.stderr

@@ -3,7 +3,8 @@
 Once each specimen is reduced, the series is read as a whole. One result is kept per
 specimen, and, when the test is valid (or kept on record by the engineer with a reason),
 its k and interval are judged against the project's criterion: meets, does not meet, or
-not conclusive where the interval straddles it; a test that is not valid is not judged,
+not conclusive where the interval straddles it (where no criterion is given, no verdict is
+drawn and no zone: a limit is never assumed); a test that is not valid is not judged,
 and is left out of the zone and the fits. On the compaction plane
 (molding water content across, dry density up) sit the zero-air-voids and
 constant-saturation lines, one compaction curve per compactive effort, the line of
@@ -32,7 +33,8 @@ Modules, in the data's order:
 The public face, which other subpackages import from :mod:`kitchen.analysis` and never from
 its modules: :data:`REQUIRED_COLUMNS`; :class:`Criterion`, :func:`as_criterion`,
 :func:`parse_criterion`, :func:`classify_against_criterion`, :data:`CRITERION_KINDS`, :data:`MEETS`,
-:data:`DOES_NOT_MEET`, :data:`NOT_CONCLUSIVE` and :data:`NOT_JUDGED`;
+:data:`DOES_NOT_MEET`, :data:`NOT_CONCLUSIVE`, :data:`NOT_JUDGED` and
+:data:`NO_CRITERION`;
 :func:`zero_air_voids_dry_density` and :func:`constant_saturation_dry_density`;
 :func:`fit_compaction_curve`, :func:`compaction_curves` (:class:`CompactionCurve`) and
 :func:`line_of_optimums` (:class:`LineOfOptimums`); :func:`acceptable_zone`
@@ -45,7 +47,8 @@ its modules: :data:`REQUIRED_COLUMNS`; :class:`Criterion`, :func:`as_criterion`,
 :func:`chapuis_conductivity`, :func:`kozeny_carman_ratio` and :func:`grading_predictions`
 (:class:`GradingPrediction`), with the ranges they hold in, :data:`HAZEN_VALIDITY`,
 :data:`CHAPUIS_VALIDITY` and :data:`KOZENY_CARMAN_VALIDITY`; :func:`analyse_series`
-(:class:`SeriesAnalysis`), :data:`ANALYSIS_METHODS`, :data:`SATURATION_LINES` and :data:`VERDICTS`.
+(:class:`SeriesAnalysis`), :data:`ANALYSIS_METHODS`, :data:`SATURATION_LINES`, :data:`VERDICTS`,
+:data:`VERDICTS_WITHOUT_CRITERION` and :data:`NO_CRITERION_NOTE`.
 
 References
 ----------
@@ -95,6 +98,7 @@ from .criterion import (
     CRITERION_KINDS,
     DOES_NOT_MEET,
     MEETS,
+    NO_CRITERION,
     NOT_CONCLUSIVE,
     NOT_JUDGED,
     Criterion,
@@ -128,8 +132,10 @@ from .saturation_lines import (
 )
 from .series_analysis import (
     ANALYSIS_METHODS,
+    NO_CRITERION_NOTE,
     SATURATION_LINES,
     VERDICTS,
+    VERDICTS_WITHOUT_CRITERION,
     SeriesAnalysis,
     analyse_series,
 )
@@ -178,12 +184,15 @@ __all__ = [
     "MEETS",
     "NextSpecimen",
     "NOT_CONCLUSIVE",
+    "NO_CRITERION",
+    "NO_CRITERION_NOTE",
     "NOT_JUDGED",
     "parse_criterion",
     "REQUIRED_COLUMNS",
     "SATURATION_LINES",
     "SeriesAnalysis",
     "VERDICTS",
+    "VERDICTS_WITHOUT_CRITERION",
     "VoidRatioTrend",
     "zero_air_voids_dry_density",
 ]

@@ -6,7 +6,8 @@ filter). :func:`parse_criterion` reads one as a person types it (the notebook pa
 the command line). :func:`classify_against_criterion` compares each k and its interval with
 it: meets, does not meet, or not conclusive where the interval straddles the limit. A test
 that is not valid gets none of these: it is :data:`NOT_JUDGED` (see
-:mod:`kitchen.analysis.result_selection`).
+:mod:`kitchen.analysis.result_selection`); where no criterion is given at all, a valid test
+is :data:`NO_CRITERION`.
 """
 
 from __future__ import annotations
@@ -26,6 +27,7 @@ __all__ = [
     "DOES_NOT_MEET",
     "NOT_CONCLUSIVE",
     "NOT_JUDGED",
+    "NO_CRITERION",
     "CRITERION_KINDS",
     "Criterion",
     "as_criterion",
@@ -40,6 +42,11 @@ NOT_CONCLUSIVE = "not conclusive"
 NOT_JUDGED = "not judged (test not valid)"
 """The verdict of a test that failed a validity check and is not kept on record: its k is
 not compared with the criterion, so it neither meets nor fails it (the tool's own rule)."""
+NO_CRITERION = "no criterion given"
+"""The verdict of a valid test when no criterion was given anywhere (not typed, and none in
+the series' project table): its k is not compared with any limit, so it neither meets nor
+fails one. A liner's limit is never assumed for a series that states none (the tool's own
+rule)."""
 
 
 CRITERION_KINDS = ("maximum", "minimum")
@@ -56,8 +63,8 @@ class Criterion(float):
     Examples
     --------
     >>> c = Criterion(1e-4, "minimum")
-    >>> c.symbol, float(c) * 100
-    ('≥', 0.01)
+    >>> c.symbol, c.bound, float(c) * 100
+    ('≥', 'at least', 0.01)
     """
 
     kind: str
@@ -87,6 +94,12 @@ class Criterion(float):
     def words(self) -> str:
         """The criterion's role in words: ``largest k allowed`` or ``smallest k required``."""
         return "largest k allowed" if self.kind == "maximum" else "smallest k required"
+
+    @property
+    def bound(self) -> str:
+        """The side of the limit that meets it, in words: ``at most`` for a maximum, ``at
+        least`` for a minimum (for the acceptable zone: k at most, or at least, the limit)."""
+        return "at most" if self.kind == "maximum" else "at least"
 
 
 def as_criterion(value, kind: str | None = None) -> Criterion:

@@ -9,7 +9,8 @@ The rules, each said in a note where it applies:
 - validity comes before compliance: a test that is not valid, and not kept on record, is
   :data:`~kitchen.analysis.criterion.NOT_JUDGED` — never "meets" nor "does not meet";
 - a judged specimen without an interval on k is not conclusive; the others are judged by
-  their interval against the criterion;
+  their interval against the criterion; where no criterion is given, a judged specimen is
+  :data:`~kitchen.analysis.criterion.NO_CRITERION`;
 - the saturation lines take the median Gs of the specimens.
 """
 
@@ -20,7 +21,7 @@ from collections.abc import Mapping
 import numpy as np
 import pandas as pd
 
-from .criterion import NOT_CONCLUSIVE, NOT_JUDGED, classify_against_criterion
+from .criterion import NO_CRITERION, NOT_CONCLUSIVE, NOT_JUDGED, classify_against_criterion
 
 __all__ = ["REQUIRED_COLUMNS"]
 
@@ -94,11 +95,13 @@ def one_result_per_specimen(results: pd.DataFrame, notes: list[str], kept=None) 
     return results.iloc[sorted(chosen.values())].reset_index(drop=True)
 
 
-def usable_conductivity(frame: pd.DataFrame, notes: list[str]) -> pd.DataFrame:
+def usable_conductivity(
+    frame: pd.DataFrame, notes: list[str], criterion_given: bool = True
+) -> pd.DataFrame:
     """The rows with a positive k, with ``k``, ``k_low`` and ``k_high`` added.
 
     The interval is NaN where it does not bound k; each specimen left out, and each left
-    without an interval, is noted.
+    without an interval, is noted (the latter only when there is a criterion to judge by).
     """
 
     def numbers(column):
@@ -118,7 +121,7 @@ def usable_conductivity(frame: pd.DataFrame, notes: list[str]) -> pd.DataFrame:
         if "judged" in frame.columns
         else np.ones(k.size, dtype=bool)
     )
-    for specimen in specimens[usable][judged & ~bounded]:
+    for specimen in specimens[usable][judged & ~bounded & criterion_given]:
         notes.append(f"specimen {specimen}: no interval on k, so its verdict is not conclusive")
     out = frame.iloc[np.flatnonzero(usable)].reset_index(drop=True)
     return out.assign(
@@ -163,12 +166,13 @@ def validity_on_record(frame: pd.DataFrame, kept, notes: list[str]) -> pd.DataFr
     return frame.assign(valid=valid, kept_on_record=records, judged=valid | on_record)
 
 
-def criterion_verdicts(frame: pd.DataFrame, criterion: float) -> np.ndarray:
+def criterion_verdicts(frame: pd.DataFrame, criterion: float | None) -> np.ndarray:
     """Each row's verdict from its interval against `criterion`: not judged where the row
     is not ``judged`` (a test not valid, not kept on record), not conclusive where it has
-    no interval."""
-    verdict = np.full(len(frame), NOT_CONCLUSIVE, dtype=object)
-    bounded = frame["k_low"].notna().to_numpy()
+    no interval; "no criterion given" for every judged row when `criterion` is None."""
+    verdict = np.full(len(frame), NOT_CONCLUSIVE if criterion is not None else NO_CRITERION)
+    verdict = verdict.astype(object)
+    bounded = frame["k_low"].notna().to_numpy() & (criterion is not None)
     if bounded.any():
         verdict[bounded] = np.asarray(
             classify_against_criterion(

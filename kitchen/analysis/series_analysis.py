@@ -23,7 +23,14 @@ import pandas as pd
 
 from .compaction import LineOfOptimums, compaction_curves, line_of_optimums
 from .compaction_zone import AcceptableZone, acceptable_zone
-from .criterion import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE, NOT_JUDGED, Criterion
+from .criterion import (
+    DOES_NOT_MEET,
+    MEETS,
+    NO_CRITERION,
+    NOT_CONCLUSIVE,
+    NOT_JUDGED,
+    Criterion,
+)
 from .fitted_zone import FITTED_ZONE_ASSUMPTIONS, FITTED_ZONE_METHOD, FittedZone, fit_zone
 from .grading import KOZENY_CARMAN_VALIDITY, grading_predictions, kozeny_carman_ratio
 from .result_selection import REQUIRED_COLUMNS as REQUIRED_COLUMNS
@@ -45,11 +52,30 @@ from .trends import (
     geometric_mean_conductivity,
 )
 
-__all__ = ["ANALYSIS_METHODS", "SeriesAnalysis", "analyse_series", "VERDICTS", "SATURATION_LINES"]
+__all__ = [
+    "ANALYSIS_METHODS",
+    "NO_CRITERION_NOTE",
+    "SeriesAnalysis",
+    "analyse_series",
+    "VERDICTS",
+    "VERDICTS_WITHOUT_CRITERION",
+    "SATURATION_LINES",
+]
 
 VERDICTS = (MEETS, DOES_NOT_MEET, NOT_CONCLUSIVE, NOT_JUDGED)
 """The verdicts, in the order the charts list them: the three against the criterion, then
 that of a test not valid, which is not judged against it."""
+
+VERDICTS_WITHOUT_CRITERION = (NO_CRITERION, NOT_JUDGED)
+"""The verdicts of an analysis without a criterion: a valid test (or one kept on record) is
+"no criterion given", one not valid is not judged; the specimens differ by validity only."""
+
+NO_CRITERION_NOTE = (
+    "no criterion given: no verdicts and no acceptable zone; give one in the series' project "
+    "table (project.csv, or a sheet 'project' of a workbook), with --criterion, or in the "
+    "panel's criterion box"
+)
+"""The note of an analysis run without a criterion."""
 
 ANALYSIS_METHODS = (
     (
@@ -77,6 +103,14 @@ ANALYSIS_METHODS = (
         "criterion (or there is no interval)",
         "the tool's own rule; criterion from the project specification (1×10⁻⁹ m/s is "
         "common for liners: US 40 CFR 258.40, EU Directive 1999/31/EC Annex I)",
+    ),
+    (
+        "the criterion in force",
+        "a criterion typed for the analysis (command line, panel) overrides the series' own "
+        "(its project table); where none is given anywhere, no verdict is drawn and no "
+        "acceptable zone: each specimen is 'no criterion given', or not judged when its test "
+        "is not valid; the fits are drawn as usual",
+        "the tool's own rule: no limit is assumed for a series that states none",
     ),
     (
         "compaction curve",
@@ -146,9 +180,11 @@ class SeriesAnalysis:
 
     Attributes
     ----------
-    criterion : Criterion
+    criterion : Criterion or None
         Largest conductivity allowed (kind ``"maximum"``) or smallest required (kind
-        ``"minimum"``); a float in m/s. [m/s]
+        ``"minimum"``); a float in m/s. None when no criterion was given: then no verdict
+        is drawn (every judged specimen is :data:`NO_CRITERION`) and there is no acceptable
+        zone, drawn or fitted. [m/s]
     reference_temperature : float
         Temperature the conductivities are corrected to, for labels. [degC]
     confidence : float
@@ -159,7 +195,7 @@ class SeriesAnalysis:
         its interval), ``valid`` (bool), ``kept_on_record`` (the engineer's record, in
         words, of a test kept despite a failed check; "" otherwise), ``judged`` (bool: valid
         or kept on record; only judged specimens enter the zone, the compaction curves, the
-        trends and the geometric mean), ``verdict`` (one of :data:`VERDICTS`: not judged
+        trends and the geometric mean), ``verdict`` (one of :attr:`verdicts`: not judged
         where ``judged`` is False), ``meets`` (bool),
         ``water_content_from_optimum`` [-] (NaN where the effort has no optimum),
         ``on_compaction_plane`` (bool: has a water content) and ``in_zone`` (bool).
@@ -168,7 +204,7 @@ class SeriesAnalysis:
     compaction_curves : mapping of effort to CompactionCurve
     line_of_optimums : LineOfOptimums or None
     acceptable_zone : AcceptableZone or None
-        None when no specimen has a water content.
+        None when no specimen has a water content, or no criterion was given.
     void_ratio_trend : VoidRatioTrend or None
     dry_density_trend : ConductivityTrend or None
         Fitted on dry density in kg/m3.
@@ -185,10 +221,11 @@ class SeriesAnalysis:
     fitted_zone : FittedZone or None
         log10 k20 fitted over the compaction plane on the judged specimens, and where its
         prediction bound meets the criterion (:func:`kitchen.analysis.fit_zone`); None
-        when the data do not allow it (the reason is in ``notes``).
+        when the data do not allow it, or no criterion was given (the reason is in
+        ``notes``).
     """
 
-    criterion: Criterion
+    criterion: Criterion | None
     reference_temperature: float
     confidence: float
     specimens: pd.DataFrame
@@ -206,10 +243,34 @@ class SeriesAnalysis:
     fitted_zone: FittedZone | None = None
 
     @property
+    def verdicts(self) -> tuple[str, ...]:
+        """The verdicts a specimen may get here, in the order the charts list them:
+        :data:`VERDICTS` against a criterion, :data:`VERDICTS_WITHOUT_CRITERION` without."""
+        return VERDICTS if self.criterion is not None else VERDICTS_WITHOUT_CRITERION
+
+    @property
+    def zone_drawn(self) -> bool:
+        """Whether there is an acceptable zone to lie in: a criterion was given and the
+        specimens have water contents (``in_zone`` is False for every specimen otherwise,
+        which says nothing about a zone that is not drawn)."""
+        return self.acceptable_zone is not None
+
+    def zone_membership(self) -> pd.Series:
+        """Whether each specimen lies in the acceptable zone, as the tables show it: True
+        or False where a zone is drawn and the specimen is on the compaction plane, ``<NA>``
+        where there is no zone for it to lie in (no criterion given, no water contents).
+        A nullable boolean Series aligned with :attr:`specimens`."""
+        rows = self.specimens
+        shown = rows["on_compaction_plane"].to_numpy(dtype=bool) & self.zone_drawn
+        values = pd.array(rows["in_zone"].to_numpy(dtype=bool), dtype="boolean")
+        values[~shown] = pd.NA
+        return pd.Series(values, index=rows.index, name="in_zone")
+
+    @property
     def counts(self) -> dict[str, int]:
-        """Number of specimens per verdict, in the order of :data:`VERDICTS`."""
+        """Number of specimens per verdict, in the order of :attr:`verdicts`."""
         verdicts = self.specimens["verdict"]
-        return {verdict: int((verdicts == verdict).sum()) for verdict in VERDICTS}
+        return {verdict: int((verdicts == verdict).sum()) for verdict in self.verdicts}
 
     def saturation_line(self, water_content, saturation):
         """Dry density on the constant-saturation line of the series' Gs. [kg/m3]
@@ -265,7 +326,7 @@ def _trend(frame, column, name, notes, confidence, label):
 
 def analyse_series(
     results: pd.DataFrame,
-    criterion: float,
+    criterion: float | None = None,
     reference_temperature: float = 20.0,
     confidence: float = 0.95,
     curve_method: str = "quadratic",
@@ -281,10 +342,13 @@ def analyse_series(
         ``dry_density`` [kg/m3], ``void_ratio`` [-], ``saturation`` [-],
         ``specific_gravity`` [-], ``d10`` [m], ``k_reference``, ``k_reference_low``,
         ``k_reference_high`` [m/s], and ``valid`` when present.
-    criterion : float or Criterion
+    criterion : float or Criterion, optional
         Largest conductivity allowed (a number), or a :class:`kitchen.analysis.criterion.Criterion`
         of either kind (a drainage layer's smallest k required), from the project
-        specification. [m/s]
+        specification. [m/s] None (the default) when none was given: no verdict is drawn
+        (each judged specimen is :data:`~kitchen.analysis.criterion.NO_CRITERION`), no
+        acceptable zone, drawn or fitted, and a note says so; the compaction curves, the
+        trends and the geometric mean are computed as with one. No limit is ever assumed.
     reference_temperature : float, default 20.0
         Temperature the results are corrected to, carried for labels. [degC]
     confidence : float, default 0.95
@@ -320,17 +384,24 @@ def analyse_series(
     :mod:`kitchen.analysis.compaction` and :mod:`kitchen.analysis.trends`.
     """
     require_results_table(results)
-    kind = criterion.kind if isinstance(criterion, Criterion) else "maximum"
-    try:
-        limit = float(criterion)
-    except (TypeError, ValueError):
-        raise ValueError(f"criterion: expected a conductivity in m/s, got {criterion!r}") from None
-    if not np.isfinite(limit) or limit <= 0:
-        raise ValueError(f"criterion: expected a positive conductivity in m/s, got {criterion!r}")
-    criterion = Criterion(limit, kind)
-    notes: list[str] = []
+    if criterion is not None:
+        kind = criterion.kind if isinstance(criterion, Criterion) else "maximum"
+        try:
+            limit = float(criterion)
+        except (TypeError, ValueError):
+            raise ValueError(
+                f"criterion: expected a conductivity in m/s, got {criterion!r}"
+            ) from None
+        if not np.isfinite(limit) or limit <= 0:
+            raise ValueError(
+                f"criterion: expected a positive conductivity in m/s, got {criterion!r}"
+            )
+        criterion = Criterion(limit, kind)
+    notes: list[str] = [] if criterion is not None else [NO_CRITERION_NOTE]
     chosen = one_result_per_specimen(results, notes, kept)
-    frame = usable_conductivity(validity_on_record(chosen, kept, notes), notes)
+    frame = usable_conductivity(
+        validity_on_record(chosen, kept, notes), notes, criterion is not None
+    )
     if frame.empty:
         raise ValueError("results table: no specimen has a usable conductivity")
     # every column is formed as an array and set in two passes: a dozen specimens make
@@ -370,29 +441,30 @@ def analyse_series(
             optimums = _recorded(lambda: line_of_optimums(curves), notes)
             if optimums is not None and optimums.message:
                 notes.append(optimums.message)
-        zone = _recorded(
-            lambda: acceptable_zone(
-                plane["water_content"],
-                plane["dry_density"],
-                plane["meets"],
-                names=plane["specimen"],
-                verdicts=plane["verdict"].to_numpy(),
-            ),
-            notes,
-        )
-        if zone is not None and zone.message:
-            notes.append(f"acceptable zone: {zone.message}")
-        fitted = _recorded(
-            lambda: fit_zone(
-                judged_plane["water_content"],
-                judged_plane["dry_density"],
-                judged_plane["k"],
-                criterion,
-                judged_plane["effort"],
-                confidence,
-            ),
-            notes,
-        )
+        if criterion is not None:  # without one there is no zone to draw or fit
+            zone = _recorded(
+                lambda: acceptable_zone(
+                    plane["water_content"],
+                    plane["dry_density"],
+                    plane["meets"],
+                    names=plane["specimen"],
+                    verdicts=plane["verdict"].to_numpy(),
+                ),
+                notes,
+            )
+            if zone is not None and zone.message:
+                notes.append(f"acceptable zone: {zone.message}")
+            fitted = _recorded(
+                lambda: fit_zone(
+                    judged_plane["water_content"],
+                    judged_plane["dry_density"],
+                    judged_plane["k"],
+                    criterion,
+                    judged_plane["effort"],
+                    confidence,
+                ),
+                notes,
+            )
         if fitted is not None:
             notes.append(fitted.summary)
     in_zone = np.zeros(len(frame), dtype=bool)

@@ -1,9 +1,10 @@
 """The pieces the series charts share: specimen markers, hover texts, the criterion, the k axis.
 
 Each specimen is drawn with the marker shape of its compactive effort and the fill and
-colour of its verdict against the criterion (or of a test not judged, not valid); efforts
-are ordered by their mean dry density. The log-k axis spans the data and, when it lies
-near, the criterion line; a criterion far outside is named in a note instead. Used by
+colour of its verdict against the criterion (or of a test not judged, not valid; without a
+criterion, of its validity alone); efforts are ordered by their mean dry density. The log-k
+axis spans the data and, when it lies near, the criterion line; a criterion far outside is
+named in a note instead, and without a criterion no line is drawn. Used by
 :mod:`kitchen.charts.compaction` and :mod:`kitchen.charts.conductivity_trend`.
 """
 
@@ -15,7 +16,7 @@ import numpy as np
 import pandas as pd
 import plotly.graph_objects as go
 
-from kitchen.analysis import VERDICTS, SeriesAnalysis
+from kitchen.analysis import SeriesAnalysis
 from kitchen.display_units import DisplayUnit, scientific
 from kitchen.settings import reference_label
 
@@ -137,7 +138,7 @@ def specimen_trace_specs(
     styles = effort_styles(frame, order)
     labels = _effort_labels(frame)
     verdicts = frame["verdict"].to_numpy(dtype=object)
-    is_verdict = {v: verdicts == v for v in VERDICTS}
+    is_verdict = {v: verdicts == v for v in analysis.verdicts}
     if hover is None:
         hover = np.array(hover_texts(frame, unit, analysis), dtype=object)
     names = np.array([html_escaped(v) for v in frame["specimen"]], dtype=object)
@@ -145,7 +146,7 @@ def specimen_trace_specs(
     x, y = np.asarray(x), np.asarray(y)
     traces = []
     for effort in order:
-        for verdict in VERDICTS:
+        for verdict in analysis.verdicts:
             mask = (labels == effort) & is_verdict[verdict]
             if not mask.any():
                 continue
@@ -197,7 +198,7 @@ def criterion_trace(analysis, x_range, unit: DisplayUnit, show_legend=True) -> g
 
 
 def criterion_spec(analysis, x_range, unit: DisplayUnit, show_legend=True) -> dict:
-    """The criterion line as a trace's properties."""
+    """The criterion line as a trace's properties (the analysis must have a criterion)."""
     value = analysis.criterion * unit.factor
     return dict(
         type="scatter",
@@ -229,7 +230,8 @@ CRITERION_REACH = 2.0
 def k_axis_layout(analysis, unit: DisplayUnit, extra=()) -> tuple[dict, str]:
     """Log k axis over the data (and the criterion when near); a note when it is left off.
 
-    `extra` holds more values to keep in range, already in the display unit.
+    `extra` holds more values to keep in range, already in the display unit. Without a
+    criterion the axis spans the data alone, with no note.
     """
     values = np.concatenate(
         [analysis.specimens[c].to_numpy(float) * unit.factor for c in ("k", "k_low", "k_high")]
@@ -237,17 +239,18 @@ def k_axis_layout(analysis, unit: DisplayUnit, extra=()) -> tuple[dict, str]:
     )
     values = values[np.isfinite(values) & (values > 0)]
     low, high = float(np.log10(values.min())), float(np.log10(values.max()))
-    criterion = float(np.log10(analysis.criterion * unit.factor))
     note = ""
-    if low - CRITERION_REACH <= criterion <= high + CRITERION_REACH:
-        low, high = min(low, criterion), max(high, criterion)
-    else:
-        side = "below" if criterion < low else "above"
-        note = (
-            f"criterion k {analysis.criterion.symbol} "
-            f"{scientific(analysis.criterion * unit.factor, html=True)} "
-            f"{unit.unit} lies far {side} the plotted range"
-        )
+    if analysis.criterion is not None:  # without one, the axis spans the data alone
+        criterion = float(np.log10(analysis.criterion * unit.factor))
+        if low - CRITERION_REACH <= criterion <= high + CRITERION_REACH:
+            low, high = min(low, criterion), max(high, criterion)
+        else:
+            side = "below" if criterion < low else "above"
+            note = (
+                f"criterion k {analysis.criterion.symbol} "
+                f"{scientific(analysis.criterion * unit.factor, html=True)} "
+                f"{unit.unit} lies far {side} the plotted range"
+            )
     pad = max(0.15, 0.06 * (high - low))
     axis = dict(
         type="log", range=[low - pad, high + pad], exponentformat="power", showexponent="all"

@@ -85,7 +85,8 @@ def _zone_specs(analysis: SeriesAnalysis, frame, density_factor: float, axes: di
                 if polygon
                 else None,
                 line=dict(color=ZONE, width=1.6, dash="dot"),
-                name=f"drawn zone ({zone.kind}): hull of specimens that meet, no other inside",
+                name=f"drawn zone ({zone.kind}): hull of specimens that meet (k "
+                f"{analysis.criterion.bound} the criterion), no other inside",
                 legendgroup="zone",
                 hoverinfo="name",
                 **axes,
@@ -201,6 +202,22 @@ def compaction_conductivity_figure(
     criterion.
     """
     return go.Figure(compaction_conductivity_spec(analysis, k_unit_name, density_unit_name))
+
+
+def _key(analysis: SeriesAnalysis, ku) -> str:
+    """The subtitle: the criterion and what the marker fills mean (validity alone when no
+    criterion was given)."""
+    if analysis.criterion is None:
+        return (
+            "no criterion given: no verdicts and no acceptable zone; solid: valid, "
+            "pale: not judged (test not valid)"
+        )
+    return (
+        f"criterion k {analysis.criterion.symbol} "
+        f"{scientific(analysis.criterion * ku.factor, html=True)} "
+        f"{ku.unit}; filled: meets, open: does not meet, dotted: not conclusive, "
+        "pale: not judged (test not valid)"
+    )
 
 
 def compaction_conductivity_spec(
@@ -334,7 +351,7 @@ def compaction_conductivity_spec(
     data += specimen_trace_specs(
         plane, w_pct, frame["k"] * ku.factor, ku, False, shortest, order, hover, **bottom
     )
-    if not note:
+    if not note and analysis.criterion is not None:
         data.append(dict(criterion_spec(analysis, x_range, ku), **bottom))
     if note:
         annotations.append(dict(note_spec(note), xref="x2 domain", yref="y2 domain"))
@@ -349,11 +366,7 @@ def compaction_conductivity_spec(
         ),
         yaxis2=dict(axes["yaxis2"], title=dict(text=k_title), **k_axis),
         title=dict(
-            text="Compaction and hydraulic conductivity"
-            f"<br><sup>criterion k {analysis.criterion.symbol} "
-            f"{scientific(analysis.criterion * ku.factor, html=True)} "
-            f"{ku.unit}; filled: meets, open: does not meet, dotted: not conclusive, "
-            "pale: not judged (test not valid)</sup>"
+            text=f"Compaction and hydraulic conductivity<br><sup>{_key(analysis, ku)}</sup>"
         ),
         margin=dict(t=95, b=60),
         legend=dict(orientation="h", x=0.0, xanchor="left", y=-0.075, yanchor="top"),

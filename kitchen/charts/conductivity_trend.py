@@ -160,7 +160,7 @@ def conductivity_trend_figure(
     shortest = ERROR_BAR_FRACTION * (k_axis["range"][1] - k_axis["range"][0])
     for trace in specimen_traces(plotted, x * scale, frame["k"] * ku.factor, ku, True, shortest):
         figure.add_trace(trace)
-    if not note:
+    if not note and analysis.criterion is not None:
         figure.add_trace(criterion_trace(analysis, x_range, ku))
     add_note(figure, note)
     figure.update_xaxes(title_text=title, range=list(x_range))

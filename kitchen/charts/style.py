@@ -17,7 +17,7 @@ from functools import lru_cache
 import numpy as np
 import plotly.graph_objects as go
 
-from kitchen.analysis import DOES_NOT_MEET, MEETS, NOT_CONCLUSIVE, NOT_JUDGED
+from kitchen.analysis import DOES_NOT_MEET, MEETS, NO_CRITERION, NOT_CONCLUSIVE, NOT_JUDGED
 
 __all__ = [
     "EFFORT_DASHES",
@@ -54,9 +54,18 @@ VERDICT_COLOURS = {
     DOES_NOT_MEET: "#a33b20",
     NOT_CONCLUSIVE: "#a87a12",
     NOT_JUDGED: "#4a5d7e",
+    NO_CRITERION: "#3d4650",
 }
-"""The colour of each verdict: its marker's outline and its error bar."""
-VERDICT_FILL = {MEETS: "", DOES_NOT_MEET: "-open", NOT_CONCLUSIVE: "-open-dot", NOT_JUDGED: ""}
+"""The colour of each verdict: its marker's outline and its error bar. A valid test with no
+criterion to be judged against is drawn solid in a dark grey, a test not judged pale: with
+no criterion the markers tell validity only."""
+VERDICT_FILL = {
+    MEETS: "",
+    DOES_NOT_MEET: "-open",
+    NOT_CONCLUSIVE: "-open-dot",
+    NOT_JUDGED: "",
+    NO_CRITERION: "",
+}
 """The suffix each verdict adds to its effort's marker symbol."""
 VERDICT_FACE = {**VERDICT_COLOURS, NOT_JUDGED: "#c9d0da"}
 """The colour inside each verdict's marker (for an open symbol, plotly draws its outline

@@ -48,7 +48,7 @@ from pathlib import Path
 from kitchen import display_units
 from kitchen.analysis import SeriesAnalysis
 from kitchen.cautions import CAUTIONS
-from kitchen.io import atomic_write_bytes, spreadsheet_safe
+from kitchen.io import atomic_write_bytes, project_settings_path, spreadsheet_safe
 from kitchen.revisions import kept_log_sha256, standing_choices
 from kitchen.revisions import window_log_sha256 as window_log_digest
 from kitchen.settings import Settings, reference_label
@@ -100,6 +100,18 @@ class MemoPack:
 
     def __len__(self) -> int:
         return len(self.files)
+
+
+def _criterion_text(analysis: SeriesAnalysis, ku, label: str) -> str:
+    """The criterion of an analysis in words, in the unit `ku`: ``criterion k20 ≤ 1×10⁻⁹
+    m/s (largest k allowed)``, or, without one, that none was given and no verdict drawn."""
+    criterion = analysis.criterion
+    if criterion is None:
+        return "no criterion given: no verdicts drawn"
+    return (
+        f"criterion {label} {criterion.symbol} "
+        f"{display_units.scientific(criterion * ku.factor)} {ku.unit} ({criterion.words})"
+    )
 
 
 def _caption(provenance: Provenance, criterion_text: str) -> list[str]:
@@ -163,7 +175,8 @@ def export_memo_pack(
     workspace: Workspace,
     out: str | Path,
     *,
-    criterion: float = 1e-9,
+    criterion: float | None = None,
+    criterion_source: str | None = None,
     k_unit: str = "m/s",
     density_unit: str = "Mg/m³",
     images: bool = True,
@@ -181,10 +194,15 @@ def export_memo_pack(
         specimen is reduced twice.
     out : str or pathlib.Path
         Folder for the pack; created when missing.
-    criterion : float or Criterion, default 1e-9
+    criterion : float or Criterion, optional
         Largest conductivity allowed (a number), or a :class:`kitchen.analysis.Criterion` of
         either kind (a drainage layer's smallest k required), from the project
-        specification. [m/s]
+        specification; it overrides the series' own. [m/s] None (the default): the
+        criterion of the series' project table, and where it has none, no verdict is drawn
+        and the report says so (:meth:`kitchen.workspace.Workspace.analysis`).
+    criterion_source : str, optional
+        Where a `criterion` given here comes from, in words, for the report and the
+        provenance (``"given on the command line"``); default ``"given for this export"``.
     k_unit : {"m/s", "cm/s"}
         Conductivity unit of the charts and the report.
     density_unit : {"Mg/m³", "kN/m³", "lb/ft³"}
@@ -226,17 +244,19 @@ def export_memo_pack(
     out = Path(out)
     previous = read_manifest(out)  # an unreadable manifest stops the export here
     results = workspace.results()
-    analysis = workspace.analysis(criterion)
+    given = criterion
+    _, source = workspace.criterion_in_force(given)
+    if given is not None:
+        source = criterion_source or "given for this export"
+    analysis = workspace.analysis(given)
     criterion = analysis.criterion
     label = reference_label(settings)
-    criterion_text = (
-        f"criterion {label} {criterion.symbol} "
-        f"{display_units.scientific(criterion * ku.factor)} {ku.unit} ({criterion.words})"
-    )
+    criterion_text = _criterion_text(analysis, ku, label)
     chosen = {
         **_settings_dict(settings),
-        "criterion [m/s]": f"{criterion:g}",
-        "criterion kind": criterion.kind,
+        "criterion [m/s]": "none given" if criterion is None else f"{criterion:g}",
+        "criterion kind": "none given" if criterion is None else criterion.kind,
+        "criterion from": source,
         "k unit": ku.unit,
         "density unit": du.unit,
         "confidence": f"{analysis.confidence:g}",
@@ -252,8 +272,12 @@ def export_memo_pack(
         if capillary_rises
         else "none (see capillary_rise)",
     }
+    project_file, _ = project_settings_path(series.source)
+    inputs = list(series.input_files)
+    if project_file.is_file() and project_file not in inputs:
+        inputs.append(project_file)  # the project table: the criterion, when it has one
     provenance = memo_provenance(
-        series.input_files,
+        inputs,
         series.name,
         series.source,
         chosen,
@@ -327,6 +351,7 @@ def export_memo_pack(
             du,
             criterion_text,
             skipped,
+            source,
         ).encode("utf-8"),
     )
     manifest, removed = write_manifest(out, written, previous)

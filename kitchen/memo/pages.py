@@ -21,9 +21,9 @@ from kitchen.analysis import (
     HAZEN_VALIDITY,
     KOZENY_CARMAN_VALIDITY,
     MEETS,
+    NO_CRITERION,
     NOT_CONCLUSIVE,
     NOT_JUDGED,
-    VERDICTS,
     SeriesAnalysis,
 )
 from kitchen.display_units import DisplayUnit, distinct_texts, scientific
@@ -67,9 +67,16 @@ REDUCTION_METHODS = (
 )
 """(step, method, source) of the test reductions (the README's methods table)."""
 
-VERDICT_MARKS = {MEETS: "●", DOES_NOT_MEET: "○", NOT_CONCLUSIVE: "◎", NOT_JUDGED: "◍"}
+VERDICT_MARKS = {
+    MEETS: "●",
+    DOES_NOT_MEET: "○",
+    NOT_CONCLUSIVE: "◎",
+    NOT_JUDGED: "◍",
+    NO_CRITERION: "◆",
+}
 """The mark beside each verdict: the fill of its marker on the charts (a half-tone for a
-test not judged)."""
+test not judged; a solid marker in the ink colour for a valid test with no criterion to be
+judged against)."""
 
 
 def _script_row(script: ChartScript) -> tuple[str, str]:
@@ -155,7 +162,9 @@ def chart_page(
 
 def _specimen_rows(analysis: SeriesAnalysis, ku: DisplayUnit, du: DisplayUnit) -> list:
     rows = []
-    for _, row in analysis.specimens.iterrows():
+    # yes or no where a zone is drawn; "–" where there is no zone for the specimen to lie in
+    zones = ["–" if pd.isna(v) else ("yes" if v else "no") for v in analysis.zone_membership()]
+    for (_, row), zone in zip(analysis.specimens.iterrows(), zones, strict=True):
         interval = "–"
         k_text = scientific(row["k"] * ku.factor, html=True)
         if pd.notna(row["k_low"]):
@@ -176,7 +185,7 @@ def _specimen_rows(analysis: SeriesAnalysis, ku: DisplayUnit, du: DisplayUnit) -
                 interval,
                 _validity_text(row),
                 f"{VERDICT_MARKS[row['verdict']]} {escape(row['verdict'])}",
-                "yes" if row["in_zone"] else "no",
+                zone,
             )
         )
     return rows
@@ -194,6 +203,15 @@ def _validity_text(row) -> str:
 def _verdict_rule(analysis: SeriesAnalysis, label: str) -> str:
     """How a verdict is reached against the analysis's criterion, as HTML."""
     interval = f"{100 * analysis.confidence:g} % interval of {label}"
+    if analysis.criterion is None:
+        return (
+            f"none drawn: no criterion was given (none typed, none in the series' project "
+            f"table), so {VERDICT_MARKS[NO_CRITERION]} every valid test is marked "
+            f"'{NO_CRITERION}' and no limit is assumed. Validity still shows: "
+            f"{VERDICT_MARKS[NOT_JUDGED]} a test that failed a validity check is not judged, "
+            "and is not used to fit the trends, unless the engineer keeps it on record with "
+            "a reason."
+        )
     if analysis.criterion.kind == "minimum":
         meets, fails = "lower end", "upper end"
         meets_how, fails_how = "at or above", "below"
@@ -213,11 +231,19 @@ def _verdict_rule(analysis: SeriesAnalysis, label: str) -> str:
 
 def _summary(analysis: SeriesAnalysis, ku: DisplayUnit, criterion_text: str) -> str:
     counts = analysis.counts
-    words = ", ".join(f"{VERDICT_MARKS[v]} {escape(v)}: {counts[v]}" for v in VERDICTS)
-    parts = [
-        f"<p>Against the {escape(criterion_text)}: {words} (of {len(analysis.specimens)} "
-        "specimens).</p>"
-    ]
+    words = ", ".join(f"{VERDICT_MARKS[v]} {escape(v)}: {counts[v]}" for v in analysis.verdicts)
+    if analysis.criterion is None:
+        parts = [
+            "<p>No criterion given (none typed, none in the series' project table): no "
+            "verdict is drawn and there is no acceptable zone. Give one in the series' "
+            f"project table or with <code>--criterion</code>. {words} (of "
+            f"{len(analysis.specimens)} specimens).</p>"
+        ]
+    else:
+        parts = [
+            f"<p>Against the {escape(criterion_text)}: {words} (of {len(analysis.specimens)} "
+            "specimens).</p>"
+        ]
     mean = analysis.geometric_mean
     if mean is not None:
         parts.append(
@@ -346,6 +372,7 @@ def report_page(
     du: DisplayUnit,
     criterion_text: str,
     skipped=(),
+    criterion_source: str = "",
 ) -> str:
     """The report of a series, at the top of the memo pack.
 
@@ -366,6 +393,9 @@ def report_page(
         The criterion in words.
     skipped : iterable of str
         Charts not drawn, and why.
+    criterion_source : str, optional
+        Where the criterion comes from, in words (``"from the series' project table
+        (project.csv, row 2, column 'value')"``, ``"given on the command line"``).
     """
     label = reference_label(analysis.reference_temperature)
     title = f"Hydraulic conductivity of series {provenance.series}"
@@ -398,12 +428,28 @@ def report_page(
         ["step", "method", "source"],
         [(escape(a), escape(b), escape(c)) for a, b, c in REDUCTION_METHODS + ANALYSIS_METHODS],
     )
+    criterion = analysis.criterion
     zone = "not drawn (no water contents)"
-    if analysis.acceptable_zone is not None:
+    if criterion is None:
+        zone = "not drawn (no criterion given)"
+    elif analysis.acceptable_zone is not None:
         zone = escape(analysis.acceptable_zone.method)
+    if criterion is not None:  # the zone's words follow the criterion's kind
+        bound = f"{criterion.bound} {scientific(criterion * ku.factor)} {ku.unit}"
+        zone = f"where {escape(label)} is {escape(bound)} ({escape(criterion.words)}): {zone}"
+        given = (
+            f"{escape(criterion_text)}, {escape(criterion_source or 'given')} (from the "
+            "project specification; an input, never a constant)"
+        )
+    else:
+        given = (
+            "No criterion: none was typed and the series' project table gives none, so no "
+            "limit is assumed (give one in the series' project table, "
+            "<code>project.csv</code> or a sheet <code>project</code>, or with "
+            "<code>--criterion</code>)"
+        )
     criteria = (
-        f"<ul><li>{escape(criterion_text)} (from the project specification; an input, never a "
-        "constant).</li>"
+        f"<ul><li>{given}.</li>"
         f"<li>Verdict: {_verdict_rule(analysis, label)}</li>"
         f"<li>Acceptable zone: {zone}.</li>"
         f"<li>Reference temperature and viscosity: see the settings under Provenance.</li></ul>"

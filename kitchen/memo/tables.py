@@ -46,7 +46,9 @@ def specimens_table(analysis: SeriesAnalysis) -> pd.DataFrame:
         ``d10 [mm]``, ``k20 [m/s]``, ``k20_low [m/s]``, ``k20_high [m/s]``, ``valid``,
         ``kept_on_record`` (the engineer's keep of a test not valid, in words; "" for
         none), ``verdict`` (not judged where the test is not valid and not kept),
-        ``in_acceptable_zone``, ``water_content_from_optimum [%]``, and where a d10 is
+        ``in_acceptable_zone`` (empty where no zone is drawn, or the specimen has no water
+        content: there is no zone for it to lie in), ``water_content_from_optimum [%]``,
+        and where a d10 is
         given ``hazen_prediction [m/s]``, ``chapuis_prediction [m/s]`` and
         ``grading_note`` (predictions, not measurements).
     """
@@ -69,7 +71,7 @@ def specimens_table(analysis: SeriesAnalysis) -> pd.DataFrame:
             "valid": rows["valid"].astype(bool),
             "kept_on_record": rows["kept_on_record"],
             "verdict": rows["verdict"],
-            "in_acceptable_zone": rows["in_zone"],
+            "in_acceptable_zone": analysis.zone_membership(),
             "water_content_from_optimum [%]": rows["water_content_from_optimum"] * 100.0,
         }
     )

@@ -23,8 +23,8 @@ import pandas as pd
 import plotly.graph_objects as go
 
 from kitchen import charts
-from kitchen.analysis import analyse_series, parse_criterion
-from kitchen.io import SCHEMAS, to_si
+from kitchen.analysis import parse_criterion
+from kitchen.io import SCHEMAS, SeriesError, to_si
 from kitchen.revisions import Revision, history_table
 from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace, what_changed
@@ -127,7 +127,9 @@ class RevisePanel:
     value, reason, who : ipywidgets.Text
         The new value with its unit (``116.5 mm``), why (required), who (optional).
     criterion : ipywidgets.Text
-        For the verdicts of the before/after table (``1e-9 m/s``).
+        For the verdicts of the before/after table and the series chart (``1e-9 m/s``):
+        opens on the series' own (its project table), empty when it has none; empty, the
+        series' own is used, and where there is none no verdict is drawn.
     record : ipywidgets.Button
         Appends the revision to the log and shows what it moved.
     withdraw_choice : ipywidgets.Dropdown
@@ -189,6 +191,13 @@ class RevisePanel:
     def settings(self) -> Settings:
         return self.workspace.settings
 
+    def criterion_in_force(self):
+        """The criterion typed (None when the box is empty) and the one in force: typed,
+        else the series' own (:meth:`kitchen.workspace.Workspace.criterion_in_force`)."""
+        text = self.criterion.value.strip()
+        given = parse_criterion(text) if text else None
+        return given, self.workspace.criterion_in_force(given)[0]
+
     # --- the series as it stands ------------------------------------------------------------
     def _frame(self, table: str) -> pd.DataFrame:
         return (
@@ -219,8 +228,8 @@ class RevisePanel:
 
     def _redraw(self) -> None:
         notes = []
-        criterion = parse_criterion(self.criterion.value)
-        analysis = analyse_series(self.results, criterion, self.settings.reference_temperature)
+        given, _ = self.criterion_in_force()
+        analysis = self.workspace.analysis(given)
         try:
             refresh_figure(self.series_chart, charts.compaction_conductivity_spec(analysis))
             self.chart_boxes[1].layout.display = ""
@@ -350,7 +359,7 @@ class RevisePanel:
         self._show_current()
         self._redraw()
         lap("charts")
-        criterion = parse_criterion(self.criterion.value)
+        _, criterion = self.criterion_in_force()
         self.changed = what_changed(before, self.results, criterion, self.workspace.kept)
         label = reference_label(self.settings)
         if self.changed.empty:
@@ -385,7 +394,7 @@ def _history_html(revisions) -> str:
 
 
 def revise_panel(
-    series_path: str | Path, settings: Settings | None = None, criterion: str = "1e-9 m/s"
+    series_path: str | Path, settings: Settings | None = None, criterion: str | None = None
 ) -> RevisePanel:
     """Build the revise panel for the series at `series_path`.
 
@@ -397,9 +406,11 @@ def revise_panel(
         copy (:func:`kitchen.panels.common.scratch_copy`).
     settings : Settings, optional
         Reference temperature and viscosity method of the before/after comparison.
-    criterion : str, default "1e-9 m/s"
-        The criterion, for the verdicts before and after: the largest k allowed
-        (``1e-9 m/s``) or the smallest required (``≥ 1e-4 m/s``).
+    criterion : str, optional
+        A criterion for the verdicts before and after, overriding the series' own: the
+        largest k allowed (``1e-9 m/s``) or the smallest required (``≥ 1e-4 m/s``). None
+        (the default): the criterion of the series' project table; where it has none, the
+        box is empty and the verdicts are left out until one is typed.
 
     Returns
     -------
@@ -408,6 +419,12 @@ def revise_panel(
     path = Path(series_path)
     workspace = Workspace(path, settings)
     series = workspace.series
+    own = ""
+    try:  # a criterion of the project table that does not read is shown by the redraw
+        if workspace.criterion is not None:
+            own = workspace.project_settings["criterion"].value
+    except SeriesError:
+        pass
     present = [
         name for name in TABLE_LABELS if name == "specimens" or not getattr(series, name).empty
     ]
@@ -436,7 +453,12 @@ def revise_panel(
             layout=widgets.Layout(width="460px"),
         ),
         who=widgets.Text(description="Who", placeholder="optional"),
-        criterion=widgets.Text(value=criterion, description="k criterion", **wide),
+        criterion=widgets.Text(
+            value=own if criterion is None else str(criterion),
+            description="k criterion",
+            placeholder="none given: 1e-9 m/s or ≥ 1e-4 m/s",
+            **wide,
+        ),
         record=widgets.Button(description="Record revision", button_style="primary"),
         withdraw_choice=widgets.Dropdown(
             description="In force", layout=widgets.Layout(width="620px")

@@ -1,8 +1,10 @@
 """The panel of the series-chart notebook: conductivity against compaction, for the memo.
 
-The criterion is typed with its unit (``1e-9 m/s``, ``1e-7 cm/s``); every specimen is
-marked as meeting it, not meeting it, or not conclusive — or, where its test is not valid
-(and not kept on record by the engineer), as not judged — and the charts follow: the
+The criterion is the series' own (its project table) unless one is typed with its unit
+(``1e-9 m/s``, ``1e-7 cm/s``); every specimen is marked as meeting it, not meeting it, or
+not conclusive — or, where its test is not valid (and not kept on record by the engineer),
+as not judged. Where no criterion is typed and the series has none, the box stays empty,
+no verdict is drawn and the panel says so. The charts follow: the
 compaction–conductivity chart (the compaction plane above log k against water content)
 and log k against void ratio and against dry density with their trends. The k and
 density units of the charts can be switched. An export button writes the memo pack.
@@ -19,9 +21,9 @@ import pandas as pd
 import plotly.graph_objects as go
 
 from kitchen import charts
-from kitchen.analysis import VERDICTS, Criterion, SeriesAnalysis, parse_criterion
+from kitchen.analysis import Criterion, SeriesAnalysis, parse_criterion
 from kitchen.display_units import DENSITY_UNITS, K_UNITS
-from kitchen.io import Series
+from kitchen.io import Series, SeriesError
 from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace
 
@@ -65,7 +67,7 @@ def verdict_table(analysis: SeriesAnalysis, unit: str, label: str) -> pd.DataFra
                 for ok, kept in zip(rows["valid"], rows["kept_on_record"], strict=True)
             ],
             "verdict": rows["verdict"],
-            "in acceptable zone": rows["in_zone"],
+            "in acceptable zone": analysis.zone_membership(),  # "–" where none is drawn
         }
     )
 
@@ -80,6 +82,11 @@ class SeriesChartPanel:
     criterion : ipywidgets.Text
         The criterion with its unit: the largest k allowed (``1e-9 m/s``), or the
         smallest required (``≥ 1e-4 m/s``); see :func:`kitchen.analysis.parse_criterion`.
+        It opens on the series' own (its project table), empty when the series has none;
+        empty, the series' own is used, and where there is none no verdict is drawn.
+    criterion_source : str
+        Where the criterion in force comes from, in words (the series' project table,
+        typed in the panel, or none given).
     k_unit, density_unit : ipywidgets.ToggleButtons
         Units of the charts.
     figures : dict of str to plotly.graph_objects.FigureWidget
@@ -136,6 +143,9 @@ class SeriesChartPanel:
     chart_box: widgets.Box | None = None
     missing: dict = field(default_factory=dict)
     drawn: dict = field(default_factory=dict)
+    criterion_source: str = ""
+    own_text: str = ""
+    """The series' own criterion as its project table writes it ("" when it has none)."""
 
     def _show_chart(self, _change=None) -> None:
         """Show the chosen chart (or why it is not drawn) in the chart box."""
@@ -145,17 +155,29 @@ class SeriesChartPanel:
             self.chart_box.children = [shown]
 
     @property
-    def criterion_value(self) -> Criterion:
-        """The criterion in m/s, as typed. [m/s]"""
-        return parse_criterion(self.criterion.value)
+    def criterion_value(self) -> Criterion | None:
+        """The criterion in m/s, as typed; None when the box is empty (then the series'
+        own is used, and where it has none no verdict is drawn). [m/s]"""
+        text = self.criterion.value.strip()
+        return parse_criterion(text) if text else None
+
+    def _criterion_in_force(self) -> tuple[Criterion | None, Criterion | None, str]:
+        """(given, in force, source): the criterion to hand the workspace (None for the
+        series' own), the one the verdicts are drawn against, and where it comes from."""
+        given = self.criterion_value
+        own = bool(self.own_text) and self.criterion.value.strip() == self.own_text
+        in_force, source = self.workspace.criterion_in_force(None if own else given)
+        if given is not None and not own:
+            source = "typed in the panel"
+        return (None if own else given), in_force, source
 
     def refresh(self, _change=None) -> None:
         """Analyse with the criterion and redraw every chart (the controls call this)."""
         self.error.guard("drawing the series charts")(self._refresh)()
 
     def _refresh(self) -> None:
-        criterion = self.criterion_value
-        self.analysis = self.workspace.analysis(criterion)
+        given, criterion, self.criterion_source = self._criterion_in_force()
+        self.analysis = self.workspace.analysis(given)
         unit, density = self.k_unit.value, self.density_unit.value
         label = reference_label(self.settings)
         not_drawn = []
@@ -177,13 +199,21 @@ class SeriesChartPanel:
         self._show_chart()
         counts = self.analysis.counts
         mean = self.analysis.geometric_mean
-        parts = [f"{html.escape(v)}: {counts[v]}" for v in VERDICTS]
-        line = (
-            f"Against <b>{label} {criterion.symbol} "
-            f"<span class='kitchen-criterion'>{format_conductivity(criterion, unit)}</span></b>: "
-            + ", ".join(parts)
-            + f" (of {len(self.analysis.specimens)} specimens)."
-        )
+        parts = [f"{html.escape(v)}: {counts[v]}" for v in self.analysis.verdicts]
+        of = f" (of {len(self.analysis.specimens)} specimens)."
+        if criterion is None:
+            line = (
+                "<b>No criterion given</b> (none typed, none in the series' project table): "
+                "no verdicts and no acceptable zone; type one in the box. " + ", ".join(parts) + of
+            )
+        else:
+            line = (
+                f"Against <b>{label} {criterion.symbol} "
+                f"<span class='kitchen-criterion'>{format_conductivity(criterion, unit)}</span>"
+                f"</b> ({html.escape(criterion.words)}, {html.escape(self.criterion_source)}): "
+                + ", ".join(parts)
+                + of
+            )
         if mean is not None:
             line += (
                 f" Geometric mean {format_conductivity(mean.geometric_mean, unit)} "
@@ -218,11 +248,13 @@ class SeriesChartPanel:
         folder = Path(self.export_folder.value.strip())
         self.exported = None
         self.export.disabled = True
+        given, _, source = self._criterion_in_force()
         try:
             written = memo.export_memo_pack(
                 self.workspace,
                 folder,
-                criterion=self.criterion_value,
+                criterion=given,
+                criterion_source=source,
                 k_unit=self.k_unit.value,
                 density_unit=self.density_unit.value,
                 images=self.images,
@@ -243,7 +275,7 @@ class SeriesChartPanel:
 def series_chart_panel(
     series: Workspace | str | Path,
     settings: Settings | None = None,
-    criterion: str = "1e-9 m/s",
+    criterion: str | None = None,
     export_folder: str | Path = "memo_pack",
     images: bool = True,
 ) -> SeriesChartPanel:
@@ -257,10 +289,12 @@ def series_chart_panel(
         pack's provenance records both).
     settings : Settings, optional
         Reference temperature and viscosity method.
-    criterion : str, default "1e-9 m/s"
-        The starting criterion, typed with its unit. It comes from the project
-        specification: 1×10⁻⁹ m/s is common for compacted clay liners (US 40 CFR 258.40;
-        EU Directive 1999/31/EC, Annex I).
+    criterion : str, optional
+        A starting criterion, typed with its unit; it overrides the series' own. It comes
+        from the project specification: 1×10⁻⁹ m/s is common for compacted clay liners
+        (US 40 CFR 258.40; EU Directive 1999/31/EC, Annex I). None (the default): the
+        criterion of the series' project table; where the series has none, the box is
+        empty and no verdict is drawn until one is typed.
     export_folder : str or pathlib.Path, default "memo_pack"
         Where the export button writes the memo pack.
     images : bool, default True
@@ -272,10 +306,16 @@ def series_chart_panel(
     """
     workspace = open_workspace(series, settings)
     series, settings, results = workspace.series, workspace.settings, workspace.results()
+    own = ""
+    try:  # a criterion of the project table that does not read is shown by the refresh
+        if workspace.criterion is not None:
+            own = workspace.project_settings["criterion"].value
+    except SeriesError:
+        pass
     criterion_box = widgets.Text(
-        value=str(criterion),
+        value=own if criterion is None else str(criterion),
         description="k criterion",
-        placeholder="1e-9 m/s (largest) or ≥ 1e-4 m/s (smallest)",
+        placeholder="none given: 1e-9 m/s (largest) or ≥ 1e-4 m/s (smallest)",
         continuous_update=False,
         style={"description_width": "initial"},
         layout=widgets.Layout(width="280px"),
@@ -313,6 +353,7 @@ def series_chart_panel(
         settings=settings,
         results=results,
         images=images,
+        own_text=own,
     )
     panel.missing = {key: widgets.HTML() for key, _ in CHARTS}
     # one chart at a time in a plain box: a FigureWidget in a hidden tab is never drawn

@@ -138,7 +138,7 @@ def what_changed(
 
 
 def revision_effect(
-    series_path: str | Path, revision_id: str, settings=None, criterion: float | None = None
+    series_path: str | Path, revision_id: str, settings=None, criterion=None
 ) -> pd.DataFrame:
     """What one row of the log changed: :func:`what_changed` across that row.
 
@@ -154,8 +154,12 @@ def revision_effect(
         The row's id.
     settings : kitchen.settings.Settings, optional
         Reference temperature and viscosity method.
-    criterion : float, optional
-        Largest conductivity allowed. [m/s]
+    criterion : float or Criterion, optional
+        A criterion given for the comparison (typed on the command line): the largest k
+        allowed (a number) or a :class:`kitchen.analysis.Criterion` of either kind; it
+        overrides the series' own. [m/s] None (the default) means the criterion of the
+        series' project table as it stands after the row, else none: then the verdict
+        columns are ``<NA>``.
     """
     revisions = read_revisions(series_path)
     wanted = str(revision_id).strip().lower()
@@ -165,4 +169,5 @@ def revision_effect(
     position = ids.index(wanted)
     before = Workspace(series_path, settings, log_rows=position).results()
     after = Workspace(series_path, settings, log_rows=position + 1)
-    return what_changed(before, after.results(), criterion, after.kept)
+    in_force, _ = after.criterion_in_force(criterion)
+    return what_changed(before, after.results(), in_force, after.kept)

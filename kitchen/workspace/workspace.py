@@ -552,21 +552,31 @@ class Workspace:
         :meth:`results`: headers with their units, checks in words."""
         return results_table(self.results(), self._settings)
 
-    def analysis(self, criterion, confidence: float = 0.95) -> SeriesAnalysis:
-        """The series analysis of :meth:`results` against a criterion
+    def analysis(self, criterion=None, confidence: float = 0.95) -> SeriesAnalysis:
+        """The series analysis of :meth:`results` against the criterion in force
         (:func:`kitchen.analysis.analyse_series`).
 
         Parameters
         ----------
-        criterion : float or Criterion
-            Largest k allowed (a number), or a :class:`kitchen.analysis.Criterion` of
-            either kind. [m/s]
+        criterion : float or Criterion, optional
+            A criterion given for this analysis (typed on the command line or in a panel):
+            the largest k allowed (a number), or a :class:`kitchen.analysis.Criterion` of
+            either kind; it overrides the series' own. [m/s] None (the default) means the
+            series' own (:attr:`criterion`, from its project table), else none: then no
+            verdict is drawn (see :meth:`criterion_in_force`).
         confidence : float, default 0.95
             Confidence of the fitted lines' intervals.
+
+        Raises
+        ------
+        SeriesError
+            When the criterion of the project table cannot be read, naming its file, row
+            and column (only when no criterion is given here).
         """
+        in_force, _ = self.criterion_in_force(criterion)
         return analyse_series(
             self.results(),
-            criterion,
+            in_force,
             self._settings.reference_temperature,
             confidence,
             kept=self.kept,
@@ -609,3 +619,34 @@ class Workspace:
             raise SeriesError(
                 [InputProblem(setting.file, setting.row, "value", f"criterion: {error}")]
             ) from None
+
+    def criterion_in_force(self, criterion=None) -> tuple[Criterion | float | None, str]:
+        """The criterion an analysis is judged against, and where it comes from in words.
+
+        A criterion given here (typed on the command line or in a panel) overrides the
+        series' own; without one, the criterion of the series' project table; without
+        that, none, and no verdict is drawn: a limit is never assumed.
+
+        Parameters
+        ----------
+        criterion : float or Criterion, optional
+            A criterion given for this analysis. [m/s]
+
+        Returns
+        -------
+        (Criterion or float or None, str)
+            The criterion (as given, or parsed from the project table; None when there
+            is none) and its source: ``"given for this analysis"``, ``"from the series'
+            project table (FILE, row N, column 'value')"`` or ``"none given"``.
+
+        Raises
+        ------
+        SeriesError
+            When, with no criterion given, the project table's cannot be read.
+        """
+        if criterion is not None:
+            return criterion, "given for this analysis"
+        own = self.criterion
+        if own is None:
+            return None, "none given"
+        return own, f"from the series' project table ({self._project['criterion'].where})"

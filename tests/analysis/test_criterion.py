@@ -44,6 +44,8 @@ def test_a_criterion_is_a_float_that_knows_its_direction():
 
     c = conductivity_criterion.Criterion(1e-4, "minimum")
     assert c == 1e-4 and c * 100 == pytest.approx(1e-2) and c.symbol == "≥"
+    # the words of the zone follow the kind: k at least a minimum, at most a maximum
+    assert c.bound == "at least" and conductivity_criterion.Criterion(1e-9).bound == "at most"
     assert pickle.loads(pickle.dumps(c)).kind == "minimum"
     assert (
         conductivity_criterion.as_criterion(1e-9).kind == "maximum"

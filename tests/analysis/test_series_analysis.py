@@ -15,9 +15,12 @@ from scipy import stats
 from kitchen.analysis import (
     DOES_NOT_MEET,
     MEETS,
+    NO_CRITERION,
+    NO_CRITERION_NOTE,
     NOT_CONCLUSIVE,
     NOT_JUDGED,
     VERDICTS,
+    VERDICTS_WITHOUT_CRITERION,
     Criterion,
     analyse_series,
 )
@@ -283,3 +286,41 @@ def test_sample_sand_against_the_smallest_k_a_drainage_layer_requires():
         assert row["verdict"] == (MEETS if k_true >= 1e-4 else DOES_NOT_MEET), row["specimen"]
     assert drainage.counts[MEETS] == 4
     assert analyse_series(results, 1e-9).counts[DOES_NOT_MEET] == 4
+
+
+def test_without_a_criterion_no_verdict_is_drawn_and_the_fits_stand():
+    # no limit is assumed: each valid specimen is "no criterion given", the one not valid is
+    # still not judged, there is no zone, drawn or fitted, and the note says how to give one;
+    # the compaction curves, the trends and the geometric mean are those drawn with one
+    frame = results_frame(compaction_rows())
+    frame["valid"] = [specimen != "B2" for specimen in frame["specimen"]]
+    bare, judged = analyse_series(frame), analyse_series(frame, 1e-9)
+    assert bare.criterion is None and bare.verdicts == VERDICTS_WITHOUT_CRITERION
+    verdicts = bare.specimens.set_index("specimen")["verdict"]
+    assert verdicts["B2"] == NOT_JUDGED and set(verdicts.drop("B2")) == {NO_CRITERION}
+    assert not bare.specimens["meets"].any() and not bare.specimens["in_zone"].any()
+    assert bare.counts == {NO_CRITERION: 9, NOT_JUDGED: 1}
+    assert bare.acceptable_zone is None and bare.fitted_zone is None
+    assert not bare.zone_drawn and bare.zone_membership().isna().all()
+    assert judged.zone_drawn and judged.zone_membership().notna().all()
+    assert bare.notes[0] == NO_CRITERION_NOTE and NO_CRITERION_NOTE not in judged.notes
+    assert NO_CRITERION_NOTE.startswith("no criterion given: no verdicts and no acceptable zone")
+    assert bare.void_ratio_trend.fit.slope == judged.void_ratio_trend.fit.slope
+    assert bare.water_content_trend.fit.slope == judged.water_content_trend.fit.slope
+    assert bare.geometric_mean.geometric_mean == judged.geometric_mean.geometric_mean
+    for effort, curve in judged.compaction_curves.items():
+        optimum = bare.compaction_curves[effort].optimum_water_content
+        assert optimum == curve.optimum_water_content
+    assert list(judged.counts) == list(VERDICTS)  # with a criterion, the four as before
+
+
+def test_a_missing_interval_is_not_called_not_conclusive_without_a_criterion():
+    rows = [
+        dict(specimen="A", water_content=0.18, dry_density=1700.0, k_reference=1e-9),
+        dict(specimen="B", water_content=0.20, dry_density=1680.0, k_reference=2e-9),
+    ]
+    frame = results_frame(rows)
+    frame.loc[1, ["k_reference_low", "k_reference_high"]] = np.nan
+    analysis = analyse_series(frame)
+    assert list(analysis.specimens["verdict"]) == [NO_CRITERION, NO_CRITERION]
+    assert not any("not conclusive" in note for note in analysis.notes)

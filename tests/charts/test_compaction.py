@@ -4,8 +4,16 @@ import numpy as np
 import pytest
 from chart_series import KN_PER_MG, sample_series, specimen_traces
 
-from kitchen.analysis import zero_air_voids_dry_density
+from kitchen.analysis import (
+    NO_CRITERION,
+    NOT_JUDGED,
+    Criterion,
+    analyse_series,
+    zero_air_voids_dry_density,
+)
 from kitchen.charts import compaction as compaction_chart
+from kitchen.charts import conductivity_trend as conductivity_trend_chart
+from kitchen.reduction import series_results
 
 
 @pytest.fixture(scope="module")
@@ -106,3 +114,29 @@ def test_compaction_chart_draws_both_zones_told_apart(clay):
     assert "tool's own" in region.legendgrouptitle.text
     assert drawn.fillpattern.shape == "/" and region.fillpattern.shape == "."
     assert drawn.line.color != region.line.color
+
+
+def test_without_a_criterion_no_line_no_zone_and_markers_by_validity(clay):
+    # no criterion given: nothing to draw a zone or a line from; QF-04 fails its trend check
+    # by design (sample_data/README.md), so the markers tell valid from not judged alone
+    series, _ = clay
+    bare = analyse_series(series_results(series))
+    figure = compaction_chart.compaction_conductivity_figure(bare)
+    names = [t.name or "" for t in figure.data]
+    assert not any(n.startswith(("criterion", "drawn zone", "fitted")) for n in names)
+    assert {t.meta["verdict"] for t in specimen_traces(figure)} == {NO_CRITERION, NOT_JUDGED}
+    assert "no criterion given" in figure.layout.title.text
+    trend = conductivity_trend_chart.conductivity_trend_figure(bare, "void_ratio")
+    assert not any((t.name or "").startswith("criterion") for t in trend.data)
+    assert not any(a.text and "criterion" in a.text for a in trend.layout.annotations)
+
+
+def test_the_drawn_zone_says_at_most_or_at_least_as_the_criterion_goes(clay):
+    # a smallest k of 1e-9 m/s turns the clay series round: the wet-of-optimum specimens no
+    # longer meet, the dry ones do, and the zone is where k is at least the criterion
+    series, analysis = clay
+    flipped = analyse_series(series_results(series), Criterion(1e-9, "minimum"))
+    for each, words in ((analysis, "(k at most the criterion)"), (flipped, "(k at least")):
+        figure = compaction_chart.compaction_conductivity_figure(each)
+        [drawn] = [t for t in figure.data if (t.name or "").startswith("drawn zone")]
+        assert words in drawn.name

@@ -60,4 +60,5 @@ def test_a_test_not_judged_has_a_marker_of_its_own_that_reads_in_greyscale():
     filled, pale = _grey(VERDICT_FACE[MEETS]), _grey(VERDICT_FACE[NOT_JUDGED])
     assert pale - filled >= 0.3 and 1.0 - pale >= 0.3
     assert _grey(VERDICT_COLOURS[NOT_JUDGED]) <= filled + 0.05  # its outline is as dark
-    assert len(set(VERDICT_COLOURS.values())) == len(VERDICT_COLOURS) == 4
+    # five: the verdict of a valid test with no criterion given has a colour of its own too
+    assert len(set(VERDICT_COLOURS.values())) == len(VERDICT_COLOURS) == 5

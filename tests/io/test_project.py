@@ -7,6 +7,8 @@ US 40 CFR 258.40; EU Directive 1999/31/EC Annex I) and a drainage layer's smalle
 """
 
 import shutil
+import subprocess
+import sys
 from pathlib import Path
 
 import pandas as pd
@@ -91,3 +93,21 @@ def test_the_table_is_never_written(clay):
     before = path.read_bytes()
     Workspace(clay).results()
     assert path.read_bytes() == before
+
+
+def test_the_samples_carry_the_liner_criterion_and_none_for_the_sand(tmp_path):
+    # the clay liner's project table is the 1e-9 m/s of US 40 CFR 258.40 and EU Directive
+    # 1999/31/EC Annex I, written by its generator; the drainage sand states none
+    # (sample_data/README.md), so it is reported with no verdict until one is given
+    clay = Workspace(SAMPLES / "clay_liner").criterion
+    assert clay == Criterion(1e-9) and clay.kind == "maximum"
+    assert Workspace(SAMPLES / "drainage_sand").criterion is None
+    assert Workspace(SAMPLES / "drainage_sand.xlsx").criterion is None
+    script = SAMPLES / "make_clay_liner_series.py"
+    subprocess.run([sys.executable, str(script), "--output", str(tmp_path)], check=True)
+    written = sorted(p.name for p in (tmp_path / "clay_liner").iterdir())
+    assert written == ["falling_head.csv", "project.csv", "specimens.csv", "truth.json"]
+    for name in written:  # byte for byte what the sample holds
+        assert (tmp_path / "clay_liner" / name).read_bytes() == (
+            SAMPLES / "clay_liner" / name
+        ).read_bytes()

@@ -26,7 +26,7 @@ from openpyxl import load_workbook
 from plotly.offline import get_plotlyjs, get_plotlyjs_version
 
 from kitchen import __version__
-from kitchen.analysis import MEETS, NOT_JUDGED
+from kitchen.analysis import MEETS, NOT_JUDGED, parse_criterion
 from kitchen.cautions import CAUTIONS
 from kitchen.memo import CHART_SCRIPT, export_memo_pack
 from kitchen.reduction import results_table, series_results
@@ -152,8 +152,10 @@ def test_report_is_traceable(clay_pack):
         assert html.escape(caution) in page
     for path in series.input_files:
         assert sha256(path) in page  # provenance hashes are those of the inputs
+    # the inputs, and the project table that carries the series' criterion
+    project = SAMPLES / "clay_liner" / "project.csv"
     assert [f.sha256 for f in pack.provenance.input_files] == [
-        sha256(p) for p in series.input_files
+        sha256(p) for p in (*series.input_files, project)
     ]
     assert f"kitchen {__version__}" in page and "revisions applied" in page
     assert "k20 [cm/s]" in page and "Methods and their sources" in page
@@ -450,3 +452,51 @@ def test_zipped_pack_opens_offline_elsewhere_and_a_lone_page_says_why_it_cannot(
     assert report["plotly"] and report["drawn"] >= charts and not report["notice"]
     assert chart["plotly"] and chart["drawn"] >= 1 and not chart["notice"]
     assert not alone["plotly"] and alone["drawn"] == 0 and alone["notice"]
+
+
+# --- the criterion in force -----------------------------------------------------------------
+
+
+def _cautions_sheet(folder: Path) -> pd.DataFrame:
+    return pd.read_excel(folder / "results.xlsx", sheet_name="cautions")
+
+
+def test_the_pack_takes_the_series_criterion_and_names_where_it_came_from(clay_pack):
+    # the clay liner's project table says 1e-9 m/s (sample_data/README.md)
+    _, pack, _ = clay_pack
+    assert pack.analysis.criterion == 1e-9
+    settings = _cautions_sheet(pack.folder).query("item == 'setting'")["text"].tolist()
+    where = "from the series' project table (project.csv, row 2, column 'value')"
+    assert f"criterion from = {where}" in settings and "criterion [m/s] = 1e-09" in settings
+    page = (pack.folder / "report.html").read_text()
+    assert html.escape(where) in page
+
+
+def test_a_series_without_a_criterion_is_exported_with_no_verdict(tmp_path):
+    pack = export_memo_pack(Workspace(SAMPLES / "drainage_sand"), tmp_path, images=False)
+    assert pack.analysis.criterion is None
+    sheet = pd.read_excel(tmp_path / "results.xlsx", sheet_name="specimens")
+    assert set(sheet["verdict"]) == {"no criterion given"}
+    assert sheet["in_acceptable_zone"].isna().all()  # no zone: nothing to lie in, or not
+    notes = _cautions_sheet(tmp_path)
+    assert notes.query("item == 'criterion'")["text"].tolist() == [
+        "no criterion given: no verdicts drawn"
+    ]
+    assert notes.query("item == 'verdicts'")["text"].tolist() == [
+        "no criterion given: 4",
+        f"{NOT_JUDGED}: 0",
+    ]
+    assert "criterion from = none given" in notes["text"].tolist()
+    for chart in tmp_path.glob("charts/conductivity_*.html"):
+        assert "criterion k" not in chart.read_text()  # no criterion line, no legend entry
+    # a criterion given for the export overrides the series' (here absent) own
+    given = export_memo_pack(
+        Workspace(SAMPLES / "drainage_sand"),
+        tmp_path / "given",
+        images=False,
+        criterion=parse_criterion(">= 1e-4 m/s"),
+        criterion_source="typed in the panel",
+    )
+    assert given.analysis.counts[MEETS] == 4  # sand k20 2.6e-4 to 8.3e-4 m/s, truth.json
+    settings = _cautions_sheet(tmp_path / "given")["text"].tolist()
+    assert "criterion from = typed in the panel" in settings

@@ -158,3 +158,23 @@ def test_the_charts_follow_a_revision(panel, copy):
     assert traces(panel.series_chart) == traces(fresh)
     assert panel.specimen_chart.layout.title.text != title
     assert "Specimen QF-06" in panel.specimen_chart.layout.title.text
+
+
+def test_the_criterion_box_opens_on_the_series_own_or_empty(panel, tmp_path):
+    # the clay liner's project table says 1e-9 m/s; without it, no verdict is shown
+    assert panel.criterion.value == "1e-9 m/s"
+    bare = scratch_copy(SAMPLES / "clay_liner", tmp_path / "bare")
+    (bare / "project.csv").unlink()
+    empty = revise_panel(bare)
+    assert empty.criterion.value == "" and "none given" in empty.criterion.placeholder
+    empty.specimen.value = "QF-03"
+    empty.value.value = "4.8 in"
+    empty.reason.value = "re-measured after test"
+    empty.record.click()
+    assert empty.error.message == ""
+    assert empty.changed[["verdict_before", "verdict_after"]].isna().all(axis=None)
+    empty.criterion.value = "1e-10 m/s"  # typed: the next summary judges against it
+    empty.value.value = "4.7 in"
+    empty.record.click()
+    # QF-03's true k20 is 6.39e-10 m/s (sample_data/README.md): above 1e-10 m/s
+    assert empty.changed.loc[0, "verdict_after"] == "does not meet"

@@ -4,8 +4,9 @@ from pathlib import Path
 
 import numpy as np
 import pytest
+from html_cells import TableCells
 
-from kitchen.analysis import NOT_JUDGED, analyse_series
+from kitchen.analysis import NO_CRITERION, NOT_JUDGED, analyse_series
 from kitchen.io import load_series
 from kitchen.panels import series_chart_panel
 from kitchen.reduction import series_results
@@ -168,3 +169,45 @@ def test_export_to_an_unwritable_place_is_shown_in_words(tmp_path):
     assert panel.error.message.startswith("Could not finish exporting")
     assert panel.progress.bar.bar_style == "danger"
     assert panel.export.disabled is False
+
+
+# --- the criterion in force -----------------------------------------------------------------
+
+
+def test_the_box_opens_on_the_series_criterion_and_a_typed_one_overrides_it(panel, clay_results):
+    # the clay liner's project table says 1e-9 m/s (sample_data/README.md)
+    assert panel.criterion.value == "1e-9 m/s"
+    assert panel.analysis.counts == analyse_series(clay_results, 1e-9).counts
+    assert "project table (project.csv, row 2" in panel.verdicts.value
+    panel.criterion.value = "5e-10 m/s"
+    assert panel.criterion_source == "typed in the panel"
+    assert panel.analysis.counts == analyse_series(clay_results, 5e-10).counts
+    panel.criterion.value = ""  # empty: the series' own again
+    assert panel.analysis.criterion == 1e-9 and "project table" in panel.criterion_source
+
+
+def test_a_series_without_a_criterion_opens_empty_and_draws_no_verdict():
+    # the drainage sand carries no criterion (sample_data/README.md): nothing is assumed
+    panel = series_chart_panel(SAMPLES / "drainage_sand", images=False)
+    assert panel.criterion.value == "" and "none given" in panel.criterion.placeholder
+    assert panel.analysis.criterion is None
+    assert "No criterion given" in panel.verdicts.value and "meets" not in panel.verdicts.value
+    assert f"{NO_CRITERION}: 4" in panel.verdicts.value
+    rows = _table_rows(panel)
+    assert {row["verdict"] for row in rows} == {NO_CRITERION}
+    assert {row["in acceptable zone"] for row in rows} == {"–"}
+    names = [t.name or "" for t in panel.figures["void_ratio"].data]
+    assert not any(name.startswith("criterion") for name in names)
+    panel.criterion.value = "≥ 1e-4 m/s"  # typed: judged against it at once
+    assert panel.analysis.counts["meets"] == 4 and panel.criterion_source == "typed in the panel"
+    # the sand has no water contents: no zone is drawn, so none is said to hold it or not
+    assert {row["in acceptable zone"] for row in _table_rows(panel)} == {"–"}
+
+
+def _table_rows(panel) -> list[dict]:
+    parser = TableCells()
+    parser.feed(panel.table.value)
+    header = [text for tag, _, text in parser.cells if tag == "th"]
+    cells = [text for tag, _, text in parser.cells if tag == "td"]
+    return [dict(zip(header, cells[i : i + len(header)], strict=True))
+            for i in range(0, len(cells), len(header))]  # fmt: skip

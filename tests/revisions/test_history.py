@@ -87,6 +87,18 @@ def test_what_changed_names_missing_columns():
         what_changed(_results([1e-9] * 3), _results([1e-9] * 3).drop(columns="valid"))
 
 
+def test_revision_effect_judges_against_the_series_criterion_unless_one_is_given(clay):
+    # QF-05 (true k20 1.25e-10 m/s, sample_data/README.md) meets the clay liner's 1e-9 m/s
+    # of its project table, and does not meet 1e-11 m/s given instead
+    made = revise(clay, specimen="QF-05", field="height", value="120 mm", reason="swelled")
+    own = revision_effect(clay, made.id)
+    assert (own.loc[0, "verdict_before"], own.loc[0, "verdict_after"]) == ("meets", "meets")
+    given = revision_effect(clay, made.id, criterion=1e-11)
+    assert given.loc[0, "verdict_after"] == "does not meet"
+    (clay / "project.csv").unlink()  # none given anywhere: no verdict
+    assert revision_effect(clay, made.id)[["verdict_before", "verdict_after"]].isna().all(axis=None)
+
+
 def test_revision_effect_compares_across_one_row(clay):
     from kitchen.revisions import withdraw
 

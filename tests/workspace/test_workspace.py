@@ -12,6 +12,8 @@ from pathlib import Path
 import pandas as pd
 import pytest
 
+from kitchen.analysis import NO_CRITERION, Criterion
+from kitchen.io import SeriesError
 from kitchen.reduction import series_results
 from kitchen.revisions import RevisionError, load_effective_series, revise
 from kitchen.settings import Settings
@@ -140,3 +142,34 @@ def test_unknown_specimen_is_named(clay):
         Workspace(clay).readings("QF-99")
     with pytest.raises(ValueError, match="unknown readings table"):
         Workspace(clay).readings("QF-01", "readings")
+
+
+# --- the criterion in force ---------------------------------------------------------------
+
+
+def test_the_analysis_takes_the_series_criterion_unless_one_is_given(clay, sand):
+    # the clay liner's project table says 1e-9 m/s (US 40 CFR 258.40, sample_data/README.md)
+    workspace = Workspace(clay)
+    own = workspace.analysis()
+    assert own.criterion == 1e-9 and own.criterion.kind == "maximum"
+    assert own.counts == workspace.analysis(1e-9).counts
+    criterion, source = workspace.criterion_in_force()
+    assert criterion == 1e-9
+    assert source == "from the series' project table (project.csv, row 2, column 'value')"
+    # a criterion given for the analysis overrides the series' own
+    given = workspace.analysis(Criterion(1e-4, "minimum"))
+    assert given.criterion.kind == "minimum"
+    assert workspace.criterion_in_force(5e-10) == (5e-10, "given for this analysis")
+    # the sand carries none: no verdict is drawn, never a liner's limit
+    bare = Workspace(sand)
+    assert bare.criterion_in_force() == (None, "none given")
+    analysis = bare.analysis()
+    assert analysis.criterion is None and set(analysis.specimens["verdict"]) == {NO_CRITERION}
+
+
+def test_a_criterion_that_does_not_read_stops_the_analysis_that_needs_it(clay):
+    (clay / "project.csv").write_text("setting,value\ncriterion,1e-9 furlongs\n")
+    workspace = Workspace(clay)
+    with pytest.raises(SeriesError, match=r"project.csv, row 2, column 'value': criterion"):
+        workspace.analysis()
+    assert workspace.analysis(1e-9).criterion == 1e-9  # one given is used as it stands
