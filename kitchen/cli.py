@@ -210,6 +210,26 @@ def _add_revision_commands(commands) -> None:
     )
     window.add_argument("--reason", required=True, help="why this window (required)")
     window.add_argument("--who", default="", help="who chose it")
+    keep = commands.add_parser(
+        "keep",
+        help="keep a test on record despite a failed check, or withdraw a keep",
+        description="Append a row to the series' log of tests kept on record (kept_tests.csv "
+        "in the series folder, <stem>.kept_tests.csv beside a workbook). A test that failed "
+        "a validity check is 'not judged' and left out of the zone and the trends; a test "
+        "kept on record with a reason is judged again. Rows are never edited: --withdraw ID "
+        "appends a row that withdraws a keep.",
+    )
+    keep.add_argument("series", type=Path, help="series folder or .xlsx workbook")
+    keep.add_argument("--specimen", help="specimen id")
+    keep.add_argument(
+        "--method",
+        choices=("falling_head", "constant_head"),
+        default="falling_head",
+        help="the test kept (default falling_head)",
+    )
+    keep.add_argument("--withdraw", metavar="ID", help="withdraw the keep with this id")
+    keep.add_argument("--reason", required=True, help="why (required)")
+    keep.add_argument("--who", default="", help="who keeps it")
     verify = commands.add_parser(
         "verify",
         help="check a memo pack against its manifest (sizes and SHA-256 of every file)",
@@ -385,6 +405,28 @@ def _history(arguments) -> int:
     return 0
 
 
+def _keep(arguments, parser) -> int:
+    from kitchen.revisions import keep_test, kept_tests_path, withdraw_kept_test
+
+    if (arguments.withdraw is None) == (arguments.specimen is None):
+        parser.error("give --specimen (to keep a test) or --withdraw ID, not both")
+    if arguments.withdraw is not None:
+        row = withdraw_kept_test(
+            arguments.series, arguments.withdraw, reason=arguments.reason, who=arguments.who
+        )
+    else:
+        row = keep_test(
+            arguments.series,
+            arguments.specimen,
+            arguments.method,
+            reason=arguments.reason,
+            who=arguments.who,
+            series=Workspace(arguments.series).series,
+        )
+    print(f"recorded {row.id} in {kept_tests_path(arguments.series)}: {row.describe()}")
+    return 0
+
+
 def main(argv: list[str] | None = None) -> int:
     """Entry point; returns the exit status."""
     parser = build_parser()
@@ -400,6 +442,8 @@ def main(argv: list[str] | None = None) -> int:
             return _window(arguments, parser)
         if arguments.command == "history":
             return _history(arguments)
+        if arguments.command == "keep":
+            return _keep(arguments, parser)
     except SeriesError as error:
         print(f"kitchen: {arguments.series}: {error}", file=sys.stderr)
         return EXIT_INPUT

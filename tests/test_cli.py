@@ -285,3 +285,36 @@ def test_a_project_criterion_that_does_not_read_is_named_where_it_stands(tmp_pat
     done = run_cli("report", folder, "--out", tmp_path / "typed", "--no-images",
                    "--criterion", ">= 1e-4 m/s")  # fmt: skip
     assert done.returncode == 0, done.stderr
+
+
+def test_keep_puts_a_test_back_among_those_judged_and_withdraw_takes_it_out(clay, tmp_path):
+    # QF-04 fails the trend check (the sample generator makes it drift): not judged until
+    # the engineer keeps it on record with a reason; the keep is appended, never edited
+    def verdict_of(out):
+        assert run_cli("report", clay, "--out", out, "--no-images").returncode == 0
+        book = pd.read_excel(out / "results.xlsx", sheet_name="specimens")
+        return book.set_index("specimen").at["QF-04", "verdict"]
+
+    assert verdict_of(tmp_path / "before") == "not judged (test not valid)"
+    run = run_cli("keep", clay, "--specimen", "QF-04", "--reason", "drift from the bath, k steady")
+    assert run.returncode == 0 and "kept on record" in run.stdout
+    kept_id = run.stdout.split()[1]
+    assert verdict_of(tmp_path / "kept") in ("meets", "does not meet", "not conclusive")
+    run = run_cli("keep", clay, "--withdraw", kept_id, "--reason", "second look at the bath log")
+    assert run.returncode == 0 and "withdrawn" in run.stdout
+    assert verdict_of(tmp_path / "after") == "not judged (test not valid)"
+    assert len((clay / "kept_tests.csv").read_text().splitlines()) == 3  # header and 2 rows
+
+
+@pytest.mark.parametrize(
+    ("arguments", "message"),
+    [
+        (["--specimen", "QF-99"], "has no falling head test"),
+        ([], "give --specimen"),
+        (["--withdraw", "00000000"], "no keep '00000000' in force"),
+    ],
+)
+def test_keep_refuses_in_words_and_writes_nothing(clay, arguments, message):
+    run = run_cli("keep", clay, *arguments, "--reason", "because")
+    assert run.returncode == 2 and message in run.stderr and "Traceback" not in run.stderr
+    assert not (clay / "kept_tests.csv").exists()
