@@ -14,17 +14,14 @@ pack lists them. The data files are never touched.
 
 from __future__ import annotations
 
-import csv
-import hashlib
-import io
-import re
 from dataclasses import dataclass
 from datetime import datetime
 from pathlib import Path
 
-from kitchen.io import Series, append_line, folder_lock
+from kitchen.io import Series
 
-from .log import checked_when, free_text, when_text
+from ._logbook import LogError, append_log_row, file_sha256, log_path, read_log
+from .log import reason_who_when
 from .recording import fresh_id
 
 __all__ = [
@@ -46,9 +43,6 @@ KEPT_LOG_COLUMNS = ("id", "when", "who", "specimen", "method", "withdraws", "rea
 KEPT_METHODS = ("constant_head", "falling_head")
 """The test methods a row may name, as in the results table's ``method`` column."""
 
-_ID = re.compile(r"^[0-9a-f]{8}$")
-_HEADER = (",".join(KEPT_LOG_COLUMNS) + "\n").encode("utf-8")
-
 REASON_NEEDED = (
     "keeping a test that failed a check needs a reason: say why the failure does not "
     "matter for this test (for example 'drift within the scatter of the series'); nothing "
@@ -56,16 +50,10 @@ REASON_NEEDED = (
 )
 
 
-class KeptTestError(ValueError):
+class KeptTestError(LogError):
     """A test that cannot be kept (or released), or a kept-tests log that cannot be read."""
 
-    def __init__(self, problems: list[str] | str):
-        self.problems = [problems] if isinstance(problems, str) else list(problems)
-        if len(self.problems) == 1:
-            super().__init__(self.problems[0])
-        else:
-            lines = [f"{len(self.problems)} problem(s) with the tests kept on record:"]
-            super().__init__("\n".join(lines + [f"  - {p}" for p in self.problems]))
+    subject = "the tests kept on record"
 
 
 @dataclass(frozen=True)
@@ -105,60 +93,28 @@ class KeptTest:
 def kept_tests_path(series_path: str | Path) -> Path:
     """Where a series' kept-tests log lives: ``kept_tests.csv`` in a series folder,
     ``<stem>.kept_tests.csv`` beside an ``.xlsx`` workbook."""
-    path = Path(series_path)
-    if path.suffix.lower() == ".xlsx":
-        return path.with_name(f"{path.stem}.kept_tests.csv")
-    return path / "kept_tests.csv"
+    return log_path(series_path, "kept_tests")
 
 
-def _parse(data: bytes, label: str) -> tuple[KeptTest, ...]:
-    try:
-        records = list(csv.reader(io.StringIO(data.decode("utf-8-sig"), newline="")))
-    except (UnicodeDecodeError, csv.Error) as error:
-        raise KeptTestError(f"{label}: cannot be read as UTF-8 CSV ({error})") from None
-    if not records or [c.strip() for c in records[0]] != list(KEPT_LOG_COLUMNS):
-        found = ", ".join(records[0]) if records else "nothing"
-        raise KeptTestError(
-            f"{label}, row 1: expected the columns {', '.join(KEPT_LOG_COLUMNS)}; found {found}"
-        )
-    problems: list[str] = []
-    rows: list[KeptTest] = []
+def _row_checker():
+    """A check of the log's rows in order, as :func:`._logbook.parse_log` takes it: each row
+    is checked against the rows before it (what it withdraws)."""
     by_id: dict[str, KeptTest] = {}
     withdrawn_by: dict[str, str] = {}
-    for number, record in enumerate(records[1:], start=2):
-        if not any(cell.strip() for cell in record):
-            continue
-        if len(record) != len(KEPT_LOG_COLUMNS):
-            problems.append(
-                f"{label}, row {number}: expected {len(KEPT_LOG_COLUMNS)} fields, found "
-                f"{len(record)} (a write cut short, or an edit by hand?)"
-            )
-            continue
-        row = dict(zip(KEPT_LOG_COLUMNS, (c.strip() for c in record), strict=True))
+
+    def check(row: dict, number: int):
         found = _check_row(row, number, by_id, withdrawn_by)
-        if isinstance(found, tuple):
-            column, message = found
-            problems.append(f"{label}, row {number}, column '{column}': {message}")
-            continue
-        rows.append(found)
-        by_id[found.id] = found
-        if found.withdrawal:
-            withdrawn_by[found.withdraws] = found.id
-    if problems:
-        raise KeptTestError(problems)
-    return tuple(rows)
+        if isinstance(found, KeptTest):
+            by_id[found.id] = found
+            if found.withdrawal:
+                withdrawn_by[found.withdraws] = found.id
+        return found
+
+    return check
 
 
 def _check_row(row: dict, number: int, by_id: dict, withdrawn_by: dict):
-    """The row as a KeptTest, or (column, problem)."""
-    if not _ID.match(row["id"]):
-        return "id", f"expected 8 hexadecimal digits, found {row['id']!r}"
-    if row["id"] in by_id:
-        return "id", f"id {row['id']} is used twice (first at row {by_id[row['id']].log_row})"
-    try:
-        checked_when(row["when"])
-    except ValueError as error:
-        return "when", str(error)
+    """The row as a KeptTest, or (column, problem); its id and time are checked."""
     if not row["specimen"]:
         return "specimen", "empty; expected the specimen id"
     if row["method"] not in KEPT_METHODS:
@@ -190,20 +146,12 @@ def read_kept_tests(series_path: str | Path) -> tuple[KeptTest, ...]:
     KeptTestError
         Naming the log's row and column of each row that cannot be read.
     """
-    log = kept_tests_path(series_path)
-    try:
-        data = log.read_bytes()
-    except FileNotFoundError:
-        return ()
-    return _parse(data, log.name)
+    return read_log(kept_tests_path(series_path), KEPT_LOG_COLUMNS, KeptTestError, _row_checker())
 
 
 def kept_log_sha256(series_path: str | Path) -> str | None:
     """SHA-256 of the kept-tests log as it is on disk; None when there is none."""
-    try:
-        return hashlib.sha256(kept_tests_path(series_path).read_bytes()).hexdigest()
-    except FileNotFoundError:
-        return None
+    return file_sha256(kept_tests_path(series_path))
 
 
 def standing_kept(rows) -> dict[tuple[str, str], KeptTest]:
@@ -218,15 +166,12 @@ def standing_kept(rows) -> dict[tuple[str, str], KeptTest]:
 
 
 def _append(series_path, row_of) -> KeptTest:
-    log = kept_tests_path(series_path)
-    with folder_lock(log.parent):
-        existing = read_kept_tests(series_path)
-        row = row_of(existing)
-        buffer = io.StringIO()
-        values = [getattr(row, name) for name in KEPT_LOG_COLUMNS]
-        csv.writer(buffer, lineterminator="\n").writerow(values)
-        append_line(log, buffer.getvalue().encode("utf-8"), header=_HEADER)
-    return row
+    return append_log_row(
+        kept_tests_path(series_path),
+        KEPT_LOG_COLUMNS,
+        lambda: read_kept_tests(series_path),
+        row_of,
+    )
 
 
 def keep_test(
@@ -270,9 +215,7 @@ def keep_test(
         A missing reason, an unknown method, a specimen without that test, a test already
         kept, or a log that cannot be read. Nothing is written.
     """
-    reason = free_text(reason, "reason", REASON_NEEDED, KeptTestError)
-    who = free_text(who, "who", None, KeptTestError)
-    when = when_text(when)
+    reason, who, when = reason_who_when(reason, who, when, REASON_NEEDED, KeptTestError)
     specimen = " ".join(str(specimen).split())
     if method not in KEPT_METHODS:
         raise KeptTestError(
@@ -306,9 +249,7 @@ def withdraw_kept_test(
     when: str | datetime | None = None,
 ) -> KeptTest:
     """Withdraw a keep by a new row of the log: the test is judged by its checks again."""
-    reason = free_text(reason, "reason", REASON_NEEDED, KeptTestError)
-    who = free_text(who, "who", None, KeptTestError)
-    when = when_text(when)
+    reason, who, when = reason_who_when(reason, who, when, REASON_NEEDED, KeptTestError)
     wanted = str(kept_id).strip().lower()
 
     def row_of(existing) -> KeptTest:

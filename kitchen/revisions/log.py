@@ -297,6 +297,20 @@ def free_text(text, name: str, missing: str | None, error: type[Exception]) -> s
     return words
 
 
+def reason_who_when(
+    reason, who, when, reason_needed: str, error: type[Exception]
+) -> tuple[str, str, str]:
+    """The reason, who and when of a new row, as they are written.
+
+    The reason is required (`reason_needed` is the message when it is empty); who may be
+    empty; both are checked as :func:`free_text` checks them, and
+    raise `error`. The time is :func:`when_text` of `when`.
+    """
+    reason = free_text(reason, "reason", reason_needed, error)
+    who = free_text(who, "who", None, error)
+    return reason, who, when_text(when)
+
+
 def when_text(when) -> str:
     """The time of a row as ISO 8601 text: now (local, to the second) when `when` is None."""
     if when is None:

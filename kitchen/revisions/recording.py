@@ -43,11 +43,10 @@ from .log import (
     Revision,
     RevisionError,
     encode_revision,
-    free_text,
     read_log,
+    reason_who_when,
     revisions_path,
     standing_and_withdrawn,
-    when_text,
 )
 
 __all__ = ["HeldSeries", "file_stamps", "revise", "withdraw"]
@@ -209,9 +208,7 @@ def revise(
         Unknown specimen, reading or field, a value of the wrong dimension, a missing
         reason, an unchanged value, or a value the loader would refuse. Nothing is written.
     """
-    reason = free_text(reason, "reason", REASON_NEEDED, RevisionError)
-    who = free_text(who, "who", None, RevisionError)
-    when = when_text(when)
+    reason, who, when = reason_who_when(reason, who, when, REASON_NEEDED, RevisionError)
     specimen = " ".join(str(specimen).split())
     if not str(value).strip():
         raise RevisionError("the new value is empty; type a number and its unit (4.95 in)")
@@ -282,9 +279,7 @@ def withdraw(
         revision of the same value (withdraw that first), or a value the loader would
         then refuse. Nothing is written.
     """
-    reason = free_text(reason, "reason", REASON_NEEDED, RevisionError)
-    who = free_text(who, "who", None, RevisionError)
-    when = when_text(when)
+    reason, who, when = reason_who_when(reason, who, when, REASON_NEEDED, RevisionError)
     wanted = str(revision_id).strip().lower()
 
     def make(tables, existing) -> Revision:

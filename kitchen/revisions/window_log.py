@@ -17,19 +17,16 @@ file, and a revision of a reading's value never moves them.
 
 from __future__ import annotations
 
-import csv
-import hashlib
-import io
-import re
 from dataclasses import dataclass
 from datetime import datetime
 from pathlib import Path
 
 import numpy as np
 
-from kitchen.io import Series, append_line, folder_lock
+from kitchen.io import Series
 
-from .log import checked_when, free_text, when_text
+from ._logbook import LogError, append_log_row, file_sha256, log_path, read_log
+from .log import reason_who_when
 from .recording import fresh_id
 
 __all__ = [
@@ -48,20 +45,11 @@ __all__ = [
 WINDOW_LOG_COLUMNS = ("id", "when", "who", "specimen", "first_row", "last_row", "reason")
 """Columns of the window log, in order."""
 
-_ID = re.compile(r"^[0-9a-f]{8}$")
-_HEADER = (",".join(WINDOW_LOG_COLUMNS) + "\n").encode("utf-8")
 
-
-class WindowLogError(ValueError):
+class WindowLogError(LogError):
     """A window that cannot be chosen, or a window log that cannot be read."""
 
-    def __init__(self, problems: list[str] | str):
-        self.problems = [problems] if isinstance(problems, str) else list(problems)
-        if len(self.problems) == 1:
-            super().__init__(self.problems[0])
-        else:
-            lines = [f"{len(self.problems)} problem(s) with the reading windows:"]
-            super().__init__("\n".join(lines + [f"  - {p}" for p in self.problems]))
+    subject = "the reading windows"
 
 
 @dataclass(frozen=True)
@@ -101,88 +89,39 @@ REASON_NEEDED = (
 def windows_path(series_path: str | Path) -> Path:
     """Where a series' window log lives: ``windows.csv`` in a series folder,
     ``<stem>.windows.csv`` beside an ``.xlsx`` workbook."""
-    path = Path(series_path)
-    if path.suffix.lower() == ".xlsx":
-        return path.with_name(f"{path.stem}.windows.csv")
-    return path / "windows.csv"
+    return log_path(series_path, "windows")
 
 
-def _parse(data: bytes, label: str) -> tuple[WindowChoice, ...]:
-    try:
-        text = data.decode("utf-8-sig")
-        records = list(csv.reader(io.StringIO(text, newline="")))
-    except (UnicodeDecodeError, csv.Error) as error:
-        raise WindowLogError(f"{label}: cannot be read as UTF-8 CSV ({error})") from None
-    if not records or [c.strip() for c in records[0]] != list(WINDOW_LOG_COLUMNS):
-        found = ", ".join(records[0]) if records else "nothing"
-        raise WindowLogError(
-            f"{label}, row 1: expected the columns {', '.join(WINDOW_LOG_COLUMNS)}; found {found}"
-        )
-    problems, choices, seen = [], [], {}
-    for number, record in enumerate(records[1:], start=2):
-        if not any(cell.strip() for cell in record):
-            continue
-
-        def problem(column: str, message: str, number=number) -> None:
-            problems.append(f"{label}, row {number}, column '{column}': {message}")
-
-        if len(record) != len(WINDOW_LOG_COLUMNS):
-            problems.append(
-                f"{label}, row {number}: expected {len(WINDOW_LOG_COLUMNS)} fields, found "
-                f"{len(record)} (a write cut short, or an edit by hand?)"
-            )
-            continue
-        row = dict(zip(WINDOW_LOG_COLUMNS, (c.strip() for c in record), strict=True))
-        if not _ID.match(row["id"]):
-            problem("id", f"expected 8 hexadecimal digits, found {row['id']!r}")
-            continue
-        if row["id"] in seen:
-            problem("id", f"id {row['id']} is used twice (first at row {seen[row['id']]})")
-            continue
-        try:
-            checked_when(row["when"])
-        except ValueError as error:
-            problem("when", str(error))
-            continue
-        if not row["specimen"]:
-            problem("specimen", "empty; expected the specimen id")
-            continue
-        if not row["reason"]:
-            problem("reason", "every choice of window needs a reason")
-            continue
-        given = [bool(row["first_row"]), bool(row["last_row"])]
-        if given[0] != given[1]:
-            missing = "last_row" if given[0] else "first_row"
-            problem(missing, "empty; give both rows, or neither to hand back to the proposal")
-            continue
-        rows = [None, None]
-        if all(given):
-            texts = (row["first_row"], row["last_row"])
-            good = [t.isdigit() and int(t) >= 2 for t in texts]
-            if not all(good):
-                bad = "first_row" if not good[0] else "last_row"
-                problem(bad, f"expected a file row number (2 or more), found {row[bad]!r}")
-                continue
-            rows = [int(t) for t in texts]
-            if rows[1] <= rows[0]:
-                problem("last_row", f"row {rows[1]} is not after the first row {rows[0]}")
-                continue
-        seen[row["id"]] = number
-        choices.append(
-            WindowChoice(
-                id=row["id"],
-                when=row["when"],
-                who=row["who"],
-                specimen=row["specimen"],
-                first_row=rows[0],
-                last_row=rows[1],
-                reason=row["reason"],
-                log_row=number,
-            )
-        )
-    if problems:
-        raise WindowLogError(problems)
-    return tuple(choices)
+def _check_row(row: dict, number: int):
+    """The row as a WindowChoice, or (column, problem)."""
+    if not row["specimen"]:
+        return "specimen", "empty; expected the specimen id"
+    if not row["reason"]:
+        return "reason", "every choice of window needs a reason"
+    given = [bool(row["first_row"]), bool(row["last_row"])]
+    if given[0] != given[1]:
+        missing = "last_row" if given[0] else "first_row"
+        return missing, "empty; give both rows, or neither to hand back to the proposal"
+    rows = [None, None]
+    if all(given):
+        texts = (row["first_row"], row["last_row"])
+        good = [t.isdigit() and int(t) >= 2 for t in texts]
+        if not all(good):
+            bad = "first_row" if not good[0] else "last_row"
+            return bad, f"expected a file row number (2 or more), found {row[bad]!r}"
+        rows = [int(t) for t in texts]
+        if rows[1] <= rows[0]:
+            return "last_row", f"row {rows[1]} is not after the first row {rows[0]}"
+    return WindowChoice(
+        id=row["id"],
+        when=row["when"],
+        who=row["who"],
+        specimen=row["specimen"],
+        first_row=rows[0],
+        last_row=rows[1],
+        reason=row["reason"],
+        log_row=number,
+    )
 
 
 def read_window_choices(series_path: str | Path) -> tuple[WindowChoice, ...]:
@@ -193,20 +132,12 @@ def read_window_choices(series_path: str | Path) -> tuple[WindowChoice, ...]:
     WindowLogError
         Naming the log's row and column of each row that cannot be read.
     """
-    log = windows_path(series_path)
-    try:
-        data = log.read_bytes()
-    except FileNotFoundError:
-        return ()
-    return _parse(data, log.name)
+    return read_log(windows_path(series_path), WINDOW_LOG_COLUMNS, WindowLogError, _check_row)
 
 
 def window_log_sha256(series_path: str | Path) -> str | None:
     """SHA-256 of the window log as it is on disk; None when there is none."""
-    try:
-        return hashlib.sha256(windows_path(series_path).read_bytes()).hexdigest()
-    except FileNotFoundError:
-        return None
+    return file_sha256(windows_path(series_path))
 
 
 def standing_choices(choices) -> dict[str, WindowChoice]:
@@ -280,8 +211,8 @@ def chosen_windows(series: Series, choices=None) -> dict[str, tuple[int, int]]:
 
 def _append(series_path, choice_of, series: Series | None) -> WindowChoice:
     log = windows_path(series_path)
-    with folder_lock(log.parent):
-        existing = read_window_choices(series_path)
+
+    def checked_choice(existing) -> WindowChoice:
         choice = choice_of(existing)
         if not choice.proposed:
             if series is None:
@@ -294,11 +225,11 @@ def _append(series_path, choice_of, series: Series | None) -> WindowChoice:
             except WindowLogError as error:
                 *first, last = error.problems
                 raise WindowLogError([*first, f"{last}; nothing was written"]) from None
-        buffer = io.StringIO()
-        values = [getattr(choice, name) for name in WINDOW_LOG_COLUMNS]
-        csv.writer(buffer, lineterminator="\n").writerow(["" if v is None else v for v in values])
-        append_line(log, buffer.getvalue().encode("utf-8"), header=_HEADER)
-    return choice
+        return choice
+
+    return append_log_row(
+        log, WINDOW_LOG_COLUMNS, lambda: read_window_choices(series_path), checked_choice
+    )
 
 
 def choose_window(
@@ -344,9 +275,7 @@ def choose_window(
         A missing reason, rows not of the specimen's readings, fewer than two readings, or
         a log that cannot be read. Nothing is written.
     """
-    reason = free_text(reason, "reason", REASON_NEEDED, WindowLogError)
-    who = free_text(who, "who", None, WindowLogError)
-    when = when_text(when)
+    reason, who, when = reason_who_when(reason, who, when, REASON_NEEDED, WindowLogError)
     specimen = " ".join(str(specimen).split())
     first, last = int(first_row), int(last_row)
     if last <= first:
@@ -367,9 +296,7 @@ def clear_window(
     when: str | datetime | None = None,
 ) -> WindowChoice:
     """Hand a specimen back to the tool's proposed window, by a new row of the log."""
-    reason = free_text(reason, "reason", REASON_NEEDED, WindowLogError)
-    who = free_text(who, "who", None, WindowLogError)
-    when = when_text(when)
+    reason, who, when = reason_who_when(reason, who, when, REASON_NEEDED, WindowLogError)
     specimen = " ".join(str(specimen).split())
     return _append(
         series_path,
