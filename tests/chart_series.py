@@ -1,15 +1,13 @@
 """The series the chart tests draw on: the two sample series analysed, and a constructed one."""
 
-from pathlib import Path
-
 import numpy as np
 import pandas as pd
+from series_files import SAMPLES
 
 from kitchen.analysis import analyse_series
 from kitchen.io import load_series
 from kitchen.reduction import series_results
 
-SAMPLES = Path(__file__).resolve().parents[1] / "sample_data"
 # NIST SP 811 (2008), Appendix B, from the exact foot, pound and standard gravity:
 KN_PER_MG = 9.80665  # 1 Mg/m3 of dry density is a dry unit weight of 9.80665 kN/m3
 LBFT3_PER_MG = 62.42796  # 1 Mg/m3 = 62.428 lb/ft3

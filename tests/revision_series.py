@@ -9,7 +9,6 @@ from series_files import SPECIMENS
 
 from kitchen.revisions import revisions_path
 
-SAMPLES = Path(__file__).resolve().parents[1] / "sample_data"
 WHEN = "2025-05-02T14:30:00+02:00"
 
 FALLING = """specimen,time [min],head [cm],temperature [degC]

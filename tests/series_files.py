@@ -66,3 +66,37 @@ def csv_rows(text: str) -> list[list]:
             [float(cell) if number.match(cell) else (cell or None) for cell in line.split(",")]
         )
     return rows
+
+
+# the logs a user's work leaves beside a series (the tool's own files, not the sample's)
+USER_LOGS = ("revisions.csv", "windows.csv", "kept_tests.csv", "*.revisions.csv", "*.windows.csv",
+             "*.kept_tests.csv")  # fmt: skip
+
+
+def copy_sample(source, destination):
+    """A copy of a sample series folder holding only its generated files: the raw tables,
+    the project table and truth.json, never a log a user's work in the notebooks left beside
+    them. Returns the destination as a Path."""
+    import shutil
+    from pathlib import Path
+
+    return Path(shutil.copytree(source, destination, ignore=shutil.ignore_patterns(*USER_LOGS)))
+
+
+def pristine_samples():
+    """One copy per test session of the sample series as generated (raw tables, project
+    tables, workbooks, truth.json), without the logs a user's work in the notebooks may have
+    left beside them, so that no test reads a window, keep or revision that is not the
+    sample's own."""
+    import shutil
+    import tempfile
+    from pathlib import Path
+
+    source = Path(__file__).resolve().parents[1] / "sample_data"
+    target = Path(tempfile.mkdtemp(prefix="kitchen-samples-")) / "sample_data"
+    shutil.copytree(source, target, ignore=shutil.ignore_patterns(*USER_LOGS))
+    return target
+
+
+SAMPLES = pristine_samples()
+"""The sample series as generated, copied once per test session (see pristine_samples)."""

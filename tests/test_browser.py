@@ -28,6 +28,7 @@ from concurrent.futures import ThreadPoolExecutor
 from pathlib import Path
 
 import pytest
+from series_files import USER_LOGS
 
 pytestmark = [pytest.mark.browser, pytest.mark.slow]
 
@@ -82,7 +83,9 @@ def lab_server(tmp_path_factory):
     root = tmp_path_factory.mktemp("lab")
     shutil.copytree(ROOT / "notebooks", root / "notebooks",
                     ignore=shutil.ignore_patterns(".ipynb_checkpoints"))  # fmt: skip
-    shutil.copytree(ROOT / "sample_data", root / "sample_data")  # ../sample_data, as in the repo
+    shutil.copytree(  # ../sample_data, as in the repo, without a user's logs
+        ROOT / "sample_data", root / "sample_data", ignore=shutil.ignore_patterns(*USER_LOGS)
+    )
     config = root / "config"
     (config / "labconfig").mkdir(parents=True)
     (config / "labconfig" / "page_config.json").write_text(

@@ -8,7 +8,6 @@ The log, the effective data, the recording of revisions and their history are te
 their modules, in tests/revisions/.
 """
 
-import shutil
 import subprocess
 import sys
 from pathlib import Path
@@ -18,12 +17,11 @@ import pytest
 from cli_runner import run_cli
 from html_cells import TableCells
 from revision_series import log_rows
+from series_files import SAMPLES, copy_sample
 
 from kitchen.analysis import NO_CRITERION
 from kitchen.io import files
 from kitchen.revisions import revise, revisions_path
-
-SAMPLES = Path(__file__).resolve().parents[1] / "sample_data"
 
 
 def test_report_writes_results(tmp_path):
@@ -113,7 +111,7 @@ def test_a_criterion_that_does_not_read_is_refused_before_any_work(tmp_path, arg
 
 @pytest.fixture
 def clay(tmp_path):
-    return Path(shutil.copytree(SAMPLES / "clay_liner", tmp_path / "clay_liner"))
+    return copy_sample(SAMPLES / "clay_liner", tmp_path / "clay_liner")
 
 
 def test_command_line_revise_history_report(clay, tmp_path):
@@ -243,7 +241,7 @@ def test_a_smallest_k_says_at_least_and_claims_no_zone_it_does_not_draw(tmp_path
 
 
 def test_the_series_criterion_is_used_and_the_command_line_overrides_it(tmp_path):
-    folder = Path(shutil.copytree(SAMPLES / "drainage_sand", tmp_path / "sand"))
+    folder = copy_sample(SAMPLES / "drainage_sand", tmp_path / "sand")
     (folder / "project.csv").write_text("setting,value\ncriterion,>= 1e-4 m/s\n")
     done = run_cli("report", folder, "--out", tmp_path / "own", "--no-images")
     assert done.returncode == 0, done.stderr
@@ -275,7 +273,7 @@ def test_revise_judges_against_the_series_criterion_unless_one_is_typed(clay, tm
 
 
 def test_a_project_criterion_that_does_not_read_is_named_where_it_stands(tmp_path):
-    folder = Path(shutil.copytree(SAMPLES / "drainage_sand", tmp_path / "sand"))
+    folder = copy_sample(SAMPLES / "drainage_sand", tmp_path / "sand")
     (folder / "project.csv").write_text("setting,value\ncriterion,>= 1e-4\n")
     done = run_cli("report", folder, "--out", tmp_path / "out", "--no-images")
     assert done.returncode == 2 and "Traceback" not in done.stderr

@@ -1,18 +1,16 @@
 """Tests for kitchen.analysis.compaction_zone: the acceptable zone on the compaction plane."""
 
 import itertools
-import shutil
 from pathlib import Path
 
 import numpy as np
 import pandas as pd
 import pytest
 from scipy.spatial import ConvexHull, QhullError
+from series_files import SAMPLES, copy_sample
 
 from kitchen.analysis import MEETS, compaction_zone
 from kitchen.workspace import Workspace
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 # --- acceptable zone -------------------------------------------------------------------------
 
@@ -154,7 +152,7 @@ def test_a_specimen_on_the_state_of_a_failing_one_is_left_out():
 @pytest.fixture
 def clay(tmp_path) -> Path:
     """A copy of the invented clay-liner series, free to revise."""
-    return Path(shutil.copytree(SAMPLES / "clay_liner", tmp_path / "clay_liner"))
+    return copy_sample(SAMPLES / "clay_liner", tmp_path / "clay_liner")
 
 
 def test_revised_height_of_qf03_does_not_put_qf12_in_the_zone(clay):

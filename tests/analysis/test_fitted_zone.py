@@ -6,13 +6,12 @@ Engineers, multiple regression chapter, from memory); the zone against the predi
 bound evaluated point by point.
 """
 
-from pathlib import Path
-
 import numpy as np
 import pandas as pd
 import pytest
 from scipy import stats
 from scipy.spatial import ConvexHull
+from series_files import SAMPLES
 
 from kitchen.analysis import (
     ANALYSIS_METHODS,
@@ -23,8 +22,6 @@ from kitchen.analysis import (
 )
 from kitchen.io import load_series
 from kitchen.reduction import series_results
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 RNG = np.random.default_rng(7)
 

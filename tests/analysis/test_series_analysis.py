@@ -5,12 +5,12 @@ with the ground truth its generator wrote (sample_data/clay_liner/truth.json).
 """
 
 import json
-from pathlib import Path
 
 import numpy as np
 import pytest
 from analysis_results import results_frame
 from scipy import stats
+from series_files import SAMPLES
 
 from kitchen.analysis import (
     DOES_NOT_MEET,
@@ -26,8 +26,6 @@ from kitchen.analysis import (
 )
 from kitchen.io import load_series
 from kitchen.reduction import series_results
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
 def compaction_rows():

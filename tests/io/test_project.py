@@ -13,12 +13,11 @@ from pathlib import Path
 
 import pandas as pd
 import pytest
+from series_files import SAMPLES
 
 from kitchen.analysis import Criterion
 from kitchen.io import SeriesError, read_project_settings
 from kitchen.workspace import Workspace
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
 @pytest.fixture()

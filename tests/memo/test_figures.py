@@ -1,16 +1,13 @@
 """The memo's charts: the specimen charts show the k of the results table's rows."""
 
-from pathlib import Path
-
 import pandas as pd
+from series_files import SAMPLES
 
 from kitchen.io import load_series
 from kitchen.memo import export_memo_pack
 from kitchen.reduction import series_results
 from kitchen.settings import Settings
 from kitchen.workspace import Workspace
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
 def test_specimen_charts_use_the_windows_and_rises_of_the_results(tmp_path):

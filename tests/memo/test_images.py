@@ -1,12 +1,9 @@
 """Static chart images: without Chromium the export is refused, naming what to install."""
 
-from pathlib import Path
-
 from cli_runner import run_cli
+from series_files import SAMPLES
 
 from kitchen.memo import images
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
 def test_command_line_without_chromium_names_what_to_install(tmp_path, monkeypatch):

@@ -6,12 +6,11 @@ import shutil
 from pathlib import Path
 
 import pytest
+from series_files import SAMPLES
 
 from kitchen import cli
 from kitchen.memo import CHART_SCRIPT, MANIFEST, export_memo_pack, read_manifest, verify_pack
 from kitchen.workspace import Workspace
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
 @pytest.fixture

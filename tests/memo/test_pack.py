@@ -24,6 +24,7 @@ from cli_runner import run_cli
 from html_cells import TableCells
 from openpyxl import load_workbook
 from plotly.offline import get_plotlyjs, get_plotlyjs_version
+from series_files import SAMPLES, copy_sample
 
 from kitchen import __version__
 from kitchen.analysis import MEETS, NOT_JUDGED, parse_criterion
@@ -34,7 +35,6 @@ from kitchen.revisions import keep_test, load_effective_series, revise, withdraw
 from kitchen.settings import Settings
 from kitchen.workspace import Workspace
 
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 CHROMIUM = Path("/usr/bin/chromium").exists() or shutil.which("chromium") is not None
 needs_chromium = pytest.mark.skipif(
     not CHROMIUM and os.environ.get("CI") != "true",
@@ -195,7 +195,7 @@ def test_results_csv_matches_the_tests_sheet(clay_pack):
 
 def test_revisions_are_counted_and_their_log_hashed(tmp_path):
     folder = tmp_path / "clay"
-    shutil.copytree(SAMPLES / "clay_liner", folder)
+    copy_sample(SAMPLES / "clay_liner", folder)
     revise(folder, specimen="QF-02", field="height", value="116.38 mm", reason="re-measured")
     effective = load_effective_series(folder)
     pack = export_memo_pack(Workspace(folder), tmp_path / "out", images=False)
@@ -231,7 +231,7 @@ def test_the_validity_stands_beside_the_verdict_in_the_workbook_and_the_report(c
 
 def test_every_revision_withdrawal_and_kept_test_is_listed(tmp_path):
     folder = tmp_path / "clay"
-    shutil.copytree(SAMPLES / "clay_liner", folder)
+    copy_sample(SAMPLES / "clay_liner", folder)
     when = "2025-05-02T14:30:00+02:00"
     first = revise(folder, specimen="QF-02", field="height", value="116.38 mm",
                    reason="re-measured after extrusion", who="A. Tester", when=when)  # fmt: skip

@@ -2,11 +2,11 @@
 
 import hashlib
 import html
-from pathlib import Path
 
 import pandas as pd
 import pytest
 from html_cells import TableCells
+from series_files import SAMPLES
 
 from kitchen.analysis import (
     CHAPUIS_VALIDITY,
@@ -30,7 +30,6 @@ from kitchen.memo import (
 from kitchen.memo.markup import ChartScript
 from kitchen.reduction import series_results
 
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 CAUTIONS = ("Lab k & field k differ.", "Defer to local codes <and> licensed practice.")
 SHARED = ChartScript("/*PLOTLY-JS*/", "4.1.1", "charts/plotly.min.js")
 INLINED = ChartScript("/*PLOTLY-JS*/", "4.1.1")

@@ -1,17 +1,14 @@
 """The memo's tables: specimens with verdicts, fits and checks, in their stated units."""
 
-from pathlib import Path
-
 import numpy as np
 import pytest
 from scipy import stats
+from series_files import SAMPLES
 
 from kitchen.analysis import analyse_series
 from kitchen.io import load_series
 from kitchen.memo import FIT_COLUMNS, checks_table, fits_table, specimens_table
 from kitchen.reduction import series_results
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
 @pytest.fixture(scope="module")

@@ -4,19 +4,16 @@ The workbook is read back with openpyxl, the library that wrote it, and with pan
 """
 
 import math
-import shutil
-from pathlib import Path
 
 import pandas as pd
 import pytest
 from openpyxl import load_workbook
+from series_files import SAMPLES, copy_sample
 
 from kitchen import __version__
 from kitchen.cautions import CAUTIONS
 from kitchen.memo import export_memo_pack, workbook_bytes
 from kitchen.workspace import Workspace
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
 def test_workbook_cells_and_cautions_sheet(tmp_path):
@@ -51,7 +48,7 @@ def test_workbook_cells_and_cautions_sheet(tmp_path):
 def hostile_series(tmp_path_factory):
     """The sand series with text a spreadsheet would read as formulas."""
     folder = tmp_path_factory.mktemp("hostile") / "sand"
-    shutil.copytree(SAMPLES / "drainage_sand", folder)
+    copy_sample(SAMPLES / "drainage_sand", folder)
     specimens = (folder / "specimens.csv").read_text()
     lines = specimens.splitlines()
     lines[0] += ",effort"

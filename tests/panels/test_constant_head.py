@@ -1,17 +1,15 @@
 """The constant-head panel, driven without a browser, against the core's reduction."""
 
 import html
-from pathlib import Path
 
 import numpy as np
 import pytest
+from series_files import SAMPLES
 
 from kitchen.io import load_series
 from kitchen.panels import constant_head_panel
 from kitchen.reduction import collection_table, constant_head_analysis
 from kitchen.specimen import specimen_state
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
 @pytest.fixture(scope="module")

@@ -1,11 +1,11 @@
 """The falling-head panel, driven without a browser, against the core's analysis."""
 
 import html
-from pathlib import Path
 
 import numpy as np
 import pandas as pd
 import pytest
+from series_files import SAMPLES
 
 from kitchen.charts import MAX_TRACE_POINTS
 from kitchen.io import load_series
@@ -14,8 +14,6 @@ from kitchen.panels.figures import format_elapsed
 from kitchen.reduction import FallingHeadRecord
 from kitchen.settings import Settings
 from kitchen.specimen import specimen_state
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
 @pytest.fixture(scope="module")

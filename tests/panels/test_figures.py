@@ -1,9 +1,8 @@
 """Figures only the panels draw: the incremental k of a falling-head record."""
 
-from pathlib import Path
-
 import numpy as np
 import pytest
+from series_files import SAMPLES
 
 from kitchen.io import load_series
 from kitchen.panels.figures import format_elapsed, increments_figure
@@ -11,8 +10,6 @@ from kitchen.reduction import FallingHeadRecord
 from kitchen.settings import Settings
 from kitchen.specimen import specimen_state
 from kitchen.validity import Criteria
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
 @pytest.fixture(scope="module")

@@ -1,17 +1,13 @@
 """The open-a-series panel, driven without a browser: set a control, check against the core."""
 
-import shutil
-from pathlib import Path
-
 import numpy as np
 import pytest
+from series_files import SAMPLES, copy_sample
 
 from kitchen.io import load_series
 from kitchen.panels import series_panel
 from kitchen.reduction import results_table, series_results
 from kitchen.settings import Settings
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
 @pytest.fixture(scope="module")
@@ -47,7 +43,7 @@ def test_reference_temperature_recomputes(panel):
 
 def test_a_bad_series_lists_its_problems_not_a_traceback(tmp_path):
     copy = tmp_path / "clay"
-    shutil.copytree(SAMPLES / "clay_liner", copy)
+    copy_sample(SAMPLES / "clay_liner", copy)
     lines = (copy / "specimens.csv").read_text().splitlines()
     header = lines[0].split(",")
     cells = lines[2].split(",")

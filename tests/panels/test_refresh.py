@@ -4,20 +4,16 @@ The reference for every check is plotly itself: the widget's state after a refre
 sent only changes must equal its state after a refresh that sent the whole figure.
 """
 
-import shutil
-from pathlib import Path
-
 import numpy as np
 import plotly.graph_objects as go
 import pytest
+from series_files import SAMPLES, copy_sample
 
 from kitchen import charts
 from kitchen.analysis import analyse_series
 from kitchen.panels.refresh import figure_spec, refresh_figure, same_value
 from kitchen.reduction import series_results
 from kitchen.revisions import load_effective_series, revise
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
 def _pruned(value):
@@ -133,7 +129,7 @@ def test_a_spec_names_data_and_layout_only():
 def test_the_series_chart_after_a_height_revision(tmp_path):
     # a revised height moves one specimen: far fewer properties go to the browser than the
     # whole chart holds, and the chart shown is the chart built afresh
-    folder = Path(shutil.copytree(SAMPLES / "clay_liner", tmp_path / "clay_liner"))
+    folder = copy_sample(SAMPLES / "clay_liner", tmp_path / "clay_liner")
 
     def spec():
         results = series_results(load_effective_series(folder).series)

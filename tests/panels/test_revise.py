@@ -1,16 +1,14 @@
 """The revise panel on a scratch copy: a revision moves results as the physics says."""
 
 import hashlib
-from pathlib import Path
 
 import pytest
+from series_files import SAMPLES
 
 from kitchen.panels import revise_panel, scratch_copy
 from kitchen.reduction import series_results
 from kitchen.revisions import load_effective_series, read_revisions
 from kitchen.workspace import what_changed
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
 def _hashes(folder):

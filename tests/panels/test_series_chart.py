@@ -1,17 +1,14 @@
 """The series-chart panel: criterion and units drive the analysis and the charts."""
 
-from pathlib import Path
-
 import numpy as np
 import pytest
 from html_cells import TableCells
+from series_files import SAMPLES
 
 from kitchen.analysis import NO_CRITERION, NOT_JUDGED, analyse_series
 from kitchen.io import load_series
 from kitchen.panels import series_chart_panel
 from kitchen.reduction import series_results
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
 @pytest.fixture(scope="module")

@@ -3,11 +3,11 @@ one window reduced, and the window the tool proposes: round trips and samples.""
 
 import dataclasses
 import json
-from pathlib import Path
 
 import numpy as np
 import pandas as pd
 import pytest
+from series_files import SAMPLES
 from synthetic_records import known_k_record
 
 from kitchen.io import load_series
@@ -19,8 +19,6 @@ from kitchen.reduction import (
 from kitchen.settings import Settings
 from kitchen.specimen import specimen_state
 from kitchen.validity import Criteria
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
 def test_missing_temperatures():

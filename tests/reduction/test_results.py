@@ -1,18 +1,15 @@
 """The results table on the invented sample series, against the generators' ground truth."""
 
 import json
-from pathlib import Path
 
 import numpy as np
 import pytest
-from series_files import FALLING, write_series
+from series_files import FALLING, SAMPLES, write_series
 
 from kitchen.io import load_series
 from kitchen.reduction import results_table, series_results
 from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace
-
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 
 
 def _truth(name):

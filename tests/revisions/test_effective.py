@@ -6,7 +6,8 @@ from pathlib import Path
 
 import pandas as pd
 import pytest
-from revision_series import SAMPLES, SPECIMENS, log_rows, raw_digests, small_series
+from revision_series import SPECIMENS, log_rows, raw_digests, small_series
+from series_files import SAMPLES, copy_sample
 
 from kitchen.io import load_series, read_tables
 from kitchen.reduction import series_results
@@ -30,7 +31,7 @@ def small(tmp_path):
 
 @pytest.fixture
 def clay(tmp_path):
-    return Path(shutil.copytree(SAMPLES / "clay_liner", tmp_path / "clay_liner"))
+    return copy_sample(SAMPLES / "clay_liner", tmp_path / "clay_liner")
 
 
 def test_effective_series_cites_the_log(clay):
@@ -96,7 +97,7 @@ def test_constant_head_k_follows_the_flow_length(
     # Constant head, k = Q·L/(A·h·t) (ASTM D2434; ASTM D5084 Method A), L the manometer tap
     # spacing where flow_length is given (DL-A) and the specimen height where it is not
     # (DL-B). A new height moves ρd ∝ 1/L for both, and k ∝ L only for DL-B.
-    sand = Path(shutil.copytree(SAMPLES / "drainage_sand", tmp_path / "sand"))
+    sand = copy_sample(SAMPLES / "drainage_sand", tmp_path / "sand")
     before = series_results(load_series(sand))
     revise(sand, specimen=specimen, field="height", value=f"{new_height} in", reason="re-measured")
     after = series_results(load_effective_series(sand).series)

@@ -1,12 +1,10 @@
 """The history of the revisions in words, and what a revision changed in the results."""
 
-import shutil
-from pathlib import Path
-
 import numpy as np
 import pandas as pd
 import pytest
-from revision_series import SAMPLES, small_series
+from revision_series import small_series
+from series_files import SAMPLES, copy_sample
 
 from kitchen.revisions import RevisionError, format_history, read_revisions, revise
 from kitchen.workspace import revision_effect, what_changed
@@ -19,7 +17,7 @@ def small(tmp_path):
 
 @pytest.fixture
 def clay(tmp_path):
-    return Path(shutil.copytree(SAMPLES / "clay_liner", tmp_path / "clay_liner"))
+    return copy_sample(SAMPLES / "clay_liner", tmp_path / "clay_liner")
 
 
 # --- what changed ------------------------------------------------------------------------------

@@ -9,10 +9,10 @@ below the 1e-9 m/s criterion, so once kept it meets.
 
 import hashlib
 import json
-import shutil
 from pathlib import Path
 
 import pytest
+from series_files import SAMPLES, copy_sample
 
 from kitchen.analysis import MEETS, NOT_JUDGED
 from kitchen.revisions import (
@@ -26,14 +26,13 @@ from kitchen.revisions import (
 )
 from kitchen.workspace import Workspace
 
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 WHEN = "2025-05-06T09:15:00+02:00"
 REASON = "drift within the scatter of the series"
 
 
 @pytest.fixture
 def clay(tmp_path) -> Path:
-    return Path(shutil.copytree(SAMPLES / "clay_liner", tmp_path / "clay_liner"))
+    return copy_sample(SAMPLES / "clay_liner", tmp_path / "clay_liner")
 
 
 def raw_digests(folder: Path) -> dict[str, str]:

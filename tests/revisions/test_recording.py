@@ -1,7 +1,6 @@
 """Recording revisions and withdrawals: the raw files never change, the log only grows."""
 
 import multiprocessing
-import shutil
 import sys
 import tempfile
 from functools import partial
@@ -10,7 +9,8 @@ from pathlib import Path
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
-from revision_series import SAMPLES, SPECIMENS, WHEN, log_bytes, log_rows, raw_digests, small_series
+from revision_series import SPECIMENS, WHEN, log_bytes, log_rows, raw_digests, small_series
+from series_files import SAMPLES, copy_sample
 
 from kitchen.io import SeriesError, load_series, read_tables
 from kitchen.revisions import (
@@ -30,7 +30,7 @@ def small(tmp_path):
 
 @pytest.fixture
 def clay(tmp_path):
-    return Path(shutil.copytree(SAMPLES / "clay_liner", tmp_path / "clay_liner"))
+    return copy_sample(SAMPLES / "clay_liner", tmp_path / "clay_liner")
 
 
 # --- the row written -------------------------------------------------------------------------

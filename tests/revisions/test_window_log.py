@@ -8,11 +8,11 @@ of the log names the same readings everywhere and that nothing is lost or silent
 """
 
 import hashlib
-import shutil
 from pathlib import Path
 
 import pandas as pd
 import pytest
+from series_files import SAMPLES, copy_sample
 
 from kitchen import cli
 from kitchen.panels import falling_head_panel, series_chart_panel
@@ -28,13 +28,12 @@ from kitchen.revisions import (
 )
 from kitchen.workspace import Workspace
 
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 WHEN = "2025-05-06T09:15:00+02:00"
 
 
 @pytest.fixture
 def clay(tmp_path) -> Path:
-    return Path(shutil.copytree(SAMPLES / "clay_liner", tmp_path / "clay_liner"))
+    return copy_sample(SAMPLES / "clay_liner", tmp_path / "clay_liner")
 
 
 def rows_of(folder: Path, specimen: str) -> list[int]:

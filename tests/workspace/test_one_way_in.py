@@ -12,6 +12,7 @@ from pathlib import Path
 
 import pandas as pd
 import pytest
+from series_files import SAMPLES
 
 from kitchen import cli
 from kitchen.panels import falling_head_panel, revise_panel, series_chart_panel, series_panel
@@ -19,7 +20,6 @@ from kitchen.reduction import FallingHeadRecord
 from kitchen.revisions import choose_window, revise
 from kitchen.workspace import Workspace, revision_effect
 
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 SPECIMEN = "QF-05"
 CRITERION = "1e-9 m/s"  # the liner limit of US 40 CFR 258.40 and EU 1999/31/EC Annex I
 

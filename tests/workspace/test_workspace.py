@@ -6,11 +6,11 @@ reducing every specimen (:func:`kitchen.revisions.load_effective_series` and
 """
 
 import csv
-import shutil
 from pathlib import Path
 
 import pandas as pd
 import pytest
+from series_files import SAMPLES, copy_sample
 
 from kitchen.analysis import NO_CRITERION, Criterion
 from kitchen.io import SeriesError
@@ -19,20 +19,19 @@ from kitchen.revisions import RevisionError, load_effective_series, revise
 from kitchen.settings import Settings
 from kitchen.workspace import Workspace
 
-SAMPLES = Path(__file__).resolve().parents[2] / "sample_data"
 WHEN = "2025-05-02T14:30:00+02:00"
 
 
 @pytest.fixture
 def clay(tmp_path) -> Path:
     """A copy of the invented clay-liner series (falling head), free to revise."""
-    return Path(shutil.copytree(SAMPLES / "clay_liner", tmp_path / "clay_liner"))
+    return copy_sample(SAMPLES / "clay_liner", tmp_path / "clay_liner")
 
 
 @pytest.fixture
 def sand(tmp_path) -> Path:
     """A copy of the invented drainage-sand series (constant head)."""
-    return Path(shutil.copytree(SAMPLES / "drainage_sand", tmp_path / "drainage_sand"))
+    return copy_sample(SAMPLES / "drainage_sand", tmp_path / "drainage_sand")
 
 
 def full_results(folder: Path, settings=None, **options) -> pd.DataFrame:
