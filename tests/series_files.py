@@ -88,12 +88,14 @@ def pristine_samples():
     tables, workbooks, truth.json), without the logs a user's work in the notebooks may have
     left beside them, so that no test reads a window, keep or revision that is not the
     sample's own."""
+    import atexit
     import shutil
     import tempfile
     from pathlib import Path
 
     source = Path(__file__).resolve().parents[1] / "sample_data"
     target = Path(tempfile.mkdtemp(prefix="kitchen-samples-")) / "sample_data"
+    atexit.register(shutil.rmtree, target.parent, True)  # removed when the session ends
     shutil.copytree(source, target, ignore=shutil.ignore_patterns(*USER_LOGS))
     return target
 
