@@ -24,11 +24,9 @@ from pathlib import Path
 from kitchen.analysis import CRITERION_KINDS, parse_criterion
 from kitchen.io import TABLE_NAMES, SeriesError
 from kitchen.memo import ImageExportUnavailable
-from kitchen.revisions import read_window_choices, windows_path
 from kitchen.settings import CAPILLARY_RISE_OPTIONS, FALLING_HEAD_FITS, Settings
 from kitchen.uncertainty import PROPAGATION_METHODS
 from kitchen.water import VISCOSITY_METHODS
-from kitchen.workspace import Workspace
 
 __all__ = ["main", "build_parser"]
 
@@ -242,6 +240,8 @@ def _add_revision_commands(commands) -> None:
 
 def _report(arguments) -> int:
     from kitchen.memo import export_memo_pack
+    from kitchen.revisions import windows_path
+    from kitchen.workspace import Workspace
 
     settings = Settings(
         arguments.reference_temperature,
@@ -281,7 +281,7 @@ def _report(arguments) -> int:
 
 def _revise(arguments, parser) -> int:
     from kitchen.revisions import revise, withdraw
-    from kitchen.workspace import revision_effect
+    from kitchen.workspace import Workspace, revision_effect
 
     value_options = ("specimen", "field", "value", "reading", "table")
     if arguments.withdraw:
@@ -350,7 +350,14 @@ def _change_words(change) -> str:
 
 
 def _window(arguments, parser) -> int:
-    from kitchen.revisions import choose_window, clear_window, standing_choices
+    from kitchen.revisions import (
+        choose_window,
+        clear_window,
+        read_window_choices,
+        standing_choices,
+        windows_path,
+    )
+    from kitchen.workspace import Workspace
 
     given = arguments.first_row is not None, arguments.last_row is not None
     if arguments.proposed == any(given) or (not arguments.proposed and not all(given)):
@@ -407,6 +414,7 @@ def _history(arguments) -> int:
 
 def _keep(arguments, parser) -> int:
     from kitchen.revisions import keep_test, kept_tests_path, withdraw_kept_test
+    from kitchen.workspace import Workspace
 
     if (arguments.withdraw is None) == (arguments.specimen is None):
         parser.error("give --specimen (to keep a test) or --withdraw ID, not both")

@@ -83,69 +83,58 @@ input.
 The geometric mean of a series: k is roughly log-normal (common practice, no source).
 """
 
-from .compaction import (
-    CompactionCurve,
-    LineOfOptimums,
-    compaction_curves,
-    fit_compaction_curve,
-    line_of_optimums,
-)
-from .compaction_zone import (
-    AcceptableZone,
-    acceptable_zone,
-)
-from .criterion import (
-    CRITERION_KINDS,
-    DOES_NOT_MEET,
-    MEETS,
-    NO_CRITERION,
-    NOT_CONCLUSIVE,
-    NOT_JUDGED,
-    Criterion,
-    as_criterion,
-    classify_against_criterion,
-    parse_criterion,
-)
-from .fitted_zone import (
-    FITTED_ZONE_ASSUMPTIONS,
-    FittedParameter,
-    FittedZone,
-    NextSpecimen,
-    fit_zone,
-)
-from .grading import (
-    CHAPUIS_VALIDITY,
-    HAZEN_VALIDITY,
-    KOZENY_CARMAN_VALIDITY,
-    GradingPrediction,
-    chapuis_conductivity,
-    grading_predictions,
-    hazen_conductivity,
-    kozeny_carman_ratio,
-)
-from .result_selection import (
-    REQUIRED_COLUMNS,
-)
-from .saturation_lines import (
-    constant_saturation_dry_density,
-    zero_air_voids_dry_density,
-)
-from .series_analysis import (
-    ANALYSIS_METHODS,
-    NO_CRITERION_NOTE,
-    SATURATION_LINES,
-    VERDICTS,
-    VERDICTS_WITHOUT_CRITERION,
-    SeriesAnalysis,
-    analyse_series,
-)
-from .trends import (
-    ConductivityTrend,
-    GeometricMean,
-    VoidRatioTrend,
-    fit_log_conductivity,
-    fit_log_conductivity_void_ratio,
-    geometric_mean_conductivity,
+from kitchen import _lazy
+
+__getattr__, __dir__ = _lazy.lazy_face(
+    __name__,
+    {
+        "CompactionCurve": "compaction",
+        "LineOfOptimums": "compaction",
+        "compaction_curves": "compaction",
+        "fit_compaction_curve": "compaction",
+        "line_of_optimums": "compaction",
+        "AcceptableZone": "compaction_zone",
+        "acceptable_zone": "compaction_zone",
+        "CRITERION_KINDS": "criterion",
+        "DOES_NOT_MEET": "criterion",
+        "MEETS": "criterion",
+        "NO_CRITERION": "criterion",
+        "NOT_CONCLUSIVE": "criterion",
+        "NOT_JUDGED": "criterion",
+        "Criterion": "criterion",
+        "as_criterion": "criterion",
+        "classify_against_criterion": "criterion",
+        "parse_criterion": "criterion",
+        "FITTED_ZONE_ASSUMPTIONS": "fitted_zone",
+        "FittedParameter": "fitted_zone",
+        "FittedZone": "fitted_zone",
+        "NextSpecimen": "fitted_zone",
+        "fit_zone": "fitted_zone",
+        "CHAPUIS_VALIDITY": "grading",
+        "HAZEN_VALIDITY": "grading",
+        "KOZENY_CARMAN_VALIDITY": "grading",
+        "GradingPrediction": "grading",
+        "chapuis_conductivity": "grading",
+        "grading_predictions": "grading",
+        "hazen_conductivity": "grading",
+        "kozeny_carman_ratio": "grading",
+        "REQUIRED_COLUMNS": "result_selection",
+        "constant_saturation_dry_density": "saturation_lines",
+        "zero_air_voids_dry_density": "saturation_lines",
+        "ANALYSIS_METHODS": "series_analysis",
+        "NO_CRITERION_NOTE": "series_analysis",
+        "SATURATION_LINES": "series_analysis",
+        "VERDICTS": "series_analysis",
+        "VERDICTS_WITHOUT_CRITERION": "series_analysis",
+        "SeriesAnalysis": "series_analysis",
+        "analyse_series": "series_analysis",
+        "ConductivityTrend": "trends",
+        "GeometricMean": "trends",
+        "VoidRatioTrend": "trends",
+        "fit_log_conductivity": "trends",
+        "fit_log_conductivity_void_ratio": "trends",
+        "geometric_mean_conductivity": "trends",
+    },
 )
 
 __all__ = [

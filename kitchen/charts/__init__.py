@@ -37,37 +37,36 @@ ASTM D5084, Methods B and C: ln h falls linearly with time (from memory).
 Darcy's law v = k·i; ASTM D2434 (establish the laminar range, from memory).
 """
 
-from .compaction import (
-    compaction_conductivity_figure,
-    compaction_conductivity_spec,
-)
-from .conductivity_trend import (
-    conductivity_trend_figure,
-)
-from .specimen import (
-    constant_head_figure,
-    falling_head_figure,
-    falling_head_spec,
-)
-from .style import (
-    EFFORT_DASHES,
-    EFFORT_SYMBOLS,
-    FONT,
-    GRID,
-    HEIGHT,
-    INK,
-    MAX_TRACE_POINTS,
-    MUTED,
-    NO_EFFORT,
-    SATURATION_DASHES,
-    VERDICT_COLOURS,
-    VERDICT_FACE,
-    VERDICT_FILL,
-    WIDTH,
-    ZONE,
-    add_caption,
-    decimation_indices,
-    memo_template,
+from kitchen import _lazy
+
+__getattr__, __dir__ = _lazy.lazy_face(
+    __name__,
+    {
+        "compaction_conductivity_figure": "compaction",
+        "compaction_conductivity_spec": "compaction",
+        "conductivity_trend_figure": "conductivity_trend",
+        "constant_head_figure": "specimen",
+        "falling_head_figure": "specimen",
+        "falling_head_spec": "specimen",
+        "EFFORT_DASHES": "style",
+        "EFFORT_SYMBOLS": "style",
+        "FONT": "style",
+        "GRID": "style",
+        "HEIGHT": "style",
+        "INK": "style",
+        "MAX_TRACE_POINTS": "style",
+        "MUTED": "style",
+        "NO_EFFORT": "style",
+        "SATURATION_DASHES": "style",
+        "VERDICT_COLOURS": "style",
+        "VERDICT_FACE": "style",
+        "VERDICT_FILL": "style",
+        "WIDTH": "style",
+        "ZONE": "style",
+        "add_caption": "style",
+        "decimation_indices": "style",
+        "memo_template": "style",
+    },
 )
 
 __all__ = [

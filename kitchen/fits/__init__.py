@@ -37,25 +37,24 @@ Wald, A. & Wolfowitz, J. (1940). On a test whether two samples are from the same
 population. Ann. Math. Statist. 11(2), 147-162 (number of runs, its mean and variance).
 """
 
-from .curvature import (
-    CurvatureTest,
-    RunsTest,
-    curvature_test,
-    runs_test,
-    sign_runs_test,
-)
-from .decay import (
-    DecayFit,
-    fit_exponential_decay,
-)
-from .line import (
-    LinearFit,
-    ProportionalFit,
-    fit_line,
-    fit_through_origin,
-)
-from .windowed import (
-    WindowedLineFit,
+from kitchen import _lazy
+
+__getattr__, __dir__ = _lazy.lazy_face(
+    __name__,
+    {
+        "CurvatureTest": "curvature",
+        "RunsTest": "curvature",
+        "curvature_test": "curvature",
+        "runs_test": "curvature",
+        "sign_runs_test": "curvature",
+        "DecayFit": "decay",
+        "fit_exponential_decay": "decay",
+        "LinearFit": "line",
+        "ProportionalFit": "line",
+        "fit_line": "line",
+        "fit_through_origin": "line",
+        "WindowedLineFit": "windowed",
+    },
 )
 
 __all__ = [

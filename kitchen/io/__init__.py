@@ -35,48 +35,43 @@ heads in :func:`head_rise_tolerance`).
 The OWASP advice on CSV injection, for the leading apostrophe of :func:`spreadsheet_safe`.
 """
 
-from .files import (
-    append_line,
-    atomic_write_bytes,
-    atomic_write_text,
-    folder_lock,
-    spreadsheet_safe,
-    write_csv,
-)
-from .project import (
-    PROJECT_SETTINGS,
-    ProjectSetting,
-    project_settings_path,
-    read_project_settings,
-)
-from .raw_tables import (
-    SCHEMAS,
-    TABLE_NAMES,
-    TEXT_KINDS,
-    ColumnSpec,
-    InputProblem,
-    RawTable,
-    SeriesError,
-    read_tables,
-)
-from .series import (
-    Series,
-    build_series,
-    load_series,
-    rebuild_series,
-)
-from .table_checks import (
-    HEAD_RISE_SCATTERS,
-    HEAD_RISE_TOLERANCE,
-    head_rise_tolerance,
-)
-from .units import (
-    KINDS,
-    UnitError,
-    format_header,
-    parse_value,
-    split_header,
-    to_si,
+from kitchen import _lazy
+
+__getattr__, __dir__ = _lazy.lazy_face(
+    __name__,
+    {
+        "append_line": "files",
+        "atomic_write_bytes": "files",
+        "atomic_write_text": "files",
+        "folder_lock": "files",
+        "spreadsheet_safe": "files",
+        "write_csv": "files",
+        "PROJECT_SETTINGS": "project",
+        "ProjectSetting": "project",
+        "project_settings_path": "project",
+        "read_project_settings": "project",
+        "SCHEMAS": "raw_tables",
+        "TABLE_NAMES": "raw_tables",
+        "TEXT_KINDS": "raw_tables",
+        "ColumnSpec": "raw_tables",
+        "InputProblem": "raw_tables",
+        "RawTable": "raw_tables",
+        "SeriesError": "raw_tables",
+        "read_tables": "raw_tables",
+        "Series": "series",
+        "build_series": "series",
+        "load_series": "series",
+        "rebuild_series": "series",
+        "HEAD_RISE_SCATTERS": "table_checks",
+        "HEAD_RISE_TOLERANCE": "table_checks",
+        "head_rise_tolerance": "table_checks",
+        "KINDS": "units",
+        "UnitError": "units",
+        "format_header": "units",
+        "parse_value": "units",
+        "split_header": "units",
+        "to_si": "units",
+    },
 )
 
 __all__ = [

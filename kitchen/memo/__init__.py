@@ -41,55 +41,44 @@ The memo rests on no standard of its own: the methods and sources the report pag
 :mod:`kitchen.uncertainty`, and the cautions cite theirs in :mod:`kitchen.cautions`.
 """
 
-from .figures import (
-    memo_charts,
-)
-from .images import (
-    FIRST_IMAGE_TIMEOUT,
-    PNG_SCALE,
-    ImageExportUnavailable,
-    figure_image,
-    start_image_export,
-)
-from .manifest import (
-    MANIFEST,
-    MANIFEST_COLUMNS,
-    read_manifest,
-    verify_pack,
-    write_manifest,
-)
-from .markup import (
-    table_markup,
-)
-from .pack import (
-    CHART_SCRIPT,
-    MemoPack,
-    export_memo_pack,
-)
-from .pages import (
-    REDUCTION_METHODS,
-    VERDICT_MARKS,
-    chart_page,
-    report_page,
-)
-from .provenance import (
-    InputFile,
-    Provenance,
-    file_sha256,
-    memo_provenance,
-)
-from .tables import (
-    FIT_COLUMNS,
-    KEPT_TEST_COLUMNS,
-    REVISION_COLUMNS,
-    checks_table,
-    fits_table,
-    kept_tests_table,
-    revisions_table,
-    specimens_table,
-)
-from .workbook import (
-    workbook_bytes,
+from kitchen import _lazy
+
+__getattr__, __dir__ = _lazy.lazy_face(
+    __name__,
+    {
+        "memo_charts": "figures",
+        "FIRST_IMAGE_TIMEOUT": "images",
+        "PNG_SCALE": "images",
+        "ImageExportUnavailable": "images",
+        "figure_image": "images",
+        "start_image_export": "images",
+        "MANIFEST": "manifest",
+        "MANIFEST_COLUMNS": "manifest",
+        "read_manifest": "manifest",
+        "verify_pack": "manifest",
+        "write_manifest": "manifest",
+        "table_markup": "markup",
+        "CHART_SCRIPT": "pack",
+        "MemoPack": "pack",
+        "export_memo_pack": "pack",
+        "REDUCTION_METHODS": "pages",
+        "VERDICT_MARKS": "pages",
+        "chart_page": "pages",
+        "report_page": "pages",
+        "InputFile": "provenance",
+        "Provenance": "provenance",
+        "file_sha256": "provenance",
+        "memo_provenance": "provenance",
+        "FIT_COLUMNS": "tables",
+        "KEPT_TEST_COLUMNS": "tables",
+        "REVISION_COLUMNS": "tables",
+        "checks_table": "tables",
+        "fits_table": "tables",
+        "kept_tests_table": "tables",
+        "revisions_table": "tables",
+        "specimens_table": "tables",
+        "workbook_bytes": "workbook",
+    },
 )
 
 __all__ = [

@@ -13,12 +13,24 @@ set a control's ``value`` and assert on the figure data and the results without 
 The panels need the ``lab`` extra (ipywidgets, plotly, anywidget); the core does not.
 """
 
-from .common import scratch_copy
-from .constant_head import ConstantHeadPanel, constant_head_panel
-from .falling_head import FallingHeadPanel, falling_head_panel
-from .open_series import SeriesPanel, series_panel
-from .revise import RevisePanel, revise_panel
-from .series_chart import SeriesChartPanel, series_chart_panel
+from kitchen import _lazy
+
+__getattr__, __dir__ = _lazy.lazy_face(
+    __name__,
+    {
+        "scratch_copy": "common",
+        "ConstantHeadPanel": "constant_head",
+        "constant_head_panel": "constant_head",
+        "FallingHeadPanel": "falling_head",
+        "falling_head_panel": "falling_head",
+        "SeriesPanel": "open_series",
+        "series_panel": "open_series",
+        "RevisePanel": "revise",
+        "revise_panel": "revise",
+        "SeriesChartPanel": "series_chart",
+        "series_chart_panel": "series_chart",
+    },
+)
 
 __all__ = [
     "ConstantHeadPanel",

@@ -44,40 +44,33 @@ Golub, G. H. & Pereyra, V. (1973), for the separable decay fit of :mod:`kitchen.
 JCGM 100:2008 (GUM), for the interval of :mod:`kitchen.uncertainty`.
 """
 
-from .constant_head import (
-    ConstantHeadAnalysis,
-    ConstantHeadResult,
-    constant_head_analysis,
-    reduce_constant_head,
-)
-from .constant_head_collections import (
-    collection_table,
-    constant_head_conductivity,
-    darcy_velocity,
-    hydraulic_gradient,
-)
-from .falling_head import (
-    falling_head_analysis,
-)
-from .falling_head_evidence import (
-    FallingHeadAnalysis,
-)
-from .falling_head_formulas import (
-    effective_standpipe_area,
-    falling_head_conductivity,
-    incremental_conductivity,
-    jurin_capillary_rise,
-    reading_window,
-    reference_elapsed_time,
-    rising_tailwater_conductivity,
-)
-from .falling_head_record import (
-    FallingHeadRecord,
-)
-from .results import (
-    result_row,
-    results_table,
-    series_results,
+from kitchen import _lazy
+
+__getattr__, __dir__ = _lazy.lazy_face(
+    __name__,
+    {
+        "ConstantHeadAnalysis": "constant_head",
+        "ConstantHeadResult": "constant_head",
+        "constant_head_analysis": "constant_head",
+        "reduce_constant_head": "constant_head",
+        "collection_table": "constant_head_collections",
+        "constant_head_conductivity": "constant_head_collections",
+        "darcy_velocity": "constant_head_collections",
+        "hydraulic_gradient": "constant_head_collections",
+        "falling_head_analysis": "falling_head",
+        "FallingHeadAnalysis": "falling_head_evidence",
+        "effective_standpipe_area": "falling_head_formulas",
+        "falling_head_conductivity": "falling_head_formulas",
+        "incremental_conductivity": "falling_head_formulas",
+        "jurin_capillary_rise": "falling_head_formulas",
+        "reading_window": "falling_head_formulas",
+        "reference_elapsed_time": "falling_head_formulas",
+        "rising_tailwater_conductivity": "falling_head_formulas",
+        "FallingHeadRecord": "falling_head_record",
+        "result_row": "results",
+        "results_table": "results",
+        "series_results": "results",
+    },
 )
 
 __all__ = [

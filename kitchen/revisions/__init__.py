@@ -40,52 +40,47 @@ References
 ISO 8601, for the time of every row of both logs (a date and time with a time zone).
 """
 
-from .effective import (
-    EffectiveSeries,
-    apply_revisions,
-    load_effective_series,
-)
-from .history import (
-    format_history,
-    history_table,
-)
-from .kept_tests import (
-    KEPT_LOG_COLUMNS,
-    KEPT_METHODS,
-    KeptTest,
-    KeptTestError,
-    keep_test,
-    kept_log_sha256,
-    kept_tests_path,
-    read_kept_tests,
-    standing_kept,
-    withdraw_kept_test,
-)
-from .log import (
-    LOG_COLUMNS,
-    Revision,
-    RevisionError,
-    log_sha256,
-    read_revisions,
-    revisions_path,
-)
-from .recording import (
-    HeldSeries,
-    file_stamps,
-    revise,
-    withdraw,
-)
-from .window_log import (
-    WINDOW_LOG_COLUMNS,
-    WindowChoice,
-    WindowLogError,
-    choose_window,
-    chosen_windows,
-    clear_window,
-    read_window_choices,
-    standing_choices,
-    window_log_sha256,
-    windows_path,
+from kitchen import _lazy
+
+__getattr__, __dir__ = _lazy.lazy_face(
+    __name__,
+    {
+        "EffectiveSeries": "effective",
+        "apply_revisions": "effective",
+        "load_effective_series": "effective",
+        "format_history": "history",
+        "history_table": "history",
+        "KEPT_LOG_COLUMNS": "kept_tests",
+        "KEPT_METHODS": "kept_tests",
+        "KeptTest": "kept_tests",
+        "KeptTestError": "kept_tests",
+        "keep_test": "kept_tests",
+        "kept_log_sha256": "kept_tests",
+        "kept_tests_path": "kept_tests",
+        "read_kept_tests": "kept_tests",
+        "standing_kept": "kept_tests",
+        "withdraw_kept_test": "kept_tests",
+        "LOG_COLUMNS": "log",
+        "Revision": "log",
+        "RevisionError": "log",
+        "log_sha256": "log",
+        "read_revisions": "log",
+        "revisions_path": "log",
+        "HeldSeries": "recording",
+        "file_stamps": "recording",
+        "revise": "recording",
+        "withdraw": "recording",
+        "WINDOW_LOG_COLUMNS": "window_log",
+        "WindowChoice": "window_log",
+        "WindowLogError": "window_log",
+        "choose_window": "window_log",
+        "chosen_windows": "window_log",
+        "clear_window": "window_log",
+        "read_window_choices": "window_log",
+        "standing_choices": "window_log",
+        "window_log_sha256": "window_log",
+        "windows_path": "window_log",
+    },
 )
 
 __all__ = [

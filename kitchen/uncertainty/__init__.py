@@ -34,25 +34,26 @@ evaluation), 7.7 (probabilistically symmetric coverage interval). From memory fo
 clause numbers.
 """
 
-from .conductivity import (
-    conductivity_interval,
-)
-from .input_quantities import (
-    DISTRIBUTIONS,
-    InputQuantity,
-    Resolutions,
-    fit_quantity,
-    rectangular_quantity,
-    resolution_uncertainty,
-    temperature_sensitivity,
-)
-from .propagation import (
-    PROPAGATION_METHODS,
-    Contribution,
-    UncertaintyResult,
-    propagate,
-    propagate_first_order,
-    propagate_monte_carlo,
+from kitchen import _lazy
+
+__getattr__, __dir__ = _lazy.lazy_face(
+    __name__,
+    {
+        "conductivity_interval": "conductivity",
+        "DISTRIBUTIONS": "input_quantities",
+        "InputQuantity": "input_quantities",
+        "Resolutions": "input_quantities",
+        "fit_quantity": "input_quantities",
+        "rectangular_quantity": "input_quantities",
+        "resolution_uncertainty": "input_quantities",
+        "temperature_sensitivity": "input_quantities",
+        "PROPAGATION_METHODS": "propagation",
+        "Contribution": "propagation",
+        "UncertaintyResult": "propagation",
+        "propagate": "propagation",
+        "propagate_first_order": "propagation",
+        "propagate_monte_carlo": "propagation",
+    },
 )
 
 __all__ = [

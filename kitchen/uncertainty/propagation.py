@@ -23,7 +23,6 @@ from collections.abc import Callable, Mapping
 from dataclasses import dataclass
 
 import numpy as np
-from scipy import special
 
 from .input_quantities import InputQuantity
 
@@ -90,6 +89,8 @@ class UncertaintyResult:
 
 
 def _coverage_factor(confidence, dof):
+    from scipy import special  # imported here: keeps start-up light (scipy loads slowly)
+
     if math.isinf(dof):
         return float(special.ndtri(0.5 + 0.5 * confidence))
     return float(special.stdtrit(dof, 0.5 + 0.5 * confidence))

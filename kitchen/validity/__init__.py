@@ -40,29 +40,30 @@ Draper, N. R. & Smith, H. *Applied Regression Analysis*, 3rd ed., ch. 2 (t-test 
 added regression term). From memory.
 """
 
-from .checks import (
-    datum_check,
-    flow_ratio_check,
-    gradient_check,
-    gradient_independence_check,
-    is_valid,
-    reynolds_check,
-    reynolds_number,
-    steady_values_check,
-    trend_check,
-)
-from .criteria import (
-    GRADIENT_TABLE,
-    Criteria,
-    Verdict,
-    percent_text,
-    recommended_maximum_gradient,
-)
-from .window_proposal import (
-    WindowProposal,
-    WindowTrends,
-    propose_window,
-    window_trends,
+from kitchen import _lazy
+
+__getattr__, __dir__ = _lazy.lazy_face(
+    __name__,
+    {
+        "datum_check": "checks",
+        "flow_ratio_check": "checks",
+        "gradient_check": "checks",
+        "gradient_independence_check": "checks",
+        "is_valid": "checks",
+        "reynolds_check": "checks",
+        "reynolds_number": "checks",
+        "steady_values_check": "checks",
+        "trend_check": "checks",
+        "GRADIENT_TABLE": "criteria",
+        "Criteria": "criteria",
+        "Verdict": "criteria",
+        "percent_text": "criteria",
+        "recommended_maximum_gradient": "criteria",
+        "WindowProposal": "window_proposal",
+        "WindowTrends": "window_proposal",
+        "propose_window": "window_proposal",
+        "window_trends": "window_proposal",
+    },
 )
 
 __all__ = [

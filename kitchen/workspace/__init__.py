@@ -21,15 +21,16 @@ from its modules: :class:`Workspace`, :func:`frame_digest`, :func:`what_changed`
 :func:`revision_effect`.
 """
 
-from .changes import (
-    revision_effect,
-    what_changed,
-)
-from .digests import (
-    frame_digest,
-)
-from .workspace import (
-    Workspace,
+from kitchen import _lazy
+
+__getattr__, __dir__ = _lazy.lazy_face(
+    __name__,
+    {
+        "revision_effect": "changes",
+        "what_changed": "changes",
+        "frame_digest": "digests",
+        "Workspace": "workspace",
+    },
 )
 
 __all__ = [
