@@ -254,26 +254,27 @@ def _report(arguments) -> int:
         arguments.series, settings, windows_on_record=not arguments.proposed_windows
     )
     series, windows = workspace.series, workspace.windows
-    criterion, source = workspace.criterion_in_force(_criterion(arguments))
-    typed = _criterion(arguments) is not None
+    given = _criterion(arguments)
+    criterion, source = workspace.criterion_in_force(given)
+    if given is not None:
+        source = _TYPED
     pack = export_memo_pack(
         workspace,
         arguments.out,
-        criterion=criterion if typed else None,
-        criterion_source=_TYPED if typed else None,
+        criterion=given,
+        criterion_source=source if given is not None else None,
         k_unit=arguments.k_unit,
         density_unit=arguments.density_unit,
         images=not arguments.no_images,
         self_contained=arguments.self_contained,
         progress=_progress,
     )
-    table = workspace.results_table()
     effective = workspace.effective
     path = arguments.out / "results.csv"
-    print(f"{len(table)} result row(s) for {series.name} written to {path}")
+    print(f"{len(workspace.results())} result row(s) for {series.name} written to {path}")
     print(f"memo pack: {len(pack)} file(s) in {arguments.out} ({pack.seconds:.1f} s)")
     print(f"{effective.revision_count} revision(s) applied from {effective.log_path}")
-    print(_criterion_words(criterion, _TYPED if typed else source))
+    print(_criterion_words(criterion, source))
     if windows:
         print(f"{len(windows)} reading window(s) chosen, from {windows_path(arguments.series)}")
     return 0

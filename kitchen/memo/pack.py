@@ -48,7 +48,7 @@ from pathlib import Path
 from kitchen import display_units
 from kitchen.analysis import SeriesAnalysis
 from kitchen.cautions import CAUTIONS
-from kitchen.io import atomic_write_bytes, project_settings_path, spreadsheet_safe
+from kitchen.io import atomic_write_bytes, spreadsheet_safe
 from kitchen.revisions import kept_log_sha256, standing_choices
 from kitchen.revisions import window_log_sha256 as window_log_digest
 from kitchen.settings import Settings, reference_label
@@ -272,12 +272,8 @@ def export_memo_pack(
         if capillary_rises
         else "none (see capillary_rise)",
     }
-    project_file, _ = project_settings_path(series.source)
-    inputs = list(series.input_files)
-    if project_file.is_file() and project_file not in inputs:
-        inputs.append(project_file)  # the project table: the criterion, when it has one
     provenance = memo_provenance(
-        inputs,
+        workspace.input_files,
         series.name,
         series.source,
         chosen,

@@ -30,6 +30,7 @@ from kitchen.io import (
     Series,
     SeriesError,
     build_series,
+    project_settings_path,
     read_project_settings,
     read_tables,
     rebuild_series,
@@ -437,10 +438,10 @@ class Workspace:
             specimen,
             "falling_head",
             key,
-            lambda: self._analyse(specimen, self.readings(specimen, "falling_head")),
+            lambda: self._analyse(specimen),
         )
 
-    def _analyse(self, specimen: str, readings: pd.DataFrame) -> FallingHeadAnalysis:
+    def _analyse(self, specimen: str) -> FallingHeadAnalysis:
         try:
             return self.falling_head_record(specimen).analyse(self._window_of(specimen))
         except ValueError as error:  # as kitchen.reduction.series_results words it
@@ -594,6 +595,14 @@ class Workspace:
         method): the keep in words (id, who, when, why)}``, as :meth:`analysis` judges
         them."""
         return {pair: row.record for pair, row in standing_kept(self._kept_tests).items()}
+
+    @property
+    def input_files(self) -> tuple[Path, ...]:
+        """Every file the series was read from, for provenance: the raw tables (or the
+        workbook) and, where the series has one, the project table."""
+        project, _ = project_settings_path(self.path)
+        extra = (project,) if project.is_file() and project not in self._input_files else ()
+        return (*self._input_files, *extra)
 
     @property
     def project_settings(self) -> dict:
