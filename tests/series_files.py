@@ -78,7 +78,6 @@ def copy_sample(source, destination):
     the project table and truth.json, never a log a user's work in the notebooks left beside
     them. Returns the destination as a Path."""
     import shutil
-    from pathlib import Path
 
     return Path(shutil.copytree(source, destination, ignore=shutil.ignore_patterns(*USER_LOGS)))
 
@@ -91,13 +90,11 @@ def pristine_samples():
     import atexit
     import shutil
     import tempfile
-    from pathlib import Path
 
     source = Path(__file__).resolve().parents[1] / "sample_data"
     target = Path(tempfile.mkdtemp(prefix="kitchen-samples-")) / "sample_data"
     atexit.register(shutil.rmtree, target.parent, True)  # removed when the session ends
-    shutil.copytree(source, target, ignore=shutil.ignore_patterns(*USER_LOGS))
-    return target
+    return copy_sample(source, target)
 
 
 SAMPLES = pristine_samples()

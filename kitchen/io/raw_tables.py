@@ -223,7 +223,7 @@ def _read_csv(path: Path, problems: list[InputProblem]) -> tuple[pd.DataFrame, l
         problems.append(InputProblem(label, None, None, f"cannot be read as CSV ({error})"))
         return None
     written = [str(text) for text in first.iloc[0]] if len(first) else []
-    if len(written) == 1 and any(mark in written[0] for mark in ";\t"):
+    if _other_separator(written) is not None:
         return pd.DataFrame({0: []}), written  # not comma-separated: the header says it all
     keys = list(range(len(written)))
     text_keys = [key for key in keys if _text_column(written[key])]
@@ -276,6 +276,19 @@ def _read_csv(path: Path, problems: list[InputProblem]) -> tuple[pd.DataFrame, l
     return frame, written
 
 
+_SEPARATOR_WORDS = {";": "semicolons", "\t": "tabs"}
+
+
+def _other_separator(written: list[str]) -> str | None:
+    """The separator of a header the parser read as one cell (a semicolon or a tab, in
+    that order), or None: a file saved with it is not comma-separated."""
+    if len(written) == 1:
+        for mark in _SEPARATOR_WORDS:
+            if mark in written[0]:
+                return mark
+    return None
+
+
 def _rows_with_cells_beyond_the_header(path: Path, width: int) -> list[tuple[int, int]]:
     """The rows (as a spreadsheet counts them) with a non-empty cell beyond the header's
     `width` cells, and how many cells they have; read only when the parser warned."""
@@ -317,9 +330,9 @@ def _prepare(
     headers: dict[str, str] = {}
     rename: dict = {}
     first_at: dict[str, int] = {}
-    separated = len(written) == 1 and any(mark in written[0] for mark in ";\t")
+    separator = _other_separator(written)  # a header not comma-separated: kept whole
     for position, (raw, raw_text) in enumerate(zip(frame.columns, written, strict=True)):
-        if not raw_text.strip() or separated:
+        if not raw_text.strip() or separator is not None:
             continue  # no header (an empty column, notes beside the table), or not CSV
         try:
             header_name, unit = split_header(raw_text)
@@ -379,11 +392,11 @@ def _prepare(
         if spec.required and column not in rename.values():
             if column in first_at:
                 continue  # present but refused above; already reported
-            hint = ""
-            if len(written) == 1 and ";" in written[0]:
-                hint = " (the header has semicolons: save the file comma-separated)"
-            elif len(written) == 1 and "\t" in written[0]:
-                hint = " (the header has tabs: save the file comma-separated)"
+            hint = (
+                f" (the header has {_SEPARATOR_WORDS[separator]}: save the file comma-separated)"
+                if separator is not None
+                else ""
+            )
             found = ", ".join(written) or "none"
             problems.append(
                 InputProblem(

@@ -23,8 +23,6 @@ import numpy as np
 import pandas as pd
 
 from .raw_tables import SCHEMAS, TABLE_NAMES, InputProblem, RawTable, SeriesError, read_tables
-from .raw_tables import ColumnSpec as ColumnSpec
-from .table_checks import HEAD_RISE_TOLERANCE as HEAD_RISE_TOLERANCE
 from .table_checks import (
     TextCodes,
     check_known_specimens,

@@ -19,7 +19,7 @@ from dataclasses import dataclass
 import numpy as np
 import pandas as pd
 
-from kitchen.specimen import degree_of_saturation, dry_density, void_ratio
+from kitchen.specimen import circle_area, specimen_state
 
 from .raw_tables import SCHEMAS, TEXT_KINDS, InputProblem, RawTable
 from .units import to_si
@@ -61,7 +61,13 @@ class PlausibleRange:
 
 
 _DAY = 86_400.0
-_BORE_AREA = (np.pi * 1e-4**2 / 4, np.pi * 0.3**2 / 4)  # bores of 0.1 mm and 300 mm
+_BORE = PlausibleRange(1e-4, 0.3, "0.1 mm to 300 mm", "a standpipe bore")
+_BORE_AREA = PlausibleRange(
+    circle_area(_BORE.low),
+    circle_area(_BORE.high),
+    f"that of a bore of {_BORE.shown}",
+    "a standpipe's area",
+)
 
 PLAUSIBLE_RANGES: dict[str, dict[str, PlausibleRange]] = {
     "specimens": {
@@ -72,16 +78,10 @@ PLAUSIBLE_RANGES: dict[str, dict[str, PlausibleRange]] = {
         "mold_and_soil_mass": PlausibleRange(0.001, 200.0, "1 g to 200 kg", "a mold with its soil"),
         "water_content": PlausibleRange(0.0, 2.0, "0 to 200 %", "a water content"),
         "d10": PlausibleRange(1e-7, 0.05, "0.1 µm to 50 mm", "an effective grain size"),
-        "standpipe_diameter": PlausibleRange(1e-4, 0.3, "0.1 mm to 300 mm", "a standpipe bore"),
-        "standpipe_area": PlausibleRange(
-            *_BORE_AREA, "that of a bore of 0.1 mm to 300 mm", "a standpipe's area"
-        ),
-        "tailwater_standpipe_diameter": PlausibleRange(
-            1e-4, 0.3, "0.1 mm to 300 mm", "a standpipe bore"
-        ),
-        "tailwater_standpipe_area": PlausibleRange(
-            *_BORE_AREA, "that of a bore of 0.1 mm to 300 mm", "a standpipe's area"
-        ),
+        "standpipe_diameter": _BORE,
+        "standpipe_area": _BORE_AREA,
+        "tailwater_standpipe_diameter": _BORE,
+        "tailwater_standpipe_area": _BORE_AREA,
     },
     "constant_head": {
         "head_difference": PlausibleRange(0.0, 100.0, "up to 100 m", "a head difference"),
@@ -106,7 +106,14 @@ the header gives (a height in ``[Mm]``, diameters in millimetres under ``[cm]``,
 temperature in °F under ``[degC]``). The bounds are wide on purpose — a specimen from a
 small mold to a large permeameter, a standpipe from a capillary burette to a pipe, a
 falling-head record logged for weeks — and are common practice, no source. The specific
-gravity has its own check (:func:`check_specimens`)."""
+gravity has its own range and message (:data:`SPECIFIC_GRAVITY_RANGE`)."""
+
+SPECIFIC_GRAVITY_RANGE = PlausibleRange(
+    1.5, 4.0, "1.5 and 4.0", "a specific gravity of soil solids"
+)
+"""The specific gravity of soil solids accepted (most soils have 2.6–2.8); a value outside
+is named by :func:`check_specimens` in words of its own, not as a unit written wrongly.
+Common practice, no source."""
 
 VOID_RATIO_LIMIT = 5.0
 """The largest void ratio a compacted specimen is taken to have (a compacted clay has
@@ -436,6 +443,7 @@ def check_specimens(
     ids = frame["specimen"]
     duplicated = (ids.duplicated(keep=False) & ids.notna()).to_numpy()
     report_rows(problems, table, duplicated, "specimen", "specimen id given more than once")
+    specimen_codes = TextCodes.of(ids)
 
     def given(name: str) -> np.ndarray:
         """Where the file has a cell (a bad one is named already: not as missing too)."""
@@ -465,14 +473,13 @@ def check_specimens(
     if by_mold.any():
         frame["dry_mass"] = np.where(by_mold, soil, dry)
     gs = column("specific_gravity")
-    with np.errstate(invalid="ignore"):
-        odd = ~np.isnan(gs) & ((gs < 1.5) | (gs > 4.0))
     report_rows(
         problems,
         table,
-        odd,
+        ~np.isnan(gs) & ~_within(gs, SPECIFIC_GRAVITY_RANGE),
         "specific_gravity",
-        "expected a specific gravity of soil solids between 1.5 and 4.0 (typically 2.6-2.8)",
+        f"expected {SPECIFIC_GRAVITY_RANGE.what} between {SPECIFIC_GRAVITY_RANGE.shown} "
+        "(typically 2.6-2.8)",
     )
     if by_mold.any():
         soil_range = PLAUSIBLE_RANGES["specimens"]["dry_mass"]
@@ -485,9 +492,9 @@ def check_specimens(
             "mold_and_soil_mass",
             f"the dry soil (mold_and_soil_mass - mold_mass) is outside {soil_range.shown}, "
             f"what {soil_range.what} can be: check the unit",
-            ids=TextCodes.of(frame["specimen"]),
+            ids=specimen_codes,
         )
-    check_phase_relations(table, frame, by_mold, problems)
+    check_phase_relations(table, frame, by_mold, specimen_codes, problems)
     for prefix in ("", "tailwater_"):
         diameter_name, area_name = f"{prefix}standpipe_diameter", f"{prefix}standpipe_area"
         diameter, area = column(diameter_name), column(area_name)
@@ -501,13 +508,17 @@ def check_specimens(
         )
         from_diameter = has_diameter & ~has_area
         if from_diameter.any():
-            frame[area_name] = np.where(from_diameter, np.pi * diameter**2 / 4, area)
+            frame[area_name] = np.where(from_diameter, circle_area(diameter), area)
         del frame[diameter_name]
     return frame
 
 
 def check_phase_relations(
-    table: RawTable, frame: pd.DataFrame, by_mold: np.ndarray, problems: list[InputProblem]
+    table: RawTable,
+    frame: pd.DataFrame,
+    by_mold: np.ndarray,
+    ids: TextCodes,
+    problems: list[InputProblem],
 ) -> None:
     """Name each specimen whose dry mass gives a void ratio at or below zero, above
     :data:`VOID_RATIO_LIMIT`, or a saturation above :data:`SATURATION_LIMIT`.
@@ -520,7 +531,7 @@ def check_phase_relations(
     ----------
     Das, B. M. and Sobhan, K., *Principles of Geotechnical Engineering*, weight-volume
     relationships: ρd = Ms/V, e = Gs·ρw/ρd − 1, S·e = w·Gs (through
-    :mod:`kitchen.specimen`).
+    :func:`kitchen.specimen.specimen_state`).
     """
 
     def column(name: str) -> np.ndarray:
@@ -534,18 +545,16 @@ def check_phase_relations(
             _within(diameter, ranges["diameter"])
             & _within(height, ranges["height"])
             & _within(mass, ranges["dry_mass"])
-            & (gs >= 1.5)
-            & (gs <= 4.0)
+            & _within(gs, SPECIFIC_GRAVITY_RANGE)
         )
     if not judged.any():
         return
     with np.errstate(invalid="ignore"):
         water_judged = np.isfinite(water) & (water >= 0) & (water <= ranges["water_content"].high)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        density = dry_density(mass, diameter, height)
-        e = void_ratio(density, gs)
-        saturation = degree_of_saturation(water, gs, e)
-    ids = TextCodes.of(frame["specimen"])
+    state = specimen_state(frame)
+    density, e, saturation = (
+        state[name].to_numpy(dtype=float) for name in ("dry_density", "void_ratio", "saturation")
+    )
     rows = table.frame["source_row"].to_numpy()
     for index in np.flatnonzero(judged):
         name = "mold_and_soil_mass" if by_mold[index] else "dry_mass"

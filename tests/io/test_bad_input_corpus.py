@@ -701,6 +701,8 @@ def _check_loads(case: Case, path) -> None:
     state = specimen_state(series.specimens)
     e = state["void_ratio"].to_numpy(dtype=float)
     saturation = state["saturation"].to_numpy(dtype=float)
+    # the loader's own limits of a compacted specimen: 0 < e <= 5, S <= 110 % (common
+    # practice, no source)
     assert ((e > 0) & (e <= 5)).all(), e
     assert (np.isnan(saturation) | (saturation <= 1.10)).all(), saturation
     results = series_results(series)
