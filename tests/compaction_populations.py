@@ -66,6 +66,17 @@ class CompactionSeries:
         """Judged and at or below the criterion (the point value of k)."""
         return self.judged & (self.log10_k <= np.log10(self.criterion))
 
+    @property
+    def judged_specimens(self):
+        """(w, ρd, k20 [m/s], effort) of the judged specimens: what a fit of the series takes."""
+        judged = self.judged
+        return (
+            self.water_content[judged],
+            self.dry_density[judged],
+            10.0 ** self.log10_k[judged],
+            self.effort[judged],
+        )
+
 
 def _states(rng, efforts, counts, scatter):
     w, rho, effort = [], [], []
@@ -111,3 +122,22 @@ def held_out(series: CompactionSeries, seed: int, per_effort: int = 10):
     efforts = list(dict.fromkeys(series.effort))
     w, rho, effort = _states(rng, efforts, [per_effort] * len(efforts), series.scatter)
     return w, rho, _log10_k(rng, series.law, w, rho, effort), effort
+
+
+def new_specimen_tally(fitted, series: CompactionSeries, seed: int) -> tuple[int, int, int, int]:
+    """New specimens of `series` (:func:`held_out` with `seed`) held to a fitted zone of it.
+
+    Returns (held by their 95 % prediction interval, drawn, inside their effort's zone (the
+    one zone, without an effort factor), of those inside failing the criterion).
+    """
+    w, rho, log_k, effort = held_out(series, seed)
+    covered = total = in_zone = failing = 0
+    for name in fitted.efforts or (None,):
+        rows = effort == name if name is not None else np.ones(w.size, dtype=bool)
+        _, low, high = fitted.predict(w[rows], rho[rows], name)
+        covered += int(np.sum((low <= log_k[rows]) & (log_k[rows] <= high)))
+        total += int(rows.sum())
+        inside = np.asarray(fitted.contains(w[rows], rho[rows], name))
+        in_zone += int(inside.sum())
+        failing += int(np.sum(inside & (log_k[rows] > np.log10(series.criterion))))
+    return covered, total, in_zone, failing

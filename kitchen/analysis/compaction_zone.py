@@ -101,8 +101,16 @@ def _inside(kind: str, v: np.ndarray, q: np.ndarray, tolerance: float) -> np.nda
         return np.hypot(*(q - v[0]).T) <= tolerance
     if kind == "segment":
         return _segment_distance(v[0], v[1], q) <= tolerance
+    return inside_convex_polygon(v, q, tolerance)
+
+
+def inside_convex_polygon(
+    corners: np.ndarray, q: np.ndarray, tolerance: float = _ZONE_TOLERANCE
+) -> np.ndarray:
+    """Whether the points `q` (..., 2) lie in the counterclockwise convex polygon `corners`,
+    or within `tolerance` of it: on the left of (or on) every edge."""
     inside = np.ones(q.shape[:-1], dtype=bool)
-    for start, end in zip(v, np.roll(v, -1, axis=0), strict=True):
+    for start, end in zip(corners, np.roll(corners, -1, axis=0), strict=True):
         edge, rel = end - start, q - start
         cross = edge[0] * rel[..., 1] - edge[1] * rel[..., 0]
         inside &= cross >= -tolerance * np.hypot(*edge)

@@ -30,6 +30,7 @@ from ._checks import (
     like_inputs,
     require_same_length,
 )
+from .compaction_zone import inside_convex_polygon
 from .criterion import Criterion, as_criterion
 
 __all__ = [
@@ -313,7 +314,7 @@ class FittedZone:
         for level in levels:
             corners = self.zones[level].extent
             if corners.size:
-                within = _inside_polygon(self._scaled(corners[:, 0], corners[:, 1]), z)
+                within = inside_convex_polygon(self._scaled(corners[:, 0], corners[:, 1]), z)
                 inside |= within & (self._excess(z, level) <= 0)
         return like_inputs(inside, water_content, dry_density)
 
@@ -343,17 +344,6 @@ class FittedZone:
                 "boundary most"
             )
         return text
-
-
-def _inside_polygon(corners: np.ndarray, z: np.ndarray, tolerance: float = 1e-9) -> np.ndarray:
-    """Whether the scaled states `z` (..., 2) lie in the counterclockwise convex polygon
-    `corners`, or within `tolerance` of it."""
-    inside = np.ones(z.shape[:-1], dtype=bool)
-    for start, end in zip(corners, np.roll(corners, -1, axis=0), strict=True):
-        edge, rel = end - start, z - start
-        cross = edge[0] * rel[..., 1] - edge[1] * rel[..., 0]
-        inside &= cross >= -tolerance * np.hypot(*edge)
-    return inside
 
 
 def _effort_levels(effort, n: int, notes: list[str]) -> tuple[tuple, np.ndarray]:

@@ -6,7 +6,7 @@ stated rate, and a new specimen in the fitted zone must seldom fail the criterio
 """
 
 import numpy as np
-from compaction_populations import compaction_series, held_out
+from compaction_populations import compaction_series, new_specimen_tally
 
 from kitchen.analysis import acceptable_zone, fit_zone
 
@@ -32,33 +32,19 @@ def test_the_drawn_zone_never_holds_a_specimen_that_does_not_meet():
 
 
 def test_the_fitted_zone_interval_covers_new_specimens_at_its_rate():
-    covered = total = refused = in_zone = failing_in_zone = 0
+    refused, tallies = 0, []
     for seed in range(SERIES):
         series = compaction_series(seed)
-        judged = series.judged
+        w, rho, k, effort = series.judged_specimens
         try:
-            zone = fit_zone(
-                series.water_content[judged],
-                series.dry_density[judged],
-                10.0 ** series.log10_k[judged],
-                series.criterion,
-                series.effort[judged],
-            )
+            zone = fit_zone(w, rho, k, series.criterion, effort)
         except ValueError as error:
             assert "needs at least" in str(error)
             refused += 1
             continue
-        w, rho, log_k, effort = held_out(series, 100_000 + seed)
-        for name in zone.efforts or (None,):
-            rows = effort == name if name is not None else np.ones(w.size, dtype=bool)
-            _, low, high = zone.predict(w[rows], rho[rows], name)
-            covered += int(np.sum((low <= log_k[rows]) & (log_k[rows] <= high)))
-            total += int(rows.sum())
-            # a new specimen in its effort's zone (in the one zone, without an effort factor)
-            inside = np.asarray(zone.contains(w[rows], rho[rows], name))
-            in_zone += int(inside.sum())
-            failing = log_k[rows] > np.log10(series.criterion)
-            failing_in_zone += int(np.sum(inside & failing))
+        # a new specimen in its effort's zone (in the one zone, without an effort factor)
+        tallies.append(new_specimen_tally(zone, series, 100_000 + seed))
+    covered, total, in_zone, failing_in_zone = np.sum(tallies, axis=0)
     assert refused < SERIES // 10 and total > 3000
     assert 0.93 <= covered / total <= 0.97
     # the upper end of a two-sided 95 % interval: at most 2.5 % of new specimens above it

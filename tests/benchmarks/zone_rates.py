@@ -21,14 +21,15 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from compaction_populations import compaction_series, held_out  # noqa: E402
+from compaction_populations import compaction_series, new_specimen_tally  # noqa: E402
 
 from kitchen.analysis import acceptable_zone, fit_zone  # noqa: E402
 
 
 def main(count: int) -> None:
     started = time.perf_counter()
-    holding = crowded = refused = covered = total = in_zone = failing = 0
+    holding = crowded = refused = 0
+    tallies = []
     for seed in range(count):
         series = compaction_series(seed)
         meets = series.meets
@@ -37,27 +38,14 @@ def main(count: int) -> None:
             np.any(zone.contains(series.water_content[~meets], series.dry_density[~meets]))
         )
         crowded += bool(zone.blocking)
-        judged = series.judged
+        w, rho, k, effort = series.judged_specimens
         try:
-            fitted = fit_zone(
-                series.water_content[judged],
-                series.dry_density[judged],
-                10.0 ** series.log10_k[judged],
-                series.criterion,
-                series.effort[judged],
-            )
+            fitted = fit_zone(w, rho, k, series.criterion, effort)
         except ValueError:
             refused += 1
             continue
-        w, rho, log_k, effort = held_out(series, 1_000_000 + seed)
-        for name in fitted.efforts or (None,):
-            rows = effort == name if name is not None else np.ones(w.size, dtype=bool)
-            _, low, high = fitted.predict(w[rows], rho[rows], name)
-            covered += int(np.sum((low <= log_k[rows]) & (log_k[rows] <= high)))
-            total += int(rows.sum())
-            inside = np.asarray(fitted.contains(w[rows], rho[rows], name))
-            in_zone += int(inside.sum())
-            failing += int(np.sum(inside & (log_k[rows] > np.log10(series.criterion))))
+        tallies.append(new_specimen_tally(fitted, series, 1_000_000 + seed))
+    covered, total, in_zone, failing = np.sum(tallies, axis=0)
     print(f"series: {count}")
     print(f"drawn zones holding a specimen that does not meet: {holding}")
     print(f"series where the hull of all that meet held one that does not: {crowded}")
