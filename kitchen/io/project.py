@@ -83,14 +83,12 @@ def read_project_settings(series_path: str | Path) -> dict[str, ProjectSetting]:
     """
     file, sheet = project_settings_path(series_path)
     label = file.name if sheet is None else f"{file.name} [{sheet}]"
+    if not file.exists():
+        return {}
     try:
         if sheet is None:
-            if not file.exists():
-                return {}
             frame = pd.read_csv(file, dtype=str, keep_default_na=False, encoding="utf-8-sig")
         else:
-            if not file.exists():
-                return {}
             with pd.ExcelFile(file) as book:
                 if sheet not in book.sheet_names:
                     return {}

@@ -6,7 +6,9 @@ has an id of eight hexadecimal digits, used once, and a time in ISO 8601 with a 
 This module reads such a log (checking its header, the number of fields of each row, the
 id and the time, and naming the row and column of each row that cannot be read), takes its
 SHA-256, and appends a row to it; the logs themselves keep their columns, the checks of
-their own columns and their words.
+their own columns and their words. The revision log (:mod:`.log`) is read by its own
+reader, with its own words for a file that cannot be read, and shares the rest: its path,
+SHA-256, error, the check of a row's time, and the appender.
 """
 
 from __future__ import annotations
@@ -16,11 +18,10 @@ import hashlib
 import io
 import re
 from collections.abc import Callable, Sequence
+from datetime import datetime
 from pathlib import Path
 
 from kitchen.io import append_line, folder_lock
-
-from .log import checked_when
 
 __all__ = [
     "LogError",
@@ -29,6 +30,7 @@ __all__ = [
     "parse_log",
     "file_sha256",
     "append_log_row",
+    "checked_when",
 ]
 
 _ID = re.compile(r"^[0-9a-f]{8}$")
@@ -120,6 +122,19 @@ def parse_log(
     if problems:
         raise error(problems)
     return tuple(entries)
+
+
+def checked_when(text: str, error: type[Exception] = ValueError) -> str:
+    """`text` when it is an ISO 8601 date and time with a time zone; else `error`."""
+    try:
+        moment = datetime.fromisoformat(text)
+    except (TypeError, ValueError):
+        raise error(
+            f"{text!r} is not an ISO 8601 date and time (for example 2025-05-02T14:30:00+02:00)"
+        ) from None
+    if moment.tzinfo is None:
+        raise error(f"{text!r} has no time zone; add one (for example +02:00 or Z)")
+    return text
 
 
 def _check_id_and_time(row: dict[str, str], first_at: dict[str, int]):

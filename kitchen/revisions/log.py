@@ -4,13 +4,12 @@ Each revision is one row of the series' log: ``revisions.csv`` in the series fol
 ``<stem>.revisions.csv`` beside an ``.xlsx`` workbook (:func:`revisions_path`). Reading the
 log checks every row (its id, time, table, field and what it withdraws) and names the row
 and column of each one that cannot be read. The time of a row is ISO 8601 with a time
-zone; the helpers that check and make it are shared with :mod:`kitchen.revisions.window_log`.
+zone; the helpers that check and make it are shared with the window and kept-tests logs.
 """
 
 from __future__ import annotations
 
 import csv
-import hashlib
 import io
 import re
 from dataclasses import dataclass
@@ -19,6 +18,8 @@ from datetime import datetime
 from pathlib import Path
 
 from kitchen.io import SCHEMAS, TABLE_NAMES
+
+from ._logbook import LogError, checked_when, file_sha256, log_path
 
 __all__ = [
     "LOG_COLUMNS",
@@ -40,16 +41,10 @@ REVISE, WITHDRAW = "revise", "withdraw"
 _ID = re.compile(r"^[0-9a-f]{8}$")
 
 
-class RevisionError(ValueError):
+class RevisionError(LogError):
     """A revision that cannot be made or applied, or a log that cannot be read."""
 
-    def __init__(self, problems: list[str] | str):
-        self.problems = [problems] if isinstance(problems, str) else list(problems)
-        if len(self.problems) == 1:
-            super().__init__(self.problems[0])
-        else:
-            lines = [f"{len(self.problems)} problem(s) with the revisions:"]
-            super().__init__("\n".join(lines + [f"  - {p}" for p in self.problems]))
+    subject = "the revisions"
 
 
 @dataclass(frozen=True)
@@ -107,24 +102,10 @@ def revisions_path(series_path: str | Path) -> Path:
     ``<folder>/revisions.csv`` for a series folder; ``<stem>.revisions.csv`` beside an
     ``.xlsx`` workbook (``drainage_sand.revisions.csv`` for ``drainage_sand.xlsx``).
     """
-    path = Path(series_path)
-    if path.suffix.lower() == ".xlsx":
-        return path.with_name(f"{path.stem}.revisions.csv")
-    return path / "revisions.csv"
+    return log_path(series_path, "revisions")
 
 
 # --- the log --------------------------------------------------------------------------------
-
-
-def encode_revision(revision: Revision) -> bytes:
-    """One revision as a line of the log (CSV, UTF-8)."""
-    buffer = io.StringIO()
-    values = [getattr(revision, name) for name in LOG_COLUMNS]
-    csv.writer(buffer, lineterminator="\n").writerow(["" if v is None else v for v in values])
-    return buffer.getvalue().encode("utf-8")
-
-
-LOG_HEADER = (",".join(LOG_COLUMNS) + "\n").encode("utf-8")
 
 
 def _parse_log(data: bytes, label: str) -> tuple[Revision, ...]:
@@ -179,7 +160,7 @@ def _check_row(row: dict, label: str, number: int, by_id: dict, withdrawn_by: di
         return problem("id", f"id {row['id']} is used twice (first at row {first})")
     try:
         checked_when(row["when"])
-    except RevisionError as error:
+    except ValueError as error:
         return problem("when", str(error))
     if not row["reason"]:
         return problem("reason", "every revision needs a reason")
@@ -235,11 +216,7 @@ def read_revisions(series_path: str | Path) -> tuple[Revision, ...]:
 
 def log_sha256(series_path: str | Path) -> str | None:
     """SHA-256 (hex) of a series' revision log as it is now; ``None`` when there is none."""
-    log = revisions_path(series_path)
-    try:
-        return hashlib.sha256(log.read_bytes()).hexdigest()
-    except FileNotFoundError:
-        return None
+    return file_sha256(revisions_path(series_path))
 
 
 def standing_and_withdrawn(revisions) -> tuple[list[Revision], list[Revision]]:
@@ -253,19 +230,6 @@ def standing_and_withdrawn(revisions) -> tuple[list[Revision], list[Revision]]:
 
 
 # --- the time of a row -----------------------------------------------------------------------
-
-
-def checked_when(text: str) -> str:
-    """`text` when it is an ISO 8601 date and time with a time zone; else a RevisionError."""
-    try:
-        moment = datetime.fromisoformat(text)
-    except (TypeError, ValueError):
-        raise RevisionError(
-            f"{text!r} is not an ISO 8601 date and time (for example 2025-05-02T14:30:00+02:00)"
-        ) from None
-    if moment.tzinfo is None:
-        raise RevisionError(f"{text!r} has no time zone; add one (for example +02:00 or Z)")
-    return text
 
 
 def free_text(text, name: str, missing: str | None, error: type[Exception]) -> str:
@@ -317,4 +281,4 @@ def when_text(when) -> str:
         return datetime.now().astimezone().isoformat(timespec="seconds")
     if isinstance(when, datetime):
         when = when.isoformat(timespec="seconds")
-    return checked_when(str(when).strip())
+    return checked_when(str(when).strip(), RevisionError)

@@ -20,14 +20,13 @@ from kitchen.io import (
     RawTable,
     Series,
     SeriesError,
-    append_line,
     build_series,
-    folder_lock,
     read_tables,
     rebuild_series,
     split_header,
 )
 
+from ._logbook import append_log_row
 from .effective import (
     applied_text,
     apply_to_tables,
@@ -37,12 +36,11 @@ from .effective import (
     locate_row,
 )
 from .log import (
-    LOG_HEADER,
+    LOG_COLUMNS,
     REVISE,
     WITHDRAW,
     Revision,
     RevisionError,
-    encode_revision,
     read_log,
     reason_who_when,
     revisions_path,
@@ -117,8 +115,8 @@ def _record(series_path, make, held: HeldSeries | None = None) -> Revision:
     """
     source = Path(series_path)
     log = revisions_path(source)
-    with folder_lock(log.parent):
-        _, existing = read_log(log)
+
+    def checked(existing) -> Revision:
         usable = held is not None and held.current(existing)
         if usable:
             raw, input_files = held.tables, held.input_files
@@ -151,8 +149,9 @@ def _record(series_path, make, held: HeldSeries | None = None) -> Revision:
         if new:
             new[-1] += "; nothing was written"
             raise RevisionError(new)
-        append_line(log, encode_revision(revision), header=LOG_HEADER)
-    return revision
+        return revision
+
+    return append_log_row(log, LOG_COLUMNS, lambda: read_log(log)[1], checked)
 
 
 def revise(
