@@ -335,7 +335,7 @@ class Workspace:
 
     def _reread(self, revisions) -> tuple[str, ...]:
         """Read the raw files and the log again, as when the workspace was opened."""
-        held = (self._written, self._input_files, self._stamps, self._revisions)
+        held = (self._written, self._input_files, self._stamps, self._revisions, self._project)
         before = self._inputs()
         try:
             self._written, self._input_files = read_tables(self.path)
@@ -345,7 +345,7 @@ class Workspace:
             tables = {name: self._effective_table(name) for name in self._written}
             series = build_series(tables, self.path, self._input_files)
         except Exception:
-            self._written, self._input_files, self._stamps, self._revisions = held
+            self._written, self._input_files, self._stamps, self._revisions, self._project = held
             raise
         self._tables, self._series = tables, series
         self._log_sha256 = log_sha256(self.path)
