@@ -263,9 +263,7 @@ def viscosity_range_caution(
     >>> caution.split("; ")[1].split(",")[0]
     'here its R_T departs from IAPWS 2008 by +6.1 %'
     """
-    if method not in VISCOSITY_METHODS:
-        names = ", ".join(VISCOSITY_METHODS)
-        raise ValueError(f"unknown viscosity method {method!r}; choose one of {names}")
+    _viscosity_method(method)
     t = np.asarray(temperature, dtype=float).ravel()
     t = t[np.isfinite(t)]
     if method != "d5084" or t.size == 0:  # no temperature: k is not corrected at all
@@ -298,6 +296,14 @@ VISCOSITY_METHODS: dict[str, Callable] = {
 """Names accepted by :func:`viscosity_ratio` (and the command line's ``--viscosity``)."""
 
 
+def _viscosity_method(method: str) -> Callable:
+    """The viscosity function of a method's name; an unknown name is refused, naming the choices."""
+    if method not in VISCOSITY_METHODS:
+        names = ", ".join(VISCOSITY_METHODS)
+        raise ValueError(f"unknown viscosity method {method!r}; choose one of {names}")
+    return VISCOSITY_METHODS[method]
+
+
 def viscosity_ratio(temperature, reference_temperature: float = 20.0, method: str = "kestin"):
     """Temperature ratio R_T = μ_T / μ_ref that corrects k_T to the reference temperature.
 
@@ -326,10 +332,7 @@ def viscosity_ratio(temperature, reference_temperature: float = 20.0, method: st
     >>> viscosity_ratio(20.0)
     1.0
     """
-    if method not in VISCOSITY_METHODS:
-        names = ", ".join(VISCOSITY_METHODS)
-        raise ValueError(f"unknown viscosity method {method!r}; choose one of {names}")
-    function = VISCOSITY_METHODS[method]
+    function = _viscosity_method(method)
     at_test = np.asarray(function(np.asarray(temperature, dtype=float)), dtype=float)
     at_reference = float(function(float(reference_temperature)))
     ratio = at_test / at_reference

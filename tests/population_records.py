@@ -16,7 +16,8 @@ Gaussian reading error of 0.5 to 2 mm is added to every head. The faults:
 
 The code does not use the package, so that a fault in the package cannot hide in the
 records it is tested on. Each record is a :class:`PopulationRecord`; :func:`population`
-yields a seeded population of one fault.
+yields a seeded population of one fault. :func:`holds` and :func:`fault_handled` judge an
+analysis of a record against its truth, for the tests and the rates benchmark alike.
 """
 
 from __future__ import annotations
@@ -32,6 +33,8 @@ HEIGHT = 0.116  # specimen height, the flow length [m]
 STANDPIPE = 2.0e-6  # standpipe area [m2] (1.6 mm bore)
 START_HEAD = 1.0  # [m]
 END_HEAD = 0.6  # [m], for the steady law
+DATUM_WORDS = "curves as a wrong datum would"
+"""What the full record's judgement says of a curvature a wrong datum would give."""
 
 
 @dataclass(frozen=True)
@@ -146,3 +149,24 @@ def population(fault: str, count: int, seed: int, readings=(30, 3000), noise=(0.
             amplitude=float(draw.uniform(1.0, 2.0)),
             transient_fraction=float(draw.uniform(0.01, 0.04)),
         )
+
+
+def holds(item: PopulationRecord, analysis) -> bool:
+    """Whether the analysis's 95 % interval of k20 holds the record's true k20."""
+    return bool(analysis.k_reference_low <= item.k20 <= analysis.k_reference_high)
+
+
+def said(analysis, words: str | None = None) -> bool:
+    """Whether the analysis is judged not valid with the reason in words: among its checks
+    one holding `words`, or (without `words`) any check."""
+    if analysis.valid:
+        return False
+    if words is None:
+        return bool(analysis.checks)
+    return any(words in check for check in analysis.checks)
+
+
+def fault_handled(item: PopulationRecord, analysis, words: str | None = None) -> bool:
+    """A record with a fault is handled when judged not valid with the reason in words
+    (:func:`said`), or reported with an interval that holds its true k20 (:func:`holds`)."""
+    return said(analysis, words) or holds(item, analysis)

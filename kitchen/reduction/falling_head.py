@@ -33,7 +33,6 @@ from __future__ import annotations
 import pandas as pd
 
 from .falling_head_evidence import FallingHeadAnalysis
-from .falling_head_formulas import STANDARD_GRAVITY as STANDARD_GRAVITY
 from .falling_head_record import FallingHeadRecord
 
 __all__ = ["falling_head_analysis"]

@@ -31,7 +31,6 @@ from kitchen.fits import (
     LinearFit,
     RunsTest,
     curvature_test,
-    fit_exponential_decay,
 )
 from kitchen.uncertainty import (
     InputQuantity,
@@ -371,15 +370,13 @@ class FullRecordEvidence:
     ``verdict`` is the ``full_record`` criterion (None when the full record gives no
     curvature to judge); ``note`` says what the full record showed; ``refuted`` is True when
     the full record's curvature lies in the readings left out (the proposed window's
-    readings refute a wrong datum as its cause, as with an early transient); ``decay`` is
-    the datum-fitted decay over every reading, when fitted.
+    readings refute a wrong datum as its cause, as with an early transient). The fits it
+    is judged from are the record's own (``full_curvature``, ``full_decay``).
     """
 
     verdict: Verdict | None
     note: str
     refuted: bool
-    curvature: CurvatureTest
-    decay: DecayFit | None
 
 
 def _curvature_words(curvature: CurvatureTest) -> str:
@@ -434,7 +431,7 @@ def full_record_evidence(record, start: int | None) -> FullRecordEvidence:
     The datum is fitted to every reading, the window's included, so ln(h − h∞) over the
     window is as straight as the full record lets it be: with a true datum error the
     window's test rejects it far less often than its nominal 5 % (no record of the seeded
-    datum population in ``tests/test_verdict_populations.py`` was refuted).
+    datum population in ``tests/reduction/test_falling_head_populations.py`` was refuted).
 
     The rule is the tool's own; its rates of false alarm and coverage on seeded
     populations of records are measured by ``tests/benchmarks/verdict_rates.py``.
@@ -447,23 +444,21 @@ def full_record_evidence(record, start: int | None) -> FullRecordEvidence:
     """
     criteria = record.settings.criteria
     line = record.full_line
-    curvature = curvature_test(
-        record.reference_time, record.log_head, criteria.trend_level, line, increasing=True
-    )
+    curvature = record.full_curvature  # the record's alone: formed once a record
     whole = f"over the full record (all {record.n} readings)"
     bend = f"{_curvature_words(curvature)}; the tool's own test"
     if not curvature.significant:
         note = f"{whole} ln h shows no significant curvature ({bend})"
         if start is not None:
             note += ": the readings left out fail another criterion"
-        return FullRecordEvidence(None, note, False, curvature, None)
-    decay = fit_exponential_decay(record.reference_time, record.corrected_head)
+        return FullRecordEvidence(None, note, False)
+    decay = record.full_decay
     if not decay.converged:
         note = (
             f"{whole} ln h curves ({bend}), but a decay to a fitted datum cannot follow it "
             f"({decay.message}): not the bend of a wrong datum"
         )
-        return FullRecordEvidence(None, note, False, curvature, decay)
+        return FullRecordEvidence(None, note, False)
     low, high = decay.asymptote_low, decay.asymptote_high
     k_decay = record.scale / decay.time_constant
     k_line = -line.slope * record.scale
@@ -484,7 +479,7 @@ def full_record_evidence(record, start: int | None) -> FullRecordEvidence:
         )
     if start is None:
         note = f"{whole} ln h curves {shape} ({bend}; {datum}): {advice}"
-        return FullRecordEvidence(None, note, False, curvature, decay)
+        return FullRecordEvidence(None, note, False)
     refuted = _window_bend(record, start, decay.asymptote) != 0
     note = f"{whole} ln h curves ({bend}); {datum}"
     readings = f"readings {start + 1} to {record.n}"
@@ -505,4 +500,4 @@ def full_record_evidence(record, start: int | None) -> FullRecordEvidence:
             f"full record curves {shape} ({bend}; {datum}), and {readings} cannot tell that "
             f"datum from none: {advice}",
         )
-    return FullRecordEvidence(verdict, note, refuted, curvature, decay)
+    return FullRecordEvidence(verdict, note, refuted)

@@ -116,6 +116,10 @@ class FallingHeadRecord:
     full_line : kitchen.fits.LinearFit or None
         ln h on the reference time over every reading (formed on first use; None for two
         readings).
+    full_curvature, full_decay : kitchen.fits.CurvatureTest, kitchen.fits.DecayFit
+        The curvature test of ln h and the datum-fitted decay over every reading, which the
+        full record's judgement uses (formed on first use, once a record: a proposal made
+        again does not refit them).
 
     Notes
     -----
@@ -222,7 +226,7 @@ class FallingHeadRecord:
             equal_nan=True,
         )
         if not same_bores and self._rise_from_bores:
-            for derived in ("_trends", "full_line"):  # ln h changes with the rise
+            for derived in ("_trends", "full_line", "full_curvature", "full_decay"):  # ln h changes
                 other.__dict__.pop(derived, None)
             other._prepare_heads(self._given_rise)
         return other
@@ -244,6 +248,26 @@ class FallingHeadRecord:
         if self.n < 3:
             return None
         return fit_line(self.reference_time, self.log_head)
+
+    @cached_property
+    def full_curvature(self):
+        """The trend criterion's curvature test of ln h over every reading (formed on first
+        use; the full record's judgement starts from it:
+        :func:`~kitchen.reduction.falling_head_evidence.full_record_evidence`)."""
+        return curvature_test(
+            self.reference_time,
+            self.log_head,
+            self.settings.criteria.trend_level,
+            self.full_line,
+            increasing=True,
+        )
+
+    @cached_property
+    def full_decay(self):
+        """The datum-fitted decay over every reading (formed on first use, where the full
+        record curves:
+        :func:`~kitchen.reduction.falling_head_evidence.full_record_evidence`)."""
+        return fit_exponential_decay(self.reference_time, self.corrected_head)
 
     @cached_property
     def increment_time(self) -> np.ndarray:
@@ -708,8 +732,7 @@ def _propose(record):
     steady = steady_values_check(judged.k, criteria, judged.words)
     reynolds_per_k = math.nan
     if math.isfinite(record.d10):
-        t = record._mean_temperature(0, record.n)
-        t = 20.0 if math.isnan(t) else t
+        t = 20.0 if math.isnan(record.mean_temperature) else record.mean_temperature
         ratio = viscosity_ratio(t, settings.reference_temperature, settings.viscosity)
         reynolds_per_k = water_density(t) * record.d10 / (water_viscosity(t) * ratio)
     return propose_window(

@@ -34,8 +34,6 @@ import population_records  # noqa: E402  (tests/, beside the test helpers)
 from kitchen.reduction import FallingHeadRecord  # noqa: E402
 from kitchen.settings import Settings  # noqa: E402
 
-DATUM_WORDS = "curves as a wrong datum would"
-
 
 def _share(part, counts) -> str:
     return f"{100 * part / counts['records']:5.1f} %"
@@ -78,9 +76,9 @@ def _measure(label, kind, fit, records):
     settings = Settings(falling_head_fit=fit)
     for item in records:
         analysis = FallingHeadRecord(item.readings, item.specimen, settings).analyse()
-        holds = bool(analysis.k_reference_low <= item.k20 <= analysis.k_reference_high)
-        said = not analysis.valid and bool(analysis.checks)
-        said_datum = not analysis.valid and any(DATUM_WORDS in c for c in analysis.checks)
+        holds = population_records.holds(item, analysis)
+        said = population_records.said(analysis)
+        said_datum = population_records.said(analysis, population_records.DATUM_WORDS)
         counts["records"] += 1
         counts["valid"] += analysis.valid
         counts["holds"] += holds

@@ -1,4 +1,4 @@
-"""Falling-head reduction in one call: round trips and invariants, and its names."""
+"""Falling-head reduction in one call: round trips and invariants."""
 
 import numpy as np
 import pytest
@@ -85,6 +85,3 @@ def test_surface_tension_against_the_iapws_table():
     # 71.20 at 30 degC.
     for temperature, sigma in [(10.0, 74.23), (20.0, 72.74), (25.0, 71.97), (30.0, 71.20)]:
         assert water_surface_tension(temperature) * 1e3 == pytest.approx(sigma, abs=0.02)
-
-
-# --------------------------------------------------------------------------- the names

@@ -144,7 +144,7 @@ def test_is_valid():
     assert not is_valid([skipped])
 
 
-# ----------------------------------------------------------------- the names of the module
+# ----------------------------------------------------------------- the datum
 
 
 @pytest.mark.parametrize(
