@@ -26,6 +26,7 @@ __all__ = [
     "GRADIENT_TABLE",
     "Criteria",
     "Verdict",
+    "percent_text",
     "recommended_maximum_gradient",
 ]
 
