@@ -25,7 +25,8 @@ modules: :func:`split_header`, :func:`format_header`, :func:`parse_value`, :func
 :data:`HEAD_RISE_TOLERANCE` and :data:`HEAD_RISE_SCATTERS` (the rise a falling-head reading
 may show); :class:`Series`, :func:`build_series`, :func:`load_series` and
 :func:`rebuild_series`; :func:`atomic_write_bytes`, :func:`atomic_write_text`,
-:func:`append_line`, :func:`folder_lock`, :func:`write_csv` and :func:`spreadsheet_safe`.
+:func:`append_line`, :func:`folder_lock`, :func:`sync_folder`, :func:`write_csv` and
+:func:`spreadsheet_safe`.
 
 References
 ----------
@@ -44,6 +45,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "atomic_write_bytes": "files",
         "atomic_write_text": "files",
         "folder_lock": "files",
+        "sync_folder": "files",
         "spreadsheet_safe": "files",
         "write_csv": "files",
         "PROJECT_SETTINGS": "project",
@@ -85,6 +87,7 @@ __all__ = [
     "build_series",
     "ColumnSpec",
     "folder_lock",
+    "sync_folder",
     "format_header",
     "HEAD_RISE_SCATTERS",
     "HEAD_RISE_TOLERANCE",

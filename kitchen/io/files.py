@@ -22,6 +22,7 @@ __all__ = [
     "atomic_write_text",
     "append_line",
     "folder_lock",
+    "sync_folder",
     "spreadsheet_safe",
     "write_csv",
 ]
@@ -30,7 +31,7 @@ _FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
 _BINARY = getattr(os, "O_BINARY", 0)  # Windows: no newline translation
 
 
-def _sync_folder(folder: Path) -> None:
+def sync_folder(folder: Path) -> None:
     """Flush a folder's entries (a rename, a new file) to disk where the system allows it."""
     if os.name != "posix":
         return
@@ -82,7 +83,7 @@ def atomic_write_bytes(path: str | Path, data: bytes) -> Path:
     except BaseException:
         Path(temporary).unlink(missing_ok=True)
         raise
-    _sync_folder(path.parent)
+    sync_folder(path.parent)
     return path
 
 
@@ -124,7 +125,7 @@ def _create_with(path: Path, header: bytes) -> None:
                 os.close(target)
     finally:
         Path(temporary).unlink(missing_ok=True)
-    _sync_folder(path.parent)
+    sync_folder(path.parent)
 
 
 def _write_all_at_once(handle: int, data: bytes, path: Path) -> None:
