@@ -25,8 +25,8 @@ modules: :func:`split_header`, :func:`format_header`, :func:`parse_value`, :func
 :data:`HEAD_RISE_TOLERANCE` and :data:`HEAD_RISE_SCATTERS` (the rise a falling-head reading
 may show); :class:`Series`, :func:`build_series`, :func:`load_series` and
 :func:`rebuild_series`; :func:`atomic_write_bytes`, :func:`atomic_write_text`,
-:func:`append_line`, :func:`folder_lock`, :func:`sync_folder`, :func:`write_csv` and
-:func:`spreadsheet_safe`.
+:func:`append_line` (:data:`APPEND_ROOM`), :func:`folder_lock`, :func:`sync_folder`,
+:func:`write_csv` and :func:`spreadsheet_safe`.
 
 References
 ----------
@@ -46,6 +46,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "atomic_write_text": "files",
         "folder_lock": "files",
         "sync_folder": "files",
+        "APPEND_ROOM": "files",
         "spreadsheet_safe": "files",
         "write_csv": "files",
         "PROJECT_SETTINGS": "project",
@@ -88,6 +89,7 @@ __all__ = [
     "ColumnSpec",
     "folder_lock",
     "sync_folder",
+    "APPEND_ROOM",
     "format_header",
     "HEAD_RISE_SCATTERS",
     "HEAD_RISE_TOLERANCE",
