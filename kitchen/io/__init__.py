@@ -23,7 +23,8 @@ modules: :func:`split_header`, :func:`format_header`, :func:`parse_value`, :func
 :class:`ColumnSpec`, :class:`RawTable`, :func:`read_tables`, :class:`InputProblem` and
 :class:`SeriesError` (the raw tables); :func:`head_rise_tolerance`,
 :data:`HEAD_RISE_TOLERANCE` and :data:`HEAD_RISE_SCATTERS` (the rise a falling-head reading
-may show); :class:`Series`, :func:`build_series`, :func:`load_series` and
+may show); :data:`SPECIMEN_ID_LENGTH` (the longest specimen id); :class:`Series`,
+:func:`build_series`, :func:`load_series` and
 :func:`rebuild_series`; :func:`atomic_write_bytes`, :func:`atomic_write_text`,
 :func:`append_line` (:data:`APPEND_ROOM`), :func:`folder_lock`, :func:`sync_folder`,
 :func:`write_csv` and :func:`spreadsheet_safe`.
@@ -66,6 +67,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "load_series": "series",
         "rebuild_series": "series",
         "HEAD_RISE_SCATTERS": "table_checks",
+        "SPECIMEN_ID_LENGTH": "table_checks",
         "HEAD_RISE_TOLERANCE": "table_checks",
         "head_rise_tolerance": "table_checks",
         "KINDS": "units",
@@ -92,6 +94,7 @@ __all__ = [
     "APPEND_ROOM",
     "format_header",
     "HEAD_RISE_SCATTERS",
+    "SPECIMEN_ID_LENGTH",
     "HEAD_RISE_TOLERANCE",
     "head_rise_tolerance",
     "InputProblem",
