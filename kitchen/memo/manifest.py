@@ -233,6 +233,13 @@ class StagedPack:
         self.out = Path(out)
         self.previous = _previous_pack(self.out)
         self.out.parent.mkdir(parents=True, exist_ok=True)
+        for left in interrupted_exports(self.out):
+            warnings.warn(
+                f"{left}: left by an export of {self.out.name} that was stopped before it "
+                "finished; it is not the pack and the tool does not remove what it cannot "
+                "prove it wrote: look at it and remove it by hand",
+                stacklevel=2,
+            )
         self.staging = Path(
             tempfile.mkdtemp(prefix=f".{self.out.name}.kitchen-new-", dir=self.out.parent)
         )
@@ -251,7 +258,16 @@ class StagedPack:
         """Write one file of the pack (``/``-separated path inside it); its final path."""
         if relative in self.entries or relative == MANIFEST:
             raise ValueError(f"{relative}: written twice in one pack")
-        atomic_write_bytes(self.staging / relative, data)
+        try:
+            atomic_write_bytes(self.staging / relative, data)
+        except OSError as error:
+            if error.errno not in (errno.ENOSPC, errno.EDQUOT):
+                raise
+            raise OSError(
+                error.errno,
+                f"{self.out}: no room on the disk for the pack ({relative} could not be "
+                "written); what was written of it is removed and the folder is left as it was",
+            ) from None
         self.entries[relative] = (len(data), hashlib.sha256(data).hexdigest())
         return self.out / relative
 
