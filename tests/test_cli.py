@@ -19,7 +19,7 @@ from html_cells import TableCells
 from revision_series import log_rows
 from series_files import SAMPLES, copy_sample
 
-from kitchen.analysis import NO_CRITERION
+from kitchen.analysis import NO_CRITERION, parse_criterion
 from kitchen.io import files
 from kitchen.revisions import revise, revisions_path
 
@@ -108,6 +108,22 @@ def test_criterion_is_typed_as_in_the_notebook(tmp_path):
     assert done.returncode == 0, done.stderr
     report = (tmp_path / "report.html").read_text()
     assert "k20 ≥ 1×10⁻⁴ m/s (smallest k required)" in report and "meets: 4" in report
+
+
+@pytest.mark.parametrize(
+    ("typed", "words"),
+    # 1e-7 cm/s is 1e-9 m/s (SI, common practice, no source); the invented clay of the
+    # sample has specimens on both sides of it (sample_data/clay_liner/truth.json)
+    [("1e-7 cm/s", "k20 ≤ 1×10⁻⁹ m/s (largest k allowed)"),
+     ("≥ 1e-4 m/s", "k20 ≥ 1×10⁻⁴ m/s (smallest k required)"),
+     ("k <= 1e-9 m/s", "k20 ≤ 1×10⁻⁹ m/s (largest k allowed)")],
+)  # fmt: skip
+def test_the_command_line_reads_a_criterion_as_the_panel_does(tmp_path, typed, words):
+    done = run_cli("report", SAMPLES / "clay_liner", "--out", tmp_path, "--no-images",
+                   "--criterion", typed)  # fmt: skip
+    assert done.returncode == 0, done.stderr
+    assert words in (tmp_path / "report.html").read_text()
+    assert parse_criterion(typed) == pytest.approx(1e-9 if "≤" in words else 1e-4)
 
 
 @pytest.mark.parametrize(

@@ -71,7 +71,7 @@ from .tables import (
     revisions_table,
     specimens_table,
 )
-from .workbook import notes_sheet, workbook_bytes
+from .workbook import notes_sheet, setting_texts, workbook_bytes
 
 __all__ = ["CHART_SCRIPT", "MemoPack", "export_memo_pack"]
 
@@ -260,7 +260,7 @@ def export_memo_pack(
     label = reference_label(settings)
     criterion_text = _criterion_text(analysis, ku, label)
     chosen = {
-        **_settings_dict(settings),
+        **setting_texts(_settings_dict(settings)),
         "criterion [m/s]": "none given" if criterion is None else f"{criterion:g}",
         "criterion kind": "none given" if criterion is None else criterion.kind,
         "criterion from": source,
