@@ -270,9 +270,12 @@ def _add_revision_commands(commands) -> None:
 
 
 def _report(arguments) -> int:
-    from kitchen.memo import export_memo_pack
+    from kitchen.memo import export_memo_pack, start_image_export
     from kitchen.revisions import windows_path
     from kitchen.workspace import Workspace
+
+    if not arguments.no_images:
+        start_image_export()  # Chromium starts while the series is read and reduced
 
     settings = Settings(
         arguments.reference_temperature,

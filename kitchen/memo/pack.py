@@ -59,7 +59,7 @@ from kitchen.workspace import Workspace
 from .figures import memo_charts
 from .images import FIRST_IMAGE_TIMEOUT as FIRST_IMAGE_TIMEOUT
 from .images import PNG_SCALE as PNG_SCALE
-from .images import figure_image, start_image_export
+from .images import image_result, request_image, start_image_export
 from .manifest import PackFolderError, StagedPack
 from .markup import ChartScript
 from .pages import chart_page, report_page
@@ -325,6 +325,12 @@ def export_memo_pack(
         if script.path is not None:  # before any page that loads it
             write(script.path, "script", lambda: script.content)
         caption = _caption(provenance, criterion_text)
+        requested = {}
+        if images:  # Chromium draws them in turn while the pages below are written
+            for name, _, figure in charts:
+                captioned = add_caption(figure, caption)
+                for ext in ("png", "svg"):
+                    requested[name, ext] = request_image(captioned, ext)
         for name, title, figure in charts:
             page = f"charts/{name}.html"
             write(
@@ -334,14 +340,10 @@ def export_memo_pack(
                     t, _figure_html(f, n), CAUTIONS, provenance, script, posixpath.dirname(p)
                 ).encode("utf-8"),
             )
-            if images:
-                captioned = add_caption(figure, caption)
-                for ext in ("png", "svg"):
-                    write(
-                        f"charts/{name}.{ext}",
-                        "chart",
-                        lambda c=captioned, e=ext: figure_image(c, e),
-                    )
+            for ext in ("png", "svg") if images else ():
+                write(
+                    f"charts/{name}.{ext}", "chart", lambda r=requested[name, ext]: image_result(r)
+                )
         fragments = [(name, title, _figure_html(figure, name)) for name, title, figure in charts]
         write(
             "report.html",
