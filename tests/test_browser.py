@@ -382,3 +382,86 @@ def test_revise(notebook, lab):
     assert page.locator("small", has_text="Recorded, reduced and redrawn in").count() == 1
     page.locator(".js-plotly-plot").last.scroll_into_view_if_needed()
     _screenshot(page, "05_revise_charts")
+
+
+SHOWN_FIGURE = """() => {
+    const plots = [...document.querySelectorAll('.kitchen-chart-box .js-plotly-plot')]
+        .filter(plot => getComputedStyle(plot).visibility !== 'hidden');
+    if (plots.length !== 1) return null;
+    const plot = plots[0];
+    const legend = [...plot.querySelectorAll('.legendtext')].map(t => t.textContent);
+    const traces = (plot.data || []).map(t => ({name: t.name || null, y: t.y ? [...t.y] : []}));
+    const title = plot.querySelector('.gtitle');
+    return {legend, traces, title: title ? title.textContent : ''};
+}"""
+
+
+def _shown_figure(page):
+    """The legend and traces of the chart the series panel shows, as the browser drew it."""
+    page.wait_for_timeout(700)  # the refresh's messages and plotly's redraw
+    shown = page.evaluate(SHOWN_FIGURE)
+    assert shown is not None, "the chart box shows no drawn figure, or more than one"
+    return shown
+
+
+def _assert_whole(shown, criterion_y: float):
+    """Every legend entry is a name of ours (never plotly's "trace N") and the criterion
+    line is drawn where it belongs."""
+    unnamed = [text for text in shown["legend"] if re.fullmatch(r"trace \d+", text)]
+    assert not unnamed, f"legend lost its names: {shown['legend']}"
+    assert all(trace["name"] for trace in shown["traces"]), shown["traces"]
+    lines = [t for t in shown["traces"] if t["name"] and t["name"].startswith("criterion k")]
+    assert len(lines) == 1, f"no criterion line among {[t['name'] for t in shown['traces']]}"
+    assert lines[0]["y"] == pytest.approx([criterion_y, criterion_y], rel=1e-9)
+    assert any(t["name"] in shown["legend"] for t in shown["traces"] if "criterion" in t["name"])
+
+
+def test_series_chart_survives_tab_unit_and_criterion_switches(notebook, lab):
+    """The sequence that once broke the chart: another tab, back, a new criterion, a unit."""
+    page = notebook("04_series_chart.ipynb")
+    errors = []
+    page.on("console", lambda message: message.type == "error" and errors.append(message.text))
+    _plotly_drawn(page, 1)
+    _assert_whole(_shown_figure(page), 1e-9)
+    tab = page.locator(".widget-toggle-button", has_text="k and void ratio")
+    back = page.locator(".widget-toggle-button", has_text="Compaction and k")
+    criterion = page.locator(".widget-text:has(label:text-is('k criterion')) input")
+    tab.click()
+    assert "void ratio" in _shown_figure(page)["title"].lower()
+    back.click()
+    _assert_whole(_shown_figure(page), 1e-9)
+    criterion.fill("3e-9 m/s")
+    criterion.press("Enter")
+    page.wait_for_function(
+        "() => document.querySelector('.kitchen-criterion').textContent.startsWith('3.00')",
+        timeout=60_000,
+    )
+    shown = _shown_figure(page)
+    page.locator(".kitchen-chart-box").scroll_into_view_if_needed()
+    _screenshot(page, "04_series_chart_after_tab_and_criterion")
+    _assert_whole(shown, 3e-9)
+    page.locator(".widget-toggle-button", has_text="cm/s").click()
+    page.wait_for_function(
+        "() => document.querySelector('.kitchen-criterion').textContent.endsWith('cm/s')",
+        timeout=60_000,
+    )
+    _assert_whole(_shown_figure(page), 3e-7)
+    tab.click()
+    page.locator(".widget-toggle-button", has_text="k and dry density").click()
+    back.click()
+    criterion.fill("1e-7 cm/s")
+    criterion.press("Enter")
+    page.wait_for_function(
+        "() => document.querySelector('.kitchen-criterion').textContent.startsWith('1.00')",
+        timeout=60_000,
+    )
+    shown = _shown_figure(page)
+    page.locator(".kitchen-chart-box").scroll_into_view_if_needed()
+    _screenshot(page, "04_series_chart_after_switches")
+    _assert_whole(shown, 1e-7)
+    tab.click()
+    shown = _shown_figure(page)
+    assert "void ratio" in shown["title"].lower()
+    assert not [t for t in shown["legend"] if re.fullmatch(r"trace \d+", t)], shown["legend"]
+    state = [e for e in errors if "Error setting state" in e or "reading 'length'" in e]
+    assert not state, f"the browser console reports: {state}"
