@@ -6,8 +6,9 @@
 Each notebook is run whole in a kernel of its own (nbclient, the way ``nbval`` and
 JupyterLab's Run All run it), on a scratch copy of the notebooks folder so that no output
 or working copy is left behind; the time of every code cell comes from the kernel's own
-start and end stamps. The panel cell is the slowest code cell; its target is under 1.5 s
-(printed, median of the rounds), the first cell (the import) beside it. Exits with status 1
+start and end stamps. The panel cell is the first that builds a panel (``…_panel(``); its
+target is under 1.5 s (printed, median of the rounds), the first cell (the import) and the
+slowest beside it. Exits with status 1
 when a panel cell misses it.
 """
 
@@ -65,15 +66,17 @@ def main(argv=None) -> int:
         )
         for name in names:
             rounds = [cell_times(work / "notebooks" / name) for _ in range(arguments.rounds)]
-            panel = max(range(len(rounds[0])), key=lambda i: rounds[0][i][1])
+            panel = next(i for i, (source, _) in enumerate(rounds[0]) if "_panel(" in source)
             panel_time = statistics.median(r[panel][1] for r in rounds)
             first = statistics.median(r[0][1] for r in rounds)
+            slowest = max(range(len(rounds[0])), key=lambda i: rounds[0][i][1])
             met = panel_time < TARGET
             if not met:
                 missed.append(name)
             print(
                 f"{name:<26} panel cell {panel_time:5.2f} s (limit {TARGET:g} s) "
-                f"{'met' if met else 'MISSED'}; first cell {first:4.2f} s; "
+                f"{'met' if met else 'MISSED'}; first cell {first:4.2f} s; slowest cell "
+                f"{rounds[0][slowest][0][:40]!r} {rounds[0][slowest][1]:.2f} s; "
                 f"panel cell: {rounds[0][panel][0][:60]!r}; rounds: "
                 + ", ".join(f"{r[panel][1]:.2f}" for r in rounds)
             )
