@@ -223,6 +223,64 @@ def scaling(work: Path, rounds: int, largest: int, most: int, with_images: bool)
     return rows
 
 
+def targets(work: Path, rounds: int, large: bool, target) -> None:
+    """Measure every target and hand each to `target(name, value, limit, detail[, unit])`."""
+    times, ours, theirs = marginal_case(work, rounds)
+    median = {name: statistics.median(values) for name, values in times.items()}
+    ratio = statistics.median(ours) / statistics.median(theirs)
+    target(
+        "report: marginal cost of 10^6 readings / peer",
+        ratio,
+        1.5,
+        f"ours {statistics.median(ours):.2f} s more (10^2: {median['ours small']:.2f} s, "
+        f"10^6: {median['ours large']:.2f} s); peer {statistics.median(theirs):.2f} s "
+        f"more (10^2: {median['peer small']:.2f} s, 10^6: {median['peer large']:.2f} s); "
+        f"medians of {rounds} rounds",
+    )
+
+    shown = images_case(work, rounds)
+    pairs = [a / b for a, b in zip(shown["with images"], shown["without images"], strict=True)]
+    floor = image_floor(rounds)
+    plain = statistics.median(shown["without images"])
+    with_images = statistics.median(shown["with images"])
+    floor_time = plain + floor["images"]
+    target(
+        "clay memo pack: with images / without",
+        statistics.median(pairs),
+        2.0,
+        f"with {with_images:.2f} s, without {plain:.2f} s (medians of {rounds} rounds, "
+        f"ratio per round {', '.join(f'{p:.2f}' for p in pairs)}); image floor "
+        f"{floor_time:.2f} s = without + {floor['count']} images in a warm page "
+        f"{floor['images']:.2f} s ({1e3 * floor['images'] / floor['count']:.0f} ms an "
+        f"image); with images / floor {with_images / floor_time:.2f}x; Chromium's start "
+        f"and first image {floor['first']:.2f} s",
+    )
+
+    stages = memory_stages(record_series(work / "memory", 1_000_000))
+    raw = stages.pop("raw")
+    held = stages.pop("held")
+    worst = max(stages, key=stages.get)
+    target(
+        "memory: peak opening and reducing 10^6 readings / raw",
+        stages[worst] / raw,
+        3.0,
+        f"raw arrays {raw / 1e6:.0f} MB; peaks: "
+        + ", ".join(f"{name} {peak / raw:.2f}x" for name, peak in stages.items())
+        + f"; held after the analysis {held / raw:.2f}x",
+    )
+
+    if large:
+        series = record_series(work / "large-7", 10_000_000)
+        seconds, peak = run_command(report(series, work / "out-7"))
+        target(
+            "report on 10^7 readings: peak resident memory",
+            peak / 2**30,
+            1.0,
+            f"{seconds:.1f} s; readings CSV {(series / 'falling_head.csv').stat().st_size / 1e6:.0f} MB",
+            " GiB",
+        )
+
+
 # --- the run -----------------------------------------------------------------------------------
 def main(argv=None) -> int:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
@@ -231,6 +289,7 @@ def main(argv=None) -> int:
     parser.add_argument("--large", action="store_true", help="report on 10^7 readings")
     parser.add_argument("--scaling", action="store_true", help="the README's scaling table")
     parser.add_argument("--scaling-images", action="store_true", help="with images too")
+    parser.add_argument("--only-scaling", action="store_true", help="the table, no targets")
     arguments = parser.parse_args(argv)
     rounds = 3 if arguments.quick else arguments.rounds
     lines, missed = [], []
@@ -246,61 +305,9 @@ def main(argv=None) -> int:
 
     with tempfile.TemporaryDirectory(prefix="kitchen-whole-") as folder:
         work = Path(folder)
-        times, ours, theirs = marginal_case(work, rounds)
-        median = {name: statistics.median(values) for name, values in times.items()}
-        ratio = statistics.median(ours) / statistics.median(theirs)
-        target(
-            "report: marginal cost of 10^6 readings / peer",
-            ratio,
-            1.5,
-            f"ours {statistics.median(ours):.2f} s more (10^2: {median['ours small']:.2f} s, "
-            f"10^6: {median['ours large']:.2f} s); peer {statistics.median(theirs):.2f} s "
-            f"more (10^2: {median['peer small']:.2f} s, 10^6: {median['peer large']:.2f} s); "
-            f"medians of {rounds} rounds",
-        )
-
-        shown = images_case(work, rounds)
-        pairs = [a / b for a, b in zip(shown["with images"], shown["without images"], strict=True)]
-        floor = image_floor(rounds)
-        plain = statistics.median(shown["without images"])
-        with_images = statistics.median(shown["with images"])
-        floor_time = plain + floor["images"]
-        target(
-            "clay memo pack: with images / without",
-            statistics.median(pairs),
-            2.0,
-            f"with {with_images:.2f} s, without {plain:.2f} s (medians of {rounds} rounds, "
-            f"ratio per round {', '.join(f'{p:.2f}' for p in pairs)}); image floor "
-            f"{floor_time:.2f} s = without + {floor['count']} images in a warm page "
-            f"{floor['images']:.2f} s ({1e3 * floor['images'] / floor['count']:.0f} ms an "
-            f"image); with images / floor {with_images / floor_time:.2f}x; Chromium's start "
-            f"and first image {floor['first']:.2f} s",
-        )
-
-        stages = memory_stages(record_series(work / "memory", 1_000_000))
-        raw = stages.pop("raw")
-        held = stages.pop("held")
-        worst = max(stages, key=stages.get)
-        target(
-            "memory: peak opening and reducing 10^6 readings / raw",
-            stages[worst] / raw,
-            3.0,
-            f"raw arrays {raw / 1e6:.0f} MB; peaks: "
-            + ", ".join(f"{name} {peak / raw:.2f}x" for name, peak in stages.items())
-            + f"; held after the analysis {held / raw:.2f}x",
-        )
-
-        if arguments.large:
-            series = record_series(work / "large-7", 10_000_000)
-            seconds, peak = run_command(report(series, work / "out-7"))
-            target(
-                "report on 10^7 readings: peak resident memory",
-                peak / 2**30,
-                1.0,
-                f"{seconds:.1f} s; readings CSV {(series / 'falling_head.csv').stat().st_size / 1e6:.0f} MB",
-                " GiB",
-            )
-        if arguments.scaling or arguments.scaling_images:
+        if not arguments.only_scaling:
+            targets(work, rounds, arguments.large, target)
+        if arguments.scaling or arguments.scaling_images or arguments.only_scaling:
             print("scaling (median s, peak MB; columns: without images, with images):")
             rows = scaling(work, max(1, rounds // 2), 10_000_000, 1000, arguments.scaling_images)
             for what in ("readings", "specimens"):
