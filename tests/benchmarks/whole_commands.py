@@ -53,12 +53,21 @@ CLAY = ROOT / "sample_data" / "clay_liner"
 
 
 # --- measuring whole commands ------------------------------------------------------------------
+GNU_TIME = Path("/usr/bin/time")
+"""GNU time, which reports a command's peak resident memory (``-f %M``, in KiB)."""
+
+
 def run_command(arguments: list[str]) -> tuple[float, int]:
-    """(wall time [s], peak resident memory [bytes]) of one run of a command to its end."""
+    """(wall time [s], peak resident memory [bytes]) of one run of a command to its end.
+
+    The peak comes from GNU time where it is installed: a child forked from this process
+    would otherwise report this process's own size at the fork (Linux counts it in the
+    child's high-water mark); without it, from the child's resource usage.
+    """
+    measured = GNU_TIME.exists()
+    command = [str(GNU_TIME), "-f", "%M", *arguments] if measured else arguments
     start = time.perf_counter()
-    process = subprocess.Popen(
-        arguments, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, cwd=ROOT
-    )
+    process = subprocess.Popen(command, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, cwd=ROOT)
     _, status, usage = os.wait4(process.pid, 0)
     elapsed = time.perf_counter() - start
     process.returncode = os.waitstatus_to_exitcode(status)
@@ -66,6 +75,8 @@ def run_command(arguments: list[str]) -> tuple[float, int]:
     process.stderr.close()
     if process.returncode != 0:
         raise RuntimeError(f"{' '.join(map(str, arguments))} failed:\n{error}")
+    if measured:
+        return elapsed, int(error.strip().splitlines()[-1]) * 1024
     return elapsed, usage.ru_maxrss * 1024
 
 
@@ -203,7 +214,11 @@ def exponent(sizes, times) -> float:
 
 
 def scaling(work: Path, rounds: int, largest: int, most: int, with_images: bool):
-    """Rows of (what, size, seconds without images, MB, seconds with images, MB)."""
+    """Rows of (what, size, seconds without images, bytes, seconds with images, bytes).
+
+    Readings: one specimen of `size` readings; specimens: `size` specimens of 1000
+    readings each. Peak resident memory is of the Python process (Chromium apart).
+    """
     rows = []
     sizes = [n for n in (10_000, 100_000, 1_000_000, 10_000_000) if n <= largest]
     counts = [n for n in (10, 100, 1000) if n <= most]
