@@ -37,6 +37,7 @@ KINDS: dict[str, tuple[str | None, str]] = {
     "mass": ("[mass]", "kg"),
     "time": ("[time]", "s"),
     "temperature": ("[temperature]", "degC"),
+    "density": ("[mass] / [length] ** 3", "kg/m**3"),
     "ratio": ("", "dimensionless"),
     "dimensionless": ("", "dimensionless"),
 }
