@@ -266,7 +266,11 @@ def read_field_tests(path: str | Path) -> FieldTests:
         else:
             seen[test] = int(frame["source_row"].iloc[i])
     if problems:
-        raise FieldTestsError([_as_test(problem) for problem in problems])
+        rows = frame["source_row"].to_numpy()
+        test_of_row = {
+            int(row): str(test) for row, test in zip(rows, test_ids, strict=True) if test is not pd.NA
+        }
+        raise FieldTestsError([_as_test(problem, test_of_row) for problem in problems])
     source = path
     tests = pd.DataFrame(
         {
@@ -296,10 +300,7 @@ def _test_at(ids, index: int) -> str | None:
     return str(ids.values[ids.codes[index]])
 
 
-def _as_test(problem: InputProblem) -> InputProblem:
-    """A problem of the table naming its row's test as a test, not a specimen."""
-    if problem.specimen is None or problem.subject == "test":
-        return problem
-    return InputProblem(
-        problem.file, problem.row, problem.column, problem.message, problem.specimen, "test"
-    )
+def _as_test(problem: InputProblem, test_of_row: dict) -> InputProblem:
+    """A problem of the table naming its row's test, as a test (not a specimen)."""
+    test = problem.specimen if problem.specimen is not None else test_of_row.get(problem.row)
+    return InputProblem(problem.file, problem.row, problem.column, problem.message, test, "test")
