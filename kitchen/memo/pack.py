@@ -12,6 +12,9 @@
   revision of the data and every test kept on record (who, when, what, why), the methods
   and their sources, the criteria applied, the cautions and the provenance, which names
   the version, size and SHA-256 of the plotly.js the pages run;
+- ``report.docx``: the same report as a document a word processor opens (summary, tables,
+  the PNG charts, methods with their sources, cautions, provenance;
+  :mod:`kitchen.memo.documents`);
 - ``manifest.csv``, last: every file above with its size and SHA-256
   (:mod:`kitchen.memo.manifest`), so a reviewer can check the pack received is the pack
   exported, and a pack with a manifest is known to be whole.
@@ -46,7 +49,7 @@ from datetime import UTC, datetime
 from pathlib import Path
 
 from kitchen import display_units
-from kitchen.analysis import SeriesAnalysis
+from kitchen.analysis import ANALYSIS_METHODS, SeriesAnalysis
 from kitchen.cautions import CAUTIONS
 from kitchen.io import atomic_write_bytes, spreadsheet_safe
 from kitchen.revisions import kept_log_sha256, standing_choices
@@ -54,13 +57,14 @@ from kitchen.revisions import window_log_sha256 as window_log_digest
 from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace
 
+from .documents import memo_document
 from .figures import memo_charts
 from .images import FIRST_IMAGE_TIMEOUT as FIRST_IMAGE_TIMEOUT
 from .images import PNG_SCALE as PNG_SCALE
 from .images import figure_image, start_image_export
 from .manifest import read_manifest, write_manifest
 from .markup import ChartScript
-from .pages import chart_page, report_page
+from .pages import REDUCTION_METHODS, chart_page, report_page
 from .provenance import Provenance, memo_provenance
 from .tables import (
     checks_table,
@@ -299,7 +303,7 @@ def export_memo_pack(
     if script.path is not None:
         steps.append(script.path)
     steps += [f"charts/{name}.{ext}" for name, _, _ in charts for ext in formats]
-    steps.append("report.html")
+    steps += ["report.html", "report.docx"]
     written: list[Path] = []
 
     def write(relative: str, kind: str, data: Callable[[], bytes]) -> None:
@@ -317,6 +321,7 @@ def export_memo_pack(
     if script.path is not None:  # before any page that loads it
         write(script.path, "script", lambda: script.content)
     caption = _caption(provenance, criterion_text)
+    pngs: list[tuple[str, bytes]] = []
     for name, title, figure in charts:
         page = f"charts/{name}.html"
         write(
@@ -332,6 +337,8 @@ def export_memo_pack(
                 write(
                     f"charts/{name}.{ext}", "chart", lambda c=captioned, e=ext: figure_image(c, e)
                 )
+                if ext == "png":  # the document carries the same image
+                    pngs.append((title, written[-1].read_bytes()))
     fragments = [(name, title, _figure_html(figure, name)) for name, title, figure in charts]
     write(
         "report.html",
@@ -349,6 +356,19 @@ def export_memo_pack(
             skipped,
             source,
         ).encode("utf-8"),
+    )
+    write(
+        "report.docx",
+        "document",
+        lambda: memo_document(
+            analysis,
+            tables,
+            pngs,
+            provenance,
+            CAUTIONS,
+            criterion_text,
+            REDUCTION_METHODS + ANALYSIS_METHODS,
+        ),
     )
     manifest, removed = write_manifest(out, written, previous)
     return MemoPack(
