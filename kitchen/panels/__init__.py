@@ -8,6 +8,7 @@ set a control's ``value`` and assert on the figure data and the results without 
 - :func:`constant_head_panel` (``03_constant_head``): v against i for one specimen.
 - :func:`series_chart_panel` (``04_series_chart``): the series charts and the memo pack.
 - :func:`revise_panel` (``05_revise``): revise a value, see what moved.
+- :func:`field_checks_panel` (``06_field_checks``): field tests judged against the zone.
 
 :func:`scratch_copy` copies a series to a scratch folder, to try revisions on.
 The panels need the ``lab`` extra (ipywidgets, plotly, anywidget); the core does not.
@@ -22,6 +23,8 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "ConstantHeadPanel": "constant_head",
         "constant_head_panel": "constant_head",
         "FallingHeadPanel": "falling_head",
+        "FieldChecksPanel": "field_checks",
+        "field_checks_panel": "field_checks",
         "falling_head_panel": "falling_head",
         "SeriesPanel": "open_series",
         "series_panel": "open_series",
@@ -35,11 +38,13 @@ __getattr__, __dir__ = _lazy.lazy_face(
 __all__ = [
     "ConstantHeadPanel",
     "FallingHeadPanel",
+    "FieldChecksPanel",
     "RevisePanel",
     "SeriesChartPanel",
     "SeriesPanel",
     "constant_head_panel",
     "falling_head_panel",
+    "field_checks_panel",
     "revise_panel",
     "scratch_copy",
     "series_chart_panel",
