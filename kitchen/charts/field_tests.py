@@ -214,7 +214,8 @@ def field_plane_figure(check, analysis, density_unit_name: str = "Mg/m³") -> go
             "(the edge counts as inside), open: outside, pale: replaced by a retest</sup>"
         ),
         xaxis=dict(
-            title=dict(text="water content w [%]"), range=[(w_low - pad) * 100, (w_high + pad) * 100]
+            title=dict(text="water content w [%]"),
+            range=[(w_low - pad) * 100, (w_high + pad) * 100],
         ),
         yaxis=dict(title=dict(text=du.title()), range=y_range),
         legend=dict(orientation="h", x=0.0, xanchor="left", y=-0.14, yanchor="top"),
@@ -245,7 +246,10 @@ def field_distance_figure(check, density_unit_name: str = "Mg/m³") -> go.Figure
     spec = figure.to_plotly_json()
     layout = spec["layout"]
     annotations = []
-    for name, values, yref in (("water content", w_distance, "y"), ("dry density", rho_distance, "y2")):
+    for name, values, yref in (
+        ("water content", w_distance, "y"),
+        ("dry density", rho_distance, "y2"),
+    ):
         missing = tests["test"][np.isnan(values)]
         if len(missing):
             annotations.append(

@@ -49,7 +49,9 @@ def _chords(polygons, along: int, at: float, tolerance: float) -> list[tuple[flo
             continue
         share = (at - a[crosses, across]) / (b[crosses, across] - a[crosses, across])
         where = np.sort(a[crosses, along] + share * (b[crosses, along] - a[crosses, along]))
-        intervals.extend((float(lo), float(hi)) for lo, hi in zip(where[::2], where[1::2]))
+        intervals.extend(
+            (float(lo), float(hi)) for lo, hi in zip(where[::2], where[1::2], strict=True)
+        )
     return intervals
 
 

@@ -140,8 +140,7 @@ def _dates(table, frame, ids, problems) -> np.ndarray:
         table,
         bad,
         "date",
-        "expected a date as YYYY-MM-DD (a time may follow, 2025-06-03 14:20), without a "
-        "time zone",
+        "expected a date as YYYY-MM-DD (a time may follow, 2025-06-03 14:20), without a time zone",
         ids=ids,
     )
     return parsed
@@ -268,7 +267,9 @@ def read_field_tests(path: str | Path) -> FieldTests:
     if problems:
         rows = frame["source_row"].to_numpy()
         test_of_row = {
-            int(row): str(test) for row, test in zip(rows, test_ids, strict=True) if test is not pd.NA
+            int(row): str(test)
+            for row, test in zip(rows, test_ids, strict=True)
+            if test is not pd.NA
         }
         raise FieldTestsError([_as_test(problem, test_of_row) for problem in problems])
     source = path

@@ -573,9 +573,7 @@ def read_table(path: str | Path, name: str) -> RawTable:
     if path.suffix.lower() == ".xlsx" and path.exists():
         read = _read_workbook(path, problems, (name,)).get(name)
         if read is None and not problems:
-            problems.append(
-                InputProblem(path.name, None, None, f"has no sheet '{name}'")
-            )
+            problems.append(InputProblem(path.name, None, None, f"has no sheet '{name}'"))
     elif path.is_file():
         frame = _read_csv(path, problems)
         read = None if frame is None else (path.name, *frame)

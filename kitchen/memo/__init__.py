@@ -34,7 +34,8 @@ modules: :func:`export_memo_pack` (:class:`MemoPack`) and :data:`CHART_SCRIPT`;
 :data:`KEPT_TEST_COLUMNS`;
 :func:`workbook_bytes`; :func:`memo_provenance`,
 :class:`Provenance`, :class:`InputFile` and :func:`file_sha256`; :func:`report_page`,
-:func:`chart_page`, :func:`provenance_markup`, :data:`REDUCTION_METHODS` and :data:`VERDICT_MARKS`; :func:`table_markup`
+:func:`chart_page`, :func:`provenance_markup`, :data:`REDUCTION_METHODS` and
+:data:`VERDICT_MARKS`; :func:`table_markup`
 (the notebook panels build their tables with it too);
 :func:`write_manifest`, :func:`read_manifest`, :func:`verify_pack`, :data:`MANIFEST` and
 :data:`MANIFEST_COLUMNS`; :func:`document_bytes` and :func:`memo_document` (the ``.docx``);

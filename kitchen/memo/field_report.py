@@ -267,14 +267,12 @@ def export_field_check(
     )
     table = field_tests_table(check, du.unit, ku.unit)
     lifts = lifts_table(check)
+    plane = field_plane_figure(check, analysis, du.unit)
+    by_date = field_distance_figure(check, du.unit)
     charts = [
-        ("field_tests_plane", "Field tests on the compaction plane", field_plane_figure(
-            check, analysis, du.unit
-        )),
-        ("field_tests_by_date", "Field tests by date: distance from the zone", field_distance_figure(
-            check, du.unit
-        )),
-    ]  # fmt: skip
+        ("field_tests_plane", "Field tests on the compaction plane", plane),
+        ("field_tests_by_date", "Field tests by date: distance from the zone", by_date),
+    ]
     script = ChartScript(
         get_plotlyjs(), get_plotlyjs_version(), None if self_contained else "charts/plotly.min.js"
     )
@@ -338,8 +336,7 @@ def export_field_check(
     outside = table[~check.tests["inside"].to_numpy(dtype=bool)]
     title = f"Field check: {tests.label} against {series.name}"
     fragments = "".join(
-        f'<h3>{escape(t)}</h3><div class="chart">{_figure_html(f, n)}</div>'
-        for n, t, f in charts
+        f'<h3>{escape(t)}</h3><div class="chart">{_figure_html(f, n)}</div>' for n, t, f in charts
     )
     notice, script_check = script.notice("")
     body = "\n".join(
@@ -399,6 +396,4 @@ def export_field_check(
     ]
     write("field_check.docx", "document", lambda: document_bytes(title, blocks))
     manifest, _ = write_manifest(out, written, previous)
-    return FieldReport(
-        out, (*written, manifest), check, provenance, time.perf_counter() - clock
-    )
+    return FieldReport(out, (*written, manifest), check, provenance, time.perf_counter() - clock)

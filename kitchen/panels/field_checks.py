@@ -101,9 +101,8 @@ def _show(panel: FieldChecksPanel) -> None:
     tests = read_field_tests(panel.field_tests_source())
     check = check_field_tests(tests, analysis, series=workspace.series.name, zone=panel.zone.value)
     panel.check = check
-    panel.summary.value = (
-        f"<p><b>{html.escape(check.summary)}.</b></p>"
-        + "".join(f"<p><i>{html.escape(text)}</i></p>" for text in FIELD_CAUTIONS)
+    panel.summary.value = f"<p><b>{html.escape(check.summary)}.</b></p>" + "".join(
+        f"<p><i>{html.escape(text)}</i></p>" for text in FIELD_CAUTIONS
     )
     panel.lifts.value = html_table(lifts_table(check))
     table = field_tests_table(check)

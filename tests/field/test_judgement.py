@@ -43,7 +43,8 @@ def known_analysis(**changes):
 def field_tests(rows, location=("station", "offset")) -> FieldTests:
     """FieldTests from (test, date, lift, station, offset, w, ρd) rows."""
     frame = pd.DataFrame(
-        rows, columns=["test", "date", "lift", location[0], location[1], "water_content", "dry_density"]
+        rows,
+        columns=["test", "date", "lift", location[0], location[1], "water_content", "dry_density"],
     )
     frame["date"] = pd.to_datetime(frame["date"])
     frame = frame.assign(
