@@ -113,7 +113,7 @@ def dry_density_from_wet(wet_density, water_content):
 
     Examples
     --------
-    >>> round(dry_density_from_wet(2040.0, 0.20), 6)
+    >>> round(float(dry_density_from_wet(2040.0, 0.20)), 6)
     1700.0
     """
     return np.asarray(wet_density, dtype=float) / (1.0 + np.asarray(water_content, dtype=float))

@@ -19,7 +19,6 @@ its zone is the memo's.
 
 from __future__ import annotations
 
-import posixpath
 import time
 from collections.abc import Callable
 from dataclasses import dataclass
@@ -33,8 +32,9 @@ from kitchen import display_units
 from kitchen.analysis import ANALYSIS_METHODS
 from kitchen.cautions import CAUTIONS, FIELD_CAUTIONS
 from kitchen.field import SAME_LOCATION, FieldCheck, check_field_tests, read_field_tests
-from kitchen.io import atomic_write_bytes, spreadsheet_safe
+from kitchen.io import spreadsheet_safe
 
+from ._export import PackWriter, figure_html, write_chart_files
 from .documents import (
     Bullets,
     Heading,
@@ -45,10 +45,10 @@ from .documents import (
     methods_blocks,
     provenance_blocks,
 )
-from .images import figure_image, start_image_export
+from .images import start_image_export
 from .manifest import read_manifest, write_manifest
 from .markup import ChartScript, cautions_markup, escape, page_markup, table_markup
-from .pages import chart_page, provenance_markup
+from .pages import provenance_markup
 from .provenance import Provenance, memo_provenance
 from .workbook import notes_sheet, workbook_bytes
 
@@ -146,15 +146,6 @@ def _frame_markup(frame: pd.DataFrame) -> str:
     return table_markup([escape(c) for c in frame.columns], rows, numeric=numeric)
 
 
-def _figure_html(figure, name: str) -> str:
-    return figure.to_html(
-        full_html=False,
-        include_plotlyjs=False,
-        div_id=f"chart-{name}",
-        config={"displaylogo": False, "responsive": False},
-    )
-
-
 def export_field_check(
     workspace,
     field_tests,
@@ -214,7 +205,7 @@ def export_field_check(
     """
     from plotly.offline import get_plotlyjs, get_plotlyjs_version
 
-    from kitchen.charts import add_caption, field_distance_figure, field_plane_figure
+    from kitchen.charts import field_distance_figure, field_plane_figure
 
     started, clock = datetime.now(UTC), time.perf_counter()
     ku, du = display_units.k_unit(k_unit), display_units.density_unit(density_unit)
@@ -282,12 +273,8 @@ def export_field_check(
         steps.append(script.path)
     steps += [f"charts/{name}.{ext}" for name, _, _ in charts for ext in formats]
     steps += ["field_check.html", "field_check.docx"]
-    written: list[Path] = []
-
-    def write(relative: str, kind: str, data: Callable[[], bytes]) -> None:
-        if progress is not None:
-            progress(len(written) + 1, len(steps), f"{kind} {relative}")
-        written.append(atomic_write_bytes(out / relative, data()))
+    write = PackWriter(out, steps, progress)
+    written = write.written
 
     write(
         "field_check.csv",
@@ -314,29 +301,12 @@ def export_field_check(
         f"kitchen {provenance.tool_version} · series {series.name} · field tests "
         f"{tests.label} · {provenance.created} · {criterion_text}"
     ]
-    pngs: list[tuple[str, bytes]] = []
-    for name, title, figure in charts:
-        page = f"charts/{name}.html"
-        write(
-            page,
-            "chart",
-            lambda f=figure, n=name, t=title, p=page: chart_page(
-                t, _figure_html(f, n), ALL_CAUTIONS, provenance, script, posixpath.dirname(p)
-            ).encode("utf-8"),
-        )
-        if images:
-            captioned = add_caption(figure, caption)
-            for ext in ("png", "svg"):
-                write(
-                    f"charts/{name}.{ext}", "chart", lambda c=captioned, e=ext: figure_image(c, e)
-                )
-                if ext == "png":
-                    pngs.append((title, written[-1].read_bytes()))
+    pngs = write_chart_files(write, out, charts, ALL_CAUTIONS, provenance, script, caption, images)
     methods = check.methods + tuple(m for m in ANALYSIS_METHODS if "zone" in m[0])
     outside = table[~check.tests["inside"].to_numpy(dtype=bool)]
     title = f"Field check: {tests.label} against {series.name}"
     fragments = "".join(
-        f'<h3>{escape(t)}</h3><div class="chart">{_figure_html(f, n)}</div>' for n, t, f in charts
+        f'<h3>{escape(t)}</h3><div class="chart">{figure_html(f, n)}</div>' for n, t, f in charts
     )
     notice, script_check = script.notice("")
     body = "\n".join(

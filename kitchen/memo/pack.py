@@ -41,7 +41,6 @@ The charts are built in :mod:`kitchen.memo.figures`, their static images made in
 
 from __future__ import annotations
 
-import posixpath
 import time
 from collections.abc import Callable
 from dataclasses import asdict, dataclass, is_dataclass
@@ -57,14 +56,15 @@ from kitchen.revisions import window_log_sha256 as window_log_digest
 from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace
 
+from ._export import figure_html, write_chart_files
 from .documents import memo_document
 from .figures import memo_charts
 from .images import FIRST_IMAGE_TIMEOUT as FIRST_IMAGE_TIMEOUT
 from .images import PNG_SCALE as PNG_SCALE
-from .images import figure_image, start_image_export
+from .images import start_image_export
 from .manifest import read_manifest, write_manifest
 from .markup import ChartScript
-from .pages import REDUCTION_METHODS, chart_page, report_page
+from .pages import REDUCTION_METHODS, report_page
 from .provenance import Provenance, memo_provenance
 from .tables import (
     checks_table,
@@ -165,16 +165,6 @@ def _windows_text(windows: dict | None, choices) -> str:
     return "chosen for " + "; ".join(parts) + "; proposed by the tool for the others"
 
 
-def _figure_html(figure, name: str) -> str:
-    """The figure as an HTML fragment without plotly.js (the page's head loads it)."""
-    return figure.to_html(
-        full_html=False,
-        include_plotlyjs=False,
-        div_id=f"chart-{name}",
-        config={"displaylogo": False, "responsive": False},
-    )
-
-
 def export_memo_pack(
     workspace: Workspace,
     out: str | Path,
@@ -234,8 +224,6 @@ def export_memo_pack(
         When an input cannot be read or the folder cannot be written.
     """
     from plotly.offline import get_plotlyjs, get_plotlyjs_version
-
-    from kitchen.charts import add_caption
 
     started, clock = datetime.now(UTC), time.perf_counter()
     settings, series = workspace.settings, workspace.series
@@ -321,25 +309,8 @@ def export_memo_pack(
     if script.path is not None:  # before any page that loads it
         write(script.path, "script", lambda: script.content)
     caption = _caption(provenance, criterion_text)
-    pngs: list[tuple[str, bytes]] = []
-    for name, title, figure in charts:
-        page = f"charts/{name}.html"
-        write(
-            page,
-            "chart",
-            lambda f=figure, n=name, t=title, p=page: chart_page(
-                t, _figure_html(f, n), CAUTIONS, provenance, script, posixpath.dirname(p)
-            ).encode("utf-8"),
-        )
-        if images:
-            captioned = add_caption(figure, caption)
-            for ext in ("png", "svg"):
-                write(
-                    f"charts/{name}.{ext}", "chart", lambda c=captioned, e=ext: figure_image(c, e)
-                )
-                if ext == "png":  # the document carries the same image
-                    pngs.append((title, written[-1].read_bytes()))
-    fragments = [(name, title, _figure_html(figure, name)) for name, title, figure in charts]
+    pngs = write_chart_files(write, out, charts, CAUTIONS, provenance, script, caption, images)
+    fragments = [(name, title, figure_html(figure, name)) for name, title, figure in charts]
     write(
         "report.html",
         "report",
