@@ -19,15 +19,17 @@ Modules, in the data's order:
 
 The public face, which other subpackages import from :mod:`kitchen.io` and never from its
 modules: :func:`split_header`, :func:`format_header`, :func:`parse_value`, :func:`to_si`,
-:data:`KINDS` and :class:`UnitError` (units); :data:`SCHEMAS`, :data:`TABLE_NAMES`,
-:class:`ColumnSpec`, :class:`RawTable`, :func:`read_tables`, :func:`read_table` (one
-table on its own: the field tests), :class:`InputProblem` and
-:class:`SeriesError` (the raw tables); :func:`head_rise_tolerance`,
+:data:`KINDS`, :data:`EXAMPLE_UNITS` and :class:`UnitError` (units); :data:`SCHEMAS`,
+:data:`TABLE_NAMES`, :class:`ColumnSpec`, :class:`RawTable`, :func:`read_tables`,
+:func:`read_table` (one table on its own: the field tests),
+:class:`InputProblem` and :class:`SeriesError` (the raw tables); :func:`head_rise_tolerance`,
 :data:`HEAD_RISE_TOLERANCE` and :data:`HEAD_RISE_SCATTERS` (the rise a falling-head reading
 may show); :func:`convert_table` and :func:`report_rows` (a table's values checked and
-converted, problems named by row); :class:`Series`, :func:`build_series`, :func:`load_series` and
+converted, problems named by row); :data:`SPECIMEN_ID_LENGTH` (the longest specimen id);
+:class:`Series`, :func:`build_series`, :func:`load_series` and
 :func:`rebuild_series`; :func:`atomic_write_bytes`, :func:`atomic_write_text`,
-:func:`append_line`, :func:`folder_lock`, :func:`write_csv` and :func:`spreadsheet_safe`.
+:func:`append_line` (:data:`APPEND_ROOM`), :func:`folder_lock`, :func:`sync_folder`,
+:func:`write_csv` and :func:`spreadsheet_safe`.
 
 References
 ----------
@@ -46,6 +48,8 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "atomic_write_bytes": "files",
         "atomic_write_text": "files",
         "folder_lock": "files",
+        "sync_folder": "files",
+        "APPEND_ROOM": "files",
         "spreadsheet_safe": "files",
         "write_csv": "files",
         "PROJECT_SETTINGS": "project",
@@ -66,11 +70,13 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "load_series": "series",
         "rebuild_series": "series",
         "HEAD_RISE_SCATTERS": "table_checks",
+        "SPECIMEN_ID_LENGTH": "table_checks",
         "HEAD_RISE_TOLERANCE": "table_checks",
         "head_rise_tolerance": "table_checks",
         "convert_table": "table_checks",
         "report_rows": "table_checks",
         "KINDS": "units",
+        "EXAMPLE_UNITS": "units",
         "UnitError": "units",
         "format_header": "units",
         "parse_value": "units",
@@ -90,14 +96,18 @@ __all__ = [
     "build_series",
     "ColumnSpec",
     "folder_lock",
+    "sync_folder",
+    "APPEND_ROOM",
     "format_header",
     "HEAD_RISE_SCATTERS",
+    "SPECIMEN_ID_LENGTH",
     "HEAD_RISE_TOLERANCE",
     "head_rise_tolerance",
     "convert_table",
     "report_rows",
     "InputProblem",
     "KINDS",
+    "EXAMPLE_UNITS",
     "load_series",
     "parse_value",
     "RawTable",

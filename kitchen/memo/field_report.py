@@ -46,7 +46,7 @@ from .documents import (
     provenance_blocks,
 )
 from .images import start_image_export
-from .manifest import read_manifest, write_manifest
+from .manifest import StagedPack
 from .markup import ChartScript, cautions_markup, escape, page_markup, table_markup
 from .pages import provenance_markup
 from .provenance import Provenance, memo_provenance
@@ -213,7 +213,6 @@ def export_field_check(
     if images:
         start_image_export()
     out = Path(out)
-    previous = read_manifest(out)
     given = criterion
     _, source = workspace.criterion_in_force(given)
     if given is not None:
@@ -273,8 +272,20 @@ def export_field_check(
         steps.append(script.path)
     steps += [f"charts/{name}.{ext}" for name, _, _ in charts for ext in formats]
     steps += ["field_check.html", "field_check.docx"]
-    write = PackWriter(out, steps, progress)
-    written = write.written
+    staged = StagedPack(out)  # refuses a folder holding what the tool did not write
+    write = PackWriter(staged, steps, progress)
+    with staged:
+        return _write_report(
+            staged, write, check, tests, table, lifts, charts, script, provenance, criterion_text,
+            series.name, images, clock,
+        )  # fmt: skip
+
+
+def _write_report(
+    staged, write, check, tests, table, lifts, charts, script, provenance, criterion_text,
+    series_name, images, clock,
+) -> FieldReport:  # fmt: skip
+    """Write the files of the check report through `write`, then swap the report in."""
 
     write(
         "field_check.csv",
@@ -298,13 +309,13 @@ def export_field_check(
     if script.path is not None:
         write(script.path, "script", lambda: script.content)
     caption = [f"Caution: {text}" for text in ALL_CAUTIONS] + [
-        f"kitchen {provenance.tool_version} · series {series.name} · field tests "
+        f"kitchen {provenance.tool_version} · series {series_name} · field tests "
         f"{tests.label} · {provenance.created} · {criterion_text}"
     ]
-    pngs = write_chart_files(write, out, charts, ALL_CAUTIONS, provenance, script, caption, images)
+    pngs = write_chart_files(write, charts, ALL_CAUTIONS, provenance, script, caption, images)
     methods = check.methods + tuple(m for m in ANALYSIS_METHODS if "zone" in m[0])
     outside = table[~check.tests["inside"].to_numpy(dtype=bool)]
-    title = f"Field check: {tests.label} against {series.name}"
+    title = f"Field check: {tests.label} against {series_name}"
     fragments = "".join(
         f'<h3>{escape(t)}</h3><div class="chart">{figure_html(f, n)}</div>' for n, t, f in charts
     )
@@ -365,5 +376,7 @@ def export_field_check(
         *provenance_blocks(provenance),
     ]
     write("field_check.docx", "document", lambda: document_bytes(title, blocks))
-    manifest, _ = write_manifest(out, written, previous)
-    return FieldReport(out, (*written, manifest), check, provenance, time.perf_counter() - clock)
+    manifest, _ = staged.finish()
+    return FieldReport(
+        staged.out, (*write.written, manifest), check, provenance, time.perf_counter() - clock
+    )
