@@ -75,7 +75,7 @@ def test_every_notebook_is_checked():
 
 
 def test_the_field_cautions_are_quoted_by_the_field_notebook_and_the_readme():
-    notebook = json.loads((ROOT / "notebooks" / "06_field_checks.ipynb").read_text("utf-8"))
+    notebook = json.loads((ROOT / "notebooks" / "07_field_checks.ipynb").read_text("utf-8"))
     section = next(
         _words("".join(cell["source"]))
         for cell in notebook["cells"]
