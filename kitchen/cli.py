@@ -273,7 +273,10 @@ def _report(arguments) -> int:
     path = arguments.out / "results.csv"
     print(f"{len(workspace.results())} result row(s) for {series.name} written to {path}")
     print(f"memo pack: {len(pack)} file(s) in {arguments.out} ({pack.seconds:.1f} s)")
-    print(f"{effective.revision_count} revision(s) applied from {effective.log_path}")
+    if effective.log_path is not None and Path(effective.log_path).exists():
+        print(f"{effective.revision_count} revision(s) applied from {effective.log_path}")
+    else:
+        print("no revisions: the series has no revision log; its raw files are used as written")
     print(_criterion_words(criterion, source))
     if windows:
         print(f"{len(windows)} reading window(s) chosen, from {windows_path(arguments.series)}")
@@ -406,7 +409,12 @@ def _history(arguments) -> int:
     revisions = read_revisions(arguments.series)
     table = history_table(revisions)
     standing = int((table["status"] == "in force").sum())
-    print(f"{len(table)} row(s) in {revisions_path(arguments.series)}: {standing} in force")
+    log = revisions_path(arguments.series)
+    if log.exists():
+        print(f"{len(table)} row(s) in {log}: {standing} in force")
+    else:
+        print(f"no revisions yet: {arguments.series} has no revision log ({log.name} is written "
+              "beside it by the first `revise`)")  # fmt: skip
     print(format_history(revisions))
     if arguments.out is not None:
         print(f"history written to {write_csv(arguments.out, table)}")
