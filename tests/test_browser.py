@@ -401,6 +401,10 @@ SHOWN_FIGURE = """() => {
 def _shown_figure(page):
     """The legend and traces of the chart the series panel shows, as the browser drew it."""
     page.wait_for_timeout(700)  # the refresh's messages and plotly's redraw
+    page.wait_for_function(
+        f"() => {{ const shown = ({SHOWN_FIGURE})(); return shown && shown.traces.length > 0; }}",
+        timeout=30_000,
+    )
     shown = page.evaluate(SHOWN_FIGURE)
     assert shown is not None, "the chart box shows no drawn figure, or more than one"
     return shown
