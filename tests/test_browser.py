@@ -422,6 +422,23 @@ def _assert_whole(shown, criterion_y: float):
     assert any(t["name"] in shown["legend"] for t in shown["traces"] if "criterion" in t["name"])
 
 
+def _typed(page, criterion: str, shown_as: str, screenshot: str):
+    """Type a criterion in the series panel's box; the chart shown once the verdict line
+    says it (its screenshot saved)."""
+    box = page.locator(".widget-text:has(label:text-is('k criterion')) input")
+    box.fill(criterion)
+    box.press("Enter")
+    page.wait_for_function(
+        "(start) => document.querySelector('.kitchen-criterion').textContent.startsWith(start)",
+        arg=shown_as,
+        timeout=60_000,
+    )
+    shown = _shown_figure(page)
+    page.locator(".kitchen-chart-box").scroll_into_view_if_needed()
+    _screenshot(page, screenshot)
+    return shown
+
+
 def test_series_chart_survives_tab_unit_and_criterion_switches(notebook, lab):
     """The sequence that once broke the chart: another tab, back, a new criterion, a unit."""
     page = notebook("04_series_chart.ipynb")
@@ -431,21 +448,11 @@ def test_series_chart_survives_tab_unit_and_criterion_switches(notebook, lab):
     _assert_whole(_shown_figure(page), 1e-9)
     tab = page.locator(".widget-toggle-button", has_text="k and void ratio")
     back = page.locator(".widget-toggle-button", has_text="Compaction and k")
-    criterion = page.locator(".widget-text:has(label:text-is('k criterion')) input")
     tab.click()
     assert "void ratio" in _shown_figure(page)["title"].lower()
     back.click()
     _assert_whole(_shown_figure(page), 1e-9)
-    criterion.fill("3e-9 m/s")
-    criterion.press("Enter")
-    page.wait_for_function(
-        "() => document.querySelector('.kitchen-criterion').textContent.startsWith('3.00')",
-        timeout=60_000,
-    )
-    shown = _shown_figure(page)
-    page.locator(".kitchen-chart-box").scroll_into_view_if_needed()
-    _screenshot(page, "04_series_chart_after_tab_and_criterion")
-    _assert_whole(shown, 3e-9)
+    _assert_whole(_typed(page, "3e-9 m/s", "3.00", "04_series_chart_after_tab_and_criterion"), 3e-9)
     page.locator(".widget-toggle-button", has_text="cm/s").click()
     page.wait_for_function(
         "() => document.querySelector('.kitchen-criterion').textContent.endsWith('cm/s')",
@@ -455,16 +462,7 @@ def test_series_chart_survives_tab_unit_and_criterion_switches(notebook, lab):
     tab.click()
     page.locator(".widget-toggle-button", has_text="k and dry density").click()
     back.click()
-    criterion.fill("1e-7 cm/s")
-    criterion.press("Enter")
-    page.wait_for_function(
-        "() => document.querySelector('.kitchen-criterion').textContent.startsWith('1.00')",
-        timeout=60_000,
-    )
-    shown = _shown_figure(page)
-    page.locator(".kitchen-chart-box").scroll_into_view_if_needed()
-    _screenshot(page, "04_series_chart_after_switches")
-    _assert_whole(shown, 1e-7)
+    _assert_whole(_typed(page, "1e-7 cm/s", "1.00", "04_series_chart_after_switches"), 1e-7)
     tab.click()
     shown = _shown_figure(page)
     assert "void ratio" in shown["title"].lower()
