@@ -25,7 +25,7 @@ import ipywidgets as widgets
 import numpy as np
 import pandas as pd
 
-from kitchen.display_units import superscript
+from kitchen.display_units import column_format, superscript
 from kitchen.io import SeriesError, UnitError
 from kitchen.memo import table_markup
 from kitchen.revisions import RevisionError, revisions_path
@@ -227,8 +227,10 @@ def format_conductivity(value, unit: str = "m/s", digits: int = 3) -> str:
 def html_table(frame: pd.DataFrame, formats: dict | None = None, text_columns=()) -> str:
     """A DataFrame as a compact HTML table (values escaped; NaN shown as "–").
 
-    ``formats`` maps a column to a function from value to text; other numbers get three
-    significant figures. ``text_columns`` are left-aligned and wrap. The markup is that of
+    ``formats`` maps a column to a function from value to text; other numbers are written
+    in their column's one format (:func:`kitchen.display_units.column_format`: k to three
+    significant figures, a density, a water content or a void ratio to fixed decimals), or
+    to three significant figures. ``text_columns`` are left-aligned and wrap. The markup is that of
     the memo's pages (:func:`kitchen.memo.table_markup`), in the panels' style.
     """
     formats = formats or {}
@@ -244,7 +246,8 @@ def html_table(frame: pd.DataFrame, formats: dict | None = None, text_columns=()
             elif isinstance(value, (bool, np.bool_)):
                 text = "yes" if value else "no"
             elif isinstance(value, (float, np.floating)):
-                text = format_number(float(value))
+                style = column_format(column)
+                text = style.text(value) if style else format_number(float(value))
             elif value is None or value is pd.NA:
                 text = "–"
             else:

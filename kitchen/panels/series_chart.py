@@ -22,7 +22,7 @@ import plotly.graph_objects as go
 
 from kitchen import charts
 from kitchen.analysis import Criterion, SeriesAnalysis, parse_criterion
-from kitchen.display_units import DENSITY_UNITS, K_UNITS
+from kitchen.display_units import DENSITY_UNITS, K_UNITS, density_unit
 from kitchen.io import Series, SeriesError
 from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace
@@ -31,7 +31,6 @@ from .common import (
     MessageArea,
     ProgressBar,
     format_conductivity,
-    format_fixed,
     html_table,
     open_workspace,
 )
@@ -47,17 +46,21 @@ CHARTS = (
 """The panel's charts: key and tab title."""
 
 
-def verdict_table(analysis: SeriesAnalysis, unit: str, label: str) -> pd.DataFrame:
-    """One row per specimen: state, k with its interval, its validity beside the verdict."""
+def verdict_table(
+    analysis: SeriesAnalysis, unit: str, label: str, density: str = "Mg/m³"
+) -> pd.DataFrame:
+    """One row per specimen: state, k with its interval, its validity beside the verdict;
+    k in `unit` and the dry density (or unit weight) in `density`, as the charts show them."""
     rows = analysis.specimens
     factor = K_UNITS[unit].factor
+    shown = density_unit(density)
     return pd.DataFrame(
         {
             "specimen": rows["specimen"],
             "effort": rows["effort"],
             "method": rows["method"].str.replace("_", " "),
             "w [%]": rows["water_content"] * 100,
-            "ρd [Mg/m³]": rows["dry_density"] / 1000,
+            f"{shown.symbol} [{shown.unit}]": rows["dry_density"] * shown.factor,
             "e": rows["void_ratio"],
             f"{label} [{unit}]": rows["k"] * factor,
             f"low [{unit}]": rows["k_low"] * factor,
@@ -241,18 +244,7 @@ class SeriesChartPanel:
                 f"{format_conductivity(mean.high, unit)})."
             )
         self.verdicts.value = line
-        k_format = {
-            column: (lambda v, u=unit: format_conductivity(v / K_UNITS[u].factor, u))
-            for column in (f"{label} [{unit}]", f"low [{unit}]", f"high [{unit}]")
-        }
-        k_format.update(
-            {
-                "w [%]": lambda v: format_fixed(v, 1),
-                "ρd [Mg/m³]": lambda v: format_fixed(v, 3),
-                "e": lambda v: format_fixed(v, 3),
-            }
-        )
-        self.table.value = html_table(verdict_table(self.analysis, unit, label), k_format)
+        self.table.value = html_table(verdict_table(self.analysis, unit, label, density))
         self.error.show_notes(not_drawn + list(self.analysis.notes))
 
     def write_memo_pack(self, _button=None) -> None:

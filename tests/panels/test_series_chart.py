@@ -1,5 +1,7 @@
 """The series-chart panel: criterion and units drive the analysis and the charts."""
 
+import re
+
 import numpy as np
 import pytest
 from html_cells import TableCells
@@ -208,6 +210,23 @@ def _table_rows(panel) -> list[dict]:
     cells = [text for tag, _, text in parser.cells if tag == "td"]
     return [dict(zip(header, cells[i : i + len(header)], strict=True))
             for i in range(0, len(cells), len(header))]  # fmt: skip
+
+
+def test_the_table_follows_the_density_and_k_units(panel):
+    # gamma_d = rho_d * g_n, g_n = 9.80665 m/s2 exactly (3rd CGPM, 1901); 1 m/s = 100 cm/s
+    rows = panel.analysis.specimens
+    panel.density_unit.value = "kN/m³"
+    panel.k_unit.value = "cm/s"
+    table = _table_rows(panel)
+    assert "γd [kN/m³]" in table[0] and "ρd [Mg/m³]" not in table[0]
+    first = rows.iloc[0]
+    assert table[0]["γd [kN/m³]"] == f"{first['dry_density'] * 9.80665 / 1000:.2f}"
+    label = next(c for c in table[0] if c.endswith("[cm/s]") and c.startswith("k"))
+    # k to three significant figures, the trailing zero kept, no unit repeated in the cell
+    assert all(re.fullmatch(r"\d\.\d\d×10⁻[⁰¹²³⁴⁵⁶⁷⁸⁹]+", row[label]) for row in table)
+    assert table[0][label] == "7.56×10⁻⁷"  # QF-01's k20, 7.559e-9 m/s (the sample's results)
+    panel.density_unit.value = "Mg/m³"
+    assert _table_rows(panel)[0]["ρd [Mg/m³]"] == f"{first['dry_density'] / 1000:.3f}"
 
 
 def _visible(box) -> bool:
