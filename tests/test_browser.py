@@ -215,6 +215,13 @@ CLOSE = """() => {
 def lab_page(browser, lab):
     """One JupyterLab page for every notebook: the app and plotly.js load once."""
     page = browser.new_page()
+    page.on(
+        "console",
+        lambda message: (
+            message.type in ("error", "warning")
+            and CONSOLE.append(f"{message.type}: {message.text[:300]}")
+        ),
+    )
     page.goto(f"{lab['base']}/lab?token={lab['token']}&reset")
     page.wait_for_function("() => window.jupyterapp !== undefined", timeout=90_000)
     page.evaluate("async () => { await window.jupyterapp.restored; }")
@@ -273,6 +280,21 @@ def notebook(lab_page, lab):
 
 def _plotly_drawn(page, figures: int) -> None:
     """Wait until `figures` plotly figures are drawn, each with data in it."""
+    try:
+        _wait_drawn(page, figures)
+    except Exception as error:
+        page.screenshot(path=str(ARTIFACTS / "plotly_not_drawn.png"))
+        console = "\n".join(CONSOLE[-20:])
+        raise AssertionError(
+            f"{figures} figure(s) not drawn; browser console:\n{console}"
+        ) from error
+
+
+CONSOLE: list[str] = []
+"""The browser console's errors and warnings, for a failure's message."""
+
+
+def _wait_drawn(page, figures: int) -> None:
     page.wait_for_function(
         """(figures) => {
             const drawn = [...document.querySelectorAll('.js-plotly-plot')].filter(
@@ -500,8 +522,8 @@ def test_the_series_chosen_in_one_notebook_opens_in_the_next(lab_page, lab):
     _plotly_drawn(page, 1)
     box = page.locator(".kitchen-series-chooser .widget-text input").first
     assert Path(box.input_value()) == (working / "drainage_sand").resolve()
-    titles = " ".join(page.locator(".js-plotly-plot .gtitle").all_text_contents())
-    assert "void ratio" in titles.lower()  # the sand has no compaction plane
+    shown = _shown_figure(page)
+    assert "void ratio" in shown["title"].lower()  # the sand has no compaction plane
     assert "DL-A" in page.locator(".kitchen-table").first.inner_text()
     page.locator(".kitchen-series-chooser").scroll_into_view_if_needed()
     _screenshot(page, "04_opened_on_the_chosen_series")
