@@ -18,7 +18,7 @@ import copy
 import numpy as np
 import plotly.graph_objects as go
 
-__all__ = ["refresh_figure", "figure_spec", "same_value"]
+__all__ = ["refresh_figure", "figure_spec", "same_value", "live_figure"]
 
 _SHOWN = "_kitchen_shown_spec"
 """The attribute of a widget that holds the spec it last showed through this module."""
@@ -202,3 +202,23 @@ def _keep_state(widget: go.FigureWidget) -> None:
     state = widget._trait_values  # traitlets' store: no change notification, no message
     state["_widget_layout"] = copy.deepcopy(widget._layout_obj._props)
     state["_widget_data"] = copy.deepcopy(widget._data)
+
+
+def live_figure(figure) -> go.FigureWidget:
+    """A new FigureWidget that opens on `figure` whole, ready for :func:`refresh_figure`.
+
+    A FigureWidget made empty and then drawn sends its traces as messages before any view
+    exists; one made from the figure carries it in the state it opens with, which every
+    view is drawn from. Panels make each figure this way the first time they draw it.
+    """
+    spec = figure_spec(figure)
+    layout = dict(spec["layout"])
+    template = layout.get("template")
+    for key in ("width", "height"):
+        size = _template_size(template, key)
+        if layout.get(key) is None and size is not None:
+            layout[key] = size
+    spec["layout"] = layout
+    widget = go.FigureWidget({"data": spec["data"], "layout": layout})
+    setattr(widget, _SHOWN, figure_spec(widget))
+    return widget

@@ -175,3 +175,17 @@ def test_the_whole_state_is_sent_when_traces_are_set_and_only_changes_after():
     refresh_figure(widget, go.Figure(two))
     assert sent == ["_widget_data"] * 2
     assert [trace["name"] for trace in widget._widget_data] == ["a", "b"]
+
+
+def test_a_live_figure_opens_whole_and_then_sends_only_changes():
+    from kitchen.panels.refresh import live_figure
+
+    figure = go.Figure(go.Scatter(x=[1, 2], y=[3, 4], name="readings"))
+    widget = live_figure(figure)
+    assert [trace["name"] for trace in widget._widget_data] == ["readings"]  # opened with it
+    assert _state(widget)["data"] == _whole(figure)["data"]
+    sent = []
+    widget.observe(lambda change: sent.append(change["name"]), names=["_widget_data"])
+    count = refresh_figure(widget, go.Figure(go.Scatter(x=[1, 2], y=[3, 5], name="readings")))
+    assert count == 1 and sent == []  # only y, as a message
+    assert widget.data[0].y == (3, 5)
