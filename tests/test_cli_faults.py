@@ -151,3 +151,40 @@ def test_a_full_disk_leaves_the_previous_pack_and_the_logs_whole(small_disk):
     filler.unlink()
     assert run_cli("window", series, "--specimen", "QF-02", "--proposed", "--reason", "b")[0] == 0
     assert [c.reason for c in read_window_choices(series)] == ["a", "b"]
+
+
+def _long_record(folder: Path, readings: int) -> Path:
+    """One specimen with `readings` falling-head readings, one a second, written without the
+    package (the file is some 200 MB at 10⁷ readings)."""
+    folder.mkdir()
+    (folder / "specimens.csv").write_text(
+        "specimen,effort,water_content [%],diameter [mm],height [mm],dry_mass [g],"
+        "specific_gravity,standpipe_diameter [mm]\nA1,standard,16.0,101.6,116.4,1620.0,2.70,5.0\n",
+        encoding="utf-8",
+    )
+    block = 10**6
+    tails = [f"{number:06d},{150.0 - number * 1e-5:.5f},20.0\n" for number in range(block)]
+    with open(folder / "falling_head.csv", "w", encoding="utf-8") as handle:
+        handle.write("specimen,time [s],head [cm],temperature [degC]\n")
+        for first in range(readings // block):
+            handle.write("".join(f"A1,{first}" + tail for tail in tails))
+    return folder
+
+
+def test_ten_million_readings_under_a_memory_cap_end_in_words_not_a_traceback(tmp_path):
+    resource = pytest.importorskip("resource", reason="no resource limits on this system")
+    series = _long_record(tmp_path / "long", 10**7)
+    cap = 2**30  # 1 GiB of address space: the record needs more
+
+    def capped() -> None:
+        resource.setrlimit(resource.RLIMIT_AS, (cap, cap))
+
+    done = subprocess.run(
+        [sys.executable, "-m", "kitchen", "report", str(series), "--out",
+         str(tmp_path / "pack"), "--no-images"],
+        preexec_fn=capped, capture_output=True, text=True, timeout=600,
+    )  # fmt: skip
+    assert done.returncode == 3, done.stderr[-2000:]
+    assert "kitchen: out of memory working on" in done.stderr
+    assert "Traceback" not in done.stderr and "MemoryError" not in done.stderr
+    assert not (tmp_path / "pack").exists() and interrupted_exports(tmp_path / "pack") == []

@@ -25,7 +25,8 @@ Modules, in the order a pack is made:
 - :mod:`.pack`: the export of the whole pack in one call.
 
 The public face, which other subpackages import from :mod:`kitchen.memo` and never from its
-modules: :func:`export_memo_pack` (:class:`MemoPack`) and :data:`CHART_SCRIPT`;
+modules: :func:`export_memo_pack` (:class:`MemoPack`), :data:`CHART_SCRIPT` and
+:data:`PACK_SPECIMEN_LIMIT`;
 :func:`memo_charts`; :func:`start_image_export`, :func:`figure_image`,
 :class:`ImageExportUnavailable`, :data:`PNG_SCALE` and :data:`FIRST_IMAGE_TIMEOUT`;
 :func:`specimens_table`, :func:`fits_table`, :func:`checks_table`, :func:`revisions_table`,
@@ -65,6 +66,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "verify_pack": "manifest",
         "table_markup": "markup",
         "CHART_SCRIPT": "pack",
+        "PACK_SPECIMEN_LIMIT": "pack",
         "MemoPack": "pack",
         "export_memo_pack": "pack",
         "REDUCTION_METHODS": "pages",
@@ -108,6 +110,7 @@ __all__ = [
     "memo_charts",
     "memo_provenance",
     "MemoPack",
+    "PACK_SPECIMEN_LIMIT",
     "PackFolderError",
     "PNG_SCALE",
     "Provenance",

@@ -73,7 +73,13 @@ from .tables import (
 )
 from .workbook import notes_sheet, workbook_bytes
 
-__all__ = ["CHART_SCRIPT", "MemoPack", "export_memo_pack"]
+__all__ = ["CHART_SCRIPT", "PACK_SPECIMEN_LIMIT", "MemoPack", "export_memo_pack"]
+
+PACK_SPECIMEN_LIMIT = 1000
+"""The most specimens one memo pack holds: a chart page (and its images) per specimen and
+one report a reviewer reads through. A larger series is refused before any work, with
+this number, rather than reduced for minutes first (10⁴ specimens took some five minutes
+without images, two of them before the first file); split it by batch or effort."""
 
 CHART_SCRIPT = "charts/plotly.min.js"
 """Where a pack keeps plotly.js, ``/``-separated from the pack's folder; pages load it by a
@@ -227,7 +233,8 @@ def export_memo_pack(
     ImageExportUnavailable
         With `images`, when no Chromium is found (before any file is written).
     ValueError
-        When the criterion or a unit is not understood.
+        When the criterion or a unit is not understood, or the series has more than
+        :data:`PACK_SPECIMEN_LIMIT` specimens (before any work is done).
     PackFolderError
         When `out` is the series' folder, inside it, or holds anything but a whole pack
         the tool wrote (before any file is written).
@@ -249,6 +256,13 @@ def export_memo_pack(
         start_image_export()
     out = Path(out)
     _refuse_inputs_as_output(out, series.source)
+    count = len(workspace.specimen_ids())
+    if count > PACK_SPECIMEN_LIMIT:
+        raise ValueError(
+            f"{series.source}: {count} specimens, more than the {PACK_SPECIMEN_LIMIT} one memo "
+            "pack holds (a chart page per specimen, one report to read through); split the "
+            "series (by batch or compaction effort) and report each part. Nothing was written"
+        )
     staged = StagedPack(out)  # refuses a folder holding what the tool did not write
     results = workspace.results()
     given = criterion
