@@ -527,3 +527,25 @@ def test_ten_thousand_specimens_are_refused_before_any_work_naming_the_limit(tmp
     assert code == 2 and "10000 specimens, more than the 1000 one memo pack holds" in err
     assert "[1/" not in err  # refused before the first file, not after reducing them all
     assert not out.exists() and list(tmp_path.iterdir()) == [series]
+
+
+def test_hostile_text_edited_into_a_log_is_escaped_wherever_the_pack_shows_it(tmp_path):
+    # the tool refuses such text at entry; a log edited by hand (or received) may hold it:
+    # formula-leading text (OWASP, CSV injection), escape codes (ECMA-48) and markup
+    from kitchen.revisions import revise, revisions_path
+
+    series = copy_sample(SAMPLES / "clay_liner", tmp_path / "clay")
+    revise(series, specimen="QF-01", field="height", value="116.3 mm", reason="re-measured")
+    log = revisions_path(series)
+    hostile = b'"=HYPERLINK(""http://x"",""y"") \x1b[2J\x07 <script>alert(1)</script>"'
+    log.write_bytes(log.read_bytes().replace(b"re-measured", hostile))
+    code, _, err = run_cli("report", series, "--out", tmp_path / "pack", "--no-images")
+    assert code == 0, err
+    book = load_workbook(tmp_path / "pack" / "results.xlsx")
+    cells = [cell for sheet in book for row in sheet.iter_rows() for cell in row]
+    assert not [cell for cell in cells if cell.data_type == "f"]
+    (reason,) = [c.value for c in cells if isinstance(c.value, str) and "HYPERLINK" in c.value]
+    assert reason == '\'=HYPERLINK("http://x","y") \\x1b[2J\\x07 <script>alert(1)</script>'
+    page = (tmp_path / "pack" / "report.html").read_text(encoding="utf-8")
+    assert "\x1b" not in page and "<script>alert" not in page
+    assert "=HYPERLINK(&quot;http://x&quot;,&quot;y&quot;) \\x1b[2J\\x07 &lt;script&gt;" in page
