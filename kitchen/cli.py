@@ -85,9 +85,30 @@ def build_parser() -> argparse.ArgumentParser:
         default="off",
         help="off (heads as read, default) or jurin (heads less the standpipe's capillary rise)",
     )
+    report.add_argument(
+        "--datum-tolerance",
+        type=_datum_tolerance,
+        default=Settings.datum_tolerance,
+        metavar="LENGTH",
+        help="how far the falling-head tailwater datum may be off, with its unit (default "
+        "'20 mm'; '2 mm' for a surveyed datum): it widens the interval of k under the "
+        "log-linear fit",
+    )
     _add_memo_options(report)
     _add_revision_commands(commands)
     return parser
+
+
+def _datum_tolerance(text: str) -> float:
+    """A length typed with its unit, for --datum-tolerance, in metres."""
+    from kitchen.io.units import UnitError, parse_value
+
+    try:
+        value = parse_value(text, "length").si
+        Settings(datum_tolerance=value)
+    except (UnitError, ValueError) as error:
+        raise argparse.ArgumentTypeError(str(error)) from None
+    return value
 
 
 def _add_memo_options(report) -> None:
@@ -248,9 +269,12 @@ def _add_revision_commands(commands) -> None:
 
 
 def _report(arguments) -> int:
-    from kitchen.memo import export_memo_pack
+    from kitchen.memo import export_memo_pack, start_image_export
     from kitchen.revisions import windows_path
     from kitchen.workspace import Workspace
+
+    if not arguments.no_images:
+        start_image_export()  # Chromium starts while the series is read and reduced
 
     settings = Settings(
         arguments.reference_temperature,
@@ -258,6 +282,7 @@ def _report(arguments) -> int:
         uncertainty_method=arguments.uncertainty,
         falling_head_fit=arguments.falling_head_fit,
         capillary_rise=arguments.capillary_rise,
+        datum_tolerance=arguments.datum_tolerance,
     )
     workspace = Workspace(
         arguments.series, settings, windows_on_record=not arguments.proposed_windows

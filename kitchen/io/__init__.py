@@ -19,9 +19,9 @@ Modules, in the data's order:
 
 The public face, which other subpackages import from :mod:`kitchen.io` and never from its
 modules: :func:`split_header`, :func:`format_header`, :func:`parse_value`, :func:`to_si`,
-:data:`KINDS` and :class:`UnitError` (units); :data:`SCHEMAS`, :data:`TABLE_NAMES`,
-:class:`ColumnSpec`, :class:`RawTable`, :func:`read_tables`, :class:`InputProblem` and
-:class:`SeriesError` (the raw tables); :func:`head_rise_tolerance`,
+:data:`KINDS`, :data:`EXAMPLE_UNITS` and :class:`UnitError` (units); :data:`SCHEMAS`,
+:data:`TABLE_NAMES`, :class:`ColumnSpec`, :class:`RawTable`, :func:`read_tables`,
+:class:`InputProblem` and :class:`SeriesError` (the raw tables); :func:`head_rise_tolerance`,
 :data:`HEAD_RISE_TOLERANCE` and :data:`HEAD_RISE_SCATTERS` (the rise a falling-head reading
 may show); :data:`SPECIMEN_ID_LENGTH` (the longest specimen id); :class:`Series`,
 :func:`build_series`, :func:`load_series` and
@@ -72,6 +72,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "HEAD_RISE_TOLERANCE": "table_checks",
         "head_rise_tolerance": "table_checks",
         "KINDS": "units",
+        "EXAMPLE_UNITS": "units",
         "UnitError": "units",
         "format_header": "units",
         "parse_value": "units",
@@ -101,6 +102,7 @@ __all__ = [
     "head_rise_tolerance",
     "InputProblem",
     "KINDS",
+    "EXAMPLE_UNITS",
     "load_series",
     "parse_value",
     "RawTable",

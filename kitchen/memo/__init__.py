@@ -32,7 +32,7 @@ modules: :func:`export_memo_pack` (:class:`MemoPack`), :data:`CHART_SCRIPT` and
 :func:`specimens_table`, :func:`fits_table`, :func:`checks_table`, :func:`revisions_table`,
 :func:`kept_tests_table`, :data:`FIT_COLUMNS`, :data:`REVISION_COLUMNS` and
 :data:`KEPT_TEST_COLUMNS`;
-:func:`workbook_bytes`; :func:`memo_provenance`,
+:func:`workbook_bytes`, :func:`setting_texts`, :data:`SETTING_UNITS`; :func:`memo_provenance`,
 :class:`Provenance`, :class:`InputFile` and :func:`file_sha256`; :func:`report_page`,
 :func:`chart_page`, :data:`REDUCTION_METHODS` and :data:`VERDICT_MARKS`; :func:`table_markup`
 (the notebook panels build their tables with it too);
@@ -86,6 +86,8 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "revisions_table": "tables",
         "specimens_table": "tables",
         "workbook_bytes": "workbook",
+        "setting_texts": "workbook",
+        "SETTING_UNITS": "workbook",
     },
 )
 
@@ -126,4 +128,6 @@ __all__ = [
     "VERDICT_MARKS",
     "verify_pack",
     "workbook_bytes",
+    "setting_texts",
+    "SETTING_UNITS",
 ]

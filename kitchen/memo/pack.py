@@ -59,7 +59,7 @@ from kitchen.workspace import Workspace
 from .figures import memo_charts
 from .images import FIRST_IMAGE_TIMEOUT as FIRST_IMAGE_TIMEOUT
 from .images import PNG_SCALE as PNG_SCALE
-from .images import figure_image, start_image_export
+from .images import image_result, request_image, start_image_export
 from .manifest import PackFolderError, StagedPack
 from .markup import ChartScript
 from .pages import chart_page, report_page
@@ -71,7 +71,7 @@ from .tables import (
     revisions_table,
     specimens_table,
 )
-from .workbook import notes_sheet, workbook_bytes
+from .workbook import notes_sheet, setting_texts, workbook_bytes
 
 __all__ = ["CHART_SCRIPT", "PACK_SPECIMEN_LIMIT", "MemoPack", "export_memo_pack"]
 
@@ -274,7 +274,7 @@ def export_memo_pack(
     label = reference_label(settings)
     criterion_text = _criterion_text(analysis, ku, label)
     chosen = {
-        **_settings_dict(settings),
+        **setting_texts(_settings_dict(settings)),
         "criterion [m/s]": "none given" if criterion is None else f"{criterion:g}",
         "criterion kind": "none given" if criterion is None else criterion.kind,
         "criterion from": source,
@@ -339,6 +339,12 @@ def export_memo_pack(
         if script.path is not None:  # before any page that loads it
             write(script.path, "script", lambda: script.content)
         caption = _caption(provenance, criterion_text)
+        requested = {}
+        if images:  # Chromium draws them in turn while the pages below are written
+            for name, _, figure in charts:
+                captioned = add_caption(figure, caption)
+                for ext in ("png", "svg"):
+                    requested[name, ext] = request_image(captioned, ext)
         for name, title, figure in charts:
             page = f"charts/{name}.html"
             write(
@@ -348,14 +354,10 @@ def export_memo_pack(
                     t, _figure_html(f, n), CAUTIONS, provenance, script, posixpath.dirname(p)
                 ).encode("utf-8"),
             )
-            if images:
-                captioned = add_caption(figure, caption)
-                for ext in ("png", "svg"):
-                    write(
-                        f"charts/{name}.{ext}",
-                        "chart",
-                        lambda c=captioned, e=ext: figure_image(c, e),
-                    )
+            for ext in ("png", "svg") if images else ():
+                write(
+                    f"charts/{name}.{ext}", "chart", lambda r=requested[name, ext]: image_result(r)
+                )
         fragments = [(name, title, _figure_html(figure, name)) for name, title, figure in charts]
         write(
             "report.html",
