@@ -13,7 +13,9 @@ and, once every file and the manifest are in place, swaps it in whole: the folde
 the previous pack or the new one, never a mixture, whatever stops the export (an error,
 a full disk, the process killed). The previous pack, swapped out, is then removed file by
 file, and only what the tool can prove it wrote: a regular file (not a link) inside that
-folder, listed in its manifest, whose SHA-256 matches. A folder holding anything else (a
+folder, listed in its manifest, whose SHA-256 matches, the manifest last. A previous pack
+a killed export left beside the folder is removed the same way by the next export; a
+pack killed while being built (no manifest yet) cannot be proven and is named instead. A folder holding anything else (a
 file no manifest lists, a file changed since its export, a link, a manifest the tool did
 not write that names files) is refused before anything is written, and nothing in it is
 touched.
@@ -234,12 +236,13 @@ class StagedPack:
         self.previous = _previous_pack(self.out)
         self.out.parent.mkdir(parents=True, exist_ok=True)
         for left in interrupted_exports(self.out):
-            warnings.warn(
-                f"{left}: left by an export of {self.out.name} that was stopped before it "
-                "finished; it is not the pack and the tool does not remove what it cannot "
-                "prove it wrote: look at it and remove it by hand",
-                stacklevel=2,
-            )
+            if not self._clear_previous_pack(left):
+                warnings.warn(
+                    f"{left}: left by an export of {self.out.name} that was stopped before "
+                    "it finished; it is not the pack and the tool does not remove what it "
+                    "cannot prove it wrote: look at it and remove it by hand",
+                    stacklevel=2,
+                )
         self.staging = Path(
             tempfile.mkdtemp(prefix=f".{self.out.name}.kitchen-new-", dir=self.out.parent)
         )
@@ -299,11 +302,25 @@ class StagedPack:
         removed = sorted(set(previous or {}) - set(self.entries))
         return self.out / MANIFEST, tuple(self.out / relative for relative in removed)
 
+    def _clear_previous_pack(self, folder: Path) -> bool:
+        """Remove a previous pack that a stopped export had swapped out but not yet removed
+        (every file left in it listed in its manifest and matching); False where `folder`
+        is anything else (a pack stopped while being built has no manifest)."""
+        try:
+            listed = read_manifest(folder)
+        except ValueError:
+            return False
+        problems = [p for p in _unproven(folder, listed) if not p.endswith(": missing")]
+        if not listed or problems:
+            return False
+        self._remove_own(folder, {**listed, MANIFEST: None}, proven=True)
+        return not folder.exists()
+
     def _remove_own(self, folder: Path, listed: dict, proven: bool = False) -> None:
         """Remove from `folder` the files named in `listed` (checked against their SHA-256
         when `proven`), then its emptied folders; warn, naming it, where anything stays."""
-        for relative, entry in listed.items():
-            path = folder / relative
+        for relative, entry in listed.items():  # the manifest last: the folder stays
+            path = folder / relative  # provable until its last listed file is gone
             try:
                 status = path.lstat()
             except FileNotFoundError:

@@ -207,3 +207,18 @@ def test_command_line_verify(sand_pack, tmp_path, capsys):
     (copy / "results.xlsx").write_bytes(b"edited")
     assert cli.main(["verify", str(copy)]) == 2
     assert "results.xlsx: not the file exported" in capsys.readouterr().err
+
+
+def test_a_previous_pack_left_beside_the_folder_by_a_kill_is_removed_next_time(sand_pack):
+    # a kill after the swap, while the previous pack was being removed: what is left of it
+    # is listed in its manifest and matches, so the next export proves it and removes it
+    out, _ = sand_pack
+    left = out.parent / f".{out.name}.kitchen-new-killed01"
+    shutil.copytree(out, left)
+    (left / "report.html").unlink()  # removed before the kill
+    building = out.parent / f".{out.name}.kitchen-new-killed02"
+    building.mkdir()
+    (building / "results.csv").write_text("a pack killed while being built")
+    with pytest.warns(UserWarning, match="kitchen-new-killed02: left by an export"):
+        export_memo_pack(Workspace(SAMPLES / "drainage_sand"), out, images=False)
+    assert interrupted_exports(out) == [building] and verify_pack(out) == []
