@@ -15,10 +15,10 @@ a full disk, the process killed). The previous pack, swapped out, is then remove
 file, and only what the tool can prove it wrote: a regular file (not a link) inside that
 folder, listed in its manifest, whose SHA-256 matches, the manifest last. A previous pack
 a killed export left beside the folder is removed the same way by the next export; a
-pack killed while being built (no manifest yet) cannot be proven and is named instead. A folder holding anything else (a
-file no manifest lists, a file changed since its export, a link, a manifest the tool did
-not write that names files) is refused before anything is written, and nothing in it is
-touched.
+pack killed while being built (no manifest yet) cannot be proven and is named instead.
+A folder holding anything else (a file no manifest lists, a file changed since its export,
+a link, a manifest the tool did not write that names files) is refused before anything is
+written, and nothing in it is touched.
 """
 
 from __future__ import annotations
