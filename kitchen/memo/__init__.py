@@ -36,7 +36,7 @@ modules: :func:`export_memo_pack` (:class:`MemoPack`), :data:`CHART_SCRIPT` and
 :class:`Provenance`, :class:`InputFile` and :func:`file_sha256`; :func:`report_page`,
 :func:`chart_page`, :data:`REDUCTION_METHODS` and :data:`VERDICT_MARKS`; :func:`table_markup`
 (the notebook panels build their tables with it too);
-:class:`StagedPack`, :class:`PackFolderError`, :func:`interrupted_exports`,
+:class:`StagedPack`, :class:`PackFolderError`, :data:`PACK_MARK`, :func:`interrupted_exports`,
 :func:`manifest_bytes`, :func:`read_manifest`, :func:`verify_pack`, :data:`MANIFEST` and
 :data:`MANIFEST_COLUMNS`.
 
@@ -58,6 +58,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "start_image_export": "images",
         "MANIFEST": "manifest",
         "MANIFEST_COLUMNS": "manifest",
+        "PACK_MARK": "manifest",
         "PackFolderError": "manifest",
         "StagedPack": "manifest",
         "interrupted_exports": "manifest",
@@ -112,6 +113,7 @@ __all__ = [
     "memo_charts",
     "memo_provenance",
     "MemoPack",
+    "PACK_MARK",
     "PACK_SPECIMEN_LIMIT",
     "PackFolderError",
     "PNG_SCALE",

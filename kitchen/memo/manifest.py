@@ -13,7 +13,9 @@ and, once every file and the manifest are in place, swaps it in whole: the folde
 the previous pack or the new one, never a mixture, whatever stops the export (an error,
 a full disk, the process killed). The previous pack, swapped out, is then removed file by
 file, and only what the tool can prove it wrote: a regular file (not a link) inside that
-folder, listed in its manifest, whose SHA-256 matches, the manifest last. A previous pack
+folder, listed in its manifest, whose SHA-256 matches, the manifest last; and only from a
+folder whose :data:`PACK_MARK` shows the pack was built there, so a pack received from a
+colleague (copied or unzipped into the folder) is never replaced. A previous pack
 a killed export left beside the folder is removed the same way by the next export; a
 pack killed while being built (no manifest yet) cannot be proven and is named instead.
 A folder holding anything else (a file no manifest lists, a file changed since its export,
@@ -40,6 +42,7 @@ from kitchen.io import atomic_write_bytes, sync_folder
 __all__ = [
     "MANIFEST",
     "MANIFEST_COLUMNS",
+    "PACK_MARK",
     "PackFolderError",
     "StagedPack",
     "read_manifest",
@@ -53,6 +56,12 @@ MANIFEST = "manifest.csv"
 
 MANIFEST_COLUMNS = ("path", "bytes", "sha256")
 """Its columns: the file's path inside the pack (``/`` separated), its size, its digest."""
+
+PACK_MARK = ".kitchen-pack"
+"""The pack's mark, written beside the manifest: the device and inode of the folder the
+pack was built in (kept through the rename that puts it in place) and the manifest's
+SHA-256. A pack copied, unzipped or received into a folder carries a mark that names
+another folder: it is not a pack the tool wrote there, and is never replaced."""
 
 _SHOWN = 5
 """How many of a folder's problems a refusal names before it counts the rest."""
@@ -126,7 +135,7 @@ def _unproven(folder: Path, listed: dict[str, tuple[int, str]]) -> list[str]:
             problems.append(f"{relative}: a link (the tool writes no links)")
         elif stat.S_ISDIR(status.st_mode):
             continue
-        elif relative == MANIFEST:
+        elif relative in (MANIFEST, PACK_MARK):
             continue
         elif relative not in listed:
             problems.append(f"{relative}: not in {MANIFEST} (not written by the export)")
@@ -186,7 +195,27 @@ def _previous_pack(out: Path) -> dict[str, tuple[int, str]] | None:
         problems.insert(0, f"{MANIFEST}: lists no file")
     if problems:
         raise _refusal(out, problems)
+    if not _marked_here(out):
+        raise PackFolderError(
+            f"{out}: holds a pack the tool did not write in this folder (copied, unzipped or "
+            f"received here: its {PACK_MARK} names another folder, or it has none). Nothing "
+            "was written or removed. Export into a new folder, or move that pack away"
+        )
     return listed
+
+
+def _mark(folder: Path, manifest: bytes) -> bytes:
+    status = folder.stat()
+    return f"{status.st_dev} {status.st_ino} {hashlib.sha256(manifest).hexdigest()}\n".encode()
+
+
+def _marked_here(folder: Path) -> bool:
+    """Whether `folder` holds the pack the tool built in it (:data:`PACK_MARK`)."""
+    try:
+        mark, manifest = (folder / PACK_MARK).read_bytes(), (folder / MANIFEST).read_bytes()
+    except OSError:
+        return False
+    return not (folder / PACK_MARK).is_symlink() and mark == _mark(folder, manifest)
 
 
 def _exchange(first: Path, second: Path) -> bool:
@@ -255,11 +284,11 @@ class StagedPack:
 
     def __exit__(self, kind, error, trace) -> None:
         if kind is not None and self.staging.exists():
-            self._remove_own(self.staging, {**self.entries, MANIFEST: None})
+            self._remove_own(self.staging, {**self.entries, PACK_MARK: None, MANIFEST: None})
 
     def write(self, relative: str, data: bytes) -> Path:
         """Write one file of the pack (``/``-separated path inside it); its final path."""
-        if relative in self.entries or relative == MANIFEST:
+        if relative in self.entries or relative in (MANIFEST, PACK_MARK):
             raise ValueError(f"{relative}: written twice in one pack")
         try:
             atomic_write_bytes(self.staging / relative, data)
@@ -282,7 +311,9 @@ class StagedPack:
         (pathlib.Path, tuple of pathlib.Path)
             The manifest, and the files of the previous pack this one no longer has.
         """
-        atomic_write_bytes(self.staging / MANIFEST, manifest_bytes(self.entries))
+        manifest = manifest_bytes(self.entries)
+        atomic_write_bytes(self.staging / MANIFEST, manifest)
+        atomic_write_bytes(self.staging / PACK_MARK, _mark(self.staging, manifest))
         previous = self.previous
         if not previous:  # no folder, or an empty one, which a rename replaces (POSIX)
             os.rename(self.staging, self.out)
@@ -298,7 +329,8 @@ class StagedPack:
             os.rename(self.staging, self.out)
         sync_folder(self.out.parent)
         if aside is not None:
-            self._remove_own(aside, {**(previous or {}), MANIFEST: None}, proven=True)
+            own = {**(previous or {}), PACK_MARK: None, MANIFEST: None}
+            self._remove_own(aside, own, proven=True)
         removed = sorted(set(previous or {}) - set(self.entries))
         return self.out / MANIFEST, tuple(self.out / relative for relative in removed)
 
@@ -311,9 +343,9 @@ class StagedPack:
         except ValueError:
             return False
         problems = [p for p in _unproven(folder, listed) if not p.endswith(": missing")]
-        if not listed or problems:
+        if not listed or problems or not _marked_here(folder):
             return False
-        self._remove_own(folder, {**listed, MANIFEST: None}, proven=True)
+        self._remove_own(folder, {**listed, PACK_MARK: None, MANIFEST: None}, proven=True)
         return not folder.exists()
 
     def _remove_own(self, folder: Path, listed: dict, proven: bool = False) -> None:

@@ -3,6 +3,7 @@ through Python's hashlib), checked back; a pack built beside its folder and swap
 whole; a second export removes only what the first one provably wrote."""
 
 import hashlib
+import os
 import shutil
 from pathlib import Path
 
@@ -82,6 +83,19 @@ def test_a_folder_holding_a_file_the_tool_did_not_write_is_refused_and_left_alon
     with pytest.raises(PackFolderError, match="notes-from-the-reviewer.txt: not in manifest"):
         export_memo_pack(Workspace(SAMPLES / "drainage_sand"), out, images=False)
     assert _state(out) == before and interrupted_exports(out) == []
+
+
+def test_a_pack_received_from_elsewhere_is_never_replaced(sand_pack, tmp_path):
+    # a whole pack, every file as exported, copied in (as a colleague's pack is received):
+    # the tool did not write it in this folder, so it deletes nothing of it
+    out, _ = sand_pack
+    received = Path(shutil.copytree(out, tmp_path / "received"))
+    assert verify_pack(received) == []  # whole, and still checked as such
+    before = _state(received)
+    with pytest.raises(PackFolderError, match="did not write in this folder"):
+        export_memo_pack(Workspace(SAMPLES / "drainage_sand"), received, images=False)
+    assert _state(received) == before
+    export_memo_pack(Workspace(SAMPLES / "drainage_sand"), out, images=False)  # its own: yes
 
 
 def test_a_changed_file_of_the_previous_pack_is_not_replaced(sand_pack):
@@ -214,7 +228,7 @@ def test_a_previous_pack_left_beside_the_folder_by_a_kill_is_removed_next_time(s
     # is listed in its manifest and matches, so the next export proves it and removes it
     out, _ = sand_pack
     left = out.parent / f".{out.name}.kitchen-new-killed01"
-    shutil.copytree(out, left)
+    os.rename(out, left)  # swapped out (a rename keeps the folder, and its mark true)
     (left / "report.html").unlink()  # removed before the kill
     building = out.parent / f".{out.name}.kitchen-new-killed02"
     building.mkdir()
