@@ -240,6 +240,18 @@ def _exchange(first: Path, second: Path) -> bool:
     raise OSError(code, os.strerror(code), str(second))
 
 
+def _refuse_inputs_as_output(out: Path, inputs) -> None:
+    """Refuse a pack folder that is an input (a series' folder or workbook), or inside one."""
+    target = out.resolve()
+    for given in inputs:
+        source = Path(given).resolve()
+        if target == source or (source.is_dir() and source in target.parents):
+            raise PackFolderError(
+                f"{out}: is an input's own folder or file, or inside it ({given}); a pack "
+                "never goes beside the raw data: give another folder"
+            )
+
+
 def _folder_mode() -> int:
     umask = os.umask(0)
     os.umask(umask)
@@ -258,10 +270,14 @@ class StagedPack:
     ----------
     out : str or pathlib.Path
         The pack's folder: new, empty, or holding a whole pack the tool wrote.
+    inputs : tuple of str or pathlib.Path, optional
+        What the pack is made from (the series' folder or workbook, a file of field
+        tests): `out` may be none of them, nor inside one.
     """
 
-    def __init__(self, out: str | Path):
+    def __init__(self, out: str | Path, inputs: tuple[str | Path, ...] = ()):
         self.out = Path(out)
+        _refuse_inputs_as_output(self.out, inputs)
         self.previous = _previous_pack(self.out)
         self.out.parent.mkdir(parents=True, exist_ok=True)
         for left in interrupted_exports(self.out):

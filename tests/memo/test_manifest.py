@@ -9,7 +9,7 @@ from pathlib import Path
 
 import pytest
 from cli_runner import run_cli
-from series_files import SAMPLES
+from series_files import SAMPLES, copy_sample
 
 from kitchen import cli
 from kitchen.memo import (
@@ -153,13 +153,14 @@ def test_an_empty_folder_takes_the_pack(tmp_path):
 
 @pytest.mark.parametrize("inside", ["", "packs/today"])
 def test_a_pack_is_never_written_into_the_series_folder(tmp_path, inside):
-    series = Path(shutil.copytree(SAMPLES / "drainage_sand", tmp_path / "series"))
+    series = copy_sample(SAMPLES / "clay_liner", tmp_path / "series")
     before = _state(series)
-    with pytest.raises(PackFolderError, match="series' own folder"):
+    with pytest.raises(PackFolderError, match="an input's own folder or file, or inside it"):
         export_memo_pack(Workspace(series), series / inside, images=False)
     assert _state(series) == before
-    code, _, err = run_cli("report", series, "--out", series, "--no-images")
-    assert code == 2 and "series' own folder" in err and _state(series) == before
+    for command in ("report", "field-check"):
+        code, _, err = run_cli(command, series, "--out", series / inside, "--no-images")
+        assert code == 2 and "an input's own folder" in err and _state(series) == before
 
 
 def test_a_failure_part_way_leaves_the_previous_pack_whole_and_nothing_beside_it(sand_pack):
