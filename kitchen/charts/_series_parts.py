@@ -21,6 +21,7 @@ from kitchen.display_units import DisplayUnit, scientific
 from kitchen.settings import reference_label
 
 from .style import (
+    CRITERION_DASH,
     EFFORT_DASHES,
     EFFORT_SYMBOLS,
     INK,
@@ -208,7 +209,7 @@ def criterion_spec(analysis, x_range, unit: DisplayUnit, show_legend=True) -> di
         name=f"criterion k {analysis.criterion.symbol} {scientific(value, html=True)} {unit.unit}",
         legendgroup="criterion",
         showlegend=show_legend,
-        line=dict(color=INK, width=1.8, dash="longdash"),
+        line=dict(color=INK, width=1.8, dash=CRITERION_DASH),
         hoverinfo="name",
     )
 
