@@ -105,3 +105,56 @@ def test_constant_head_chart(sand):
         np.testing.assert_allclose(points.y, expected)
         line = next(t for t in figure.data if t.name == "v = k·i through the origin")
         np.testing.assert_allclose(line.y, record.k_reference * np.asarray(line.x) * scale)
+
+
+def test_the_datum_fit_keeps_the_head_axis_on_the_readings_and_names_h_infinity(clay):
+    # QF-04 of the invented clay, every reading, decay to a fitted datum: the readings lie
+    # between about 1.6 and 3 m and the fitted datum near 1 m (the sample's results)
+    series, _ = clay
+    state = specimen_state(series.specimens).set_index("specimen", drop=False)
+    readings = series.falling_head[series.falling_head["specimen"] == "QF-04"]
+    result = falling_head_analysis(
+        readings, state.loc["QF-04"], window=(0, len(readings)), fit="datum"
+    )
+    assert result.asymptote > 0.5
+    figure = specimen_charts.falling_head_figure(readings, result)
+    low, high = figure.layout.yaxis.range  # log10 of metres
+    heads = readings["head"].to_numpy()
+    assert low <= np.log10(min(heads.min(), result.asymptote)) and high >= np.log10(heads.max())
+    assert 10**high < 1.25 * heads.max()  # no stretch to 10 m
+    datum = next(t for t in figure.data if t.name and t.name.startswith("fitted datum h∞"))
+    assert f"{result.asymptote:.3f} m" in datum.name
+    np.testing.assert_allclose(datum.y, [result.asymptote] * 2)
+    # nothing placed in log coordinates by mistake: every annotation sits on the plot
+    assert all(a.yref != "y" for a in figure.layout.annotations)
+
+
+def test_a_datum_far_below_the_readings_is_named_not_drawn(clay):
+    series, _ = clay
+    state = specimen_state(series.specimens).set_index("specimen", drop=False)
+    readings = series.falling_head[series.falling_head["specimen"] == "QF-04"]
+    result = falling_head_analysis(
+        readings, state.loc["QF-04"], window=(0, len(readings)), fit="datum"
+    )
+    far = SimpleNamespace(**{**vars_of(result), "asymptote": 0.01})
+    figure = specimen_charts.falling_head_figure(readings, far)
+    low, _ = figure.layout.yaxis.range
+    assert 10**low > 0.5  # the axis stays on the readings
+    datum = next(t for t in figure.data if t.name and t.name.startswith("fitted datum h∞"))
+    assert "below the axis" in datum.name and datum.visible == "legendonly"
+
+
+def vars_of(result) -> dict:
+    names = ("specimen", "start", "stop", "fitted_head", "k_reference", "k_reference_low",
+             "k_reference_high", "fit_kind", "time", "head")  # fmt: skip
+    return {name: getattr(result, name) for name in names}
+
+
+def test_every_point_names_its_specimen_on_hover(clay, sand):
+    series, _ = clay
+    state = specimen_state(series.specimens).set_index("specimen", drop=False)
+    readings = series.falling_head[series.falling_head["specimen"] == "QF-02"]
+    record = falling_head_analysis(readings, state.loc["QF-02"], None, (5, 30))
+    figure = specimen_charts.falling_head_figure(readings, record)
+    points = [t for t in figure.data if t.mode == "markers"]
+    assert points and all("<b>QF-02</b>" in t.hovertemplate for t in points)
