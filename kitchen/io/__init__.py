@@ -23,9 +23,11 @@ modules: :func:`split_header`, :func:`format_header`, :func:`parse_value`, :func
 :data:`TABLE_NAMES`, :class:`ColumnSpec`, :class:`RawTable`, :func:`read_tables`,
 :class:`InputProblem` and :class:`SeriesError` (the raw tables); :func:`head_rise_tolerance`,
 :data:`HEAD_RISE_TOLERANCE` and :data:`HEAD_RISE_SCATTERS` (the rise a falling-head reading
-may show); :class:`Series`, :func:`build_series`, :func:`load_series` and
+may show); :data:`SPECIMEN_ID_LENGTH` (the longest specimen id); :class:`Series`,
+:func:`build_series`, :func:`load_series` and
 :func:`rebuild_series`; :func:`atomic_write_bytes`, :func:`atomic_write_text`,
-:func:`append_line`, :func:`folder_lock`, :func:`write_csv` and :func:`spreadsheet_safe`.
+:func:`append_line` (:data:`APPEND_ROOM`), :func:`folder_lock`, :func:`sync_folder`,
+:func:`write_csv` and :func:`spreadsheet_safe`.
 
 References
 ----------
@@ -44,6 +46,8 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "atomic_write_bytes": "files",
         "atomic_write_text": "files",
         "folder_lock": "files",
+        "sync_folder": "files",
+        "APPEND_ROOM": "files",
         "spreadsheet_safe": "files",
         "write_csv": "files",
         "PROJECT_SETTINGS": "project",
@@ -63,6 +67,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "load_series": "series",
         "rebuild_series": "series",
         "HEAD_RISE_SCATTERS": "table_checks",
+        "SPECIMEN_ID_LENGTH": "table_checks",
         "HEAD_RISE_TOLERANCE": "table_checks",
         "head_rise_tolerance": "table_checks",
         "KINDS": "units",
@@ -86,8 +91,11 @@ __all__ = [
     "build_series",
     "ColumnSpec",
     "folder_lock",
+    "sync_folder",
+    "APPEND_ROOM",
     "format_header",
     "HEAD_RISE_SCATTERS",
+    "SPECIMEN_ID_LENGTH",
     "HEAD_RISE_TOLERANCE",
     "head_rise_tolerance",
     "InputProblem",

@@ -96,13 +96,19 @@ class MessageArea:
         other error is a fault, shown with its traceback folded away.
         """
         self.exception = error
-        if isinstance(error, (SeriesError, RevisionError)):
-            kind = "series" if isinstance(error, SeriesError) else "revisions"
+        if isinstance(error, SeriesError):
             self.message = f"Could not finish {doing}: " + "; ".join(map(str, error.problems))
             items = "".join(f"<li>{html.escape(str(p))}</li>" for p in error.problems)
             body = (
-                f"<b>{len(error.problems)} problem(s) with the {kind}</b> — nothing was "
+                f"<b>{len(error.problems)} problem(s) with the series</b> — nothing was "
                 f"changed. Correct the files and try again.<ul>{items}</ul>"
+            )
+        elif isinstance(error, RevisionError):  # a refusal of what was typed, or a damaged log
+            self.message = f"Could not finish {doing}: " + "; ".join(map(str, error.problems))
+            items = "".join(f"<li>{html.escape(str(p))}</li>" for p in error.problems)
+            body = (
+                f"<b>Could not finish {html.escape(doing)}</b> — nothing was written:"
+                f"<ul>{items}</ul>"
             )
         elif isinstance(error, (ValueError, UnitError, OSError, KeyError, *expected)):
             text = error.args[0] if isinstance(error, KeyError) and error.args else str(error)

@@ -213,7 +213,9 @@ class SeriesPanel:
         self.results_view.value = html_table(shown, text_columns=TEXT_COLUMNS)
 
 
-def series_panel(path: str | Path, settings: Settings | None = None) -> SeriesPanel:
+def series_panel(
+    path: str | Path, settings: Settings | None = None, choose: bool = True
+) -> SeriesPanel:
     """Build the open-a-series panel and load the series at `path`.
 
     Parameters
@@ -222,6 +224,9 @@ def series_panel(path: str | Path, settings: Settings | None = None) -> SeriesPa
         Series folder or ``.xlsx`` workbook, shown in the path box.
     settings : Settings, optional
         Starting reference temperature and viscosity method.
+    choose : bool, default True
+        Show the path box and the load button; False where a series chooser above the
+        panel chooses the series (:func:`kitchen.panels.workbook_panel`).
 
     Returns
     -------
@@ -270,7 +275,7 @@ def series_panel(path: str | Path, settings: Settings | None = None) -> SeriesPa
     error, progress = MessageArea(), ProgressBar()
     box = widgets.VBox(
         [
-            widgets.HBox([path_box, load]),
+            *([widgets.HBox([path_box, load])] if choose else []),
             widgets.HBox([reference, viscosity]),
             progress.widget,
             error.widget,
