@@ -111,28 +111,19 @@ def conductivity_trend_figure(
         weak = not trend.fit.r_squared >= WEAK_FIT_R_SQUARED
         if not weak:
             low, high = trend.band(grid)
+            band_edge = dict(mode="lines", line=dict(width=0), legendgroup="fit", hoverinfo="skip")
             figure.add_trace(
-                go.Scatter(
-                    x=grid * scale,
-                    y=np.asarray(low) * ku.factor,
-                    mode="lines",
-                    line=dict(width=0),
-                    showlegend=False,
-                    legendgroup="fit",
-                    hoverinfo="skip",
-                )
-            )
+                go.Scatter(x=grid * scale, y=np.asarray(low) * ku.factor, showlegend=False,
+                           **band_edge)
+            )  # fmt: skip
             figure.add_trace(
                 go.Scatter(
                     x=grid * scale,
                     y=np.asarray(high) * ku.factor,
-                    mode="lines",
-                    line=dict(width=0),
                     fill="tonexty",
                     fillcolor="rgba(29,39,49,0.11)",
-                    legendgroup="fit",
                     name=f"{100 * trend.confidence:g} % confidence band of the line",
-                    hoverinfo="skip",
+                    **band_edge,
                 )
             )
         name = _trend_name(against, trend, du)

@@ -107,15 +107,22 @@ def test_constant_head_chart(sand):
         np.testing.assert_allclose(line.y, record.k_reference * np.asarray(line.x) * scale)
 
 
-def test_the_datum_fit_keeps_the_head_axis_on_the_readings_and_names_h_infinity(clay):
-    # QF-04 of the invented clay, every reading, decay to a fitted datum: the readings lie
-    # between about 1.6 and 3 m and the fitted datum near 1 m (the sample's results)
+@pytest.fixture(scope="module")
+def datum_fit(clay):
+    """QF-04 of the invented clay, every reading, reduced by the decay to a fitted datum."""
     series, _ = clay
     state = specimen_state(series.specimens).set_index("specimen", drop=False)
     readings = series.falling_head[series.falling_head["specimen"] == "QF-04"]
     result = falling_head_analysis(
         readings, state.loc["QF-04"], window=(0, len(readings)), fit="datum"
     )
+    return readings, result
+
+
+def test_the_datum_fit_keeps_the_head_axis_on_the_readings_and_names_h_infinity(datum_fit):
+    # the readings lie between about 1.6 and 3 m and the fitted datum near 1 m (the sample's
+    # results)
+    readings, result = datum_fit
     assert result.asymptote > 0.5
     figure = specimen_charts.falling_head_figure(readings, result)
     low, high = figure.layout.yaxis.range  # log10 of metres
@@ -129,13 +136,8 @@ def test_the_datum_fit_keeps_the_head_axis_on_the_readings_and_names_h_infinity(
     assert all(a.yref != "y" for a in figure.layout.annotations)
 
 
-def test_a_datum_far_below_the_readings_is_named_not_drawn(clay):
-    series, _ = clay
-    state = specimen_state(series.specimens).set_index("specimen", drop=False)
-    readings = series.falling_head[series.falling_head["specimen"] == "QF-04"]
-    result = falling_head_analysis(
-        readings, state.loc["QF-04"], window=(0, len(readings)), fit="datum"
-    )
+def test_a_datum_far_below_the_readings_is_named_not_drawn(datum_fit):
+    readings, result = datum_fit
     far = SimpleNamespace(**{**vars_of(result), "asymptote": 0.01})
     figure = specimen_charts.falling_head_figure(readings, far)
     low, _ = figure.layout.yaxis.range
@@ -150,11 +152,8 @@ def vars_of(result) -> dict:
     return {name: getattr(result, name) for name in names}
 
 
-def test_every_point_names_its_specimen_on_hover(clay, sand):
-    series, _ = clay
-    state = specimen_state(series.specimens).set_index("specimen", drop=False)
-    readings = series.falling_head[series.falling_head["specimen"] == "QF-02"]
-    record = falling_head_analysis(readings, state.loc["QF-02"], None, (5, 30))
-    figure = specimen_charts.falling_head_figure(readings, record)
+def test_every_point_names_its_specimen_on_hover(datum_fit):
+    readings, result = datum_fit
+    figure = specimen_charts.falling_head_figure(readings, result)
     points = [t for t in figure.data if t.mode == "markers"]
-    assert points and all("<b>QF-02</b>" in t.hovertemplate for t in points)
+    assert points and all("<b>QF-04</b>" in t.hovertemplate for t in points)
