@@ -51,13 +51,18 @@ def test_falling_head_chart(clay):
     assert "cm/s" in figure.layout.title.text
 
 
-def test_falling_head_chart_draws_the_log_linear_fit(clay):
+def whole_record(clay, specimen: str, fit: str):
+    """One specimen of the invented clay, every reading, reduced by `fit`."""
     series, _ = clay
     state = specimen_state(series.specimens).set_index("specimen", drop=False)
-    readings = series.falling_head[series.falling_head["specimen"] == "QF-03"]
-    result = falling_head_analysis(
-        readings, state.loc["QF-03"], window=(0, len(readings)), fit="log_linear"
+    readings = series.falling_head[series.falling_head["specimen"] == specimen]
+    return readings, falling_head_analysis(
+        readings, state.loc[specimen], window=(0, len(readings)), fit=fit
     )
+
+
+def test_falling_head_chart_draws_the_log_linear_fit(clay):
+    readings, result = whole_record(clay, "QF-03", "log_linear")
     figure = specimen_charts.falling_head_figure(readings, result)
     line = next(t for t in figure.data if t.mode == "lines")
     np.testing.assert_allclose(line.y, np.exp(result.line.predict(result.reference_time)))
@@ -110,13 +115,7 @@ def test_constant_head_chart(sand):
 @pytest.fixture(scope="module")
 def datum_fit(clay):
     """QF-04 of the invented clay, every reading, reduced by the decay to a fitted datum."""
-    series, _ = clay
-    state = specimen_state(series.specimens).set_index("specimen", drop=False)
-    readings = series.falling_head[series.falling_head["specimen"] == "QF-04"]
-    result = falling_head_analysis(
-        readings, state.loc["QF-04"], window=(0, len(readings)), fit="datum"
-    )
-    return readings, result
+    return whole_record(clay, "QF-04", "datum")
 
 
 def test_the_datum_fit_keeps_the_head_axis_on_the_readings_and_names_h_infinity(datum_fit):
