@@ -128,7 +128,7 @@ def conductivity_trend_figure(
             )
         name = _trend_name(against, trend, du)
         if weak:
-            name += f": a weak fit (r² below {WEAK_FIT_R_SQUARED:g}), drawn faint, no band"
+            name += f"<br>weak fit (r² below {WEAK_FIT_R_SQUARED:g}): drawn faint, no band"
         figure.add_trace(
             go.Scatter(
                 x=grid * scale,

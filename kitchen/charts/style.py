@@ -235,11 +235,7 @@ def add_caption(figure: go.Figure, lines, width: int = 160) -> go.Figure:
     )
     bottom = out.layout.margin.b if out.layout.margin.b is not None else 70
     if legend_below:
-        shown = [t for t in out.data if t.showlegend is not False and t.name]
-        titles = {t.legendgroup for t in shown if t.legendgrouptitle.text}
-        longest = max([len(_plain_text(t.name)) for t in shown] + [10])
-        room = int(LEGEND_CHARACTER_WIDTH * longest) + 60
-        needed = LEGEND_ROW_HEIGHT * (len(shown) + len(titles)) + 6 * len(titles) + 40
+        room, needed = legend_room(out)
         right = (out.layout.margin.r if out.layout.margin.r is not None else 20) + room
         bottom = 60
         top = out.layout.margin.t if out.layout.margin.t is not None else 80
@@ -254,6 +250,19 @@ def add_caption(figure: go.Figure, lines, width: int = 160) -> go.Figure:
     out.add_annotation(y=0.0, yanchor="top", yshift=-(bottom - 8), **text)
     out.update_layout(margin=dict(b=bottom + extra), height=height + extra)
     return out
+
+
+def legend_room(figure: go.Figure) -> tuple[int, int]:
+    """The width and height a legend of one column needs beside the plot, estimated from its
+    entries: the longest line of a name at :data:`LEGEND_CHARACTER_WIDTH`, and a row of
+    :data:`LEGEND_ROW_HEIGHT` an entry, a group title or an extra line of a name. [px]"""
+    shown = [t for t in figure.data if t.showlegend is not False and t.name]
+    titles = {t.legendgroup for t in shown if t.legendgrouptitle.text}
+    lines = [_plain_text(part) for t in shown for part in str(t.name).split("<br>")]
+    longest = max([len(line) for line in lines] + [10])
+    width = int(LEGEND_CHARACTER_WIDTH * longest) + 60
+    height = LEGEND_ROW_HEIGHT * (len(lines) + len(titles)) + 6 * len(titles) + 40
+    return width, height
 
 
 def _plain_text(text: str) -> str:
@@ -284,12 +293,15 @@ def label_specimens(figure: go.Figure) -> go.Figure:
     marker trace whose ``meta`` names its verdict (:func:`specimen_trace_specs`) and whose
     ``text`` holds the ids. A label is written to the right of its marker when no other
     marker of the same panel lies within the label's box (its length at
-    :data:`LABEL_FONT_SIZE`, one line high) on either side; crowded points stay unlabelled
-    (their id is in the hover text of the HTML chart). Common practice, no source.
+    :data:`LABEL_FONT_SIZE`, one line high) on either side, and to the left where it would
+    run past the plot's right edge; crowded points stay unlabelled (their id is in the
+    hover text of the HTML chart). Common practice, no source.
     """
     out = go.Figure(figure)
     layout = out.layout
     width = (layout.width or WIDTH) - (layout.margin.l or 80) - (layout.margin.r or 20)
+    if layout.showlegend is not False and (layout.legend.y is None or layout.legend.y >= 0):
+        width -= legend_room(out)[0]  # a legend beside the plot takes its room from it
     height = (layout.height or HEIGHT) - (layout.margin.t or 80) - (layout.margin.b or 70)
     panels: dict[tuple[str, str], list] = {}
     for trace in out.data:
@@ -314,7 +326,7 @@ def label_specimens(figure: go.Figure) -> go.Figure:
         start = 0
         for trace in traces:
             count = len(trace.text)
-            labels = []
+            labels, sides = [], []
             for i in range(start, start + count):
                 long = 0.62 * LABEL_FONT_SIZE * len(_plain_text(names[i])) + 10
                 dx, dy = px - px[i], np.abs(py - py[i])
@@ -322,11 +334,13 @@ def label_specimens(figure: go.Figure) -> go.Figure:
                 near[i] = False
                 fits = bool(np.isfinite(px[i]) and np.isfinite(py[i])) and not near.any()
                 labels.append(names[i] if fits else "")
+                # a label that would run past the right edge of the plot goes on the left
+                sides.append("middle left" if px[i] + long > width else "middle right")
             start += count
             trace.update(
                 mode="markers+text",
                 text=labels,
-                textposition="middle right",
+                textposition=sides,
                 textfont=dict(size=LABEL_FONT_SIZE, color=MUTED),
             )
     return out
