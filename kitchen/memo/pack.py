@@ -297,7 +297,7 @@ def export_memo_pack(
     )
     charts, skipped = memo_charts(workspace, analysis, ku.unit, du.unit)
     tables = {
-        "specimens": specimens_table(analysis),
+        "specimens": specimens_table(analysis, ku.unit, du.unit),
         "tests": workspace.results_table(),
         "fits": fits_table(analysis),
         "checks": checks_table(results, analysis, skipped),
