@@ -29,7 +29,6 @@ from __future__ import annotations
 import argparse
 import contextlib
 import io
-import re
 import sys
 import warnings
 from pathlib import Path
@@ -560,14 +559,12 @@ def _field_check(arguments) -> int:
     return 0
 
 
-_CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f\u200e\u200f\u202a-\u202e\u2066-\u2069]")
-"""Characters a terminal acts on rather than shows (C0 and C1 controls but tab and line
-feed; the bidirectional overrides), escaped before anything is printed."""
-
-
 def shown(text: str) -> str:
-    """`text` with every control character written as an escape (``\x1b``, ``\u202e``)."""
-    return _CONTROL.sub(lambda m: m.group().encode("unicode_escape").decode("ascii"), text)
+    """`text` as printed: each control character as an escape (:func:`kitchen.io.printable`),
+    line feeds and tabs kept."""
+    from kitchen.io import printable
+
+    return printable(text)
 
 
 def main(argv: list[str] | None = None) -> int:

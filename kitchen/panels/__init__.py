@@ -8,7 +8,7 @@ set a control's ``value`` and assert on the figure data and the results without 
 - :func:`constant_head_panel` (``03_constant_head``): v against i for one specimen.
 - :func:`series_chart_panel` (``04_series_chart``): the series charts and the memo pack.
 - :func:`revise_panel` (``05_revise``): revise a value, see what moved.
-- :func:`field_checks_panel` (``06_field_checks``): field tests judged against the zone.
+- :func:`field_checks_panel` (``07_field_checks``): field tests judged against the zone.
 
 :func:`workbook_panel` puts a series chooser above any of them (no code to edit): the
 series opened is remembered for the other notebooks, and a sample is worked on in a
