@@ -76,7 +76,10 @@ def off_scale_traces(x, y, bottom: float, top: float) -> list[go.Scatter]:
 
 
 def increments_figure(
-    analysis: FallingHeadAnalysis, settings: Settings, k_unit_name: str = "m/s"
+    analysis: FallingHeadAnalysis,
+    settings: Settings,
+    k_unit_name: str = "m/s",
+    max_points: int | None = None,
 ) -> go.Figure:
     """k between successive readings against time, with the window, k and the steady band.
 
@@ -87,6 +90,9 @@ def increments_figure(
     settings : Settings
         For the reference temperature and the steady-values band (``settings.criteria``).
     k_unit_name : {"m/s", "cm/s"}
+    max_points : int, optional
+        Longest trace (min/max decimation, :func:`kitchen.charts.decimation_indices`);
+        default :data:`kitchen.charts.MAX_TRACE_POINTS`.
 
     Returns
     -------
@@ -116,7 +122,8 @@ def increments_figure(
     time = np.asarray(analysis.increment_time, dtype=float)
     values = np.asarray(analysis.increment_k, dtype=float)
     finite = np.isfinite(values)
-    keep = charts.decimation_indices(np.where(finite, values, np.nan))
+    longest = charts.MAX_TRACE_POINTS if max_points is None else max_points
+    keep = charts.decimation_indices(np.where(finite, values, np.nan), longest)
     figure.add_trace(
         go.Scatter(
             x=time[keep] / divisor,
@@ -132,7 +139,7 @@ def increments_figure(
     )
     judged_time = np.asarray(analysis.value_time, dtype=float)
     judged = np.asarray(analysis.value_k, dtype=float)
-    keep = charts.decimation_indices(judged)
+    keep = charts.decimation_indices(judged, longest)
     step = analysis.value_step
     figure.add_trace(
         go.Scatter(
