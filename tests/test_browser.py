@@ -538,3 +538,83 @@ def test_the_series_chosen_in_one_notebook_opens_in_the_next(lab_page, lab):
     chosen = json.loads((working / "chosen_series.json").read_text())["series"]
     assert Path(chosen) == (working / "clay_liner").resolve()
     assert sorted(p.name for p in samples.rglob("*")) == before
+
+
+# A record of 10^6 readings, made by the benchmark's generator, in a notebook of its own
+_LOGGER_NOTEBOOK = {
+    "cells": [
+        {
+            "cell_type": "code",
+            "execution_count": None,
+            "id": "logger-00",
+            "metadata": {},
+            "outputs": [],
+            "source": [
+                "import sys\n",
+                f"sys.path.insert(0, {str(ROOT / 'tests' / 'benchmarks')!r})\n",
+                "from pathlib import Path\n",
+                "import logger_records\n",
+                "folder = logger_records.write_record_series(\n",
+                "    Path('logger_record'), logger_records.logger_record(1_000_000))",
+            ],
+        },
+        {
+            "cell_type": "code",
+            "execution_count": None,
+            "id": "logger-01",
+            "metadata": {},
+            "outputs": [],
+            "source": [
+                "from kitchen.panels import falling_head_panel\n",
+                "panel = falling_head_panel(folder)\n",
+                "panel.widget",
+            ],
+        },
+    ],
+    "metadata": {
+        "kernelspec": {"display_name": "Python 3", "language": "python", "name": "python3"}
+    },
+    "nbformat": 4,
+    "nbformat_minor": 5,
+}
+
+_WATCH_REDRAW = """() => {
+    // the time of each redraw of the head chart (the first plotly figure of the panel)
+    const chart = document.querySelector('.kitchen-falling-head .js-plotly-plot')
+        || document.querySelector('.js-plotly-plot');
+    window.kitchenRedraws = [];
+    chart.on('plotly_afterplot', () => window.kitchenRedraws.push(performance.now()));
+    return [...chart.querySelectorAll('.scatterlayer .trace')].map(
+        trace => trace.querySelectorAll('.point').length);
+}"""
+
+
+def test_slider_on_a_record_of_a_million_readings(notebook, lab):
+    # Printed, not asserted: the time from a slider step (a key press, which the slider
+    # takes as a release) to the head chart redrawn with the new window.
+    (lab["root"] / "notebooks" / "logger_record.ipynb").write_text(json.dumps(_LOGGER_NOTEBOOK))
+    page = notebook("logger_record.ipynb")
+    _plotly_drawn(page, 2)
+    points = page.evaluate(_WATCH_REDRAW)
+    assert points and max(points) <= 2 * 980  # two points a pixel column, at most
+    label = page.locator(".kitchen-falling-head .widget-html-content", has_text="Readings").first
+    handle = page.locator(".noUi-handle-lower").first
+    handle.focus()
+    times = []
+    for _ in range(5):
+        before, redraws = label.inner_text(), page.evaluate("() => window.kitchenRedraws.length")
+        pressed = page.evaluate("() => performance.now()")
+        page.keyboard.press("ArrowRight")  # one reading later: the window label changes
+        page.wait_for_function(
+            "([count]) => window.kitchenRedraws.length > count", arg=[redraws], timeout=90_000
+        )
+        page.wait_for_timeout(500)  # a move may redraw twice (data, then axes): take the last
+        assert label.inner_text() != before
+        times.append(page.evaluate("() => window.kitchenRedraws.at(-1)") - pressed)
+    times.sort()
+    print(
+        f"\nslider step on 10^6 readings, key press to the head chart redrawn: median "
+        f"{times[len(times) // 2]:.0f} ms (all: {', '.join(f'{t:.0f}' for t in times)} ms); "
+        f"points a trace {points}"
+    )
+    _screenshot(page, "02_logger_record_moved")

@@ -16,15 +16,20 @@ Modules:
 - :mod:`.compaction`: the compaction plane above log k against molding water content.
 - :mod:`.conductivity_trend`: log k against void ratio, dry density or w − w_opt.
 - :mod:`.specimen`: one specimen's charts: the falling-head record, the constant-head test.
+- :mod:`.field_tests`: the field tests over the zone, and their distance from it by date.
 
 The public face, which other subpackages import from :mod:`kitchen.charts` and never from
 its modules: :func:`compaction_conductivity_figure`, :func:`compaction_conductivity_spec`,
 :func:`conductivity_trend_figure`, :func:`falling_head_figure`, :func:`falling_head_spec`
-and :func:`constant_head_figure` (the figures); :func:`memo_template`,
-:func:`decimation_indices`, :func:`add_caption`, :data:`MAX_TRACE_POINTS`, :data:`WIDTH`,
-:data:`HEIGHT`, :data:`FONT`, :data:`INK`, :data:`MUTED`, :data:`GRID`, :data:`ZONE`,
+and :func:`constant_head_figure` (the figures); :func:`field_plane_figure`,
+:func:`field_distance_figure` and :data:`FIELD_FILLS` (the field check's); :func:`memo_template`,
+:func:`decimation_indices`, :func:`add_caption`, :func:`label_specimens`,
+:data:`MAX_TRACE_POINTS`, :data:`WIDTH`, :data:`HEIGHT`, :data:`FONT`, :data:`INK`,
+:data:`MUTED`, :data:`GRID`, :data:`ZONE`,
 :data:`VERDICT_COLOURS`, :data:`VERDICT_FACE`, :data:`VERDICT_FILL`, :data:`EFFORT_SYMBOLS`,
-:data:`EFFORT_DASHES`, :data:`NO_EFFORT` and :data:`SATURATION_DASHES` (the style).
+:data:`EFFORT_DASHES`, :data:`NO_EFFORT`, :data:`SATURATION_DASHES`, :data:`OPTIMUM_DASH`,
+:data:`DRAWN_ZONE_DASH`, :data:`FITTED_ZONE_DASH`, :data:`CRITERION_DASH` and
+:data:`LINE_CODES` (the style).
 
 References
 ----------
@@ -46,6 +51,9 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "compaction_conductivity_spec": "compaction",
         "conductivity_trend_figure": "conductivity_trend",
         "constant_head_figure": "specimen",
+        "FIELD_FILLS": "field_tests",
+        "field_distance_figure": "field_tests",
+        "field_plane_figure": "field_tests",
         "falling_head_figure": "specimen",
         "falling_head_spec": "specimen",
         "EFFORT_DASHES": "style",
@@ -58,12 +66,18 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "MUTED": "style",
         "NO_EFFORT": "style",
         "SATURATION_DASHES": "style",
+        "OPTIMUM_DASH": "style",
+        "DRAWN_ZONE_DASH": "style",
+        "FITTED_ZONE_DASH": "style",
+        "CRITERION_DASH": "style",
+        "LINE_CODES": "style",
         "VERDICT_COLOURS": "style",
         "VERDICT_FACE": "style",
         "VERDICT_FILL": "style",
         "WIDTH": "style",
         "ZONE": "style",
         "add_caption": "style",
+        "label_specimens": "style",
         "decimation_indices": "style",
         "memo_template": "style",
     },
@@ -71,6 +85,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
 
 __all__ = [
     "add_caption",
+    "label_specimens",
     "compaction_conductivity_figure",
     "compaction_conductivity_spec",
     "conductivity_trend_figure",
@@ -79,6 +94,9 @@ __all__ = [
     "EFFORT_DASHES",
     "EFFORT_SYMBOLS",
     "falling_head_figure",
+    "FIELD_FILLS",
+    "field_distance_figure",
+    "field_plane_figure",
     "falling_head_spec",
     "FONT",
     "GRID",
@@ -89,6 +107,11 @@ __all__ = [
     "MUTED",
     "NO_EFFORT",
     "SATURATION_DASHES",
+    "OPTIMUM_DASH",
+    "DRAWN_ZONE_DASH",
+    "FITTED_ZONE_DASH",
+    "CRITERION_DASH",
+    "LINE_CODES",
     "VERDICT_COLOURS",
     "VERDICT_FACE",
     "VERDICT_FILL",

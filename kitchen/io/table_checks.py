@@ -29,7 +29,9 @@ __all__ = [
     "HEAD_RISE_TOLERANCE",
     "HEAD_RISE_SCATTERS",
     "SPECIMEN_ID_LENGTH",
+    "convert_table",
     "head_rise_tolerance",
+    "report_rows",
 ]
 
 
@@ -47,12 +49,14 @@ _POSITIVE = {
     ),
     "constant_head": ("head_difference", "duration", "volume", "outflow_mass", "flow_length"),
     "falling_head": ("head",),
+    "field_tests": ("dry_density", "wet_density"),
 }
 
 
 _NON_NEGATIVE = {
     "specimens": ("water_content", "mold_mass"),
     "falling_head": ("time", "inflow_volume", "outflow_volume"),
+    "field_tests": ("water_content",),
 }
 
 
@@ -103,6 +107,15 @@ PLAUSIBLE_RANGES: dict[str, dict[str, PlausibleRange]] = {
         "temperature": PlausibleRange(0.0, 60.0, "0 to 60 °C", "a water temperature"),
         "inflow_volume": PlausibleRange(0.0, 0.1, "up to 100 L", "a cumulative volume"),
         "outflow_volume": PlausibleRange(0.0, 0.1, "up to 100 L", "a cumulative volume"),
+    },
+    "field_tests": {
+        "water_content": PlausibleRange(0.0, 1.0, "0 to 100 %", "a compacted soil's water content"),
+        "dry_density": PlausibleRange(
+            800.0, 2600.0, "0.8 to 2.6 Mg/m³", "a compacted soil's dry density"
+        ),
+        "wet_density": PlausibleRange(
+            900.0, 3000.0, "0.9 to 3.0 Mg/m³", "a compacted soil's wet density"
+        ),
     },
 }
 """The values a laboratory permeameter test can hold, by table and column, in SI.
@@ -329,6 +342,7 @@ _INTERNAL_UNITS = {
     "time": "s",
     "temperature": "°C",
     "ratio": "%",
+    "density": "kg/m³",
 }
 
 
@@ -440,8 +454,9 @@ def convert_table(table: RawTable, problems: list[InputProblem]) -> tuple[pd.Dat
             if present:
                 labels = TextCodes.of(table.frame[column])
                 columns[column] = labels.strings()
-                if column == "specimen":
+                if spec.kind == "id":
                     ids = labels
+                if column == "specimen":
                     _check_specimen_ids(table, labels, problems)
                 if spec.required:
                     report_rows(problems, table, labels.codes < 0, column, "value missing")

@@ -22,10 +22,14 @@ Modules, in the order a pack is made:
 - :mod:`.pages`: the report page and one page per chart, built as escaped text.
 - :mod:`.manifest`: ``manifest.csv``, written last; the pack built beside its folder and
   swapped in whole (:class:`StagedPack`); checking a pack received.
+- :mod:`.documents`: the memo and the field-check report as ``.docx`` (python-docx).
 - :mod:`.pack`: the export of the whole pack in one call.
+- :mod:`.field_report`: the field-check report (field tests judged against the zone), with
+  the same provenance, manifest and cautions.
 
 The public face, which other subpackages import from :mod:`kitchen.memo` and never from its
-modules: :func:`export_memo_pack` (:class:`MemoPack`) and :data:`CHART_SCRIPT`;
+modules: :func:`export_memo_pack` (:class:`MemoPack`), :data:`CHART_SCRIPT` and
+:data:`PACK_SPECIMEN_LIMIT`;
 :func:`memo_charts`; :func:`start_image_export`, :func:`figure_image`,
 :class:`ImageExportUnavailable`, :data:`PNG_SCALE` and :data:`FIRST_IMAGE_TIMEOUT`;
 :func:`specimens_table`, :func:`fits_table`, :func:`checks_table`, :func:`revisions_table`,
@@ -33,11 +37,14 @@ modules: :func:`export_memo_pack` (:class:`MemoPack`) and :data:`CHART_SCRIPT`;
 :data:`KEPT_TEST_COLUMNS`;
 :func:`workbook_bytes`, :func:`setting_texts`, :data:`SETTING_UNITS`; :func:`memo_provenance`,
 :class:`Provenance`, :class:`InputFile` and :func:`file_sha256`; :func:`report_page`,
-:func:`chart_page`, :data:`REDUCTION_METHODS` and :data:`VERDICT_MARKS`; :func:`table_markup`
+:func:`chart_page`, :func:`provenance_markup`, :data:`REDUCTION_METHODS` and
+:data:`VERDICT_MARKS`; :func:`table_markup`
 (the notebook panels build their tables with it too);
-:class:`StagedPack`, :class:`PackFolderError`, :func:`interrupted_exports`,
+:class:`StagedPack`, :class:`PackFolderError`, :data:`PACK_MARK`, :func:`interrupted_exports`,
 :func:`manifest_bytes`, :func:`read_manifest`, :func:`verify_pack`, :data:`MANIFEST` and
-:data:`MANIFEST_COLUMNS`.
+:data:`MANIFEST_COLUMNS`; :func:`document_bytes` and :func:`memo_document` (the ``.docx``);
+:func:`export_field_check` (:class:`FieldReport`), :func:`field_tests_table` and
+:func:`lifts_table` (the field check).
 
 The memo rests on no standard of its own: the methods and sources the report page lists
 (:data:`REDUCTION_METHODS`) are those of :mod:`kitchen.reduction` and
@@ -50,6 +57,12 @@ __getattr__, __dir__ = _lazy.lazy_face(
     __name__,
     {
         "memo_charts": "figures",
+        "document_bytes": "documents",
+        "memo_document": "documents",
+        "FieldReport": "field_report",
+        "export_field_check": "field_report",
+        "field_tests_table": "field_report",
+        "lifts_table": "field_report",
         "FIRST_IMAGE_TIMEOUT": "images",
         "PNG_SCALE": "images",
         "ImageExportUnavailable": "images",
@@ -57,6 +70,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "start_image_export": "images",
         "MANIFEST": "manifest",
         "MANIFEST_COLUMNS": "manifest",
+        "PACK_MARK": "manifest",
         "PackFolderError": "manifest",
         "StagedPack": "manifest",
         "interrupted_exports": "manifest",
@@ -65,11 +79,13 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "verify_pack": "manifest",
         "table_markup": "markup",
         "CHART_SCRIPT": "pack",
+        "PACK_SPECIMEN_LIMIT": "pack",
         "MemoPack": "pack",
         "export_memo_pack": "pack",
         "REDUCTION_METHODS": "pages",
         "VERDICT_MARKS": "pages",
         "chart_page": "pages",
+        "provenance_markup": "pages",
         "report_page": "pages",
         "InputFile": "provenance",
         "Provenance": "provenance",
@@ -90,6 +106,13 @@ __getattr__, __dir__ = _lazy.lazy_face(
 )
 
 __all__ = [
+    "document_bytes",
+    "export_field_check",
+    "FieldReport",
+    "field_tests_table",
+    "lifts_table",
+    "memo_document",
+    "provenance_markup",
     "chart_page",
     "CHART_SCRIPT",
     "checks_table",
@@ -110,6 +133,8 @@ __all__ = [
     "memo_charts",
     "memo_provenance",
     "MemoPack",
+    "PACK_MARK",
+    "PACK_SPECIMEN_LIMIT",
     "PackFolderError",
     "PNG_SCALE",
     "Provenance",

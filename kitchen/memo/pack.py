@@ -12,6 +12,9 @@
   revision of the data and every test kept on record (who, when, what, why), the methods
   and their sources, the criteria applied, the cautions and the provenance, which names
   the version, size and SHA-256 of the plotly.js the pages run;
+- ``report.docx``: the same report as a document a word processor opens (summary, tables,
+  the PNG charts, methods with their sources, cautions, provenance;
+  :mod:`kitchen.memo.documents`);
 - ``manifest.csv``, last: every file above with its size and SHA-256
   (:mod:`kitchen.memo.manifest`), so a reviewer can check the pack received is the pack
   exported, and a pack with a manifest is known to be whole.
@@ -40,7 +43,6 @@ The charts are built in :mod:`kitchen.memo.figures`, their static images made in
 
 from __future__ import annotations
 
-import posixpath
 import time
 from collections.abc import Callable
 from dataclasses import asdict, dataclass, is_dataclass
@@ -48,7 +50,7 @@ from datetime import UTC, datetime
 from pathlib import Path
 
 from kitchen import display_units
-from kitchen.analysis import SeriesAnalysis
+from kitchen.analysis import ANALYSIS_METHODS, SeriesAnalysis
 from kitchen.cautions import CAUTIONS
 from kitchen.io import spreadsheet_safe
 from kitchen.revisions import kept_log_sha256, standing_choices
@@ -56,13 +58,15 @@ from kitchen.revisions import window_log_sha256 as window_log_digest
 from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace
 
+from ._export import PackWriter, figure_html, write_chart_files
+from .documents import memo_document
 from .figures import memo_charts
 from .images import FIRST_IMAGE_TIMEOUT as FIRST_IMAGE_TIMEOUT
 from .images import PNG_SCALE as PNG_SCALE
-from .images import image_result, request_image, start_image_export
-from .manifest import PackFolderError, StagedPack
+from .images import start_image_export
+from .manifest import StagedPack
 from .markup import ChartScript
-from .pages import chart_page, report_page
+from .pages import REDUCTION_METHODS, report_page
 from .provenance import Provenance, memo_provenance
 from .tables import (
     checks_table,
@@ -73,7 +77,13 @@ from .tables import (
 )
 from .workbook import notes_sheet, setting_texts, workbook_bytes
 
-__all__ = ["CHART_SCRIPT", "MemoPack", "export_memo_pack"]
+__all__ = ["CHART_SCRIPT", "PACK_SPECIMEN_LIMIT", "MemoPack", "export_memo_pack"]
+
+PACK_SPECIMEN_LIMIT = 1000
+"""The most specimens one memo pack holds: a chart page (and its images) per specimen and
+one report a reviewer reads through. A larger series is refused before any work, with
+this number, rather than reduced for minutes first (10⁴ specimens took some five minutes
+without images, two of them before the first file); split it by batch or effort."""
 
 CHART_SCRIPT = "charts/plotly.min.js"
 """Where a pack keeps plotly.js, ``/``-separated from the pack's folder; pages load it by a
@@ -163,16 +173,6 @@ def _windows_text(windows: dict | None, choices) -> str:
     return "chosen for " + "; ".join(parts) + "; proposed by the tool for the others"
 
 
-def _figure_html(figure, name: str) -> str:
-    """The figure as an HTML fragment without plotly.js (the page's head loads it)."""
-    return figure.to_html(
-        full_html=False,
-        include_plotlyjs=False,
-        div_id=f"chart-{name}",
-        config={"displaylogo": False, "responsive": False},
-    )
-
-
 def export_memo_pack(
     workspace: Workspace,
     out: str | Path,
@@ -227,7 +227,8 @@ def export_memo_pack(
     ImageExportUnavailable
         With `images`, when no Chromium is found (before any file is written).
     ValueError
-        When the criterion or a unit is not understood.
+        When the criterion or a unit is not understood, or the series has more than
+        :data:`PACK_SPECIMEN_LIMIT` specimens (before any work is done).
     PackFolderError
         When `out` is the series' folder, inside it, or holds anything but a whole pack
         the tool wrote (before any file is written).
@@ -236,8 +237,6 @@ def export_memo_pack(
         is then left as it was.
     """
     from plotly.offline import get_plotlyjs, get_plotlyjs_version
-
-    from kitchen.charts import add_caption
 
     started, clock = datetime.now(UTC), time.perf_counter()
     settings, series = workspace.settings, workspace.series
@@ -248,8 +247,15 @@ def export_memo_pack(
     if images:
         start_image_export()
     out = Path(out)
-    _refuse_inputs_as_output(out, series.source)
-    staged = StagedPack(out)  # refuses a folder holding what the tool did not write
+    count = len(workspace.specimen_ids())
+    if count > PACK_SPECIMEN_LIMIT:
+        raise ValueError(
+            f"{series.source}: {count} specimens, more than the {PACK_SPECIMEN_LIMIT} one memo "
+            "pack holds (a chart page per specimen, one report to read through); split the "
+            "series (by batch or compaction effort) and report each part. Nothing was written"
+        )
+    # refuses the series' folder, and a folder holding what the tool did not write
+    staged = StagedPack(out, inputs=(series.source,))
     results = workspace.results()
     given = criterion
     _, source = workspace.criterion_in_force(given)
@@ -291,7 +297,7 @@ def export_memo_pack(
     )
     charts, skipped = memo_charts(workspace, analysis, ku.unit, du.unit)
     tables = {
-        "specimens": specimens_table(analysis),
+        "specimens": specimens_table(analysis, ku.unit, du.unit),
         "tests": workspace.results_table(),
         "fits": fits_table(analysis),
         "checks": checks_table(results, analysis, skipped),
@@ -306,14 +312,8 @@ def export_memo_pack(
     if script.path is not None:
         steps.append(script.path)
     steps += [f"charts/{name}.{ext}" for name, _, _ in charts for ext in formats]
-    steps.append("report.html")
-    written: list[Path] = []
-
-    def write(relative: str, kind: str, data: Callable[[], bytes]) -> None:
-        if progress is not None:
-            progress(len(written) + 1, len(steps), f"{kind} {relative}")
-        written.append(staged.write(relative, data()))
-
+    steps += ["report.html", "report.docx"]
+    write = PackWriter(staged, steps, progress)
     with staged:
         write(
             "results.csv",
@@ -325,26 +325,8 @@ def export_memo_pack(
         if script.path is not None:  # before any page that loads it
             write(script.path, "script", lambda: script.content)
         caption = _caption(provenance, criterion_text)
-        requested = {}
-        if images:  # Chromium draws them in turn while the pages below are written
-            for name, _, figure in charts:
-                captioned = add_caption(figure, caption)
-                for ext in ("png", "svg"):
-                    requested[name, ext] = request_image(captioned, ext)
-        for name, title, figure in charts:
-            page = f"charts/{name}.html"
-            write(
-                page,
-                "chart",
-                lambda f=figure, n=name, t=title, p=page: chart_page(
-                    t, _figure_html(f, n), CAUTIONS, provenance, script, posixpath.dirname(p)
-                ).encode("utf-8"),
-            )
-            for ext in ("png", "svg") if images else ():
-                write(
-                    f"charts/{name}.{ext}", "chart", lambda r=requested[name, ext]: image_result(r)
-                )
-        fragments = [(name, title, _figure_html(figure, name)) for name, title, figure in charts]
+        pngs = write_chart_files(write, charts, CAUTIONS, provenance, script, caption, images)
+        fragments = [(name, title, figure_html(figure, name)) for name, title, figure in charts]
         write(
             "report.html",
             "report",
@@ -362,17 +344,26 @@ def export_memo_pack(
                 source,
             ).encode("utf-8"),
         )
+        write(
+            "report.docx",
+            "document",
+            lambda: memo_document(
+                analysis,
+                tables,
+                pngs,
+                provenance,
+                CAUTIONS,
+                criterion_text,
+                REDUCTION_METHODS + ANALYSIS_METHODS,
+            ),
+        )
         manifest, removed = staged.finish()
     return MemoPack(
-        out, tuple(written), analysis, provenance, time.perf_counter() - clock, manifest, removed
+        out,
+        tuple(write.written),
+        analysis,
+        provenance,
+        time.perf_counter() - clock,
+        manifest,
+        removed,
     )
-
-
-def _refuse_inputs_as_output(out: Path, source: Path) -> None:
-    """Refuse a pack folder that is the series' own folder or workbook, or inside it."""
-    target, series = out.resolve(), Path(source).resolve()
-    if target == series or (series.is_dir() and series in target.parents):
-        raise PackFolderError(
-            f"{out}: is the series' own folder or inside it ({source}); a pack never goes "
-            "beside the raw data: give another folder"
-        )

@@ -39,7 +39,7 @@ from .markup import STYLE as STYLE
 from .markup import ChartScript, cautions_markup, escape, number_text, page_markup, table_markup
 from .provenance import Provenance
 
-__all__ = ["REDUCTION_METHODS", "VERDICT_MARKS", "chart_page", "report_page"]
+__all__ = ["REDUCTION_METHODS", "VERDICT_MARKS", "chart_page", "provenance_markup", "report_page"]
 
 PERCENT = column_format("[%]")
 """Water content and saturation: to 0.1 % (the one format, as in the panels and the workbook)."""
@@ -101,7 +101,9 @@ def _script_row(script: ChartScript) -> tuple[str, str]:
     )
 
 
-def _provenance(provenance: Provenance, script: ChartScript) -> str:
+def provenance_markup(provenance: Provenance, script: ChartScript) -> str:
+    """The provenance as the report pages show it: tool, time, series, every setting, the
+    revision log, the environment, plotly.js, and each input file with its SHA-256."""
     rows = [
         ("tool", f"kitchen {escape(provenance.tool_version)}"),
         ("exported", escape(provenance.created)),
@@ -275,6 +277,15 @@ def _summary(analysis: SeriesAnalysis, ku: DisplayUnit, criterion_text: str) -> 
     return "".join(parts)
 
 
+def _fit_number(value, unit: str) -> str:
+    """A number of the fits table: a conductivity in the one format of k (``1.28×10⁻⁹``),
+    a density or a percentage in theirs, anything else to four significant figures."""
+    style = column_format(f"value [{unit}]")
+    if style is None or pd.isna(value):
+        return number_text(value, 4)
+    return style.text(value, html=True)
+
+
 def _fits(tables) -> str:
     fits = tables["fits"]
     rows = [
@@ -282,9 +293,7 @@ def _fits(tables) -> str:
             escape(r["fit"]),
             escape(r["subject"]),
             escape(r["quantity"]),
-            number_text(r["value"], 4),
-            number_text(r["low"], 4),
-            number_text(r["high"], 4),
+            *(_fit_number(r[c], r["unit"]) for c in ("value", "low", "high")),
             escape(r["unit"]),
             "–" if pd.isna(r["n"]) else str(int(r["n"])),
             escape(r["note"]),
@@ -500,7 +509,7 @@ def report_page(
             "<h2>Cautions</h2>",
             cautions_markup(cautions),
             "<h2>Provenance</h2>",
-            _provenance(provenance, script),
+            provenance_markup(provenance, script),
             check,
         ]
     )

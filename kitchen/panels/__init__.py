@@ -8,15 +8,23 @@ set a control's ``value`` and assert on the figure data and the results without 
 - :func:`constant_head_panel` (``03_constant_head``): v against i for one specimen.
 - :func:`series_chart_panel` (``04_series_chart``): the series charts and the memo pack.
 - :func:`revise_panel` (``05_revise``): revise a value, see what moved.
+- :func:`field_checks_panel` (``07_field_checks``): field tests judged against the zone.
 
 :func:`workbook_panel` puts a series chooser above any of them (no code to edit): the
 series opened is remembered for the other notebooks, and a sample is worked on in a
 working copy (:func:`working_copy`), never where it lies.
 :func:`scratch_copy` copies a series to a scratch folder, to try revisions on.
 The panels need the ``lab`` extra (ipywidgets, plotly, anywidget); the core does not.
+Importing the panels defers the URI grammar jsonschema would build when the first live
+figure of a kernel is drawn (:mod:`._deferred_grammar`): about 2 s of a fresh kernel's
+first panel.
 """
 
 from kitchen import _lazy
+
+from . import _deferred_grammar
+
+_deferred_grammar.defer_iri_grammar()
 
 __getattr__, __dir__ = _lazy.lazy_face(
     __name__,
@@ -25,6 +33,8 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "ConstantHeadPanel": "constant_head",
         "constant_head_panel": "constant_head",
         "FallingHeadPanel": "falling_head",
+        "FieldChecksPanel": "field_checks",
+        "field_checks_panel": "field_checks",
         "falling_head_panel": "falling_head",
         "SeriesPanel": "open_series",
         "series_panel": "open_series",
@@ -47,6 +57,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
 __all__ = [
     "ConstantHeadPanel",
     "FallingHeadPanel",
+    "FieldChecksPanel",
     "RevisePanel",
     "SeriesChartPanel",
     "SeriesChooser",
@@ -54,6 +65,7 @@ __all__ = [
     "WorkbookPanel",
     "constant_head_panel",
     "falling_head_panel",
+    "field_checks_panel",
     "forget_series",
     "remember_series",
     "remembered_series",

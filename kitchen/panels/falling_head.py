@@ -39,7 +39,18 @@ from .common import MessageArea, format_conductivity, format_number, open_worksp
 from .figures import format_elapsed, increments_figure
 from .refresh import refresh_figure
 
-__all__ = ["FIT_LABELS", "FallingHeadPanel", "falling_head_panel", "describe_test_html"]
+__all__ = [
+    "FIT_LABELS",
+    "SCREEN_POINTS",
+    "FallingHeadPanel",
+    "describe_test_html",
+    "falling_head_panel",
+]
+
+SCREEN_POINTS = 2 * charts.WIDTH
+"""Longest trace the panel's charts send to the browser: about two points a pixel column
+of a chart (min/max decimation keeps every peak and trough), so a slider move on a record
+of 10^6 readings redraws a few thousand points, not tens of thousands."""
 
 FIT_LABELS = {
     "log_linear": "ln h against time (datum known)",
@@ -271,10 +282,11 @@ class FallingHeadPanel:
         readings = self.readings()
         label = reference_label(self.settings)
         figure = charts.falling_head_spec(
-            readings, analysis, "m/s", self.settings.reference_temperature
+            readings, analysis, "m/s", self.settings.reference_temperature, SCREEN_POINTS
         )
         refresh_figure(self.figure, figure)
-        refresh_figure(self.increments, increments_figure(analysis, self.settings))
+        increments = increments_figure(analysis, self.settings, max_points=SCREEN_POINTS)
+        refresh_figure(self.increments, increments)
         rows = readings["source_row"].to_numpy()
         first, last = analysis.start, analysis.stop - 1
         how = _window_words(analysis)

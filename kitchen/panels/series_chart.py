@@ -21,7 +21,7 @@ import pandas as pd
 
 from kitchen import charts
 from kitchen.analysis import Criterion, SeriesAnalysis, parse_criterion
-from kitchen.display_units import DENSITY_UNITS, K_UNITS, density_unit
+from kitchen.display_units import DENSITY_UNITS, K_UNITS, density_unit, restate_conductivities
 from kitchen.io import Series, SeriesError
 from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace
@@ -249,7 +249,9 @@ class SeriesChartPanel:
             )
         self.verdicts.value = line
         self.table.value = html_table(verdict_table(self.analysis, unit, label, density))
-        self.error.show_notes(not_drawn + list(self.analysis.notes))
+        self.error.show_notes(
+            [restate_conductivities(note, unit) for note in not_drawn + list(self.analysis.notes)]
+        )
 
     def write_memo_pack(self, _button=None) -> None:
         """Export the memo pack to ``export_folder`` (the export button calls this)."""
