@@ -106,8 +106,10 @@ class Settings:
                 f"{self.monte_carlo_trials!r}"
             )
         tolerance = self.datum_tolerance
-        if isinstance(tolerance, bool) or not isinstance(tolerance, (int, float)) or not (
-            0.0 <= tolerance < 1.0
+        if (
+            isinstance(tolerance, bool)
+            or not isinstance(tolerance, (int, float))
+            or not (0.0 <= tolerance < 1.0)
         ):
             raise ValueError(
                 f"datum tolerance must be a length from 0 to below 1 m, got {tolerance!r}"
