@@ -116,8 +116,8 @@ def refresh_figure(widget: go.FigureWidget, figure) -> int:
 
     The browser's model follows the changes as messages, and views drawn later from it
     (the panel displayed after this call, a second display) show the figure as it now is.
-    When the traces were replaced (or first set) the whole state is sent as well, so that
-    a model that missed an early message is still right (:func:`_send_state`); otherwise
+    The first time a widget is refreshed the whole state is sent as well, so that a
+    model that missed an early message is still right (:func:`_send_state`); otherwise
     the kernel's copy of the synchronised state, sent to a browser that connects later (a
     page reload with the kernel alive), is brought up to date without sending it.
     """
@@ -165,10 +165,10 @@ def refresh_figure(widget: go.FigureWidget, figure) -> int:
             widget.add_traces(new_traces)
         sent = sum(len(trace) for trace in new_traces) + len(sent_layout)
     setattr(widget, _SHOWN, spec)
-    if same and shown is not None and len(shown["data"]) == len(new_traces):
-        _keep_state(widget)
-    else:
+    if shown is None:
         _send_state(widget)
+    else:
+        _keep_state(widget)
     return sent
 
 
@@ -180,9 +180,9 @@ def _send_state(widget: go.FigureWidget) -> None:
     only what the update messages made of it in the browser. The first messages can reach
     the browser before plotly's widget code there has started listening to them (the
     figure built while the cell runs, its view drawn after): they are then lost, and the
-    view is drawn empty. Sending the state whole after a figure is first drawn, or after
-    its traces were replaced, leaves the browser's model right whatever it caught; later
-    refreshes of the same traces send only what changed (:func:`_keep_state`).
+    view is drawn empty. Sending the state whole after a figure is first drawn leaves the
+    browser's model right whatever it caught; later refreshes send only messages
+    (:func:`_keep_state`), which the views then open follow.
     """
     widget._widget_layout = copy.deepcopy(widget._layout_obj._props)
     widget._widget_data = copy.deepcopy(widget._data)
