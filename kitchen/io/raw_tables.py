@@ -29,9 +29,11 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from .units import UnitError, split_header, to_si
+from .units import UnitError, split_header, time_zone_problem, to_si
 
 __all__ = [
+    "ALTERNATIVE_COLUMNS",
+    "CONDITION_TABLES",
     "SCHEMAS",
     "TEXT_KINDS",
     "TABLE_NAMES",
@@ -43,14 +45,18 @@ __all__ = [
 ]
 
 
-TABLE_NAMES = ("specimens", "constant_head", "falling_head")
+TABLE_NAMES = ("specimens", "constant_head", "falling_head", "flexible_wall", "b_value_checks")
+
+CONDITION_TABLES = ("flexible_wall", "b_value_checks")
+"""Tables of a test's conditions rather than its readings: a series may leave them out, and
+a specimen without a row in ``flexible_wall`` was tested in a rigid-wall cell."""
 
 
 @dataclass(frozen=True)
 class ColumnSpec:
     """What a column holds: its kind of quantity, and whether the table needs it."""
 
-    kind: str  # "id", "label", or a kind of kitchen.io.KINDS
+    kind: str  # "id", "label", "datetime", or a kind of kitchen.io.KINDS
     required: bool = False
 
 
@@ -70,6 +76,18 @@ SCHEMAS: dict[str, dict[str, ColumnSpec]] = {
         "standpipe_area": ColumnSpec("area"),
         "tailwater_standpipe_diameter": ColumnSpec("length"),
         "tailwater_standpipe_area": ColumnSpec("area"),
+        "final_height": ColumnSpec("length"),
+        "final_diameter": ColumnSpec("length"),
+        "final_mass": ColumnSpec("mass"),
+        "final_water_content": ColumnSpec("ratio"),
+        "boring": ColumnSpec("label"),
+        "sample": ColumnSpec("label"),
+        "depth": ColumnSpec("length"),
+        "description": ColumnSpec("label"),
+        "preparation": ColumnSpec("label"),
+        "permeant": ColumnSpec("label"),
+        "flow_direction": ColumnSpec("label"),
+        "deviations": ColumnSpec("label"),
     },
     "constant_head": {
         "specimen": ColumnSpec("id", True),
@@ -87,12 +105,46 @@ SCHEMAS: dict[str, dict[str, ColumnSpec]] = {
         "temperature": ColumnSpec("temperature"),
         "inflow_volume": ColumnSpec("volume"),
         "outflow_volume": ColumnSpec("volume"),
+        "date_time": ColumnSpec("datetime"),
+        "date": ColumnSpec("datetime"),
+        "time_of_day": ColumnSpec("datetime"),
+        "head_pressure": ColumnSpec("pressure"),
+        "headwater_level": ColumnSpec("length"),
+        "tailwater_level": ColumnSpec("length"),
+        "headwater_pressure": ColumnSpec("pressure"),
+        "tailwater_pressure": ColumnSpec("pressure"),
+    },
+    "flexible_wall": {
+        "specimen": ColumnSpec("id", True),
+        "cell_pressure": ColumnSpec("pressure", True),
+        "back_pressure": ColumnSpec("pressure", True),
+        "b_value": ColumnSpec("dimensionless"),
+        "consolidated_height": ColumnSpec("length"),
+        "height_change": ColumnSpec("length"),
+        "consolidated_diameter": ColumnSpec("length"),
+        "volume_change": ColumnSpec("volume"),
+    },
+    "b_value_checks": {
+        "specimen": ColumnSpec("id", True),
+        "back_pressure": ColumnSpec("pressure"),
+        "cell_pressure_increment": ColumnSpec("pressure", True),
+        "pore_pressure_increment": ColumnSpec("pressure", True),
     },
 }
-"""Columns each table may carry, by internal name."""
+"""Columns each table may carry, by internal name.
 
+In ``falling_head`` the elapsed ``time`` may be replaced by date-times (``date_time``, or
+``date`` and ``time_of_day``) and the ``head`` by a pressure or by burette levels; the
+columns that stand in for them are in :data:`ALTERNATIVE_COLUMNS` and turned into ``time``
+and ``head`` by :mod:`kitchen.io.logger_readings`."""
 
-TEXT_KINDS = ("id", "label")
+ALTERNATIVE_COLUMNS = {
+    ("falling_head", "time"): ("date_time", "date"),
+    ("falling_head", "head"): ("head_pressure", "headwater_level", "headwater_pressure"),
+}
+"""A required column, and the columns any one of which stands in for it."""
+
+TEXT_KINDS = ("id", "label", "datetime")
 
 
 @dataclass(frozen=True)
@@ -356,7 +408,12 @@ def _prepare(
             continue
         first_at[internal] = position
         spec = schema[internal]
-        if spec.kind in TEXT_KINDS:
+        if spec.kind == "datetime":
+            zone_problem = time_zone_problem(unit)
+            if zone_problem is not None:
+                problems.append(InputProblem(label, 1, raw_text, zone_problem))
+                continue
+        elif spec.kind in TEXT_KINDS:
             if unit:
                 problems.append(
                     InputProblem(label, 1, raw_text, f"'{internal}' is text and takes no unit")
@@ -386,12 +443,14 @@ def _prepare(
                 problems.append(InputProblem(label, 1, raw_text, str(error)))
                 continue
         rename[raw] = internal
-        units[internal] = unit if spec.kind not in TEXT_KINDS else None
+        units[internal] = unit if spec.kind not in TEXT_KINDS or spec.kind == "datetime" else None
         headers[internal] = raw_text
     for column, spec in schema.items():
         if spec.required and column not in rename.values():
             if column in first_at:
                 continue  # present but refused above; already reported
+            if any(other in first_at for other in ALTERNATIVE_COLUMNS.get((name, column), ())):
+                continue  # stood in for by another column (checked with the values)
             hint = (
                 f" (the header has {_SEPARATOR_WORDS[separator]}: save the file comma-separated)"
                 if separator is not None
@@ -429,6 +488,7 @@ _EXAMPLE_UNITS = {
     "time": "[s], [min], [h]",
     "temperature": "[degC]",
     "ratio": "[%] or [-]",
+    "pressure": "[kPa], [psi]",
 }
 
 
@@ -507,7 +567,11 @@ def _name_empty_tables(tables: dict[str, RawTable]) -> None:
     tables when none of them has a row (one empty readings table beside a full one is a
     method not used)."""
     readings = [tables[name] for name in ("constant_head", "falling_head") if name in tables]
-    empty = [table for table in tables.values() if len(table.frame) == 0]
+    empty = [
+        table
+        for table in tables.values()
+        if len(table.frame) == 0 and table.name not in CONDITION_TABLES
+    ]
     for table in empty:
         complete = all(
             column in table.frame.columns

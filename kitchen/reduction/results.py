@@ -19,6 +19,7 @@ from kitchen.water import viscosity_range_caution
 from .constant_head import constant_head_analysis
 from .constant_head_collections import collection_table
 from .falling_head import falling_head_analysis
+from .flexible_wall import condition_result, permeation_state
 
 __all__ = ["series_results", "results_table", "result_row"]
 
@@ -84,6 +85,7 @@ def series_results(
     settings: Settings | None = None,
     windows: dict | None = None,
     capillary_rises: dict | None = None,
+    stress_limits: tuple = (None, None),
 ) -> pd.DataFrame:
     """Reduce every test in a series.
 
@@ -99,6 +101,9 @@ def series_results(
         one gets the window the tool proposes.
     capillary_rises : dict, optional
         Measured capillary rises in the standpipe, ``{specimen: rise}``. [m]
+    stress_limits : tuple of (float or None, float or None), optional
+        The effective stress of a flexible-wall test the specification asks for, lowest and
+        highest. [Pa]
 
     Returns
     -------
@@ -122,17 +127,38 @@ def series_results(
     windows = windows or {}
     capillary_rises = capillary_rises or {}
     state = specimen_state(series.specimens)
+    permeation = permeation_state(state, series.flexible_wall)
     rows = []
     by_id = state.set_index("specimen", drop=False)
+    permeated = permeation.set_index("specimen", drop=False)
+
+    def conditions(row: dict) -> dict:
+        specimen = row["specimen"]
+        return condition_result(
+            row,
+            permeated.loc[specimen],
+            series.flexible_wall,
+            series.b_value_checks,
+            by_id.loc[specimen].get("flow_direction"),
+            stress_limits,
+            settings.criteria.minimum_b_value,
+        )
+
     if not series.constant_head.empty:
         collections = collection_table(
-            series.constant_head, state, settings.reference_temperature, settings.viscosity
+            series.constant_head, permeation, settings.reference_temperature, settings.viscosity
         )
         for specimen in pd.unique(collections["specimen"]):
-            analysis = constant_head_analysis(collections, by_id.loc[specimen], settings)
+            analysis = constant_head_analysis(collections, permeated.loc[specimen], settings)
             rows.append(
-                result_row(
-                    by_id.loc[specimen], "constant_head", analysis, analysis.gradient_max, settings
+                conditions(
+                    result_row(
+                        by_id.loc[specimen],
+                        "constant_head",
+                        analysis,
+                        analysis.gradient_max,
+                        settings,
+                    )
                 )
             )
     if not series.falling_head.empty:
@@ -140,7 +166,7 @@ def series_results(
             try:
                 analysis = falling_head_analysis(
                     readings,
-                    by_id.loc[specimen],
+                    permeated.loc[specimen],
                     settings,
                     window=windows.get(specimen),
                     capillary_rise=capillary_rises.get(specimen),
@@ -148,8 +174,14 @@ def series_results(
             except ValueError as error:
                 raise ValueError(f"{series.name}, falling-head readings: {error}") from error
             rows.append(
-                result_row(
-                    by_id.loc[specimen], "falling_head", analysis, analysis.gradient_start, settings
+                conditions(
+                    result_row(
+                        by_id.loc[specimen],
+                        "falling_head",
+                        analysis,
+                        analysis.gradient_start,
+                        settings,
+                    )
                 )
             )
     frame = pd.DataFrame(rows)
