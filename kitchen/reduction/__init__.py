@@ -18,6 +18,8 @@ Modules, in the data's order:
 - :mod:`.falling_head`: the falling-head analysis of one specimen in one call.
 - :mod:`.flexible_wall`: a flexible-wall test: the specimen's dimensions after
   consolidation, B = Δu/Δσ3, the effective stresses across it, their criteria.
+- :mod:`.test_record`: the flow through a specimen over its test: pore volumes of flow, k
+  and outflow/inflow against time.
 - :mod:`.results`: the results table, one row per specimen and method (SI, and exported).
 
 The public face, which other subpackages import from :mod:`kitchen.reduction` and never
@@ -32,7 +34,9 @@ from its modules: :func:`collection_table`, :func:`constant_head_conductivity`,
 :func:`results_table` and :func:`result_row`; the flexible-wall test:
 :func:`consolidated_dimensions` (:class:`PermeationDimensions`), :func:`permeation_state`,
 :func:`b_value`, :func:`effective_stresses` (:class:`EffectiveStresses`),
-:func:`saturation_verdict`, :func:`flexible_wall_verdicts` and :func:`condition_result`.
+:func:`saturation_verdict`, :func:`flexible_wall_verdicts` and :func:`condition_result`;
+the flow over a test, in pore volumes: :class:`FlowRecord`, :func:`falling_head_flow`,
+:func:`constant_head_flow`, :func:`spans_conductivity`.
 
 References
 ----------
@@ -81,6 +85,10 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "flexible_wall_verdicts": "flexible_wall",
         "permeation_state": "flexible_wall",
         "saturation_verdict": "flexible_wall",
+        "FlowRecord": "test_record",
+        "constant_head_flow": "test_record",
+        "falling_head_flow": "test_record",
+        "spans_conductivity": "test_record",
         "result_row": "results",
         "results_table": "results",
         "series_results": "results",
@@ -108,6 +116,10 @@ __all__ = [
     "flexible_wall_verdicts",
     "permeation_state",
     "saturation_verdict",
+    "FlowRecord",
+    "constant_head_flow",
+    "falling_head_flow",
+    "spans_conductivity",
     "hydraulic_gradient",
     "incremental_conductivity",
     "jurin_capillary_rise",

@@ -118,7 +118,7 @@ def consolidated_dimensions(
     --------
     >>> d = consolidated_dimensions(0.1, 0.1, height_change=0.002, volume_change=1.0e-5)
     >>> round(d.height, 4), round(d.area * 1e4, 3)
-    (0.098, 79.101)
+    (0.098, 79.122)
     """
     area0 = float(circle_area(diameter))
     volume0 = area0 * height

@@ -40,9 +40,12 @@ from kitchen.reduction import (
     ConstantHeadAnalysis,
     FallingHeadAnalysis,
     FallingHeadRecord,
+    FlowRecord,
     collection_table,
     condition_result,
     constant_head_analysis,
+    constant_head_flow,
+    falling_head_flow,
     permeation_state,
     results_table,
 )
@@ -497,6 +500,32 @@ class Workspace:
             return constant_head_analysis(table, self._state_rows[specimen], settings)
 
         return self._cached(specimen, "constant_head", key, reduce)
+
+    def flow_record(self, specimen: str, table: str = "falling_head") -> FlowRecord:
+        """One test's flow over its course: cumulative inflow and outflow, pore volumes of
+        flow, k and outflow/inflow against time (:mod:`kitchen.reduction.test_record`)."""
+        if table == "falling_head":
+            return falling_head_flow(
+                self.falling_head(specimen),
+                self.falling_head_record(specimen),
+                self._state_rows[specimen],
+            )
+        collections = collection_table(
+            self.readings(specimen, "constant_head"),
+            self._state,
+            self._settings.reference_temperature,
+            self._settings.viscosity,
+        )
+        return constant_head_flow(collections, self._state_rows[specimen])
+
+    def prepared_state(self, specimen: str) -> pd.Series:
+        """A specimen's state as prepared (:func:`kitchen.specimen.specimen_state`)."""
+        return self._prepared_rows[specimen]
+
+    def permeation_state(self, specimen: str) -> pd.Series:
+        """A specimen's state with its dimensions during permeation, its ``cell`` and how
+        the dimensions were got (:func:`kitchen.reduction.permeation_state`)."""
+        return self._state_rows[specimen]
 
     def results(self) -> pd.DataFrame:
         """The results table of the effective series, as :func:`kitchen.reduction.series_results`.
