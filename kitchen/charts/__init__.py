@@ -16,11 +16,13 @@ Modules:
 - :mod:`.compaction`: the compaction plane above log k against molding water content.
 - :mod:`.conductivity_trend`: log k against void ratio, dry density or w − w_opt.
 - :mod:`.specimen`: one specimen's charts: the falling-head record, the constant-head test.
+- :mod:`.test_record`: one test over its course: k against time and pore volumes of flow,
+  outflow/inflow against time.
 
 The public face, which other subpackages import from :mod:`kitchen.charts` and never from
 its modules: :func:`compaction_conductivity_figure`, :func:`compaction_conductivity_spec`,
 :func:`conductivity_trend_figure`, :func:`falling_head_figure`, :func:`falling_head_spec`
-and :func:`constant_head_figure` (the figures); :func:`memo_template`,
+and :func:`constant_head_figure`, :func:`flow_record_figure` (the figures); :func:`memo_template`,
 :func:`decimation_indices`, :func:`add_caption`, :data:`MAX_TRACE_POINTS`, :data:`WIDTH`,
 :data:`HEIGHT`, :data:`FONT`, :data:`INK`, :data:`MUTED`, :data:`GRID`, :data:`ZONE`,
 :data:`VERDICT_COLOURS`, :data:`VERDICT_FACE`, :data:`VERDICT_FILL`, :data:`EFFORT_SYMBOLS`,
@@ -48,6 +50,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "constant_head_figure": "specimen",
         "falling_head_figure": "specimen",
         "falling_head_spec": "specimen",
+        "flow_record_figure": "test_record",
         "EFFORT_DASHES": "style",
         "EFFORT_SYMBOLS": "style",
         "FONT": "style",
@@ -70,6 +73,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
 )
 
 __all__ = [
+    "flow_record_figure",
     "add_caption",
     "compaction_conductivity_figure",
     "compaction_conductivity_spec",

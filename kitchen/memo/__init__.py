@@ -19,6 +19,8 @@ Modules, in the order a pack is made:
 - :mod:`.provenance`: which tool, when, with what settings, from which bytes.
 - :mod:`.markup`: the markup the pages share: style, escaping, tables, the page skeleton.
 - :mod:`.pages`: the report page and one page per chart, built as escaped text.
+- :mod:`.specimen_pages`: one page per test holding every item a test report holds,
+  each stated or marked "not recorded", with the test's record over time.
 - :mod:`.manifest`: ``manifest.csv``, written last; checking a pack received.
 - :mod:`.pack`: the export of the whole pack in one call.
 
@@ -32,7 +34,9 @@ modules: :func:`export_memo_pack` (:class:`MemoPack`) and :data:`CHART_SCRIPT`;
 :func:`workbook_bytes`; :func:`memo_provenance`,
 :class:`Provenance`, :class:`InputFile` and :func:`file_sha256`; :func:`report_page`,
 :func:`chart_page`, :data:`REDUCTION_METHODS` and :data:`VERDICT_MARKS`; :func:`table_markup`
-(the notebook panels build their tables with it too);
+(the notebook panels build their tables with it too); :func:`report_items`
+(:class:`ReportItem`, :data:`NOT_RECORDED`), :func:`report_pages` (:class:`ReportPage`),
+:func:`specimen_page`, :func:`specimen_links` and :func:`page_name`;
 :func:`write_manifest`, :func:`read_manifest`, :func:`verify_pack`, :data:`MANIFEST` and
 :data:`MANIFEST_COLUMNS`.
 
@@ -65,6 +69,14 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "VERDICT_MARKS": "pages",
         "chart_page": "pages",
         "report_page": "pages",
+        "NOT_RECORDED": "specimen_pages",
+        "ReportItem": "specimen_pages",
+        "ReportPage": "specimen_pages",
+        "page_name": "specimen_pages",
+        "report_items": "specimen_pages",
+        "report_pages": "specimen_pages",
+        "specimen_links": "specimen_pages",
+        "specimen_page": "specimen_pages",
         "InputFile": "provenance",
         "Provenance": "provenance",
         "file_sha256": "provenance",
@@ -83,6 +95,14 @@ __getattr__, __dir__ = _lazy.lazy_face(
 
 __all__ = [
     "chart_page",
+    "NOT_RECORDED",
+    "ReportItem",
+    "ReportPage",
+    "page_name",
+    "report_items",
+    "report_pages",
+    "specimen_links",
+    "specimen_page",
     "CHART_SCRIPT",
     "checks_table",
     "export_memo_pack",

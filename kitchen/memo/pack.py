@@ -62,6 +62,7 @@ from .manifest import read_manifest, write_manifest
 from .markup import ChartScript
 from .pages import chart_page, report_page
 from .provenance import Provenance, memo_provenance
+from .specimen_pages import report_pages, specimen_links, specimen_page
 from .tables import (
     checks_table,
     fits_table,
@@ -299,6 +300,8 @@ def export_memo_pack(
     if script.path is not None:
         steps.append(script.path)
     steps += [f"charts/{name}.{ext}" for name, _, _ in charts for ext in formats]
+    pages = report_pages(workspace, results, ku, label)
+    steps += [f"specimens/{page.name}.{ext}" for page in pages for ext in formats]
     steps.append("report.html")
     written: list[Path] = []
 
@@ -332,6 +335,31 @@ def export_memo_pack(
                 write(
                     f"charts/{name}.{ext}", "chart", lambda c=captioned, e=ext: figure_image(c, e)
                 )
+    for page in pages:  # one page per test, with its record over time as images beside it
+        images_of = tuple(f"{page.name}.{ext}" for ext in formats[1:])
+        write(
+            f"specimens/{page.name}.html",
+            "test page",
+            lambda p=page, i=images_of: specimen_page(
+                list(p.items),
+                p.title,
+                _figure_html(p.figure, p.name),
+                i,
+                p.last_values,
+                p.b_checks,
+                CAUTIONS,
+                caption[-1],
+                script.element("specimens"),
+            ).encode("utf-8"),
+        )
+        if images:
+            captioned = add_caption(page.figure, caption)
+            for ext in ("png", "svg"):
+                write(
+                    f"specimens/{page.name}.{ext}",
+                    "test page",
+                    lambda c=captioned, e=ext: figure_image(c, e),
+                )
     fragments = [(name, title, _figure_html(figure, name)) for name, title, figure in charts]
     write(
         "report.html",
@@ -348,6 +376,7 @@ def export_memo_pack(
             criterion_text,
             skipped,
             source,
+            specimen_links([(p.name, p.specimen, p.method) for p in pages]),
         ).encode("utf-8"),
     )
     manifest, removed = write_manifest(out, written, previous)
