@@ -7,7 +7,7 @@ STAMP := $(VENV)/.installed
 ROOT_FLAG := $(if $(filter 0,$(shell id -u)),--allow-root,)
 PORT ?= 8888
 
-.PHONY: lab test lint bench sample clean-venv
+.PHONY: lab test lint bench sample clean-venv git-filter
 
 $(STAMP): pyproject.toml
 	$(PYTHON) -m venv $(VENV)
@@ -15,7 +15,15 @@ $(STAMP): pyproject.toml
 	$(BIN)/python -m pip install --quiet -e '.[lab,test]'
 	touch $(STAMP)
 
-lab: $(STAMP)
+# Git stores the notebooks without their outputs (tools/strip_notebook_outputs.py, named in
+# .gitattributes): a notebook run in JupyterLab then reads as unchanged. Set up once per clone;
+# outside a git checkout there is nothing to set up.
+git-filter:
+	@if git rev-parse --git-dir >/dev/null 2>&1; then \
+	  git config filter.strip-notebook-outputs.clean "python3 tools/strip_notebook_outputs.py"; \
+	fi
+
+lab: $(STAMP) git-filter
 	$(BIN)/jupyter lab $(ROOT_FLAG) --port=$(PORT) --ServerApp.root_dir=notebooks
 
 # pytest exits 5 when it collects no test: that is a failure here, not a pass.
@@ -28,8 +36,8 @@ test: $(STAMP)
 	  exit $$code
 
 lint: $(STAMP)
-	$(BIN)/ruff check kitchen tests sample_data
-	$(BIN)/ruff format --check kitchen tests sample_data
+	$(BIN)/ruff check kitchen tests sample_data tools notebooks/conftest.py
+	$(BIN)/ruff format --check kitchen tests sample_data tools notebooks/conftest.py
 
 bench: $(STAMP)
 	$(BIN)/python tests/benchmarks/run.py

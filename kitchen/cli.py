@@ -12,13 +12,23 @@ the criterion of the series' project table; with neither, no verdict is drawn, a
 command says so.
 Input problems are printed as a list (file, row, column, what was expected) and the
 command exits with status 2; it never shows a traceback for bad input. Without Chromium
-for the PNG and SVG charts it exits with status 3, naming what to install.
+for the PNG and SVG charts it exits with status 3, naming what to install; out of memory,
+it says so and exits with status 3. No output path may be an input: ``report --out`` onto
+the series' folder (or inside it) and ``history --out`` onto a raw file or a log are
+refused. Everything printed has its control characters shown as escapes (``\x1b``), so
+text stored in a log cannot move the cursor or retitle the terminal; warnings of the
+package (a torn last row of a log, a folder an export left) are printed as
+``kitchen: warning: ...``.
 """
 
 from __future__ import annotations
 
 import argparse
+import contextlib
+import io
+import re
 import sys
+import warnings
 from pathlib import Path
 
 from kitchen.analysis import CRITERION_KINDS, parse_criterion
@@ -76,9 +86,30 @@ def build_parser() -> argparse.ArgumentParser:
         default="off",
         help="off (heads as read, default) or jurin (heads less the standpipe's capillary rise)",
     )
+    report.add_argument(
+        "--datum-tolerance",
+        type=_datum_tolerance,
+        default=Settings.datum_tolerance,
+        metavar="LENGTH",
+        help="how far the falling-head tailwater datum may be off, with its unit (default "
+        "'20 mm'; '2 mm' for a surveyed datum): it widens the interval of k under the "
+        "log-linear fit",
+    )
     _add_memo_options(report)
     _add_revision_commands(commands)
     return parser
+
+
+def _datum_tolerance(text: str) -> float:
+    """A length typed with its unit, for --datum-tolerance, in metres."""
+    from kitchen.io.units import UnitError, parse_value
+
+    try:
+        value = parse_value(text, "length").si
+        Settings(datum_tolerance=value)
+    except (UnitError, ValueError) as error:
+        raise argparse.ArgumentTypeError(str(error)) from None
+    return value
 
 
 def _add_memo_options(report) -> None:
@@ -239,9 +270,12 @@ def _add_revision_commands(commands) -> None:
 
 
 def _report(arguments) -> int:
-    from kitchen.memo import export_memo_pack
+    from kitchen.memo import export_memo_pack, start_image_export
     from kitchen.revisions import windows_path
     from kitchen.workspace import Workspace
+
+    if not arguments.no_images:
+        start_image_export()  # Chromium starts while the series is read and reduced
 
     settings = Settings(
         arguments.reference_temperature,
@@ -249,6 +283,7 @@ def _report(arguments) -> int:
         uncertainty_method=arguments.uncertainty,
         falling_head_fit=arguments.falling_head_fit,
         capillary_rise=arguments.capillary_rise,
+        datum_tolerance=arguments.datum_tolerance,
     )
     workspace = Workspace(
         arguments.series, settings, windows_on_record=not arguments.proposed_windows
@@ -397,12 +432,28 @@ def _verify(arguments) -> int:
     return 0
 
 
+def _refuse_input_as_output(out: Path, series: Path) -> None:
+    """Refuse an output file that is the series itself, a file of its folder, or a log."""
+    from kitchen.revisions import kept_tests_path, revisions_path, windows_path
+
+    target, source = out.resolve(), series.resolve()
+    logs = {p(series).resolve() for p in (revisions_path, windows_path, kept_tests_path)}
+    inside = source.is_dir() and source in target.parents and target.exists()
+    if target == source or target in logs or inside or target.is_dir():
+        raise ValueError(
+            f"{out}: is the series, one of its files or logs, or a folder; the tool never "
+            "writes over its inputs: give a new file outside the series folder"
+        )
+
+
 def _history(arguments) -> int:
     from kitchen.io import write_csv
     from kitchen.revisions import format_history, history_table, read_revisions, revisions_path
 
     if not arguments.series.exists():
         raise ValueError(f"{arguments.series}: not found: expected a series folder or .xlsx")
+    if arguments.out is not None:
+        _refuse_input_as_output(arguments.out, arguments.series)
     revisions = read_revisions(arguments.series)
     table = history_table(revisions)
     standing = int((table["status"] == "in force").sum())
@@ -436,8 +487,49 @@ def _keep(arguments, parser) -> int:
     return 0
 
 
+_CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f\u200e\u200f\u202a-\u202e\u2066-\u2069]")
+"""Characters a terminal acts on rather than shows (C0 and C1 controls but tab and line
+feed; the bidirectional overrides), escaped before anything is printed."""
+
+
+def shown(text: str) -> str:
+    """`text` with every control character written as an escape (``\x1b``, ``\u202e``)."""
+    return _CONTROL.sub(lambda m: m.group().encode("unicode_escape").decode("ascii"), text)
+
+
 def main(argv: list[str] | None = None) -> int:
-    """Entry point; returns the exit status."""
+    """Entry point; returns the exit status.
+
+    What the command prints goes through :func:`shown`, and the package's warnings are
+    printed as ``kitchen: warning: ...`` on stderr.
+    """
+
+    class _Shown(io.TextIOBase):
+        def __init__(self, target):
+            self.target = target
+
+        def write(self, text):
+            self.target.write(shown(text))
+            return len(text)
+
+        def flush(self):
+            self.target.flush()
+
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        with contextlib.redirect_stdout(_Shown(sys.stdout)):
+            with contextlib.redirect_stderr(_Shown(sys.stderr)):
+                code = _main(argv)
+                said = set()
+                for warning in caught:
+                    text = str(warning.message)
+                    if issubclass(warning.category, UserWarning) and text not in said:
+                        said.add(text)
+                        print(f"kitchen: warning: {text}", file=sys.stderr)
+    return code
+
+
+def _main(argv: list[str] | None) -> int:
     parser = build_parser()
     arguments = parser.parse_args(argv)
     try:
@@ -462,5 +554,14 @@ def main(argv: list[str] | None = None) -> int:
     except (ValueError, OSError) as error:
         print(f"kitchen: {error}", file=sys.stderr)
         return EXIT_INPUT
+    except MemoryError:
+        print(
+            f"kitchen: out of memory working on {getattr(arguments, 'series', None) or ''}: "
+            "the data are larger than this machine's memory (or its limit) allows; split a "
+            "long record of readings, or run on a machine with more memory. Nothing was "
+            "written",
+            file=sys.stderr,
+        )
+        return EXIT_ENVIRONMENT
     parser.error(f"unknown command {arguments.command!r}")
     return EXIT_INPUT

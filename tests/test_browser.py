@@ -82,7 +82,7 @@ def lab_server(tmp_path_factory):
     _require_browser()
     root = tmp_path_factory.mktemp("lab")
     shutil.copytree(ROOT / "notebooks", root / "notebooks",
-                    ignore=shutil.ignore_patterns(".ipynb_checkpoints"))  # fmt: skip
+                    ignore=shutil.ignore_patterns(".ipynb_checkpoints", "working"))  # fmt: skip
     shutil.copytree(  # ../sample_data, as in the repo, without a user's logs
         ROOT / "sample_data", root / "sample_data", ignore=shutil.ignore_patterns(*USER_LOGS)
     )
@@ -107,7 +107,7 @@ def lab_server(tmp_path_factory):
     if hasattr(os, "geteuid") and os.geteuid() == 0:
         command.append("--allow-root")
     environment = dict(
-        os.environ,
+        {k: v for k, v in os.environ.items() if k != "KITCHEN_WORKING_FOLDER"},
         JUPYTER_CONFIG_DIR=str(config),
         JUPYTER_RUNTIME_DIR=str(root / "runtime"),
         IPYTHONDIR=str(root / "ipython"),
@@ -291,8 +291,9 @@ def _screenshot(page, name: str) -> None:
 
 def test_open_a_series(notebook, lab):
     page = notebook("01_open_a_series.ipynb")
-    box = page.locator(".widget-text input").first
-    assert box.input_value() == "../sample_data/clay_liner"
+    box = page.locator(".kitchen-series-chooser .widget-text input").first
+    working = lab["root"] / "notebooks" / "working"
+    assert Path(box.input_value()) == working / "clay_liner"  # the sample's working copy
     table = page.locator(".kitchen-table").first
     assert "QF-14" in table.inner_text()
     progress = page.locator(".widget-label", has_text="14 specimens")
@@ -358,6 +359,7 @@ def test_series_chart(notebook, lab):
 def test_revise(notebook, lab):
     page = notebook("05_revise.ipynb")
     assert page.get_by_text("No revisions yet").count() >= 1
+    _plotly_drawn(page, 2)  # the specimen's chart and the series chart, before any revision
     value = page.locator(".widget-text:has(label:text-is('New value')) input")
     reason = page.locator(".widget-text:has(label:text-is('Reason')) input")
     value.fill("4.8 in")
@@ -382,3 +384,133 @@ def test_revise(notebook, lab):
     assert page.locator("small", has_text="Recorded, reduced and redrawn in").count() == 1
     page.locator(".js-plotly-plot").last.scroll_into_view_if_needed()
     _screenshot(page, "05_revise_charts")
+
+
+SHOWN_FIGURE = """() => {
+    const plots = [...document.querySelectorAll('.kitchen-chart-box .js-plotly-plot')]
+        .filter(plot => getComputedStyle(plot).visibility !== 'hidden');
+    if (plots.length !== 1) return null;
+    const plot = plots[0];
+    const legend = [...plot.querySelectorAll('.legendtext')].map(t => t.textContent);
+    const traces = (plot.data || []).map(t => ({name: t.name || null, y: t.y ? [...t.y] : []}));
+    const title = plot.querySelector('.gtitle');
+    return {legend, traces, title: title ? title.textContent : ''};
+}"""
+
+
+def _shown_figure(page):
+    """The legend and traces of the chart the series panel shows, as the browser drew it."""
+    page.wait_for_timeout(700)  # the refresh's messages and plotly's redraw
+    shown = page.evaluate(SHOWN_FIGURE)
+    assert shown is not None, "the chart box shows no drawn figure, or more than one"
+    return shown
+
+
+def _assert_whole(shown, criterion_y: float):
+    """Every legend entry is a name of ours (never plotly's "trace N") and the criterion
+    line is drawn where it belongs."""
+    unnamed = [text for text in shown["legend"] if re.fullmatch(r"trace \d+", text)]
+    assert not unnamed, f"legend lost its names: {shown['legend']}"
+    assert all(trace["name"] for trace in shown["traces"]), shown["traces"]
+    lines = [t for t in shown["traces"] if t["name"] and t["name"].startswith("criterion k")]
+    assert len(lines) == 1, f"no criterion line among {[t['name'] for t in shown['traces']]}"
+    assert lines[0]["y"] == pytest.approx([criterion_y, criterion_y], rel=1e-9)
+    assert any(t["name"] in shown["legend"] for t in shown["traces"] if "criterion" in t["name"])
+
+
+def test_series_chart_survives_tab_unit_and_criterion_switches(notebook, lab):
+    """The sequence that once broke the chart: another tab, back, a new criterion, a unit."""
+    page = notebook("04_series_chart.ipynb")
+    errors = []
+    page.on("console", lambda message: message.type == "error" and errors.append(message.text))
+    _plotly_drawn(page, 1)
+    _assert_whole(_shown_figure(page), 1e-9)
+    tab = page.locator(".widget-toggle-button", has_text="k and void ratio")
+    back = page.locator(".widget-toggle-button", has_text="Compaction and k")
+    criterion = page.locator(".widget-text:has(label:text-is('k criterion')) input")
+    tab.click()
+    assert "void ratio" in _shown_figure(page)["title"].lower()
+    back.click()
+    _assert_whole(_shown_figure(page), 1e-9)
+    criterion.fill("3e-9 m/s")
+    criterion.press("Enter")
+    page.wait_for_function(
+        "() => document.querySelector('.kitchen-criterion').textContent.startsWith('3.00')",
+        timeout=60_000,
+    )
+    shown = _shown_figure(page)
+    page.locator(".kitchen-chart-box").scroll_into_view_if_needed()
+    _screenshot(page, "04_series_chart_after_tab_and_criterion")
+    _assert_whole(shown, 3e-9)
+    page.locator(".widget-toggle-button", has_text="cm/s").click()
+    page.wait_for_function(
+        "() => document.querySelector('.kitchen-criterion').textContent.endsWith('cm/s')",
+        timeout=60_000,
+    )
+    _assert_whole(_shown_figure(page), 3e-7)
+    tab.click()
+    page.locator(".widget-toggle-button", has_text="k and dry density").click()
+    back.click()
+    criterion.fill("1e-7 cm/s")
+    criterion.press("Enter")
+    page.wait_for_function(
+        "() => document.querySelector('.kitchen-criterion').textContent.startsWith('1.00')",
+        timeout=60_000,
+    )
+    shown = _shown_figure(page)
+    page.locator(".kitchen-chart-box").scroll_into_view_if_needed()
+    _screenshot(page, "04_series_chart_after_switches")
+    _assert_whole(shown, 1e-7)
+    tab.click()
+    shown = _shown_figure(page)
+    assert "void ratio" in shown["title"].lower()
+    assert not [t for t in shown["legend"] if re.fullmatch(r"trace \d+", t)], shown["legend"]
+    state = [e for e in errors if "Error setting state" in e or "reading 'length'" in e]
+    assert not state, f"the browser console reports: {state}"
+
+
+def _choose_series(page, option: str) -> None:
+    """Choose a series in the chooser of the open notebook and press Open."""
+    page.locator(".kitchen-series-chooser select").select_option(label=option)
+    page.locator(".kitchen-series-chooser button", has_text="Open").click()
+
+
+def test_the_series_chosen_in_one_notebook_opens_in_the_next(lab_page, lab):
+    """No code to edit: the series is chosen in 01 with the chooser, and 03 and 04 open on
+    it; the samples themselves are never written."""
+    samples = lab["root"] / "sample_data"
+    before = sorted(p.name for p in samples.rglob("*"))
+    working = lab["root"] / "notebooks" / "working"
+    page = _ran(lab_page, lab, "01_open_a_series.ipynb")
+    _choose_series(page, "sample drainage sand (constant head, 4 specimens)")
+    page.wait_for_function(
+        "() => document.querySelector('.kitchen-table') &&"
+        " document.querySelector('.kitchen-table').textContent.includes('DL-A')",
+        timeout=90_000,
+    )
+    chosen = json.loads((working / "chosen_series.json").read_text())["series"]
+    assert Path(chosen) == (working / "drainage_sand").resolve()
+    page.locator(".kitchen-series-chooser").scroll_into_view_if_needed()
+    _screenshot(page, "01_chosen_drainage_sand")
+    page.evaluate(CLOSE)
+    _shut_down_kernels(lab)
+    page = _ran(lab_page, lab, "04_series_chart.ipynb")
+    _plotly_drawn(page, 1)
+    box = page.locator(".kitchen-series-chooser .widget-text input").first
+    assert Path(box.input_value()) == (working / "drainage_sand").resolve()
+    titles = " ".join(page.locator(".js-plotly-plot .gtitle").all_text_contents())
+    assert "void ratio" in titles.lower()  # the sand has no compaction plane
+    assert "DL-A" in page.locator(".kitchen-table").first.inner_text()
+    page.locator(".kitchen-series-chooser").scroll_into_view_if_needed()
+    _screenshot(page, "04_opened_on_the_chosen_series")
+    _choose_series(page, "sample clay liner (falling head, 14 specimens)")
+    page.wait_for_function(
+        "() => [...document.querySelectorAll('.kitchen-table')]"
+        ".some(t => t.textContent.includes('QF-14'))",
+        timeout=90_000,
+    )
+    page.evaluate(CLOSE)
+    _shut_down_kernels(lab)
+    chosen = json.loads((working / "chosen_series.json").read_text())["series"]
+    assert Path(chosen) == (working / "clay_liner").resolve()
+    assert sorted(p.name for p in samples.rglob("*")) == before

@@ -19,7 +19,7 @@ from html_cells import TableCells
 from revision_series import log_rows
 from series_files import SAMPLES, copy_sample
 
-from kitchen.analysis import NO_CRITERION
+from kitchen.analysis import NO_CRITERION, parse_criterion
 from kitchen.io import files
 from kitchen.revisions import revise, revisions_path
 
@@ -57,6 +57,27 @@ def test_report_options(tmp_path):
     assert "k10 [m/s]" in pd.read_csv(tmp_path / "results.csv").columns
 
 
+def test_datum_tolerance_is_typed_with_its_unit_and_reaches_the_interval(tmp_path):
+    # a datum known to ±2 mm instead of ±20 mm narrows every falling-head interval; k20
+    # itself does not move (the datum's error enters the interval, not the estimate)
+    wide = run_cli("report", SAMPLES / "clay_liner", "--out", tmp_path / "wide", "--no-images")
+    narrow = run_cli("report", SAMPLES / "clay_liner", "--out", tmp_path / "narrow",
+                     "--no-images", "--datum-tolerance", "0.2 cm")  # fmt: skip
+    assert wide.returncode == 0 and narrow.returncode == 0, narrow.stderr
+    wide, narrow = (pd.read_csv(tmp_path / name / "results.csv") for name in ("wide", "narrow"))
+    falling = wide["method"] == "falling_head"
+    assert falling.any()
+    assert (wide["k20 [m/s]"] == narrow["k20 [m/s]"]).all()
+    width = wide["k20_high [m/s]"] - wide["k20_low [m/s]"]
+    narrower = narrow["k20_high [m/s]"] - narrow["k20_low [m/s]"]
+    assert (narrower[falling] < width[falling]).all()
+    assert (narrower[~falling] == width[~falling]).all()
+    refused = run_cli("report", SAMPLES / "clay_liner", "--out", tmp_path / "bad",
+                      "--no-images", "--datum-tolerance", "2 g")  # fmt: skip
+    assert refused.returncode == 2 and "Traceback" not in refused.stderr
+    assert "--datum-tolerance" in refused.stderr and not (tmp_path / "bad").exists()
+
+
 def test_bad_series_lists_problems_without_traceback(tmp_path):
     folder = tmp_path / "bad"
     folder.mkdir()
@@ -87,6 +108,22 @@ def test_criterion_is_typed_as_in_the_notebook(tmp_path):
     assert done.returncode == 0, done.stderr
     report = (tmp_path / "report.html").read_text()
     assert "k20 ≥ 1×10⁻⁴ m/s (smallest k required)" in report and "meets: 4" in report
+
+
+@pytest.mark.parametrize(
+    ("typed", "words"),
+    # 1e-7 cm/s is 1e-9 m/s (SI, common practice, no source); the invented clay of the
+    # sample has specimens on both sides of it (sample_data/clay_liner/truth.json)
+    [("1e-7 cm/s", "k20 ≤ 1×10⁻⁹ m/s (largest k allowed)"),
+     ("≥ 1e-4 m/s", "k20 ≥ 1×10⁻⁴ m/s (smallest k required)"),
+     ("k <= 1e-9 m/s", "k20 ≤ 1×10⁻⁹ m/s (largest k allowed)")],
+)  # fmt: skip
+def test_the_command_line_reads_a_criterion_as_the_panel_does(tmp_path, typed, words):
+    done = run_cli("report", SAMPLES / "clay_liner", "--out", tmp_path, "--no-images",
+                   "--criterion", typed)  # fmt: skip
+    assert done.returncode == 0, done.stderr
+    assert words in (tmp_path / "report.html").read_text()
+    assert parse_criterion(typed) == pytest.approx(1e-9 if "≤" in words else 1e-4)
 
 
 @pytest.mark.parametrize(
@@ -316,3 +353,29 @@ def test_keep_refuses_in_words_and_writes_nothing(clay, arguments, message):
     run = run_cli("keep", clay, *arguments, "--reason", "because")
     assert run.returncode == 2 and message in run.stderr and "Traceback" not in run.stderr
     assert not (clay / "kept_tests.csv").exists()
+
+
+@pytest.mark.parametrize(
+    "target", ["specimens.csv", "falling_head.csv", "revisions.csv", "windows.csv", "."]
+)
+def test_history_never_writes_over_an_input(clay, target):
+    # the case: history --out specimens.csv once overwrote the raw table
+    before = {p.name: p.read_bytes() for p in clay.iterdir() if p.is_file()}
+    code, _, err = run_cli("history", clay, "--out", clay / target)
+    assert code == 2 and "never writes over its inputs" in err
+    assert {p.name: p.read_bytes() for p in clay.iterdir() if p.is_file()} == before
+
+
+def test_control_characters_stored_in_a_log_are_shown_as_escapes(clay):
+    # a log edited by hand, or received: the terminal shows the escape codes as text,
+    # so they cannot recolour, clear or retitle it (ECMA-48 control functions)
+    from kitchen.revisions import revise, revisions_path
+
+    revise(clay, specimen="QF-01", field="height", value="116.3 mm", reason="re-measured")
+    log = revisions_path(clay)
+    log.write_bytes(
+        log.read_bytes().replace(b"re-measured", b"\x1b]0;owned\x07\x1b[2J\xe2\x80\xae")
+    )
+    code, out, _ = run_cli("history", clay)
+    assert code == 0 and "\x1b" not in out and "\x07" not in out and "\u202e" not in out
+    assert "\\x1b]0;owned\\x07\\x1b[2J\\u202e" in out

@@ -110,3 +110,103 @@ def test_superscript(exponent, text):
     # the superscript digits and minus of Unicode (U+2070, U+00B9, U+00B2, U+00B3,
     # U+2074-U+2079, U+207B; from memory)
     assert superscript(exponent) == text
+
+
+# --- one way to write the numbers of a table: panels, report page and results.xlsx ---------
+
+
+@pytest.mark.parametrize(
+    ("value", "text"),
+    # k to three significant figures (common practice, no source), the trailing zero kept so
+    # that a column reads alike: 6.70 beside 7.56, never 6.7
+    [
+        (6.7e-9, "6.70×10⁻⁹"),
+        (7.559208e-9, "7.56×10⁻⁹"),
+        (9.996e-10, "1.00×10⁻⁹"),
+        (1.0e-4, "1.00×10⁻⁴"),
+        (0.0123, "1.23×10⁻²"),
+        (math.nan, "–"),
+        (None, "–"),
+    ],
+)
+def test_conductivity_is_written_to_three_significant_figures(value, text):
+    from kitchen.display_units import column_format
+
+    assert column_format("k20 [m/s]").text(value) == text
+    assert column_format("k20_low [cm/s]").text(value) == text
+
+
+@pytest.mark.parametrize(
+    ("column", "value", "text", "cell_format"),
+    # fixed decimals by quantity (common practice, no source): w and S to 0.1 %, e and n
+    # to 0.001, Gs to 0.01, ρd to 0.001 Mg/m³ (so 1.660 beside 1.606), γd to 0.01 kN/m³,
+    # 0.1 lb/ft³ (each about four significant figures of a soil's density)
+    [
+        ("water_content [%]", 16.4, "16.4", "0.0"),
+        ("saturation [%]", 75.39197, "75.4", "0.0"),
+        ("void_ratio", 0.5895057, "0.590", "0.000"),
+        ("e", 0.5, "0.500", "0.000"),
+        ("porosity", 0.37087, "0.371", "0.000"),
+        ("specific_gravity", 2.7, "2.70", "0.00"),
+        ("dry_density [Mg/m3]", 1.66, "1.660", "0.000"),
+        ("dry_density [Mg/m3]", 1.6059, "1.606", "0.000"),
+        ("ρd [Mg/m³]", 1.704932532704562, "1.705", "0.000"),
+        ("γd [kN/m³]", 16.71945, "16.72", "0.00"),
+        ("ρd [lb/ft³]", 106.43, "106.4", "0.0"),
+        ("k20 [m/s]", 7.559208e-9, "7.56×10⁻⁹", "0.00E+00"),
+        ("temperature [degC]", 19.559, "19.6", "0.0"),
+        ("gradient", 16.023, "16.0", "0.0"),
+        ("diameter [mm]", 101.6, "101.60", "0.00"),
+    ],
+)
+def test_each_column_has_one_number_format(column, value, text, cell_format):
+    from kitchen.display_units import column_format
+
+    style = column_format(column)
+    assert style.text(value) == text
+    assert style.spreadsheet == cell_format
+
+
+def test_a_column_of_no_known_quantity_has_no_fixed_format():
+    from kitchen.display_units import column_format
+
+    assert column_format("notes") is None and column_format("n_readings") is None
+
+
+def test_html_powers_of_ten():
+    from kitchen.display_units import CONDUCTIVITY_FORMAT
+
+    assert CONDUCTIVITY_FORMAT.text(6.7e-9, html=True) == "6.70×10<sup>−9</sup>"
+
+
+def test_the_density_unit_brings_its_own_format():
+    assert density_unit("kN/m3").number.text(16.7) == "16.70"
+    assert density_unit("Mg/m3").number.text(1.7) == "1.700"
+    assert density_unit("lb/ft3").number.text(106.0) == "106.0"
+
+
+def test_an_interval_keeps_the_trailing_zero():
+    from kitchen.display_units import distinct_texts
+
+    assert distinct_texts(k_unit("m/s"), 6.7e-9, 6.68e-9, 6.72e-9, html=False) == [
+        "6.70×10⁻⁹",
+        "6.68×10⁻⁹",
+        "6.72×10⁻⁹",
+    ]
+
+
+@pytest.mark.parametrize(
+    ("text", "unit", "expected"),
+    # 1 m/s = 100 cm/s (SI prefixes); the tool's own sentences, restated in the unit chosen
+    [
+        ("k = 7.56e-09 m/s is steady", "cm/s", "k = 7.56×10⁻⁷ cm/s is steady"),
+        ("below 1e-10 m/s, and 2.5e-9 m/s", "cm/s", "below 1×10⁻⁸ cm/s, and 2.5×10⁻⁷ cm/s"),
+        ("average 1.2e-08 m/s (no flow)", "m/s", "average 1.2e-08 m/s (no flow)"),
+        ("gradient 16 (k in m/s)", "cm/s", "gradient 16 (k in m/s)"),
+        ("k 3e-9 cm/s", "cm/s", "k 3e-9 cm/s"),
+    ],
+)
+def test_conductivities_in_words_follow_the_unit(text, unit, expected):
+    from kitchen.display_units import restate_conductivities
+
+    assert restate_conductivities(text, unit) == expected

@@ -22,16 +22,18 @@ Modules, in the data's order:
 
 The public face, which other subpackages import from :mod:`kitchen.io` and never from its
 modules: :func:`split_header`, :func:`format_header`, :func:`parse_value`, :func:`to_si`,
-:data:`KINDS` and :class:`UnitError` (units); :data:`SCHEMAS`, :data:`TABLE_NAMES`,
-:class:`ColumnSpec`, :class:`RawTable`, :func:`read_tables`, :class:`InputProblem` and
-:class:`SeriesError` (the raw tables), :data:`ALTERNATIVE_COLUMNS` and
-:data:`CONDITION_TABLES`; :func:`time_zone` (units); :func:`pressure_head`,
+:data:`KINDS`, :data:`EXAMPLE_UNITS` and :class:`UnitError` (units); :data:`SCHEMAS`,
+:data:`TABLE_NAMES`, :class:`ColumnSpec`, :class:`RawTable`, :func:`read_tables`,
+:class:`InputProblem` and :class:`SeriesError` (the raw tables), :data:`ALTERNATIVE_COLUMNS`
+and :data:`CONDITION_TABLES`; :func:`time_zone` (units); :func:`pressure_head`,
 :func:`read_date_times`, :data:`STANDARD_GRAVITY` and :data:`GAP_FACTOR` (logger readings);
 :data:`FLOW_DIRECTIONS` (condition checks); :func:`head_rise_tolerance`,
 :data:`HEAD_RISE_TOLERANCE` and :data:`HEAD_RISE_SCATTERS` (the rise a falling-head reading
-may show); :class:`Series`, :func:`build_series`, :func:`load_series` and
+may show); :data:`SPECIMEN_ID_LENGTH` (the longest specimen id); :class:`Series`,
+:func:`build_series`, :func:`load_series` and
 :func:`rebuild_series`; :func:`atomic_write_bytes`, :func:`atomic_write_text`,
-:func:`append_line`, :func:`folder_lock`, :func:`write_csv` and :func:`spreadsheet_safe`.
+:func:`append_line` (:data:`APPEND_ROOM`), :func:`folder_lock`, :func:`sync_folder`,
+:func:`write_csv` and :func:`spreadsheet_safe`.
 
 References
 ----------
@@ -50,6 +52,8 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "atomic_write_bytes": "files",
         "atomic_write_text": "files",
         "folder_lock": "files",
+        "sync_folder": "files",
+        "APPEND_ROOM": "files",
         "spreadsheet_safe": "files",
         "write_csv": "files",
         "PROJECT_SETTINGS": "project",
@@ -76,9 +80,11 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "load_series": "series",
         "rebuild_series": "series",
         "HEAD_RISE_SCATTERS": "table_checks",
+        "SPECIMEN_ID_LENGTH": "table_checks",
         "HEAD_RISE_TOLERANCE": "table_checks",
         "head_rise_tolerance": "table_checks",
         "KINDS": "units",
+        "EXAMPLE_UNITS": "units",
         "UnitError": "units",
         "format_header": "units",
         "parse_value": "units",
@@ -107,12 +113,16 @@ __all__ = [
     "build_series",
     "ColumnSpec",
     "folder_lock",
+    "sync_folder",
+    "APPEND_ROOM",
     "format_header",
     "HEAD_RISE_SCATTERS",
+    "SPECIMEN_ID_LENGTH",
     "HEAD_RISE_TOLERANCE",
     "head_rise_tolerance",
     "InputProblem",
     "KINDS",
+    "EXAMPLE_UNITS",
     "load_series",
     "parse_value",
     "RawTable",

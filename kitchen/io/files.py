@@ -22,6 +22,8 @@ __all__ = [
     "atomic_write_text",
     "append_line",
     "folder_lock",
+    "sync_folder",
+    "APPEND_ROOM",
     "spreadsheet_safe",
     "write_csv",
 ]
@@ -30,7 +32,7 @@ _FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
 _BINARY = getattr(os, "O_BINARY", 0)  # Windows: no newline translation
 
 
-def _sync_folder(folder: Path) -> None:
+def sync_folder(folder: Path) -> None:
     """Flush a folder's entries (a rename, a new file) to disk where the system allows it."""
     if os.name != "posix":
         return
@@ -82,7 +84,7 @@ def atomic_write_bytes(path: str | Path, data: bytes) -> Path:
     except BaseException:
         Path(temporary).unlink(missing_ok=True)
         raise
-    _sync_folder(path.parent)
+    sync_folder(path.parent)
     return path
 
 
@@ -104,6 +106,9 @@ def _create_with(path: Path, header: bytes) -> None:
     """Create ``path`` holding ``header``, unless it exists; never a moment without it."""
     handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=path.parent)
     try:
+        # mkstemp makes the file its owner's alone; a log on a shared folder is written by
+        # colleagues too: give it the mode a plain open() would (0666 less the umask)
+        os.chmod(temporary, _mode_for(path))
         with os.fdopen(handle, "wb") as stream:
             stream.write(header)
             stream.flush()
@@ -114,7 +119,7 @@ def _create_with(path: Path, header: bytes) -> None:
             pass
         except OSError:  # a file system without hard links: exclusive create instead
             try:
-                target = os.open(path, os.O_WRONLY | os.O_CREAT | os.O_EXCL | _BINARY, 0o644)
+                target = os.open(path, os.O_WRONLY | os.O_CREAT | os.O_EXCL | _BINARY, 0o666)
             except FileExistsError:
                 return
             try:
@@ -124,7 +129,7 @@ def _create_with(path: Path, header: bytes) -> None:
                 os.close(target)
     finally:
         Path(temporary).unlink(missing_ok=True)
-    _sync_folder(path.parent)
+    sync_folder(path.parent)
 
 
 def _write_all_at_once(handle: int, data: bytes, path: Path) -> None:
@@ -166,9 +171,13 @@ def append_line(path: str | Path, line: bytes, header: bytes = b"") -> Path:
     -----
     The file is opened with ``O_APPEND`` and the whole line goes in one ``os.write``: on
     POSIX systems each write then lands whole at the end of the file, so several
-    processes appending at once never lose or interleave a line. A write the system cuts
-    short (a full disk) raises; the torn line it leaves is for a person to mend, and
-    readers of the file should name it.
+    processes appending at once never lose or interleave a line. A new file gets the
+    mode any file the user makes gets (0666 less the umask), so colleagues sharing the
+    folder can append to it too. Where the disk has less free space than the line and
+    :data:`APPEND_ROOM` more, nothing is written and ``OSError`` (``ENOSPC``) is raised. A
+    write the system still cuts short raises; the torn line it leaves is for a person to
+    mend, and readers of the file name it and leave it out
+    (:func:`kitchen.revisions.readable_part`).
     """
     path = Path(path)
     data = line if line.endswith(b"\n") else line + b"\n"
@@ -177,13 +186,34 @@ def append_line(path: str | Path, line: bytes, header: bytes = b"") -> Path:
         _create_with(path, header)
     elif not header:
         flags |= os.O_CREAT
-    handle = os.open(path, flags, 0o644)
+    _check_room(path, len(data))
+    handle = os.open(path, flags, 0o666)  # less the umask, as any file the user makes
     try:
         _write_all_at_once(handle, data, path)
         os.fsync(handle)
     finally:
         os.close(handle)
     return path
+
+
+APPEND_ROOM = 64 * 2**10
+"""The free space an append asks for beyond its own line, so that a disk filling up is
+met by a refusal before the write rather than a row cut short. [bytes]"""
+
+
+def _check_room(path: Path, size: int) -> None:
+    """Refuse an append of `size` bytes where the disk has not room for it and more."""
+    try:
+        status = os.statvfs(path.parent)
+    except (AttributeError, OSError):  # no statvfs (Windows): the short write is still named
+        return
+    free = status.f_bavail * status.f_frsize
+    if free < size + APPEND_ROOM:
+        raise OSError(
+            errno.ENOSPC,
+            f"{path}: the disk has {free} bytes free, less than the {size + APPEND_ROOM} an "
+            "appended row is given (is it full?); nothing was written",
+        )
 
 
 @contextlib.contextmanager

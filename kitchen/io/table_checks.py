@@ -14,6 +14,7 @@ values, and every check is a vectorised pass.
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass
 
 import numpy as np
@@ -24,7 +25,12 @@ from kitchen.specimen import circle_area, specimen_state
 from .raw_tables import SCHEMAS, TEXT_KINDS, InputProblem, RawTable
 from .units import to_si
 
-__all__ = ["HEAD_RISE_TOLERANCE", "HEAD_RISE_SCATTERS", "head_rise_tolerance"]
+__all__ = [
+    "HEAD_RISE_TOLERANCE",
+    "HEAD_RISE_SCATTERS",
+    "SPECIMEN_ID_LENGTH",
+    "head_rise_tolerance",
+]
 
 
 _POSITIVE = {
@@ -434,6 +440,40 @@ class TextCodes:
         return counts[1:].astype(bool)
 
 
+SPECIMEN_ID_LENGTH = 64
+"""The most characters a specimen id may have: it names the pack's chart files, whose
+names a file system keeps under 255 bytes (common practice, no source)."""
+
+_UNSHOWABLE = re.compile(r"[\x00-\x1f\x7f-\x9f\u200b-\u200f\u202a-\u202e\u2066-\u2069\ufeff]")
+"""Control characters, zero-width and bidirectional marks: what a terminal, a workbook or
+a file name cannot show as written, or shows as something else."""
+
+
+def _check_specimen_ids(table: RawTable, labels: TextCodes, problems: list[InputProblem]):
+    """Name each row whose specimen id holds a control character or is too long.
+
+    An id is printed, written in workbooks and put in file names: one that cannot be shown
+    as written, or longer than :data:`SPECIMEN_ID_LENGTH`, is refused at load, before any
+    file is written from it.
+    """
+    for code, text in enumerate(labels.values):
+        text = str(text)
+        escaped = text.encode("unicode_escape").decode("ascii")
+        if _UNSHOWABLE.search(text):
+            message = (
+                f"the specimen id '{escaped[:80]}' holds a control character or an invisible "
+                "mark; expected letters, digits and punctuation"
+            )
+        elif len(text) > SPECIMEN_ID_LENGTH:
+            message = (
+                f"the specimen id '{escaped[:24]}...' has {len(text)} characters, more than "
+                f"the {SPECIMEN_ID_LENGTH} an id may have (it names the pack's files)"
+            )
+        else:
+            continue
+        report_rows(problems, table, labels.codes == code, "specimen", message)
+
+
 def convert_table(table: RawTable, problems: list[InputProblem]) -> tuple[pd.DataFrame, TextCodes]:
     """The table in SI with its value problems reported, and its specimen ids as codes."""
     schema = SCHEMAS[table.name]
@@ -449,7 +489,9 @@ def convert_table(table: RawTable, problems: list[InputProblem]) -> tuple[pd.Dat
             if present:
                 labels = TextCodes.of(table.frame[column])
                 columns[column] = labels.strings()
-                ids = labels if column == "specimen" else ids
+                if column == "specimen":
+                    ids = labels
+                    _check_specimen_ids(table, labels, problems)
                 if spec.required:
                     report_rows(problems, table, labels.codes < 0, column, "value missing")
             else:

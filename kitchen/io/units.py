@@ -20,6 +20,7 @@ import numpy as np
 
 __all__ = [
     "KINDS",
+    "EXAMPLE_UNITS",
     "UnitError",
     "split_header",
     "to_si",
@@ -40,10 +41,29 @@ KINDS: dict[str, tuple[str | None, str]] = {
     "time": ("[time]", "s"),
     "temperature": ("[temperature]", "degC"),
     "pressure": ("[mass] / [length] / [time] ** 2", "Pa"),
+    "density": ("[mass] / [length] ** 3", "kg/m**3"),
     "ratio": ("", "dimensionless"),
     "dimensionless": ("", "dimensionless"),
 }
 """Kinds of quantity a column may hold, with pint dimensionality and the internal unit."""
+
+EXAMPLE_UNITS: dict[str, str] = {
+    "length": "mm, cm, in",
+    "area": "mm2, cm2, in^2",
+    "volume": "mL, cm3, L",
+    "mass": "g, kg, lb",
+    "time": "s, min, h",
+    "temperature": "degC, degF",
+    "density": "Mg/m3, kg/m3, lb/ft3",
+    "pressure": "kPa, psi, bar",
+    "ratio": "%, -",
+    "dimensionless": "-",
+}
+"""Units of the right dimension for each kind, quoted by the errors that ask for one."""
+
+_PLAIN_POWER = re.compile(r"(?<=[A-Za-zµμ])([23])(?![\w.])")
+"""A digit 2 or 3 right after a unit's letters (``mm2``, ``Mg/m3``): the power the tool's own
+tables write without a sign (``standpipe_area [mm2]``, ``dry_density [Mg/m3]``)."""
 
 _RATIO_WORDS = {"%": 0.01, "percent": 0.01, "-": 1.0, "1": 1.0, "fraction": 1.0}
 
@@ -56,6 +76,10 @@ EXPONENT_LIMIT = 1000
 _POWER = re.compile(r"\*\*")
 _NUMBER = r"[-+]?\d{1,3}(?:\.\d{1,3})?(?![\d.])"
 _EXPONENT = re.compile(rf"\*\*\s*(?:\(\s*(?P<grouped>{_NUMBER})\s*\)|(?P<plain>{_NUMBER}))")
+
+
+def _article(word: str) -> str:
+    return "an" if word[:1] in "aeiou" else "a"
 
 
 class UnitError(ValueError):
@@ -226,6 +250,7 @@ def _factor_offset(unit: str, kind: str) -> tuple[float, float]:
             return _RATIO_WORDS[word], 0.0
     registry = _registry()
     text = unit.replace("°C", "degC").replace("°F", "degF").replace("°", "deg")
+    text = _PLAIN_POWER.sub(r"**\1", text)
     bounded_unit_text(text)
     try:
         parsed = registry.Unit(text)
@@ -234,8 +259,9 @@ def _factor_offset(unit: str, kind: str) -> tuple[float, float]:
     dimensionality, internal = KINDS[kind]
     wanted = registry.Quantity(1.0, internal).dimensionality
     if parsed.dimensionality != wanted:
-        want = dimensionality or "dimensionless"
-        raise UnitError(f"unit {unit!r} is not a {kind} (expected dimension {want})")
+        raise UnitError(
+            f"unit {unit!r} is not {_article(kind)} {kind} (for example {EXAMPLE_UNITS[kind]})"
+        )
     q0 = float(registry.Quantity(0.0, parsed).to(internal).magnitude)
     if q0 == 0.0:
         return float(registry.Quantity(1.0, parsed).to(internal).magnitude), 0.0
@@ -253,7 +279,9 @@ def to_si(values, unit: str, kind: str):
         Magnitudes in ``unit``.
     unit : str
         Unit text as written in a header, for example ``"mm"``, ``"in"``, ``"min"``,
-        ``"mL"``, ``"degC"``, ``"%"``.
+        ``"mL"``, ``"degC"``, ``"%"``. A 2 or 3 right after a unit's letters is its power,
+        as the tool's own tables write it (``"mm2"``, ``"Mg/m3"``), as are ``"mm^2"`` and
+        ``"mm²"``.
     kind : str
         One of :data:`KINDS`.
 
@@ -311,6 +339,9 @@ def parse_value(text: str, kind: str) -> ParsedValue:
     unit = match.group(2)
     if not unit:
         if kind != "dimensionless":
-            raise UnitError(f"{text!r} has no unit; a {kind} needs one (for example mm, g, s)")
+            raise UnitError(
+                f"{text!r} has no unit; {_article(kind)} {kind} needs one (for example "
+                f"{EXAMPLE_UNITS[kind]})"
+            )
         return ParsedValue(magnitude, "", magnitude)
     return ParsedValue(magnitude, unit, to_si(magnitude, unit, kind))

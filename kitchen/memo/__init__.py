@@ -5,9 +5,10 @@ results as CSV and as a workbook, every chart as interactive HTML and as PNG and
 report page (the specimens, the charts, the methods and their sources, the criteria
 applied, the cautions and the provenance), plotly.js once for the whole pack, and last a
 manifest of every file with its size and SHA-256, so that a pack with a manifest is a
-whole pack and a reviewer can check the pack received is the pack exported. The pages
-make no request to the network; every item carries the cautions; every file goes through
-:func:`kitchen.io.atomic_write_bytes`, so each is whole or absent.
+whole pack and a reviewer can check the pack received is the pack exported. The pack is
+built in a folder beside the one asked for and swapped in whole, so that folder holds the
+previous pack or the new one, never a mixture. The pages make no request to the network;
+every item carries the cautions.
 
 Modules, in the order a pack is made:
 
@@ -21,7 +22,8 @@ Modules, in the order a pack is made:
 - :mod:`.pages`: the report page and one page per chart, built as escaped text.
 - :mod:`.specimen_pages`: one page per test holding every item a test report holds,
   each stated or marked "not recorded", with the test's record over time.
-- :mod:`.manifest`: ``manifest.csv``, written last; checking a pack received.
+- :mod:`.manifest`: ``manifest.csv``, written last; the pack built beside its folder and
+  swapped in whole (:class:`StagedPack`); checking a pack received.
 - :mod:`.pack`: the export of the whole pack in one call.
 
 The public face, which other subpackages import from :mod:`kitchen.memo` and never from its
@@ -31,13 +33,14 @@ modules: :func:`export_memo_pack` (:class:`MemoPack`) and :data:`CHART_SCRIPT`;
 :func:`specimens_table`, :func:`fits_table`, :func:`checks_table`, :func:`revisions_table`,
 :func:`kept_tests_table`, :data:`FIT_COLUMNS`, :data:`REVISION_COLUMNS` and
 :data:`KEPT_TEST_COLUMNS`;
-:func:`workbook_bytes`; :func:`memo_provenance`,
+:func:`workbook_bytes`, :func:`setting_texts`, :data:`SETTING_UNITS`; :func:`memo_provenance`,
 :class:`Provenance`, :class:`InputFile` and :func:`file_sha256`; :func:`report_page`,
 :func:`chart_page`, :data:`REDUCTION_METHODS` and :data:`VERDICT_MARKS`; :func:`table_markup`
 (the notebook panels build their tables with it too); :func:`report_items`
 (:class:`ReportItem`, :data:`NOT_RECORDED`), :func:`report_pages` (:class:`ReportPage`),
 :func:`specimen_page`, :func:`specimen_links` and :func:`page_name`;
-:func:`write_manifest`, :func:`read_manifest`, :func:`verify_pack`, :data:`MANIFEST` and
+:class:`StagedPack`, :class:`PackFolderError`, :func:`interrupted_exports`,
+:func:`manifest_bytes`, :func:`read_manifest`, :func:`verify_pack`, :data:`MANIFEST` and
 :data:`MANIFEST_COLUMNS`.
 
 The memo rests on no standard of its own: the methods and sources the report page lists
@@ -58,9 +61,12 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "start_image_export": "images",
         "MANIFEST": "manifest",
         "MANIFEST_COLUMNS": "manifest",
+        "PackFolderError": "manifest",
+        "StagedPack": "manifest",
+        "interrupted_exports": "manifest",
+        "manifest_bytes": "manifest",
         "read_manifest": "manifest",
         "verify_pack": "manifest",
-        "write_manifest": "manifest",
         "table_markup": "markup",
         "CHART_SCRIPT": "pack",
         "MemoPack": "pack",
@@ -90,6 +96,8 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "revisions_table": "tables",
         "specimens_table": "tables",
         "workbook_bytes": "workbook",
+        "setting_texts": "workbook",
+        "SETTING_UNITS": "workbook",
     },
 )
 
@@ -117,9 +125,12 @@ __all__ = [
     "kept_tests_table",
     "MANIFEST",
     "MANIFEST_COLUMNS",
+    "manifest_bytes",
+    "interrupted_exports",
     "memo_charts",
     "memo_provenance",
     "MemoPack",
+    "PackFolderError",
     "PNG_SCALE",
     "Provenance",
     "read_manifest",
@@ -128,10 +139,12 @@ __all__ = [
     "REVISION_COLUMNS",
     "revisions_table",
     "specimens_table",
+    "StagedPack",
     "start_image_export",
     "table_markup",
     "VERDICT_MARKS",
     "verify_pack",
     "workbook_bytes",
-    "write_manifest",
+    "setting_texts",
+    "SETTING_UNITS",
 ]

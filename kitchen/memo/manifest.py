@@ -1,30 +1,63 @@
-"""The memo pack's manifest: every file the export wrote, with its size and SHA-256.
+"""The memo pack's manifest, and how a pack is written, checked and replaced.
 
-``manifest.csv`` is written last, once every other file of the pack is in place, so a pack
-with a manifest is a whole pack. A reviewer checks that the files received are the files
-exported (:func:`verify_pack`, ``python -m kitchen verify PACK``); the report's provenance
-traces those files back to the inputs. Exporting again into the same folder removes the
-files the previous manifest lists and the new pack no longer holds (a chart the data no
-longer allow, plotly.js after a self-contained export), and nothing else: a file the tool
-did not write is never touched.
+``manifest.csv`` lists every file of a pack with its size and SHA-256 (FIPS 180-4, through
+Python's :mod:`hashlib`). The digests are those of the bytes the export wrote, taken as it
+wrote them, not of what is on disk later: a file replaced while the export ran fails
+:func:`verify_pack`. A reviewer checks that the files received are the files exported
+(``python -m kitchen verify PACK``); a file missing, changed or added, and a manifest
+that lists nothing, are each named.
+
+A pack is never written file by file into the folder asked for. :class:`StagedPack`
+builds it in a sibling folder (``.NAME.kitchen-new-XXXXXXXX``, on the same file system)
+and, once every file and the manifest are in place, swaps it in whole: the folder holds
+the previous pack or the new one, never a mixture, whatever stops the export (an error,
+a full disk, the process killed). The previous pack, swapped out, is then removed file by
+file, and only what the tool can prove it wrote: a regular file (not a link) inside that
+folder, listed in its manifest, whose SHA-256 matches. A folder holding anything else (a
+file no manifest lists, a file changed since its export, a link, a manifest the tool did
+not write that names files) is refused before anything is written, and nothing in it is
+touched.
 """
 
 from __future__ import annotations
 
 import csv
+import ctypes
+import ctypes.util
+import errno
 import hashlib
 import io
+import os
+import stat
+import tempfile
+import warnings
 from pathlib import Path, PurePosixPath
 
-from kitchen.io import atomic_write_bytes
+from kitchen.io import atomic_write_bytes, sync_folder
 
-__all__ = ["MANIFEST", "MANIFEST_COLUMNS", "write_manifest", "read_manifest", "verify_pack"]
+__all__ = [
+    "MANIFEST",
+    "MANIFEST_COLUMNS",
+    "PackFolderError",
+    "StagedPack",
+    "read_manifest",
+    "manifest_bytes",
+    "verify_pack",
+    "interrupted_exports",
+]
 
 MANIFEST = "manifest.csv"
 """The manifest's name, at the top of the pack."""
 
 MANIFEST_COLUMNS = ("path", "bytes", "sha256")
 """Its columns: the file's path inside the pack (``/`` separated), its size, its digest."""
+
+_SHOWN = 5
+"""How many of a folder's problems a refusal names before it counts the rest."""
+
+
+class PackFolderError(ValueError):
+    """The folder asked for cannot take a pack: nothing was written, nothing removed."""
 
 
 def _digest(path: Path) -> str:
@@ -33,10 +66,6 @@ def _digest(path: Path) -> str:
         for block in iter(lambda: handle.read(1 << 20), b""):
             digest.update(block)
     return digest.hexdigest()
-
-
-def _relative(folder: Path, path: Path) -> str:
-    return PurePosixPath(Path(path).resolve().relative_to(folder.resolve())).as_posix()
 
 
 def read_manifest(folder: str | Path) -> dict[str, tuple[int, str]]:
@@ -52,6 +81,8 @@ def read_manifest(folder: str | Path) -> dict[str, tuple[int, str]]:
         text = manifest.read_text(encoding="utf-8")
     except FileNotFoundError:
         return {}
+    except (UnicodeDecodeError, IsADirectoryError):
+        raise ValueError(f"{manifest}: cannot be read as UTF-8 text") from None
     rows = list(csv.reader(io.StringIO(text, newline="")))
     if not rows or tuple(rows[0]) != MANIFEST_COLUMNS:
         raise ValueError(f"{manifest}, row 1: expected the columns {', '.join(MANIFEST_COLUMNS)}")
@@ -60,62 +91,249 @@ def read_manifest(folder: str | Path) -> dict[str, tuple[int, str]]:
         if len(row) != 3 or not row[1].isdigit() or len(row[2]) != 64:
             raise ValueError(f"{manifest}, row {number}: expected a path, a size and a SHA-256")
         path = PurePosixPath(row[0])
-        if path.is_absolute() or ".." in path.parts:
+        if path.is_absolute() or ".." in path.parts or row[0] in ("", ".", MANIFEST):
             raise ValueError(f"{manifest}, row {number}: {row[0]!r} is not a path inside the pack")
         listed[row[0]] = (int(row[1]), row[2])
     return listed
 
 
-def write_manifest(folder: str | Path, files, previous=None) -> tuple[Path, tuple[Path, ...]]:
-    """Write the manifest of the pack in `folder`, and remove what only `previous` listed.
-
-    Parameters
-    ----------
-    folder : str or pathlib.Path
-        The pack.
-    files : iterable of pathlib.Path
-        Every file the export wrote, inside `folder`.
-    previous : dict, optional
-        :func:`read_manifest` of the folder before the export.
-
-    Returns
-    -------
-    (pathlib.Path, tuple of pathlib.Path)
-        The manifest, and the files of the previous pack removed.
-    """
-    folder = Path(folder)
+def manifest_bytes(entries: dict[str, tuple[int, str]]) -> bytes:
+    """The manifest listing `entries` (``{path: (bytes, sha256)}``), in path order."""
     buffer = io.StringIO()
     writer = csv.writer(buffer, lineterminator="\n")
     writer.writerow(MANIFEST_COLUMNS)
-    kept = set()
-    for path in files:
-        relative = _relative(folder, path)
-        kept.add(relative)
-        writer.writerow([relative, Path(path).stat().st_size, _digest(Path(path))])
-    manifest = atomic_write_bytes(folder / MANIFEST, buffer.getvalue().encode("utf-8"))
-    removed = []
-    for relative in sorted(set(previous or {}) - kept):
-        stale = folder / relative
-        if stale.is_file():
-            stale.unlink()
-            removed.append(stale)
-    return manifest, tuple(removed)
+    for relative in sorted(entries):
+        writer.writerow([relative, *entries[relative]])
+    return buffer.getvalue().encode("utf-8")
+
+
+def _walk(folder: Path):
+    """Every entry below `folder` as ``(relative path, lstat)``, links not followed."""
+    for root, folders, files in os.walk(folder, followlinks=False):
+        for name in folders + files:
+            path = Path(root) / name
+            yield PurePosixPath(path.relative_to(folder)).as_posix(), path.lstat()
+
+
+def _unproven(folder: Path, listed: dict[str, tuple[int, str]]) -> list[str]:
+    """What in `folder` the tool cannot prove it wrote, in words (none: a whole pack)."""
+    problems = []
+    holds = set()
+    for relative, status in _walk(folder):
+        if stat.S_ISLNK(status.st_mode):
+            problems.append(f"{relative}: a link (the tool writes no links)")
+        elif stat.S_ISDIR(status.st_mode):
+            continue
+        elif relative == MANIFEST:
+            continue
+        elif relative not in listed:
+            problems.append(f"{relative}: not in {MANIFEST} (not written by the export)")
+        elif not stat.S_ISREG(status.st_mode):
+            problems.append(f"{relative}: not a regular file")
+        else:
+            holds.add(relative)
+            size, digest = listed[relative]
+            if status.st_size != size or _digest(folder / relative) != digest:
+                problems.append(f"{relative}: not the file exported (its SHA-256 differs)")
+    problems += [f"{relative}: missing" for relative in sorted(set(listed) - holds)]
+    return problems
 
 
 def verify_pack(folder: str | Path) -> list[str]:
     """Check a pack against its manifest; each problem in words (none: the pack is whole).
 
-    A file missing, of another size, or with another SHA-256 than when it was exported is
-    named; so is a pack without a manifest.
+    A file missing, of another size or with another SHA-256 than when it was exported, a
+    file the manifest does not list (added after the export), a link, and a manifest
+    that lists no file are named; so is a pack without a manifest.
     """
     folder = Path(folder)
     if not (folder / MANIFEST).is_file():
         return [f"{folder}: no {MANIFEST}; not a memo pack, or its export did not finish"]
-    problems = []
-    for relative, (size, digest) in read_manifest(folder).items():
-        path = folder / relative
-        if not path.is_file():
-            problems.append(f"{relative}: missing")
-        elif path.stat().st_size != size or _digest(path) != digest:
-            problems.append(f"{relative}: not the file exported (its SHA-256 differs)")
-    return problems
+    listed = read_manifest(folder)
+    if not listed:
+        return [f"{MANIFEST} lists no file: a pack always holds its report and tables"]
+    return sorted(_unproven(folder, listed))
+
+
+def _refusal(out: Path, problems: list[str]) -> PackFolderError:
+    shown = problems[:_SHOWN]
+    more = f"; and {len(problems) - _SHOWN} more" if len(problems) > _SHOWN else ""
+    return PackFolderError(
+        f"{out}: will not write a pack here: the folder holds what the tool cannot prove it "
+        f"wrote ({'; '.join(shown)}{more}). Nothing was written or removed. Choose a new or "
+        "empty folder, or move those files away"
+    )
+
+
+def _previous_pack(out: Path) -> dict[str, tuple[int, str]] | None:
+    """The manifest of the pack `out` holds (``{}`` for an empty folder, None for no
+    folder); refuses a folder that holds anything but a whole pack the tool wrote."""
+    if out.is_symlink():
+        raise PackFolderError(f"{out}: is a link; give the pack a folder of its own")
+    if not out.exists():
+        return None
+    if not out.is_dir():
+        raise PackFolderError(f"{out}: is a file, not a folder; give the pack a folder")
+    if not any(out.iterdir()):
+        return {}
+    if not (out / MANIFEST).is_file():
+        raise _refusal(out, sorted(_unproven(out, {})))
+    listed = read_manifest(out)  # an unreadable manifest stops the export here
+    problems = _unproven(out, listed)
+    if not listed:
+        problems.insert(0, f"{MANIFEST}: lists no file")
+    if problems:
+        raise _refusal(out, problems)
+    return listed
+
+
+def _exchange(first: Path, second: Path) -> bool:
+    """Swap two folders in one step (Linux ``renameat2`` with ``RENAME_EXCHANGE``); False
+    where the system cannot."""
+    if not hasattr(os, "uname") or os.uname().sysname != "Linux":
+        return False
+    try:
+        libc = ctypes.CDLL(ctypes.util.find_library("c") or "libc.so.6", use_errno=True)
+        renameat2 = libc.renameat2
+    except (OSError, AttributeError):
+        return False
+    at_cwd, exchange = -100, 2  # AT_FDCWD, RENAME_EXCHANGE (linux/fcntl.h, linux/fs.h)
+    renameat2.argtypes = [ctypes.c_int, ctypes.c_char_p, ctypes.c_int, ctypes.c_char_p]
+    renameat2.argtypes += [ctypes.c_uint]
+    result = renameat2(at_cwd, os.fsencode(first), at_cwd, os.fsencode(second), exchange)
+    if result == 0:
+        return True
+    code = ctypes.get_errno()
+    if code in (errno.ENOSYS, errno.EINVAL, errno.ENOTSUP):
+        return False
+    raise OSError(code, os.strerror(code), str(second))
+
+
+def _folder_mode() -> int:
+    umask = os.umask(0)
+    os.umask(umask)
+    return 0o777 & ~umask
+
+
+class StagedPack:
+    """A pack being built beside the folder `out`, swapped in whole by :meth:`finish`.
+
+    Checks `out` at once (:class:`PackFolderError` when it holds anything but a whole pack
+    the tool wrote), and makes the sibling folder the files are written to. Used as a
+    context manager: leaving the block by an exception removes what was written (the
+    files this object wrote, and nothing else) and leaves `out` as it was.
+
+    Parameters
+    ----------
+    out : str or pathlib.Path
+        The pack's folder: new, empty, or holding a whole pack the tool wrote.
+    """
+
+    def __init__(self, out: str | Path):
+        self.out = Path(out)
+        self.previous = _previous_pack(self.out)
+        self.out.parent.mkdir(parents=True, exist_ok=True)
+        for left in interrupted_exports(self.out):
+            warnings.warn(
+                f"{left}: left by an export of {self.out.name} that was stopped before it "
+                "finished; it is not the pack and the tool does not remove what it cannot "
+                "prove it wrote: look at it and remove it by hand",
+                stacklevel=2,
+            )
+        self.staging = Path(
+            tempfile.mkdtemp(prefix=f".{self.out.name}.kitchen-new-", dir=self.out.parent)
+        )
+        mode = self.out.stat().st_mode & 0o7777 if self.previous is not None else _folder_mode()
+        os.chmod(self.staging, mode)
+        self.entries: dict[str, tuple[int, str]] = {}
+
+    def __enter__(self) -> StagedPack:
+        return self
+
+    def __exit__(self, kind, error, trace) -> None:
+        if kind is not None and self.staging.exists():
+            self._remove_own(self.staging, {**self.entries, MANIFEST: None})
+
+    def write(self, relative: str, data: bytes) -> Path:
+        """Write one file of the pack (``/``-separated path inside it); its final path."""
+        if relative in self.entries or relative == MANIFEST:
+            raise ValueError(f"{relative}: written twice in one pack")
+        try:
+            atomic_write_bytes(self.staging / relative, data)
+        except OSError as error:
+            if error.errno not in (errno.ENOSPC, errno.EDQUOT):
+                raise
+            raise OSError(
+                error.errno,
+                f"{self.out}: no room on the disk for the pack ({relative} could not be "
+                "written); what was written of it is removed and the folder is left as it was",
+            ) from None
+        self.entries[relative] = (len(data), hashlib.sha256(data).hexdigest())
+        return self.out / relative
+
+    def finish(self) -> tuple[Path, tuple[Path, ...]]:
+        """Write the manifest, swap the pack in, and remove the previous one.
+
+        Returns
+        -------
+        (pathlib.Path, tuple of pathlib.Path)
+            The manifest, and the files of the previous pack this one no longer has.
+        """
+        atomic_write_bytes(self.staging / MANIFEST, manifest_bytes(self.entries))
+        previous = self.previous
+        if not previous:  # no folder, or an empty one, which a rename replaces (POSIX)
+            os.rename(self.staging, self.out)
+            aside = None
+        elif _exchange(self.staging, self.out):
+            aside = self.staging
+        else:  # no one-step swap: the previous pack is put aside first, whole
+            aside = Path(
+                tempfile.mkdtemp(prefix=f".{self.out.name}.kitchen-old-", dir=self.out.parent)
+            )
+            aside.rmdir()
+            os.rename(self.out, aside)
+            os.rename(self.staging, self.out)
+        sync_folder(self.out.parent)
+        if aside is not None:
+            self._remove_own(aside, {**(previous or {}), MANIFEST: None}, proven=True)
+        removed = sorted(set(previous or {}) - set(self.entries))
+        return self.out / MANIFEST, tuple(self.out / relative for relative in removed)
+
+    def _remove_own(self, folder: Path, listed: dict, proven: bool = False) -> None:
+        """Remove from `folder` the files named in `listed` (checked against their SHA-256
+        when `proven`), then its emptied folders; warn, naming it, where anything stays."""
+        for relative, entry in listed.items():
+            path = folder / relative
+            try:
+                status = path.lstat()
+            except FileNotFoundError:
+                continue
+            if not stat.S_ISREG(status.st_mode):
+                continue
+            if (
+                proven
+                and entry is not None
+                and (status.st_size != entry[0] or _digest(path) != entry[1])
+            ):
+                continue
+            path.unlink()
+        for root, _, _ in sorted(os.walk(folder), key=lambda item: -len(item[0])):
+            try:
+                Path(root).rmdir()
+            except OSError:
+                pass
+        if folder.exists():
+            warnings.warn(
+                f"{folder}: left in place, holding files the tool did not write there "
+                "(added while the export ran); look at them and remove the folder by hand",
+                stacklevel=3,
+            )
+
+
+def interrupted_exports(out: str | Path) -> list[Path]:
+    """Folders left beside `out` by exports that were stopped before they finished."""
+    out = Path(out)
+    if not out.parent.is_dir():
+        return []
+    pattern = (f".{out.name}.kitchen-new-", f".{out.name}.kitchen-old-")
+    return sorted(p for p in out.parent.iterdir() if p.name.startswith(pattern))

@@ -24,12 +24,14 @@ opened from inside a zip without unzipping, finds no plotly.js and says so. With
 instead and stands alone, for a page that must travel by itself (the PNG and SVG charts
 always do), at about 4.8 MB a page.
 
-Every item carries the cautions. Every file goes through
-:func:`kitchen.io.atomic_write_bytes`, so each is whole or absent. A pack is refused
-before any file is written when images are asked for without Chromium; a failure part-way
-leaves the files already written, plotly.js first among the pages, so every page present
-can draw its charts, and no new manifest. Exporting again into the same folder removes the
-files the previous manifest lists that the new pack no longer has, and nothing else.
+Every item carries the cautions. The pack is built in a folder beside `out` and swapped
+in whole once its manifest is written (:class:`kitchen.memo.manifest.StagedPack`): `out`
+holds the previous pack or the new one, never a mixture, whatever stops the export. A
+pack is refused before any file is written when images are asked for without Chromium,
+when `out` is the series' own folder or inside it, and when `out` holds anything but a
+whole pack the tool wrote; a failure part-way removes the files it wrote beside `out` and
+leaves `out` as it was. The previous pack is removed only once the new one is in place,
+and only the files it can be proven to hold (listed in its manifest, SHA-256 matching).
 
 The charts are built in :mod:`kitchen.memo.figures`, their static images made in
 :mod:`kitchen.memo.images` and the workbook, with the cautions, written in
@@ -48,7 +50,7 @@ from pathlib import Path
 from kitchen import display_units
 from kitchen.analysis import SeriesAnalysis
 from kitchen.cautions import CAUTIONS
-from kitchen.io import atomic_write_bytes, spreadsheet_safe
+from kitchen.io import spreadsheet_safe
 from kitchen.revisions import kept_log_sha256, standing_choices
 from kitchen.revisions import window_log_sha256 as window_log_digest
 from kitchen.settings import Settings, reference_label
@@ -57,8 +59,8 @@ from kitchen.workspace import Workspace
 from .figures import memo_charts
 from .images import FIRST_IMAGE_TIMEOUT as FIRST_IMAGE_TIMEOUT
 from .images import PNG_SCALE as PNG_SCALE
-from .images import figure_image, start_image_export
-from .manifest import read_manifest, write_manifest
+from .images import image_result, request_image, start_image_export
+from .manifest import PackFolderError, StagedPack
 from .markup import ChartScript
 from .pages import chart_page, report_page
 from .provenance import Provenance, memo_provenance
@@ -70,7 +72,7 @@ from .tables import (
     revisions_table,
     specimens_table,
 )
-from .workbook import notes_sheet, workbook_bytes
+from .workbook import notes_sheet, setting_texts, workbook_bytes
 
 __all__ = ["CHART_SCRIPT", "MemoPack", "export_memo_pack"]
 
@@ -227,8 +229,12 @@ def export_memo_pack(
         With `images`, when no Chromium is found (before any file is written).
     ValueError
         When the criterion or a unit is not understood.
+    PackFolderError
+        When `out` is the series' folder, inside it, or holds anything but a whole pack
+        the tool wrote (before any file is written).
     OSError
-        When an input cannot be read or the folder cannot be written.
+        When an input cannot be read or the folder cannot be written (a full disk): `out`
+        is then left as it was.
     """
     from plotly.offline import get_plotlyjs, get_plotlyjs_version
 
@@ -243,7 +249,8 @@ def export_memo_pack(
     if images:
         start_image_export()
     out = Path(out)
-    previous = read_manifest(out)  # an unreadable manifest stops the export here
+    _refuse_inputs_as_output(out, series.source)
+    staged = StagedPack(out)  # refuses a folder holding what the tool did not write
     results = workspace.results()
     given = criterion
     _, source = workspace.criterion_in_force(given)
@@ -254,7 +261,7 @@ def export_memo_pack(
     label = reference_label(settings)
     criterion_text = _criterion_text(analysis, ku, label)
     chosen = {
-        **_settings_dict(settings),
+        **setting_texts(_settings_dict(settings)),
         "criterion [m/s]": "none given" if criterion is None else f"{criterion:g}",
         "criterion kind": "none given" if criterion is None else criterion.kind,
         "criterion from": source,
@@ -308,78 +315,97 @@ def export_memo_pack(
     def write(relative: str, kind: str, data: Callable[[], bytes]) -> None:
         if progress is not None:
             progress(len(written) + 1, len(steps), f"{kind} {relative}")
-        written.append(atomic_write_bytes(out / relative, data()))
+        written.append(staged.write(relative, data()))
 
-    write(
-        "results.csv",
-        "table",
-        lambda: spreadsheet_safe(tables["tests"]).to_csv(index=False).encode("utf-8"),
-    )
-    notes = notes_sheet(provenance, criterion_text, analysis.counts)
-    write("results.xlsx", "workbook", lambda: workbook_bytes(tables, notes))
-    if script.path is not None:  # before any page that loads it
-        write(script.path, "script", lambda: script.content)
-    caption = _caption(provenance, criterion_text)
-    for name, title, figure in charts:
-        page = f"charts/{name}.html"
+    with staged:
         write(
-            page,
-            "chart",
-            lambda f=figure, n=name, t=title, p=page: chart_page(
-                t, _figure_html(f, n), CAUTIONS, provenance, script, posixpath.dirname(p)
-            ).encode("utf-8"),
+            "results.csv",
+            "table",
+            lambda: spreadsheet_safe(tables["tests"]).to_csv(index=False).encode("utf-8"),
         )
-        if images:
-            captioned = add_caption(figure, caption)
-            for ext in ("png", "svg"):
+        notes = notes_sheet(provenance, criterion_text, analysis.counts)
+        write("results.xlsx", "workbook", lambda: workbook_bytes(tables, notes))
+        if script.path is not None:  # before any page that loads it
+            write(script.path, "script", lambda: script.content)
+        caption = _caption(provenance, criterion_text)
+        requested = {}
+        if images:  # Chromium draws them in turn while the pages below are written
+            for name, _, figure in charts:
+                captioned = add_caption(figure, caption)
+                for ext in ("png", "svg"):
+                    requested[name, ext] = request_image(captioned, ext)
+        for name, title, figure in charts:
+            page = f"charts/{name}.html"
+            write(
+                page,
+                "chart",
+                lambda f=figure, n=name, t=title, p=page: chart_page(
+                    t, _figure_html(f, n), CAUTIONS, provenance, script, posixpath.dirname(p)
+                ).encode("utf-8"),
+            )
+            for ext in ("png", "svg") if images else ():
                 write(
-                    f"charts/{name}.{ext}", "chart", lambda c=captioned, e=ext: figure_image(c, e)
+                    f"charts/{name}.{ext}", "chart", lambda r=requested[name, ext]: image_result(r)
                 )
-    for page in pages:  # one page per test, with its record over time as images beside it
-        images_of = tuple(f"{page.name}.{ext}" for ext in formats[1:])
-        write(
-            f"specimens/{page.name}.html",
-            "test page",
-            lambda p=page, i=images_of: specimen_page(
-                list(p.items),
-                p.title,
-                _figure_html(p.figure, p.name),
-                i,
-                p.last_values,
-                p.b_checks,
-                CAUTIONS,
-                caption[-1],
-                script.element("specimens"),
-            ).encode("utf-8"),
-        )
-        if images:
-            captioned = add_caption(page.figure, caption)
-            for ext in ("png", "svg"):
+        if images:  # the record of each test over time, drawn while its pages are written
+            for page in pages:
+                captioned = add_caption(page.figure, caption)
+                for ext in ("png", "svg"):
+                    requested[f"specimens/{page.name}", ext] = request_image(captioned, ext)
+        for page in pages:  # one page per test, with its record over time as images beside it
+            images_of = tuple(f"{page.name}.{ext}" for ext in formats[1:])
+            write(
+                f"specimens/{page.name}.html",
+                "test page",
+                lambda p=page, i=images_of: specimen_page(
+                    list(p.items),
+                    p.title,
+                    _figure_html(p.figure, p.name),
+                    i,
+                    p.last_values,
+                    p.b_checks,
+                    CAUTIONS,
+                    caption[-1],
+                    script.element("specimens"),
+                ).encode("utf-8"),
+            )
+            for ext in ("png", "svg") if images else ():
+                key = (f"specimens/{page.name}", ext)
                 write(
                     f"specimens/{page.name}.{ext}",
                     "test page",
-                    lambda c=captioned, e=ext: figure_image(c, e),
+                    lambda r=requested[key]: image_result(r),
                 )
-    fragments = [(name, title, _figure_html(figure, name)) for name, title, figure in charts]
-    write(
-        "report.html",
-        "report",
-        lambda: report_page(
-            analysis,
-            tables,
-            fragments,
-            script,
-            provenance,
-            CAUTIONS,
-            ku,
-            du,
-            criterion_text,
-            skipped,
-            source,
-            specimen_links([(p.name, p.specimen, p.method) for p in pages]),
-        ).encode("utf-8"),
-    )
-    manifest, removed = write_manifest(out, written, previous)
+        fragments = [(name, title, _figure_html(figure, name)) for name, title, figure in charts]
+        write(
+            "report.html",
+            "report",
+            lambda: report_page(
+                analysis,
+                tables,
+                fragments,
+                script,
+                provenance,
+                CAUTIONS,
+                ku,
+                du,
+                criterion_text,
+                skipped,
+                source,
+                specimen_links([(p.name, p.specimen, p.method) for p in pages]),
+            ).encode("utf-8"),
+        )
+        manifest, removed = staged.finish()
     return MemoPack(
         out, tuple(written), analysis, provenance, time.perf_counter() - clock, manifest, removed
     )
+
+
+def _refuse_inputs_as_output(out: Path, source: Path) -> None:
+    """Refuse a pack folder that is the series' own folder or workbook, or inside it."""
+    target, series = out.resolve(), Path(source).resolve()
+    if target == series or (series.is_dir() and series in target.parents):
+        raise PackFolderError(
+            f"{out}: is the series' own folder or inside it ({source}); a pack never goes "
+            "beside the raw data: give another folder"
+        )

@@ -26,7 +26,13 @@ from kitchen.analysis import (
     NOT_JUDGED,
     SeriesAnalysis,
 )
-from kitchen.display_units import DisplayUnit, distinct_texts, scientific
+from kitchen.display_units import (
+    DisplayUnit,
+    column_format,
+    distinct_texts,
+    restate_conductivities,
+    scientific,
+)
 from kitchen.settings import reference_label
 
 from .markup import STYLE as STYLE
@@ -34,6 +40,11 @@ from .markup import ChartScript, cautions_markup, escape, number_text, page_mark
 from .provenance import Provenance
 
 __all__ = ["REDUCTION_METHODS", "VERDICT_MARKS", "chart_page", "report_page"]
+
+PERCENT = column_format("[%]")
+"""Water content and saturation: to 0.1 % (the one format, as in the panels and the workbook)."""
+VOID_RATIO = column_format("void_ratio")
+"""Void ratio: to 0.001."""
 
 REDUCTION_METHODS = (
     (
@@ -166,9 +177,9 @@ def _specimen_rows(analysis: SeriesAnalysis, ku: DisplayUnit, du: DisplayUnit) -
     zones = ["–" if pd.isna(v) else ("yes" if v else "no") for v in analysis.zone_membership()]
     for (_, row), zone in zip(analysis.specimens.iterrows(), zones, strict=True):
         interval = "–"
-        k_text = scientific(row["k"] * ku.factor, html=True)
+        k_text = ku.number.text(row["k"] * ku.factor, html=True)
         if pd.notna(row["k_low"]):
-            k_text, low, high = distinct_texts(ku, row["k"], row["k_low"], row["k_high"])
+            low, high = distinct_texts(ku, row["k_low"], row["k_high"])
             interval = f"{low} – {high}"
         water = row["water_content"]
         saturation = pd.to_numeric(row["saturation"], errors="coerce")
@@ -177,11 +188,11 @@ def _specimen_rows(analysis: SeriesAnalysis, ku: DisplayUnit, du: DisplayUnit) -
                 escape(row["specimen"]),
                 escape(row["effort"]) if pd.notna(row["effort"]) else "–",
                 escape(str(row["method"]).replace("_", " ")),
-                number_text(100 * water) if pd.notna(water) else "–",
-                f"{row['dry_density'] * du.factor:.4g}",
-                f"{row['void_ratio']:.3f}",
-                number_text(100 * saturation) if pd.notna(saturation) else "–",
-                scientific(row["k"] * ku.factor, html=True),
+                PERCENT.text(100 * water),
+                du.number.text(row["dry_density"] * du.factor),
+                VOID_RATIO.text(row["void_ratio"]),
+                PERCENT.text(100 * saturation),
+                k_text,
                 interval,
                 _validity_text(row),
                 f"{VERDICT_MARKS[row['verdict']]} {escape(row['verdict'])}",
@@ -287,9 +298,13 @@ def _fits(tables) -> str:
     )
 
 
-def _checks(tables) -> str:
+def _checks(tables, ku: DisplayUnit) -> str:
     rows = [
-        (escape(r["specimen"]), escape(str(r["method"]).replace("_", " ")), escape(r["check"]))
+        (
+            escape(r["specimen"]),
+            escape(str(r["method"]).replace("_", " ")),
+            escape(restate_conductivities(str(r["check"]), ku.unit)),
+        )
         for _, r in tables["checks"].iterrows()
     ]
     return table_markup(["specimen", "test", "check or note"], rows)
@@ -481,7 +496,7 @@ def report_page(
             "<h2>Criteria applied</h2>",
             criteria,
             "<h2>Checks and notes</h2>",
-            _checks(tables),
+            _checks(tables, ku),
             f"<ul>{notes}</ul>" if notes else "",
             "<h2>Revisions and tests kept on record</h2>",
             _on_record(tables),

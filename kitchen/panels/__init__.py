@@ -9,6 +9,9 @@ set a control's ``value`` and assert on the figure data and the results without 
 - :func:`series_chart_panel` (``04_series_chart``): the series charts and the memo pack.
 - :func:`revise_panel` (``05_revise``): revise a value, see what moved.
 
+:func:`workbook_panel` puts a series chooser above any of them (no code to edit): the
+series opened is remembered for the other notebooks, and a sample is worked on in a
+working copy (:func:`working_copy`), never where it lies.
 :func:`scratch_copy` copies a series to a scratch folder, to try revisions on.
 The panels need the ``lab`` extra (ipywidgets, plotly, anywidget); the core does not.
 """
@@ -28,6 +31,15 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "RevisePanel": "revise",
         "revise_panel": "revise",
         "SeriesChartPanel": "series_chart",
+        "SeriesChooser": "series_choice",
+        "WorkbookPanel": "series_choice",
+        "forget_series": "series_choice",
+        "remember_series": "series_choice",
+        "remembered_series": "series_choice",
+        "series_chooser": "series_choice",
+        "workbook_panel": "series_choice",
+        "working_copy": "series_choice",
+        "working_folder": "series_choice",
         "series_chart_panel": "series_chart",
     },
 )
@@ -37,11 +49,20 @@ __all__ = [
     "FallingHeadPanel",
     "RevisePanel",
     "SeriesChartPanel",
+    "SeriesChooser",
     "SeriesPanel",
+    "WorkbookPanel",
     "constant_head_panel",
     "falling_head_panel",
+    "forget_series",
+    "remember_series",
+    "remembered_series",
     "revise_panel",
     "scratch_copy",
     "series_chart_panel",
+    "series_chooser",
     "series_panel",
+    "workbook_panel",
+    "working_copy",
+    "working_folder",
 ]

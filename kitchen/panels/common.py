@@ -25,7 +25,7 @@ import ipywidgets as widgets
 import numpy as np
 import pandas as pd
 
-from kitchen.display_units import superscript
+from kitchen.display_units import column_format, superscript
 from kitchen.io import SeriesError, UnitError
 from kitchen.memo import table_markup
 from kitchen.revisions import RevisionError, revisions_path
@@ -96,13 +96,19 @@ class MessageArea:
         other error is a fault, shown with its traceback folded away.
         """
         self.exception = error
-        if isinstance(error, (SeriesError, RevisionError)):
-            kind = "series" if isinstance(error, SeriesError) else "revisions"
+        if isinstance(error, SeriesError):
             self.message = f"Could not finish {doing}: " + "; ".join(map(str, error.problems))
             items = "".join(f"<li>{html.escape(str(p))}</li>" for p in error.problems)
             body = (
-                f"<b>{len(error.problems)} problem(s) with the {kind}</b> — nothing was "
+                f"<b>{len(error.problems)} problem(s) with the series</b> — nothing was "
                 f"changed. Correct the files and try again.<ul>{items}</ul>"
+            )
+        elif isinstance(error, RevisionError):  # a refusal of what was typed, or a damaged log
+            self.message = f"Could not finish {doing}: " + "; ".join(map(str, error.problems))
+            items = "".join(f"<li>{html.escape(str(p))}</li>" for p in error.problems)
+            body = (
+                f"<b>Could not finish {html.escape(doing)}</b> — nothing was written:"
+                f"<ul>{items}</ul>"
             )
         elif isinstance(error, (ValueError, UnitError, OSError, KeyError, *expected)):
             text = error.args[0] if isinstance(error, KeyError) and error.args else str(error)
@@ -221,8 +227,10 @@ def format_conductivity(value, unit: str = "m/s", digits: int = 3) -> str:
 def html_table(frame: pd.DataFrame, formats: dict | None = None, text_columns=()) -> str:
     """A DataFrame as a compact HTML table (values escaped; NaN shown as "–").
 
-    ``formats`` maps a column to a function from value to text; other numbers get three
-    significant figures. ``text_columns`` are left-aligned and wrap. The markup is that of
+    ``formats`` maps a column to a function from value to text; other numbers are written
+    in their column's one format (:func:`kitchen.display_units.column_format`: k to three
+    significant figures, a density, a water content or a void ratio to fixed decimals), or
+    to three significant figures. ``text_columns`` are left-aligned and wrap. The markup is that of
     the memo's pages (:func:`kitchen.memo.table_markup`), in the panels' style.
     """
     formats = formats or {}
@@ -238,7 +246,8 @@ def html_table(frame: pd.DataFrame, formats: dict | None = None, text_columns=()
             elif isinstance(value, (bool, np.bool_)):
                 text = "yes" if value else "no"
             elif isinstance(value, (float, np.floating)):
-                text = format_number(float(value))
+                style = column_format(column)
+                text = style.text(value) if style else format_number(float(value))
             elif value is None or value is pd.NA:
                 text = "–"
             else:

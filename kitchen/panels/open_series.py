@@ -8,6 +8,7 @@ A series that cannot be used shows its problems as a list, never a traceback.
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -20,9 +21,9 @@ from kitchen.settings import Settings
 from kitchen.water import VISCOSITY_METHODS
 from kitchen.workspace import Workspace
 
-from .common import MessageArea, ProgressBar, format_conductivity, format_fixed, html_table
+from .common import MessageArea, ProgressBar, html_table
 
-__all__ = ["SeriesPanel", "series_panel", "VISCOSITY_LABELS"]
+__all__ = ["SeriesPanel", "series_panel", "VISCOSITY_LABELS", "COMPACT_COLUMNS", "results_columns"]
 
 VISCOSITY_LABELS = {
     "kestin": "Kestin, Sokolov & Wakeham (1978)",
@@ -32,22 +33,40 @@ VISCOSITY_LABELS = {
 """How the viscosity methods are named in the panels."""
 
 
-def _k_format(value):
-    return format_conductivity(value)
+COMPACT_COLUMNS = (
+    "specimen",
+    "method",
+    "water_content [%]",
+    "dry_density [Mg/m3]",
+    "void_ratio",
+    "saturation [%]",
+    "valid",
+    "notes",
+)
+"""The columns of the results table's compact view, with the corrected k and its interval
+(``k20 [m/s]``, ``k20_low [m/s]``, ``k20_high [m/s]``, whatever the reference temperature);
+every column is one click away."""
+
+VIEWS = ("compact", "all columns")
+"""The views of the results table."""
+
+TEXT_COLUMNS = ("notes", "checks", "check that did not pass")
+"""Columns of sentences: left-aligned and wrapped."""
 
 
-def _formats(table: pd.DataFrame) -> dict:
-    formats = {}
+def results_columns(table: pd.DataFrame, view: str) -> list[str]:
+    """The columns of the results `table` shown in `view` (one of :data:`VIEWS`)."""
+    if view not in VIEWS:
+        raise ValueError(f"results view {view!r}: expected one of {', '.join(VIEWS)}")
+    if view == "all columns":
+        return list(table.columns)
+    corrected = re.compile(r"^k\d[\d_]*(?P<end>_low|_high)? \[")  # k20, k27_5_low...
+    shown = []
     for column in table.columns:
-        if column.startswith("k") and column.endswith("[m/s]"):
-            formats[column] = _k_format
-        elif column.endswith("[%]") or column == "temperature [degC]":
-            formats[column] = lambda v: format_fixed(v, 1)
-        elif column in ("dry_density [Mg/m3]", "void_ratio", "porosity", "specific_gravity"):
-            formats[column] = lambda v: format_fixed(v, 3)
-        elif column.endswith("[mm]") or column.endswith("[g]") or column.endswith("[mm2]"):
-            formats[column] = lambda v: format_fixed(v, 2)
-    return formats
+        match = corrected.match(column)
+        if column in COMPACT_COLUMNS or match is not None:
+            shown.append(column)
+    return shown
 
 
 def specimens_as_read(series: Series) -> pd.DataFrame:
@@ -88,6 +107,9 @@ class SeriesPanel:
         Water viscosity method.
     results_view, specimens_view, checks_view : ipywidgets.HTML
         The results table, the specimens as read, and the checks that did not pass.
+    columns : ipywidgets.ToggleButtons
+        The results table's view: ``compact`` (:data:`COMPACT_COLUMNS`, what fits the
+        notebook) or ``all columns``.
     error : MessageArea
         Problems with the series, or a failure, in words.
     progress : ProgressBar
@@ -115,6 +137,7 @@ class SeriesPanel:
     results_view: widgets.HTML
     specimens_view: widgets.HTML
     checks_view: widgets.HTML
+    columns: widgets.ToggleButtons
     error: MessageArea
     progress: ProgressBar
     settings: Settings
@@ -167,10 +190,8 @@ class SeriesPanel:
         self.workspace.set_settings(self.settings)
         self.results = self.workspace.results()
         self.table = self.workspace.results_table()
-        shown = self.table.drop(columns=["checks"])
-        self.results_view.value = html_table(shown, _formats(shown))
-        as_read = specimens_as_read(self.series)
-        self.specimens_view.value = html_table(as_read, _formats(as_read))
+        self._show_results()
+        self.specimens_view.value = html_table(specimens_as_read(self.series))
         failed = self.results[self.results["checks"].map(len) > 0]
         if failed.empty:
             self.checks_view.value = "<p>Every check passed for every specimen.</p>"
@@ -182,10 +203,19 @@ class SeriesPanel:
                     "check that did not pass": failed["checks"].map("; ".join),
                 }
             )
-            self.checks_view.value = html_table(rows, text_columns=("check that did not pass",))
+            self.checks_view.value = html_table(rows, text_columns=TEXT_COLUMNS)
+
+    def _show_results(self, _change=None) -> None:
+        if self.table is None:
+            return
+        shown = self.table.drop(columns=["checks"])
+        shown = shown[[c for c in results_columns(shown, self.columns.value)]]
+        self.results_view.value = html_table(shown, text_columns=TEXT_COLUMNS)
 
 
-def series_panel(path: str | Path, settings: Settings | None = None) -> SeriesPanel:
+def series_panel(
+    path: str | Path, settings: Settings | None = None, choose: bool = True
+) -> SeriesPanel:
     """Build the open-a-series panel and load the series at `path`.
 
     Parameters
@@ -194,6 +224,9 @@ def series_panel(path: str | Path, settings: Settings | None = None) -> SeriesPa
         Series folder or ``.xlsx`` workbook, shown in the path box.
     settings : Settings, optional
         Starting reference temperature and viscosity method.
+    choose : bool, default True
+        Show the path box and the load button; False where a series chooser above the
+        panel chooses the series (:func:`kitchen.panels.workbook_panel`).
 
     Returns
     -------
@@ -223,9 +256,16 @@ def series_panel(path: str | Path, settings: Settings | None = None) -> SeriesPa
         layout=widgets.Layout(width="380px"),
     )
     results_view, specimens_view, checks_view = widgets.HTML(), widgets.HTML(), widgets.HTML()
+    columns = widgets.ToggleButtons(
+        options=list(VIEWS),
+        value="compact",
+        description="Show",
+        tooltips=["what fits: state, k with its interval, validity, notes", "every column"],
+        style={"button_width": "110px"},
+    )
     tabs = widgets.Tab(
         children=[
-            results_view,
+            widgets.VBox([columns, results_view]),
             widgets.VBox([checks_view]),
             specimens_view,
         ]
@@ -235,7 +275,7 @@ def series_panel(path: str | Path, settings: Settings | None = None) -> SeriesPa
     error, progress = MessageArea(), ProgressBar()
     box = widgets.VBox(
         [
-            widgets.HBox([path_box, load]),
+            *([widgets.HBox([path_box, load])] if choose else []),
             widgets.HBox([reference, viscosity]),
             progress.widget,
             error.widget,
@@ -251,6 +291,7 @@ def series_panel(path: str | Path, settings: Settings | None = None) -> SeriesPa
         results_view=results_view,
         specimens_view=specimens_view,
         checks_view=checks_view,
+        columns=columns,
         error=error,
         progress=progress,
         settings=settings,
@@ -258,5 +299,6 @@ def series_panel(path: str | Path, settings: Settings | None = None) -> SeriesPa
     load.on_click(lambda _button: panel._load())
     reference.observe(panel._settings_changed, names="value")
     viscosity.observe(panel._settings_changed, names="value")
+    columns.observe(panel._show_results, names="value")
     panel._load()
     return panel

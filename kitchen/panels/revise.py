@@ -125,7 +125,9 @@ class RevisePanel:
     current : ipywidgets.HTML
         The value as it stands (revisions applied), in the unit of the file.
     value, reason, who : ipywidgets.Text
-        The new value with its unit (``116.5 mm``), why (required), who (optional).
+        The new value with its unit (``116.5 mm``), why (required), who (optional). The
+        value and the reason are emptied once the revision is recorded: the next one gets
+        a reason of its own.
     criterion : ipywidgets.Text
         For the verdicts of the before/after table and the series chart (``1e-9 m/s``):
         opens on the series' own (its project table), empty when it has none; empty, the
@@ -134,8 +136,16 @@ class RevisePanel:
         Appends the revision to the log and shows what it moved.
     withdraw_choice : ipywidgets.Dropdown
         Revisions in force (the latest chosen).
+    withdraw_reason : ipywidgets.Text
+        Why the chosen revision no longer stands (required; never the revision's own
+        reason, which has a box of its own).
+    withdraw_confirm : ipywidgets.Checkbox
+        "I withdraw revision N": ticked to confirm, unticked again whenever another
+        revision is chosen and after each withdrawal.
     withdraw : ipywidgets.Button
-        Withdraws the chosen revision (with ``reason``) by a new row.
+        Withdraws the chosen revision, with ``withdraw_reason``, by a new row.
+    withdraw_error : MessageArea
+        Why a withdrawal was refused, shown beside its button.
     changes : ipywidgets.HTML
         What the last revision (or withdrawal) moved.
     history : ipywidgets.HTML
@@ -152,6 +162,7 @@ class RevisePanel:
     timings : dict of str to float
         Seconds spent in each stage of the last revision or withdrawal, recording first.
     error : MessageArea
+        Why a revision was refused (beside **Record revision**), or a chart not drawn.
     changed : pandas.DataFrame or None
         :func:`kitchen.workspace.what_changed` of the last action.
     last : Revision or None
@@ -182,6 +193,9 @@ class RevisePanel:
     specimen_chart: go.FigureWidget | None = None
     chart_note: widgets.HTML | None = None
     chart_boxes: tuple = ()
+    withdraw_reason: widgets.Text | None = None
+    withdraw_confirm: widgets.Checkbox | None = None
+    withdraw_error: MessageArea | None = None
     timings: dict = field(default_factory=dict)
     results: pd.DataFrame | None = None
     changed: pd.DataFrame | None = None
@@ -221,6 +235,16 @@ class RevisePanel:
         ids = [r.id for r in standing]
         self.withdraw_choice.value = keep if keep in ids else (ids[-1] if ids else None)
         self.withdraw.disabled = not standing
+        self._withdraw_chosen()
+
+    def _withdraw_chosen(self, _change=None) -> None:
+        """Untick the confirmation and name the revision it confirms."""
+        chosen = self.withdraw_choice.value
+        self.withdraw_confirm.value = False
+        self.withdraw_confirm.description = (
+            f"I withdraw revision {chosen}" if chosen else "no revision in force"
+        )
+        self.withdraw_confirm.disabled = not chosen
 
     def redraw(self, _change=None) -> None:
         """Draw the series chart and the chart of the specimen in the form, as they stand."""
@@ -314,6 +338,7 @@ class RevisePanel:
     # --- actions ----------------------------------------------------------------------------
     def record_revision(self, _button=None) -> None:
         """Append the revision typed in the form and show what it moved."""
+        self.withdraw_error.clear()
         self.error.guard("recording the revision")(self._record)()
 
     def _record(self) -> None:
@@ -330,18 +355,33 @@ class RevisePanel:
         )
         self._after(before, f"Revision {self.last.id} recorded: {self.last.describe()}.", started)
         self.value.value = ""
+        self.reason.value = ""  # the next revision says its own why
+        self.withdraw_choice.value = self.last.id  # the one just recorded, to withdraw
 
     def withdraw_revision(self, _button=None) -> None:
-        """Withdraw the revision chosen in ``withdraw_choice`` (reason from ``reason``)."""
-        self.error.guard("withdrawing the revision")(self._withdraw)()
+        """Withdraw the revision chosen in ``withdraw_choice``, with ``withdraw_reason``,
+        once ``withdraw_confirm`` is ticked."""
+        self.error.clear()
+        self.withdraw_error.guard("withdrawing the revision")(self._withdraw)()
 
     def _withdraw(self) -> None:
-        if not self.withdraw_choice.value:
-            raise ValueError("no revision in force to withdraw")
+        chosen = self.withdraw_choice.value
+        if not chosen:
+            raise ValueError("there is no revision in force to withdraw")
+        reason = self.withdraw_reason.value.strip()
+        if not reason:
+            raise ValueError(
+                f"a withdrawal needs a reason: say why revision {chosen} no longer stands "
+                "(for example 'the first measurement was right'); nothing was written"
+            )
+        if not self.withdraw_confirm.value:
+            raise ValueError(
+                f"tick 'I withdraw revision {chosen}' to confirm the withdrawal; "
+                "nothing was written"
+            )
         before, started = self.results, time.perf_counter()
-        self.last = self.workspace.withdraw(
-            self.withdraw_choice.value, reason=self.reason.value, who=self.who.value
-        )
+        self.last = self.workspace.withdraw(chosen, reason=reason, who=self.who.value)
+        self.withdraw_reason.value = ""
         self._after(before, f"Withdrawal {self.last.id} recorded: {self.last.describe()}.", started)
 
     def _after(self, before: pd.DataFrame, headline: str, started: float) -> None:
@@ -463,7 +503,7 @@ def revise_panel(
         withdraw_choice=widgets.Dropdown(
             description="In force", layout=widgets.Layout(width="620px")
         ),
-        withdraw=widgets.Button(description="Withdraw it"),
+        withdraw=widgets.Button(description="Withdraw it", icon="undo"),
         changes=widgets.HTML(),
         history=widgets.HTML(),
         error=MessageArea(),
@@ -472,6 +512,14 @@ def revise_panel(
         chart_note=widgets.HTML(),
     )
     panel.chart_boxes = (widgets.Box([panel.specimen_chart]), widgets.Box([panel.series_chart]))
+    panel.withdraw_reason = widgets.Text(
+        description="Why withdraw",
+        placeholder="required: the first measurement was right",
+        layout=widgets.Layout(width="460px"),
+        **wide,
+    )
+    panel.withdraw_confirm = widgets.Checkbox(value=False, indent=False)
+    panel.withdraw_error = MessageArea()
     panel._refresh_log()
     panel._choose_table()
     panel.table_choice.observe(panel._choose_table, names="value")
@@ -480,6 +528,7 @@ def revise_panel(
     panel.reading.observe(panel._show_current, names="value")
     panel.record.on_click(panel.record_revision)
     panel.withdraw.on_click(panel.withdraw_revision)
+    panel.withdraw_choice.observe(panel._withdraw_chosen, names="value")
     panel.redraw()
     panel.specimen.observe(panel.redraw, names="value")
     panel.criterion.observe(panel.redraw, names="value")
@@ -497,6 +546,9 @@ def revise_panel(
         *panel.chart_boxes,
         widgets.HTML("<b>Revision log</b>"),
         panel.history,
-        widgets.HBox([panel.withdraw_choice, panel.withdraw]),
+        widgets.HTML("<b>Withdraw a revision</b> (a later row says it no longer stands)"),
+        panel.withdraw_choice,
+        widgets.HBox([panel.withdraw_reason, panel.withdraw_confirm, panel.withdraw]),
+        panel.withdraw_error.widget,
     ]
     return panel

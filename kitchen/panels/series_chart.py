@@ -22,7 +22,7 @@ import plotly.graph_objects as go
 
 from kitchen import charts
 from kitchen.analysis import Criterion, SeriesAnalysis, parse_criterion
-from kitchen.display_units import DENSITY_UNITS, K_UNITS
+from kitchen.display_units import DENSITY_UNITS, K_UNITS, density_unit
 from kitchen.io import Series, SeriesError
 from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace
@@ -31,7 +31,6 @@ from .common import (
     MessageArea,
     ProgressBar,
     format_conductivity,
-    format_fixed,
     html_table,
     open_workspace,
 )
@@ -47,17 +46,21 @@ CHARTS = (
 """The panel's charts: key and tab title."""
 
 
-def verdict_table(analysis: SeriesAnalysis, unit: str, label: str) -> pd.DataFrame:
-    """One row per specimen: state, k with its interval, its validity beside the verdict."""
+def verdict_table(
+    analysis: SeriesAnalysis, unit: str, label: str, density: str = "Mg/m³"
+) -> pd.DataFrame:
+    """One row per specimen: state, k with its interval, its validity beside the verdict;
+    k in `unit` and the dry density (or unit weight) in `density`, as the charts show them."""
     rows = analysis.specimens
     factor = K_UNITS[unit].factor
+    shown = density_unit(density)
     return pd.DataFrame(
         {
             "specimen": rows["specimen"],
             "effort": rows["effort"],
             "method": rows["method"].str.replace("_", " "),
             "w [%]": rows["water_content"] * 100,
-            "ρd [Mg/m³]": rows["dry_density"] / 1000,
+            f"{shown.symbol} [{shown.unit}]": rows["dry_density"] * shown.factor,
             "e": rows["void_ratio"],
             f"{label} [{unit}]": rows["k"] * factor,
             f"low [{unit}]": rows["k_low"] * factor,
@@ -93,8 +96,10 @@ class SeriesChartPanel:
         ``"compaction"``, ``"void_ratio"``, ``"dry_density"`` (see :data:`CHARTS`).
     chart_choice : ipywidgets.ToggleButtons
         Which chart the chart box shows.
-    chart_box : ipywidgets.Box
-        The chart chosen, or why it is not drawn.
+    chart_box : ipywidgets.VBox
+        Every chart's pane (``panes``), only the chosen one shown: its figure, or why it
+        is not drawn (``shown_chart``).
+    panes : dict of str to ipywidgets.VBox
     drawn : dict of str to bool
         Whether each chart could be drawn for the series.
     verdicts : ipywidgets.HTML
@@ -144,15 +149,33 @@ class SeriesChartPanel:
     missing: dict = field(default_factory=dict)
     drawn: dict = field(default_factory=dict)
     criterion_source: str = ""
+    panes: dict = field(default_factory=dict)
+    """Each chart's pane in the chart box: its figure (in a box) and why it is not drawn."""
     own_text: str = ""
     """The series' own criterion as its project table writes it ("" when it has none)."""
 
     def _show_chart(self, _change=None) -> None:
-        """Show the chosen chart (or why it is not drawn) in the chart box."""
+        """Show the chosen chart (or why it is not drawn); hide the others, keeping them.
+
+        Every figure stays in the chart box from the start, each in a pane of its own, and
+        a choice only hides or shows panes. A figure taken out of the page and put back
+        gets a new view, while its old view keeps listening for updates to a plot that is
+        gone; the first update then fails in the browser before it reaches the new view,
+        and the chart shown stops following the controls. Hidden panes keep their views
+        (laid out at no height, so plotly still measures the legend and titles right).
+        """
         key = self.chart_choice.value
-        shown = self.figures[key] if self.drawn.get(key) else self.missing[key]
-        if self.chart_box.children != (shown,):
-            self.chart_box.children = [shown]
+        for name, pane in self.panes.items():
+            chosen, drawn = name == key, bool(self.drawn.get(name))
+            _set_visible(pane, chosen)
+            _set_visible(pane.children[0], chosen and drawn)
+            _set_visible(pane.children[1], chosen and not drawn)
+
+    @property
+    def shown_chart(self):
+        """What the chart box shows now: the chosen figure, or why it is not drawn."""
+        key = self.chart_choice.value
+        return self.figures[key] if self.drawn.get(key) else self.missing[key]
 
     @property
     def criterion_value(self) -> Criterion | None:
@@ -221,18 +244,7 @@ class SeriesChartPanel:
                 f"{format_conductivity(mean.high, unit)})."
             )
         self.verdicts.value = line
-        k_format = {
-            column: (lambda v, u=unit: format_conductivity(v / K_UNITS[u].factor, u))
-            for column in (f"{label} [{unit}]", f"low [{unit}]", f"high [{unit}]")
-        }
-        k_format.update(
-            {
-                "w [%]": lambda v: format_fixed(v, 1),
-                "ρd [Mg/m³]": lambda v: format_fixed(v, 3),
-                "e": lambda v: format_fixed(v, 3),
-            }
-        )
-        self.table.value = html_table(verdict_table(self.analysis, unit, label), k_format)
+        self.table.value = html_table(verdict_table(self.analysis, unit, label, density))
         self.error.show_notes(not_drawn + list(self.analysis.notes))
 
     def write_memo_pack(self, _button=None) -> None:
@@ -270,6 +282,13 @@ class SeriesChartPanel:
             f"{len(self.exported)} file(s) written to {folder} in {written.seconds:.0f} s; "
             "open report.html there"
         )
+
+
+def _set_visible(box: widgets.Box, visible: bool) -> None:
+    """Show a box, or hide it while keeping it laid out (no height, nothing drawn)."""
+    box.layout.visibility = "visible" if visible else "hidden"
+    box.layout.height = None if visible else "0px"
+    box.layout.overflow = None if visible else "hidden"
 
 
 def series_chart_panel(
@@ -356,7 +375,7 @@ def series_chart_panel(
         own_text=own,
     )
     panel.missing = {key: widgets.HTML() for key, _ in CHARTS}
-    # one chart at a time in a plain box: a FigureWidget in a hidden tab is never drawn
+    # every figure stays in the page, one pane shown at a time (see _show_chart)
     panel.chart_choice = widgets.ToggleButtons(
         options=[(title, key) for key, title in CHARTS],
         value=CHARTS[0][0],
@@ -364,7 +383,12 @@ def series_chart_panel(
         layout=widgets.Layout(width="auto"),
     )
     panel.chart_choice.style.button_width = "150px"
-    panel.chart_box = widgets.Box()
+    panel.panes = {
+        key: widgets.VBox([widgets.Box([panel.figures[key]]), panel.missing[key]])
+        for key, _ in CHARTS
+    }
+    panel.chart_box = widgets.VBox(list(panel.panes.values()))
+    panel.chart_box.add_class("kitchen-chart-box")
     panel.refresh()
     first = next((key for key, _ in CHARTS if panel.drawn.get(key)), CHARTS[0][0])
     panel.chart_choice.value = first

@@ -289,13 +289,50 @@ def _shortest_span(tau, heads, start, stop, count, head_scatter, rate, precision
     return high, uncertainty(high)
 
 
-def window_interval(record, k_reference, fitted, start, stop, temperature) -> UncertaintyResult:
+DATUM = "tailwater datum"
+"""Name of the datum's input quantity in an uncertainty budget."""
+
+
+def datum_sensitivity(time: np.ndarray, head: np.ndarray) -> float:
+    """b′/b: how a datum error δ moves a log-linear k, which is multiplied by 1 − δ·b′/b.
+
+    b is the least-squares slope of ln h on t, b′ that of 1/h on t, over the same readings;
+    from ln(h − δ) ≈ ln h − δ/h (first-order Taylor expansion) and the linearity of the
+    least-squares slope in y (Montgomery & Runger, *Applied Statistics and Probability for
+    Engineers*, simple linear regression, b = Sxy/Sxx). [1/m]
+
+    >>> t = np.array([0.0, 1.0, 2.0]); h = np.exp(-t)
+    >>> expected = np.polyfit(t, 1 / h, 1)[0] / np.polyfit(t, np.log(h), 1)[0]
+    >>> bool(abs(datum_sensitivity(t, h) - expected) < 1e-9 * abs(expected))
+    True
+    """
+    time = np.asarray(time, dtype=float)
+    head = np.asarray(head, dtype=float)
+    mean_time = float(time.mean())
+    reciprocal = np.reciprocal(head)
+    across = float(np.dot(time, reciprocal)) - mean_time * float(reciprocal.sum())
+    del reciprocal
+    log_head = np.log(head)
+    along = float(np.dot(time, log_head)) - mean_time * float(log_head.sum())
+    return across / along
+
+
+def window_interval(
+    record, k_reference, fitted, start, stop, temperature, *, datum_fitted: bool = False
+) -> UncertaintyResult:
     """The 95 % interval of k over readings ``start`` to ``stop - 1`` of `record`.
 
     `fitted` is the input quantity of the fit (None for two readings, whose head and time
     resolutions then enter directly through k ∝ ln(h1/h2)/(t2 − t1)); the specimen's
     dimensions, the standpipe areas and the temperature enter as
     :func:`kitchen.uncertainty.conductivity_interval` takes them. [m/s]
+
+    Unless the datum is fitted (`datum_fitted`, the datum-fitted decay), the tailwater datum
+    enters as a rectangular error δ of half-width ``settings.datum_tolerance`` common to
+    every head: the heads measured from the right datum are h − δ. For two readings k ∝
+    ln((h1 − δ)/(h2 − δ)) exactly; for a fit, ln(h − δ) ≈ ln h − δ/h to first order, so
+    the least-squares slope of ln h on t becomes b − δ·b′, b′ the slope of 1/h on t, and
+    k is multiplied by 1 − δ·b′/b (:func:`datum_sensitivity`).
 
     References
     ----------
@@ -309,6 +346,8 @@ def window_interval(record, k_reference, fitted, start, stop, temperature) -> Un
     resolutions = settings.resolutions
     readings: tuple[InputQuantity, ...] = ()
     factor = None
+    tolerance = 0.0 if datum_fitted else settings.datum_tolerance
+    datum = (rectangular_quantity(DATUM, 0.0, 2.0 * tolerance),) if tolerance > 0 else ()
     if fitted is None:  # two readings: their resolutions enter directly
         h1, h2 = (float(h) for h in record.corrected_head[start : start + 2])
         t1, t2 = (float(t) for t in record.time[start : start + 2])
@@ -317,12 +356,25 @@ def window_interval(record, k_reference, fitted, start, stop, temperature) -> Un
             rectangular_quantity("second head", h2, resolutions.head_scale),
             rectangular_quantity("first time", t1, resolutions.timer),
             rectangular_quantity("second time", t2, resolutions.timer),
-        )
+        ) + datum
         fall, elapsed = math.log(h1 / h2), t2 - t1
 
         def factor(values):
-            new_fall = np.log(values["first head"] / values["second head"])
+            offset = values[DATUM] if datum else 0.0
+            with np.errstate(divide="ignore", invalid="ignore"):
+                new_fall = np.log(
+                    (values["first head"] - offset) / (values["second head"] - offset)
+                )
             return new_fall / fall * elapsed / (values["second time"] - values["first time"])
+
+    elif datum:
+        readings = datum
+        sensitivity = datum_sensitivity(
+            record.reference_time[start:stop], record.corrected_head[start:stop]
+        )
+
+        def factor(values):
+            return 1.0 - values[DATUM] * sensitivity
 
     return conductivity_interval(
         k_reference,

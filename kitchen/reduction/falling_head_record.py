@@ -627,7 +627,9 @@ def _analyse(
         diagnosis = curvature_diagnosis(runs, curvature, decay is not None)
     else:
         diagnosis = ""
-    interval = window_interval(record, k_reference, fitted, start, stop, temperature)
+    interval = window_interval(
+        record, k_reference, fitted, start, stop, temperature, datum_fitted=decay is not None
+    )
     if decay is None:
         increment_k = record.increment_k
     else:

@@ -32,7 +32,9 @@ from its modules: :class:`Revision`, :class:`RevisionError`, :data:`LOG_COLUMNS`
 :func:`chosen_windows`, :func:`choose_window` and :func:`clear_window` (the window log);
 :class:`KeptTest`, :class:`KeptTestError`, :data:`KEPT_LOG_COLUMNS`, :data:`KEPT_METHODS`,
 :func:`kept_tests_path`, :func:`read_kept_tests`, :func:`kept_log_sha256`,
-:func:`standing_kept`, :func:`keep_test` and :func:`withdraw_kept_test` (the kept-tests log).
+:func:`standing_kept`, :func:`keep_test` and :func:`withdraw_kept_test` (the kept-tests log);
+:func:`readable_part` (a log's last row cut short by a full disk: named, left out, and no
+row appended after it until it is mended).
 What a revision changed in the results is worked out in :mod:`kitchen.workspace`.
 
 References
@@ -45,6 +47,7 @@ from kitchen import _lazy
 __getattr__, __dir__ = _lazy.lazy_face(
     __name__,
     {
+        "readable_part": "_logbook",
         "EffectiveSeries": "effective",
         "apply_revisions": "effective",
         "load_effective_series": "effective",
@@ -106,6 +109,7 @@ __all__ = [
     "read_kept_tests",
     "read_revisions",
     "read_window_choices",
+    "readable_part",
     "revise",
     "Revision",
     "RevisionError",

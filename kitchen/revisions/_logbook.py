@@ -17,6 +17,7 @@ import csv
 import hashlib
 import io
 import re
+import warnings
 from collections.abc import Callable, Sequence
 from datetime import datetime
 from pathlib import Path
@@ -25,6 +26,8 @@ from kitchen.io import append_line, folder_lock
 
 __all__ = [
     "LogError",
+    "readable_part",
+    "whole_rows",
     "log_path",
     "read_log",
     "parse_log",
@@ -51,6 +54,40 @@ class LogError(ValueError):
         else:
             lines = [f"{len(self.problems)} problem(s) with {self.subject}:"]
             super().__init__("\n".join(lines + [f"  - {p}" for p in self.problems]))
+
+
+def readable_part(data: bytes, label: str) -> tuple[bytes, str | None]:
+    """A log's bytes without a last row cut short, and the notice naming that row.
+
+    Every row the tool appends ends with a line feed, written in the same ``write``, so a
+    log whose last line has none holds a row cut short (a full disk, the machine stopped
+    mid-write). That torn row, and only it, is left out and named in a warning; every row
+    before it is read. Appending is refused until a person mends it
+    (:func:`append_log_row`), so no new row is ever glued onto it.
+
+    Returns
+    -------
+    (bytes, str or None)
+        The bytes up to the last whole line, and the notice (None when nothing was torn).
+    """
+    if not data or data.endswith(b"\n"):
+        return data, None
+    kept = data[: data.rfind(b"\n") + 1]
+    row = kept.count(b"\n") + 1
+    notice = (
+        f"{label}, row {row}: the last row is cut short (a write that did not finish: a full "
+        "disk, or the machine stopped) and is left out; the rows before it are read. No row "
+        "is added until it is mended: complete that line or delete it, by hand"
+    )
+    return kept, notice
+
+
+def whole_rows(data: bytes, label: str) -> bytes:
+    """`data` without a torn last row (:func:`readable_part`), warning where one was."""
+    kept, notice = readable_part(data, label)
+    if notice is not None:
+        warnings.warn(notice, stacklevel=3)
+    return kept
 
 
 def log_path(series_path: str | Path, name: str) -> Path:
@@ -92,6 +129,7 @@ def parse_log(
     LogError
         Of type `error`: naming the log's row and column of each row that cannot be read.
     """
+    data = whole_rows(data, label)
     try:
         records = list(csv.reader(io.StringIO(data.decode("utf-8-sig"), newline="")))
     except (UnicodeDecodeError, csv.Error) as problem:
@@ -173,14 +211,25 @@ def file_sha256(path: Path) -> str | None:
         return None
 
 
-def append_log_row(log: Path, columns: Sequence[str], read_rows, row_of):
+def append_log_row(
+    log: Path, columns: Sequence[str], read_rows, row_of, error: type[LogError] = LogError
+):
     """Append one row to a log under the folder lock, and return it.
 
     ``row_of(existing)`` makes the row from the log's rows as read (`read_rows()`) inside
     the lock, so that reading, checking and appending are one step; it raises to write
     nothing. The row's attributes named by `columns` are written in order, None as empty.
+    A log that cannot be read, or whose last row is cut short (:func:`readable_part`), is
+    not appended to: `error` is raised naming it, and nothing is written.
     """
     with folder_lock(log.parent):
+        try:
+            data = log.read_bytes()
+        except FileNotFoundError:
+            data = b""
+        _, torn = readable_part(data, log.name)
+        if torn is not None:
+            raise error(f"{torn}; nothing was written")
         row = row_of(read_rows())
         buffer = io.StringIO()
         values = [getattr(row, name) for name in columns]

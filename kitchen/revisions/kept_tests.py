@@ -171,6 +171,7 @@ def _append(series_path, row_of) -> KeptTest:
         KEPT_LOG_COLUMNS,
         lambda: read_kept_tests(series_path),
         row_of,
+        KeptTestError,
     )
 
 

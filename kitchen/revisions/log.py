@@ -19,7 +19,7 @@ from pathlib import Path
 
 from kitchen.io import SCHEMAS, TABLE_NAMES
 
-from ._logbook import LogError, checked_when, file_sha256, log_path
+from ._logbook import LogError, checked_when, file_sha256, log_path, whole_rows
 
 __all__ = [
     "LOG_COLUMNS",
@@ -109,6 +109,7 @@ def revisions_path(series_path: str | Path) -> Path:
 
 
 def _parse_log(data: bytes, label: str) -> tuple[Revision, ...]:
+    data = whole_rows(data, label)
     try:
         text = data.decode("utf-8-sig")
     except UnicodeDecodeError:

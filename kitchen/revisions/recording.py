@@ -151,7 +151,7 @@ def _record(series_path, make, held: HeldSeries | None = None) -> Revision:
             raise RevisionError(new)
         return revision
 
-    return append_log_row(log, LOG_COLUMNS, lambda: read_log(log)[1], checked)
+    return append_log_row(log, LOG_COLUMNS, lambda: read_log(log)[1], checked, RevisionError)
 
 
 def revise(

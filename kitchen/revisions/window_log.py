@@ -228,7 +228,11 @@ def _append(series_path, choice_of, series: Series | None) -> WindowChoice:
         return choice
 
     return append_log_row(
-        log, WINDOW_LOG_COLUMNS, lambda: read_window_choices(series_path), checked_choice
+        log,
+        WINDOW_LOG_COLUMNS,
+        lambda: read_window_choices(series_path),
+        checked_choice,
+        WindowLogError,
     )
 
 

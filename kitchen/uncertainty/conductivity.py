@@ -67,7 +67,7 @@ def conductivity_interval(
 
     The model is ``k = k_fit · F · R · (L'/L) · (D/D')² · (a'/a) · exp(c·δT)``: ``F`` the
     fitted factor (``fit``, best estimate 1), ``R`` the factor of the raw readings
-    (``reading_factor``, 1 at the best estimates; used when there is no fit), ``L`` the flow
+    (``reading_factor``, 1 at the best estimates), ``L`` the flow
     length and ``D`` the specimen diameter read on the caliper, ``a`` the standpipe area
     from its bore read on the caliper (falling head), ``δT`` a thermometer error common to
     every reading and ``c`` = d ln R_T/dT.
@@ -111,6 +111,9 @@ def conductivity_interval(
     Random errors of the individual readings (head, time, volume) reach k through the
     fit's scatter when there is a fit, so they are not counted again; they enter through
     ``readings`` only when k comes from a single pair of readings or a single collection.
+    An error common to every reading (the falling-head tailwater datum) is invisible to the
+    fit like the dimensions, and enters through ``readings`` and ``reading_factor`` with a
+    fit too.
     The dimensions and the thermometer act on every reading alike, so the fit cannot see
     them: they are always counted. Inputs are taken as uncorrelated ([GUM]_ 5.1).
 

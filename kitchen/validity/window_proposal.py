@@ -37,26 +37,64 @@ class WindowProposal:
     reason: str
 
 
-def _suffix(values: np.ndarray) -> np.ndarray:
-    return np.cumsum(values[::-1])[::-1]
+BLOCK = 1 << 15
+"""Readings handled at a time by :func:`window_trends`: its working arrays are a few blocks
+long whatever the record's length, so a record of 10^7 readings needs no more than one of
+10^5 beside the slopes and verdicts it returns."""
 
 
-def _within_critical(t: np.ndarray, dof: np.ndarray, probability: float) -> np.ndarray:
+def _critical_bounds(dof_low: float, dof_high: float, probability: float) -> tuple[float, float]:
+    """Bounds on Student's t quantile over degrees of freedom in [dof_low, dof_high].
+
+    The quantile above the median falls as the degrees of freedom grow, so the quantiles at
+    the two ends bound all the others; widened by a few rounding units.
+    """
+    ends = special.stdtrit(np.array([dof_low, dof_high]), probability)
+    return float(ends.min()) * (1 - 1e-12), float(ends.max()) * (1 + 1e-12)
+
+
+def _within_critical(t: np.ndarray, dof: np.ndarray, probability: float, bounds) -> np.ndarray:
     """``t <= stdtrit(dof, probability)`` element by element, with few quantiles computed.
 
-    The quantile of Student's t above the median falls as the degrees of freedom grow, so
-    the quantiles at the fewest and the most degrees of freedom bound all the others: only
-    the values of `t` between those bounds (widened by a few rounding units) need their own
-    quantile. The result is the same as computing every quantile, which costs about a
-    microsecond each.
+    `bounds` are :func:`_critical_bounds` over every degree of freedom judged: only the
+    values of `t` between them need their own quantile. The result is the same as
+    computing every quantile, which costs about a microsecond each.
     """
-    ends = special.stdtrit(np.array([dof.min(), dof.max()]), probability)
-    high, low = float(ends.max()) * (1 + 1e-12), float(ends.min()) * (1 - 1e-12)
+    low, high = bounds
     passed = t <= low
     unsure = np.flatnonzero(~passed & (t <= high))
     if unsure.size:
         passed[unsure] = t[unsure] <= special.stdtrit(dof[unsure], probability)
     return passed
+
+
+def _suffix_blocks(columns, n: int, count: int, block: int):
+    """Suffix sums of every column in `columns`, block by block from the last reading.
+
+    `columns(a, b)` gives the arrays of readings ``a`` to ``b - 1``. Yields
+    ``(a, b, sums)`` for the blocks inside the first `count` readings, ``sums[j][i]`` being
+    the sum of column j over readings ``a + i`` to the last. The sums run one reading at a
+    time from the last, as ``cumsum`` of the reversed column does, so they are the same
+    numbers to the last bit as one whole-record cumulative sum.
+    """
+    carry = None
+    stop = n
+    while stop > 0:
+        start = max(0, stop - block)
+        if stop > count:  # a block outside the starts: only its totals carry on
+            start = max(start, count)
+        parts = columns(start, stop)
+        sums = []
+        for j, values in enumerate(parts):
+            reverse = values[::-1].copy()
+            if carry is not None:
+                reverse[0] += carry[j]
+            np.cumsum(reverse, out=reverse)
+            sums.append(reverse[::-1])
+        carry = [values[0] for values in sums]
+        if start < count:
+            yield start, stop, sums
+        stop = start
 
 
 @dataclass(frozen=True)
@@ -81,7 +119,9 @@ class WindowTrends:
     """Why no start can be judged (too few readings), else empty."""
 
 
-def window_trends(reference_time, log_head, criteria: Criteria, minimum_readings: int = 6):
+def window_trends(
+    reference_time, log_head, criteria: Criteria, minimum_readings: int = 6, block: int = BLOCK
+):
     """The slope and the trend verdict of every window ending at the last reading.
 
     Parameters
@@ -116,37 +156,46 @@ def window_trends(reference_time, log_head, criteria: Criteria, minimum_readings
             n, 0, 0.0, empty, empty.astype(bool), "too few readings to leave any out"
         )
     count = n - keep + 1
-    head = slice(0, count)  # the positions of the starts, without a gather
     span = float(x[-1] - x[0])
-    u = (x - x[-1]) / span
-    v = y - y[-1]
-    u2 = u * u
-    sums = [
-        np.arange(n, 0, -1, dtype=float),
-        *(_suffix(values) for values in (u, u2, u2 * u, u2 * u2, v, u * v, u2 * v, v * v)),
-    ]
-    m, s1, s2, s3, s4, sy, sxy, sxxy, syy = (values[head] for values in sums)
-    mu = s1 / m
-    c2 = s2 - m * mu * mu
-    c3 = s3 - 3 * mu * s2 + 2 * m * mu**3
-    c4 = s4 - 4 * mu * s3 + 6 * mu * mu * s2 - 3 * m * mu**4
-    y_mean = sy / m
-    cxy = sxy - m * mu * y_mean
-    cyy = syy - m * y_mean * y_mean
-    cxxy = (sxxy - 2 * mu * sxy + mu * mu * sy) - y_mean * c2
-    slope = cxy / c2
-    sqq = c4 - c2 * c2 / m - c3 * c3 / c2
-    sqy = cxxy - c3 / c2 * cxy
-    with np.errstate(divide="ignore", invalid="ignore"):
-        b2 = np.where(sqq > 0, sqy / sqq, 0.0)
-        sse = np.maximum(cyy - cxy * cxy / c2 - b2 * sqy, 0.0)
-        se = np.sqrt(sse / (m - 3) / sqq)
-        t = np.where(se > 0, b2 / se, 0.0)
-        width = -u[head]  # each window spans u from u[start] to 0
-        middle = 0.5 * u[head] - mu
-        change = 2 * b2 * width / (slope + b2 * (2 * middle - c3 / c2))
-    trend_ok = _within_critical(np.abs(t), m - 3, 1 - criteria.trend_level / 2)
-    trend_ok |= np.abs(change) < criteria.trend_minimum_change
+    x_last, y_last = x[-1], y[-1]
+    probability = 1 - criteria.trend_level / 2
+    bounds = _critical_bounds(n - count + 1 - 3, n - 3, probability)
+    slope = np.empty(count)
+    trend_ok = np.empty(count, dtype=bool)
+
+    def columns(a: int, b: int):
+        u = (x[a:b] - x_last) / span
+        v = y[a:b] - y_last
+        u2 = u * u
+        return u, u2, u2 * u, u2 * u2, v, u * v, u2 * v, v * v
+
+    for a, b, sums in _suffix_blocks(columns, n, count, block):
+        s1, s2, s3, s4, sy, sxy, sxxy, syy = sums
+        m = np.arange(n - a, n - b, -1, dtype=float)
+        u_start = (x[a:b] - x_last) / span
+        mu = s1 / m
+        c2 = s2 - m * mu * mu
+        c3 = s3 - 3 * mu * s2 + 2 * m * mu**3
+        c4 = s4 - 4 * mu * s3 + 6 * mu * mu * s2 - 3 * m * mu**4
+        y_mean = sy / m
+        cxy = sxy - m * mu * y_mean
+        cyy = syy - m * y_mean * y_mean
+        cxxy = (sxxy - 2 * mu * sxy + mu * mu * sy) - y_mean * c2
+        block_slope = cxy / c2
+        sqq = c4 - c2 * c2 / m - c3 * c3 / c2
+        sqy = cxxy - c3 / c2 * cxy
+        with np.errstate(divide="ignore", invalid="ignore"):
+            b2 = np.where(sqq > 0, sqy / sqq, 0.0)
+            sse = np.maximum(cyy - cxy * cxy / c2 - b2 * sqy, 0.0)
+            se = np.sqrt(sse / (m - 3) / sqq)
+            t = np.where(se > 0, b2 / se, 0.0)
+            width = -u_start  # each window spans u from u[start] to 0
+            middle = 0.5 * u_start - mu
+            change = 2 * b2 * width / (block_slope + b2 * (2 * middle - c3 / c2))
+        ok = _within_critical(np.abs(t), m - 3, probability, bounds)
+        ok |= np.abs(change) < criteria.trend_minimum_change
+        slope[a:b] = block_slope
+        trend_ok[a:b] = ok
     return WindowTrends(n, count, span, slope, trend_ok)
 
 

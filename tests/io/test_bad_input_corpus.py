@@ -6,7 +6,8 @@ files show — a header that is not comma-separated, UTF-16 text, a header with 
 number that is not finite, a true/false cell, a column given twice, a hidden sheet, a
 formula without its value, a unit written wrongly, a mold-and-soil mass typed as the dry
 mass, a unit expression that asks for unbounded work, text or zero where a number belongs,
-readings out of order — or a neighbour that must load (a specimen id that spells a missing
+readings out of order, a specimen id holding a control character or too long for a
+file name — or a neighbour that must load (a specimen id that spells a missing
 value, the same values in other units, a blank row). Every case asserts its one outcome:
 
 - refused, with a problem naming the file, the row and the column (and the specimen, for
@@ -36,7 +37,7 @@ from kitchen.reduction import series_results
 from kitchen.specimen import specimen_state
 
 SEED = 20_817
-CASES = 330
+CASES = 400
 
 # Exact definitions: 1 in = 25.4 mm, 1 lb = 0.45359237 kg (international yard and pound,
 # 1959); 1 mL = 1 cm3; degF = 9/5 degC + 32; SI prefixes.
@@ -488,6 +489,24 @@ def unknown_or_repeated_specimen(rng, tables, form, case):
     return Refused(name, index + 2, ("specimen",), ("unknown specimen",))
 
 
+def unshowable_or_long_id(rng, tables, form, case):
+    # an id is printed, put in file names and in workbooks: a control character (a
+    # workbook cannot hold C0 controls, so there a bidirectional or zero-width mark) or an
+    # id longer than a file name allows is refused at load, naming the specimens' row
+    index = int(rng.integers(len(tables["specimens"].rows)))
+    old = tables["specimens"].rows[index][0]
+    marks = ["\u202e", "\u200b"] + ([] if form == "xlsx" else ["\x1b[31m", "\x07", "\x7f"])
+    if rng.random() < 0.5:
+        new, words = f"{old}{rng.choice(marks)}x", ("holds a control character",)
+    else:
+        new, words = old + "-" + "L" * int(rng.integers(64, 300)), ("characters, more than",)
+    for table in tables.values():
+        for row in table.rows:
+            if row[0] == old:
+                row[0] = new
+    return Refused("specimens", index + 2, ("specimen",), words)
+
+
 def required_cell_empty(rng, tables, form, case):
     name = str(rng.choice(list(tables)))
     table = tables[name]
@@ -574,6 +593,7 @@ DEFECTS = {
     "zero_or_negative": (zero_or_negative, ("csv", "xlsx")),
     "readings_out_of_order": (readings_out_of_order, ("csv", "xlsx")),
     "unknown_or_repeated_specimen": (unknown_or_repeated_specimen, ("csv", "xlsx")),
+    "unshowable_or_long_id": (unshowable_or_long_id, ("csv", "xlsx")),
     "required_cell_empty": (required_cell_empty, ("csv", "xlsx")),
     "more_cells_than_the_header": (more_cells_than_the_header, ("csv",)),
     "gravity_written_wrongly": (gravity_written_wrongly, ("csv", "xlsx")),

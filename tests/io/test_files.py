@@ -129,3 +129,29 @@ def test_written_files_get_the_usual_mode(tmp_path):
         assert path.stat().st_mode & 0o777 == 0o644
     finally:
         os.umask(umask)
+
+
+@pytest.mark.parametrize(("umask", "mode"), [(0o022, 0o644), (0o002, 0o664), (0o077, 0o600)])
+def test_a_log_is_created_with_the_users_umask(tmp_path, umask, mode):
+    # 0666 less the umask, what open() gives (POSIX open(2); common practice, no source):
+    # a colleague in the folder's group can append when the umask lets the group write
+    before = os.umask(umask)
+    try:
+        for path in (tmp_path / "with_header.csv", tmp_path / "plain.csv"):
+            append_line(path, b"a,1", header=HEADER if "header" in path.name else b"")
+            assert path.stat().st_mode & 0o777 == mode
+    finally:
+        os.umask(before)
+
+
+def test_an_append_without_room_is_refused_before_it_writes(tmp_path, monkeypatch):
+    path = append_line(tmp_path / "log.csv", b"first", header=HEADER)
+    before = path.read_bytes()
+
+    class Full:
+        f_bavail, f_frsize = 3, 4096  # 12 KiB free, less than a row and APPEND_ROOM
+
+    monkeypatch.setattr(files.os, "statvfs", lambda folder: Full)
+    with pytest.raises(OSError, match="12288 bytes free.*nothing was written"):
+        append_line(path, b"second")
+    assert path.read_bytes() == before

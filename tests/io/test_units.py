@@ -88,3 +88,55 @@ def test_a_unit_expression_is_refused_before_it_is_evaluated(unit, expected):
 )
 def test_ordinary_powers_still_read(unit, si):
     assert to_si(1.0, unit, "area") == pytest.approx(si, rel=1e-12)
+
+
+@pytest.mark.parametrize(
+    ("unit", "kind", "si"),
+    # the units as the tool itself writes them in its tables (standpipe_area [mm2],
+    # dry_density [Mg/m3]) and as people type them; 1 cm² = 1e-4 m², 1 Mg/m³ = 1000 kg/m³
+    # (SI prefixes)
+    [
+        ("mm2", "area", 1e-6),
+        ("cm2", "area", 1e-4),
+        ("cm^2", "area", 1e-4),
+        ("cm²", "area", 1e-4),
+        ("cm3", "volume", 1e-6),
+        ("Mg/m3", "density", 1000.0),
+        ("Mg/m³", "density", 1000.0),
+        ("g/cm3", "density", 1000.0),
+        ("kg/m^3", "density", 1.0),
+    ],
+)
+def test_units_as_the_tool_writes_them_are_read(unit, kind, si):
+    assert to_si(1.0, unit, kind) == pytest.approx(si, rel=1e-12)
+
+
+@pytest.mark.parametrize("unit", ["m2s", "2mm", "mm2.5"])
+def test_a_digit_that_is_not_a_power_is_not_read_as_one(unit):
+    with pytest.raises(UnitError):
+        to_si(1.0, unit, "area")
+
+
+@pytest.mark.parametrize(
+    ("kind", "examples", "not_shown"),
+    [
+        ("length", "mm, cm, in", "g"),
+        ("area", "mm2, cm2", "s"),
+        ("volume", "mL, cm3", "g"),
+        ("mass", "g, kg", "mm"),
+        ("time", "s, min, h", "g"),
+        ("temperature", "degC", "mm"),
+        ("density", "Mg/m3", "s"),
+    ],
+)
+def test_a_value_without_a_unit_is_told_units_of_its_own_dimension(kind, examples, not_shown):
+    with pytest.raises(UnitError) as caught:
+        parse_value("4.95", kind)
+    message = str(caught.value)
+    assert f"{kind} needs one (for example {examples}" in message
+    assert f" {not_shown}," not in message and f" {not_shown})" not in message
+
+
+def test_a_wrong_dimension_is_told_units_of_the_right_one():
+    with pytest.raises(UnitError, match=r"'g' is not a length \(for example mm, cm, in\)"):
+        to_si(4.95, "g", "length")

@@ -1,15 +1,25 @@
 """The memo pack's manifest: the files exported, their sizes and SHA-256 (FIPS 180-4, here
-through Python's hashlib), checked back; a second export removes only its own stale files."""
+through Python's hashlib), checked back; a pack built beside its folder and swapped in
+whole; a second export removes only what the first one provably wrote."""
 
 import hashlib
 import shutil
 from pathlib import Path
 
 import pytest
+from cli_runner import run_cli
 from series_files import SAMPLES
 
 from kitchen import cli
-from kitchen.memo import CHART_SCRIPT, MANIFEST, export_memo_pack, read_manifest, verify_pack
+from kitchen.memo import (
+    CHART_SCRIPT,
+    MANIFEST,
+    PackFolderError,
+    export_memo_pack,
+    interrupted_exports,
+    read_manifest,
+    verify_pack,
+)
 from kitchen.workspace import Workspace
 
 
@@ -43,16 +53,141 @@ def test_a_changed_or_missing_file_is_named(sand_pack):
     assert "no manifest.csv" in verify_pack(out / "charts")[0]
 
 
-def test_a_second_export_removes_only_its_own_stale_files(sand_pack, tmp_path):
+def _state(folder: Path) -> dict:
+    """Every entry below `folder` (links not followed) with its bytes or link target."""
+    state = {}
+    for path in sorted(folder.rglob("*")):
+        if path.is_symlink():
+            state[path] = ("link", str(path.readlink()))
+        elif path.is_file():
+            state[path] = path.read_bytes()
+    return state
+
+
+def test_a_second_export_replaces_the_whole_pack_and_removes_its_stale_files(sand_pack):
     out, first = sand_pack
-    own = out / "notes-from-the-reviewer.txt"
-    own.write_text("mine")
     second = export_memo_pack(
         Workspace(SAMPLES / "drainage_sand"), out, images=False, self_contained=True
     )
     assert second.removed == (out / CHART_SCRIPT,)  # no longer loaded by any page
-    assert not (out / CHART_SCRIPT).exists() and own.read_text() == "mine"
+    assert not (out / CHART_SCRIPT).exists()
     assert verify_pack(out) == []
+    assert interrupted_exports(out) == []  # nothing left beside the pack
+
+
+def test_a_folder_holding_a_file_the_tool_did_not_write_is_refused_and_left_alone(sand_pack):
+    out, _ = sand_pack
+    (out / "notes-from-the-reviewer.txt").write_text("mine")
+    before = _state(out)
+    with pytest.raises(PackFolderError, match="notes-from-the-reviewer.txt: not in manifest"):
+        export_memo_pack(Workspace(SAMPLES / "drainage_sand"), out, images=False)
+    assert _state(out) == before and interrupted_exports(out) == []
+
+
+def test_a_changed_file_of_the_previous_pack_is_not_replaced(sand_pack):
+    out, _ = sand_pack
+    (out / "results.csv").write_text("edited by the reviewer")
+    before = _state(out)
+    with pytest.raises(PackFolderError, match="results.csv: not the file exported"):
+        export_memo_pack(Workspace(SAMPLES / "drainage_sand"), out, images=False)
+    assert _state(out) == before
+
+
+def test_a_manifest_the_tool_did_not_write_deletes_nothing_it_names(tmp_path):
+    # a received folder: its manifest names a file of its own and, through a link, a file
+    # outside the folder; both are listed with their true digests
+    out, outside = tmp_path / "received", tmp_path / "elsewhere.txt"
+    out.mkdir()
+    outside.write_text("precious")
+    (out / "mine.txt").write_text("mine")
+    (out / "link.txt").symlink_to(outside)
+    rows = [
+        f"{name},{len(data)},{hashlib.sha256(data).hexdigest()}"
+        for name, data in (("mine.txt", b"mine"), ("link.txt", b"precious"))
+    ]
+    (out / MANIFEST).write_text("path,bytes,sha256\n" + "\n".join(rows) + "\n")
+    before = _state(tmp_path)
+    with pytest.raises(PackFolderError, match="link.txt: a link"):
+        export_memo_pack(Workspace(SAMPLES / "drainage_sand"), out, images=False)
+    assert _state(tmp_path) == before
+    assert outside.read_text() == "precious" and (out / "mine.txt").read_text() == "mine"
+
+
+@pytest.mark.parametrize("kind", ["file", "link", "folder without a manifest"])
+def test_a_folder_that_is_not_a_pack_is_refused(tmp_path, kind):
+    out = tmp_path / "out"
+    if kind == "file":
+        out.write_text("a file")
+    elif kind == "link":
+        (tmp_path / "real").mkdir()
+        out.symlink_to(tmp_path / "real")
+    else:
+        out.mkdir()
+        (out / "thesis.docx").write_bytes(b"chapter one")
+    before = _state(tmp_path)
+    with pytest.raises(PackFolderError, match="out"):
+        export_memo_pack(Workspace(SAMPLES / "drainage_sand"), out, images=False)
+    assert _state(tmp_path) == before
+
+
+def test_an_empty_folder_takes_the_pack(tmp_path):
+    out = tmp_path / "empty"
+    out.mkdir()
+    export_memo_pack(Workspace(SAMPLES / "drainage_sand"), out, images=False)
+    assert verify_pack(out) == [] and interrupted_exports(out) == []
+
+
+@pytest.mark.parametrize("inside", ["", "packs/today"])
+def test_a_pack_is_never_written_into_the_series_folder(tmp_path, inside):
+    series = Path(shutil.copytree(SAMPLES / "drainage_sand", tmp_path / "series"))
+    before = _state(series)
+    with pytest.raises(PackFolderError, match="series' own folder"):
+        export_memo_pack(Workspace(series), series / inside, images=False)
+    assert _state(series) == before
+    code, _, err = run_cli("report", series, "--out", series, "--no-images")
+    assert code == 2 and "series' own folder" in err and _state(series) == before
+
+
+def test_a_failure_part_way_leaves_the_previous_pack_whole_and_nothing_beside_it(sand_pack):
+    out, _ = sand_pack
+    before = _state(out)
+
+    def progress(done, total, what):
+        if "report.html" in what:
+            raise OSError(28, "No space left on device")
+
+    with pytest.raises(OSError, match="No space left"):
+        export_memo_pack(Workspace(SAMPLES / "drainage_sand"), out, images=False, progress=progress)
+    assert _state(out) == before and verify_pack(out) == []
+    assert interrupted_exports(out) == []
+
+
+def test_the_manifest_certifies_the_bytes_written_not_a_file_replaced_meanwhile(tmp_path):
+    out = tmp_path / "pack"
+
+    def progress(done, total, what):
+        if "report.html" in what:  # results.csv is written by now, beside the pack
+            (staging,) = interrupted_exports(out)
+            (staging / "results.csv").write_text("swapped in while the export ran")
+
+    export_memo_pack(Workspace(SAMPLES / "drainage_sand"), out, images=False, progress=progress)
+    assert verify_pack(out) == ["results.csv: not the file exported (its SHA-256 differs)"]
+
+
+def test_verify_names_a_file_added_a_link_and_a_manifest_emptied_to_its_header(sand_pack):
+    out, _ = sand_pack
+    (out / "charts" / "extra.html").write_text("<p>added</p>")
+    (out / "elsewhere").symlink_to(out / "report.html")
+    assert verify_pack(out) == [
+        "charts/extra.html: not in manifest.csv (not written by the export)",
+        "elsewhere: a link (the tool writes no links)",
+    ]
+    (out / MANIFEST).write_text("path,bytes,sha256\n")
+    assert verify_pack(out) == [
+        "manifest.csv lists no file: a pack always holds its report and tables"
+    ]
+    code, _, err = run_cli("verify", out)
+    assert code == 2 and "lists no file" in err
 
 
 def test_a_damaged_manifest_stops_the_export_before_it_writes(sand_pack):

@@ -2,6 +2,7 @@
 
 import hashlib
 import html
+import re
 
 import pandas as pd
 import pytest
@@ -211,3 +212,34 @@ def test_the_zone_words_follow_the_criterion_kind(clay):
     criteria = page.split("<h2>Criteria applied</h2>", 1)[1].split("<h2>", 1)[0]
     assert "where k20 is at least 1×10⁻⁹ m/s (smallest k required)" in criteria
     assert "at most" not in criteria
+
+
+def _specimen_table(page: str) -> list[dict]:
+    start = page.index("<h2>Specimens</h2>")
+    block = page[start : page.index("</table>", start)]
+    parser = TableCells()
+    parser.feed(block)
+    header = [text for tag, _, text in parser.cells if tag == "th"]
+    cells = [text for tag, _, text in parser.cells if tag == "td"]
+    return [dict(zip(header, cells[i : i + len(header)], strict=True))
+            for i in range(0, len(cells), len(header))]  # fmt: skip
+
+
+def test_report_numbers_read_alike_and_checks_follow_the_k_unit(clay):
+    analysis, tables, provenance = clay
+    page = report_page(
+        analysis, tables, [], SHARED, provenance, CAUTIONS, k_unit("cm/s"),
+        density_unit("Mg/m3"), "criterion", [],
+    )  # fmt: skip
+    rows = _specimen_table(page)
+    # k to three significant figures with the trailing zero (common practice, no source);
+    # ρd to 0.001 Mg/m³, w to 0.1 %, e to 0.001, as in the panels and results.xlsx
+    power = r"\d\.\d\d×10[−-]?[0-9⁰¹²³⁴⁵⁶⁷⁸⁹⁻]+"
+    assert [row["k20 [cm/s]"] for row in rows if not re.fullmatch(power, row["k20 [cm/s]"])] == []
+    assert all(re.fullmatch(r"\d\.\d{3}", row["ρd [Mg/m³]"]) for row in rows)
+    assert all(re.fullmatch(r"\d+\.\d|–", row["w [%]"]) for row in rows)
+    assert all(re.fullmatch(r"\d\.\d{3}", row["e"]) for row in rows)
+    checks = page[page.index("<h2>Checks and notes</h2>") :]
+    checks = checks[: checks.index("</table>")]
+    # the tool's sentences restated in cm/s where k is shown in cm/s (1 m/s = 100 cm/s)
+    assert not re.search(r"\d\s*m/s", checks)

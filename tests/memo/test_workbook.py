@@ -71,3 +71,55 @@ def test_formula_like_text_is_neutralised(hostile_series, tmp_path):
     assert '\'=HYPERLINK("http://example.invalid")' in [c.value for c in texts]
     assert "'-DL-A" in [c.value for c in texts]
     assert len(pack) > 3
+
+
+@pytest.fixture(scope="module")
+def clay_book(tmp_path_factory):
+    out = tmp_path_factory.mktemp("pack")
+    export_memo_pack(Workspace(SAMPLES / "clay_liner"), out, criterion=1e-9, images=False)
+    return load_workbook(out / "results.xlsx")
+
+
+def _column(sheet, header):
+    names = [cell.value for cell in sheet[1]]
+    index = names.index(header) + 1
+    return [row[index - 1] for row in sheet.iter_rows(min_row=2)]
+
+
+@pytest.mark.parametrize(
+    ("sheet", "header", "cell_format"),
+    # the one format of each quantity (kitchen.display_units.column_format): k to three
+    # significant figures, ρd to 0.001 Mg/m³, w and S to 0.1 %, e to 0.001 (common practice,
+    # no source); the cell keeps the full value
+    [
+        ("specimens", "k20 [m/s]", "0.00E+00"),
+        ("specimens", "k20_low [m/s]", "0.00E+00"),
+        ("specimens", "dry_density [Mg/m3]", "0.000"),
+        ("specimens", "water_content [%]", "0.0"),
+        ("specimens", "void_ratio", "0.000"),
+        ("tests", "k20 [m/s]", "0.00E+00"),
+        ("tests", "saturation [%]", "0.0"),
+        ("tests", "dry_density [Mg/m3]", "0.000"),
+    ],
+)
+def test_numbers_keep_their_value_and_show_the_page_format(clay_book, sheet, header, cell_format):
+    cells = [c for c in _column(clay_book[sheet], header) if c.value is not None]
+    assert cells and all(c.number_format == cell_format for c in cells)
+    assert all(isinstance(c.value, float | int) for c in cells)  # 20.0 reads back as 20
+    # the full value, not a rounded copy: QF-01's ρd 1.704932... Mg/m3 (the sample's results)
+    if header == "dry_density [Mg/m3]":
+        assert abs(cells[0].value - 1.704932532704562) < 1e-12
+
+
+def test_settings_carry_their_units_and_no_tuple_is_printed(clay_book):
+    rows = [(item, text) for item, text in clay_book["cautions"].iter_rows(values_only=True)]
+    settings = [text for item, text in rows if item == "setting"]
+    assert "reference_temperature [°C] = 20" in settings
+    assert "resolutions.caliper [m] = 1e-05" in settings
+    assert "resolutions.thermometer [°C] = 0.1" in settings
+    assert "criteria.low_k_threshold [m/s] = 1e-10" in settings
+    # the D5084 gradient table (from memory): 2 for k from 1e-6 to 1e-5 m/s ... 30 below 1e-9
+    table = next(t for t in settings if t.startswith("criteria.gradient_table"))
+    assert "k from 1e-06 to 1e-05 m/s: largest gradient 2" in table
+    assert "k below 1e-09 m/s: largest gradient 30" in table
+    assert not any("((" in str(text) or "('" in str(text) for _, text in rows)

@@ -1,7 +1,10 @@
 """The open-a-series panel, driven without a browser: set a control, check against the core."""
 
+import re
+
 import numpy as np
 import pytest
+from html_cells import TableCells
 from series_files import SAMPLES, copy_sample
 
 from kitchen.io import load_series
@@ -68,3 +71,35 @@ def test_path_box_and_load_button_open_another_series(tmp_path):
     assert other.error.message == ""
     assert list(other.table["method"].unique()) == ["constant_head"]
     assert len(other.table) == 4
+
+
+def _header_and_rows(markup: str):
+    parser = TableCells()
+    parser.feed(markup)
+    header = [text for tag, _, text in parser.cells if tag == "th"]
+    cells = [(text, kind) for tag, kind, text in parser.cells if tag == "td"]
+    rows = [cells[i : i + len(header)] for i in range(0, len(cells), len(header))]
+    return header, rows
+
+
+def test_the_results_open_compact_with_every_column_on_demand(panel):
+    # the notebook's area is about 1,200 px wide: the compact view shows the state, k20
+    # with its interval, validity and the notes; the rest is one click away
+    assert panel.columns.value == "compact"
+    header, rows = _header_and_rows(panel.results_view.value)
+    assert header[:2] == ["specimen", "method"] and "notes" in header
+    assert "porosity" not in header and "gradient" not in header and len(header) <= 11
+    notes = [row[header.index("notes")] for row in rows]
+    assert all(kind == "kitchen-text" for _, kind in notes)  # left-aligned, wrapping
+    k20 = [text for text, _ in (row[header.index("k20 [m/s]")] for row in rows)]
+    assert all(re.fullmatch(r"\d\.\d\d×10⁻[⁰¹²³⁴⁵⁶⁷⁸⁹]+", text) for text in k20)
+    panel.columns.value = "all columns"
+    header, _ = _header_and_rows(panel.results_view.value)
+    assert {"porosity", "gradient", "temperature [degC]", "k [m/s]"} <= set(header)
+    panel.columns.value = "compact"
+
+
+def test_densities_read_to_the_same_decimals(panel):
+    header, rows = _header_and_rows(panel.results_view.value)
+    densities = [row[header.index("dry_density [Mg/m3]")][0] for row in rows]
+    assert all(re.fullmatch(r"\d\.\d{3}", text) for text in densities)

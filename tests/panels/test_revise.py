@@ -67,10 +67,11 @@ def test_withdrawing_restores_the_results(panel, copy):
     panel.value.value = "120 mm"
     panel.reason.value = "re-measured"
     panel.record.click()
-    panel.reason.value = "first measurement was right"
     assert panel.withdraw_choice.value == panel.last.id  # the latest revision, chosen
+    panel.withdraw_reason.value = "first measurement was right"
+    panel.withdraw_confirm.value = True
     panel.withdraw.click()
-    assert panel.error.message == ""
+    assert panel.error.message == "" and panel.withdraw_error.message == ""
     restored = series_results(load_effective_series(copy).series)
     assert what_changed(original, restored).empty
     assert "withdrawn by" in panel.history.value
@@ -173,6 +174,66 @@ def test_the_criterion_box_opens_on_the_series_own_or_empty(panel, tmp_path):
     assert empty.changed[["verdict_before", "verdict_after"]].isna().all(axis=None)
     empty.criterion.value = "1e-10 m/s"  # typed: the next summary judges against it
     empty.value.value = "4.7 in"
+    empty.reason.value = "re-measured again"
     empty.record.click()
     # QF-03's true k20 is 6.39e-10 m/s (sample_data/README.md): above 1e-10 m/s
     assert empty.changed.loc[0, "verdict_after"] == "does not meet"
+
+
+def _record(panel, value="120 mm", reason="re-measured"):
+    panel.value.value = value
+    panel.reason.value = reason
+    panel.record.click()
+    assert panel.error.message == ""
+    return panel.last
+
+
+def test_the_reason_box_starts_empty_after_each_revision(panel):
+    _record(panel)
+    assert panel.reason.value == "" and panel.value.value == ""
+    panel.value.value = "121 mm"
+    panel.record.click()  # no reason carried over from the revision before
+    assert "needs a reason" in panel.error.message
+
+
+def test_a_withdrawal_has_its_own_reason_and_is_confirmed(panel, copy):
+    revision = _record(panel, reason="re-measured after test")
+    assert panel.withdraw_reason.value == ""
+    assert panel.withdraw_confirm.description == f"I withdraw revision {revision.id}"
+    assert panel.withdraw_confirm.value is False
+    panel.withdraw.click()  # one click: no reason, no confirmation
+    assert "a withdrawal needs a reason" in panel.withdraw_error.message
+    assert revision.id in panel.withdraw_error.message
+    assert panel.error.message == ""  # said beside the withdraw button, not beside Record
+    panel.withdraw_reason.value = "the first measurement was right"
+    panel.withdraw.click()
+    assert f"tick 'I withdraw revision {revision.id}' to confirm" in panel.withdraw_error.message
+    assert len(read_revisions(copy)) == 1  # nothing written by either refusal
+    panel.withdraw_confirm.value = True
+    panel.withdraw.click()
+    assert panel.withdraw_error.message == ""
+    first, withdrawal = read_revisions(copy)
+    assert withdrawal.reason == "the first measurement was right"
+    assert first.reason == "re-measured after test"
+    assert panel.withdraw_reason.value == "" and panel.withdraw_confirm.value is False
+
+
+def test_choosing_another_revision_unticks_the_confirmation(panel):
+    first = _record(panel, "120 mm", "re-measured")
+    panel.specimen.value = "QF-02"
+    second = _record(panel, "119 mm", "re-measured too")
+    assert panel.withdraw_choice.value == second.id
+    panel.withdraw_confirm.value = True
+    panel.withdraw_choice.value = first.id
+    assert panel.withdraw_confirm.value is False
+    assert panel.withdraw_confirm.description == f"I withdraw revision {first.id}"
+
+
+def test_a_refused_revision_is_said_beside_its_button_in_its_own_words(panel):
+    panel.value.value = "5 g"
+    panel.reason.value = "re-measured"
+    panel.record.click()
+    assert "Could not finish recording the revision" in panel.error.widget.value
+    assert "nothing was written" in panel.error.widget.value
+    assert "Correct the files" not in panel.error.widget.value
+    assert panel.withdraw_error.message == ""

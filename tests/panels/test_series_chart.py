@@ -1,5 +1,7 @@
 """The series-chart panel: criterion and units drive the analysis and the charts."""
 
+import re
+
 import numpy as np
 import pytest
 from html_cells import TableCells
@@ -134,9 +136,9 @@ def test_sand_series_has_no_compaction_plane_and_says_so():
     assert any("no specimen has a molding water content" in note for note in panel.error.notes)
     assert panel.drawn == {"compaction": False, "void_ratio": True, "dry_density": True}
     assert panel.chart_choice.value == "void_ratio"
-    assert panel.chart_box.children == (panel.figures["void_ratio"],)
+    assert panel.shown_chart is panel.figures["void_ratio"]
     panel.chart_choice.value = "compaction"
-    assert panel.chart_box.children == (panel.missing["compaction"],)
+    assert panel.shown_chart is panel.missing["compaction"]
     assert "not drawn" in panel.missing["compaction"].value
     assert len(panel.figures["void_ratio"].data) > 0
 
@@ -208,3 +210,48 @@ def _table_rows(panel) -> list[dict]:
     cells = [text for tag, _, text in parser.cells if tag == "td"]
     return [dict(zip(header, cells[i : i + len(header)], strict=True))
             for i in range(0, len(cells), len(header))]  # fmt: skip
+
+
+def test_the_table_follows_the_density_and_k_units(panel):
+    # gamma_d = rho_d * g_n, g_n = 9.80665 m/s2 exactly (3rd CGPM, 1901); 1 m/s = 100 cm/s
+    rows = panel.analysis.specimens
+    panel.density_unit.value = "kN/m³"
+    panel.k_unit.value = "cm/s"
+    table = _table_rows(panel)
+    assert "γd [kN/m³]" in table[0] and "ρd [Mg/m³]" not in table[0]
+    first = rows.iloc[0]
+    assert table[0]["γd [kN/m³]"] == f"{first['dry_density'] * 9.80665 / 1000:.2f}"
+    label = next(c for c in table[0] if c.endswith("[cm/s]") and c.startswith("k"))
+    # k to three significant figures, the trailing zero kept, no unit repeated in the cell
+    assert all(re.fullmatch(r"\d\.\d\d×10⁻[⁰¹²³⁴⁵⁶⁷⁸⁹]+", row[label]) for row in table)
+    assert table[0][label] == "7.56×10⁻⁷"  # QF-01's k20, 7.559e-9 m/s (the sample's results)
+    panel.density_unit.value = "Mg/m³"
+    assert _table_rows(panel)[0]["ρd [Mg/m³]"] == f"{first['dry_density'] / 1000:.3f}"
+
+
+def _visible(box) -> bool:
+    return box.layout.visibility != "hidden"
+
+
+def test_choosing_a_chart_never_takes_a_figure_out_of_the_page(panel):
+    """A figure taken out of the page and put back leaves an old view behind that breaks
+    the next update in the browser: the chart box keeps every figure, and a choice only
+    hides or shows them (the real-browser test checks what the browser draws)."""
+    held = panel.chart_box.children
+    figures_held = [pane.children[0].children[0] for pane in held]
+    assert figures_held == [
+        panel.figures[key] for key in ("compaction", "void_ratio", "dry_density")
+    ]
+    for key in ("void_ratio", "compaction", "dry_density", "compaction"):
+        panel.chart_choice.value = key
+        panel.criterion.value = "3e-9 m/s" if panel.criterion.value != "3e-9 m/s" else "1e-9 m/s"
+        panel.k_unit.value = "cm/s" if panel.k_unit.value == "m/s" else "m/s"
+        assert panel.chart_box.children == held
+        shown = [k for k, pane in panel.panes.items() if _visible(pane)]
+        assert shown == [key]
+        assert _visible(panel.panes[key].children[0])
+        assert not _visible(panel.panes[key].children[1])
+        factor = 100.0 if panel.k_unit.value == "cm/s" else 1.0
+        lines = [t for t in panel.figures[key].data if (t.name or "").startswith("criterion")]
+        expected = panel.criterion_value * factor
+        assert [list(t.y) for t in lines] == [[pytest.approx(expected)] * 2]

@@ -12,7 +12,8 @@ from kitchen.uncertainty import Resolutions
 def test_two_readings_interval_from_resolutions_by_hand():
     readings, specimen = known_k_record()
     resolutions = Resolutions(caliper=0.0, thermometer=0.0, head_scale=1e-3, timer=1.0)
-    analysis = falling_head_analysis(readings, specimen, Settings(resolutions=resolutions), (0, 2))
+    settings = Settings(resolutions=resolutions, datum_tolerance=0.0)
+    analysis = falling_head_analysis(readings, specimen, settings, (0, 2))
     h1, h2 = readings["head"].iloc[:2]
     elapsed = readings["time"].iloc[1] - readings["time"].iloc[0]
     u_h, u_t = 1e-3 / np.sqrt(12), 1.0 / np.sqrt(12)
@@ -20,13 +21,50 @@ def test_two_readings_interval_from_resolutions_by_hand():
     expected = np.sqrt((u_h / h1 / fall) ** 2 + (u_h / h2 / fall) ** 2 + 2 * (u_t / elapsed) ** 2)
     assert analysis.interval.relative_standard_uncertainty == pytest.approx(expected, rel=1e-4)
     assert analysis.line is None and not analysis.valid  # four k values are needed
+    # the tailwater datum, ±20 mm rectangular (u = 20 mm/√3, GUM F.2.2.1 — from memory for the
+    # clause), moves ln((h1 − δ)/(h2 − δ)) by δ·(1/h2 − 1/h1) to first order
+    with_datum = falling_head_analysis(
+        readings, specimen, Settings(resolutions=resolutions, datum_tolerance=0.02), (0, 2)
+    )
+    datum_term = 0.02 / np.sqrt(3) * (1 / h2 - 1 / h1) / fall
+    assert with_datum.interval.relative_standard_uncertainty == pytest.approx(
+        np.hypot(expected, datum_term), rel=1e-3
+    )
+
+
+def test_the_datum_widens_a_fitted_interval_by_the_slope_of_one_over_h():
+    # k from the slope b of ln h on t; a datum error δ changes it by −δ·b′, b′ the slope of
+    # 1/h on t (first-order Taylor expansion; least-squares slopes, numpy.polyfit)
+    readings, specimen = known_k_record(noise=0.3e-3)
+    window = (0, 40)
+    plain = falling_head_analysis(readings, specimen, Settings(datum_tolerance=0.0), window)
+    datum = falling_head_analysis(readings, specimen, Settings(datum_tolerance=0.01), window)
+    t = readings["time"].to_numpy()[:40]
+    h = readings["head"].to_numpy()[:40]
+    sensitivity = np.polyfit(t, 1 / h, 1)[0] / np.polyfit(t, np.log(h), 1)[0]
+    expected = np.hypot(
+        plain.interval.relative_standard_uncertainty, 0.01 / np.sqrt(3) * sensitivity
+    )
+    assert datum.interval.relative_standard_uncertainty == pytest.approx(expected, rel=1e-3)
+    assert datum.k_reference == plain.k_reference  # the estimate itself does not move
+    decay = falling_head_analysis(
+        readings, specimen, Settings(falling_head_fit="datum", datum_tolerance=0.05), window
+    )
+    fitted = falling_head_analysis(
+        readings, specimen, Settings(falling_head_fit="datum", datum_tolerance=0.0), window
+    )
+    assert decay.interval == fitted.interval  # a fitted datum carries its own uncertainty
 
 
 def test_monte_carlo_setting_reaches_the_interval():
     readings, specimen = known_k_record(noise=0.3e-3)
-    first = falling_head_analysis(readings, specimen, window=(0, 40))
+    # without the datum's rectangular term, which would dominate this small record and make
+    # the Monte Carlo interval rightly narrower than k = 1.96 on a normal (JCGM 101:2008, from
+    # memory), the two methods agree
+    plain = Settings(datum_tolerance=0.0)
+    first = falling_head_analysis(readings, specimen, plain, window=(0, 40))
     carlo = falling_head_analysis(
-        readings, specimen, Settings(uncertainty_method="monte_carlo"), (0, 40)
+        readings, specimen, plain.with_changes(uncertainty_method="monte_carlo"), (0, 40)
     )
     assert carlo.interval.trials == 200_000
     assert carlo.k_reference_low == pytest.approx(first.k_reference_low, rel=2e-3)

@@ -55,12 +55,28 @@ def test_a_wrong_datum_is_not_hidden_by_the_proposed_window():
     # Heads read 20 mm off: ln(h + δ) bends through the whole record and k over it is about
     # 2.6 % off. Before the full record was judged, the proposed window left out early
     # readings until the curvature test stopped objecting and reported the biased k as
-    # valid (interval missing the truth). Logger records of 500 to 20 000 readings: with
-    # fewer, the bend of a 20 mm datum is below what the readings can show (the benchmark
-    # prints the rates for shorter records).
+    # valid (interval missing the truth). Logger records of 500 to 20 000 readings, where
+    # the bend shows: most are judged not valid, saying the datum.
     records = list(population("datum", 200, seed=12, readings=(500, 20_000)))
     good = sum(fault_handled(item, analysis, DATUM_WORDS) for item, analysis in _analyses(records))
     assert good >= RATE * len(records)
+
+
+def test_a_wrong_datum_in_a_short_record_stays_inside_the_interval():
+    # 30 to 500 readings: the bend of a datum 20 mm off is mostly below what 0.5-2 mm of
+    # reading error lets a record show (about half are caught). Before the datum entered the
+    # interval (Settings.datum_tolerance, ±20 mm by default), 48 % were caught or covered;
+    # a datum the engineer declares known to ±2 mm gives back that narrower interval, and
+    # then a 20 mm error is missed as often as not — the rate below must fail then.
+    records = list(population("datum", 200, seed=15, readings=(30, 500)))
+    good = sum(fault_handled(item, analysis, DATUM_WORDS) for item, analysis in _analyses(records))
+    assert good >= RATE * len(records)
+    narrow = Settings(datum_tolerance=0.002)
+    missed = sum(
+        not fault_handled(item, analysis, DATUM_WORDS)
+        for item, analysis in _analyses(records, narrow)
+    )
+    assert missed > (1 - RATE) * len(records)
 
 
 def test_the_datum_fitted_decay_does_not_take_an_early_transient_for_a_datum():

@@ -4,7 +4,12 @@ import numpy as np
 from synthetic_records import drifting_log_head
 
 from kitchen.fits import curvature_test
-from kitchen.validity import Criteria, propose_window, recommended_maximum_gradient
+from kitchen.validity import (
+    Criteria,
+    propose_window,
+    recommended_maximum_gradient,
+    window_trends,
+)
 
 D5084 = Criteria()
 
@@ -27,6 +32,19 @@ def test_proposal_agrees_with_refitting_every_window():
     assert proposal.meets_criteria
     assert (proposal.start, proposal.stop) == (first, t.size)
     assert 0 < proposal.start < 150
+
+
+def test_trends_block_by_block_are_the_whole_record_computation_to_the_last_bit():
+    # The working arrays are a few blocks long; the sums still run one reading at a time
+    # from the last, so every slope and verdict equals the one-block computation exactly.
+    t, y = _transient_record(n=1001)
+    whole = window_trends(t, y, D5084, block=t.size)
+    assert 0 < whole.trend_ok.sum() < whole.starts  # both verdicts occur
+    for block in (1, 7, 64, 500):
+        blocks = window_trends(t, y, D5084, block=block)
+        assert (blocks.n, blocks.starts, blocks.span) == (whole.n, whole.starts, whole.span)
+        assert np.array_equal(blocks.slope, whole.slope)
+        assert np.array_equal(blocks.trend_ok, whole.trend_ok)
 
 
 def test_proposal_keeps_every_reading_of_a_steady_record():
