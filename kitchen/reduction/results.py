@@ -215,7 +215,10 @@ def results_table(results: pd.DataFrame, settings: Settings | None = None) -> pd
         ``dry_density [Mg/m3]``, ``void_ratio``, ``porosity``, ``saturation [%]``,
         ``gradient``, ``temperature [degC]``, ``k [m/s]``, ``k20 [m/s]``,
         ``k20_low [m/s]``, ``k20_high [m/s]`` (the 95 % interval), ``n_readings``,
-        ``valid``, ``checks`` (starting "every criterion met" when valid) and ``notes``.
+        ``valid``, ``checks`` (starting "every criterion met" when valid) and ``notes``;
+        where the series has flexible-wall tests, after ``gradient``: ``cell`` and the
+        effective stress across the specimen at the largest head, ``effective_stress [kPa]``
+        (mean), ``effective_stress_inflow [kPa]`` and ``effective_stress_outflow [kPa]``.
     """
     settings = settings or Settings()
     ref = reference_label(settings)
@@ -243,4 +246,15 @@ def results_table(results: pd.DataFrame, settings: Settings | None = None) -> pd
             "notes": results["notes"].map("; ".join),
         }
     )
+    if "effective_stress" in results.columns:  # the series has flexible-wall tests
+        at = table.columns.get_loc("gradient") + 1
+        for offset, (name, values) in enumerate(
+            (
+                ("cell", results["cell"]),
+                ("effective_stress [kPa]", results["effective_stress"] / 1e3),
+                ("effective_stress_inflow [kPa]", results["effective_stress_inflow"] / 1e3),
+                ("effective_stress_outflow [kPa]", results["effective_stress_outflow"] / 1e3),
+            )
+        ):
+            table.insert(at + offset, name, values.to_numpy())
     return table
