@@ -127,6 +127,23 @@ def read_date_times(texts: pd.Series, zone_text: str | None) -> tuple[np.ndarray
     return seconds, zoneless
 
 
+def clock_change_times(texts: pd.Series, zone_text: str | None) -> np.ndarray:
+    """Which date-times without an offset name no single instant in the header's zone: a
+    time the clocks skipped or passed twice when they changed (summer time)."""
+    zone = time_zone(zone_text)
+    text = texts.astype("string").str.strip()
+    naive = text.notna().to_numpy() & ~text.str.contains(_OFFSET_AT_END, regex=True).fillna(
+        True
+    ).to_numpy(bool)
+    out = np.zeros(len(text), dtype=bool)
+    if zone is None or not naive.any():
+        return out
+    stamps = pd.to_datetime(text[naive], format="ISO8601", errors="coerce")
+    local = stamps.dt.tz_localize(zone, ambiguous="NaT", nonexistent="NaT")
+    out[naive] = (stamps.notna() & local.isna()).to_numpy(bool)
+    return out
+
+
 def _epoch_seconds(stamps: pd.Series) -> np.ndarray:
     values = stamps.dt.tz_convert("UTC").dt.tz_localize(None).astype("datetime64[ns]")
     out = (values - np.datetime64("1970-01-01T00:00:00", "ns")).dt.total_seconds().to_numpy()
@@ -217,7 +234,18 @@ def _elapsed_from_date_times(table, frame, ids, problems) -> None:
         f"('{named} [UTC]', '{named} [+01:00]') or in each value (2026-03-02T08:15:00+01:00)",
         ids,
     )
-    unread = np.isnan(seconds) & ~empty & ~zoneless
+    shifted = clock_change_times(texts, zone_text)
+    _report(
+        problems,
+        table,
+        shifted,
+        named,
+        f"this time is skipped or passed twice when the clocks change in {zone_text}: give "
+        "it with its offset from UTC (2026-03-29T02:30:00+01:00), or state the zone as an "
+        "offset ('[+01:00]')",
+        ids,
+    )
+    unread = np.isnan(seconds) & ~empty & ~zoneless & ~shifted
     for index in np.flatnonzero(unread)[:20]:
         problems.append(
             InputProblem(

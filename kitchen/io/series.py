@@ -203,7 +203,12 @@ def rebuild_series(series: Series, tables: dict[str, RawTable], changed) -> Seri
     changed. After a revision of one specimen's height the cost is that of the
     specimens table alone, whatever the number of readings.
     """
-    changed = tuple(name for name in TABLE_NAMES if name in set(changed))
+    changed = set(changed)
+    if "specimens" in changed and "falling_head" in tables:
+        levels = {"headwater_level", "tailwater_level"} & set(tables["falling_head"].frame.columns)
+        if levels:  # the volumes are the burettes' levels times their areas, in specimens
+            changed.add("falling_head")
+    changed = tuple(name for name in TABLE_NAMES if name in changed)
     unknown = [name for name in changed if name not in tables]
     if unknown:
         raise ValueError(f"changed tables {', '.join(unknown)} are not among the tables given")

@@ -252,3 +252,28 @@ def test_every_problem_of_a_logger_file_is_listed_at_once(tmp_path):
     rows = {(p.split(",")[1].strip()) for p in problems}
     assert {"row 2", "row 3", "row 4"} <= rows
     assert any("must be greater than zero" in p for p in problems)
+
+
+def test_a_time_the_clocks_skipped_is_named(tmp_path):
+    # Europe/Zurich skipped 02:00-03:00 on 2026-03-29 (IANA time zone database)
+    text = (
+        "specimen,date_time [Europe/Zurich],head [cm]\n"
+        "A1,2026-03-29T01:30,100\nA1,2026-03-29T02:30,95\nA1,2026-03-29T03:30,90\n"
+    )
+    problems = problems_of(write_series(tmp_path / "s", falling_head=text))
+    assert any(
+        p.startswith("falling_head.csv, row 3, column 'date_time [Europe/Zurich]', specimen A1")
+        and "skipped or passed twice when the clocks change" in p
+        for p in problems
+    )
+    assert not any("expected an ISO 8601" in p for p in problems)
+
+
+def test_revised_burette_areas_move_the_volumes(tmp_path):
+    from kitchen.workspace import Workspace
+
+    write_series(tmp_path / "s", specimens=BURETTES, falling_head=LEVELS)
+    workspace = Workspace(tmp_path / "s")
+    before = workspace.readings("A1")["inflow_volume"].iloc[2]
+    workspace.revise(specimen="A1", field="standpipe_diameter", value="16 mm", reason="bore")
+    assert workspace.readings("A1")["inflow_volume"].iloc[2] == pytest.approx(4 * before)
