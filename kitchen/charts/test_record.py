@@ -71,33 +71,23 @@ def flow_record_figure(
         ),
     )
     positive = flow.k > 0
-    x, y = _thin(flow.k_time[positive] / hours, flow.k[positive] * unit.factor)
-    figure.add_trace(
-        go.Scatter(
-            x=x,
-            y=y,
-            mode="markers+lines",
-            name=f"{reference} [{unit.unit}]",
-            marker={"color": INK, "size": 6},
-            line={"color": MUTED, "width": 1},
-        ),
-        row=1,
-        col=1,
-    )
-    x, y = _thin(flow.k_pore_volumes[positive], flow.k[positive] * unit.factor)
-    figure.add_trace(
-        go.Scatter(
-            x=x,
-            y=y,
-            mode="markers+lines",
-            name=f"{reference} against pore volumes",
-            marker={"color": INK, "size": 6, "symbol": "square"},
-            line={"color": MUTED, "width": 1},
-            showlegend=False,
-        ),
-        row=2,
-        col=1,
-    )
+    for row, (x_values, symbol) in enumerate(
+        ((flow.k_time[positive] / hours, "circle"), (flow.k_pore_volumes[positive], "square")),
+        start=1,
+    ):
+        x, y = _thin(x_values, flow.k[positive] * unit.factor)
+        figure.add_trace(
+            go.Scatter(
+                x=x,
+                y=y,
+                mode="markers+lines",
+                name=f"{reference} [{unit.unit}]",
+                marker={"color": INK, "size": 6, "symbol": symbol},
+                line={"color": MUTED, "width": 1},
+            ),
+            row=row,
+            col=1,
+        )
     if flow.ratio.size:
         x, y = _thin(flow.ratio_time / hours, flow.ratio)
         figure.add_trace(

@@ -22,6 +22,16 @@ FLOW_DIRECTIONS = ("upward", "downward", "horizontal")
 """The words ``flow_direction`` of the specimens table takes (upward: in at the bottom)."""
 
 
+def _rows_checked(table, ids, known, problems) -> bool:
+    """Name the rows of unknown specimens; False when the table has no specimen column
+    (named with the header), so nothing can be checked across its rows."""
+    if ids is None:
+        return False
+    if known is not None:
+        check_known_specimens(table, ids, known, problems)
+    return True
+
+
 def check_flexible_wall(
     table: RawTable,
     frame: pd.DataFrame,
@@ -38,10 +48,8 @@ def check_flexible_wall(
     ``consolidated_diameter`` or as ``volume_change``), each leaving a specimen of
     positive size.
     """
-    if ids is None:
+    if not _rows_checked(table, ids, known, problems):
         return frame
-    if known is not None:
-        check_known_specimens(table, ids, known, problems)
     duplicated = (frame["specimen"].duplicated(keep=False) & frame["specimen"].notna()).to_numpy()
     report_rows(problems, table, duplicated, "specimen", "specimen given more than once", ids=ids)
     cell, back = frame["cell_pressure"].to_numpy(float), frame["back_pressure"].to_numpy(float)
@@ -100,10 +108,8 @@ def check_b_value_checks(
     """Checks of ``b_value_checks``: known specimens, and a pore-pressure increment no
     larger than about the cell-pressure increment (B = Δu/Δσ3 above 1.2 is a reading or
     unit written wrongly)."""
-    if ids is None:
+    if not _rows_checked(table, ids, known, problems):
         return
-    if known is not None:
-        check_known_specimens(table, ids, known, problems)
     cell = frame["cell_pressure_increment"].to_numpy(float)
     pore = frame["pore_pressure_increment"].to_numpy(float)
     with np.errstate(invalid="ignore", divide="ignore"):

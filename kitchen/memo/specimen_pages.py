@@ -166,20 +166,12 @@ def report_items(
     add(section, "method", _method_words(method, prepared))
     add(section, "flow direction", _text(prepared.get("flow_direction")))
     add(section, "permeant water", _text(prepared.get("permeant")))
-    add(
-        section,
-        "headwater standpipe (burette) area",
-        _number(prepared.get("standpipe_area"), "mm²", 4, 1e6)
-        if method == "falling_head"
-        else "not applicable: constant head",
-    )
-    add(
-        section,
-        "tailwater burette area",
-        _number(prepared.get("tailwater_standpipe_area"), "mm²", 4, 1e6)
-        if method == "falling_head"
-        else "not applicable: constant head",
-    )
+    for item, column in (
+        ("headwater standpipe (burette) area", "standpipe_area"),
+        ("tailwater burette area", "tailwater_standpipe_area"),
+    ):
+        value = _number(prepared.get(column), "mm²", 4, 1e6)
+        add(section, item, value if method == "falling_head" else "not applicable: constant head")
 
     section = "Saturation and consolidation"
     if is_flexible:

@@ -456,6 +456,7 @@ def condition_result(
     flow_direction=None,
     stress_limits: tuple = (None, None),
     minimum_b_value: float = MINIMUM_B_VALUE,
+    change: str | None = None,
 ) -> dict:
     """A result row with its cell, and a flexible-wall test's criteria and stresses.
 
@@ -471,6 +472,12 @@ def condition_result(
         From the specimens table.
     stress_limits : tuple of (float or None, float or None)
         The effective stress the specification asks for, lowest and highest. [Pa]
+    minimum_b_value : float
+        The B-value taken as saturated.
+    change : str, optional
+        The specimen's change of volume over the test in words
+        (:func:`kitchen.specimen.final_state`); a swelling or consolidation is noted in
+        ``checks``.
 
     Returns
     -------
@@ -483,6 +490,12 @@ def condition_result(
     """
     out = dict(row)
     out["cell"] = permeation_row["cell"]
+    if change is not None and change.startswith(("swelled", "consolidated")):
+        out["checks"] = list(row.get("checks", [])) + [
+            f"the specimen {change} during the test (its final volume against its volume "
+            "as prepared)"
+        ]
+        row = out
     out["permeation_height"] = float(permeation_row["height"])
     out["permeation_area"] = float(permeation_row["area"])
     if flexible_wall is None or flexible_wall.empty:

@@ -13,7 +13,7 @@ import pandas as pd
 
 from kitchen.io import Series
 from kitchen.settings import Settings, reference_label
-from kitchen.specimen import specimen_state
+from kitchen.specimen import final_state, specimen_state
 from kitchen.water import viscosity_range_caution
 
 from .constant_head import constant_head_analysis
@@ -131,6 +131,7 @@ def series_results(
     rows = []
     by_id = state.set_index("specimen", drop=False)
     permeated = permeation.set_index("specimen", drop=False)
+    changes = final_state(series.specimens).set_index("specimen")["change"]
 
     def conditions(row: dict) -> dict:
         specimen = row["specimen"]
@@ -142,6 +143,7 @@ def series_results(
             by_id.loc[specimen].get("flow_direction"),
             stress_limits,
             settings.criteria.minimum_b_value,
+            changes.get(specimen),
         )
 
     if not series.constant_head.empty:

@@ -68,7 +68,7 @@ from kitchen.revisions import (
     withdraw,
 )
 from kitchen.settings import Settings
-from kitchen.specimen import specimen_state
+from kitchen.specimen import final_state, specimen_state
 
 from .digests import frame_digest, parts_digest, specimen_positions, specimen_spans
 
@@ -196,6 +196,7 @@ class Workspace:
         # the reductions take each specimen as it stood during permeation (a flexible-wall
         # specimen after consolidation); the results show it as prepared
         self._state = state = permeation_state(self._prepared, self._series.flexible_wall)
+        self._changes = final_state(self._series.specimens).set_index("specimen")["change"]
         self._prepared_rows = {
             specimen: row
             for specimen, row in self._prepared.set_index("specimen", drop=False).iterrows()
@@ -565,6 +566,7 @@ class Workspace:
             self._prepared_rows[specimen].get("flow_direction"),
             self.stress_limits,
             self._settings.criteria.minimum_b_value,
+            self._changes.get(specimen),
         )
         # lists copied: a caller may change its table without changing the one kept here
         return {k: list(v) if isinstance(v, list) else v for k, v in row.items()}

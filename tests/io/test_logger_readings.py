@@ -277,3 +277,24 @@ def test_revised_burette_areas_move_the_volumes(tmp_path):
     before = workspace.readings("A1")["inflow_volume"].iloc[2]
     workspace.revise(specimen="A1", field="standpipe_diameter", value="16 mm", reason="bore")
     assert workspace.readings("A1")["inflow_volume"].iloc[2] == pytest.approx(4 * before)
+
+
+def test_a_workbook_with_date_cells_and_flexible_wall_sheets(tmp_path):
+    import datetime as dt
+
+    from series_files import csv_rows, write_workbook
+
+    start = dt.datetime(2026, 3, 2, 8, 0)
+    readings = [["specimen", "date [UTC]", "time_of_day [UTC]", "head [cm]"]] + [
+        ["A1", start.date(), (start + dt.timedelta(minutes=m)).time(), 100 - m / 2]
+        for m in (0, 10, 20)
+    ]
+    flexible = [["specimen", "cell_pressure [kPa]", "back_pressure [kPa]", "b_value"],
+                ["A1", 550, 515, 0.96]]  # fmt: skip
+    book = write_workbook(
+        tmp_path / "s.xlsx",
+        {"specimens": csv_rows(SPECIMENS), "falling_head": readings, "flexible_wall": flexible},
+    )
+    series = load_series(book)
+    assert series.falling_head["time"].tolist() == [0.0, 600.0, 1200.0]
+    assert series.flexible_wall["cell_pressure"].iloc[0] == 550e3

@@ -220,3 +220,15 @@ def test_a_revised_consolidation_moves_the_specimen(tmp_path):
     after = workspace.results().iloc[0]["k_reference"]
     assert after != before
     assert Workspace(tmp_path / "s").results().iloc[0]["k_reference"] == after
+
+
+def test_a_specimen_that_swelled_is_noted_in_its_checks(tmp_path):
+    _write_flexible_series(tmp_path / "s", 8e-10)
+    specimens = tmp_path / "s" / "specimens.csv"
+    lines = specimens.read_text().splitlines()
+    lines[0] += ",final_height [mm]"
+    lines[1] += ",118.4"  # 116.0 mm as prepared: +2.07 % in height and volume
+    specimens.write_text("\n".join(lines) + "\n")
+    row = Workspace(tmp_path / "s").results().iloc[0]
+    assert row["valid"]
+    assert row["checks"][-1].startswith("the specimen swelled 2.1 % during the test")
