@@ -25,6 +25,8 @@ quantity.
 
 from __future__ import annotations
 
+import re
+
 import numpy as np
 import pandas as pd
 
@@ -44,12 +46,15 @@ __all__ = [
 STANDARD_GRAVITY = 9.80665
 """Standard acceleration of gravity, gn. [m/s²] (3rd CGPM, 1901; CODATA 2018: exact)."""
 
+_DAY_ONLY = re.compile(r"[ T]00:00:00$")
+
 GAP_FACTOR = 50.0
 """A logger's reading more than this many times the median interval of its record after
 the one before is named as a gap (a restart or a lost stretch). Readings by hand at
 doubling intervals (1, 2, 4 … 512 min) stay below it. The tool's own rule."""
 
-_OFFSET_AT_END = r"(?:[zZ]|[+-]\d{2}(?::?\d{2})?)$"
+_OFFSET_END = re.compile(r"(?:[zZ]|[+-]\d{2}(?::?\d{2})?)$")
+"""The end of an ISO 8601 date-time that carries its offset from UTC (``Z``, ``+01:00``)."""
 
 
 def pressure_head(pressure, temperature):
@@ -87,8 +92,10 @@ def pressure_head(pressure, temperature):
     )
 
 
-def read_date_times(texts: pd.Series, zone_text: str | None) -> tuple[np.ndarray, np.ndarray]:
-    """ISO 8601 date-times as seconds since 1970-01-01 UTC, and which had no time zone.
+def read_date_times(
+    texts: pd.Series, zone_text: str | None
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """ISO 8601 date-times as seconds since 1970-01-01 UTC, and which could not be placed.
 
     Parameters
     ----------
@@ -103,45 +110,52 @@ def read_date_times(texts: pd.Series, zone_text: str | None) -> tuple[np.ndarray
         NaN where a value cannot be read, is empty, or has no zone. [s]
     zoneless : numpy.ndarray of bool
         The values without an offset when the header states no zone.
+    shifted : numpy.ndarray of bool
+        The values without an offset that name no single instant in the header's zone: a
+        time the clocks skipped or passed twice when they changed (summer time).
 
     References
     ----------
     ISO 8601-1:2019, clauses 5.4.2 (date and time of day) and 4.3.13 (time shift).
+
+    Notes
+    -----
+    A record whose values all carry the same offset, or none, is parsed in one pass; only
+    a record that mixes them is judged value by value on its last six characters.
     """
     zone = time_zone(zone_text)
-    text = texts.astype("string").str.strip()
-    present = text.notna().to_numpy() & (text.fillna("") != "").to_numpy()
-    with_offset = text.str.contains(_OFFSET_AT_END, regex=True).fillna(False).to_numpy(bool)
+    text = texts.astype(object)
+    present = (text.notna() & (text != "")).to_numpy(dtype=bool)
+    try:  # the usual record: every value with the same offset, or none with one
+        parsed = pd.to_datetime(text.where(present), format="ISO8601", errors="coerce")
+    except ValueError:  # offsets mixed with values without one, or different offsets
+        parsed = None
+    if parsed is not None and parsed.dt.tz is not None:
+        nothing = np.zeros(len(text), dtype=bool)
+        return _epoch_seconds(parsed), nothing, nothing
+    if parsed is not None:
+        if zone is None:
+            return np.full(len(text), np.nan), present, np.zeros(len(text), dtype=bool)
+        local = parsed.dt.tz_localize(zone, ambiguous="NaT", nonexistent="NaT")
+        shifted = (parsed.notna() & local.isna()).to_numpy(dtype=bool)
+        return _epoch_seconds(local), np.zeros(len(text), dtype=bool), shifted
+    endings = text.where(present, "").astype(str).str[-6:].str.rstrip()
+    codes, distinct = pd.factorize(endings)
+    offset_at_end = np.array([_OFFSET_END.search(e) is not None for e in distinct], dtype=bool)
+    with_offset = present & offset_at_end[codes] if codes.size else present
     seconds = np.full(len(text), np.nan)
-    if (present & with_offset).any():
-        stamps = pd.to_datetime(
-            text[present & with_offset], format="ISO8601", utc=True, errors="coerce"
-        )
-        seconds[present & with_offset] = _epoch_seconds(stamps)
+    if with_offset.any():
+        stamps = pd.to_datetime(text[with_offset], format="ISO8601", utc=True, errors="coerce")
+        seconds[with_offset] = _epoch_seconds(stamps)
     naive = present & ~with_offset
     zoneless = naive if zone is None else np.zeros(len(text), dtype=bool)
+    shifted = np.zeros(len(text), dtype=bool)
     if naive.any() and zone is not None:
-        stamps = pd.to_datetime(text[naive], format="ISO8601", errors="coerce")
-        stamps = stamps.dt.tz_localize(zone, ambiguous="NaT", nonexistent="NaT")
-        seconds[naive] = _epoch_seconds(stamps.dt.tz_convert("UTC"))
-    return seconds, zoneless
-
-
-def clock_change_times(texts: pd.Series, zone_text: str | None) -> np.ndarray:
-    """Which date-times without an offset name no single instant in the header's zone: a
-    time the clocks skipped or passed twice when they changed (summer time)."""
-    zone = time_zone(zone_text)
-    text = texts.astype("string").str.strip()
-    naive = text.notna().to_numpy() & ~text.str.contains(_OFFSET_AT_END, regex=True).fillna(
-        True
-    ).to_numpy(bool)
-    out = np.zeros(len(text), dtype=bool)
-    if zone is None or not naive.any():
-        return out
-    stamps = pd.to_datetime(text[naive], format="ISO8601", errors="coerce")
-    local = stamps.dt.tz_localize(zone, ambiguous="NaT", nonexistent="NaT")
-    out[naive] = (stamps.notna() & local.isna()).to_numpy(bool)
-    return out
+        parsed = pd.to_datetime(text[naive], format="ISO8601", errors="coerce")
+        local = parsed.dt.tz_localize(zone, ambiguous="NaT", nonexistent="NaT")
+        shifted[naive] = (parsed.notna() & local.isna()).to_numpy(dtype=bool)
+        seconds[naive] = _epoch_seconds(local)
+    return seconds, zoneless, shifted
 
 
 def _epoch_seconds(stamps: pd.Series) -> np.ndarray:
@@ -215,11 +229,16 @@ def _elapsed_from_date_times(table, frame, ids, problems) -> None:
             )
             return
         zone_text = zones.pop() if zones else None
-        day = raw["date"].astype("string").str.strip().str.replace(r"[ T]00:00:00$", "", regex=True)
-        texts = day + "T" + raw["time_of_day"].astype("string").str.strip()
+        # a date cell of a workbook reads "2026-03-02 00:00:00": each distinct date is
+        # cleaned once (a logger's record spans a few days)
+        codes, days = pd.factorize(raw["date"].astype(object))
+        cleaned = np.array([_DAY_ONLY.sub("", str(d).strip()) for d in days] + [""], object)
+        clock = raw["time_of_day"].astype(object)
+        texts = pd.Series(cleaned[codes], index=raw.index, dtype=object) + "T" + clock.astype(str)
+        texts = texts.where(raw["date"].notna().to_numpy() & clock.notna().to_numpy())
         named = "time_of_day"
     try:
-        seconds, zoneless = read_date_times(texts, zone_text)
+        seconds, zoneless, shifted = read_date_times(texts, zone_text)
     except UnitError as error:  # named with the header already
         problems.append(InputProblem(table.file, 1, header[named], str(error)))
         return
@@ -234,7 +253,6 @@ def _elapsed_from_date_times(table, frame, ids, problems) -> None:
         f"('{named} [UTC]', '{named} [+01:00]') or in each value (2026-03-02T08:15:00+01:00)",
         ids,
     )
-    shifted = clock_change_times(texts, zone_text)
     _report(
         problems,
         table,

@@ -213,12 +213,13 @@ def _internal_name(header_name: str) -> str:
     return "_".join(header_name.replace("-", " ").split())
 
 
-def _text_column(header: str) -> bool:
-    """Whether a header as written names one of the text columns (ids and labels)."""
+def _text_column(header: str, kinds=TEXT_KINDS) -> bool:
+    """Whether a header as written names one of the text columns (ids, labels and
+    date-times; or of the `kinds` given)."""
     if not _safe_header(header):
         return False
     name = _internal_name(split_header(header)[0])
-    return any(name in schema and schema[name].kind in TEXT_KINDS for schema in SCHEMAS.values())
+    return any(name in schema and schema[name].kind in kinds for schema in SCHEMAS.values())
 
 
 EMPTY_TEXTS = (
@@ -279,8 +280,12 @@ def _read_csv(path: Path, problems: list[InputProblem]) -> tuple[pd.DataFrame, l
         return pd.DataFrame({0: []}), written  # not comma-separated: the header says it all
     keys = list(range(len(written)))
     text_keys = [key for key in keys if _text_column(written[key])]
-    # text columns as categories: the parser keeps one string per distinct id, not per row
-    dtypes = dict.fromkeys(text_keys, "category")
+    # text columns as categories: the parser keeps one string per distinct id, not per row;
+    # date-times, nearly all distinct, as plain text
+    dtypes = {
+        key: object if _text_column(written[key], ("datetime",)) else "category"
+        for key in text_keys
+    }
     empty = {key: [""] if key in text_keys else list(EMPTY_TEXTS) for key in keys}
     try:
         with warnings.catch_warnings(record=True) as warned:

@@ -38,16 +38,16 @@ def test_pressure_head_of_arrays_and_standard_gravity():
 # --- date-times ---------------------------------------------------------------------------
 def test_date_times_in_the_zone_of_the_header_and_with_their_own_offsets():
     texts = pd.Series(["2026-03-02T08:00:00", "2026-03-02T07:30:00Z", "2026-03-02T09:00+01:00"])
-    seconds, zoneless = read_date_times(texts, "+01:00")
+    seconds, zoneless, shifted = read_date_times(texts, "+01:00")
     base = pd.Timestamp("2026-03-02T07:00:00Z").timestamp()  # 08:00 at UTC+01:00
     assert seconds.tolist() == [base, base + 1800, base + 3600]
-    assert not zoneless.any()
+    assert not zoneless.any() and not shifted.any()
 
 
 def test_date_times_in_a_named_zone_follow_summer_time():
     # Europe/Zurich is UTC+1 in winter and UTC+2 in summer (IANA time zone database)
     texts = pd.Series(["2026-01-15T12:00", "2026-07-15T12:00"])
-    seconds, _ = read_date_times(texts, "Europe/Zurich")
+    seconds, _, _ = read_date_times(texts, "Europe/Zurich")
     assert seconds[0] == pd.Timestamp("2026-01-15T11:00Z").timestamp()
     assert seconds[1] == pd.Timestamp("2026-07-15T10:00Z").timestamp()
 
