@@ -6,10 +6,12 @@ References
 Daniel, D. E. (1984). Predicting hydraulic conductivity of clay liners. J. Geotech. Eng.
 110(2):285. Benson, C. H., Daniel, D. E. and Boutwell, G. P. (1999). Field performance of
 compacted clay liners. J. Geotech. Geoenviron. Eng. 125(5). ASTM D5084 (results apply to
-the field "with caution and by qualified personnel"; from memory).
+the field "with caution and by qualified personnel"; from memory). Daniel, D. E. and
+Benson, C. H. (1990). Water content–density criteria for compacted soil liners. J. Geotech.
+Eng. 116(12):1811 (the acceptable zone comes from laboratory specimens of one soil).
 """
 
-__all__ = ["CAUTIONS"]
+__all__ = ["CAUTIONS", "FIELD_CAUTIONS"]
 
 CAUTIONS = (
     "Laboratory hydraulic conductivity can differ from the field value by orders of "
@@ -23,3 +25,14 @@ CAUTIONS = (
     "judgement of the responsible licensed engineer.",
 )
 """The cautions every report, notebook and exported memo item carries."""
+
+FIELD_CAUTIONS = (
+    "A field density test inside the acceptable zone does not prove the field hydraulic "
+    "conductivity: it shows the lift was compacted to a state at which laboratory "
+    "specimens met the criterion (Daniel & Benson 1990).",
+    "The zone comes from laboratory specimens of one borrow source; soil from elsewhere, "
+    "or of another grading or plasticity, is not covered by it.",
+    "The project's QA plan sets the tests, their frequency and what is done with a test "
+    "outside the zone; defer to it and to the responsible engineer.",
+)
+"""The cautions every field-check report, chart and notebook carries, after :data:`CAUTIONS`."""

@@ -5,6 +5,9 @@ files with the revisions of its log applied) and writes its results.
 ``python -m kitchen revise SERIES --specimen ID --field F --value "4.95 in" --reason ...``
 records a revision (``--withdraw ID --reason ...`` withdraws one) and says what it changed;
 ``python -m kitchen history SERIES`` lists the revisions.
+``python -m kitchen field-check SERIES [FIELD_TESTS] --out DIR`` judges the field tests of
+the built liner against the series' acceptable zone and writes the check report
+(:mod:`kitchen.memo.field_report`).
 ``report`` also writes the memo pack (:mod:`kitchen.memo.pack`): the charts as HTML, PNG and
 SVG, ``results.xlsx`` and ``report.html``, printing its progress on stderr. The verdicts of
 ``report`` and ``revise`` are drawn against ``--criterion`` when it is given, else against
@@ -97,7 +100,44 @@ def build_parser() -> argparse.ArgumentParser:
     )
     _add_memo_options(report)
     _add_revision_commands(commands)
+    _add_field_check_command(commands)
     return parser
+
+
+def _add_field_check_command(commands) -> None:
+    check = commands.add_parser(
+        "field-check",
+        help="judge field tests of the built liner against the series' acceptable zone",
+    )
+    check.add_argument("series", type=Path, help="series folder or .xlsx workbook (the zone)")
+    check.add_argument(
+        "field_tests",
+        type=Path,
+        nargs="?",
+        help="the field tests: a CSV file, a folder holding field_tests.csv, or a workbook "
+        "with a sheet field_tests (default: the series' own)",
+    )
+    check.add_argument("--out", type=Path, required=True, help="folder for the check report")
+    check.add_argument(
+        "--zone",
+        choices=("drawn", "fitted"),
+        default="drawn",
+        help="the zone the tests are held to: drawn (the memo's acceptable zone, default) or "
+        "fitted (where the fit's prediction bound meets the criterion)",
+    )
+    check.add_argument(
+        "--effort",
+        help="the laboratory compactive effort whose fitted prediction applies to tests that "
+        "name none (default: the least favourable)",
+    )
+    check.add_argument(
+        "--same-location",
+        type=float,
+        default=1.5,
+        help="a later test of a lift within this many metres of an earlier one replaces it "
+        "(default 1.5)",
+    )
+    _add_memo_options(check)
 
 
 def _datum_tolerance(text: str) -> float:
@@ -487,6 +527,39 @@ def _keep(arguments, parser) -> int:
     return 0
 
 
+def _field_check(arguments) -> int:
+    from kitchen.memo import export_field_check
+    from kitchen.workspace import Workspace
+
+    workspace = Workspace(arguments.series, windows_on_record=not arguments.proposed_windows)
+    given = _criterion(arguments)
+    report = export_field_check(
+        workspace,
+        arguments.field_tests or arguments.series,
+        arguments.out,
+        criterion=given,
+        criterion_source=_TYPED if given is not None else None,
+        zone=arguments.zone,
+        effort=arguments.effort,
+        same_location=arguments.same_location,
+        k_unit=arguments.k_unit,
+        density_unit=arguments.density_unit,
+        images=not arguments.no_images,
+        self_contained=arguments.self_contained,
+        progress=_progress,
+    )
+    check = report.check
+    print(f"{check.summary}")
+    for _, lift in check.lifts.iterrows():
+        outside = f"; outside: {lift['outside']}" if lift["outside"] else ""
+        name = lift["lift"] if lift["lift"] == "all lifts" else f"lift {lift['lift']}"
+        print(f"  {name}: {lift['inside']} of {lift['tests']} inside{outside}")
+    for note in check.notes:
+        print(f"  note: {note}")
+    print(f"check report: {len(report.files)} file(s) in {arguments.out} ({report.seconds:.1f} s)")
+    return 0
+
+
 _CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f\u200e\u200f\u202a-\u202e\u2066-\u2069]")
 """Characters a terminal acts on rather than shows (C0 and C1 controls but tab and line
 feed; the bidirectional overrides), escaped before anything is printed."""
@@ -545,6 +618,8 @@ def _main(argv: list[str] | None) -> int:
             return _history(arguments)
         if arguments.command == "keep":
             return _keep(arguments, parser)
+        if arguments.command == "field-check":
+            return _field_check(arguments)
     except SeriesError as error:
         print(f"kitchen: {arguments.series}: {error}", file=sys.stderr)
         return EXIT_INPUT

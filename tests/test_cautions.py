@@ -11,7 +11,7 @@ from pathlib import Path
 
 import pytest
 
-from kitchen.cautions import CAUTIONS
+from kitchen.cautions import CAUTIONS, FIELD_CAUTIONS
 
 ROOT = Path(__file__).resolve().parents[1]
 NOTEBOOKS = sorted((ROOT / "notebooks").glob("*.ipynb"))
@@ -71,4 +71,16 @@ def test_each_notebook_quotes_every_caution(path):
 
 
 def test_every_notebook_is_checked():
-    assert [p.stem[:2] for p in NOTEBOOKS] == ["01", "02", "03", "04", "05", "06"]
+    assert [p.stem[:2] for p in NOTEBOOKS] == ["01", "02", "03", "04", "05", "06", "07"]
+
+
+def test_the_field_cautions_are_quoted_by_the_field_notebook_and_the_readme():
+    notebook = json.loads((ROOT / "notebooks" / "07_field_checks.ipynb").read_text("utf-8"))
+    section = next(
+        _words("".join(cell["source"]))
+        for cell in notebook["cells"]
+        if "".join(cell["source"]).startswith("## Cautions")
+    )
+    readme = _words(_readme_section("Field checks"))
+    for caution in FIELD_CAUTIONS:
+        assert caution in section and caution in readme

@@ -379,3 +379,28 @@ def test_control_characters_stored_in_a_log_are_shown_as_escapes(clay):
     code, out, _ = run_cli("history", clay)
     assert code == 0 and "\x1b" not in out and "\x07" not in out and "\u202e" not in out
     assert "\\x1b]0;owned\\x07\\x1b[2J\\u202e" in out
+
+
+def test_field_check_writes_the_report_and_prints_the_counts(tmp_path):
+    code, out, err = run_cli(
+        "field-check", SAMPLES / "clay_liner", "--out", tmp_path, "--no-images"
+    )
+    assert code == 0, err
+    assert "field test(s) inside the acceptable zone (drawn)" in out
+    assert "lift 2:" in out and "all lifts:" in out
+    assert (tmp_path / "field_check.docx").exists() and (tmp_path / "manifest.csv").exists()
+
+
+def test_field_check_names_every_bad_cell_and_exits_2(tmp_path):
+    tests = tmp_path / "site.csv"
+    tests.write_text(
+        "test,date,lift,x [m],y [m],water_content [%],dry_density,method\n"
+        "T1,2025-06-02,1,0,0,nineteen,1.7,nuclear gauge\n"
+    )
+    code, out, err = run_cli(
+        "field-check", SAMPLES / "clay_liner", tests, "--out", tmp_path / "out", "--no-images"
+    )
+    assert code == 2 and "Traceback" not in err
+    assert "site.csv, row 2, column 'water_content [%]', test T1: expected a number" in err
+    assert "site.csv, row 1, column 'dry_density': 'dry_density' has a dimension" in err
+    assert not (tmp_path / "out").exists()

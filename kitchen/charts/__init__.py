@@ -18,11 +18,14 @@ Modules:
 - :mod:`.specimen`: one specimen's charts: the falling-head record, the constant-head test.
 - :mod:`.test_record`: one test over its course: k against time and pore volumes of flow,
   outflow/inflow against time.
+- :mod:`.field_tests`: the field tests over the zone, and their distance from it by date.
 
 The public face, which other subpackages import from :mod:`kitchen.charts` and never from
 its modules: :func:`compaction_conductivity_figure`, :func:`compaction_conductivity_spec`,
 :func:`conductivity_trend_figure`, :func:`falling_head_figure`, :func:`falling_head_spec`
-and :func:`constant_head_figure`, :func:`flow_record_figure` (the figures); :func:`memo_template`,
+and :func:`constant_head_figure`, :func:`flow_record_figure` (the figures);
+:func:`field_plane_figure`, :func:`field_distance_figure` and :data:`FIELD_FILLS` (the field
+check's); :func:`memo_template`,
 :func:`decimation_indices`, :func:`add_caption`, :data:`MAX_TRACE_POINTS`, :data:`WIDTH`,
 :data:`HEIGHT`, :data:`FONT`, :data:`INK`, :data:`MUTED`, :data:`GRID`, :data:`ZONE`,
 :data:`VERDICT_COLOURS`, :data:`VERDICT_FACE`, :data:`VERDICT_FILL`, :data:`EFFORT_SYMBOLS`,
@@ -48,6 +51,9 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "compaction_conductivity_spec": "compaction",
         "conductivity_trend_figure": "conductivity_trend",
         "constant_head_figure": "specimen",
+        "FIELD_FILLS": "field_tests",
+        "field_distance_figure": "field_tests",
+        "field_plane_figure": "field_tests",
         "falling_head_figure": "specimen",
         "falling_head_spec": "specimen",
         "flow_record_figure": "test_record",
@@ -83,6 +89,9 @@ __all__ = [
     "EFFORT_DASHES",
     "EFFORT_SYMBOLS",
     "falling_head_figure",
+    "FIELD_FILLS",
+    "field_distance_figure",
+    "field_plane_figure",
     "falling_head_spec",
     "FONT",
     "GRID",

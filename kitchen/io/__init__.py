@@ -24,13 +24,15 @@ The public face, which other subpackages import from :mod:`kitchen.io` and never
 modules: :func:`split_header`, :func:`format_header`, :func:`parse_value`, :func:`to_si`,
 :data:`KINDS`, :data:`EXAMPLE_UNITS` and :class:`UnitError` (units); :data:`SCHEMAS`,
 :data:`TABLE_NAMES`, :class:`ColumnSpec`, :class:`RawTable`, :func:`read_tables`,
+:func:`read_table` (one table on its own: the field tests),
 :class:`InputProblem` and :class:`SeriesError` (the raw tables), :data:`ALTERNATIVE_COLUMNS`
 and :data:`CONDITION_TABLES`; :func:`time_zone` (units); :func:`pressure_head`,
 :func:`read_date_times`, :data:`STANDARD_GRAVITY` and :data:`GAP_FACTOR` (logger readings);
 :data:`FLOW_DIRECTIONS` (condition checks); :func:`head_rise_tolerance`,
 :data:`HEAD_RISE_TOLERANCE` and :data:`HEAD_RISE_SCATTERS` (the rise a falling-head reading
-may show); :data:`SPECIMEN_ID_LENGTH` (the longest specimen id); :class:`Series`,
-:func:`build_series`, :func:`load_series` and
+may show); :func:`convert_table` and :func:`report_rows` (a table's values checked and
+converted, problems named by row); :data:`SPECIMEN_ID_LENGTH` (the longest specimen id);
+:class:`Series`, :func:`build_series`, :func:`load_series` and
 :func:`rebuild_series`; :func:`atomic_write_bytes`, :func:`atomic_write_text`,
 :func:`append_line` (:data:`APPEND_ROOM`), :func:`folder_lock`, :func:`sync_folder`,
 :func:`write_csv` and :func:`spreadsheet_safe`.
@@ -75,6 +77,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "RawTable": "raw_tables",
         "SeriesError": "raw_tables",
         "read_tables": "raw_tables",
+        "read_table": "raw_tables",
         "Series": "series",
         "build_series": "series",
         "load_series": "series",
@@ -83,6 +86,8 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "SPECIMEN_ID_LENGTH": "table_checks",
         "HEAD_RISE_TOLERANCE": "table_checks",
         "head_rise_tolerance": "table_checks",
+        "convert_table": "table_checks",
+        "report_rows": "table_checks",
         "KINDS": "units",
         "EXAMPLE_UNITS": "units",
         "UnitError": "units",
@@ -120,6 +125,8 @@ __all__ = [
     "SPECIMEN_ID_LENGTH",
     "HEAD_RISE_TOLERANCE",
     "head_rise_tolerance",
+    "convert_table",
+    "report_rows",
     "InputProblem",
     "KINDS",
     "EXAMPLE_UNITS",
@@ -127,6 +134,7 @@ __all__ = [
     "parse_value",
     "RawTable",
     "read_tables",
+    "read_table",
     "rebuild_series",
     "SCHEMAS",
     "TEXT_KINDS",

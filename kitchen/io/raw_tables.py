@@ -42,6 +42,7 @@ __all__ = [
     "SeriesError",
     "RawTable",
     "read_tables",
+    "read_table",
 ]
 
 
@@ -130,8 +131,24 @@ SCHEMAS: dict[str, dict[str, ColumnSpec]] = {
         "cell_pressure_increment": ColumnSpec("pressure", True),
         "pore_pressure_increment": ColumnSpec("pressure", True),
     },
+    "field_tests": {
+        "test": ColumnSpec("id", True),
+        "date": ColumnSpec("label", True),
+        "lift": ColumnSpec("label", True),
+        "station": ColumnSpec("length"),
+        "offset": ColumnSpec("length"),
+        "x": ColumnSpec("length"),
+        "y": ColumnSpec("length"),
+        "water_content": ColumnSpec("ratio", True),
+        "dry_density": ColumnSpec("density"),
+        "wet_density": ColumnSpec("density"),
+        "method": ColumnSpec("label", True),
+        "effort": ColumnSpec("label"),
+    },
 }
-"""Columns each table may carry, by internal name.
+"""Columns each table may carry, by internal name. ``field_tests`` is not part of a
+series' laboratory data: it is read on its own by :func:`read_table`
+(:mod:`kitchen.field`).
 
 In ``falling_head`` the elapsed ``time`` may be replaced by date-times (``date_time``, or
 ``date`` and ``time_of_day``) and the ``head`` by a pressure or by burette levels; the
@@ -159,6 +176,7 @@ class InputProblem:
     column: str | None
     message: str
     specimen: str | None = None
+    subject: str = "specimen"
 
     def __str__(self) -> str:
         where = [self.file]
@@ -167,7 +185,7 @@ class InputProblem:
         if self.column is not None:
             where.append(f"column '{self.column}'")
         if self.specimen is not None:
-            where.append(f"specimen {self.specimen}")
+            where.append(f"{self.subject} {self.specimen}")
         return f"{', '.join(where)}: {self.message}"
 
 
@@ -492,6 +510,7 @@ _EXAMPLE_UNITS = {
     "mass": "[g], [kg]",
     "time": "[s], [min], [h]",
     "temperature": "[degC]",
+    "density": "[Mg/m^3], [kg/m^3], [lb/ft^3]",
     "ratio": "[%] or [-]",
     "pressure": "[kPa], [psi]",
 }
@@ -594,6 +613,54 @@ def _name_empty_tables(tables: dict[str, RawTable]) -> None:
         table.problems.append(InputProblem(table.file, 2, None, what))
 
 
+def read_table(path: str | Path, name: str) -> RawTable:
+    """Read one table of :data:`SCHEMAS` as written, without converting units.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        A CSV file holding the table; a folder holding ``NAME.csv``; or an ``.xlsx``
+        workbook with a sheet ``NAME``.
+    name : str
+        The table's name in :data:`SCHEMAS` (``"field_tests"``).
+
+    Returns
+    -------
+    RawTable
+        With the problems of its header in ``problems`` (a missing column, a missing or
+        unknown unit), to report with those of its values.
+
+    Raises
+    ------
+    SeriesError
+        When the file or sheet is missing or cannot be read.
+    """
+    path = Path(path)
+    problems: list[InputProblem] = []
+    if path.is_dir():
+        path = path / f"{name}.csv"
+    if path.suffix.lower() == ".xlsx" and path.exists():
+        read = _read_workbook(path, problems, (name,)).get(name)
+        if read is None and not problems:
+            problems.append(InputProblem(path.name, None, None, f"has no sheet '{name}'"))
+    elif path.is_file():
+        frame = _read_csv(path, problems)
+        read = None if frame is None else (path.name, *frame)
+    else:
+        raise SeriesError(
+            [InputProblem(str(path), None, None, f"not found: expected {name}.csv or a workbook")]
+        )
+    if problems or read is None:
+        raise SeriesError(problems)
+    label, frame, written = read
+    header_problems: list[InputProblem] = []
+    kept, units, headers = _prepare(name, label, frame, written, header_problems)
+    table = RawTable(name, label, kept, units, headers, header_problems)
+    if len(kept) == 0 and not header_problems:
+        header_problems.append(InputProblem(label, 2, None, "no rows below the header"))
+    return table
+
+
 WORKBOOK_UNPACKED_LIMIT = 64 * 2**20
 """The most a workbook may unpack to (about 1.5 × 10⁶ cells, some 20 s to read); a longer
 logger record belongs in a CSV file. A larger workbook is refused before it is unpacked,
@@ -622,7 +689,7 @@ def _workbook_problem(path: Path, message: str) -> SeriesError:
 
 
 def _read_workbook(
-    path: Path, problems: list[InputProblem]
+    path: Path, problems: list[InputProblem], names: tuple[str, ...] = TABLE_NAMES
 ) -> dict[str, tuple[str, pd.DataFrame, list[str]]]:
     """The table sheets of a workbook: positional column keys, the headers as written.
 
@@ -655,7 +722,7 @@ def _read_workbook(
     read: dict[str, tuple[str, pd.DataFrame, list[str]]] = {}
     rows_of: dict[str, list[tuple]] = {}
     try:
-        for name in TABLE_NAMES:
+        for name in names:
             if name not in book.sheetnames:
                 continue
             sheet = book[name]

@@ -29,7 +29,9 @@ __all__ = [
     "HEAD_RISE_TOLERANCE",
     "HEAD_RISE_SCATTERS",
     "SPECIMEN_ID_LENGTH",
+    "convert_table",
     "head_rise_tolerance",
+    "report_rows",
 ]
 
 
@@ -52,6 +54,7 @@ _POSITIVE = {
     "b_value_checks": ("cell_pressure_increment",),
     "constant_head": ("head_difference", "duration", "volume", "outflow_mass", "flow_length"),
     "falling_head": ("head", "head_pressure"),
+    "field_tests": ("dry_density", "wet_density"),
 }
 
 
@@ -60,6 +63,7 @@ _NON_NEGATIVE = {
     "falling_head": ("time", "inflow_volume", "outflow_volume"),
     "flexible_wall": ("back_pressure",),
     "b_value_checks": ("back_pressure", "pore_pressure_increment"),
+    "field_tests": ("water_content",),
 }
 
 
@@ -139,6 +143,15 @@ PLAUSIBLE_RANGES: dict[str, dict[str, PlausibleRange]] = {
         "tailwater_level": _BURETTE_LEVEL,
         "headwater_pressure": _CELL_PRESSURE,
         "tailwater_pressure": _CELL_PRESSURE,
+    },
+    "field_tests": {
+        "water_content": PlausibleRange(0.0, 1.0, "0 to 100 %", "a compacted soil's water content"),
+        "dry_density": PlausibleRange(
+            800.0, 2600.0, "0.8 to 2.6 Mg/m³", "a compacted soil's dry density"
+        ),
+        "wet_density": PlausibleRange(
+            900.0, 3000.0, "0.9 to 3.0 Mg/m³", "a compacted soil's wet density"
+        ),
     },
 }
 """The values a laboratory permeameter test can hold, by table and column, in SI.
@@ -376,6 +389,7 @@ _INTERNAL_UNITS = {
     "temperature": "°C",
     "ratio": "%",
     "pressure": "Pa",
+    "density": "kg/m³",
 }
 
 
@@ -489,8 +503,9 @@ def convert_table(table: RawTable, problems: list[InputProblem]) -> tuple[pd.Dat
             if present:
                 labels = TextCodes.of(table.frame[column])
                 columns[column] = labels.strings()
-                if column == "specimen":
+                if spec.kind == "id":
                     ids = labels
+                if column == "specimen":
                     _check_specimen_ids(table, labels, problems)
                 if spec.required:
                     report_rows(problems, table, labels.codes < 0, column, "value missing")

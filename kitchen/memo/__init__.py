@@ -24,7 +24,10 @@ Modules, in the order a pack is made:
   each stated or marked "not recorded", with the test's record over time.
 - :mod:`.manifest`: ``manifest.csv``, written last; the pack built beside its folder and
   swapped in whole (:class:`StagedPack`); checking a pack received.
+- :mod:`.documents`: the memo and the field-check report as ``.docx`` (python-docx).
 - :mod:`.pack`: the export of the whole pack in one call.
+- :mod:`.field_report`: the field-check report (field tests judged against the zone), with
+  the same provenance, manifest and cautions.
 
 The public face, which other subpackages import from :mod:`kitchen.memo` and never from its
 modules: :func:`export_memo_pack` (:class:`MemoPack`) and :data:`CHART_SCRIPT`;
@@ -35,13 +38,16 @@ modules: :func:`export_memo_pack` (:class:`MemoPack`) and :data:`CHART_SCRIPT`;
 :data:`KEPT_TEST_COLUMNS`;
 :func:`workbook_bytes`, :func:`setting_texts`, :data:`SETTING_UNITS`; :func:`memo_provenance`,
 :class:`Provenance`, :class:`InputFile` and :func:`file_sha256`; :func:`report_page`,
-:func:`chart_page`, :data:`REDUCTION_METHODS` and :data:`VERDICT_MARKS`; :func:`table_markup`
+:func:`chart_page`, :func:`provenance_markup`, :data:`REDUCTION_METHODS` and
+:data:`VERDICT_MARKS`; :func:`table_markup`
 (the notebook panels build their tables with it too); :func:`report_items`
 (:class:`ReportItem`, :data:`NOT_RECORDED`), :func:`report_pages` (:class:`ReportPage`),
 :func:`specimen_page`, :func:`specimen_links` and :func:`page_name`;
 :class:`StagedPack`, :class:`PackFolderError`, :func:`interrupted_exports`,
 :func:`manifest_bytes`, :func:`read_manifest`, :func:`verify_pack`, :data:`MANIFEST` and
-:data:`MANIFEST_COLUMNS`.
+:data:`MANIFEST_COLUMNS`; :func:`document_bytes` and :func:`memo_document` (the ``.docx``);
+:func:`export_field_check` (:class:`FieldReport`), :func:`field_tests_table` and
+:func:`lifts_table` (the field check).
 
 The memo rests on no standard of its own: the methods and sources the report page lists
 (:data:`REDUCTION_METHODS`) are those of :mod:`kitchen.reduction` and
@@ -54,6 +60,12 @@ __getattr__, __dir__ = _lazy.lazy_face(
     __name__,
     {
         "memo_charts": "figures",
+        "document_bytes": "documents",
+        "memo_document": "documents",
+        "FieldReport": "field_report",
+        "export_field_check": "field_report",
+        "field_tests_table": "field_report",
+        "lifts_table": "field_report",
         "FIRST_IMAGE_TIMEOUT": "images",
         "PNG_SCALE": "images",
         "ImageExportUnavailable": "images",
@@ -74,6 +86,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "REDUCTION_METHODS": "pages",
         "VERDICT_MARKS": "pages",
         "chart_page": "pages",
+        "provenance_markup": "pages",
         "report_page": "pages",
         "NOT_RECORDED": "specimen_pages",
         "ReportItem": "specimen_pages",
@@ -102,6 +115,13 @@ __getattr__, __dir__ = _lazy.lazy_face(
 )
 
 __all__ = [
+    "document_bytes",
+    "export_field_check",
+    "FieldReport",
+    "field_tests_table",
+    "lifts_table",
+    "memo_document",
+    "provenance_markup",
     "chart_page",
     "NOT_RECORDED",
     "ReportItem",

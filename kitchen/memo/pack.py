@@ -12,6 +12,9 @@
   revision of the data and every test kept on record (who, when, what, why), the methods
   and their sources, the criteria applied, the cautions and the provenance, which names
   the version, size and SHA-256 of the plotly.js the pages run;
+- ``report.docx``: the same report as a document a word processor opens (summary, tables,
+  the PNG charts, methods with their sources, cautions, provenance;
+  :mod:`kitchen.memo.documents`);
 - ``manifest.csv``, last: every file above with its size and SHA-256
   (:mod:`kitchen.memo.manifest`), so a reviewer can check the pack received is the pack
   exported, and a pack with a manifest is known to be whole.
@@ -40,7 +43,6 @@ The charts are built in :mod:`kitchen.memo.figures`, their static images made in
 
 from __future__ import annotations
 
-import posixpath
 import time
 from collections.abc import Callable
 from dataclasses import asdict, dataclass, is_dataclass
@@ -48,7 +50,7 @@ from datetime import UTC, datetime
 from pathlib import Path
 
 from kitchen import display_units
-from kitchen.analysis import SeriesAnalysis
+from kitchen.analysis import ANALYSIS_METHODS, SeriesAnalysis
 from kitchen.cautions import CAUTIONS
 from kitchen.io import spreadsheet_safe
 from kitchen.revisions import kept_log_sha256, standing_choices
@@ -56,15 +58,17 @@ from kitchen.revisions import window_log_sha256 as window_log_digest
 from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace
 
+from ._export import figure_html, write_chart_files
+from .documents import memo_document
 from .figures import memo_charts
 from .images import FIRST_IMAGE_TIMEOUT as FIRST_IMAGE_TIMEOUT
 from .images import PNG_SCALE as PNG_SCALE
-from .images import image_result, request_image, start_image_export
+from .images import start_image_export
 from .manifest import PackFolderError, StagedPack
 from .markup import ChartScript
-from .pages import chart_page, report_page
+from .pages import REDUCTION_METHODS, report_page
 from .provenance import Provenance, memo_provenance
-from .specimen_pages import report_pages, specimen_links, specimen_page
+from .specimen_pages import report_pages, specimen_links, write_report_pages
 from .tables import (
     checks_table,
     fits_table,
@@ -164,16 +168,6 @@ def _windows_text(windows: dict | None, choices) -> str:
     return "chosen for " + "; ".join(parts) + "; proposed by the tool for the others"
 
 
-def _figure_html(figure, name: str) -> str:
-    """The figure as an HTML fragment without plotly.js (the page's head loads it)."""
-    return figure.to_html(
-        full_html=False,
-        include_plotlyjs=False,
-        div_id=f"chart-{name}",
-        config={"displaylogo": False, "responsive": False},
-    )
-
-
 def export_memo_pack(
     workspace: Workspace,
     out: str | Path,
@@ -237,8 +231,6 @@ def export_memo_pack(
         is then left as it was.
     """
     from plotly.offline import get_plotlyjs, get_plotlyjs_version
-
-    from kitchen.charts import add_caption
 
     started, clock = datetime.now(UTC), time.perf_counter()
     settings, series = workspace.settings, workspace.series
@@ -309,7 +301,7 @@ def export_memo_pack(
     steps += [f"charts/{name}.{ext}" for name, _, _ in charts for ext in formats]
     pages = report_pages(workspace, results, ku, label)
     steps += [f"specimens/{page.name}.{ext}" for page in pages for ext in formats]
-    steps.append("report.html")
+    steps += ["report.html", "report.docx"]
     written: list[Path] = []
 
     def write(relative: str, kind: str, data: Callable[[], bytes]) -> None:
@@ -328,55 +320,9 @@ def export_memo_pack(
         if script.path is not None:  # before any page that loads it
             write(script.path, "script", lambda: script.content)
         caption = _caption(provenance, criterion_text)
-        requested = {}
-        if images:  # Chromium draws them in turn while the pages below are written
-            for name, _, figure in charts:
-                captioned = add_caption(figure, caption)
-                for ext in ("png", "svg"):
-                    requested[name, ext] = request_image(captioned, ext)
-        for name, title, figure in charts:
-            page = f"charts/{name}.html"
-            write(
-                page,
-                "chart",
-                lambda f=figure, n=name, t=title, p=page: chart_page(
-                    t, _figure_html(f, n), CAUTIONS, provenance, script, posixpath.dirname(p)
-                ).encode("utf-8"),
-            )
-            for ext in ("png", "svg") if images else ():
-                write(
-                    f"charts/{name}.{ext}", "chart", lambda r=requested[name, ext]: image_result(r)
-                )
-        if images:  # the record of each test over time, drawn while its pages are written
-            for page in pages:
-                captioned = add_caption(page.figure, caption)
-                for ext in ("png", "svg"):
-                    requested[f"specimens/{page.name}", ext] = request_image(captioned, ext)
-        for page in pages:  # one page per test, with its record over time as images beside it
-            images_of = tuple(f"{page.name}.{ext}" for ext in formats[1:])
-            write(
-                f"specimens/{page.name}.html",
-                "test page",
-                lambda p=page, i=images_of: specimen_page(
-                    list(p.items),
-                    p.title,
-                    _figure_html(p.figure, p.name),
-                    i,
-                    p.last_values,
-                    p.b_checks,
-                    CAUTIONS,
-                    caption[-1],
-                    script.element("specimens"),
-                ).encode("utf-8"),
-            )
-            for ext in ("png", "svg") if images else ():
-                key = (f"specimens/{page.name}", ext)
-                write(
-                    f"specimens/{page.name}.{ext}",
-                    "test page",
-                    lambda r=requested[key]: image_result(r),
-                )
-        fragments = [(name, title, _figure_html(figure, name)) for name, title, figure in charts]
+        pngs = write_chart_files(write, charts, CAUTIONS, provenance, script, caption, images)
+        write_report_pages(write, pages, CAUTIONS, caption, script, images)
+        fragments = [(name, title, figure_html(figure, name)) for name, title, figure in charts]
         write(
             "report.html",
             "report",
@@ -394,6 +340,19 @@ def export_memo_pack(
                 source,
                 specimen_links([(p.name, p.specimen, p.method) for p in pages]),
             ).encode("utf-8"),
+        )
+        write(
+            "report.docx",
+            "document",
+            lambda: memo_document(
+                analysis,
+                tables,
+                pngs,
+                provenance,
+                CAUTIONS,
+                criterion_text,
+                REDUCTION_METHODS + ANALYSIS_METHODS,
+            ),
         )
         manifest, removed = staged.finish()
     return MemoPack(

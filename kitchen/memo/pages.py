@@ -39,7 +39,7 @@ from .markup import STYLE as STYLE
 from .markup import ChartScript, cautions_markup, escape, number_text, page_markup, table_markup
 from .provenance import Provenance
 
-__all__ = ["REDUCTION_METHODS", "VERDICT_MARKS", "chart_page", "report_page"]
+__all__ = ["REDUCTION_METHODS", "VERDICT_MARKS", "chart_page", "provenance_markup", "report_page"]
 
 PERCENT = column_format("[%]")
 """Water content and saturation: to 0.1 % (the one format, as in the panels and the workbook)."""
@@ -101,7 +101,9 @@ def _script_row(script: ChartScript) -> tuple[str, str]:
     )
 
 
-def _provenance(provenance: Provenance, script: ChartScript) -> str:
+def provenance_markup(provenance: Provenance, script: ChartScript) -> str:
+    """The provenance as the report pages show it: tool, time, series, every setting, the
+    revision log, the environment, plotly.js, and each input file with its SHA-256."""
     rows = [
         ("tool", f"kitchen {escape(provenance.tool_version)}"),
         ("exported", escape(provenance.created)),
@@ -505,7 +507,7 @@ def report_page(
             "<h2>Cautions</h2>",
             cautions_markup(cautions),
             "<h2>Provenance</h2>",
-            _provenance(provenance, script),
+            provenance_markup(provenance, script),
             check,
         ]
     )

@@ -464,3 +464,47 @@ def report_pages(workspace, results: pd.DataFrame, ku, reference: str) -> list[R
             )
         )
     return pages
+
+
+def write_report_pages(write, pages, cautions, caption, script, images: bool) -> None:
+    """Write each test's page (``specimens/NAME.html``) and, with `images`, the PNG and SVG
+    of its record over time with `caption` printed under it.
+
+    `write` is called as ``write(relative, kind, data)``; `script` is the pack's
+    :class:`kitchen.memo.markup.ChartScript`. Every image is asked of Chromium first, and
+    drawn while the pages are written.
+    """
+    from kitchen.charts import add_caption
+
+    from ._export import figure_html
+    from .images import image_result, request_image
+
+    requested = {}
+    if images:
+        for page in pages:
+            captioned = add_caption(page.figure, caption)
+            for ext in ("png", "svg"):
+                requested[page.name, ext] = request_image(captioned, ext)
+    for page in pages:
+        shown = tuple(f"{page.name}.{ext}" for ext in ("png", "svg") if images)
+        write(
+            f"specimens/{page.name}.html",
+            "test page",
+            lambda p=page, i=shown: specimen_page(
+                list(p.items),
+                p.title,
+                figure_html(p.figure, p.name),
+                i,
+                p.last_values,
+                p.b_checks,
+                cautions,
+                caption[-1],
+                script.element("specimens"),
+            ).encode("utf-8"),
+        )
+        for ext in ("png", "svg") if images else ():
+            write(
+                f"specimens/{page.name}.{ext}",
+                "test page",
+                lambda r=requested[page.name, ext]: image_result(r),
+            )

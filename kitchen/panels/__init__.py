@@ -10,6 +10,7 @@ set a control's ``value`` and assert on the figure data and the results without 
 - :func:`revise_panel` (``05_revise``): revise a value, see what moved.
 - :func:`record_panel` (``06_test_record``): one test's report items, stated or marked
   "not recorded", and its course: k against time and pore volumes, outflow/inflow.
+- :func:`field_checks_panel` (``07_field_checks``): field tests judged against the zone.
 
 :func:`workbook_panel` puts a series chooser above any of them (no code to edit): the
 series opened is remembered for the other notebooks, and a sample is worked on in a
@@ -27,6 +28,8 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "ConstantHeadPanel": "constant_head",
         "constant_head_panel": "constant_head",
         "FallingHeadPanel": "falling_head",
+        "FieldChecksPanel": "field_checks",
+        "field_checks_panel": "field_checks",
         "falling_head_panel": "falling_head",
         "SeriesPanel": "open_series",
         "series_panel": "open_series",
@@ -53,6 +56,7 @@ __all__ = [
     "record_panel",
     "ConstantHeadPanel",
     "FallingHeadPanel",
+    "FieldChecksPanel",
     "RevisePanel",
     "SeriesChartPanel",
     "SeriesChooser",
@@ -60,6 +64,7 @@ __all__ = [
     "WorkbookPanel",
     "constant_head_panel",
     "falling_head_panel",
+    "field_checks_panel",
     "forget_series",
     "remember_series",
     "remembered_series",

@@ -85,14 +85,14 @@ def test_pack_files_and_progress(clay_pack):
         "conductivity_water_content",
     ] + [f"specimen_{s}_falling_head" for s in series.specimen_ids()]
     assert names == sorted(
-        ["results.csv", "results.xlsx", "report.html", CHART_SCRIPT]
+        ["results.csv", "results.xlsx", "report.html", "report.docx", CHART_SCRIPT]
         + [f"charts/{c}.html" for c in charts]
         + [f"specimens/{s}_falling_head.html" for s in series.specimen_ids()]
     )
     assert all(p.is_file() and p.stat().st_size > 0 for p in pack)
     assert [c[0] for c in calls] == list(range(1, len(pack) + 1))
     assert {c[1] for c in calls} == {len(pack)}
-    assert calls[0][2] == "table results.csv" and calls[-1][2] == "report report.html"
+    assert calls[0][2] == "table results.csv" and calls[-1][2] == "document report.docx"
     assert "chart charts/compaction_conductivity.html" in [c[2] for c in calls]
     steps = [c[2] for c in calls]
     first_page = min(i for i, step in enumerate(steps) if step.endswith(".html"))
@@ -301,7 +301,7 @@ def test_command_line_writes_the_pack_with_images(cli_pack):
     assert done.returncode == 0, done.stderr
     progress = [line for line in done.stderr.splitlines() if line.startswith("[")]
     total = int(re.match(r"\[1/(\d+)\] table results.csv$", progress[0]).group(1))
-    assert len(progress) == total and progress[-1] == f"[{total}/{total}] report report.html"
+    assert len(progress) == total and progress[-1] == f"[{total}/{total}] document report.docx"
     assert progress[2] == f"[3/{total}] script {CHART_SCRIPT}"
     assert f"[6/{total}] chart charts/conductivity_void_ratio.svg" in progress
     pngs, svgs = sorted(out.glob("charts/*.png")), sorted(out.glob("charts/*.svg"))

@@ -1,0 +1,84 @@
+"""What the memo pack and the field-check report share when they write: a figure as an HTML
+fragment, the writer that names each file as it goes, and the chart pages and images."""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from pathlib import Path
+
+__all__ = ["PackWriter", "figure_html", "write_chart_files"]
+
+
+def figure_html(figure, name: str) -> str:
+    """The figure as an HTML fragment without plotly.js (the page's head loads it)."""
+    return figure.to_html(
+        full_html=False,
+        include_plotlyjs=False,
+        div_id=f"chart-{name}",
+        config={"displaylogo": False, "responsive": False},
+    )
+
+
+class PackWriter:
+    """Writes the files of a pack through its :class:`~kitchen.memo.manifest.StagedPack`,
+    calling ``progress(done, total, what)`` before each; :attr:`written` lists the files'
+    final paths in order."""
+
+    def __init__(self, staged, steps: list[str], progress: Callable | None = None):
+        self.staged, self.steps, self.progress = staged, steps, progress
+        self.written: list[Path] = []
+
+    def __call__(self, relative: str, kind: str, data: Callable[[], bytes]) -> Path:
+        if self.progress is not None:
+            self.progress(len(self.written) + 1, len(self.steps), f"{kind} {relative}")
+        path = self.staged.write(relative, data())
+        self.written.append(path)
+        return path
+
+
+def write_chart_files(
+    write, charts, cautions, provenance, script, caption, images: bool
+) -> list[tuple[str, bytes]]:
+    """Write each chart's page (``charts/NAME.html``) and, with `images`, its PNG and SVG
+    with `caption` printed under it; return (title, PNG bytes) of each, for a document.
+
+    `write` is called as ``write(relative, kind, data)``; `charts` holds (name, title,
+    figure). Every image is asked of Chromium first, and drawn while the pages are written.
+    """
+    import posixpath
+
+    from kitchen.charts import add_caption
+
+    from .images import image_result, request_image
+    from .pages import chart_page
+
+    requested = {}
+    if images:
+        for name, _, figure in charts:
+            captioned = add_caption(figure, caption)
+            for ext in ("png", "svg"):
+                requested[name, ext] = request_image(captioned, ext)
+    pngs: list[tuple[str, bytes]] = []
+
+    def image(request, title: str, ext: str) -> bytes:
+        data = image_result(request)
+        if ext == "png":  # the document carries the same image
+            pngs.append((title, data))
+        return data
+
+    for name, title, figure in charts:
+        page = f"charts/{name}.html"
+        write(
+            page,
+            "chart",
+            lambda f=figure, n=name, t=title, p=page: chart_page(
+                t, figure_html(f, n), cautions, provenance, script, posixpath.dirname(p)
+            ).encode("utf-8"),
+        )
+        for ext in ("png", "svg") if images else ():
+            write(
+                f"charts/{name}.{ext}",
+                "chart",
+                lambda r=requested[name, ext], t=title, e=ext: image(r, t, e),
+            )
+    return pngs
