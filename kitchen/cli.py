@@ -29,7 +29,6 @@ from __future__ import annotations
 import argparse
 import contextlib
 import io
-import re
 import sys
 import warnings
 from pathlib import Path
@@ -348,7 +347,10 @@ def _report(arguments) -> int:
     path = arguments.out / "results.csv"
     print(f"{len(workspace.results())} result row(s) for {series.name} written to {path}")
     print(f"memo pack: {len(pack)} file(s) in {arguments.out} ({pack.seconds:.1f} s)")
-    print(f"{effective.revision_count} revision(s) applied from {effective.log_path}")
+    if effective.log_path is not None and Path(effective.log_path).exists():
+        print(f"{effective.revision_count} revision(s) applied from {effective.log_path}")
+    else:
+        print("no revisions: the series has no revision log; its raw files are used as written")
     print(_criterion_words(criterion, source))
     if windows:
         print(f"{len(windows)} reading window(s) chosen, from {windows_path(arguments.series)}")
@@ -497,7 +499,12 @@ def _history(arguments) -> int:
     revisions = read_revisions(arguments.series)
     table = history_table(revisions)
     standing = int((table["status"] == "in force").sum())
-    print(f"{len(table)} row(s) in {revisions_path(arguments.series)}: {standing} in force")
+    log = revisions_path(arguments.series)
+    if log.exists():
+        print(f"{len(table)} row(s) in {log}: {standing} in force")
+    else:
+        print(f"no revisions yet: {arguments.series} has no revision log ({log.name} is written "
+              "beside it by the first `revise`)")  # fmt: skip
     print(format_history(revisions))
     if arguments.out is not None:
         print(f"history written to {write_csv(arguments.out, table)}")
@@ -560,14 +567,12 @@ def _field_check(arguments) -> int:
     return 0
 
 
-_CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f\u200e\u200f\u202a-\u202e\u2066-\u2069]")
-"""Characters a terminal acts on rather than shows (C0 and C1 controls but tab and line
-feed; the bidirectional overrides), escaped before anything is printed."""
-
-
 def shown(text: str) -> str:
-    """`text` with every control character written as an escape (``\x1b``, ``\u202e``)."""
-    return _CONTROL.sub(lambda m: m.group().encode("unicode_escape").decode("ascii"), text)
+    """`text` as printed: each control character as an escape (:func:`kitchen.io.printable`),
+    line feeds and tabs kept."""
+    from kitchen.io import printable
+
+    return printable(text)
 
 
 def main(argv: list[str] | None = None) -> int:

@@ -1,8 +1,9 @@
 """Units for display: the k and density units the charts and the report offer.
 
 Inside the package k is in m/s and dry density in kg/m3; the charts and the report show
-them in the unit the engineer picks. Only the display changes: exported tables keep
-their stated units (``k20 [m/s]``, ``dry_density [Mg/m3]``).
+them in the unit the engineer picks: the charts, the panels' tables, the report page and
+the ``specimens`` sheet of ``results.xlsx``. ``results.csv`` (and the workbook's ``tests``
+sheet) keep their stated units (``k20 [m/s]``, ``dry_density [Mg/m3]``).
 
 Numbers are written one way wherever a person reads them — the panels' tables, the report
 page and the cells of ``results.xlsx``: :func:`column_format` gives each column's

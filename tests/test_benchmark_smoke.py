@@ -49,6 +49,17 @@ def test_log_linear_fit_matches_linregress(record):
     assert fit.r_squared == pytest.approx(reference.rvalue**2, rel=1e-9)
 
 
+def test_log_linear_fit_matches_the_numpy_closed_form(record):
+    ours, peer = bench.closed_form_case(record)
+    fit, (slope, standard_error) = ours(), peer()
+    assert fit.slope == pytest.approx(slope, rel=1e-9)
+    assert fit.slope_standard_error == pytest.approx(standard_error, rel=1e-9)
+    # the peer itself, against scipy.stats.linregress on the same arrays
+    reference = bench.stats.linregress(record.time, np.log(record.head))
+    assert slope == pytest.approx(reference.slope, rel=1e-12)
+    assert standard_error == pytest.approx(reference.stderr, rel=1e-9)
+
+
 def test_decay_fit_matches_curve_fit_and_recovers_k(record):
     ours, peer = bench.decay_case(record)
     fit, reference = ours(), peer()
@@ -88,6 +99,13 @@ def test_logger_file_reads_back_the_record(record, tmp_path):
     np.testing.assert_allclose(series.falling_head["time"], record.time - record.time[0])
     # pressures kept to 0.0001 kPa, about 0.01 mm of head (ρw from Tanaka et al. 2001)
     np.testing.assert_allclose(series.falling_head["head"], record.head, atol=2e-5)
+
+
+def test_loader_reads_the_ids_pandas_reads_as_a_category(record_folder):
+    ours, peer = bench.loading_case(record_folder, category=True)
+    series, frame = ours(), peer()
+    assert frame["specimen"].dtype == "category"
+    assert list(series.falling_head["specimen"].astype(str)) == list(frame["specimen"].astype(str))
 
 
 def test_figure_keeps_traces_short(record_folder):

@@ -226,7 +226,7 @@ def test_export_failure_leaves_the_previous_report(clay, tmp_path, monkeypatch):
     done = run_cli("report", clay, "--out", out, "--no-images")
     monkeypatch.undo()
     assert done.returncode == 2
-    assert "No space left on device" in done.stderr
+    assert "no room on the disk for the pack (results.csv could not be" in done.stderr
     assert _snapshot(out) == previous  # every file as it was, and no temporary left behind
 
 
@@ -353,6 +353,20 @@ def test_keep_refuses_in_words_and_writes_nothing(clay, arguments, message):
     run = run_cli("keep", clay, *arguments, "--reason", "because")
     assert run.returncode == 2 and message in run.stderr and "Traceback" not in run.stderr
     assert not (clay / "kept_tests.csv").exists()
+
+
+def test_a_series_without_a_revision_log_is_said_so_never_named(clay, tmp_path):
+    """The terminal never names a revisions file that is not there."""
+    assert not revisions_path(clay).exists()
+    report = run_cli("report", clay, "--out", tmp_path / "out", "--no-images")
+    assert report.returncode == 0, report.stderr
+    assert "revisions.csv" not in report.stdout
+    assert "no revisions: the series has no revision log" in report.stdout
+    history = run_cli("history", clay)
+    assert history.returncode == 0, history.stderr
+    assert f"no revisions yet: {clay} has no revision log" in history.stdout
+    assert "0 row(s) in" not in history.stdout
+    assert not revisions_path(clay).exists()
 
 
 @pytest.mark.parametrize(

@@ -20,7 +20,13 @@ from cli_runner import run_cli
 from series_files import SAMPLES, copy_sample
 
 from kitchen.io import APPEND_ROOM
-from kitchen.memo import interrupted_exports, verify_pack
+from kitchen.memo import (
+    MANIFEST,
+    PACK_MARK,
+    interrupted_exports,
+    read_manifest,
+    verify_pack,
+)
 from kitchen.revisions import read_kept_tests, read_revisions, read_window_choices
 
 SEED = 17_009
@@ -96,10 +102,15 @@ def test_a_command_killed_at_any_point_leaves_the_previous_state_whole(tmp_path,
             assert new[: len(old)] == old and len(new) - len(old) in (0, 1)
         if command == "report":
             assert verify_pack(out) == []  # the previous pack or the new one, whole
-            for left in interrupted_exports(out):  # what a kill left beside the pack
-                assert not (left / "manifest.csv").exists() or verify_pack(left) == []
+            for left in interrupted_exports(out):  # what a kill left beside the pack:
+                listed = read_manifest(left)  # a pack being built (no manifest), or the
+                for relative in {p.relative_to(left).as_posix() for p in left.rglob("*")}:
+                    assert relative in (*listed, MANIFEST, PACK_MARK) or not listed
     assert killed >= 1, "no run was killed: the kill points missed every run"
     assert _runs_to_its_end(series, out, command)
+    if command == "report":  # the previous packs a kill left beside it are gone now; a
+        for left in interrupted_exports(out):  # pack killed while built is only named
+            assert not (left / "manifest.csv").exists()
 
 
 def _runs_to_its_end(series: Path, out: Path, command: str) -> bool:
@@ -151,3 +162,40 @@ def test_a_full_disk_leaves_the_previous_pack_and_the_logs_whole(small_disk):
     filler.unlink()
     assert run_cli("window", series, "--specimen", "QF-02", "--proposed", "--reason", "b")[0] == 0
     assert [c.reason for c in read_window_choices(series)] == ["a", "b"]
+
+
+def _long_record(folder: Path, readings: int) -> Path:
+    """One specimen with `readings` falling-head readings, one a second, written without the
+    package (the file is some 200 MB at 10⁷ readings)."""
+    folder.mkdir()
+    (folder / "specimens.csv").write_text(
+        "specimen,effort,water_content [%],diameter [mm],height [mm],dry_mass [g],"
+        "specific_gravity,standpipe_diameter [mm]\nA1,standard,16.0,101.6,116.4,1620.0,2.70,5.0\n",
+        encoding="utf-8",
+    )
+    block = 10**6
+    tails = [f"{number:06d},{150.0 - number * 1e-5:.5f},20.0\n" for number in range(block)]
+    with open(folder / "falling_head.csv", "w", encoding="utf-8") as handle:
+        handle.write("specimen,time [s],head [cm],temperature [degC]\n")
+        for first in range(readings // block):
+            handle.write("".join(f"A1,{first}" + tail for tail in tails))
+    return folder
+
+
+def test_ten_million_readings_under_a_memory_cap_end_in_words_not_a_traceback(tmp_path):
+    resource = pytest.importorskip("resource", reason="no resource limits on this system")
+    series = _long_record(tmp_path / "long", 10**7)
+    cap = 2**30  # 1 GiB of address space: the record needs more
+
+    def capped() -> None:
+        resource.setrlimit(resource.RLIMIT_AS, (cap, cap))
+
+    done = subprocess.run(
+        [sys.executable, "-m", "kitchen", "report", str(series), "--out",
+         str(tmp_path / "pack"), "--no-images"],
+        preexec_fn=capped, capture_output=True, text=True, timeout=600,
+    )  # fmt: skip
+    assert done.returncode == 3, done.stderr[-2000:]
+    assert "kitchen: out of memory working on" in done.stderr
+    assert "Traceback" not in done.stderr and "MemoryError" not in done.stderr
+    assert not (tmp_path / "pack").exists() and interrupted_exports(tmp_path / "pack") == []

@@ -24,12 +24,15 @@ The public face, which other subpackages import from :mod:`kitchen.charts` and n
 its modules: :func:`compaction_conductivity_figure`, :func:`compaction_conductivity_spec`,
 :func:`conductivity_trend_figure`, :func:`falling_head_figure`, :func:`falling_head_spec`
 and :func:`constant_head_figure`, :func:`flow_record_figure` (the figures);
-:func:`field_plane_figure`, :func:`field_distance_figure` and :data:`FIELD_FILLS` (the field
-check's); :func:`memo_template`,
-:func:`decimation_indices`, :func:`add_caption`, :data:`MAX_TRACE_POINTS`, :data:`WIDTH`,
-:data:`HEIGHT`, :data:`FONT`, :data:`INK`, :data:`MUTED`, :data:`GRID`, :data:`ZONE`,
+:func:`field_plane_figure`,
+:func:`field_distance_figure` and :data:`FIELD_FILLS` (the field check's); :func:`memo_template`,
+:func:`decimation_indices`, :func:`add_caption`, :func:`label_specimens`,
+:data:`MAX_TRACE_POINTS`, :data:`WIDTH`, :data:`HEIGHT`, :data:`FONT`, :data:`INK`,
+:data:`MUTED`, :data:`GRID`, :data:`ZONE`,
 :data:`VERDICT_COLOURS`, :data:`VERDICT_FACE`, :data:`VERDICT_FILL`, :data:`EFFORT_SYMBOLS`,
-:data:`EFFORT_DASHES`, :data:`NO_EFFORT` and :data:`SATURATION_DASHES` (the style).
+:data:`EFFORT_DASHES`, :data:`NO_EFFORT`, :data:`SATURATION_DASHES`, :data:`OPTIMUM_DASH`,
+:data:`DRAWN_ZONE_DASH`, :data:`FITTED_ZONE_DASH`, :data:`CRITERION_DASH` and
+:data:`LINE_CODES` (the style).
 
 References
 ----------
@@ -67,12 +70,18 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "MUTED": "style",
         "NO_EFFORT": "style",
         "SATURATION_DASHES": "style",
+        "OPTIMUM_DASH": "style",
+        "DRAWN_ZONE_DASH": "style",
+        "FITTED_ZONE_DASH": "style",
+        "CRITERION_DASH": "style",
+        "LINE_CODES": "style",
         "VERDICT_COLOURS": "style",
         "VERDICT_FACE": "style",
         "VERDICT_FILL": "style",
         "WIDTH": "style",
         "ZONE": "style",
         "add_caption": "style",
+        "label_specimens": "style",
         "decimation_indices": "style",
         "memo_template": "style",
     },
@@ -81,6 +90,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
 __all__ = [
     "flow_record_figure",
     "add_caption",
+    "label_specimens",
     "compaction_conductivity_figure",
     "compaction_conductivity_spec",
     "conductivity_trend_figure",
@@ -102,6 +112,11 @@ __all__ = [
     "MUTED",
     "NO_EFFORT",
     "SATURATION_DASHES",
+    "OPTIMUM_DASH",
+    "DRAWN_ZONE_DASH",
+    "FITTED_ZONE_DASH",
+    "CRITERION_DASH",
+    "LINE_CODES",
     "VERDICT_COLOURS",
     "VERDICT_FACE",
     "VERDICT_FILL",

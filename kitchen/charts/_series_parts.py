@@ -17,10 +17,11 @@ import pandas as pd
 import plotly.graph_objects as go
 
 from kitchen.analysis import SeriesAnalysis
-from kitchen.display_units import DisplayUnit, scientific
+from kitchen.display_units import DisplayUnit, distinct_texts, scientific
 from kitchen.settings import reference_label
 
 from .style import (
+    CRITERION_DASH,
     EFFORT_DASHES,
     EFFORT_SYMBOLS,
     INK,
@@ -91,14 +92,12 @@ def hover_texts(rows: pd.DataFrame, unit: DisplayUnit, analysis: SeriesAnalysis)
         w = "–" if pd.isna(water) else f"{100 * water:.1f} %"
         interval = "no interval"
         if pd.notna(k_low):
-            interval = (
-                f"{scientific(k_low * unit.factor, html=True)} – "
-                f"{scientific(k_high * unit.factor, html=True)}"
-            )
+            low, high = distinct_texts(unit, k_low, k_high)
+            interval = f"{low} – {high}"
         texts.append(
             f"<b>{html_escaped(specimen)}</b> ({html_escaped(method).replace('_', ' ')})<br>"
             f"w = {w}, e = {void_ratio:.3f}<br>"
-            f"k = {scientific(k * unit.factor, html=True)} {unit.unit}<br>"
+            f"k = {unit.number.text(k * unit.factor, html=True)} {unit.unit}<br>"
             f"{100 * analysis.confidence:g} %: {interval}<br>{verdict}"
         )
     return texts
@@ -208,7 +207,7 @@ def criterion_spec(analysis, x_range, unit: DisplayUnit, show_legend=True) -> di
         name=f"criterion k {analysis.criterion.symbol} {scientific(value, html=True)} {unit.unit}",
         legendgroup="criterion",
         showlegend=show_legend,
-        line=dict(color=INK, width=1.8, dash="longdash"),
+        line=dict(color=INK, width=1.8, dash=CRITERION_DASH),
         hoverinfo="name",
     )
 

@@ -34,7 +34,16 @@ from ._series_parts import (
     padded_range,
     specimen_trace_specs,
 )
-from .style import INK, MUTED, SATURATION_DASHES, ZONE, cached_memo_template
+from .style import (
+    DRAWN_ZONE_DASH,
+    FITTED_ZONE_DASH,
+    INK,
+    MUTED,
+    OPTIMUM_DASH,
+    SATURATION_DASHES,
+    ZONE,
+    cached_memo_template,
+)
 
 __all__ = ["compaction_conductivity_figure", "compaction_conductivity_spec"]
 
@@ -59,9 +68,11 @@ def _closed(corners: np.ndarray) -> np.ndarray:
 
 def _zone_specs(analysis: SeriesAnalysis, frame, density_factor: float, axes: dict) -> list[dict]:
     """The traces of both zones on the compaction plane, told apart in the legend and in
-    greyscale: the drawn zone hatched (/) in green with a dotted edge; the fitted zone of
-    each effort dotted (.) in ink with its effort's dash, the extent of its fit a thin grey
-    outline and its criterion line a thick grey one, in the same dash.
+    greyscale: the drawn zone hatched (/) in green, its edge a dash and two dots
+    (:data:`DRAWN_ZONE_DASH`); the fitted zone of each effort dotted (.) in ink, its edge
+    three dots and a dash (:data:`FITTED_ZONE_DASH`), the extent of its fit a thin grey
+    outline and its criterion line a thick grey one in the same code. No compaction curve
+    or saturation line uses either code.
 
     The drawn zone is the hull of the specimens that meet with no other specimen inside
     (Daniel & Benson 1990, J. Geotech. Eng. 116(12):1811, draw it by judgement); the fitted
@@ -84,7 +95,7 @@ def _zone_specs(analysis: SeriesAnalysis, frame, density_factor: float, axes: di
                 fillpattern=dict(shape="/", fgcolor="rgba(46,107,87,0.45)", size=9, solidity=0.12)
                 if polygon
                 else None,
-                line=dict(color=ZONE, width=1.6, dash="dot"),
+                line=dict(color=ZONE, width=1.6, dash=DRAWN_ZONE_DASH),
                 name=f"drawn zone ({zone.kind}): hull of specimens that meet (k "
                 f"{analysis.criterion.bound} the criterion), no other inside",
                 legendgroup="zone",
@@ -95,12 +106,11 @@ def _zone_specs(analysis: SeriesAnalysis, frame, density_factor: float, axes: di
     fitted = analysis.fitted_zone
     if fitted is None:
         return specs
-    dashes = {effort: dash for effort, (_, dash) in effort_styles(frame).items()}
     group = dict(legendgroup="fitted zone", legendgrouptitle=dict(text="fitted zone (tool's own)"))
     end = "upper" if fitted.criterion.kind == "maximum" else "lower"
     for part in fitted.zones:
         own = f" ({html_escaped(part.effort)})" if part.effort is not None else ""
-        dash = dashes.get(part.effort, "dash") if part.effort is not None else "dash"
+        dash = FITTED_ZONE_DASH
         if part.extent.size:
             extent = _closed(part.extent)
             specs.append(
@@ -295,7 +305,7 @@ def compaction_conductivity_spec(
                     mode="lines",
                     name="line of optimums",
                     legendgroup="optimums",
-                    line=dict(color=INK, width=1.3, dash="dashdot"),
+                    line=dict(color=INK, width=1.3, dash=OPTIMUM_DASH),
                     hoverinfo="name",
                     **top,
                 )
@@ -321,7 +331,7 @@ def compaction_conductivity_spec(
                     line=dict(
                         color=MUTED,
                         width=1.5 if saturation == 1 else 1.1,
-                        dash=SATURATION_DASHES.get(saturation, "dot"),
+                        dash=SATURATION_DASHES.get(saturation, "1px,5px"),
                     ),
                     hoverinfo="name",
                     **top,

@@ -37,6 +37,11 @@ _AGAINST = {
 }
 
 
+WEAK_FIT_R_SQUARED = 0.25
+"""Below this r² a trend line explains less than a quarter of the scatter of log k: it is drawn
+faint, without its band, and its legend says so with its r² (the tool's own threshold)."""
+
+
 def _x_axis(against: str, du: DisplayUnit):
     if against == "void_ratio":
         return "void ratio e [–]", 1.0
@@ -103,38 +108,35 @@ def conductivity_trend_figure(
     trend = getattr(analysis, attribute)
     if trend is not None:
         grid = np.linspace(x.min(), x.max(), 80)
-        low, high = trend.band(grid)
-        figure.add_trace(
-            go.Scatter(
-                x=grid * scale,
-                y=np.asarray(low) * ku.factor,
-                mode="lines",
-                line=dict(width=0),
-                showlegend=False,
-                legendgroup="fit",
-                hoverinfo="skip",
+        weak = not trend.fit.r_squared >= WEAK_FIT_R_SQUARED
+        if not weak:
+            low, high = trend.band(grid)
+            band_edge = dict(mode="lines", line=dict(width=0), legendgroup="fit", hoverinfo="skip")
+            figure.add_trace(
+                go.Scatter(x=grid * scale, y=np.asarray(low) * ku.factor, showlegend=False,
+                           **band_edge)
+            )  # fmt: skip
+            figure.add_trace(
+                go.Scatter(
+                    x=grid * scale,
+                    y=np.asarray(high) * ku.factor,
+                    fill="tonexty",
+                    fillcolor="rgba(29,39,49,0.11)",
+                    name=f"{100 * trend.confidence:g} % confidence band of the line",
+                    **band_edge,
+                )
             )
-        )
-        figure.add_trace(
-            go.Scatter(
-                x=grid * scale,
-                y=np.asarray(high) * ku.factor,
-                mode="lines",
-                line=dict(width=0),
-                fill="tonexty",
-                fillcolor="rgba(29,39,49,0.11)",
-                legendgroup="fit",
-                name=f"{100 * trend.confidence:g} % confidence band of the line",
-                hoverinfo="skip",
-            )
-        )
+        name = _trend_name(against, trend, du)
+        if weak:
+            name += f"<br>weak fit (r² below {WEAK_FIT_R_SQUARED:g}): drawn faint, no band"
         figure.add_trace(
             go.Scatter(
                 x=grid * scale,
                 y=np.asarray(trend.conductivity(grid)) * ku.factor,
                 mode="lines",
-                line=dict(color=INK, width=1.8),
-                name=_trend_name(against, trend, du),
+                line=dict(color=INK, width=1.0 if weak else 1.8),
+                opacity=0.3 if weak else 1.0,
+                name=name,
                 legendgroup="fit",
                 hoverinfo="name",
             )

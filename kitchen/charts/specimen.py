@@ -44,6 +44,43 @@ def _fitted_head(result) -> np.ndarray:
     return np.asarray(result.fitted_head, dtype=float)
 
 
+DATUM_REACH = 0.5
+"""A fitted datum h∞ is drawn on the head axis when it lies no lower than this fraction of the
+lowest reading; further down it is named in the legend only, and the axis stays on the
+readings (the tool's own choice)."""
+
+
+def head_axis(head, fitted, datum: float | None = None) -> dict:
+    """The log head axis over the readings and the fitted line, and over the fitted datum
+    h∞ where it lies near them (:data:`DATUM_REACH`); never stretched by a label.
+
+    Parameters
+    ----------
+    head, fitted : array_like
+        The readings' heads and the fitted heads. [m]
+    datum : float, optional
+        The fitted datum h∞ of a datum fit. [m]
+
+    Returns
+    -------
+    dict
+        The axis's properties: a log axis, its range in log10 of metres, its title.
+    """
+    values = np.concatenate([np.asarray(head, float).ravel(), np.asarray(fitted, float).ravel()])
+    values = values[np.isfinite(values) & (values > 0)]
+    low, high = (float(values.min()), float(values.max())) if values.size else (0.1, 1.0)
+    if datum is not None and datum > 0 and datum >= DATUM_REACH * low:
+        low = min(low, datum)
+    span = np.log10(high) - np.log10(low)
+    pad = max(0.02, 0.06 * span)
+    return dict(
+        title=dict(text="head difference h [m]"),
+        type="log",
+        exponentformat="power",
+        range=[float(np.log10(low) - pad), float(np.log10(high) + pad)],
+    )
+
+
 def falling_head_figure(
     readings: pd.DataFrame | None,
     result,
@@ -160,7 +197,10 @@ def falling_head_spec(
                     mode="markers",
                     name=name,
                     marker=marker,
-                    hovertemplate="t = %{x:.4g} " + unit + "<br>h = %{y:.4g} m<extra></extra>",
+                    hovertemplate=f"<b>{html.escape(str(result.specimen))}</b><br>"
+                    + "t = %{x:.4g} "
+                    + unit
+                    + "<br>h = %{y:.4g} m<extra></extra>",
                 )
             )
     fitted = _fitted_head(result)
@@ -179,29 +219,21 @@ def falling_head_spec(
         )
     )
     asymptote = float(getattr(result, "asymptote", 0.0) or 0.0)
-    if datum and asymptote > 0:
-        shapes.append(
+    y_axis = head_axis(head, fitted, asymptote if datum else None)
+    if datum:
+        reach = [time[0] / divisor, time[-1] / divisor]
+        shown = asymptote > 0 and np.log10(asymptote) >= y_axis["range"][0]
+        where = "" if shown else " (below the axis)"
+        data.append(
             dict(
-                type="line",
-                x0=0,
-                x1=1,
-                xref="x domain",
-                y0=asymptote,
-                y1=asymptote,
-                yref="y",
+                type="scatter",
+                x=reach,
+                y=[asymptote, asymptote],
+                mode="lines",
+                name=f"fitted datum h∞ = {asymptote:.3f} m{where}",
                 line=dict(color=MUTED, dash="dot", width=1.2),
-            )
-        )
-        annotations.append(
-            dict(
-                text=f"h∞ = {asymptote:.4g} m",
-                showarrow=False,
-                x=1,
-                xanchor="right",
-                xref="x domain",
-                y=asymptote,
-                yanchor="top",
-                yref="y",
+                hoverinfo="name",
+                visible=True if shown else "legendonly",
             )
         )
     k_text, low, high = distinct_texts(
@@ -213,7 +245,7 @@ def falling_head_spec(
         shapes=shapes,
         annotations=annotations,
         xaxis=dict(title=dict(text=f"elapsed time t [{unit}]")),
-        yaxis=dict(title=dict(text="head difference h [m]"), type="log", exponentformat="power"),
+        yaxis=y_axis,
         title=dict(
             text=f"Specimen {html.escape(str(result.specimen))}: falling head<br><sup>"
             f"{label} = {k_text} {ku.unit} (95 %: {low} – {high}), readings {start + 1}–{stop} "
@@ -296,7 +328,10 @@ def constant_head_figure(
             mode="markers",
             name="timed collections",
             marker=dict(symbol="square", size=10, color=INK),
-            hovertemplate="i = %{x:.3g}<br>v = %{y:.3g} " + ku.unit + "<extra></extra>",
+            hovertemplate=f"<b>{html.escape(str(result.specimen))}</b><br>"
+            + "i = %{x:.3g}<br>v = %{y:.3g} "
+            + ku.unit
+            + "<extra></extra>",
         )
     )
     label = reference_label(reference_temperature)

@@ -11,6 +11,7 @@ figure's margin (:func:`add_caption`).
 
 from __future__ import annotations
 
+import re
 import textwrap
 from functools import lru_cache
 
@@ -30,12 +31,18 @@ __all__ = [
     "MUTED",
     "NO_EFFORT",
     "SATURATION_DASHES",
+    "OPTIMUM_DASH",
+    "DRAWN_ZONE_DASH",
+    "FITTED_ZONE_DASH",
+    "CRITERION_DASH",
+    "LINE_CODES",
     "VERDICT_COLOURS",
     "VERDICT_FACE",
     "VERDICT_FILL",
     "WIDTH",
     "ZONE",
     "add_caption",
+    "label_specimens",
     "decimation_indices",
     "memo_template",
 ]
@@ -72,8 +79,29 @@ VERDICT_FACE = {**VERDICT_COLOURS, NOT_JUDGED: "#c9d0da"}
 in it): the verdict colour, but a pale face for a test not judged, so that it reads as a
 half-tone between the solid marker that meets and the open one that does not."""
 EFFORT_SYMBOLS = ("circle", "square", "diamond", "triangle-up", "triangle-down", "pentagon")
-EFFORT_DASHES = ("solid", "dash", "dot", "dashdot", "longdash", "longdashdot")
-SATURATION_DASHES = {1.0: "solid", 0.9: "dash", 0.8: "dot"}
+EFFORT_DASHES = ("solid", "dash", "20px,5px", "32px,8px", "20px,5px,8px,5px", "44px,10px")
+"""Line codes of the compaction curves, one an effort: solid or dashes alone, every piece at
+least 8 px, so none is read as a dotted saturation line or a dotted zone border."""
+SATURATION_DASHES = {1.0: "dot", 0.9: "3px,7px", 0.8: "3px,12px"}
+"""Line codes of the saturation lines: dots alone, further apart as S falls (each line is
+also named at its end)."""
+OPTIMUM_DASH = "longdashdot"
+"""The line of optimums: a long dash and one dot."""
+DRAWN_ZONE_DASH = "12px,4px,3px,4px,3px,4px"
+"""The border of the drawn acceptable zone: a dash and two dots."""
+FITTED_ZONE_DASH = "3px,3px,3px,3px,3px,3px,12px,4px"
+"""The fitted zone's border, its extent and its criterion line: three dots and a dash."""
+CRITERION_DASH = "longdash"
+"""The criterion line on the log-k axes, where no compaction curve is drawn."""
+LINE_CODES = {
+    "saturation": tuple(SATURATION_DASHES.values()),
+    "effort": EFFORT_DASHES,
+    "optimums": (OPTIMUM_DASH,),
+    "drawn zone": (DRAWN_ZONE_DASH,),
+    "fitted zone": (FITTED_ZONE_DASH,),
+}
+"""The line codes of each family of lines on the compaction plane: no code is used by two
+families, so the lines read apart in greyscale print."""
 NO_EFFORT = "no effort given"
 WIDTH, HEIGHT = 980, 620
 
@@ -173,11 +201,20 @@ def decimation_indices(values, max_points: int = MAX_TRACE_POINTS) -> np.ndarray
     return chosen[chosen < n]
 
 
-def add_caption(figure: go.Figure, lines, width: int = 160) -> go.Figure:
-    """A copy of `figure` with `lines` of small text (cautions, provenance) in its margin.
+LEGEND_CHARACTER_WIDTH = 5.6
+"""Width of a legend character at the legend's 11 px serif, for the room a legend moved beside
+the plot needs (a generous mean over the names the charts write). [px]"""
+LEGEND_ROW_HEIGHT = 19
+"""Height of one legend entry or group title at 11 px. [px]"""
 
-    The text goes below the plot, or between the title and the plot when the legend sits
-    below it; the figure grows by the height of the text.
+
+def add_caption(figure: go.Figure, lines, width: int = 160) -> go.Figure:
+    """A copy of `figure` with `lines` of small text (cautions, provenance) under the plot.
+
+    The text goes under the plot and its axis titles, where the README says; the figure
+    grows by the height of the text. A legend laid out below the plot (the compaction
+    chart's) moves beside it on the copy, so that nothing sits between the plot and the
+    cautions and nothing overlaps them; the copy grows by the room that legend needs.
     """
     out = go.Figure(figure)
     wrapped = []
@@ -196,16 +233,114 @@ def add_caption(figure: go.Figure, lines, width: int = 160) -> go.Figure:
         showarrow=False,
         font=dict(size=10, color=MUTED),
     )
+    bottom = out.layout.margin.b if out.layout.margin.b is not None else 70
     if legend_below:
+        room, needed = legend_room(out)
+        right = (out.layout.margin.r if out.layout.margin.r is not None else 20) + room
+        bottom = 60
         top = out.layout.margin.t if out.layout.margin.t is not None else 80
-        out.add_annotation(y=1.0, yanchor="bottom", yshift=10, **text)
+        height = max(height, needed + top + bottom)
         out.update_layout(
-            margin=dict(t=top + extra),
-            height=height + extra,
-            title=dict(yref="container", y=1.0, yanchor="top", pad=dict(t=24)),
+            legend=dict(
+                orientation="v", x=1.02, xanchor="left", y=1.0, yanchor="top", yref="paper"
+            ),
+            margin=dict(r=right, b=bottom),
+            width=(out.layout.width or WIDTH) + room,
         )
+    out.add_annotation(y=0.0, yanchor="top", yshift=-(bottom - 8), **text)
+    out.update_layout(margin=dict(b=bottom + extra), height=height + extra)
+    return out
+
+
+def legend_room(figure: go.Figure) -> tuple[int, int]:
+    """The width and height a legend of one column needs beside the plot, estimated from its
+    entries: the longest line of a name at :data:`LEGEND_CHARACTER_WIDTH`, and a row of
+    :data:`LEGEND_ROW_HEIGHT` an entry, a group title or an extra line of a name. [px]"""
+    shown = [t for t in figure.data if t.showlegend is not False and t.name]
+    titles = {t.legendgroup for t in shown if t.legendgrouptitle.text}
+    lines = [_plain_text(part) for t in shown for part in str(t.name).split("<br>")]
+    longest = max([len(line) for line in lines] + [10])
+    width = int(LEGEND_CHARACTER_WIDTH * longest) + 60
+    height = LEGEND_ROW_HEIGHT * (len(lines) + len(titles)) + 6 * len(titles) + 40
+    return width, height
+
+
+def _plain_text(text: str) -> str:
+    """A label without its markup (``<b>``, ``<sup>``…), for its length."""
+    return re.sub(r"<[^>]+>", "", str(text))
+
+
+LABEL_FONT_SIZE = 9
+"""Size of the specimen labels of a printed chart. [px]"""
+
+
+def _axis_span(axis, values: np.ndarray) -> tuple[float, float, bool]:
+    """The axis's range in its own coordinates (log10 on a log axis) and whether it is log."""
+    log = axis.type == "log"
+    if axis.range is not None:
+        low, high = (float(v) for v in axis.range)
     else:
-        bottom = out.layout.margin.b if out.layout.margin.b is not None else 70
-        out.add_annotation(y=0.0, yanchor="top", yshift=-(bottom - 8), **text)
-        out.update_layout(margin=dict(b=bottom + extra), height=height + extra)
+        shown = np.log10(values[values > 0]) if log else values[np.isfinite(values)]
+        low, high = (float(shown.min()), float(shown.max())) if shown.size else (0.0, 1.0)
+    return low, (high if high > low else low + 1.0), log
+
+
+def label_specimens(figure: go.Figure) -> go.Figure:
+    """A copy of `figure` whose specimen markers carry their specimen id as a text label,
+    where the label has room: beside its marker, clear of every other marker.
+
+    For the printed and static charts, where there is no hover. A specimen marker is a
+    marker trace whose ``meta`` names its verdict (:func:`specimen_trace_specs`) and whose
+    ``text`` holds the ids. A label is written to the right of its marker when no other
+    marker of the same panel lies within the label's box (its length at
+    :data:`LABEL_FONT_SIZE`, one line high) on either side, and to the left where it would
+    run past the plot's right edge; crowded points stay unlabelled (their id is in the
+    hover text of the HTML chart). Common practice, no source.
+    """
+    out = go.Figure(figure)
+    layout = out.layout
+    width = (layout.width or WIDTH) - (layout.margin.l or 80) - (layout.margin.r or 20)
+    if layout.showlegend is not False and (layout.legend.y is None or layout.legend.y >= 0):
+        width -= legend_room(out)[0]  # a legend beside the plot takes its room from it
+    height = (layout.height or HEIGHT) - (layout.margin.t or 80) - (layout.margin.b or 70)
+    panels: dict[tuple[str, str], list] = {}
+    for trace in out.data:
+        meta = trace.meta if isinstance(trace.meta, dict) else {}
+        if trace.type == "scatter" and "verdict" in meta and trace.text is not None:
+            panels.setdefault((trace.xaxis or "x", trace.yaxis or "y"), []).append(trace)
+    for (x_name, y_name), traces in panels.items():
+        x_axis = layout["xaxis" + x_name[1:]]
+        y_axis = layout["yaxis" + y_name[1:]]
+        xs = np.concatenate([np.asarray(t.x, dtype=float) for t in traces])
+        ys = np.concatenate([np.asarray(t.y, dtype=float) for t in traces])
+        x_low, x_high, x_log = _axis_span(x_axis, xs)
+        y_low, y_high, y_log = _axis_span(y_axis, ys)
+        y_share = float(np.diff(y_axis.domain)[0]) if y_axis.domain is not None else 1.0
+        with np.errstate(divide="ignore", invalid="ignore"):
+            px = (np.log10(xs) if x_log else xs) - x_low
+            py = (np.log10(ys) if y_log else ys) - y_low
+        px = px / (x_high - x_low) * width
+        py = py / (y_high - y_low) * height * y_share
+        names = [str(v) for t in traces for v in t.text]
+        tall = LABEL_FONT_SIZE + 5
+        start = 0
+        for trace in traces:
+            count = len(trace.text)
+            labels, sides = [], []
+            for i in range(start, start + count):
+                long = 0.62 * LABEL_FONT_SIZE * len(_plain_text(names[i])) + 10
+                dx, dy = px - px[i], np.abs(py - py[i])
+                near = (dy < tall) & (dx > -long) & (dx < long)
+                near[i] = False
+                fits = bool(np.isfinite(px[i]) and np.isfinite(py[i])) and not near.any()
+                labels.append(names[i] if fits else "")
+                # a label that would run past the right edge of the plot goes on the left
+                sides.append("middle left" if px[i] + long > width else "middle right")
+            start += count
+            trace.update(
+                mode="markers+text",
+                text=labels,
+                textposition=sides,
+                textfont=dict(size=LABEL_FONT_SIZE, color=MUTED),
+            )
     return out

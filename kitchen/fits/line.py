@@ -183,12 +183,15 @@ def fit_line(x, y, confidence=0.95) -> LinearFit:
     n = x.size
     x_mean = finite_sum(x, "x") / n
     y_mean = finite_sum(y, "y") / n
-    xc, yc = np.empty(n), np.empty(n)
+    # centre and sum each block while it is in cache, in two scratch blocks: the fit holds
+    # no copy of its data (the residuals are formed again from x and y when asked for)
+    xc, yc = np.empty(min(n, DOT_BLOCK)), np.empty(min(n, DOT_BLOCK))
     sxx = sxy = syy = 0.0
     with np.errstate(over="ignore", invalid="ignore"):
-        for i in range(0, n, DOT_BLOCK):  # centre and sum each block while it is in cache
-            xb = np.subtract(x[i : i + DOT_BLOCK], x_mean, out=xc[i : i + DOT_BLOCK])
-            yb = np.subtract(y[i : i + DOT_BLOCK], y_mean, out=yc[i : i + DOT_BLOCK])
+        for i in range(0, n, DOT_BLOCK):
+            size = min(DOT_BLOCK, n - i)
+            xb = np.subtract(x[i : i + DOT_BLOCK], x_mean, out=xc[:size])
+            yb = np.subtract(y[i : i + DOT_BLOCK], y_mean, out=yc[:size])
             sxx += np.dot(xb, xb)
             sxy += np.dot(xb, yb)
             syy += np.dot(yb, yb)
@@ -201,13 +204,24 @@ def fit_line(x, y, confidence=0.95) -> LinearFit:
     slope = sxy / sxx
     sse = syy - slope * sxy
     if sse <= 1e-6 * syy:  # nearly exact line: sum the squared residuals themselves
-        sse, scratch = 0.0, np.empty(min(n, DOT_BLOCK))
+        sse = 0.0
         for i in range(0, n, DOT_BLOCK):
-            r = np.multiply(xc[i : i + DOT_BLOCK], slope, out=scratch[: min(DOT_BLOCK, n - i)])
-            np.subtract(yc[i : i + DOT_BLOCK], r, out=r)
+            size = min(DOT_BLOCK, n - i)
+            xb = np.subtract(x[i : i + DOT_BLOCK], x_mean, out=xc[:size])
+            yb = np.subtract(y[i : i + DOT_BLOCK], y_mean, out=yc[:size])
+            r = np.multiply(xb, slope, out=xb)
+            np.subtract(yb, r, out=r)
             sse += float(np.dot(r, r))
     return linear_fit_from_sums(
-        n, slope, x_mean, y_mean, sxx, syy, sse, confidence, lambda: yc - slope * xc
+        n,
+        slope,
+        x_mean,
+        y_mean,
+        sxx,
+        syy,
+        sse,
+        confidence,
+        lambda: (y - y_mean) - slope * (x - x_mean),
     )
 
 

@@ -35,7 +35,7 @@ converted, problems named by row); :data:`SPECIMEN_ID_LENGTH` (the longest speci
 :class:`Series`, :func:`build_series`, :func:`load_series` and
 :func:`rebuild_series`; :func:`atomic_write_bytes`, :func:`atomic_write_text`,
 :func:`append_line` (:data:`APPEND_ROOM`), :func:`folder_lock`, :func:`sync_folder`,
-:func:`write_csv` and :func:`spreadsheet_safe`.
+:func:`write_csv`, :func:`spreadsheet_safe` and :func:`printable`.
 
 References
 ----------
@@ -55,6 +55,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "atomic_write_text": "files",
         "folder_lock": "files",
         "sync_folder": "files",
+        "printable": "files",
         "APPEND_ROOM": "files",
         "spreadsheet_safe": "files",
         "write_csv": "files",
@@ -119,6 +120,7 @@ __all__ = [
     "ColumnSpec",
     "folder_lock",
     "sync_folder",
+    "printable",
     "APPEND_ROOM",
     "format_header",
     "HEAD_RISE_SCATTERS",

@@ -12,16 +12,21 @@ from __future__ import annotations
 import contextlib
 import errno
 import os
+import re
 import tempfile
 from pathlib import Path
+from typing import TYPE_CHECKING
 
-import pandas as pd
+if TYPE_CHECKING:
+    import pandas as pd
+
 
 __all__ = [
     "atomic_write_bytes",
     "atomic_write_text",
     "append_line",
     "folder_lock",
+    "printable",
     "sync_folder",
     "APPEND_ROOM",
     "spreadsheet_safe",
@@ -237,18 +242,43 @@ def folder_lock(folder: str | Path):
         os.close(handle)  # closing the descriptor releases the lock
 
 
+_CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f\u200b-\u200f\u202a-\u202e\u2066-\u2069\ufeff]")
+"""What a terminal acts on rather than shows, what a workbook cannot hold (XML 1.0, section
+2.2), and what hides or reorders text: the C0 and C1 controls but tab and line feed, the
+zero-width and bidirectional marks (Unicode Standard Annex #9)."""
+
+
+def printable(text: str) -> str:
+    """`text` with each control character and invisible mark written as its escape
+    (``\\x1b``, ``\\u202e``), so that text stored in a log shows as what it is wherever it
+    is shown: a terminal, a page, a workbook."""
+    if not _CONTROL.search(text):
+        return text
+    return _CONTROL.sub(lambda m: m.group().encode("unicode_escape").decode("ascii"), text)
+
+
+def _safe_text(value):
+    if not isinstance(value, str):
+        return value
+    value = printable(value)
+    return "'" + value if value.startswith(_FORMULA_START) else value
+
+
 def spreadsheet_safe(frame: pd.DataFrame) -> pd.DataFrame:
     """A copy whose text cells cannot be read as formulas by a spreadsheet.
 
     Text that starts with ``=``, ``+``, ``-``, ``@``, a tab or a carriage return gets a
-    leading apostrophe (the OWASP advice on CSV injection); numbers are left alone.
+    leading apostrophe (the OWASP advice on CSV injection); a control character (an
+    escape code stored in a log edited by hand) is written as its escape, ``\\x1b``, which
+    a workbook can hold (XML 1.0 allows no C0 control but tab, line feed and carriage
+    return) and a terminal shows as text; numbers are left alone.
     """
+    from pandas.api.types import is_string_dtype
+
     out = frame.copy()
     for column in out.columns:
-        if out[column].dtype == object or pd.api.types.is_string_dtype(out[column]):
-            out[column] = out[column].map(
-                lambda v: "'" + v if isinstance(v, str) and v.startswith(_FORMULA_START) else v
-            )
+        if out[column].dtype == object or is_string_dtype(out[column]):
+            out[column] = out[column].map(_safe_text)
     return out
 
 

@@ -88,9 +88,19 @@ class UnitError(ValueError):
 
 @lru_cache(maxsize=1)
 def _registry():
+    """pint's default registry, its parsed definitions kept in pint's own cache folder.
+
+    Parsing pint's definitions file takes about half a second in every new process (each
+    ``report``, each notebook kernel); pint keeps the parsed definitions, keyed by the
+    file's content, in the user's cache folder and reads them back in a twentieth of that.
+    Where the cache cannot be used (a read-only home), the file is parsed as before.
+    """
     import pint
 
-    return pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+    try:
+        return pint.UnitRegistry(autoconvert_offset_to_baseunit=True, cache_folder=":auto:")
+    except Exception:  # any trouble with the cache (unwritable, damaged): parse the file
+        return pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
 
 
 def bounded_unit_text(text: str) -> None:

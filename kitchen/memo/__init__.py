@@ -30,7 +30,8 @@ Modules, in the order a pack is made:
   the same provenance, manifest and cautions.
 
 The public face, which other subpackages import from :mod:`kitchen.memo` and never from its
-modules: :func:`export_memo_pack` (:class:`MemoPack`) and :data:`CHART_SCRIPT`;
+modules: :func:`export_memo_pack` (:class:`MemoPack`), :data:`CHART_SCRIPT` and
+:data:`PACK_SPECIMEN_LIMIT`;
 :func:`memo_charts`; :func:`start_image_export`, :func:`figure_image`,
 :class:`ImageExportUnavailable`, :data:`PNG_SCALE` and :data:`FIRST_IMAGE_TIMEOUT`;
 :func:`specimens_table`, :func:`fits_table`, :func:`checks_table`, :func:`revisions_table`,
@@ -43,7 +44,7 @@ modules: :func:`export_memo_pack` (:class:`MemoPack`) and :data:`CHART_SCRIPT`;
 (the notebook panels build their tables with it too); :func:`report_items`
 (:class:`ReportItem`, :data:`NOT_RECORDED`), :func:`report_pages` (:class:`ReportPage`),
 :func:`specimen_page`, :func:`specimen_links` and :func:`page_name`;
-:class:`StagedPack`, :class:`PackFolderError`, :func:`interrupted_exports`,
+:class:`StagedPack`, :class:`PackFolderError`, :data:`PACK_MARK`, :func:`interrupted_exports`,
 :func:`manifest_bytes`, :func:`read_manifest`, :func:`verify_pack`, :data:`MANIFEST` and
 :data:`MANIFEST_COLUMNS`; :func:`document_bytes` and :func:`memo_document` (the ``.docx``);
 :func:`export_field_check` (:class:`FieldReport`), :func:`field_tests_table` and
@@ -73,6 +74,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "start_image_export": "images",
         "MANIFEST": "manifest",
         "MANIFEST_COLUMNS": "manifest",
+        "PACK_MARK": "manifest",
         "PackFolderError": "manifest",
         "StagedPack": "manifest",
         "interrupted_exports": "manifest",
@@ -81,6 +83,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "verify_pack": "manifest",
         "table_markup": "markup",
         "CHART_SCRIPT": "pack",
+        "PACK_SPECIMEN_LIMIT": "pack",
         "MemoPack": "pack",
         "export_memo_pack": "pack",
         "REDUCTION_METHODS": "pages",
@@ -150,6 +153,8 @@ __all__ = [
     "memo_charts",
     "memo_provenance",
     "MemoPack",
+    "PACK_MARK",
+    "PACK_SPECIMEN_LIMIT",
     "PackFolderError",
     "PNG_SCALE",
     "Provenance",

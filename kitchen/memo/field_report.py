@@ -272,7 +272,8 @@ def export_field_check(
         steps.append(script.path)
     steps += [f"charts/{name}.{ext}" for name, _, _ in charts for ext in formats]
     steps += ["field_check.html", "field_check.docx"]
-    staged = StagedPack(out)  # refuses a folder holding what the tool did not write
+    # refuses an input's folder, and a folder holding what the tool did not write
+    staged = StagedPack(out, inputs=(series.source, tests.source))
     write = PackWriter(staged, steps, progress)
     with staged:
         return _write_report(

@@ -2,7 +2,9 @@
 
 :func:`memo_charts` draws them from the workspace's own reductions, the ones its results
 table holds, so each specimen chart shows the k of its row, and says in a sentence why
-any chart was not drawn. Each specimen chart is given a file name of its own.
+any chart was not drawn. Each specimen chart is given a file name of its own. The series
+charts carry each specimen's id beside its marker where it has room
+(:func:`kitchen.charts.label_specimens`), as a printed chart has no hover.
 """
 
 from __future__ import annotations
@@ -85,7 +87,7 @@ def memo_charts(
     )
     for name, title, build in series_charts:
         try:
-            built.append((name, title, build()))
+            built.append((name, title, charts.label_specimens(build())))
         except ValueError as error:
             skipped.append(f"{title}: not drawn ({error})")
     reference = workspace.settings.reference_temperature

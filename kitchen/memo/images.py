@@ -115,6 +115,10 @@ class _ImageServer:
         return asyncio.run_coroutine_threadsafe(self._image(figure_dict, options), self.loop)
 
     def close(self) -> None:
+        """Close the browser and stop the loop; once (a later call does nothing)."""
+        if not self.thread.is_alive():
+            return
+
         async def shut() -> None:
             if self.renderer is not None:
                 await self.renderer.close()

@@ -13,10 +13,14 @@ and, once every file and the manifest are in place, swaps it in whole: the folde
 the previous pack or the new one, never a mixture, whatever stops the export (an error,
 a full disk, the process killed). The previous pack, swapped out, is then removed file by
 file, and only what the tool can prove it wrote: a regular file (not a link) inside that
-folder, listed in its manifest, whose SHA-256 matches. A folder holding anything else (a
-file no manifest lists, a file changed since its export, a link, a manifest the tool did
-not write that names files) is refused before anything is written, and nothing in it is
-touched.
+folder, listed in its manifest, whose SHA-256 matches, the manifest last; and only from a
+folder whose :data:`PACK_MARK` shows the pack was built there, so a pack received from a
+colleague (copied or unzipped into the folder) is never replaced. A previous pack
+a killed export left beside the folder is removed the same way by the next export; a
+pack killed while being built (no manifest yet) cannot be proven and is named instead.
+A folder holding anything else (a file no manifest lists, a file changed since its export,
+a link, a manifest the tool did not write that names files) is refused before anything is
+written, and nothing in it is touched.
 """
 
 from __future__ import annotations
@@ -38,6 +42,7 @@ from kitchen.io import atomic_write_bytes, sync_folder
 __all__ = [
     "MANIFEST",
     "MANIFEST_COLUMNS",
+    "PACK_MARK",
     "PackFolderError",
     "StagedPack",
     "read_manifest",
@@ -51,6 +56,12 @@ MANIFEST = "manifest.csv"
 
 MANIFEST_COLUMNS = ("path", "bytes", "sha256")
 """Its columns: the file's path inside the pack (``/`` separated), its size, its digest."""
+
+PACK_MARK = ".kitchen-pack"
+"""The pack's mark, written beside the manifest: the device and inode of the folder the
+pack was built in (kept through the rename that puts it in place) and the manifest's
+SHA-256. A pack copied, unzipped or received into a folder carries a mark that names
+another folder: it is not a pack the tool wrote there, and is never replaced."""
 
 _SHOWN = 5
 """How many of a folder's problems a refusal names before it counts the rest."""
@@ -124,7 +135,7 @@ def _unproven(folder: Path, listed: dict[str, tuple[int, str]]) -> list[str]:
             problems.append(f"{relative}: a link (the tool writes no links)")
         elif stat.S_ISDIR(status.st_mode):
             continue
-        elif relative == MANIFEST:
+        elif relative in (MANIFEST, PACK_MARK):
             continue
         elif relative not in listed:
             problems.append(f"{relative}: not in {MANIFEST} (not written by the export)")
@@ -184,7 +195,27 @@ def _previous_pack(out: Path) -> dict[str, tuple[int, str]] | None:
         problems.insert(0, f"{MANIFEST}: lists no file")
     if problems:
         raise _refusal(out, problems)
+    if not _marked_here(out):
+        raise PackFolderError(
+            f"{out}: holds a pack the tool did not write in this folder (copied, unzipped or "
+            f"received here: its {PACK_MARK} names another folder, or it has none). Nothing "
+            "was written or removed. Export into a new folder, or move that pack away"
+        )
     return listed
+
+
+def _mark(folder: Path, manifest: bytes) -> bytes:
+    status = folder.stat()
+    return f"{status.st_dev} {status.st_ino} {hashlib.sha256(manifest).hexdigest()}\n".encode()
+
+
+def _marked_here(folder: Path) -> bool:
+    """Whether `folder` holds the pack the tool built in it (:data:`PACK_MARK`)."""
+    try:
+        mark, manifest = (folder / PACK_MARK).read_bytes(), (folder / MANIFEST).read_bytes()
+    except OSError:
+        return False
+    return not (folder / PACK_MARK).is_symlink() and mark == _mark(folder, manifest)
 
 
 def _exchange(first: Path, second: Path) -> bool:
@@ -209,6 +240,18 @@ def _exchange(first: Path, second: Path) -> bool:
     raise OSError(code, os.strerror(code), str(second))
 
 
+def _refuse_inputs_as_output(out: Path, inputs) -> None:
+    """Refuse a pack folder that is an input (a series' folder or workbook), or inside one."""
+    target = out.resolve()
+    for given in inputs:
+        source = Path(given).resolve()
+        if target == source or (source.is_dir() and source in target.parents):
+            raise PackFolderError(
+                f"{out}: is an input's own folder or file, or inside it ({given}); a pack "
+                "never goes beside the raw data: give another folder"
+            )
+
+
 def _folder_mode() -> int:
     umask = os.umask(0)
     os.umask(umask)
@@ -227,19 +270,24 @@ class StagedPack:
     ----------
     out : str or pathlib.Path
         The pack's folder: new, empty, or holding a whole pack the tool wrote.
+    inputs : tuple of str or pathlib.Path, optional
+        What the pack is made from (the series' folder or workbook, a file of field
+        tests): `out` may be none of them, nor inside one.
     """
 
-    def __init__(self, out: str | Path):
+    def __init__(self, out: str | Path, inputs: tuple[str | Path, ...] = ()):
         self.out = Path(out)
+        _refuse_inputs_as_output(self.out, inputs)
         self.previous = _previous_pack(self.out)
         self.out.parent.mkdir(parents=True, exist_ok=True)
         for left in interrupted_exports(self.out):
-            warnings.warn(
-                f"{left}: left by an export of {self.out.name} that was stopped before it "
-                "finished; it is not the pack and the tool does not remove what it cannot "
-                "prove it wrote: look at it and remove it by hand",
-                stacklevel=2,
-            )
+            if not self._clear_previous_pack(left):
+                warnings.warn(
+                    f"{left}: left by an export of {self.out.name} that was stopped before "
+                    "it finished; it is not the pack and the tool does not remove what it "
+                    "cannot prove it wrote: look at it and remove it by hand",
+                    stacklevel=2,
+                )
         self.staging = Path(
             tempfile.mkdtemp(prefix=f".{self.out.name}.kitchen-new-", dir=self.out.parent)
         )
@@ -252,11 +300,11 @@ class StagedPack:
 
     def __exit__(self, kind, error, trace) -> None:
         if kind is not None and self.staging.exists():
-            self._remove_own(self.staging, {**self.entries, MANIFEST: None})
+            self._remove_own(self.staging, {**self.entries, PACK_MARK: None, MANIFEST: None})
 
     def write(self, relative: str, data: bytes) -> Path:
         """Write one file of the pack (``/``-separated path inside it); its final path."""
-        if relative in self.entries or relative == MANIFEST:
+        if relative in self.entries or relative in (MANIFEST, PACK_MARK):
             raise ValueError(f"{relative}: written twice in one pack")
         try:
             atomic_write_bytes(self.staging / relative, data)
@@ -279,7 +327,9 @@ class StagedPack:
         (pathlib.Path, tuple of pathlib.Path)
             The manifest, and the files of the previous pack this one no longer has.
         """
-        atomic_write_bytes(self.staging / MANIFEST, manifest_bytes(self.entries))
+        manifest = manifest_bytes(self.entries)
+        atomic_write_bytes(self.staging / MANIFEST, manifest)
+        atomic_write_bytes(self.staging / PACK_MARK, _mark(self.staging, manifest))
         previous = self.previous
         if not previous:  # no folder, or an empty one, which a rename replaces (POSIX)
             os.rename(self.staging, self.out)
@@ -295,15 +345,30 @@ class StagedPack:
             os.rename(self.staging, self.out)
         sync_folder(self.out.parent)
         if aside is not None:
-            self._remove_own(aside, {**(previous or {}), MANIFEST: None}, proven=True)
+            own = {**(previous or {}), PACK_MARK: None, MANIFEST: None}
+            self._remove_own(aside, own, proven=True)
         removed = sorted(set(previous or {}) - set(self.entries))
         return self.out / MANIFEST, tuple(self.out / relative for relative in removed)
+
+    def _clear_previous_pack(self, folder: Path) -> bool:
+        """Remove a previous pack that a stopped export had swapped out but not yet removed
+        (every file left in it listed in its manifest and matching); False where `folder`
+        is anything else (a pack stopped while being built has no manifest)."""
+        try:
+            listed = read_manifest(folder)
+        except ValueError:
+            return False
+        problems = [p for p in _unproven(folder, listed) if not p.endswith(": missing")]
+        if not listed or problems or not _marked_here(folder):
+            return False
+        self._remove_own(folder, {**listed, PACK_MARK: None, MANIFEST: None}, proven=True)
+        return not folder.exists()
 
     def _remove_own(self, folder: Path, listed: dict, proven: bool = False) -> None:
         """Remove from `folder` the files named in `listed` (checked against their SHA-256
         when `proven`), then its emptied folders; warn, naming it, where anything stays."""
-        for relative, entry in listed.items():
-            path = folder / relative
+        for relative, entry in listed.items():  # the manifest last: the folder stays
+            path = folder / relative  # provable until its last listed file is gone
             try:
                 status = path.lstat()
             except FileNotFoundError:

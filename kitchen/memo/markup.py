@@ -20,6 +20,8 @@ from functools import cached_property
 
 import pandas as pd
 
+from kitchen.io import printable
+
 __all__ = [
     "STYLE",
     "ChartScript",
@@ -55,8 +57,9 @@ code, .hash { font-family: 'DejaVu Sans Mono', monospace; font-size: 0.85em;
 
 
 def escape(value) -> str:
-    """`value` as text safe inside HTML (``&``, ``<``, ``>`` and quotes escaped; None: "")."""
-    return html.escape("" if value is None else str(value))
+    """`value` as text safe inside HTML (``&``, ``<``, ``>`` and quotes escaped, control
+    characters as their escapes, :func:`kitchen.io.printable`; None: "")."""
+    return html.escape(printable("" if value is None else str(value)))
 
 
 def number_text(value, digits: int = 3) -> str:

@@ -58,13 +58,13 @@ from kitchen.revisions import window_log_sha256 as window_log_digest
 from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace
 
-from ._export import figure_html, write_chart_files
+from ._export import PackWriter, figure_html, write_chart_files
 from .documents import memo_document
 from .figures import memo_charts
 from .images import FIRST_IMAGE_TIMEOUT as FIRST_IMAGE_TIMEOUT
 from .images import PNG_SCALE as PNG_SCALE
 from .images import start_image_export
-from .manifest import PackFolderError, StagedPack
+from .manifest import StagedPack
 from .markup import ChartScript
 from .pages import REDUCTION_METHODS, report_page
 from .provenance import Provenance, memo_provenance
@@ -78,7 +78,13 @@ from .tables import (
 )
 from .workbook import notes_sheet, setting_texts, workbook_bytes
 
-__all__ = ["CHART_SCRIPT", "MemoPack", "export_memo_pack"]
+__all__ = ["CHART_SCRIPT", "PACK_SPECIMEN_LIMIT", "MemoPack", "export_memo_pack"]
+
+PACK_SPECIMEN_LIMIT = 1000
+"""The most specimens one memo pack holds: a chart page (and its images) per specimen and
+one report a reviewer reads through. A larger series is refused before any work, with
+this number, rather than reduced for minutes first (10⁴ specimens took some five minutes
+without images, two of them before the first file); split it by batch or effort."""
 
 CHART_SCRIPT = "charts/plotly.min.js"
 """Where a pack keeps plotly.js, ``/``-separated from the pack's folder; pages load it by a
@@ -222,7 +228,8 @@ def export_memo_pack(
     ImageExportUnavailable
         With `images`, when no Chromium is found (before any file is written).
     ValueError
-        When the criterion or a unit is not understood.
+        When the criterion or a unit is not understood, or the series has more than
+        :data:`PACK_SPECIMEN_LIMIT` specimens (before any work is done).
     PackFolderError
         When `out` is the series' folder, inside it, or holds anything but a whole pack
         the tool wrote (before any file is written).
@@ -241,8 +248,15 @@ def export_memo_pack(
     if images:
         start_image_export()
     out = Path(out)
-    _refuse_inputs_as_output(out, series.source)
-    staged = StagedPack(out)  # refuses a folder holding what the tool did not write
+    count = len(workspace.specimen_ids())
+    if count > PACK_SPECIMEN_LIMIT:
+        raise ValueError(
+            f"{series.source}: {count} specimens, more than the {PACK_SPECIMEN_LIMIT} one memo "
+            "pack holds (a chart page per specimen, one report to read through); split the "
+            "series (by batch or compaction effort) and report each part. Nothing was written"
+        )
+    # refuses the series' folder, and a folder holding what the tool did not write
+    staged = StagedPack(out, inputs=(series.source,))
     results = workspace.results()
     given = criterion
     _, source = workspace.criterion_in_force(given)
@@ -284,7 +298,7 @@ def export_memo_pack(
     )
     charts, skipped = memo_charts(workspace, analysis, ku.unit, du.unit)
     tables = {
-        "specimens": specimens_table(analysis),
+        "specimens": specimens_table(analysis, ku.unit, du.unit),
         "tests": workspace.results_table(),
         "fits": fits_table(analysis),
         "checks": checks_table(results, analysis, skipped),
@@ -302,13 +316,7 @@ def export_memo_pack(
     pages = report_pages(workspace, results, ku, label)
     steps += [f"specimens/{page.name}.{ext}" for page in pages for ext in formats]
     steps += ["report.html", "report.docx"]
-    written: list[Path] = []
-
-    def write(relative: str, kind: str, data: Callable[[], bytes]) -> None:
-        if progress is not None:
-            progress(len(written) + 1, len(steps), f"{kind} {relative}")
-        written.append(staged.write(relative, data()))
-
+    write = PackWriter(staged, steps, progress)
     with staged:
         write(
             "results.csv",
@@ -356,15 +364,11 @@ def export_memo_pack(
         )
         manifest, removed = staged.finish()
     return MemoPack(
-        out, tuple(written), analysis, provenance, time.perf_counter() - clock, manifest, removed
+        out,
+        tuple(write.written),
+        analysis,
+        provenance,
+        time.perf_counter() - clock,
+        manifest,
+        removed,
     )
-
-
-def _refuse_inputs_as_output(out: Path, source: Path) -> None:
-    """Refuse a pack folder that is the series' own folder or workbook, or inside it."""
-    target, series = out.resolve(), Path(source).resolve()
-    if target == series or (series.is_dir() and series in target.parents):
-        raise PackFolderError(
-            f"{out}: is the series' own folder or inside it ({source}); a pack never goes "
-            "beside the raw data: give another folder"
-        )

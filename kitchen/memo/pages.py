@@ -277,6 +277,15 @@ def _summary(analysis: SeriesAnalysis, ku: DisplayUnit, criterion_text: str) -> 
     return "".join(parts)
 
 
+def _fit_number(value, unit: str) -> str:
+    """A number of the fits table: a conductivity in the one format of k (``1.28×10⁻⁹``),
+    a density or a percentage in theirs, anything else to four significant figures."""
+    style = column_format(f"value [{unit}]")
+    if style is None or pd.isna(value):
+        return number_text(value, 4)
+    return style.text(value, html=True)
+
+
 def _fits(tables) -> str:
     fits = tables["fits"]
     rows = [
@@ -284,9 +293,7 @@ def _fits(tables) -> str:
             escape(r["fit"]),
             escape(r["subject"]),
             escape(r["quantity"]),
-            number_text(r["value"], 4),
-            number_text(r["low"], 4),
-            number_text(r["high"], 4),
+            *(_fit_number(r[c], r["unit"]) for c in ("value", "low", "high")),
             escape(r["unit"]),
             "–" if pd.isna(r["n"]) else str(int(r["n"])),
             escape(r["note"]),

@@ -12,6 +12,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
+from kitchen import display_units
 from kitchen.analysis import SeriesAnalysis
 from kitchen.revisions import history_table
 from kitchen.settings import reference_label
@@ -31,19 +32,27 @@ FIT_COLUMNS = ["fit", "subject", "quantity", "value", "low", "high", "unit", "n"
 """Columns of :func:`fits_table`; ``low`` and ``high`` bound the interval where there is one."""
 
 
-def specimens_table(analysis: SeriesAnalysis) -> pd.DataFrame:
+def specimens_table(
+    analysis: SeriesAnalysis, k_unit: str = "m/s", density_unit: str = "Mg/m3"
+) -> pd.DataFrame:
     """One row per specimen: state, the k kept, its interval, verdict and predictions.
 
     Parameters
     ----------
     analysis : SeriesAnalysis
+    k_unit : {"m/s", "cm/s"}, default "m/s"
+        Unit of every conductivity column (the report's unit).
+    density_unit : {"Mg/m3", "kN/m3", "lb/ft3"}, default "Mg/m3"
+        Unit of the dry density; kN/m3 gives the dry unit weight γd = ρd·g_n
+        (``dry_unit_weight [kN/m3]``).
 
     Returns
     -------
     pandas.DataFrame
         ``specimen``, ``effort``, ``method``, ``water_content [%]``,
         ``dry_density [Mg/m3]``, ``void_ratio``, ``saturation [%]``, ``specific_gravity``,
-        ``d10 [mm]``, ``k20 [m/s]``, ``k20_low [m/s]``, ``k20_high [m/s]``, ``valid``,
+        ``d10 [mm]``, ``k20 [m/s]``, ``k20_low [m/s]``, ``k20_high [m/s]`` (k and the
+        density in the units chosen), ``valid``,
         ``kept_on_record`` (the engineer's keep of a test not valid, in words; "" for
         none), ``verdict`` (not judged where the test is not valid and not kept),
         ``in_acceptable_zone`` (empty where no zone is drawn, or the specimen has no water
@@ -54,20 +63,24 @@ def specimens_table(analysis: SeriesAnalysis) -> pd.DataFrame:
     """
     rows = analysis.specimens
     label = reference_label(analysis.reference_temperature)
+    ku, du = display_units.k_unit(k_unit), display_units.density_unit(density_unit)
+    k_text = ku.unit
+    density_name = "dry_unit_weight" if du.symbol == "γd" else "dry_density"
+    density_text = f"{density_name} [{du.unit.replace('³', '3')}]"
     table = pd.DataFrame(
         {
             "specimen": rows["specimen"].astype(str),
             "effort": rows["effort"],
             "method": rows["method"],
             "water_content [%]": rows["water_content"] * 100.0,
-            "dry_density [Mg/m3]": rows["dry_density"] / 1000.0,
+            density_text: rows["dry_density"] * du.factor,
             "void_ratio": rows["void_ratio"],
             "saturation [%]": pd.to_numeric(rows["saturation"], errors="coerce") * 100.0,
             "specific_gravity": rows["specific_gravity"],
             "d10 [mm]": rows["d10"] * 1000.0,
-            f"{label} [m/s]": rows["k"],
-            f"{label}_low [m/s]": rows["k_low"],
-            f"{label}_high [m/s]": rows["k_high"],
+            f"{label} [{k_text}]": rows["k"] * ku.factor,
+            f"{label}_low [{k_text}]": rows["k_low"] * ku.factor,
+            f"{label}_high [{k_text}]": rows["k_high"] * ku.factor,
             "valid": rows["valid"].astype(bool),
             "kept_on_record": rows["kept_on_record"],
             "verdict": rows["verdict"],
@@ -77,8 +90,9 @@ def specimens_table(analysis: SeriesAnalysis) -> pd.DataFrame:
     )
     if analysis.grading is not None:
         grading = analysis.grading.set_index("specimen")
-        table["hazen_prediction [m/s]"] = table["specimen"].map(grading["hazen_k"])
-        table["chapuis_prediction [m/s]"] = table["specimen"].map(grading["chapuis_k"])
+        for method in ("hazen", "chapuis"):
+            predicted = table["specimen"].map(grading[f"{method}_k"]) * ku.factor
+            table[f"{method}_prediction [{k_text}]"] = predicted
         table["grading_note"] = table["specimen"].map(grading["note"])
     return table.reset_index(drop=True)
 

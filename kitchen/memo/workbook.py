@@ -115,9 +115,13 @@ def workbook_bytes(sheets: dict[str, pd.DataFrame], notes: pd.DataFrame) -> byte
         for cell in sheet[1]:
             cell.font = Font(bold=True)
         formats = [column_format(c) for c in safe.columns]
+        units = list(safe.columns).index("unit") if "unit" in safe.columns else None
         for row in safe.itertuples(index=False):
             sheet.append([_cell(v) for v in row])
+            # a table of one quantity a row (the fits) formats its numbers by the row's unit
+            by_row = column_format(f"value [{row[units]}]") if units is not None else None
             for cell, style in zip(sheet[sheet.max_row], formats, strict=True):
+                style = style or by_row
                 if style is not None and isinstance(cell.value, float | int):
                     cell.number_format = style.spreadsheet
         sheet.freeze_panes = "A2"

@@ -17,9 +17,16 @@ series opened is remembered for the other notebooks, and a sample is worked on i
 working copy (:func:`working_copy`), never where it lies.
 :func:`scratch_copy` copies a series to a scratch folder, to try revisions on.
 The panels need the ``lab`` extra (ipywidgets, plotly, anywidget); the core does not.
+Importing the panels defers the URI grammar jsonschema would build when the first live
+figure of a kernel is drawn (:mod:`._deferred_grammar`): about 2 s of a fresh kernel's
+first panel.
 """
 
 from kitchen import _lazy
+
+from . import _deferred_grammar
+
+_deferred_grammar.defer_iri_grammar()
 
 __getattr__, __dir__ = _lazy.lazy_face(
     __name__,

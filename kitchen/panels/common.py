@@ -25,7 +25,7 @@ import ipywidgets as widgets
 import numpy as np
 import pandas as pd
 
-from kitchen.display_units import column_format, superscript
+from kitchen.display_units import NumberFormat, column_format, k_unit
 from kitchen.io import SeriesError, UnitError
 from kitchen.memo import table_markup
 from kitchen.revisions import RevisionError, revisions_path
@@ -211,17 +211,16 @@ def format_fixed(value, decimals: int) -> str:
 
 
 def format_conductivity(value, unit: str = "m/s", digits: int = 3) -> str:
-    """A conductivity as ``7.56 × 10⁻⁹ m/s`` (``unit`` is "m/s" or "cm/s"; value in m/s)."""
+    """A conductivity as ``7.56 × 10⁻⁹ m/s`` (``unit`` is "m/s" or "cm/s"; value in m/s):
+    the digits of :data:`kitchen.display_units.CONDUCTIVITY_FORMAT`, the one format of k,
+    spaced for a sentence."""
     if value is None or not math.isfinite(float(value)):
         return "–"
-    value = float(value) * (100.0 if unit == "cm/s" else 1.0)
-    if value == 0:
+    shown = float(value) * k_unit(unit).factor
+    if shown == 0:
         return f"0 {unit}"
-    exponent = math.floor(math.log10(abs(value)))
-    mantissa = value / 10.0**exponent
-    if round(mantissa, digits - 1) >= 10:
-        mantissa, exponent = mantissa / 10, exponent + 1
-    return f"{mantissa:.{digits - 1}f} × 10{superscript(exponent)} {unit}"
+    text = NumberFormat("scientific", digits).text(shown)
+    return f"{text.replace('×', ' × ')} {unit}"
 
 
 def html_table(frame: pd.DataFrame, formats: dict | None = None, text_columns=()) -> str:

@@ -27,6 +27,7 @@ from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace
 
 from .common import MessageArea, format_conductivity, format_number, html_table, open_workspace
+from .open_series import VISCOSITY_LABELS
 from .refresh import refresh_figure
 
 __all__ = ["ConstantHeadPanel", "constant_head_panel", "collections_view_table"]
@@ -162,8 +163,9 @@ def _summary_html(analysis: ConstantHeadAnalysis, unit: str, label: str, setting
         f"({100 * interval.confidence:g} % interval {html.escape(low)} to {html.escape(high)})"
         f"</div><ul>{items}</ul><b>Validity — {state}</b><ul>{verdicts}</ul>"
         f"<b>Notes</b><ul>{notes}</ul>"
-        f"<small>Corrected to {settings.reference_temperature:g} °C with the "
-        f"{html.escape(settings.viscosity)} viscosity.</small></div>"
+        f"<small>Corrected to {settings.reference_temperature:g} °C with the water viscosity "
+        f"of {html.escape(VISCOSITY_LABELS.get(settings.viscosity, settings.viscosity))}."
+        "</small></div>"
     )
 
 

@@ -13,6 +13,7 @@ all readings.
 from __future__ import annotations
 
 import html
+import math
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -38,7 +39,18 @@ from .common import MessageArea, format_conductivity, format_number, open_worksp
 from .figures import format_elapsed, increments_figure
 from .refresh import refresh_figure
 
-__all__ = ["FIT_LABELS", "FallingHeadPanel", "falling_head_panel"]
+__all__ = [
+    "FIT_LABELS",
+    "SCREEN_POINTS",
+    "FallingHeadPanel",
+    "describe_test_html",
+    "falling_head_panel",
+]
+
+SCREEN_POINTS = 2 * charts.WIDTH
+"""Longest trace the panel's charts send to the browser: about two points a pixel column
+of a chart (min/max decimation keeps every peak and trough), so a slider move on a record
+of 10^6 readings redraws a few thousand points, not tens of thousands."""
 
 FIT_LABELS = {
     "log_linear": "ln h against time (datum known)",
@@ -141,6 +153,9 @@ class FallingHeadPanel:
         k between successive readings with the window's k and the steady band.
     summary : ipywidgets.HTML
         k and its interval, the fit diagnostics, the verdicts and the notes.
+    test_view : ipywidgets.HTML
+        What the test was (constant or rising tailwater), L, A, a (or a_in and a_out)
+        and the formula k comes from (:func:`describe_test_html`).
     error : MessageArea
     analysis : FallingHeadAnalysis or None
         The core's analysis of the window shown.
@@ -171,6 +186,7 @@ class FallingHeadPanel:
     series: Series
     settings: Settings
     analysis: FallingHeadAnalysis | None = None
+    test_view: widgets.HTML = field(default_factory=widgets.HTML)
     choices: tuple = ()
     windows: dict = field(default_factory=dict)
     _state: pd.DataFrame | None = None
@@ -266,20 +282,22 @@ class FallingHeadPanel:
         readings = self.readings()
         label = reference_label(self.settings)
         figure = charts.falling_head_spec(
-            readings, analysis, "m/s", self.settings.reference_temperature
+            readings, analysis, "m/s", self.settings.reference_temperature, SCREEN_POINTS
         )
         refresh_figure(self.figure, figure)
-        refresh_figure(self.increments, increments_figure(analysis, self.settings))
+        increments = increments_figure(analysis, self.settings, max_points=SCREEN_POINTS)
+        refresh_figure(self.increments, increments)
         rows = readings["source_row"].to_numpy()
         first, last = analysis.start, analysis.stop - 1
-        how = "proposed by the tool" if analysis.window_proposed else "chosen"
+        how = _window_words(analysis)
         self.window_label.value = (
             f"Readings <b>{first + 1}</b> to <b>{last + 1}</b> of {len(readings)} "
             f"(file rows {rows[first]}–{rows[last]}): "
             f"<span class='kitchen-window-times'>t = {format_elapsed(analysis.time[first])} to "
-            f"{format_elapsed(analysis.time[last])}</span>, {analysis.n} readings, window {how}; "
+            f"{format_elapsed(analysis.time[last])}</span>, {analysis.n} readings, {how}; "
             f"{label} = {format_conductivity(analysis.k_reference)}"
         )
+        self.test_view.value = describe_test_html(self.record(), analysis)
         self.summary.value = _summary_html(analysis, self.settings)
         self.choice_label.value = _choice_html(
             standing_choices(self.choices).get(self.specimen.value),
@@ -289,10 +307,68 @@ class FallingHeadPanel:
         )
 
 
+def _window_words(analysis: FallingHeadAnalysis) -> str:
+    """How the window shown came about, in words that never claim more than was met."""
+    if not analysis.window_proposed:
+        return "window chosen"
+    if analysis.valid:
+        return "window proposed by the tool (it meets every criterion)"
+    if analysis.start == 0:
+        return (
+            "every reading: no window met every criterion, so the tool proposes none (see Validity)"
+        )
+    return "the tool's starting window, which does not meet every criterion (see Validity)"
+
+
+def _millimetres(value: float, power: int = 1) -> str:
+    """A length [m] or an area [m²] in mm or mm², four significant figures."""
+    unit = "mm" if power == 1 else "mm²"
+    return f"{format_number(value * 1e3**power, 4)} {unit}"
+
+
+def describe_test_html(record: FallingHeadRecord, analysis: FallingHeadAnalysis) -> str:
+    """What the test was: constant or rising tailwater, L, A, a (a_in, a_out), the formula.
+
+    The formulas are those of the reduction (:mod:`kitchen.reduction.falling_head_formulas`):
+    k = a·L/(A·Δt)·ln(h1/h2) with one standpipe and a constant tailwater (ASTM D5084
+    Method B; Das & Sobhan, *Principles of Geotechnical Engineering*, falling-head test),
+    and k = a_in·a_out·L/((a_in + a_out)·A·Δt)·ln(Δh1/Δh2) with a rising tailwater read in
+    a second burette (ASTM D5084 Method C; method letters from memory). Over many
+    readings k comes from the slope m of ln h against time, k = −m·a·L/A, or from the time
+    constant τ of the decay to a fitted datum, k = a·L/(A·τ).
+    """
+    length = f"L = {_millimetres(record.height)}"
+    area = f"A = {_millimetres(record.area, 2)}"
+    if math.isfinite(record.outflow_area):
+        kind = "falling head, <b>rising tailwater with two burettes</b> (ASTM D5084 Method C)"
+        standpipes = (
+            f"a_in = {_millimetres(record.inflow_area, 2)}, "
+            f"a_out = {_millimetres(record.outflow_area, 2)}, "
+            f"a = a_in·a_out/(a_in + a_out) = {_millimetres(record.standpipe_area, 2)}"
+        )
+        formula = "k = a_in·a_out·L/((a_in + a_out)·A·Δt)·ln(Δh1/Δh2)"
+    else:
+        kind = "falling head, <b>constant tailwater</b>, one standpipe (ASTM D5084 Method B)"
+        standpipes = f"a = {_millimetres(record.standpipe_area, 2)}"
+        formula = "k = a·L/(A·Δt)·ln(h1/h2)"
+    if analysis.fit_kind == "datum":
+        fitted = "here from the time constant τ of the decay to the fitted datum: k = a·L/(A·τ)"
+    else:
+        fitted = "here from the slope m of ln h against time over the window: k = −m·a·L/A"
+    return (
+        f"<div class='kitchen-test'>Test: {kind}; {html.escape(length)}, {html.escape(area)}, "
+        f"{html.escape(standpipes)}. Formula: {html.escape(formula)}, {html.escape(fitted)}."
+        "</div>"
+    )
+
+
 def _choice_html(choice: WindowChoice | None, kept, shown, log: str) -> str:
     """What the window log holds for the specimen, beside the window shown."""
     if choice is None or choice.proposed:
-        held = "No window on record: the series chart and the memo use the tool's proposal."
+        held = (
+            "No window on record: the series chart and the memo use the tool's window (its "
+            "proposal, or every reading where no window meets every criterion)."
+        )
         if choice is not None:
             held = (
                 f"Handed back to the tool's proposal ({html.escape(choice.when)}"
@@ -416,6 +492,7 @@ def falling_head_panel(
         panel.fit_choice,
         panel.window,
         panel.window_label,
+        panel.test_view,
         widgets.HBox([panel.keep, panel.release, panel.reason, panel.who]),
         panel.choice_label,
         panel.error.widget,

@@ -7,6 +7,7 @@ reading window sees which values the criterion judges.
 
 from __future__ import annotations
 
+import html
 import math
 
 import numpy as np
@@ -17,7 +18,7 @@ from kitchen.display_units import k_unit
 from kitchen.reduction import FallingHeadAnalysis
 from kitchen.settings import Settings, reference_label
 
-__all__ = ["format_elapsed", "increments_figure"]
+__all__ = ["format_elapsed", "increments_figure", "off_scale_traces"]
 
 
 def format_elapsed(seconds: float) -> str:
@@ -40,8 +41,45 @@ def _time_scale(analysis: FallingHeadAnalysis) -> tuple[str, float]:
     return "s", 1.0
 
 
+def off_scale_traces(x, y, bottom: float, top: float) -> list[go.Scatter]:
+    """Markers at the edge of the axis for the values beyond it, counted in their names.
+
+    A value above `top` is drawn as an upward triangle on the top edge, one below `bottom`
+    as a downward one on the bottom edge, its own value in the hover; the legend says how
+    many are off the scale, so none is dropped silently (the tool's own convention).
+    """
+    x, y = np.asarray(x, dtype=float), np.asarray(y, dtype=float)
+    traces = []
+    for beyond, edge, symbol, side in (
+        (y > top, top, "triangle-up", "above"),
+        (y < bottom, bottom, "triangle-down", "below"),
+    ):
+        count = int(np.count_nonzero(beyond & np.isfinite(y)))
+        if not count:
+            continue
+        keep = charts.decimation_indices(y[beyond])
+        traces.append(
+            go.Scatter(
+                x=x[beyond][keep],
+                y=np.full(keep.size, edge),
+                customdata=y[beyond][keep],
+                mode="markers",
+                name=f"{count} value{'s' if count > 1 else ''} {side} the axis, "
+                f"drawn on its {'top' if side == 'above' else 'bottom'} edge",
+                marker=dict(symbol=symbol, size=8, color=charts.MUTED),
+                cliponaxis=False,
+                hovertemplate="t = %{x:.4g}<br>k = %{customdata:.3g} (off the scale)"
+                "<extra></extra>",
+            )
+        )
+    return traces
+
+
 def increments_figure(
-    analysis: FallingHeadAnalysis, settings: Settings, k_unit_name: str = "m/s"
+    analysis: FallingHeadAnalysis,
+    settings: Settings,
+    k_unit_name: str = "m/s",
+    max_points: int | None = None,
 ) -> go.Figure:
     """k between successive readings against time, with the window, k and the steady band.
 
@@ -52,6 +90,9 @@ def increments_figure(
     settings : Settings
         For the reference temperature and the steady-values band (``settings.criteria``).
     k_unit_name : {"m/s", "cm/s"}
+    max_points : int, optional
+        Longest trace (min/max decimation, :func:`kitchen.charts.decimation_indices`);
+        default :data:`kitchen.charts.MAX_TRACE_POINTS`.
 
     Returns
     -------
@@ -59,6 +100,8 @@ def increments_figure(
         Every incremental k (grey outside the window), the values the steady-values
         criterion judges (filled), the window's k and the band of ±25 % (±50 % below
         1×10⁻¹⁰ m/s, ASTM D5084 from memory; the limits of ``settings.criteria``) about it.
+        The axis spans the values judged; incremental values beyond it are drawn on its
+        edge and counted in the legend (:func:`off_scale_traces`).
     """
     unit = k_unit(k_unit_name)
     scale_name, divisor = _time_scale(analysis)
@@ -79,7 +122,8 @@ def increments_figure(
     time = np.asarray(analysis.increment_time, dtype=float)
     values = np.asarray(analysis.increment_k, dtype=float)
     finite = np.isfinite(values)
-    keep = charts.decimation_indices(np.where(finite, values, np.nan))
+    longest = charts.MAX_TRACE_POINTS if max_points is None else max_points
+    keep = charts.decimation_indices(np.where(finite, values, np.nan), longest)
     figure.add_trace(
         go.Scatter(
             x=time[keep] / divisor,
@@ -87,12 +131,15 @@ def increments_figure(
             mode="markers",
             name="k between successive readings",
             marker=dict(symbol="circle-open", size=6, color=charts.MUTED),
-            hovertemplate="t = %{x:.4g} " + scale_name + "<br>k = %{y:.3g}<extra></extra>",
+            hovertemplate=f"<b>{html.escape(str(analysis.specimen))}</b><br>t = "
+            + "%{x:.4g} "
+            + scale_name
+            + "<br>k = %{y:.3g}<extra></extra>",
         )
     )
     judged_time = np.asarray(analysis.value_time, dtype=float)
     judged = np.asarray(analysis.value_k, dtype=float)
-    keep = charts.decimation_indices(judged)
+    keep = charts.decimation_indices(judged, longest)
     step = analysis.value_step
     figure.add_trace(
         go.Scatter(
@@ -119,7 +166,10 @@ def increments_figure(
         low, high = float(inside.min()), float(inside.max())
         low, high = min(low, k * (1 - band)), max(high, k * (1 + band))
         pad = 0.15 * (high - low)
-        figure.update_yaxes(range=[(low - pad) * unit.factor, (high + pad) * unit.factor])
+        bottom, top = (low - pad) * unit.factor, (high + pad) * unit.factor
+        figure.update_yaxes(range=[bottom, top])
+        for trace in off_scale_traces(time / divisor, values * unit.factor, bottom, top):
+            figure.add_trace(trace)
     figure.update_xaxes(title_text=f"elapsed time t [{scale_name}]")
     figure.update_yaxes(
         title_text=f"incremental k at {settings.reference_temperature:g} °C [{unit.unit}]",

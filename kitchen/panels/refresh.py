@@ -18,7 +18,7 @@ import copy
 import numpy as np
 import plotly.graph_objects as go
 
-__all__ = ["refresh_figure", "figure_spec", "same_value"]
+__all__ = ["refresh_figure", "figure_spec", "same_value", "live_figure"]
 
 _SHOWN = "_kitchen_shown_spec"
 """The attribute of a widget that holds the spec it last showed through this module."""
@@ -116,8 +116,10 @@ def refresh_figure(widget: go.FigureWidget, figure) -> int:
 
     The browser's model follows the changes as messages, and views drawn later from it
     (the panel displayed after this call, a second display) show the figure as it now is.
-    The kernel's copy of the synchronised state, sent to a browser that connects later (a
-    page reload with the kernel alive), is brought up to date too, without sending it.
+    When the traces were replaced (or first set) the whole state is sent as well, so that
+    a model that missed an early message is still right (:func:`_send_state`); otherwise
+    the kernel's copy of the synchronised state, sent to a browser that connects later (a
+    page reload with the kernel alive), is brought up to date without sending it.
     """
     spec = figure_spec(figure)
     layout = dict(spec["layout"])
@@ -163,8 +165,27 @@ def refresh_figure(widget: go.FigureWidget, figure) -> int:
             widget.add_traces(new_traces)
         sent = sum(len(trace) for trace in new_traces) + len(sent_layout)
     setattr(widget, _SHOWN, spec)
-    _keep_state(widget)
+    if same and shown is not None and len(shown["data"]) == len(new_traces):
+        _keep_state(widget)
+    else:
+        _send_state(widget)
     return sent
+
+
+def _send_state(widget: go.FigureWidget) -> None:
+    """Send the whole figure as the widget's synchronised state, as plotly does when a
+    FigureWidget is displayed on its own.
+
+    A FigureWidget shown inside a box is never displayed on its own, so its state is
+    only what the update messages made of it in the browser. The first messages can reach
+    the browser before plotly's widget code there has started listening to them (the
+    figure built while the cell runs, its view drawn after): they are then lost, and the
+    view is drawn empty. Sending the state whole after a figure is first drawn, or after
+    its traces were replaced, leaves the browser's model right whatever it caught; later
+    refreshes of the same traces send only what changed (:func:`_keep_state`).
+    """
+    widget._widget_layout = copy.deepcopy(widget._layout_obj._props)
+    widget._widget_data = copy.deepcopy(widget._data)
 
 
 def _keep_state(widget: go.FigureWidget) -> None:
@@ -181,3 +202,23 @@ def _keep_state(widget: go.FigureWidget) -> None:
     state = widget._trait_values  # traitlets' store: no change notification, no message
     state["_widget_layout"] = copy.deepcopy(widget._layout_obj._props)
     state["_widget_data"] = copy.deepcopy(widget._data)
+
+
+def live_figure(figure) -> go.FigureWidget:
+    """A new FigureWidget that opens on `figure` whole, ready for :func:`refresh_figure`.
+
+    A FigureWidget made empty and then drawn sends its traces as messages before any view
+    exists; one made from the figure carries it in the state it opens with, which every
+    view is drawn from. Panels make each figure this way the first time they draw it.
+    """
+    spec = figure_spec(figure)
+    layout = dict(spec["layout"])
+    template = layout.get("template")
+    for key in ("width", "height"):
+        size = _template_size(template, key)
+        if layout.get(key) is None and size is not None:
+            layout[key] = size
+    spec["layout"] = layout
+    widget = go.FigureWidget({"data": spec["data"], "layout": layout})
+    setattr(widget, _SHOWN, figure_spec(widget))
+    return widget

@@ -30,7 +30,7 @@ from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace, what_changed
 
 from .common import MessageArea, format_conductivity, format_fixed, html_table
-from .refresh import refresh_figure
+from .refresh import live_figure, refresh_figure
 
 __all__ = ["RevisePanel", "revise_panel", "changes_view_table", "file_value"]
 
@@ -150,10 +150,11 @@ class RevisePanel:
         What the last revision (or withdrawal) moved.
     history : ipywidgets.HTML
         The revision log, each row with its status.
-    series_chart : plotly.graph_objects.FigureWidget
-        Compaction and k of the series as it stands (the memo's series chart), redrawn
-        after each revision by sending only what moved.
-    specimen_chart : plotly.graph_objects.FigureWidget
+    series_chart : plotly.graph_objects.FigureWidget or None
+        Compaction and k of the series as it stands (the memo's series chart), made whole
+        when first drawn (None before), then redrawn after each revision by sending only
+        what moved.
+    specimen_chart : plotly.graph_objects.FigureWidget or None
         Head against time of the specimen in the form, when it has falling-head readings.
     chart_note : ipywidgets.HTML
         Why a chart is not drawn, when it is not.
@@ -255,7 +256,9 @@ class RevisePanel:
         given, _ = self.criterion_in_force()
         analysis = self.workspace.analysis(given)
         try:
-            refresh_figure(self.series_chart, charts.compaction_conductivity_spec(analysis))
+            self.series_chart = self._draw_in(
+                1, self.series_chart, charts.compaction_conductivity_spec(analysis)
+            )
             self.chart_boxes[1].layout.display = ""
         except ValueError as error:
             notes.append(f"Series chart not drawn: {error}")
@@ -270,10 +273,19 @@ class RevisePanel:
                 "m/s",
                 self.settings.reference_temperature,
             )
-            refresh_figure(self.specimen_chart, spec)
+            self.specimen_chart = self._draw_in(0, self.specimen_chart, spec)
         elif specimen is not None:
             notes.append(f"Specimen {specimen} has no falling-head readings: no head chart.")
         self.chart_note.value = "".join(f"<p><i>{html.escape(n)}</i></p>" for n in notes)
+
+    def _draw_in(self, box: int, figure, spec):
+        """Refresh a chart, or make it whole in its box the first time it is drawn."""
+        if figure is None:
+            figure = live_figure(spec)
+            self.chart_boxes[box].children = (figure,)
+        else:
+            refresh_figure(figure, spec)
+        return figure
 
     def _choose_table(self, _change=None) -> None:
         table = self.table_choice.value
@@ -507,11 +519,9 @@ def revise_panel(
         changes=widgets.HTML(),
         history=widgets.HTML(),
         error=MessageArea(),
-        series_chart=go.FigureWidget(),
-        specimen_chart=go.FigureWidget(),
         chart_note=widgets.HTML(),
     )
-    panel.chart_boxes = (widgets.Box([panel.specimen_chart]), widgets.Box([panel.series_chart]))
+    panel.chart_boxes = (widgets.Box(), widgets.Box())  # each chart made when first drawn
     panel.withdraw_reason = widgets.Text(
         description="Why withdraw",
         placeholder="required: the first measurement was right",

@@ -18,11 +18,10 @@ from pathlib import Path
 
 import ipywidgets as widgets
 import pandas as pd
-import plotly.graph_objects as go
 
 from kitchen import charts
 from kitchen.analysis import Criterion, SeriesAnalysis, parse_criterion
-from kitchen.display_units import DENSITY_UNITS, K_UNITS, density_unit
+from kitchen.display_units import DENSITY_UNITS, K_UNITS, density_unit, restate_conductivities
 from kitchen.io import Series, SeriesError
 from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace
@@ -34,7 +33,7 @@ from .common import (
     html_table,
     open_workspace,
 )
-from .refresh import refresh_figure
+from .refresh import live_figure, refresh_figure
 
 __all__ = ["SeriesChartPanel", "series_chart_panel", "CHARTS"]
 
@@ -92,8 +91,9 @@ class SeriesChartPanel:
         typed in the panel, or none given).
     k_unit, density_unit : ipywidgets.ToggleButtons
         Units of the charts.
-    figures : dict of str to plotly.graph_objects.FigureWidget
-        ``"compaction"``, ``"void_ratio"``, ``"dry_density"`` (see :data:`CHARTS`).
+    figures : dict of str to plotly.graph_objects.FigureWidget or None
+        ``"compaction"``, ``"void_ratio"``, ``"dry_density"`` (see :data:`CHARTS`); None
+        for a chart not drawn yet (each is made whole the first time it is drawn).
     chart_choice : ipywidgets.ToggleButtons
         Which chart the chart box shows.
     chart_box : ipywidgets.VBox
@@ -218,7 +218,11 @@ class SeriesChartPanel:
                 self.drawn[key] = False
                 continue
             self.drawn[key] = True
-            refresh_figure(figure, new)
+            if figure is None:  # first drawn: opened whole (see live_figure)
+                self.figures[key] = live_figure(new)
+                self.panes[key].children[0].children = (self.figures[key],)
+            else:
+                refresh_figure(figure, new)
         self._show_chart()
         counts = self.analysis.counts
         mean = self.analysis.geometric_mean
@@ -245,7 +249,9 @@ class SeriesChartPanel:
             )
         self.verdicts.value = line
         self.table.value = html_table(verdict_table(self.analysis, unit, label, density))
-        self.error.show_notes(not_drawn + list(self.analysis.notes))
+        self.error.show_notes(
+            [restate_conductivities(note, unit) for note in not_drawn + list(self.analysis.notes)]
+        )
 
     def write_memo_pack(self, _button=None) -> None:
         """Export the memo pack to ``export_folder`` (the export button calls this)."""
@@ -345,7 +351,7 @@ def series_chart_panel(
     )
     for toggle in (k_unit, density):
         toggle.style.button_width = "64px"
-    figures = {key: go.FigureWidget() for key, _ in CHARTS}
+    figures = dict.fromkeys(key for key, _ in CHARTS)  # made when first drawn
     export_box = widgets.Text(
         value=str(export_folder),
         description="Memo pack folder",
@@ -383,10 +389,7 @@ def series_chart_panel(
         layout=widgets.Layout(width="auto"),
     )
     panel.chart_choice.style.button_width = "150px"
-    panel.panes = {
-        key: widgets.VBox([widgets.Box([panel.figures[key]]), panel.missing[key]])
-        for key, _ in CHARTS
-    }
+    panel.panes = {key: widgets.VBox([widgets.Box(), panel.missing[key]]) for key, _ in CHARTS}
     panel.chart_box = widgets.VBox(list(panel.panes.values()))
     panel.chart_box.add_class("kitchen-chart-box")
     panel.refresh()

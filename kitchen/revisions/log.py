@@ -17,7 +17,7 @@ from dataclasses import field as dataclass_field
 from datetime import datetime
 from pathlib import Path
 
-from kitchen.io import SCHEMAS, TABLE_NAMES
+from kitchen.io import SCHEMAS, TABLE_NAMES, printable
 
 from ._logbook import LogError, checked_when, file_sha256, log_path, whole_rows
 
@@ -237,8 +237,9 @@ def free_text(text, name: str, missing: str | None, error: type[Exception]) -> s
     """A free-text field of a log row (a reason, who) as it is written.
 
     White space is folded to single spaces. The text is refused when it is required and
-    empty, and when it starts as a spreadsheet formula would (``=``, ``+``, ``@``), so that
-    a log opened in a spreadsheet runs nothing.
+    empty, when it holds a control character or an invisible mark (an escape code a
+    terminal would act on), and when it starts as a spreadsheet formula would (``=``,
+    ``+``, ``@``), so that a log opened in a spreadsheet runs nothing.
 
     Parameters
     ----------
@@ -254,6 +255,11 @@ def free_text(text, name: str, missing: str | None, error: type[Exception]) -> s
     words = " ".join(str(text or "").split())
     if missing is not None and not words:
         raise error(missing)
+    if printable(words) != words:
+        raise error(
+            f"the {name} holds a control character or an invisible mark "
+            f"({printable(words)!r}); type it as plain text"
+        )
     if words.startswith(("=", "+", "@")):
         raise error(
             f"the {name} starts with {words[0]!r}, which a spreadsheet would run as a formula; "

@@ -70,10 +70,12 @@ def _line(label, counts, seconds, kind):
     print(f"{label:<62} {n:5d} records  {body}  [{seconds:.0f} s]", flush=True)
 
 
-def _measure(label, kind, fit, records, datum_tolerance=Settings().datum_tolerance):
+def _measure(label, kind, fit, records, datum_tolerance=None):
     started = time.perf_counter()
     counts = dict(records=0, valid=0, holds=0, valid_holds=0, said=0, said_datum=0, either=0)
-    settings = Settings(falling_head_fit=fit, datum_tolerance=datum_tolerance)
+    settings = Settings(falling_head_fit=fit)
+    if datum_tolerance is not None:
+        settings = settings.with_changes(datum_tolerance=datum_tolerance)
     for item in records:
         analysis = FallingHeadRecord(item.readings, item.specimen, settings).analyse()
         holds = population_records.holds(item, analysis)

@@ -13,6 +13,7 @@ from kitchen.analysis import (
 )
 from kitchen.charts import compaction as compaction_chart
 from kitchen.charts import conductivity_trend as conductivity_trend_chart
+from kitchen.charts import style as chart_style
 from kitchen.reduction import series_results
 
 
@@ -140,3 +141,26 @@ def test_the_drawn_zone_says_at_most_or_at_least_as_the_criterion_goes(clay):
         figure = compaction_chart.compaction_conductivity_figure(each)
         [drawn] = [t for t in figure.data if (t.name or "").startswith("drawn zone")]
         assert words in drawn.name
+
+
+def test_each_family_of_lines_has_line_codes_of_its_own(clay):
+    # read in greyscale print: the saturation lines, the compaction curves, the line of
+    # optimums and each zone's border share no dash code (common practice, no source)
+    figure = compaction_chart.compaction_conductivity_figure(clay[1])
+    lines = [t for t in figure.data if t.mode == "lines" and t.yaxis in (None, "y")]
+    families = {
+        "saturation": {t.line.dash for t in lines if t.legendgroup == "saturation"},
+        "effort": {t.line.dash for t in lines if t.name.startswith("compaction curve")},
+        "optimums": {t.line.dash for t in lines if t.legendgroup == "optimums"},
+        "drawn zone": {t.line.dash for t in lines if t.legendgroup == "zone"},
+        "fitted zone": {t.line.dash for t in lines if t.legendgroup == "fitted zone"},
+    }
+    assert all(families.values()), families  # the sample draws every family
+    assert len(families["saturation"]) == 3 and len(families["effort"]) == 3
+    names = list(families)
+    for i, first in enumerate(names):
+        for second in names[i + 1 :]:
+            assert not families[first] & families[second], (first, second)
+    # the codes a family may use never overlap either, whatever the number of efforts
+    codes = [set(c) for c in chart_style.LINE_CODES.values()]
+    assert sum(len(c) for c in codes) == len(set().union(*codes))

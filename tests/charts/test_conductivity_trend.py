@@ -32,10 +32,11 @@ def test_void_ratio_trend_line_band_and_error_bars(wide):
     fit = wide.void_ratio_trend.fit
     line = next(t for t in figure.data if t.name and t.name.startswith("Tavenas line"))
     np.testing.assert_allclose(line.y, 10 ** (fit.intercept + fit.slope * np.asarray(line.x)))
-    band = [t for t in figure.data if t.legendgroup == "fit" and t.name != line.name]
-    low, high = fit.band(np.asarray(band[0].x))
-    np.testing.assert_allclose(band[0].y, 10**low)
-    np.testing.assert_allclose(band[1].y, 10**high)
+    # the constructed series scatters about its line (r² = 0.13): a weak fit, drawn faint,
+    # without its band, its r² stated
+    assert fit.r_squared < 0.25 and line.opacity < 1 and "weak fit" in line.name
+    assert f"r² = {fit.r_squared:.2f}" in line.name
+    assert not [t for t in figure.data if t.legendgroup == "fit" and t.name != line.name]
     rows = wide.specimens.set_index("specimen")
     for trace in specimen_traces(figure):
         names = [n.replace("&lt;", "<").replace("&gt;", ">") for n in trace.text]  # escaped
@@ -87,3 +88,27 @@ def test_grading_predictions_are_labelled_as_such(sand):
 def test_trend_refuses_an_unknown_variable(clay):
     with pytest.raises(ValueError, match="against: expected one of void_ratio"):
         conductivity_trend_chart.conductivity_trend_figure(clay[1], "porosity")
+
+
+def test_a_strong_trend_is_drawn_with_its_band(clay):
+    # the invented clay's log k against w − w_opt: r² = 0.88 (the sample's results)
+    analysis = clay[1]
+    fit = analysis.water_content_trend.fit
+    assert fit.r_squared > 0.25
+    figure = conductivity_trend_chart.conductivity_trend_figure(
+        analysis, "water_content_from_optimum"
+    )
+    group = [t for t in figure.data if t.legendgroup == "fit"]
+    line = next(t for t in group if (t.name or "").startswith("log-linear"))
+    assert line.opacity in (None, 1.0) and "weak" not in line.name
+    band = [t for t in group if t is not line]
+    low, high = fit.band(np.asarray(band[0].x) / 100)
+    np.testing.assert_allclose(band[0].y, 10**low)
+    np.testing.assert_allclose(band[1].y, 10**high)
+
+
+def test_a_trend_with_r_squared_near_zero_is_faint_on_the_sample(clay):
+    # the invented clay's log k against e: r² = 0.01, three efforts on one plane
+    figure = conductivity_trend_chart.conductivity_trend_figure(clay[1], "void_ratio")
+    line = next(t for t in figure.data if t.name and t.name.startswith("Tavenas line"))
+    assert line.opacity < 1 and "r² = 0.01" in line.name and "drawn faint" in line.name

@@ -51,13 +51,18 @@ def test_falling_head_chart(clay):
     assert "cm/s" in figure.layout.title.text
 
 
-def test_falling_head_chart_draws_the_log_linear_fit(clay):
+def whole_record(clay, specimen: str, fit: str):
+    """One specimen of the invented clay, every reading, reduced by `fit`."""
     series, _ = clay
     state = specimen_state(series.specimens).set_index("specimen", drop=False)
-    readings = series.falling_head[series.falling_head["specimen"] == "QF-03"]
-    result = falling_head_analysis(
-        readings, state.loc["QF-03"], window=(0, len(readings)), fit="log_linear"
+    readings = series.falling_head[series.falling_head["specimen"] == specimen]
+    return readings, falling_head_analysis(
+        readings, state.loc[specimen], window=(0, len(readings)), fit=fit
     )
+
+
+def test_falling_head_chart_draws_the_log_linear_fit(clay):
+    readings, result = whole_record(clay, "QF-03", "log_linear")
     figure = specimen_charts.falling_head_figure(readings, result)
     line = next(t for t in figure.data if t.mode == "lines")
     np.testing.assert_allclose(line.y, np.exp(result.line.predict(result.reference_time)))
@@ -105,3 +110,49 @@ def test_constant_head_chart(sand):
         np.testing.assert_allclose(points.y, expected)
         line = next(t for t in figure.data if t.name == "v = k·i through the origin")
         np.testing.assert_allclose(line.y, record.k_reference * np.asarray(line.x) * scale)
+
+
+@pytest.fixture(scope="module")
+def datum_fit(clay):
+    """QF-04 of the invented clay, every reading, reduced by the decay to a fitted datum."""
+    return whole_record(clay, "QF-04", "datum")
+
+
+def test_the_datum_fit_keeps_the_head_axis_on_the_readings_and_names_h_infinity(datum_fit):
+    # the readings lie between about 1.6 and 3 m and the fitted datum near 1 m (the sample's
+    # results)
+    readings, result = datum_fit
+    assert result.asymptote > 0.5
+    figure = specimen_charts.falling_head_figure(readings, result)
+    low, high = figure.layout.yaxis.range  # log10 of metres
+    heads = readings["head"].to_numpy()
+    assert low <= np.log10(min(heads.min(), result.asymptote)) and high >= np.log10(heads.max())
+    assert 10**high < 1.25 * heads.max()  # no stretch to 10 m
+    datum = next(t for t in figure.data if t.name and t.name.startswith("fitted datum h∞"))
+    assert f"{result.asymptote:.3f} m" in datum.name
+    np.testing.assert_allclose(datum.y, [result.asymptote] * 2)
+    # nothing placed in log coordinates by mistake: every annotation sits on the plot
+    assert all(a.yref != "y" for a in figure.layout.annotations)
+
+
+def test_a_datum_far_below_the_readings_is_named_not_drawn(datum_fit):
+    readings, result = datum_fit
+    far = SimpleNamespace(**{**vars_of(result), "asymptote": 0.01})
+    figure = specimen_charts.falling_head_figure(readings, far)
+    low, _ = figure.layout.yaxis.range
+    assert 10**low > 0.5  # the axis stays on the readings
+    datum = next(t for t in figure.data if t.name and t.name.startswith("fitted datum h∞"))
+    assert "below the axis" in datum.name and datum.visible == "legendonly"
+
+
+def vars_of(result) -> dict:
+    names = ("specimen", "start", "stop", "fitted_head", "k_reference", "k_reference_low",
+             "k_reference_high", "fit_kind", "time", "head")  # fmt: skip
+    return {name: getattr(result, name) for name in names}
+
+
+def test_every_point_names_its_specimen_on_hover(datum_fit):
+    readings, result = datum_fit
+    figure = specimen_charts.falling_head_figure(readings, result)
+    points = [t for t in figure.data if t.mode == "markers"]
+    assert points and all("<b>QF-04</b>" in t.hovertemplate for t in points)

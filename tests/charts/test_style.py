@@ -69,10 +69,40 @@ def test_memo_style_is_applied(clay):
     assert figure.layout.template.layout.legend.traceorder == "grouped"
 
 
-def test_caption_goes_above_the_plot_when_the_legend_is_below(clay):
+def test_caption_goes_under_the_plot_and_a_legend_below_moves_beside_it(clay):
+    # the README: the PNG and SVG carry the cautions "printed under" the chart
     figure = compaction_chart.compaction_conductivity_figure(clay[1])
+    assert figure.layout.legend.y < 0  # laid out below the plot on screen
     captioned = chart_style.add_caption(figure, CAUTIONS)
     note = captioned.layout.annotations[-1]
-    assert (note.y, note.yanchor) == (1.0, "bottom")  # between the title and the plot
-    assert captioned.layout.margin.t > figure.layout.margin.t
-    assert captioned.layout.margin.b == figure.layout.margin.b
+    assert (note.y, note.yanchor) == (0.0, "top") and note.yshift < 0
+    assert captioned.layout.legend.x > 1 and captioned.layout.legend.orientation == "v"
+    assert captioned.layout.width > chart_style.WIDTH
+    assert captioned.layout.margin.b >= 14 * len(CAUTIONS) + 16
+    assert figure.layout.legend.y < 0  # the figure given is left as it was
+
+
+def test_printed_series_charts_name_their_specimens_where_there_is_room(clay):
+    # a printed chart has no hover: the id beside the marker, unless another marker is in
+    # the label's way (common practice, no source)
+    figure = compaction_chart.compaction_conductivity_figure(clay[1])
+    labelled = chart_style.label_specimens(figure)
+    markers = [t for t in labelled.data if isinstance(t.meta, dict) and "verdict" in t.meta]
+    shown = [v for t in markers for v in t.text if v]
+    ids = set(clay[1].specimens["specimen"].astype(str))
+    assert set(shown) <= ids and len(shown) >= len(ids)  # each panel names most of them
+    assert all(t.mode == "markers+text" for t in markers)
+    # the hover still names every specimen, and the figure given keeps its plain markers
+    assert all(t.hovertext for t in markers)
+    assert all(t.mode == "markers" for t in figure.data if isinstance(t.meta, dict))
+
+
+def test_a_label_that_would_overlap_another_marker_is_left_out():
+    points = go.Figure(
+        [
+            go.Scatter(x=[1.0, 1.02, 5.0], y=[1.0, 1.0, 3.0], text=["A-1", "A-2", "B"],
+                       mode="markers", meta={"verdict": "meets"})
+        ],
+        layout=dict(xaxis=dict(range=[0, 6]), yaxis=dict(range=[0, 4])),
+    )  # fmt: skip
+    assert list(chart_style.label_specimens(points).data[0].text) == ["", "", "B"]

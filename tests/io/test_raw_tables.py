@@ -339,3 +339,41 @@ def test_a_specimens_header_without_a_specimen_column_is_named_once(tmp_path):
         "sample, diameter [mm], height [mm], dry_mass [g], specific_gravity, "
         "water_content [%], effort, standpipe_diameter [mm]"
     ]
+
+
+def test_a_workbook_whose_archive_understates_a_part_is_read_no_further(tmp_path):
+    # A zip archive records each part's unpacked size twice (local header and central
+    # directory; PKWARE APPNOTE.TXT, sections 4.3.7 and 4.3.12): a bomb may state a small
+    # size there for a part that unpacks to far more. The reader stops at the stated size,
+    # so the work is bounded by the sizes checked before reading.
+    import openpyxl
+
+    book = tmp_path / "lying.xlsx"
+    workbook = openpyxl.Workbook()
+    workbook.active.title = "specimens"
+    workbook.active.append(["specimen", "height [mm]"])
+    workbook.save(book)
+    with zipfile.ZipFile(book) as archive:
+        parts = {info.filename: archive.read(info) for info in archive.infolist()}
+    sheet = "xl/worksheets/sheet1.xml"
+    padding = b"<!--" + b" " * (WORKBOOK_UNPACKED_LIMIT + 2**20) + b"-->"
+    parts[sheet] = parts[sheet].replace(b"<sheetData>", b"<sheetData>" + padding, 1)
+    with zipfile.ZipFile(book, "w", zipfile.ZIP_DEFLATED) as archive:
+        for name, data in parts.items():
+            archive.writestr(name, data)
+    data = bytearray(book.read_bytes())
+    stated = len(parts[sheet]).to_bytes(4, "little")
+    for signature, offset in ((b"PK\x03\x04", 22), (b"PK\x01\x02", 24)):  # unpacked size
+        start = 0
+        while (start := data.find(signature, start)) >= 0:
+            if data[start + offset : start + offset + 4] == stated:
+                data[start + offset : start + offset + 4] = (4096).to_bytes(4, "little")
+            start += 4
+    book.write_bytes(bytes(data))
+    with zipfile.ZipFile(book) as archive:
+        assert archive.getinfo(sheet).file_size == 4096  # the archive now understates it
+    with pytest.raises(SeriesError) as caught:
+        load_series(book)
+    (problem,) = caught.value.problems
+    # read up to the stated size, its checksum then fails: refused as a damaged archive
+    assert str(problem) == "lying.xlsx: cannot be read: not an .xlsx workbook"

@@ -140,3 +140,19 @@ def test_a_value_without_a_unit_is_told_units_of_its_own_dimension(kind, example
 def test_a_wrong_dimension_is_told_units_of_the_right_one():
     with pytest.raises(UnitError, match=r"'g' is not a length \(for example mm, cm, in\)"):
         to_si(4.95, "g", "length")
+
+
+def test_the_cached_registry_converts_as_a_freshly_parsed_one():
+    # pint's cache of its parsed definitions changes how long the registry takes to build,
+    # never a conversion: compared with a registry parsed from pint's definitions file
+    import pint
+
+    from kitchen.io.units import _registry
+
+    fresh = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+    cached = _registry()
+    for unit in ("mm", "in", "ft", "mL", "cm**3", "g", "lb", "min", "h", "kPa", "psi", "gal"):
+        assert cached(unit).to_base_units().magnitude == fresh(unit).to_base_units().magnitude
+    assert cached.Quantity(20.0, "degF").to("degC").magnitude == pytest.approx(
+        fresh.Quantity(20.0, "degF").to("degC").magnitude, rel=1e-15
+    )

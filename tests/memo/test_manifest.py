@@ -3,12 +3,13 @@ through Python's hashlib), checked back; a pack built beside its folder and swap
 whole; a second export removes only what the first one provably wrote."""
 
 import hashlib
+import os
 import shutil
 from pathlib import Path
 
 import pytest
 from cli_runner import run_cli
-from series_files import SAMPLES
+from series_files import SAMPLES, copy_sample
 
 from kitchen import cli
 from kitchen.memo import (
@@ -84,6 +85,19 @@ def test_a_folder_holding_a_file_the_tool_did_not_write_is_refused_and_left_alon
     assert _state(out) == before and interrupted_exports(out) == []
 
 
+def test_a_pack_received_from_elsewhere_is_never_replaced(sand_pack, tmp_path):
+    # a whole pack, every file as exported, copied in (as a colleague's pack is received):
+    # the tool did not write it in this folder, so it deletes nothing of it
+    out, _ = sand_pack
+    received = Path(shutil.copytree(out, tmp_path / "received"))
+    assert verify_pack(received) == []  # whole, and still checked as such
+    before = _state(received)
+    with pytest.raises(PackFolderError, match="did not write in this folder"):
+        export_memo_pack(Workspace(SAMPLES / "drainage_sand"), received, images=False)
+    assert _state(received) == before
+    export_memo_pack(Workspace(SAMPLES / "drainage_sand"), out, images=False)  # its own: yes
+
+
 def test_a_changed_file_of_the_previous_pack_is_not_replaced(sand_pack):
     out, _ = sand_pack
     (out / "results.csv").write_text("edited by the reviewer")
@@ -139,13 +153,14 @@ def test_an_empty_folder_takes_the_pack(tmp_path):
 
 @pytest.mark.parametrize("inside", ["", "packs/today"])
 def test_a_pack_is_never_written_into_the_series_folder(tmp_path, inside):
-    series = Path(shutil.copytree(SAMPLES / "drainage_sand", tmp_path / "series"))
+    series = copy_sample(SAMPLES / "clay_liner", tmp_path / "series")
     before = _state(series)
-    with pytest.raises(PackFolderError, match="series' own folder"):
+    with pytest.raises(PackFolderError, match="an input's own folder or file, or inside it"):
         export_memo_pack(Workspace(series), series / inside, images=False)
     assert _state(series) == before
-    code, _, err = run_cli("report", series, "--out", series, "--no-images")
-    assert code == 2 and "series' own folder" in err and _state(series) == before
+    for command in ("report", "field-check"):
+        code, _, err = run_cli(command, series, "--out", series / inside, "--no-images")
+        assert code == 2 and "an input's own folder" in err and _state(series) == before
 
 
 def test_a_failure_part_way_leaves_the_previous_pack_whole_and_nothing_beside_it(sand_pack):
@@ -207,3 +222,18 @@ def test_command_line_verify(sand_pack, tmp_path, capsys):
     (copy / "results.xlsx").write_bytes(b"edited")
     assert cli.main(["verify", str(copy)]) == 2
     assert "results.xlsx: not the file exported" in capsys.readouterr().err
+
+
+def test_a_previous_pack_left_beside_the_folder_by_a_kill_is_removed_next_time(sand_pack):
+    # a kill after the swap, while the previous pack was being removed: what is left of it
+    # is listed in its manifest and matches, so the next export proves it and removes it
+    out, _ = sand_pack
+    left = out.parent / f".{out.name}.kitchen-new-killed01"
+    os.rename(out, left)  # swapped out (a rename keeps the folder, and its mark true)
+    (left / "report.html").unlink()  # removed before the kill
+    building = out.parent / f".{out.name}.kitchen-new-killed02"
+    building.mkdir()
+    (building / "results.csv").write_text("a pack killed while being built")
+    with pytest.warns(UserWarning, match="kitchen-new-killed02: left by an export"):
+        export_memo_pack(Workspace(SAMPLES / "drainage_sand"), out, images=False)
+    assert interrupted_exports(out) == [building] and verify_pack(out) == []

@@ -10,6 +10,7 @@ plotly.js is checked against plotly's own bundled copy, ``plotly.offline.get_plo
 
 import hashlib
 import html
+import math
 import os
 import re
 import shutil
@@ -502,3 +503,51 @@ def test_a_series_without_a_criterion_is_exported_with_no_verdict(tmp_path):
     assert given.analysis.counts[MEETS] == 4  # sand k20 2.6e-4 to 8.3e-4 m/s, truth.json
     settings = _cautions_sheet(tmp_path / "given")["text"].tolist()
     assert "criterion from = typed in the panel" in settings
+
+
+def _many_specimens(folder: Path, count: int) -> Path:
+    """A falling-head series of `count` specimens, six readings each, written without the
+    package (heads falling as h0·exp(-a t), an arbitrary steady decay)."""
+    folder.mkdir()
+    ids = [f"M{number:05d}" for number in range(count)]
+    specimens = ["specimen,effort,water_content [%],diameter [mm],height [mm],dry_mass [g],"
+                 "specific_gravity,standpipe_diameter [mm]"]  # fmt: skip
+    specimens += [f"{i},standard,16.0,101.6,116.4,1620.0,2.70,5.0" for i in ids]
+    readings = ["specimen,time [min],head [cm],temperature [degC]"]
+    readings += [
+        f"{i},{t},{180.0 * math.exp(-0.002 * t):.3f},20.0" for i in ids for t in range(0, 60, 10)
+    ]
+    (folder / "specimens.csv").write_text("\n".join(specimens) + "\n", encoding="utf-8")
+    (folder / "falling_head.csv").write_text("\n".join(readings) + "\n", encoding="utf-8")
+    return folder
+
+
+def test_ten_thousand_specimens_are_refused_before_any_work_naming_the_limit(tmp_path):
+    series = _many_specimens(tmp_path / "many", 10_000)
+    out = tmp_path / "pack"
+    code, _, err = run_cli("report", series, "--out", out, "--no-images")
+    assert code == 2 and "10000 specimens, more than the 1000 one memo pack holds" in err
+    assert "[1/" not in err  # refused before the first file, not after reducing them all
+    assert not out.exists() and list(tmp_path.iterdir()) == [series]
+
+
+def test_hostile_text_edited_into_a_log_is_escaped_wherever_the_pack_shows_it(tmp_path):
+    # the tool refuses such text at entry; a log edited by hand (or received) may hold it:
+    # formula-leading text (OWASP, CSV injection), escape codes (ECMA-48) and markup
+    from kitchen.revisions import revise, revisions_path
+
+    series = copy_sample(SAMPLES / "clay_liner", tmp_path / "clay")
+    revise(series, specimen="QF-01", field="height", value="116.3 mm", reason="re-measured")
+    log = revisions_path(series)
+    hostile = b'"=HYPERLINK(""http://x"",""y"") \x1b[2J\x07 <script>alert(1)</script>"'
+    log.write_bytes(log.read_bytes().replace(b"re-measured", hostile))
+    code, _, err = run_cli("report", series, "--out", tmp_path / "pack", "--no-images")
+    assert code == 0, err
+    book = load_workbook(tmp_path / "pack" / "results.xlsx")
+    cells = [cell for sheet in book for row in sheet.iter_rows() for cell in row]
+    assert not [cell for cell in cells if cell.data_type == "f"]
+    (reason,) = [c.value for c in cells if isinstance(c.value, str) and "HYPERLINK" in c.value]
+    assert reason == '\'=HYPERLINK("http://x","y") \\x1b[2J\\x07 <script>alert(1)</script>'
+    page = (tmp_path / "pack" / "report.html").read_text(encoding="utf-8")
+    assert "\x1b" not in page and "<script>alert" not in page
+    assert "=HYPERLINK(&quot;http://x&quot;,&quot;y&quot;) \\x1b[2J\\x07 &lt;script&gt;" in page

@@ -72,3 +72,20 @@ def test_checks_table(clay):
     assert len(table[table["check"] == "all checks passed"]) == len(passed)
     series_rows = table[table["specimen"] == "(series)"]
     assert list(series_rows["check"]) == list(analysis.notes) + ["a chart was not drawn"]
+
+
+def test_the_specimens_sheet_follows_the_units_chosen(clay):
+    # 1 m/s = 100 cm/s; gamma_d = rho_d * g_n, g_n = 9.80665 m/s2 exactly (3rd CGPM, 1901);
+    # the column names keep ASCII units, as the tool writes them and reads them back
+    _, analysis = clay
+    table = specimens_table(analysis, k_unit="cm/s", density_unit="kN/m3")
+    rows = analysis.specimens
+    np.testing.assert_allclose(table["k20 [cm/s]"], rows["k"] * 100)
+    np.testing.assert_allclose(table["k20_high [cm/s]"], rows["k_high"] * 100)
+    np.testing.assert_allclose(table["dry_unit_weight [kN/m3]"], rows["dry_density"] * 9.80665e-3)
+    assert "k20 [m/s]" not in table and "dry_density [Mg/m3]" not in table
+    pounds = specimens_table(analysis, density_unit="lb/ft3")
+    # NIST SP 811 (2008) App. B: 1 lb/ft3 = 16.01846 kg/m3
+    np.testing.assert_allclose(
+        pounds["dry_density [lb/ft3]"], rows["dry_density"] / 16.01846, rtol=1e-6
+    )

@@ -123,3 +123,18 @@ def test_settings_carry_their_units_and_no_tuple_is_printed(clay_book):
     assert "k from 1e-06 to 1e-05 m/s: largest gradient 2" in table
     assert "k below 1e-09 m/s: largest gradient 30" in table
     assert not any("((" in str(text) or "('" in str(text) for _, text in rows)
+
+
+def test_the_fits_sheet_formats_each_number_by_its_row_unit(clay_book):
+    # one quantity a row: the geometric mean in m/s as k (three significant figures), the
+    # maximum dry density in Mg/m3 to 0.001, the optimum water content in % to 0.1
+    sheet = clay_book["fits"]
+    names = [cell.value for cell in sheet[1]]
+    unit, value = names.index("unit"), names.index("value")
+    formats = {}
+    for row in sheet.iter_rows(min_row=2):
+        if row[value].value is not None:
+            formats.setdefault(row[unit].value, set()).add(row[value].number_format)
+    assert formats["m/s"] == {"0.00E+00"}
+    assert formats["Mg/m3"] == {"0.000"} and formats["%"] == {"0.0"}
+    assert formats["decades"] == {"General"}  # no one format for a count of decades

@@ -158,3 +158,59 @@ def test_large_record_is_drawn_decimated_and_fitted_in_full(logged):
     # ln h falls at rate k·A/(a·L) (ASTM D5084 Method B): k = a·L/(A·τ); at 20 degC R_T = 1
     a, area = np.pi * 0.002**2 / 4, np.pi * 0.1016**2 / 4
     assert panel.analysis.k_reference == pytest.approx(a * 0.1164 / (area * 200_000.0), rel=1e-6)
+
+
+def _standpipe_area(diameter_mm):
+    return np.pi * diameter_mm**2 / 4  # A = πD²/4 (Das & Sobhan, phase relations) [mm²]
+
+
+def test_the_panel_says_what_the_test_was_with_two_burettes(clay):
+    # QF-09: standpipe 1.2 mm, tailwater burette 1.5 mm, height 116.52 mm, diameter from
+    # sample_data/clay_liner/specimens.csv
+    panel = falling_head_panel(clay.source, specimen="QF-09")
+    text = html.unescape(panel.test_view.value)
+    a_in, a_out = _standpipe_area(1.2), _standpipe_area(1.5)
+    a = a_in * a_out / (a_in + a_out)  # ASTM D5084 Method C (from memory)
+    assert "rising tailwater with two burettes" in text
+    assert f"a_in = {a_in:.4g} mm²" in text and f"a_out = {a_out:.4g} mm²" in text
+    assert f"a = a_in·a_out/(a_in + a_out) = {a:.4g} mm²" in text
+    assert "L = 116.5 mm" in text
+    row = clay.specimens.set_index("specimen").loc["QF-09"]
+    assert f"A = {np.pi * (row['diameter'] * 1e3) ** 2 / 4:.4g} mm²" in text
+    assert "k = a_in·a_out·L/((a_in + a_out)·A·Δt)·ln(Δh1/Δh2)" in text
+    assert "k = −m·a·L/A" in text
+    panel.fit_choice.value = "datum"
+    assert "k = a·L/(A·τ)" in html.unescape(panel.test_view.value)
+
+
+def test_the_panel_says_what_the_test_was_with_one_standpipe(clay):
+    panel = falling_head_panel(clay.source, specimen="QF-01")  # standpipe 5.0 mm, no burette
+    text = html.unescape(panel.test_view.value)
+    assert "constant tailwater" in text and "a_in" not in text
+    assert f"a = {_standpipe_area(5.0):.4g} mm²" in text
+    assert "k = a·L/(A·Δt)·ln(h1/h2)" in text
+
+
+def test_no_window_proposed_is_claimed_when_none_met_every_criterion(clay):
+    # QF-04 drifts over its whole record (sample_data/README.md): no window is valid
+    panel = falling_head_panel(clay.source, specimen="QF-04")
+    assert not panel.analysis.valid and panel.analysis.window_proposed
+    assert "window proposed by the tool" not in panel.window_label.value
+    assert "no window met every criterion" in panel.window_label.value
+    assert "proposed by the tool (it meets every criterion)" in (
+        falling_head_panel(clay.source, specimen="QF-02").window_label.value
+    )
+
+
+def test_no_internal_option_name_in_the_text(clay):
+    from kitchen.panels import constant_head_panel
+    from kitchen.settings import Settings
+
+    for viscosity in ("kestin", "iapws", "d5084"):
+        settings = Settings(viscosity=viscosity)
+        falling = falling_head_panel(clay.source, settings, specimen="QF-09")
+        constant = constant_head_panel(SAMPLES / "drainage_sand", settings)
+        shown = (falling.window_label, falling.test_view, falling.summary, falling.choice_label)
+        for text in (*(view.value for view in shown), constant.summary.value):
+            assert f"{viscosity} viscosity" not in text
+            assert "log_linear" not in text and "first_order" not in text

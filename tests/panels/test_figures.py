@@ -30,7 +30,7 @@ def test_elapsed_time_in_words(seconds, text):
 def test_increments_follow_the_analysis(record):
     analysis = record.analyse((5, 41), "log_linear")
     figure = increments_figure(analysis, Settings())
-    every, judged, line = figure.data
+    every, judged, line = figure.data[:3]
     np.testing.assert_allclose(every.y, analysis.increment_k)
     np.testing.assert_allclose(judged.y, analysis.value_k)
     assert line.y == pytest.approx((analysis.k_reference, analysis.k_reference))
@@ -50,3 +50,31 @@ def test_band_follows_the_criteria_setting(record):
     k = analysis.k_reference * 100
     assert (band.y0, band.y1) == pytest.approx((0.9 * k, 1.1 * k))
     assert "[cm/s]" in increments_figure(analysis, settings, "cm/s").layout.yaxis.title.text
+
+
+@pytest.mark.parametrize("window", [(0, 41), (5, 41), None])
+def test_no_increment_leaves_the_chart_silently(record, window):
+    # every finite incremental k is either inside the axis or drawn on its edge and counted
+    analysis = record.analyse(window, "log_linear")
+    figure = increments_figure(analysis, Settings())
+    bottom, top = figure.layout.yaxis.range
+    values = np.asarray(analysis.increment_k, dtype=float)
+    values = values[np.isfinite(values)]
+    above, below = int(np.sum(values > top)), int(np.sum(values < bottom))
+    edges = {t.name: t for t in figure.data[3:]}
+    assert sum(1 for name in edges if "above the axis" in name) == (above > 0)
+    assert sum(1 for name in edges if "below the axis" in name) == (below > 0)
+    for name, trace in edges.items():
+        count = above if "above" in name else below
+        assert name.startswith(f"{count} value")
+        assert set(trace.y) == {top if "above" in name else bottom}
+
+
+def test_off_scale_values_are_counted_and_kept_on_the_edge():
+    from kitchen.panels.figures import off_scale_traces
+
+    traces = off_scale_traces([1, 2, 3, 4, 5], [1.0, 9.0, 2.0, -5.0, 12.0], 0.0, 5.0)
+    above, below = traces
+    assert above.name.startswith("2 values above") and list(above.customdata) == [9.0, 12.0]
+    assert below.name.startswith("1 value below") and list(below.y) == [0.0]
+    assert off_scale_traces([1], [np.nan], 0.0, 5.0) == []

@@ -157,3 +157,35 @@ def test_a_refresh_sends_changes_only_not_the_whole_state():
     keys = {k for key in sent for k in ([key] if isinstance(key, str) else key or ["all"])}
     assert keys and not keys & {"_widget_data", "_widget_layout", "all"}
     assert list(widget._widget_data[0]["y"]) == [0.0, 1.0, 2.0, 3.0]  # what get_state sends
+
+
+def test_the_whole_state_is_sent_when_traces_are_set_and_only_changes_after():
+    """A figure shown inside a box is never displayed on its own (which is when plotly
+    sends its whole state): the first refresh, and one that replaces the traces, send it."""
+    widget = go.FigureWidget()
+    sent = []
+    widget.observe(lambda change: sent.append(change["name"]), names=["_widget_data"])
+    refresh_figure(widget, go.Figure(go.Scatter(x=[1, 2], y=[3, 4], name="readings")))
+    assert sent == ["_widget_data"]
+    assert widget._widget_data[0]["name"] == "readings"
+    refresh_figure(widget, go.Figure(go.Scatter(x=[1, 2], y=[3, 5], name="readings")))
+    assert sent == ["_widget_data"]  # same traces: only the change went, as a message
+    assert list(widget._widget_data[0]["y"]) == [3, 5]  # the kernel's copy is current
+    two = [go.Scatter(x=[1], y=[1], name="a"), go.Scatter(x=[2], y=[2], name="b")]
+    refresh_figure(widget, go.Figure(two))
+    assert sent == ["_widget_data"] * 2
+    assert [trace["name"] for trace in widget._widget_data] == ["a", "b"]
+
+
+def test_a_live_figure_opens_whole_and_then_sends_only_changes():
+    from kitchen.panels.refresh import live_figure
+
+    figure = go.Figure(go.Scatter(x=[1, 2], y=[3, 4], name="readings"))
+    widget = live_figure(figure)
+    assert [trace["name"] for trace in widget._widget_data] == ["readings"]  # opened with it
+    assert _state(widget)["data"] == _whole(figure)["data"]
+    sent = []
+    widget.observe(lambda change: sent.append(change["name"]), names=["_widget_data"])
+    count = refresh_figure(widget, go.Figure(go.Scatter(x=[1, 2], y=[3, 5], name="readings")))
+    assert count == 1 and sent == []  # only y, as a message
+    assert widget.data[0].y == (3, 5)

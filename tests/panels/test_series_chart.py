@@ -170,6 +170,20 @@ def test_export_to_an_unwritable_place_is_shown_in_words(tmp_path):
     assert panel.export.disabled is False
 
 
+def test_export_over_a_folder_the_tool_did_not_write_is_refused_in_words(tmp_path):
+    folder = tmp_path / "memo"
+    folder.mkdir()
+    (folder / "minutes.txt").write_text("the meeting's notes")
+    panel = series_chart_panel(SAMPLES / "clay_liner", export_folder=folder, images=False)
+    panel.export.click()
+    assert panel.error.message.startswith("Could not finish exporting")
+    assert "minutes.txt: not in manifest.csv" in panel.error.message
+    assert [p.name for p in folder.iterdir()] == ["minutes.txt"]
+    panel.export_folder.value = str(tmp_path / "memo-new")
+    panel.export.click()  # a new folder takes the pack
+    assert panel.error.message == "" and (tmp_path / "memo-new" / "manifest.csv").exists()
+
+
 # --- the criterion in force -----------------------------------------------------------------
 
 

@@ -162,6 +162,14 @@ _REFUSED = [
     ({"table": "specimens", "reading": 3}, "a specimen value takes no reading"),
     ({"table": "triaxial"}, "unknown table 'triaxial'"),
     ({"table": "constant_head", "field": "duration", "reading": 2}, "no constant_head table"),
+    # values that would overflow a later report are refused at entry, in words
+    ({"value": "1e308 mm"}, "is outside 5 mm to 1 m, what a specimen's height"),
+    ({"value": "1e400 mm"}, "expected a finite number"),
+    ({"field": "dry_mass", "value": "1e300 kg"}, "what a specimen's dry mass"),
+    ({"field": "head", "reading": 4, "value": "1e308 cm"}, "row 4, column 'head [cm]'"),
+    ({"field": "time", "reading": 5, "value": "1e308 min"}, "'1e308 min': expected a finite"),
+    ({"reason": "fixed \x1b[2J"}, "the reason holds a control character"),
+    ({"who": "\u202eana"}, "the who holds a control character"),
     ({"when": "2025-05-02 14:30"}, "has no time zone"),
     ({"when": "yesterday"}, "is not an ISO 8601 date and time"),
 ]
