@@ -45,6 +45,7 @@ bench: $(STAMP)
 sample: $(STAMP)
 	$(BIN)/python sample_data/make_clay_liner_series.py
 	$(BIN)/python sample_data/make_drainage_sand_series.py
+	$(BIN)/python sample_data/make_flexible_wall_series.py
 	$(BIN)/python sample_data/make_clay_liner_field_tests.py
 
 clean-venv:

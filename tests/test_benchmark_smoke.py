@@ -91,6 +91,16 @@ def test_loader_reads_what_pandas_reads(record_folder, record):
     np.testing.assert_allclose(series.falling_head["head"], record.head, rtol=1e-12)
 
 
+def test_logger_file_reads_back_the_record(record, tmp_path):
+    folder = bench.logger_records.write_transducer_series(tmp_path / "logger", record)
+    ours, peer = bench.logger_loading_case(folder)
+    series, frame = ours(), peer()
+    assert len(series.falling_head) == len(frame) == N
+    np.testing.assert_allclose(series.falling_head["time"], record.time - record.time[0])
+    # pressures kept to 0.0001 kPa, about 0.01 mm of head (ρw from Tanaka et al. 2001)
+    np.testing.assert_allclose(series.falling_head["head"], record.head, atol=2e-5)
+
+
 def test_loader_reads_the_ids_pandas_reads_as_a_category(record_folder):
     ours, peer = bench.loading_case(record_folder, category=True)
     series, frame = ours(), peer()

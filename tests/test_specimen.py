@@ -11,6 +11,8 @@ from kitchen.specimen import (
     circle_area,
     degree_of_saturation,
     dry_density,
+    final_state,
+    pore_volume,
     porosity,
     specimen_state,
     void_ratio,
@@ -77,3 +79,48 @@ def test_specimen_state_names_missing_columns():
                 {"specimen": ["S1"], "diameter": [0.1], "height": [0.1], "specific_gravity": [2.7]}
             )
         )
+
+
+def test_pore_volume_from_phase_relations():
+    # Das & Sobhan, weight-volume relationships: Vs = Ms/(Gs·ρw), Vv = V − Vs. Hand numbers:
+    # Ms = 1.35 kg, Gs = 2.70 → Vs = 0.5 L; V = 1 L → Vv = 0.5 L, so e = 1 and n = 0.5.
+    assert pore_volume(1.35, 2.70, 1.0e-3) == pytest.approx(0.5e-3)
+    state = specimen_state(
+        pd.DataFrame({"specimen": ["S"], "diameter": [0.1], "height": [0.1],
+                      "dry_mass": [1.5], "specific_gravity": [2.65]})
+    )  # fmt: skip
+    row = state.iloc[0]
+    assert pore_volume(row["dry_mass"], 2.65, row["volume"]) == pytest.approx(
+        row["porosity"] * row["volume"]
+    )
+
+
+def _with_final(**final):
+    base = {"specimen": ["S"], "diameter": [0.1], "height": [0.1], "dry_mass": [1.4],
+            "specific_gravity": [2.7], "water_content": [0.2]}  # fmt: skip
+    return pd.DataFrame(base | {name: [value] for name, value in final.items()})
+
+
+def test_final_state_beside_the_initial_one():
+    # final volume π·0.1²/4·0.102 = 8.0111e-4 m³; ρd = 1.4/8.0111e-4 = 1747.6 kg/m³;
+    # e = 2.7·1000/1747.6 − 1 = 0.54500; w = (1.75 − 1.4)/1.4 = 0.25; S = 0.25·2.7/0.545 = 1.2385
+    # (Das & Sobhan: ρd = Ms/V, e = Gs·ρw/ρd − 1, S·e = w·Gs); hand arithmetic
+    row = final_state(_with_final(final_height=0.102, final_mass=1.75)).iloc[0]
+    assert row["final_volume"] == pytest.approx(8.0111e-4, rel=1e-4)
+    assert row["final_dry_density"] == pytest.approx(1747.6, rel=1e-4)
+    assert row["final_void_ratio"] == pytest.approx(0.54500, rel=1e-4)
+    assert row["final_water_content"] == pytest.approx(0.25)
+    assert row["final_saturation"] == pytest.approx(1.2385, rel=1e-3)
+    assert row["volume_change"] == pytest.approx(0.02)
+    assert row["change"] == "swelled 2 %"
+
+
+def test_final_state_flags_consolidation_and_says_what_was_not_recorded():
+    shrunk = final_state(_with_final(final_height=0.097, final_water_content=0.19)).iloc[0]
+    assert shrunk["change"] == "consolidated 3 %"
+    assert shrunk["final_water_content"] == 0.19  # recorded wins over the final mass
+    steady = final_state(_with_final(final_diameter=0.1003)).iloc[0]
+    assert steady["change"] == "unchanged (within 1 %)"
+    assert math.isnan(steady["final_water_content"])
+    nothing = final_state(_with_final()).iloc[0]
+    assert nothing["change"] == "not recorded" and math.isnan(nothing["final_dry_density"])

@@ -16,12 +16,15 @@ Modules:
 - :mod:`.compaction`: the compaction plane above log k against molding water content.
 - :mod:`.conductivity_trend`: log k against void ratio, dry density or w − w_opt.
 - :mod:`.specimen`: one specimen's charts: the falling-head record, the constant-head test.
+- :mod:`.test_record`: one test over its course: k against time and pore volumes of flow,
+  outflow/inflow against time.
 - :mod:`.field_tests`: the field tests over the zone, and their distance from it by date.
 
 The public face, which other subpackages import from :mod:`kitchen.charts` and never from
 its modules: :func:`compaction_conductivity_figure`, :func:`compaction_conductivity_spec`,
 :func:`conductivity_trend_figure`, :func:`falling_head_figure`, :func:`falling_head_spec`
-and :func:`constant_head_figure` (the figures); :func:`field_plane_figure`,
+and :func:`constant_head_figure`, :func:`flow_record_figure` (the figures);
+:func:`field_plane_figure`,
 :func:`field_distance_figure` and :data:`FIELD_FILLS` (the field check's); :func:`memo_template`,
 :func:`decimation_indices`, :func:`add_caption`, :func:`label_specimens`,
 :data:`MAX_TRACE_POINTS`, :data:`WIDTH`, :data:`HEIGHT`, :data:`FONT`, :data:`INK`,
@@ -56,6 +59,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "field_plane_figure": "field_tests",
         "falling_head_figure": "specimen",
         "falling_head_spec": "specimen",
+        "flow_record_figure": "test_record",
         "EFFORT_DASHES": "style",
         "EFFORT_SYMBOLS": "style",
         "FONT": "style",
@@ -84,6 +88,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
 )
 
 __all__ = [
+    "flow_record_figure",
     "add_caption",
     "label_specimens",
     "compaction_conductivity_figure",

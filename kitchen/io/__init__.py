@@ -14,6 +14,9 @@ Modules, in the data's order:
 - :mod:`.units`: bracketed units in column headers, parsed with pint; columns to SI.
 - :mod:`.raw_tables`: the columns each table may hold (``SCHEMAS``); tables read as written.
 - :mod:`.table_checks`: each table's values checked and converted to SI, every problem kept.
+- :mod:`.logger_readings`: date-times to elapsed time; heads from pressures (h = Δp/(ρw·g))
+  or burette levels, and the burettes' volumes.
+- :mod:`.condition_checks`: the checks of a flexible-wall test's conditions and B-value checks.
 - :mod:`.series`: the validated :class:`Series`, built whole or again for the changed tables.
 - :mod:`.files`: atomic writes, one-write appends, the folder lock, spreadsheet-safe CSV.
 
@@ -22,7 +25,10 @@ modules: :func:`split_header`, :func:`format_header`, :func:`parse_value`, :func
 :data:`KINDS`, :data:`EXAMPLE_UNITS` and :class:`UnitError` (units); :data:`SCHEMAS`,
 :data:`TABLE_NAMES`, :class:`ColumnSpec`, :class:`RawTable`, :func:`read_tables`,
 :func:`read_table` (one table on its own: the field tests),
-:class:`InputProblem` and :class:`SeriesError` (the raw tables); :func:`head_rise_tolerance`,
+:class:`InputProblem` and :class:`SeriesError` (the raw tables), :data:`ALTERNATIVE_COLUMNS`
+and :data:`CONDITION_TABLES`; :func:`time_zone` (units); :func:`pressure_head`,
+:func:`read_date_times`, :data:`STANDARD_GRAVITY` and :data:`GAP_FACTOR` (logger readings);
+:data:`FLOW_DIRECTIONS` (condition checks); :func:`head_rise_tolerance`,
 :data:`HEAD_RISE_TOLERANCE` and :data:`HEAD_RISE_SCATTERS` (the rise a falling-head reading
 may show); :func:`convert_table` and :func:`report_rows` (a table's values checked and
 converted, problems named by row); :data:`SPECIMEN_ID_LENGTH` (the longest specimen id);
@@ -57,6 +63,13 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "ProjectSetting": "project",
         "project_settings_path": "project",
         "read_project_settings": "project",
+        "FLOW_DIRECTIONS": "condition_checks",
+        "GAP_FACTOR": "logger_readings",
+        "STANDARD_GRAVITY": "logger_readings",
+        "pressure_head": "logger_readings",
+        "read_date_times": "logger_readings",
+        "ALTERNATIVE_COLUMNS": "raw_tables",
+        "CONDITION_TABLES": "raw_tables",
         "SCHEMAS": "raw_tables",
         "TABLE_NAMES": "raw_tables",
         "TEXT_KINDS": "raw_tables",
@@ -83,10 +96,19 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "parse_value": "units",
         "split_header": "units",
         "to_si": "units",
+        "time_zone": "units",
     },
 )
 
 __all__ = [
+    "ALTERNATIVE_COLUMNS",
+    "CONDITION_TABLES",
+    "FLOW_DIRECTIONS",
+    "GAP_FACTOR",
+    "STANDARD_GRAVITY",
+    "pressure_head",
+    "read_date_times",
+    "time_zone",
     "PROJECT_SETTINGS",
     "ProjectSetting",
     "project_settings_path",

@@ -31,6 +31,15 @@ PROJECT_SETTINGS = {
         "the conductivity criterion of the specification, with its unit: a largest k "
         "allowed ('1e-9 m/s') or a smallest k required ('>= 1e-4 m/s')"
     ),
+    "minimum_effective_stress": (
+        "the lowest effective stress the specification allows across a flexible-wall "
+        "specimen during permeation, with its unit ('10 kPa')"
+    ),
+    "maximum_effective_stress": (
+        "the highest effective stress the specification allows across a flexible-wall "
+        "specimen during permeation, with its unit ('50 kPa')"
+    ),
+    "project": "the project's name, as the report pages show it",
 }
 """The settings a project table may hold, and what each value is."""
 

@@ -29,9 +29,11 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from .units import UnitError, split_header, to_si
+from .units import UnitError, split_header, time_zone_problem, to_si
 
 __all__ = [
+    "ALTERNATIVE_COLUMNS",
+    "CONDITION_TABLES",
     "SCHEMAS",
     "TEXT_KINDS",
     "TABLE_NAMES",
@@ -44,14 +46,18 @@ __all__ = [
 ]
 
 
-TABLE_NAMES = ("specimens", "constant_head", "falling_head")
+TABLE_NAMES = ("specimens", "constant_head", "falling_head", "flexible_wall", "b_value_checks")
+
+CONDITION_TABLES = ("flexible_wall", "b_value_checks")
+"""Tables of a test's conditions rather than its readings: a series may leave them out, and
+a specimen without a row in ``flexible_wall`` was tested in a rigid-wall cell."""
 
 
 @dataclass(frozen=True)
 class ColumnSpec:
     """What a column holds: its kind of quantity, and whether the table needs it."""
 
-    kind: str  # "id", "label", or a kind of kitchen.io.KINDS
+    kind: str  # "id", "label", "datetime", or a kind of kitchen.io.KINDS
     required: bool = False
 
 
@@ -71,6 +77,18 @@ SCHEMAS: dict[str, dict[str, ColumnSpec]] = {
         "standpipe_area": ColumnSpec("area"),
         "tailwater_standpipe_diameter": ColumnSpec("length"),
         "tailwater_standpipe_area": ColumnSpec("area"),
+        "final_height": ColumnSpec("length"),
+        "final_diameter": ColumnSpec("length"),
+        "final_mass": ColumnSpec("mass"),
+        "final_water_content": ColumnSpec("ratio"),
+        "boring": ColumnSpec("label"),
+        "sample": ColumnSpec("label"),
+        "depth": ColumnSpec("length"),
+        "description": ColumnSpec("label"),
+        "preparation": ColumnSpec("label"),
+        "permeant": ColumnSpec("label"),
+        "flow_direction": ColumnSpec("label"),
+        "deviations": ColumnSpec("label"),
     },
     "constant_head": {
         "specimen": ColumnSpec("id", True),
@@ -88,6 +106,30 @@ SCHEMAS: dict[str, dict[str, ColumnSpec]] = {
         "temperature": ColumnSpec("temperature"),
         "inflow_volume": ColumnSpec("volume"),
         "outflow_volume": ColumnSpec("volume"),
+        "date_time": ColumnSpec("datetime"),
+        "date": ColumnSpec("datetime"),
+        "time_of_day": ColumnSpec("datetime"),
+        "head_pressure": ColumnSpec("pressure"),
+        "headwater_level": ColumnSpec("length"),
+        "tailwater_level": ColumnSpec("length"),
+        "headwater_pressure": ColumnSpec("pressure"),
+        "tailwater_pressure": ColumnSpec("pressure"),
+    },
+    "flexible_wall": {
+        "specimen": ColumnSpec("id", True),
+        "cell_pressure": ColumnSpec("pressure", True),
+        "back_pressure": ColumnSpec("pressure", True),
+        "b_value": ColumnSpec("dimensionless"),
+        "consolidated_height": ColumnSpec("length"),
+        "height_change": ColumnSpec("length"),
+        "consolidated_diameter": ColumnSpec("length"),
+        "volume_change": ColumnSpec("volume"),
+    },
+    "b_value_checks": {
+        "specimen": ColumnSpec("id", True),
+        "back_pressure": ColumnSpec("pressure"),
+        "cell_pressure_increment": ColumnSpec("pressure", True),
+        "pore_pressure_increment": ColumnSpec("pressure", True),
     },
     "field_tests": {
         "test": ColumnSpec("id", True),
@@ -106,10 +148,20 @@ SCHEMAS: dict[str, dict[str, ColumnSpec]] = {
 }
 """Columns each table may carry, by internal name. ``field_tests`` is not part of a
 series' laboratory data: it is read on its own by :func:`read_table`
-(:mod:`kitchen.field`)."""
+(:mod:`kitchen.field`).
 
+In ``falling_head`` the elapsed ``time`` may be replaced by date-times (``date_time``, or
+``date`` and ``time_of_day``) and the ``head`` by a pressure or by burette levels; the
+columns that stand in for them are in :data:`ALTERNATIVE_COLUMNS` and turned into ``time``
+and ``head`` by :mod:`kitchen.io.logger_readings`."""
 
-TEXT_KINDS = ("id", "label")
+ALTERNATIVE_COLUMNS = {
+    ("falling_head", "time"): ("date_time", "date"),
+    ("falling_head", "head"): ("head_pressure", "headwater_level", "headwater_pressure"),
+}
+"""A required column, and the columns any one of which stands in for it."""
+
+TEXT_KINDS = ("id", "label", "datetime")
 
 
 @dataclass(frozen=True)
@@ -179,12 +231,13 @@ def _internal_name(header_name: str) -> str:
     return "_".join(header_name.replace("-", " ").split())
 
 
-def _text_column(header: str) -> bool:
-    """Whether a header as written names one of the text columns (ids and labels)."""
+def _text_column(header: str, kinds=TEXT_KINDS) -> bool:
+    """Whether a header as written names one of the text columns (ids, labels and
+    date-times; or of the `kinds` given)."""
     if not _safe_header(header):
         return False
     name = _internal_name(split_header(header)[0])
-    return any(name in schema and schema[name].kind in TEXT_KINDS for schema in SCHEMAS.values())
+    return any(name in schema and schema[name].kind in kinds for schema in SCHEMAS.values())
 
 
 EMPTY_TEXTS = (
@@ -245,8 +298,12 @@ def _read_csv(path: Path, problems: list[InputProblem]) -> tuple[pd.DataFrame, l
         return pd.DataFrame({0: []}), written  # not comma-separated: the header says it all
     keys = list(range(len(written)))
     text_keys = [key for key in keys if _text_column(written[key])]
-    # text columns as categories: the parser keeps one string per distinct id, not per row
-    dtypes = dict.fromkeys(text_keys, "category")
+    # text columns as categories: the parser keeps one string per distinct id, not per row;
+    # date-times, nearly all distinct, as plain text
+    dtypes = {
+        key: object if _text_column(written[key], ("datetime",)) else "category"
+        for key in text_keys
+    }
     empty = {key: [""] if key in text_keys else list(EMPTY_TEXTS) for key in keys}
     try:
         with warnings.catch_warnings(record=True) as warned:
@@ -374,7 +431,12 @@ def _prepare(
             continue
         first_at[internal] = position
         spec = schema[internal]
-        if spec.kind in TEXT_KINDS:
+        if spec.kind == "datetime":
+            zone_problem = time_zone_problem(unit)
+            if zone_problem is not None:
+                problems.append(InputProblem(label, 1, raw_text, zone_problem))
+                continue
+        elif spec.kind in TEXT_KINDS:
             if unit:
                 problems.append(
                     InputProblem(label, 1, raw_text, f"'{internal}' is text and takes no unit")
@@ -404,12 +466,14 @@ def _prepare(
                 problems.append(InputProblem(label, 1, raw_text, str(error)))
                 continue
         rename[raw] = internal
-        units[internal] = unit if spec.kind not in TEXT_KINDS else None
+        units[internal] = unit if spec.kind not in TEXT_KINDS or spec.kind == "datetime" else None
         headers[internal] = raw_text
     for column, spec in schema.items():
         if spec.required and column not in rename.values():
             if column in first_at:
                 continue  # present but refused above; already reported
+            if any(other in first_at for other in ALTERNATIVE_COLUMNS.get((name, column), ())):
+                continue  # stood in for by another column (checked with the values)
             hint = (
                 f" (the header has {_SEPARATOR_WORDS[separator]}: save the file comma-separated)"
                 if separator is not None
@@ -448,6 +512,7 @@ _EXAMPLE_UNITS = {
     "temperature": "[degC]",
     "density": "[Mg/m^3], [kg/m^3], [lb/ft^3]",
     "ratio": "[%] or [-]",
+    "pressure": "[kPa], [psi]",
 }
 
 
@@ -526,7 +591,11 @@ def _name_empty_tables(tables: dict[str, RawTable]) -> None:
     tables when none of them has a row (one empty readings table beside a full one is a
     method not used)."""
     readings = [tables[name] for name in ("constant_head", "falling_head") if name in tables]
-    empty = [table for table in tables.values() if len(table.frame) == 0]
+    empty = [
+        table
+        for table in tables.values()
+        if len(table.frame) == 0 and table.name not in CONDITION_TABLES
+    ]
     for table in empty:
         complete = all(
             column in table.frame.columns

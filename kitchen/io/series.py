@@ -22,6 +22,8 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
+from .condition_checks import check_b_value_checks, check_flexible_wall, check_record_texts
+from .logger_readings import derive_readings
 from .raw_tables import SCHEMAS, TABLE_NAMES, InputProblem, RawTable, SeriesError, read_tables
 from .table_checks import (
     TextCodes,
@@ -46,6 +48,15 @@ class Series:
     falling_head: pd.DataFrame
     input_files: tuple[Path, ...]
     units: dict[str, dict[str, str | None]]
+    flexible_wall: pd.DataFrame = None
+    """One row per specimen tested in a flexible-wall cell (empty: every test rigid-wall)."""
+    b_value_checks: pd.DataFrame = None
+    """The B-value checks during saturation, one row per check (may be empty)."""
+
+    def __post_init__(self):
+        for name in ("flexible_wall", "b_value_checks"):
+            if getattr(self, name) is None:
+                object.__setattr__(self, name, _empty_readings(name))
 
     def specimen_ids(self) -> list[str]:
         return list(self.specimens["specimen"])
@@ -59,7 +70,9 @@ def _tested(frame: pd.DataFrame) -> set:
 
 
 def _empty_readings(name: str) -> pd.DataFrame:
-    columns = {column: np.empty(0) for column in SCHEMAS[name]}
+    columns = {
+        column: np.empty(0) for column, spec in SCHEMAS[name].items() if spec.kind != "datetime"
+    }
     columns["specimen"] = pd.array([], dtype="string")
     columns["source_row"] = np.empty(0, dtype=int)
     return pd.DataFrame(columns)
@@ -73,14 +86,23 @@ def _assemble(tables, source, input_files, previous: Series | None, changed) -> 
         converted[name], ids[name] = convert_table(tables[name], problems)
     if "specimens" in changed:
         specimens = check_specimens(tables["specimens"], converted["specimens"], problems)
+        check_record_texts(tables["specimens"], specimens, problems)
     else:
         specimens = previous.specimens
     known = set(specimens["specimen"].dropna())
     same_ids = previous is not None and known == set(previous.specimens["specimen"].dropna())
     if "specimen" not in tables["specimens"].frame.columns:
         known = None  # the header lacks it (named there): no id can be looked up
-    for name in ("constant_head", "falling_head"):
-        if name in changed:
+    for name in ("constant_head", "falling_head", "flexible_wall", "b_value_checks"):
+        if name in changed and name == "falling_head":
+            derive_readings(tables[name], converted[name], ids[name], specimens, problems)
+        if name in changed and name == "flexible_wall":
+            check_flexible_wall(
+                tables[name], converted[name], ids[name], specimens, known, problems
+            )
+        elif name in changed and name == "b_value_checks":
+            check_b_value_checks(tables[name], converted[name], ids[name], known, problems)
+        elif name in changed:
             check_readings(tables[name], converted[name], ids[name], known, problems)
         elif name in tables:  # validated before: only the specimen ids may have gone stale
             converted[name] = getattr(previous, name)
@@ -113,6 +135,8 @@ def _assemble(tables, source, input_files, previous: Series | None, changed) -> 
         falling_head=converted["falling_head"],
         input_files=tuple(input_files),
         units=units,
+        flexible_wall=converted["flexible_wall"],
+        b_value_checks=converted["b_value_checks"],
     )
 
 
@@ -179,7 +203,12 @@ def rebuild_series(series: Series, tables: dict[str, RawTable], changed) -> Seri
     changed. After a revision of one specimen's height the cost is that of the
     specimens table alone, whatever the number of readings.
     """
-    changed = tuple(name for name in TABLE_NAMES if name in set(changed))
+    changed = set(changed)
+    if "specimens" in changed and "falling_head" in tables:
+        levels = {"headwater_level", "tailwater_level"} & set(tables["falling_head"].frame.columns)
+        if levels:  # the volumes are the burettes' levels times their areas, in specimens
+            changed.add("falling_head")
+    changed = tuple(name for name in TABLE_NAMES if name in changed)
     unknown = [name for name in changed if name not in tables]
     if unknown:
         raise ValueError(f"changed tables {', '.join(unknown)} are not among the tables given")

@@ -46,16 +46,23 @@ _POSITIVE = {
         "standpipe_area",
         "tailwater_standpipe_diameter",
         "tailwater_standpipe_area",
+        "final_height",
+        "final_diameter",
+        "final_mass",
     ),
+    "flexible_wall": ("cell_pressure", "b_value", "consolidated_height", "consolidated_diameter"),
+    "b_value_checks": ("cell_pressure_increment",),
     "constant_head": ("head_difference", "duration", "volume", "outflow_mass", "flow_length"),
-    "falling_head": ("head",),
+    "falling_head": ("head", "head_pressure"),
     "field_tests": ("dry_density", "wet_density"),
 }
 
 
 _NON_NEGATIVE = {
-    "specimens": ("water_content", "mold_mass"),
+    "specimens": ("water_content", "mold_mass", "final_water_content", "depth"),
     "falling_head": ("time", "inflow_volume", "outflow_volume"),
+    "flexible_wall": ("back_pressure",),
+    "b_value_checks": ("back_pressure", "pore_pressure_increment"),
     "field_tests": ("water_content",),
 }
 
@@ -79,6 +86,9 @@ _BORE_AREA = PlausibleRange(
     "a standpipe's area",
 )
 
+_CELL_PRESSURE = PlausibleRange(0.0, 1e7, "0 to 10 MPa", "a pressure in a permeameter cell")
+_BURETTE_LEVEL = PlausibleRange(-10.0, 10.0, "-10 m to 10 m", "a burette level")
+
 PLAUSIBLE_RANGES: dict[str, dict[str, PlausibleRange]] = {
     "specimens": {
         "diameter": PlausibleRange(0.010, 1.0, "10 mm to 1 m", "a specimen's diameter"),
@@ -92,6 +102,27 @@ PLAUSIBLE_RANGES: dict[str, dict[str, PlausibleRange]] = {
         "standpipe_area": _BORE_AREA,
         "tailwater_standpipe_diameter": _BORE,
         "tailwater_standpipe_area": _BORE_AREA,
+        "final_height": PlausibleRange(0.005, 1.0, "5 mm to 1 m", "a specimen's height"),
+        "final_diameter": PlausibleRange(0.010, 1.0, "10 mm to 1 m", "a specimen's diameter"),
+        "final_mass": PlausibleRange(0.001, 200.0, "1 g to 200 kg", "a specimen's mass"),
+        "final_water_content": PlausibleRange(0.0, 2.0, "0 to 200 %", "a water content"),
+        "depth": PlausibleRange(0.0, 1000.0, "0 to 1000 m", "a sample's depth"),
+    },
+    "flexible_wall": {
+        "cell_pressure": _CELL_PRESSURE,
+        "back_pressure": _CELL_PRESSURE,
+        "b_value": PlausibleRange(0.0, 1.2, "0 to 1.2", "a B-value"),
+        "consolidated_height": PlausibleRange(0.005, 1.0, "5 mm to 1 m", "a specimen's height"),
+        "height_change": PlausibleRange(-0.1, 0.1, "-100 mm to 100 mm", "a change of height"),
+        "consolidated_diameter": PlausibleRange(
+            0.010, 1.0, "10 mm to 1 m", "a specimen's diameter"
+        ),
+        "volume_change": PlausibleRange(-0.01, 0.01, "-10 L to 10 L", "a change of volume"),
+    },
+    "b_value_checks": {
+        "back_pressure": _CELL_PRESSURE,
+        "cell_pressure_increment": _CELL_PRESSURE,
+        "pore_pressure_increment": _CELL_PRESSURE,
     },
     "constant_head": {
         "head_difference": PlausibleRange(0.0, 100.0, "up to 100 m", "a head difference"),
@@ -107,6 +138,11 @@ PLAUSIBLE_RANGES: dict[str, dict[str, PlausibleRange]] = {
         "temperature": PlausibleRange(0.0, 60.0, "0 to 60 °C", "a water temperature"),
         "inflow_volume": PlausibleRange(0.0, 0.1, "up to 100 L", "a cumulative volume"),
         "outflow_volume": PlausibleRange(0.0, 0.1, "up to 100 L", "a cumulative volume"),
+        "head_pressure": PlausibleRange(0.0, 1e6, "up to 1000 kPa", "a pressure across a specimen"),
+        "headwater_level": _BURETTE_LEVEL,
+        "tailwater_level": _BURETTE_LEVEL,
+        "headwater_pressure": _CELL_PRESSURE,
+        "tailwater_pressure": _CELL_PRESSURE,
     },
     "field_tests": {
         "water_content": PlausibleRange(0.0, 1.0, "0 to 100 %", "a compacted soil's water content"),
@@ -145,7 +181,17 @@ SATURATION_LIMIT = 1.10
 wrong. Common practice, no source."""
 
 
-_LEFT_OUT_WHEN_ABSENT = {"falling_head": ("inflow_volume", "outflow_volume")}
+_LEFT_OUT_WHEN_ABSENT = {
+    "falling_head": (
+        "inflow_volume",
+        "outflow_volume",
+        "head_pressure",
+        "headwater_level",
+        "tailwater_level",
+        "headwater_pressure",
+        "tailwater_pressure",
+    )
+}
 """Optional columns the SI table leaves out when the file has none (a logger record rarely
 carries volumes; an empty column of 10⁶ readings would cost 8 MB)."""
 
@@ -342,6 +388,7 @@ _INTERNAL_UNITS = {
     "time": "s",
     "temperature": "°C",
     "ratio": "%",
+    "pressure": "Pa",
     "density": "kg/m³",
 }
 
@@ -450,6 +497,8 @@ def convert_table(table: RawTable, problems: list[InputProblem]) -> tuple[pd.Dat
     ids = None
     for column, spec in schema.items():
         present = column in table.frame.columns
+        if spec.kind == "datetime":
+            continue  # read by kitchen.io.logger_readings into elapsed time
         if spec.kind in TEXT_KINDS:
             if present:
                 labels = TextCodes.of(table.frame[column])

@@ -26,6 +26,8 @@ __all__ = [
     "to_si",
     "parse_value",
     "format_header",
+    "time_zone",
+    "time_zone_problem",
 ]
 
 _HEADER = re.compile(r"^\s*(?P<name>[^\[\]]*?)\s*(?:\[(?P<unit>[^\[\]]*)\])?\s*$")
@@ -38,6 +40,7 @@ KINDS: dict[str, tuple[str | None, str]] = {
     "mass": ("[mass]", "kg"),
     "time": ("[time]", "s"),
     "temperature": ("[temperature]", "degC"),
+    "pressure": ("[mass] / [length] / [time] ** 2", "Pa"),
     "density": ("[mass] / [length] ** 3", "kg/m**3"),
     "ratio": ("", "dimensionless"),
     "dimensionless": ("", "dimensionless"),
@@ -52,6 +55,7 @@ EXAMPLE_UNITS: dict[str, str] = {
     "time": "s, min, h",
     "temperature": "degC, degF",
     "density": "Mg/m3, kg/m3, lb/ft3",
+    "pressure": "kPa, psi, bar",
     "ratio": "%, -",
     "dimensionless": "-",
 }
@@ -169,6 +173,75 @@ def split_header(header: str) -> tuple[str, str | None]:
         raise UnitError(f"header {header!r} is not of the form 'name [unit]'")
     unit = match.group("unit")
     return match.group("name").strip().lower(), None if unit is None else unit.strip()
+
+
+_OFFSET = re.compile(r"^(?:UTC|GMT)?\s*(?P<sign>[+-])(?P<hours>\d{1,2})(?::?(?P<minutes>\d{2}))?$")
+
+
+def time_zone(text: str | None):
+    """The time zone a date-time column's header states, as a :class:`datetime.tzinfo`.
+
+    Parameters
+    ----------
+    text : str or None
+        The text in the header's brackets: ``UTC``, an offset from UTC (``+01:00``,
+        ``UTC-05:00``, ``+0530``) or a name of the IANA time-zone database
+        (``Europe/Zurich``). None or empty: no zone stated (each value must then carry
+        its own offset).
+
+    Returns
+    -------
+    datetime.tzinfo or None
+
+    Raises
+    ------
+    UnitError
+        When the text is none of these.
+
+    References
+    ----------
+    ISO 8601-1:2019, clause 4.3.13 (time shift from UTC); the IANA time zone database
+    (through Python's :mod:`zoneinfo`).
+
+    Examples
+    --------
+    >>> time_zone("+01:00")
+    datetime.timezone(datetime.timedelta(seconds=3600))
+    >>> time_zone("UTC")
+    datetime.timezone.utc
+    """
+    import datetime as dt
+
+    if text is None or not text.strip():
+        return None
+    text = text.strip()
+    if text.upper() in ("UTC", "Z", "GMT"):
+        return dt.UTC
+    offset = _OFFSET.match(text)
+    if offset is not None:
+        hours, minutes = int(offset["hours"]), int(offset["minutes"] or 0)
+        if hours > 14 or minutes >= 60:
+            raise UnitError(f"time zone {text!r}: an offset from UTC is at most 14:00")
+        sign = -1 if offset["sign"] == "-" else 1
+        return dt.timezone(sign * dt.timedelta(hours=hours, minutes=minutes))
+    import zoneinfo
+
+    try:
+        return zoneinfo.ZoneInfo(text)
+    except (zoneinfo.ZoneInfoNotFoundError, ValueError):
+        raise UnitError(
+            f"unknown time zone {text!r}: expected UTC, an offset such as +01:00, or a "
+            "zone name such as Europe/Zurich"
+        ) from None
+
+
+def time_zone_problem(text: str | None) -> str | None:
+    """What is wrong with the time zone of a date-time header, or None."""
+    try:
+        time_zone(text)
+    except UnitError as error:
+        return str(error)
+    return None
 
 
 def format_header(name: str, unit: str | None) -> str:

@@ -20,6 +20,8 @@ Modules, in the order a pack is made:
 - :mod:`.provenance`: which tool, when, with what settings, from which bytes.
 - :mod:`.markup`: the markup the pages share: style, escaping, tables, the page skeleton.
 - :mod:`.pages`: the report page and one page per chart, built as escaped text.
+- :mod:`.specimen_pages`: one page per test holding every item a test report holds,
+  each stated or marked "not recorded", with the test's record over time.
 - :mod:`.manifest`: ``manifest.csv``, written last; the pack built beside its folder and
   swapped in whole (:class:`StagedPack`); checking a pack received.
 - :mod:`.documents`: the memo and the field-check report as ``.docx`` (python-docx).
@@ -39,7 +41,9 @@ modules: :func:`export_memo_pack` (:class:`MemoPack`), :data:`CHART_SCRIPT` and
 :class:`Provenance`, :class:`InputFile` and :func:`file_sha256`; :func:`report_page`,
 :func:`chart_page`, :func:`provenance_markup`, :data:`REDUCTION_METHODS` and
 :data:`VERDICT_MARKS`; :func:`table_markup`
-(the notebook panels build their tables with it too);
+(the notebook panels build their tables with it too); :func:`report_items`
+(:class:`ReportItem`, :data:`NOT_RECORDED`), :func:`report_pages` (:class:`ReportPage`),
+:func:`specimen_page`, :func:`specimen_links` and :func:`page_name`;
 :class:`StagedPack`, :class:`PackFolderError`, :data:`PACK_MARK`, :func:`interrupted_exports`,
 :func:`manifest_bytes`, :func:`read_manifest`, :func:`verify_pack`, :data:`MANIFEST` and
 :data:`MANIFEST_COLUMNS`; :func:`document_bytes` and :func:`memo_document` (the ``.docx``);
@@ -87,6 +91,14 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "chart_page": "pages",
         "provenance_markup": "pages",
         "report_page": "pages",
+        "NOT_RECORDED": "specimen_pages",
+        "ReportItem": "specimen_pages",
+        "ReportPage": "specimen_pages",
+        "page_name": "specimen_pages",
+        "report_items": "specimen_pages",
+        "report_pages": "specimen_pages",
+        "specimen_links": "specimen_pages",
+        "specimen_page": "specimen_pages",
         "InputFile": "provenance",
         "Provenance": "provenance",
         "file_sha256": "provenance",
@@ -114,6 +126,14 @@ __all__ = [
     "memo_document",
     "provenance_markup",
     "chart_page",
+    "NOT_RECORDED",
+    "ReportItem",
+    "ReportPage",
+    "page_name",
+    "report_items",
+    "report_pages",
+    "specimen_links",
+    "specimen_page",
     "CHART_SCRIPT",
     "checks_table",
     "export_memo_pack",

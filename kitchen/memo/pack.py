@@ -68,6 +68,7 @@ from .manifest import StagedPack
 from .markup import ChartScript
 from .pages import REDUCTION_METHODS, report_page
 from .provenance import Provenance, memo_provenance
+from .specimen_pages import report_pages, specimen_links, write_report_pages
 from .tables import (
     checks_table,
     fits_table,
@@ -312,6 +313,8 @@ def export_memo_pack(
     if script.path is not None:
         steps.append(script.path)
     steps += [f"charts/{name}.{ext}" for name, _, _ in charts for ext in formats]
+    pages = report_pages(workspace, results, ku, label)
+    steps += [f"specimens/{page.name}.{ext}" for page in pages for ext in formats]
     steps += ["report.html", "report.docx"]
     write = PackWriter(staged, steps, progress)
     with staged:
@@ -326,6 +329,7 @@ def export_memo_pack(
             write(script.path, "script", lambda: script.content)
         caption = _caption(provenance, criterion_text)
         pngs = write_chart_files(write, charts, CAUTIONS, provenance, script, caption, images)
+        write_report_pages(write, pages, CAUTIONS, caption, script, images)
         fragments = [(name, title, figure_html(figure, name)) for name, title, figure in charts]
         write(
             "report.html",
@@ -342,6 +346,7 @@ def export_memo_pack(
                 criterion_text,
                 skipped,
                 source,
+                specimen_links([(p.name, p.specimen, p.method) for p in pages]),
             ).encode("utf-8"),
         )
         write(

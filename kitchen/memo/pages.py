@@ -397,6 +397,7 @@ def report_page(
     criterion_text: str,
     skipped=(),
     criterion_source: str = "",
+    test_links: str = "",
 ) -> str:
     """The report of a series, at the top of the memo pack.
 
@@ -420,6 +421,9 @@ def report_page(
     criterion_source : str, optional
         Where the criterion comes from, in words (``"from the series' project table
         (project.csv, row 2, column 'value')"``, ``"given on the command line"``).
+    test_links : str, optional
+        HTML of the links to the pages of the tests, one per test
+        (:func:`kitchen.memo.specimen_pages.specimen_links`).
     """
     label = reference_label(analysis.reference_temperature)
     title = f"Hydraulic conductivity of series {provenance.series}"
@@ -491,6 +495,7 @@ def report_page(
             _summary(analysis, ku, criterion_text),
             "<h2>Specimens</h2>",
             specimens,
+            test_links,
             "<h2>Charts</h2>",
             "".join(figures) or "<p>No chart could be drawn.</p>",
             "<h2>Fits</h2>",

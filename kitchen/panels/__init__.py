@@ -8,6 +8,8 @@ set a control's ``value`` and assert on the figure data and the results without 
 - :func:`constant_head_panel` (``03_constant_head``): v against i for one specimen.
 - :func:`series_chart_panel` (``04_series_chart``): the series charts and the memo pack.
 - :func:`revise_panel` (``05_revise``): revise a value, see what moved.
+- :func:`record_panel` (``06_test_record``): one test's report items, stated or marked
+  "not recorded", and its course: k against time and pore volumes, outflow/inflow.
 - :func:`field_checks_panel` (``07_field_checks``): field tests judged against the zone.
 
 :func:`workbook_panel` puts a series chooser above any of them (no code to edit): the
@@ -51,10 +53,14 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "working_copy": "series_choice",
         "working_folder": "series_choice",
         "series_chart_panel": "series_chart",
+        "RecordPanel": "test_record",
+        "record_panel": "test_record",
     },
 )
 
 __all__ = [
+    "RecordPanel",
+    "record_panel",
     "ConstantHeadPanel",
     "FallingHeadPanel",
     "FieldChecksPanel",

@@ -59,6 +59,8 @@ SAMPLES = {
     "clay_liner": "sample clay liner (falling head, 14 specimens)",
     "drainage_sand": "sample drainage sand (constant head, 4 specimens)",
     "drainage_sand.xlsx": "sample drainage sand as one workbook",
+    "flexible_wall_clay": "sample flexible-wall clay (B-value checks, burettes, 3 specimens)",
+    "transducer_log": "sample transducer log (pressure every minute, 1 specimen)",
 }
 """The samples under ``sample_data/`` the chooser offers: name and words."""
 
@@ -283,6 +285,7 @@ PANELS = {
     "constant_head": "constant_head_panel",
     "series_chart": "series_chart_panel",
     "revise": "revise_panel",
+    "record": "record_panel",
 }
 """The panels :func:`workbook_panel` builds: key and factory name in :mod:`kitchen.panels`."""
 
@@ -331,11 +334,11 @@ def workbook_panel(
 
     Parameters
     ----------
-    kind : {"open", "falling_head", "constant_head", "series_chart", "revise"}
+    kind : {"open", "falling_head", "constant_head", "series_chart", "revise", "record"}
         Which panel (:data:`PANELS`).
     default_sample : str, optional
         The sample to open before any series has been chosen; the drainage sand for
-        ``"constant_head"``, else the clay liner.
+        ``"constant_head"``, the flexible-wall clay for ``"record"``, else the clay liner.
     folder : str or pathlib.Path, optional
         The working folder; :func:`working_folder` by default.
     **options
@@ -353,7 +356,9 @@ def workbook_panel(
         raise ValueError(f"unknown panel {kind!r}; expected one of {', '.join(PANELS)}")
     factory = getattr(panels, PANELS[kind])
     if default_sample is None:
-        default_sample = "drainage_sand" if kind == "constant_head" else "clay_liner"
+        default_sample = {"constant_head": "drainage_sand", "record": "flexible_wall_clay"}.get(
+            kind, "clay_liner"
+        )
     chooser = series_chooser(default_sample, folder)
     settings = options.pop("settings", None)
     specimen = options.pop("specimen", None)

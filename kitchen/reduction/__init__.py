@@ -16,6 +16,10 @@ Modules, in the data's order:
 - :mod:`.falling_head_record`: a specimen's readings prepared once; each window reduced to k.
 - :mod:`.falling_head_evidence`: one window's :class:`FallingHeadAnalysis` and its evidence.
 - :mod:`.falling_head`: the falling-head analysis of one specimen in one call.
+- :mod:`.flexible_wall`: a flexible-wall test: the specimen's dimensions after
+  consolidation, B = Δu/Δσ3, the effective stresses across it, their criteria.
+- :mod:`.test_record`: the flow through a specimen over its test: pore volumes of flow, k
+  and outflow/inflow against time.
 - :mod:`.results`: the results table, one row per specimen and method (SI, and exported).
 
 The public face, which other subpackages import from :mod:`kitchen.reduction` and never
@@ -27,7 +31,12 @@ from its modules: :func:`collection_table`, :func:`constant_head_conductivity`,
 :func:`reference_elapsed_time`, :func:`jurin_capillary_rise`,
 :func:`incremental_conductivity` and :func:`reading_window`; :class:`FallingHeadRecord`,
 :class:`FallingHeadAnalysis` and :func:`falling_head_analysis`; :func:`series_results`,
-:func:`results_table` and :func:`result_row`.
+:func:`results_table` and :func:`result_row`; the flexible-wall test:
+:func:`consolidated_dimensions` (:class:`PermeationDimensions`), :func:`permeation_state`,
+:func:`b_value`, :func:`effective_stresses` (:class:`EffectiveStresses`),
+:func:`saturation_verdict`, :func:`flexible_wall_verdicts` and :func:`condition_result`;
+the flow over a test, in pore volumes: :class:`FlowRecord`, :func:`falling_head_flow`,
+:func:`constant_head_flow`, :func:`spans_conductivity`.
 
 References
 ----------
@@ -67,6 +76,19 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "reference_elapsed_time": "falling_head_formulas",
         "rising_tailwater_conductivity": "falling_head_formulas",
         "FallingHeadRecord": "falling_head_record",
+        "EffectiveStresses": "flexible_wall",
+        "PermeationDimensions": "flexible_wall",
+        "b_value": "flexible_wall",
+        "condition_result": "flexible_wall",
+        "consolidated_dimensions": "flexible_wall",
+        "effective_stresses": "flexible_wall",
+        "flexible_wall_verdicts": "flexible_wall",
+        "permeation_state": "flexible_wall",
+        "saturation_verdict": "flexible_wall",
+        "FlowRecord": "test_record",
+        "constant_head_flow": "test_record",
+        "falling_head_flow": "test_record",
+        "spans_conductivity": "test_record",
         "result_row": "results",
         "results_table": "results",
         "series_results": "results",
@@ -85,6 +107,19 @@ __all__ = [
     "falling_head_conductivity",
     "FallingHeadAnalysis",
     "FallingHeadRecord",
+    "EffectiveStresses",
+    "PermeationDimensions",
+    "b_value",
+    "condition_result",
+    "consolidated_dimensions",
+    "effective_stresses",
+    "flexible_wall_verdicts",
+    "permeation_state",
+    "saturation_verdict",
+    "FlowRecord",
+    "constant_head_flow",
+    "falling_head_flow",
+    "spans_conductivity",
     "hydraulic_gradient",
     "incremental_conductivity",
     "jurin_capillary_rise",

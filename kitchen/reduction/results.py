@@ -13,12 +13,13 @@ import pandas as pd
 
 from kitchen.io import Series
 from kitchen.settings import Settings, reference_label
-from kitchen.specimen import specimen_state
+from kitchen.specimen import final_state, specimen_state
 from kitchen.water import viscosity_range_caution
 
 from .constant_head import constant_head_analysis
 from .constant_head_collections import collection_table
 from .falling_head import falling_head_analysis
+from .flexible_wall import condition_result, permeation_state
 
 __all__ = ["series_results", "results_table", "result_row"]
 
@@ -84,6 +85,7 @@ def series_results(
     settings: Settings | None = None,
     windows: dict | None = None,
     capillary_rises: dict | None = None,
+    stress_limits: tuple = (None, None),
 ) -> pd.DataFrame:
     """Reduce every test in a series.
 
@@ -99,6 +101,9 @@ def series_results(
         one gets the window the tool proposes.
     capillary_rises : dict, optional
         Measured capillary rises in the standpipe, ``{specimen: rise}``. [m]
+    stress_limits : tuple of (float or None, float or None), optional
+        The effective stress of a flexible-wall test the specification asks for, lowest and
+        highest. [Pa]
 
     Returns
     -------
@@ -122,17 +127,40 @@ def series_results(
     windows = windows or {}
     capillary_rises = capillary_rises or {}
     state = specimen_state(series.specimens)
+    permeation = permeation_state(state, series.flexible_wall)
     rows = []
     by_id = state.set_index("specimen", drop=False)
+    permeated = permeation.set_index("specimen", drop=False)
+    changes = final_state(series.specimens).set_index("specimen")["change"]
+
+    def conditions(row: dict) -> dict:
+        specimen = row["specimen"]
+        return condition_result(
+            row,
+            permeated.loc[specimen],
+            series.flexible_wall,
+            series.b_value_checks,
+            by_id.loc[specimen].get("flow_direction"),
+            stress_limits,
+            settings.criteria.minimum_b_value,
+            changes.get(specimen),
+        )
+
     if not series.constant_head.empty:
         collections = collection_table(
-            series.constant_head, state, settings.reference_temperature, settings.viscosity
+            series.constant_head, permeation, settings.reference_temperature, settings.viscosity
         )
         for specimen in pd.unique(collections["specimen"]):
-            analysis = constant_head_analysis(collections, by_id.loc[specimen], settings)
+            analysis = constant_head_analysis(collections, permeated.loc[specimen], settings)
             rows.append(
-                result_row(
-                    by_id.loc[specimen], "constant_head", analysis, analysis.gradient_max, settings
+                conditions(
+                    result_row(
+                        by_id.loc[specimen],
+                        "constant_head",
+                        analysis,
+                        analysis.gradient_max,
+                        settings,
+                    )
                 )
             )
     if not series.falling_head.empty:
@@ -140,7 +168,7 @@ def series_results(
             try:
                 analysis = falling_head_analysis(
                     readings,
-                    by_id.loc[specimen],
+                    permeated.loc[specimen],
                     settings,
                     window=windows.get(specimen),
                     capillary_rise=capillary_rises.get(specimen),
@@ -148,8 +176,14 @@ def series_results(
             except ValueError as error:
                 raise ValueError(f"{series.name}, falling-head readings: {error}") from error
             rows.append(
-                result_row(
-                    by_id.loc[specimen], "falling_head", analysis, analysis.gradient_start, settings
+                conditions(
+                    result_row(
+                        by_id.loc[specimen],
+                        "falling_head",
+                        analysis,
+                        analysis.gradient_start,
+                        settings,
+                    )
                 )
             )
     frame = pd.DataFrame(rows)
@@ -183,7 +217,10 @@ def results_table(results: pd.DataFrame, settings: Settings | None = None) -> pd
         ``dry_density [Mg/m3]``, ``void_ratio``, ``porosity``, ``saturation [%]``,
         ``gradient``, ``temperature [degC]``, ``k [m/s]``, ``k20 [m/s]``,
         ``k20_low [m/s]``, ``k20_high [m/s]`` (the 95 % interval), ``n_readings``,
-        ``valid``, ``checks`` (starting "every criterion met" when valid) and ``notes``.
+        ``valid``, ``checks`` (starting "every criterion met" when valid) and ``notes``;
+        where the series has flexible-wall tests, after ``gradient``: ``cell`` and the
+        effective stress across the specimen at the largest head, ``effective_stress [kPa]``
+        (mean), ``effective_stress_inflow [kPa]`` and ``effective_stress_outflow [kPa]``.
     """
     settings = settings or Settings()
     ref = reference_label(settings)
@@ -211,4 +248,15 @@ def results_table(results: pd.DataFrame, settings: Settings | None = None) -> pd
             "notes": results["notes"].map("; ".join),
         }
     )
+    if "effective_stress" in results.columns:  # the series has flexible-wall tests
+        at = table.columns.get_loc("gradient") + 1
+        for offset, (name, values) in enumerate(
+            (
+                ("cell", results["cell"]),
+                ("effective_stress [kPa]", results["effective_stress"] / 1e3),
+                ("effective_stress_inflow [kPa]", results["effective_stress_inflow"] / 1e3),
+                ("effective_stress_outflow [kPa]", results["effective_stress_outflow"] / 1e3),
+            )
+        ):
+            table.insert(at + offset, name, values.to_numpy())
     return table

@@ -85,6 +85,10 @@ class Criteria:
         fitted datum h∞ can lie within this much of the datum read (50 mm; the tool's own
         rule). A larger h∞ is an early transient or a drift in k bending ln h, not a datum
         error. [m]
+    minimum_b_value : float
+        A flexible-wall specimen is saturated when its B-value at the end of saturation is
+        at least this (ASTM D5084: 0.95, from memory; a stiff soil may instead show B
+        unchanged over two increments of back pressure). [-]
     """
 
     steady_count: int = 4
@@ -100,6 +104,7 @@ class Criteria:
     value_precision: float = 0.05
     window_minimum_fraction: float = 0.5
     datum_tolerance: float = 0.05
+    minimum_b_value: float = 0.95
 
     def __post_init__(self):
         if not isinstance(self.steady_count, (int, np.integer)) or self.steady_count < 2:
@@ -112,6 +117,7 @@ class Criteria:
             "trend_level": self.trend_level,
             "value_precision": self.value_precision,
             "window_minimum_fraction": self.window_minimum_fraction,
+            "minimum_b_value": self.minimum_b_value,
         }
         for name, value in fractions.items():
             if not 0.0 < value < 1.0:

@@ -30,6 +30,7 @@ from kitchen.io import (
     Series,
     SeriesError,
     build_series,
+    parse_value,
     project_settings_path,
     read_project_settings,
     read_tables,
@@ -39,8 +40,13 @@ from kitchen.reduction import (
     ConstantHeadAnalysis,
     FallingHeadAnalysis,
     FallingHeadRecord,
+    FlowRecord,
     collection_table,
+    condition_result,
     constant_head_analysis,
+    constant_head_flow,
+    falling_head_flow,
+    permeation_state,
     results_table,
 )
 from kitchen.reduction import result_row as results_row
@@ -62,7 +68,7 @@ from kitchen.revisions import (
     withdraw,
 )
 from kitchen.settings import Settings
-from kitchen.specimen import specimen_state
+from kitchen.specimen import final_state, specimen_state
 
 from .digests import frame_digest, parts_digest, specimen_positions, specimen_spans
 
@@ -186,7 +192,15 @@ class Workspace:
     def _index_specimens(self) -> None:
         """Each specimen's row of the state table (as series_results takes them) and its
         digest; the row of a specimen whose values did not change is kept as it was."""
-        self._state = state = specimen_state(self._series.specimens)
+        self._prepared = specimen_state(self._series.specimens)
+        # the reductions take each specimen as it stood during permeation (a flexible-wall
+        # specimen after consolidation); the results show it as prepared
+        self._state = state = permeation_state(self._prepared, self._series.flexible_wall)
+        self._changes = final_state(self._series.specimens).set_index("specimen")["change"]
+        self._prepared_rows = {
+            specimen: row
+            for specimen, row in self._prepared.set_index("specimen", drop=False).iterrows()
+        }
         columns = state.columns
         held_rows = getattr(self, "_state_rows", {})
         held_digests = getattr(self, "_specimen_digests", {})
@@ -307,7 +321,7 @@ class Workspace:
                 raise
             self._tables, self._series = tables, series
             self._log_sha256 = log_sha256(self.path)
-            if "specimens" in names:
+            if {"specimens", "flexible_wall"} & set(names):
                 self._index_specimens()
             self._index_readings([name for name in names if name in READING_TABLES])
         self._apply_choices(choices)
@@ -488,6 +502,32 @@ class Workspace:
 
         return self._cached(specimen, "constant_head", key, reduce)
 
+    def flow_record(self, specimen: str, table: str = "falling_head") -> FlowRecord:
+        """One test's flow over its course: cumulative inflow and outflow, pore volumes of
+        flow, k and outflow/inflow against time (:mod:`kitchen.reduction.test_record`)."""
+        if table == "falling_head":
+            return falling_head_flow(
+                self.falling_head(specimen),
+                self.falling_head_record(specimen),
+                self._state_rows[specimen],
+            )
+        collections = collection_table(
+            self.readings(specimen, "constant_head"),
+            self._state,
+            self._settings.reference_temperature,
+            self._settings.viscosity,
+        )
+        return constant_head_flow(collections, self._state_rows[specimen])
+
+    def prepared_state(self, specimen: str) -> pd.Series:
+        """A specimen's state as prepared (:func:`kitchen.specimen.specimen_state`)."""
+        return self._prepared_rows[specimen]
+
+    def permeation_state(self, specimen: str) -> pd.Series:
+        """A specimen's state with its dimensions during permeation, its ``cell`` and how
+        the dimensions were got (:func:`kitchen.reduction.permeation_state`)."""
+        return self._state_rows[specimen]
+
     def results(self) -> pd.DataFrame:
         """The results table of the effective series, as :func:`kitchen.reduction.series_results`.
 
@@ -514,11 +554,22 @@ class Workspace:
             gradient = analysis.gradient_max
         held = self._result_rows.get((specimen, table))
         if held is None or held[0] is not analysis or held[1] is not state_row:
-            row = results_row(state_row, table, analysis, gradient, self._settings)
+            prepared = self._prepared_rows[specimen]
+            row = results_row(prepared, table, analysis, gradient, self._settings)
             held = (analysis, state_row, row)
             self._result_rows[specimen, table] = held
+        row = condition_result(
+            held[2],
+            state_row,
+            self._series.flexible_wall,
+            self._series.b_value_checks,
+            self._prepared_rows[specimen].get("flow_direction"),
+            self.stress_limits,
+            self._settings.criteria.minimum_b_value,
+            self._changes.get(specimen),
+        )
         # lists copied: a caller may change its table without changing the one kept here
-        return {k: list(v) if isinstance(v, list) else v for k, v in held[2].items()}
+        return {k: list(v) if isinstance(v, list) else v for k, v in row.items()}
 
     # --- what the views show ---------------------------------------------------------------
     @property
@@ -609,6 +660,31 @@ class Workspace:
         """The series' project table as written (:func:`kitchen.io.read_project_settings`),
         read when the workspace was opened."""
         return dict(self._project)
+
+    @property
+    def stress_limits(self) -> tuple[float | None, float | None]:
+        """The effective stress of a flexible-wall test the series' project table asks for,
+        lowest and highest (``minimum_effective_stress``, ``maximum_effective_stress``;
+        None where not given). [Pa]
+
+        Raises
+        ------
+        SeriesError
+            When a value cannot be read as a pressure, naming its file, row and column.
+        """
+        limits = []
+        for name in ("minimum_effective_stress", "maximum_effective_stress"):
+            setting = self._project.get(name)
+            if setting is None:
+                limits.append(None)
+                continue
+            try:
+                limits.append(parse_value(setting.value, "pressure").si)
+            except ValueError as error:
+                raise SeriesError(
+                    [InputProblem(setting.file, setting.row, "value", f"{name}: {error}")]
+                ) from None
+        return limits[0], limits[1]
 
     @property
     def criterion(self) -> Criterion | None:

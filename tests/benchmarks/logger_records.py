@@ -142,6 +142,30 @@ def write_record_series(folder: Path, record: LoggerRecord, name: str = "standar
     return folder
 
 
+def write_transducer_series(
+    folder: Path, record: LoggerRecord, name: str = "standard-1", zone: str = "+01:00"
+) -> Path:
+    """The same record as a logger writes it: each reading's date and time (ISO 8601, the
+    zone in the header) and the head as a transducer's pressure in kPa, turned from head
+    with the water density at the reading's temperature, p = ρw(T)·gn·h (Tanaka et al.
+    2001, eq. 1, coefficients from memory; gn = 9.80665 m/s²), to 0.0001 kPa."""
+    folder.mkdir(parents=True, exist_ok=True)
+    _specimen_rows([name], [0.18], [1700.0], [record]).to_csv(folder / "specimens.csv", index=False)
+    t = record.temperature
+    density = 999.974950 * (1 - (t - 3.983035) ** 2 * (t + 301.797) / (522528.9 * (t + 69.34881)))
+    start = np.datetime64("2026-03-02T08:00:00", "s")
+    stamps = (start + np.round(record.time).astype("timedelta64[s]")).astype(str)
+    pd.DataFrame(
+        {
+            "specimen": name,
+            f"date_time [{zone}]": stamps,
+            "head_pressure [kPa]": np.round(density * 9.80665 * record.head / 1e3, 4),
+            "temperature [degC]": record.temperature,
+        }
+    ).to_csv(folder / "falling_head.csv", index=False)
+    return folder
+
+
 EFFORTS = {  # invented compaction curves: optimum water content [-], maximum dry density [kg/m3]
     "reduced": (0.205, 1640.0),
     "standard": (0.185, 1710.0),

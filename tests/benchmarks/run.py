@@ -12,6 +12,9 @@ seeded noise), in one process:
   prefix-sum fit and the workbook's whole window analysis;
 - loading a 10^6-row readings CSV, at most 1.5 times ``pandas.read_csv`` on the file, and
   at most 1.5 times it reading ``specimen`` as a category, like for like;
+- loading the same record as a logger writes it (ISO 8601 date-times, the head as a
+  pressure in kPa turned into head with the water density), at most 3 times
+  ``pandas.read_csv`` on that file;
 - the figure of a 10^6-reading record, at most 10^4 points a trace, under 100 ms;
 - revising one specimen's height in a series of 12 x 10^5 readings, as the revise panel
   does it — the revision recorded in the log, the results, the before/after table and the
@@ -270,6 +273,12 @@ def loading_case(folder: Path, category: bool = False):
     return (lambda: load_series(folder)), (lambda: pd.read_csv(readings, **options))
 
 
+def logger_loading_case(folder: Path):
+    """Our loader on a logger's file (date-times, pressures), and pandas.read_csv on it."""
+    readings = folder / "falling_head.csv"
+    return (lambda: load_series(folder)), (lambda: pd.read_csv(readings))
+
+
 def figure_case(record: FallingHeadRecord, window, max_points: int = MAX_TRACE_POINTS):
     """Build the falling-head figure of one analysed window; returns the figure builder."""
     analysis = record.analyse(window, "log_linear")
@@ -438,6 +447,22 @@ def run(readings: int, series_readings: int, specimens: int, repeats: int, work:
             "ratio",
             f"specimen ids agree: {same_ids}",
             same_ids,
+        )
+    )
+
+    logger = logger_records.write_transducer_series(work / "transducer", record)
+    ours, peer = logger_loading_case(logger)
+    t_ours, t_peer, logged, _ = in_turns(ours, peer, repeats)
+    difference = float(np.max(np.abs(logged.falling_head["head"].to_numpy() - record.head)))
+    outcomes.append(
+        Outcome(
+            "loading a logger's CSV (date-times, kPa) / pandas.read_csv",
+            t_ours,
+            t_peer,
+            3.0,
+            "ratio",
+            f"heads within {difference * 1e3:.3f} mm of the record's (the file keeps 0.0001 kPa)",
+            difference <= 2e-5,
         )
     )
 

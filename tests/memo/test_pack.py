@@ -88,6 +88,7 @@ def test_pack_files_and_progress(clay_pack):
     assert names == sorted(
         ["results.csv", "results.xlsx", "report.html", "report.docx", CHART_SCRIPT]
         + [f"charts/{c}.html" for c in charts]
+        + [f"specimens/{s}_falling_head.html" for s in series.specimen_ids()]
     )
     assert all(p.is_file() and p.stat().st_size > 0 for p in pack)
     assert [c[0] for c in calls] == list(range(1, len(pack) + 1))
@@ -366,7 +367,8 @@ def test_command_line_self_contained_pages_stand_alone(tmp_path):
     assert done.returncode == 0, done.stderr
     assert not (tmp_path / CHART_SCRIPT).exists() and "script" not in done.stderr
     pages = html_pages(tmp_path)
-    assert len(pages) == 7  # report and six charts: two series charts, four specimens
+    # report, six charts (two series charts, four specimens) and four test report pages
+    assert len(pages) == 11
     for page in pages:
         data = page.read_bytes()
         assert data.count(PLOTLY_JS) == 1, page  # plotly's own file, inlined whole, once

@@ -1,0 +1,29 @@
+"""The chart of one test over its course: k against time and pore volumes, outflow/inflow."""
+
+import numpy as np
+from series_files import SAMPLES
+
+from kitchen.charts import flow_record_figure
+from kitchen.workspace import Workspace
+
+
+def test_three_panels_with_the_record_in_the_unit_asked():
+    flow = Workspace(SAMPLES / "flexible_wall_clay").flow_record("FW-01")
+    figure = flow_record_figure(flow, "FW-01", "cm/s", "k20")
+    k_time, k_pore, ratio = figure.data
+    assert np.allclose(np.asarray(k_time.y), flow.k[flow.k > 0] * 100)  # m/s to cm/s
+    assert np.allclose(np.asarray(k_time.x), flow.k_time[flow.k > 0] / 3600)
+    assert np.allclose(np.asarray(k_pore.x), flow.k_pore_volumes[flow.k > 0])
+    assert np.allclose(np.asarray(ratio.y), flow.ratio)
+    assert figure.layout.yaxis.type == "log" and figure.layout.yaxis2.type == "log"
+    assert figure.layout.yaxis.title.text == "k20 [cm/s]"
+    band = figure.layout.shapes[0]
+    assert (band.y0, band.y1) == (0.75, 1.25)  # ASTM D5084 outflow/inflow limits (memory)
+
+
+def test_a_test_without_volumes_says_so():
+    workspace = Workspace(SAMPLES / "clay_liner")
+    flow = workspace.flow_record(workspace.specimen_ids()[0])
+    figure = flow_record_figure(flow, "no volumes")
+    assert len(figure.data) == 2
+    assert "outflow/inflow not measured" in figure.layout.annotations[-1].text
