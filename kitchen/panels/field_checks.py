@@ -1,6 +1,7 @@
 """The panel of the field-checks notebook: field tests of the built liner against the zone.
 
-Type the series (its acceptable zone is the memo's) and the field tests (the series' own
+Type the series (its acceptable zone is the memo's; in the notebook it is chosen in the
+series row above the panel, :func:`kitchen.panels.workbook_panel`) and the field tests (the series' own
 ``field_tests.csv``, another CSV file, or a workbook's sheet); choose the zone (drawn or
 fitted). The panel shows the summary, the counts per lift, the tests outside, every test
 with its verdict and distances, and the two charts (the tests over the zone; their distance
@@ -153,6 +154,7 @@ def field_checks_panel(
     field_tests: str | Path | None = None,
     export_folder: str | Path = "field_check",
     images: bool = False,
+    choose: bool = True,
 ) -> FieldChecksPanel:
     """Build the field-checks panel.
 
@@ -167,6 +169,10 @@ def field_checks_panel(
         Where the export button writes the check report.
     images : bool, default False
         Write PNG and SVG charts, and put them in the ``.docx`` (needs Chromium).
+    choose : bool, default True
+        Show the series box and **Open and check**; False where a series chooser above the
+        panel chooses the series (:func:`kitchen.panels.workbook_panel`): the field-tests
+        box and **Re-read field tests** stay.
 
     Returns
     -------
@@ -249,8 +255,8 @@ def field_checks_panel(
     for box in (trial_w, trial_rho):
         box.observe(on_trial, names="value")
     panel.widget.children = [
-        widgets.HBox([series_path, field_path]),
-        widgets.HBox([zone, open_button, reread]),
+        widgets.HBox([series_path, field_path] if choose else [field_path]),
+        widgets.HBox([zone, open_button, reread] if choose else [zone, reread]),
         panel.error.widget,
         panel.summary,
         widgets.HTML("<h4>Per lift</h4>"),

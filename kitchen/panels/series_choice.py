@@ -29,6 +29,7 @@ from pathlib import Path
 
 import ipywidgets as widgets
 
+from kitchen.field import FIELD_TESTS
 from kitchen.io import TABLE_NAMES, atomic_write_text
 from kitchen.workspace import Workspace
 
@@ -63,6 +64,12 @@ SAMPLES = {
     "transducer_log": "sample transducer log (pressure every minute, 1 specimen)",
 }
 """The samples under ``sample_data/`` the chooser offers: name and words."""
+
+COPIED_TABLES = (*TABLE_NAMES, FIELD_TESTS, "project")
+"""The tables a working copy carries, as ``<name>.csv``: the raw tables (the optional
+flexible-wall and B-value tables among them), the field tests and the project table. Logs
+left beside a sample (``windows.csv``, ``kept_tests.csv``, ``revisions.csv``) and the
+generators' answer files are never copied."""
 
 OWN = "own"
 """The chooser's entry for a series of one's own, typed in the path box."""
@@ -102,14 +109,18 @@ def working_copy(sample: str, folder: str | Path | None = None) -> Path:
     Returns
     -------
     pathlib.Path
-        The copy. An existing copy is returned as it is, with whatever was recorded beside
-        it (windows, kept tests, revisions); only a missing one is made. The copy holds the
-        raw tables and the project table, never a log left beside the sample.
+        The copy. An existing copy is returned with whatever was recorded beside it
+        (windows, kept tests, revisions); only a missing one is made, except that a field-
+        tests table the sample has and an older copy lacks is added (it is not part of the
+        series' tests, and a copy made before the field tests were carried needs it). The
+        copy holds :data:`COPIED_TABLES`, never a log left beside the sample.
     """
     if sample not in SAMPLES:
         raise ValueError(f"unknown sample {sample!r}; expected one of {', '.join(SAMPLES)}")
     target = Path(folder) if folder is not None else working_folder()
     copy = target / sample
+    if copy.is_dir():
+        _add_field_tests(sample, copy)
     if copy.exists():
         return copy
     source = sample_folder() / sample
@@ -121,12 +132,27 @@ def working_copy(sample: str, folder: str | Path | None = None) -> Path:
     if partial.exists():
         shutil.rmtree(partial)
     partial.mkdir()
-    for name in (*TABLE_NAMES, "project"):
+    for name in COPIED_TABLES:
         table = source / f"{name}.csv"
         if table.is_file():
             shutil.copy2(table, partial / table.name)
     partial.rename(copy)  # the copy appears whole or not at all
     return copy
+
+
+def _add_field_tests(sample: str, copy: Path) -> None:
+    """Copy the sample's field tests into an existing copy that has none (never over one)."""
+    name = f"{FIELD_TESTS}.csv"
+    if (copy / name).exists():
+        return
+    try:
+        source = sample_folder() / sample / name
+    except FileNotFoundError:
+        return
+    if source.is_file():
+        partial = copy / f".{name}.partial"
+        shutil.copy2(source, partial)
+        partial.rename(copy / name)  # whole or not at all
 
 
 def remembered_series(folder: str | Path | None = None) -> Path | None:
@@ -286,6 +312,7 @@ PANELS = {
     "series_chart": "series_chart_panel",
     "revise": "revise_panel",
     "record": "record_panel",
+    "field_checks": "field_checks_panel",
 }
 """The panels :func:`workbook_panel` builds: key and factory name in :mod:`kitchen.panels`."""
 
@@ -334,8 +361,10 @@ def workbook_panel(
 
     Parameters
     ----------
-    kind : {"open", "falling_head", "constant_head", "series_chart", "revise", "record"}
-        Which panel (:data:`PANELS`).
+    kind : str
+        Which panel, a key of :data:`PANELS`: ``"open"``, ``"falling_head"``,
+        ``"constant_head"``, ``"series_chart"``, ``"revise"``, ``"record"`` (the test
+        record) or ``"field_checks"``.
     default_sample : str, optional
         The sample to open before any series has been chosen; the drainage sand for
         ``"constant_head"``, the flexible-wall clay for ``"record"``, else the clay liner.
@@ -344,7 +373,9 @@ def workbook_panel(
     **options
         Passed to the panel's factory. ``specimen`` is a starting specimen, used when the
         series has it. The series chart's memo pack goes to ``memo_packs/<series>`` in the
-        working folder unless ``export_folder`` says otherwise.
+        working folder, and the field checks' report to ``field_checks/<series>``, unless
+        ``export_folder`` says otherwise. The field checks read the series' own field tests
+        (its ``field_tests.csv`` or sheet) unless ``field_tests`` names another file.
 
     Returns
     -------
@@ -370,8 +401,11 @@ def workbook_panel(
             return factory(path, settings, **options)
         workspace = Workspace(path, settings)
         extra = dict(options)
-        if kind == "series_chart" and "export_folder" not in extra:
-            extra["export_folder"] = chooser.folder / "memo_packs" / path.stem
+        exports = {"series_chart": "memo_packs", "field_checks": "field_checks"}
+        if kind in exports and "export_folder" not in extra:
+            extra["export_folder"] = chooser.folder / exports[kind] / path.stem
+        if kind == "field_checks":
+            extra["choose"] = False  # the chooser above names the series
         if specimen is not None and specimen in set(workspace.series.specimens["specimen"]):
             extra["specimen"] = specimen
         return factory(workspace, **extra)

@@ -14,7 +14,12 @@ from kitchen.panels import (
     working_copy,
     working_folder,
 )
+from kitchen.field import check_field_tests, read_field_tests
 from kitchen.panels.series_choice import WORKING_FOLDER_VARIABLE
+from kitchen.workspace import Workspace
+
+
+LOGS = ("windows.csv", "kept_tests.csv", "revisions.csv")
 
 
 def _digests(folder):
@@ -30,7 +35,9 @@ def notebooks(tmp_path, monkeypatch):
     """A notebooks folder with sample_data/ beside it (as in the repository), as the
     current folder, and no working folder named by the environment."""
     copy_sample(SAMPLES, tmp_path / "sample_data")
-    (tmp_path / "sample_data" / "clay_liner" / "windows.csv").write_text("left by a user\n")
+    for sample in ("clay_liner", "flexible_wall_clay", "transducer_log"):
+        for log in LOGS:  # the logs a user's work may leave beside a sample
+            (tmp_path / "sample_data" / sample / log).write_text("left by a user\n")
     folder = tmp_path / "notebooks"
     folder.mkdir()
     monkeypatch.chdir(folder)
@@ -45,6 +52,7 @@ def test_working_copy_holds_the_raw_tables_only_and_is_made_once(notebooks):
     assert copy == notebooks / "working" / "clay_liner" == working_folder() / "clay_liner"
     assert sorted(p.name for p in copy.iterdir()) == [
         "falling_head.csv",
+        "field_tests.csv",
         "project.csv",
         "specimens.csv",
     ]
@@ -143,3 +151,94 @@ def test_a_window_kept_on_the_sample_is_written_beside_the_working_copy(notebook
     panel.keep.click()
     assert (notebooks / "working" / "clay_liner" / "windows.csv").exists()
     assert _digests(samples) == before
+
+
+@pytest.mark.parametrize("sample", ["flexible_wall_clay", "transducer_log"])
+def test_a_flexible_wall_copy_carries_its_condition_tables_and_no_log(notebooks, sample):
+    samples = notebooks.parent / "sample_data"
+    before = _digests(samples)
+    copy = working_copy(sample)
+    assert sorted(p.name for p in copy.iterdir()) == [
+        "b_value_checks.csv",
+        "falling_head.csv",
+        "flexible_wall.csv",
+        "project.csv",
+        "specimens.csv",
+    ]
+    for path in copy.iterdir():
+        assert path.read_bytes() == (samples / sample / path.name).read_bytes()
+    assert _digests(samples) == before
+
+
+def test_an_older_copy_gains_the_field_tests_and_keeps_its_own(notebooks):
+    copy = working_copy("clay_liner")
+    (copy / "field_tests.csv").unlink()  # a copy made before the field tests were carried
+    (copy / "windows.csv").write_text("the engineer's own\n")
+    assert working_copy("clay_liner") == copy
+    samples = notebooks.parent / "sample_data" / "clay_liner"
+    assert (copy / "field_tests.csv").read_bytes() == (samples / "field_tests.csv").read_bytes()
+    assert (copy / "windows.csv").read_text() == "the engineer's own\n"
+    (copy / "field_tests.csv").write_text("the engineer's edits\n")
+    working_copy("clay_liner")
+    assert (copy / "field_tests.csv").read_text() == "the engineer's edits\n"  # never over one
+    assert not list(copy.glob(".*partial"))
+
+
+def test_the_test_record_and_field_checks_open_the_series_chosen(notebooks):
+    samples = notebooks.parent / "sample_data"
+    before = _digests(samples)
+    record = workbook_panel("record")
+    assert record.error.message == ""
+    assert record.series_path == notebooks / "working" / "flexible_wall_clay"
+    assert record.panel.shown and all(item.value for item in record.panel.shown)
+    checks = workbook_panel("field_checks")
+    assert checks.error.message == ""
+    copy = notebooks / "working" / "clay_liner"
+    assert checks.series_path == copy
+    assert checks.panel.field_tests_source() == copy  # the copy's own field_tests.csv
+    assert checks.panel.workspace.path == copy
+    shown = [c for row in checks.panel.widget.children[:2] for c in row.children]
+    assert checks.panel.series_path not in shown and checks.panel.open_button not in shown
+    assert checks.panel.field_tests_path in shown and checks.panel.reread in shown
+    # the choice made in one notebook carries to the other two
+    record.chooser.source.value = "transducer_log"
+    record.chooser.open.click()
+    assert record.error.message == ""
+    assert set(record.panel.workspace.series.specimens["specimen"]) == set(
+        Workspace(SAMPLES / "transducer_log").series.specimens["specimen"]
+    )
+    assert workbook_panel("record").series_path == (notebooks / "working" / "transducer_log").resolve()
+    checks.chooser.source.value = "clay_liner"
+    checks.chooser.open.click()
+    assert workbook_panel("record").series_path == copy.resolve()
+    assert _digests(samples) == before
+
+
+def test_the_field_check_agrees_with_the_package_and_exports_under_the_working_folder(
+    notebooks,
+):
+    samples = notebooks.parent / "sample_data"
+    before = _digests(samples)
+    panel = workbook_panel("field_checks").panel
+    copy = notebooks / "working" / "clay_liner"
+    # the judgement read straight from the generated sample, not through the panel
+    expected = check_field_tests(read_field_tests(samples / "clay_liner"), Workspace(copy).analysis())
+    assert list(panel.check.tests["verdict"]) == list(expected.tests["verdict"])
+    assert panel.export_folder.value == str(notebooks / "working" / "field_checks" / "clay_liner")
+    panel.export.click()
+    assert panel.error.message == ""
+    assert panel.exported
+    assert all(
+        (notebooks / "working" / "field_checks" / "clay_liner") in path.parents
+        for path in panel.exported
+    )
+    assert _digests(samples) == before
+
+
+def test_field_checks_on_a_series_without_field_tests_say_so(notebooks):
+    checks = workbook_panel("field_checks")
+    checks.chooser.source.value = "drainage_sand"
+    checks.chooser.open.click()
+    assert checks.panel is not None and checks.panel.check is None
+    assert "field_tests" in checks.panel.error.message
+    assert "drainage_sand" in checks.panel.error.message
