@@ -1,13 +1,13 @@
 """The panel of the field-checks notebook: field tests of the built liner against the zone.
 
 Type the series (its acceptable zone is the memo's; in the notebook it is chosen in the
-series row above the panel, :func:`kitchen.panels.workbook_panel`) and the field tests (the series' own
-``field_tests.csv``, another CSV file, or a workbook's sheet); choose the zone (drawn or
-fitted). The panel shows the summary, the counts per lift, the tests outside, every test
-with its verdict and distances, and the two charts (the tests over the zone; their distance
-from it by date). As tests are added to the field-tests file, **Re-read field tests**
-judges them again; **Try a state** places a typed water content and dry density against
-the zone without saving anything. **Export check report** writes the report
+series row above the panel, :func:`kitchen.panels.workbook_panel`) and the field tests (the
+series' own ``field_tests.csv``, another CSV file, or a workbook's sheet); choose the zone
+(drawn or fitted). The panel shows the summary, the counts per lift, the tests outside,
+every test with its verdict and distances, and the two charts (the tests over the zone;
+their distance from it by date). As tests are added to the field-tests file, **Re-read
+field tests** judges them again; **Try a state** places a typed water content and dry
+density against the zone without saving anything. **Export check report** writes the report
 (:func:`kitchen.memo.export_field_check`). The files are read, never written.
 """
 

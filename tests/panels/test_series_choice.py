@@ -6,6 +6,7 @@ import json
 import pytest
 from series_files import SAMPLES, copy_sample
 
+from kitchen.field import check_field_tests, read_field_tests
 from kitchen.panels import (
     forget_series,
     remember_series,
@@ -14,10 +15,8 @@ from kitchen.panels import (
     working_copy,
     working_folder,
 )
-from kitchen.field import check_field_tests, read_field_tests
 from kitchen.panels.series_choice import WORKING_FOLDER_VARIABLE
 from kitchen.workspace import Workspace
-
 
 LOGS = ("windows.csv", "kept_tests.csv", "revisions.csv")
 
@@ -207,7 +206,9 @@ def test_the_test_record_and_field_checks_open_the_series_chosen(notebooks):
     assert set(record.panel.workspace.series.specimens["specimen"]) == set(
         Workspace(SAMPLES / "transducer_log").series.specimens["specimen"]
     )
-    assert workbook_panel("record").series_path == (notebooks / "working" / "transducer_log").resolve()
+    assert (
+        workbook_panel("record").series_path == (notebooks / "working" / "transducer_log").resolve()
+    )
     checks.chooser.source.value = "clay_liner"
     checks.chooser.open.click()
     assert workbook_panel("record").series_path == copy.resolve()
@@ -222,7 +223,9 @@ def test_the_field_check_agrees_with_the_package_and_exports_under_the_working_f
     panel = workbook_panel("field_checks").panel
     copy = notebooks / "working" / "clay_liner"
     # the judgement read straight from the generated sample, not through the panel
-    expected = check_field_tests(read_field_tests(samples / "clay_liner"), Workspace(copy).analysis())
+    expected = check_field_tests(
+        read_field_tests(samples / "clay_liner"), Workspace(copy).analysis()
+    )
     assert list(panel.check.tests["verdict"]) == list(expected.tests["verdict"])
     assert panel.export_folder.value == str(notebooks / "working" / "field_checks" / "clay_liner")
     panel.export.click()
@@ -242,3 +245,26 @@ def test_field_checks_on_a_series_without_field_tests_say_so(notebooks):
     assert checks.panel is not None and checks.panel.check is None
     assert "field_tests" in checks.panel.error.message
     assert "drainage_sand" in checks.panel.error.message
+
+
+def test_every_notebook_opens_its_panel_through_the_series_row():
+    """No notebook has a path to edit: its panel cell is ``workbook_panel(kind)`` with a kind
+    the chooser knows, and no cell before the notebook's checks names a series path."""
+    import re
+    from pathlib import Path
+
+    from kitchen.panels.series_choice import PANELS
+
+    notebooks = sorted((Path(__file__).parents[2] / "notebooks").glob("0*.ipynb"))
+    assert [path.name[:2] for path in notebooks] == ["01", "02", "03", "04", "05", "06", "07"]
+    for path in notebooks:
+        cells = json.loads(path.read_text("utf-8"))["cells"]
+        sources = ["".join(cell["source"]) for cell in cells]
+        check = next(i for i, text in enumerate(sources) if text.startswith("## Check"))
+        code = [
+            text for cell, text in zip(cells[:check], sources[:check], strict=True)
+            if cell["cell_type"] == "code"
+        ]  # fmt: skip
+        kinds = re.findall(r'^workbook = workbook_panel\("(\w+)"', "\n".join(code), re.M)
+        assert len(kinds) == 1 and kinds[0] in PANELS, path.name
+        assert not any("sample_data" in text or "../" in text for text in code), path.name
