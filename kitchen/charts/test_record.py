@@ -120,8 +120,15 @@ def flow_record_figure(
             y=0.5,
             font={"color": MUTED},
         )
-    figure.update_yaxes(type="log", title_text=f"{reference} [{unit.unit}]", row=1, col=1)
-    figure.update_yaxes(type="log", title_text=f"{reference} [{unit.unit}]", row=2, col=1)
+    for row in (1, 2):  # powers of ten as the other k axes, not SI prefixes ("520p")
+        figure.update_yaxes(
+            type="log",
+            title_text=f"{reference} [{unit.unit}]",
+            exponentformat="power",
+            showexponent="all",
+            row=row,
+            col=1,
+        )
     figure.update_yaxes(title_text="outflow/inflow [-]", row=3, col=1)
     figure.update_xaxes(title_text="elapsed time [h]", row=1, col=1)
     figure.update_xaxes(title_text="pore volumes of flow [-]", row=2, col=1)

@@ -17,6 +17,8 @@ def test_three_panels_with_the_record_in_the_unit_asked():
     assert np.allclose(np.asarray(ratio.y), flow.ratio)
     assert figure.layout.yaxis.type == "log" and figure.layout.yaxis2.type == "log"
     assert figure.layout.yaxis.title.text == "k20 [cm/s]"
+    # ticks as powers of ten like every k axis of the tool, never SI prefixes ("520p")
+    assert figure.layout.yaxis.exponentformat == figure.layout.yaxis2.exponentformat == "power"
     band = figure.layout.shapes[0]
     assert (band.y0, band.y1) == (0.75, 1.25)  # ASTM D5084 outflow/inflow limits (memory)
 
