@@ -89,9 +89,9 @@ def build_parser() -> argparse.ArgumentParser:
         help="off (heads as read, default) or jurin (heads less the standpipe's capillary rise)",
     )
     report.add_argument(
-        "--datum-tolerance",
-        type=_datum_tolerance,
-        default=Settings.datum_tolerance,
+        "--datum-uncertainty",
+        type=_datum_uncertainty,
+        default=Settings.datum_uncertainty,
         metavar="LENGTH",
         help="how far the falling-head tailwater datum may be off, with its unit (default "
         "'20 mm'; '2 mm' for a surveyed datum): it widens the interval of k under the "
@@ -139,13 +139,13 @@ def _add_field_check_command(commands) -> None:
     _add_memo_options(check)
 
 
-def _datum_tolerance(text: str) -> float:
-    """A length typed with its unit, for --datum-tolerance, in metres."""
+def _datum_uncertainty(text: str) -> float:
+    """A length typed with its unit, for --datum-uncertainty, in metres."""
     from kitchen.io.units import UnitError, parse_value
 
     try:
         value = parse_value(text, "length").si
-        Settings(datum_tolerance=value)
+        Settings(datum_uncertainty=value)
     except (UnitError, ValueError) as error:
         raise argparse.ArgumentTypeError(str(error)) from None
     return value
@@ -322,7 +322,7 @@ def _report(arguments) -> int:
         uncertainty_method=arguments.uncertainty,
         falling_head_fit=arguments.falling_head_fit,
         capillary_rise=arguments.capillary_rise,
-        datum_tolerance=arguments.datum_tolerance,
+        datum_uncertainty=arguments.datum_uncertainty,
     )
     workspace = Workspace(
         arguments.series, settings, windows_on_record=not arguments.proposed_windows

@@ -59,7 +59,7 @@ class Settings:
         ``"off"`` (default: heads as read) or ``"jurin"`` (heads less the capillary rise
         in the standpipe by Jurin's law from its bore; a measured value per specimen is
         passed to :func:`~kitchen.reduction.series_results` instead).
-    datum_tolerance : float
+    datum_uncertainty : float
         How far the falling-head tailwater datum (the level every head is measured from)
         may be off, as the half-width of a rectangular distribution. Default 20 mm: the
         level of a tailwater reservoir read by eye across the cell against the standpipe's
@@ -78,7 +78,7 @@ class Settings:
     monte_carlo_seed: int = 0
     falling_head_fit: str = "log_linear"
     capillary_rise: str = "off"
-    datum_tolerance: float = 0.020
+    datum_uncertainty: float = 0.020
 
     def __post_init__(self):
         if self.viscosity not in VISCOSITY_METHODS:
@@ -105,14 +105,14 @@ class Settings:
                 f"monte_carlo_trials must be a whole number of at least 1000, got "
                 f"{self.monte_carlo_trials!r}"
             )
-        tolerance = self.datum_tolerance
+        tolerance = self.datum_uncertainty
         if (
             isinstance(tolerance, bool)
             or not isinstance(tolerance, (int, float))
             or not (0.0 <= tolerance < 1.0)
         ):
             raise ValueError(
-                f"datum tolerance must be a length from 0 to below 1 m, got {tolerance!r}"
+                f"datum uncertainty must be a length from 0 to below 1 m, got {tolerance!r}"
             )
         if not 0.0 < self.reference_temperature < 100.0:
             raise ValueError(

@@ -57,12 +57,12 @@ def test_report_options(tmp_path):
     assert "k10 [m/s]" in pd.read_csv(tmp_path / "results.csv").columns
 
 
-def test_datum_tolerance_is_typed_with_its_unit_and_reaches_the_interval(tmp_path):
+def test_datum_uncertainty_is_typed_with_its_unit_and_reaches_the_interval(tmp_path):
     # a datum known to ±2 mm instead of ±20 mm narrows every falling-head interval; k20
     # itself does not move (the datum's error enters the interval, not the estimate)
     wide = run_cli("report", SAMPLES / "clay_liner", "--out", tmp_path / "wide", "--no-images")
     narrow = run_cli("report", SAMPLES / "clay_liner", "--out", tmp_path / "narrow",
-                     "--no-images", "--datum-tolerance", "0.2 cm")  # fmt: skip
+                     "--no-images", "--datum-uncertainty", "0.2 cm")  # fmt: skip
     assert wide.returncode == 0 and narrow.returncode == 0, narrow.stderr
     wide, narrow = (pd.read_csv(tmp_path / name / "results.csv") for name in ("wide", "narrow"))
     falling = wide["method"] == "falling_head"
@@ -73,9 +73,9 @@ def test_datum_tolerance_is_typed_with_its_unit_and_reaches_the_interval(tmp_pat
     assert (narrower[falling] < width[falling]).all()
     assert (narrower[~falling] == width[~falling]).all()
     refused = run_cli("report", SAMPLES / "clay_liner", "--out", tmp_path / "bad",
-                      "--no-images", "--datum-tolerance", "2 g")  # fmt: skip
+                      "--no-images", "--datum-uncertainty", "2 g")  # fmt: skip
     assert refused.returncode == 2 and "Traceback" not in refused.stderr
-    assert "--datum-tolerance" in refused.stderr and not (tmp_path / "bad").exists()
+    assert "--datum-uncertainty" in refused.stderr and not (tmp_path / "bad").exists()
 
 
 def test_bad_series_lists_problems_without_traceback(tmp_path):

@@ -328,7 +328,7 @@ def window_interval(
     :func:`kitchen.uncertainty.conductivity_interval` takes them. [m/s]
 
     Unless the datum is fitted (`datum_fitted`, the datum-fitted decay), the tailwater datum
-    enters as a rectangular error δ of half-width ``settings.datum_tolerance`` common to
+    enters as a rectangular error δ of half-width ``settings.datum_uncertainty`` common to
     every head: the heads measured from the right datum are h − δ. For two readings k ∝
     ln((h1 − δ)/(h2 − δ)) exactly; for a fit, ln(h − δ) ≈ ln h − δ/h to first order, so
     the least-squares slope of ln h on t becomes b − δ·b′, b′ the slope of 1/h on t, and
@@ -346,7 +346,7 @@ def window_interval(
     resolutions = settings.resolutions
     readings: tuple[InputQuantity, ...] = ()
     factor = None
-    tolerance = 0.0 if datum_fitted else settings.datum_tolerance
+    tolerance = 0.0 if datum_fitted else settings.datum_uncertainty
     datum = (rectangular_quantity(DATUM, 0.0, 2.0 * tolerance),) if tolerance > 0 else ()
     if fitted is None:  # two readings: their resolutions enter directly
         h1, h2 = (float(h) for h in record.corrected_head[start : start + 2])

@@ -70,12 +70,12 @@ def _line(label, counts, seconds, kind):
     print(f"{label:<62} {n:5d} records  {body}  [{seconds:.0f} s]", flush=True)
 
 
-def _measure(label, kind, fit, records, datum_tolerance=None):
+def _measure(label, kind, fit, records, datum_uncertainty=None):
     started = time.perf_counter()
     counts = dict(records=0, valid=0, holds=0, valid_holds=0, said=0, said_datum=0, either=0)
     settings = Settings(falling_head_fit=fit)
-    if datum_tolerance is not None:
-        settings = settings.with_changes(datum_tolerance=datum_tolerance)
+    if datum_uncertainty is not None:
+        settings = settings.with_changes(datum_uncertainty=datum_uncertainty)
     for item in records:
         analysis = FallingHeadRecord(item.readings, item.specimen, settings).analyse()
         holds = population_records.holds(item, analysis)
@@ -121,11 +121,11 @@ def main(argv=None) -> int:
     # the interval's statistical part alone: without the datum's Type B allowance a steady
     # record's interval should hold the truth about 95 % of the time
     _measure(
-        "steady, 30-3000 readings, log-linear fit, datum tolerance 0",
+        "steady, 30-3000 readings, log-linear fit, datum uncertainty 0",
         "steady",
         "log_linear",
         population("steady", count, seed, readings=(30, 3000)),
-        datum_tolerance=0.0,
+        datum_uncertainty=0.0,
     )
     return 0
 

@@ -12,7 +12,7 @@ from kitchen.uncertainty import Resolutions
 def test_two_readings_interval_from_resolutions_by_hand():
     readings, specimen = known_k_record()
     resolutions = Resolutions(caliper=0.0, thermometer=0.0, head_scale=1e-3, timer=1.0)
-    settings = Settings(resolutions=resolutions, datum_tolerance=0.0)
+    settings = Settings(resolutions=resolutions, datum_uncertainty=0.0)
     analysis = falling_head_analysis(readings, specimen, settings, (0, 2))
     h1, h2 = readings["head"].iloc[:2]
     elapsed = readings["time"].iloc[1] - readings["time"].iloc[0]
@@ -24,7 +24,7 @@ def test_two_readings_interval_from_resolutions_by_hand():
     # the tailwater datum, ±20 mm rectangular (u = 20 mm/√3, GUM F.2.2.1 — from memory for the
     # clause), moves ln((h1 − δ)/(h2 − δ)) by δ·(1/h2 − 1/h1) to first order
     with_datum = falling_head_analysis(
-        readings, specimen, Settings(resolutions=resolutions, datum_tolerance=0.02), (0, 2)
+        readings, specimen, Settings(resolutions=resolutions, datum_uncertainty=0.02), (0, 2)
     )
     datum_term = 0.02 / np.sqrt(3) * (1 / h2 - 1 / h1) / fall
     assert with_datum.interval.relative_standard_uncertainty == pytest.approx(
@@ -37,8 +37,8 @@ def test_the_datum_widens_a_fitted_interval_by_the_slope_of_one_over_h():
     # 1/h on t (first-order Taylor expansion; least-squares slopes, numpy.polyfit)
     readings, specimen = known_k_record(noise=0.3e-3)
     window = (0, 40)
-    plain = falling_head_analysis(readings, specimen, Settings(datum_tolerance=0.0), window)
-    datum = falling_head_analysis(readings, specimen, Settings(datum_tolerance=0.01), window)
+    plain = falling_head_analysis(readings, specimen, Settings(datum_uncertainty=0.0), window)
+    datum = falling_head_analysis(readings, specimen, Settings(datum_uncertainty=0.01), window)
     t = readings["time"].to_numpy()[:40]
     h = readings["head"].to_numpy()[:40]
     sensitivity = np.polyfit(t, 1 / h, 1)[0] / np.polyfit(t, np.log(h), 1)[0]
@@ -48,10 +48,10 @@ def test_the_datum_widens_a_fitted_interval_by_the_slope_of_one_over_h():
     assert datum.interval.relative_standard_uncertainty == pytest.approx(expected, rel=1e-3)
     assert datum.k_reference == plain.k_reference  # the estimate itself does not move
     decay = falling_head_analysis(
-        readings, specimen, Settings(falling_head_fit="datum", datum_tolerance=0.05), window
+        readings, specimen, Settings(falling_head_fit="datum", datum_uncertainty=0.05), window
     )
     fitted = falling_head_analysis(
-        readings, specimen, Settings(falling_head_fit="datum", datum_tolerance=0.0), window
+        readings, specimen, Settings(falling_head_fit="datum", datum_uncertainty=0.0), window
     )
     assert decay.interval == fitted.interval  # a fitted datum carries its own uncertainty
 
@@ -61,7 +61,7 @@ def test_monte_carlo_setting_reaches_the_interval():
     # without the datum's rectangular term, which would dominate this small record and make
     # the Monte Carlo interval rightly narrower than k = 1.96 on a normal (JCGM 101:2008, from
     # memory), the two methods agree
-    plain = Settings(datum_tolerance=0.0)
+    plain = Settings(datum_uncertainty=0.0)
     first = falling_head_analysis(readings, specimen, plain, window=(0, 40))
     carlo = falling_head_analysis(
         readings, specimen, plain.with_changes(uncertainty_method="monte_carlo"), (0, 40)

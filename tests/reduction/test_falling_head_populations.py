@@ -65,13 +65,13 @@ def test_a_wrong_datum_is_not_hidden_by_the_proposed_window():
 def test_a_wrong_datum_in_a_short_record_stays_inside_the_interval():
     # 30 to 500 readings: the bend of a datum 20 mm off is mostly below what 0.5-2 mm of
     # reading error lets a record show (about half are caught). Before the datum entered the
-    # interval (Settings.datum_tolerance, ±20 mm by default), 48 % were caught or covered;
+    # interval (Settings.datum_uncertainty, ±20 mm by default), 48 % were caught or covered;
     # a datum the engineer declares known to ±2 mm gives back that narrower interval, and
     # then a 20 mm error is missed as often as not — the rate below must fail then.
     records = list(population("datum", 200, seed=15, readings=(30, 500)))
     good = sum(fault_handled(item, analysis, DATUM_WORDS) for item, analysis in _analyses(records))
     assert good >= RATE * len(records)
-    narrow = Settings(datum_tolerance=0.002)
+    narrow = Settings(datum_uncertainty=0.002)
     missed = sum(
         not fault_handled(item, analysis, DATUM_WORDS)
         for item, analysis in _analyses(records, narrow)
