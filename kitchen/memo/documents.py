@@ -19,9 +19,11 @@ from __future__ import annotations
 import io
 from dataclasses import dataclass
 
+import numpy as np
 import pandas as pd
 
 from kitchen import __version__
+from kitchen.display_units import column_format
 
 from .markup import number_text
 
@@ -75,12 +77,14 @@ class Image:
     caption: str
 
 
-def _cell(value) -> str:
+def _cell(value, number_format=None) -> str:
     if value is None:
         return ""
     if isinstance(value, bool):
         return "yes" if value else "no"
     if isinstance(value, float):
+        if number_format is not None and np.isfinite(value):
+            return number_format.text(value)
         return number_text(value, 4)
     if isinstance(value, pd.Timestamp):
         return f"{value:%Y-%m-%d %H:%M}"
@@ -90,9 +94,15 @@ def _cell(value) -> str:
 
 
 def frame_table(frame: pd.DataFrame, caption: str = "") -> Table:
-    """A table block of a DataFrame: its columns as titles, each cell as text (numbers to
-    four significant figures, empty where missing)."""
-    rows = tuple(tuple(_cell(v) for v in row) for row in frame.itertuples(index=False))
+    """A table block of a DataFrame: its columns as titles, each cell as text — a number in
+    the one format of its column's quantity (:func:`kitchen.display_units.column_format`,
+    as the report page and results.xlsx write it), else to four significant figures; a dash
+    where a number is missing, empty where text is."""
+    formats = [column_format(str(column)) for column in frame.columns]
+    rows = tuple(
+        tuple(_cell(v, f) for v, f in zip(row, formats, strict=True))
+        for row in frame.itertuples(index=False)
+    )
     return Table(tuple(str(c) for c in frame.columns), rows, caption)
 
 

@@ -8,6 +8,7 @@ import zlib
 from io import BytesIO
 
 import docx
+import pandas as pd
 import pytest
 from series_files import SAMPLES
 
@@ -106,3 +107,21 @@ def test_a_word_processor_renders_the_memo_document(memo_document, tmp_path):
     pdf = tmp_path / "report.pdf"
     assert done.returncode == 0, done.stderr
     assert pdf.read_bytes().startswith(b"%PDF") and pdf.stat().st_size > 10_000
+
+
+def test_document_tables_write_each_number_in_its_columns_one_format():
+    # the same format as the report page and results.xlsx (kitchen.display_units): k to
+    # three significant figures, a density to 0.001 Mg/m3 (common practice, no source)
+    from kitchen.memo.documents import frame_table
+
+    frame = pd.DataFrame(
+        {
+            "specimen": ["QF-01", "QF-02"],
+            "k20 [m/s]": [1.2837e-9, float("nan")],
+            "dry_density [Mg/m3]": [1.70493, 1.6],
+            "count": [3.0, 4.5],
+        }
+    )
+    table = frame_table(frame)
+    assert table.rows[0] == ("QF-01", "1.28×10⁻⁹", "1.705", "3")
+    assert table.rows[1] == ("QF-02", "–", "1.600", "4.5")  # a number missing: a dash
