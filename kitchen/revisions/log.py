@@ -9,9 +9,6 @@ zone; the helpers that check and make it are shared with the window and kept-tes
 
 from __future__ import annotations
 
-import csv
-import io
-import re
 from dataclasses import dataclass
 from dataclasses import field as dataclass_field
 from datetime import datetime
@@ -19,7 +16,7 @@ from pathlib import Path
 
 from kitchen.io import SCHEMAS, TABLE_NAMES, printable
 
-from ._logbook import LogError, checked_when, file_sha256, log_path, whole_rows
+from ._logbook import LogError, checked_when, file_sha256, log_path, parse_log
 
 __all__ = [
     "LOG_COLUMNS",
@@ -38,7 +35,6 @@ LOG_COLUMNS = (
 """Columns of the revision log, in order."""
 
 REVISE, WITHDRAW = "revise", "withdraw"
-_ID = re.compile(r"^[0-9a-f]{8}$")
 
 
 class RevisionError(LogError):
@@ -109,88 +105,52 @@ def revisions_path(series_path: str | Path) -> Path:
 
 
 def _parse_log(data: bytes, label: str) -> tuple[Revision, ...]:
-    data = whole_rows(data, label)
-    try:
-        text = data.decode("utf-8-sig")
-    except UnicodeDecodeError:
-        raise RevisionError(f"{label}: is not UTF-8 text") from None
-    try:
-        records = list(csv.reader(io.StringIO(text, newline="")))
-    except csv.Error as error:
-        raise RevisionError(f"{label}: cannot be read as CSV ({error})") from None
-    if not records or [c.strip() for c in records[0]] != list(LOG_COLUMNS):
-        found = ", ".join(records[0]) if records else "nothing"
-        raise RevisionError(
-            f"{label}, row 1: expected the columns {', '.join(LOG_COLUMNS)}; found {found}"
-        )
-    problems: list[str] = []
-    revisions: list[Revision] = []
+    """The revisions of a log's bytes, read by the logs' one reader
+    (:func:`kitchen.revisions._logbook.parse_log`: header, field counts, ids and times), each
+    row then checked against the rows before it (a withdrawal names an earlier revision)."""
     by_id: dict[str, Revision] = {}
     withdrawn_by: dict[str, str] = {}
-    for number, record in enumerate(records[1:], start=2):
-        if not any(cell.strip() for cell in record):
-            continue
-        if len(record) != len(LOG_COLUMNS):
-            problems.append(
-                f"{label}, row {number}: expected {len(LOG_COLUMNS)} fields, found "
-                f"{len(record)} (a write cut short, or an edit by hand?)"
-            )
-            continue
-        row = dict(zip(LOG_COLUMNS, (cell.strip() for cell in record), strict=True))
-        found = _check_row(row, label, number, by_id, withdrawn_by)
-        if isinstance(found, str):
-            problems.append(found)
-            continue
-        revisions.append(found)
-        by_id[found.id] = found
-        if found.action == WITHDRAW:
-            withdrawn_by[found.withdraws] = found.id
-    if problems:
-        raise RevisionError(problems)
-    return tuple(revisions)
+
+    def check(row: dict, number: int):
+        found = _check_row(row, number, by_id, withdrawn_by)
+        if isinstance(found, Revision):
+            by_id[found.id] = found
+            if found.action == WITHDRAW:
+                withdrawn_by[found.withdraws] = found.id
+        return found
+
+    return parse_log(data, label, LOG_COLUMNS, RevisionError, check)
 
 
-def _check_row(row: dict, label: str, number: int, by_id: dict, withdrawn_by: dict):
-    def problem(column: str, message: str) -> str:
-        return f"{label}, row {number}, column '{column}': {message}"
-
-    if not _ID.match(row["id"]):
-        return problem("id", f"expected 8 hexadecimal digits, found {row['id']!r}")
-    if row["id"] in by_id:
-        first = by_id[row["id"]].log_row
-        return problem("id", f"id {row['id']} is used twice (first at row {first})")
-    try:
-        checked_when(row["when"])
-    except ValueError as error:
-        return problem("when", str(error))
+def _check_row(row: dict, number: int, by_id: dict, withdrawn_by: dict):
+    """The row's :class:`Revision`, or ``(column, problem)`` (its id and time are checked)."""
     if not row["reason"]:
-        return problem("reason", "every revision needs a reason")
+        return "reason", "every revision needs a reason"
     reading = None
     if row["action"] == REVISE:
         if row["table"] not in TABLE_NAMES:
-            return problem("table", f"expected one of {', '.join(TABLE_NAMES)}")
+            return "table", f"expected one of {', '.join(TABLE_NAMES)}"
         if row["field"] not in SCHEMAS[row["table"]] or row["field"] == "specimen":
-            return problem("field", f"{row['field']!r} is not a value of {row['table']}")
+            return "field", f"{row['field']!r} is not a value of {row['table']}"
         if not row["specimen"] or not row["applied_value"]:
-            return problem("specimen" if not row["specimen"] else "applied_value", "empty")
+            return ("specimen" if not row["specimen"] else "applied_value"), "empty"
         if row["table"] != "specimens":
             if not row["reading_row"].isdigit() or int(row["reading_row"]) < 2:
-                return problem("reading_row", "expected the reading's row number (2 or more)")
+                return "reading_row", "expected the reading's row number (2 or more)"
             reading = int(row["reading_row"])
         if row["withdraws"]:
-            return problem("withdraws", "a revision row withdraws nothing; leave it empty")
+            return "withdraws", "a revision row withdraws nothing; leave it empty"
     elif row["action"] == WITHDRAW:
         target = by_id.get(row["withdraws"])
         if target is None:
-            return problem("withdraws", f"no earlier revision {row['withdraws']!r} to withdraw")
+            return "withdraws", f"no earlier revision {row['withdraws']!r} to withdraw"
         if target.action == WITHDRAW:
-            return problem("withdraws", f"{target.id} is itself a withdrawal")
+            return "withdraws", f"{target.id} is itself a withdrawal"
         if target.id in withdrawn_by:
-            by = withdrawn_by[target.id]
-            return problem("withdraws", f"{target.id} was already withdrawn by {by}")
+            return "withdraws", f"{target.id} was already withdrawn by {withdrawn_by[target.id]}"
         reading = target.reading_row
     else:
-        return problem("action", f"expected {REVISE} or {WITHDRAW}, found {row['action']!r}")
+        return "action", f"expected {REVISE} or {WITHDRAW}, found {row['action']!r}"
     values = {name: row[name] for name in LOG_COLUMNS if name != "reading_row"}
     return Revision(**values, reading_row=reading, log_row=number)
 
