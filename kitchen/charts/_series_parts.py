@@ -27,6 +27,7 @@ from .style import (
     INK,
     MUTED,
     NO_EFFORT,
+    SATURATION_DASHES,
     VERDICT_COLOURS,
     VERDICT_FACE,
     VERDICT_FILL,
@@ -210,6 +211,39 @@ def criterion_spec(analysis, x_range, unit: DisplayUnit, show_legend=True) -> di
         line=dict(color=INK, width=1.8, dash=CRITERION_DASH),
         hoverinfo="name",
     )
+
+
+def saturation_specs(analysis: SeriesAnalysis, w, unit: DisplayUnit, **extra) -> list[dict]:
+    """The saturation lines of the series' Gs (zero-air-voids first, then
+    :data:`kitchen.analysis.SATURATION_LINES`) over the water contents `w` (fractions), as
+    plain scatter specs in the density unit, each with its own line code
+    (:data:`~kitchen.charts.style.SATURATION_DASHES`); `extra` is added to every spec. The
+    line itself is :meth:`kitchen.analysis.SeriesAnalysis.saturation_line`. [-]"""
+    from kitchen.analysis import SATURATION_LINES
+
+    specs = []
+    for saturation in SATURATION_LINES:
+        rho = np.asarray(analysis.saturation_line(w, saturation)) * unit.factor
+        name = "zero-air-voids (S = 100 %)" if saturation == 1 else f"S = {100 * saturation:.0f} %"
+        specs.append(
+            dict(
+                type="scatter",
+                x=np.asarray(w) * 100.0,
+                y=rho,
+                mode="lines",
+                name=f"{name}, Gs = {analysis.specific_gravity:g}",
+                legendgroup="saturation",
+                legendgrouptitle=dict(text="saturation lines"),
+                line=dict(
+                    color=MUTED,
+                    width=1.5 if saturation == 1 else 1.1,
+                    dash=SATURATION_DASHES.get(saturation, "1px,5px"),
+                ),
+                hoverinfo="name",
+                **extra,
+            )
+        )
+    return specs
 
 
 def padded_range(values, fraction=0.06):

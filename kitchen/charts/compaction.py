@@ -32,6 +32,7 @@ from ._series_parts import (
     k_axis_title,
     note_spec,
     padded_range,
+    saturation_specs,
     specimen_trace_specs,
 )
 from .style import (
@@ -40,7 +41,6 @@ from .style import (
     INK,
     MUTED,
     OPTIMUM_DASH,
-    SATURATION_DASHES,
     ZONE,
     cached_memo_template,
 )
@@ -314,29 +314,11 @@ def compaction_conductivity_spec(
     if analysis.specific_gravity is not None:
         w = np.linspace(x_range[0], x_range[1], 80) / 100.0
         w = w[w >= 0]
-        for saturation in SATURATION_LINES:
-            rho = np.asarray(analysis.saturation_line(w, saturation)) * du.factor
-            name = (
-                "zero-air-voids (S = 100 %)" if saturation == 1 else f"S = {100 * saturation:.0f} %"
-            )
-            data.append(
-                dict(
-                    type="scatter",
-                    x=w * 100.0,
-                    y=rho,
-                    mode="lines",
-                    name=f"{name}, Gs = {analysis.specific_gravity:g}",
-                    legendgroup="saturation",
-                    legendgrouptitle=dict(text="saturation lines"),
-                    line=dict(
-                        color=MUTED,
-                        width=1.5 if saturation == 1 else 1.1,
-                        dash=SATURATION_DASHES.get(saturation, "1px,5px"),
-                    ),
-                    hoverinfo="name",
-                    **top,
-                )
-            )
+        for saturation, spec in zip(
+            SATURATION_LINES, saturation_specs(analysis, w, du, **top), strict=True
+        ):
+            rho = spec["y"]
+            data.append(spec)
             inside = np.flatnonzero((rho >= y_low) & (rho <= y_high))
             if inside.size:
                 last = inside[-1]

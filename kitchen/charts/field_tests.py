@@ -18,11 +18,12 @@ from plotly.subplots import make_subplots
 
 from kitchen.display_units import density_unit
 
+from ._series_parts import saturation_specs
 from .style import (
     EFFORT_SYMBOLS,
     INK,
     MUTED,
-    SATURATION_DASHES,
+    OPTIMUM_DASH,
     ZONE,
     cached_memo_template,
 )
@@ -32,8 +33,6 @@ __all__ = ["field_plane_figure", "field_distance_figure", "FIELD_FILLS"]
 FIELD_FILLS = {"inside": INK, "outside": "white", "replaced": "#d5dae0"}
 """Marker fill of a field test by its verdict: filled inside, open outside, pale where a
 retest replaced it."""
-
-_SATURATION_NAMES = {1.0: "zero-air-voids (S = 100 %)"}
 
 
 def _lift_symbols(check) -> dict:
@@ -169,21 +168,7 @@ def field_plane_figure(check, analysis, density_unit_name: str = "Mg/m³") -> go
     rho_pad = 0.10 * max(rho_high - rho_low, 20.0)
     y_range = [(rho_low - rho_pad) * du.factor, (rho_high + rho_pad) * du.factor]
     if analysis.specific_gravity is not None:
-        for saturation, dash in SATURATION_DASHES.items():
-            rho = np.asarray(analysis.saturation_line(w_line, saturation))
-            name = _SATURATION_NAMES.get(saturation, f"S = {100 * saturation:.0f} %")
-            data.append(
-                dict(
-                    type="scatter",
-                    x=w_line * 100.0,
-                    y=rho * du.factor,
-                    mode="lines",
-                    line=dict(color=MUTED, width=1.2, dash=dash),
-                    name=f"{name}, Gs = {analysis.specific_gravity:g}",
-                    legendgroup="saturation",
-                    hoverinfo="name",
-                )
-            )
+        data += saturation_specs(analysis, w_line, du)
     line = analysis.line_of_optimums
     if line is not None and line.slope is not None:
         data.append(
@@ -192,7 +177,7 @@ def field_plane_figure(check, analysis, density_unit_name: str = "Mg/m³") -> go
                 x=w_line * 100.0,
                 y=np.asarray(line.dry_density(w_line)) * du.factor,
                 mode="lines",
-                line=dict(color=INK, width=1.3, dash="dashdot"),
+                line=dict(color=INK, width=1.3, dash=OPTIMUM_DASH),
                 name="line of optimums",
                 hoverinfo="name",
             )
