@@ -194,7 +194,12 @@ def increments_spec(
             y=values[keep] * unit.factor,
             mode="markers",
             name="k between successive readings",
-            marker=dict(symbol="circle-open", size=6, color=charts.MUTED),
+            # plotly.js draws, of a trace with maxdisplayed, only the points inside the axes
+            # (every one while they number no more than this): the values beyond the axis
+            # are drawn on its edges below, and not twice
+            marker=dict(
+                symbol="circle-open", size=6, color=charts.MUTED, maxdisplayed=max(keep.size, 1)
+            ),
             hovertemplate=f"<b>{html.escape(str(analysis.specimen))}</b><br>t = "
             + "%{x:.4g} "
             + scale_name
