@@ -208,15 +208,39 @@ class FallingHeadPanel:
             self._readings[specimen] = readings.reset_index(drop=True)
         return self._readings[specimen]
 
-    def _decimation(self, key: str, source, values) -> charts.WindowDecimation:
-        """The decimation of `values`, built once and kept while they come from the same
-        `source` object (the specimen's readings, a record's incremental k): a slider move
-        then decimates in time proportional to :data:`SCREEN_POINTS`, not to the record."""
-        kept = self._decimations.get(key)
-        if kept is None or kept[0] is not source:
-            kept = (source, charts.WindowDecimation(values, SCREEN_POINTS))
-            self._decimations[key] = kept
+    def _head_decimation(self, readings: pd.DataFrame) -> charts.WindowDecimation:
+        """The decimation of the specimen's heads, built once and kept while its readings
+        are the same table: a slider move then decimates in time proportional to
+        :data:`SCREEN_POINTS`, not to the record."""
+        kept = self._decimations.get("head")
+        if kept is None or kept[0] is not readings:
+            kept = (readings, charts.WindowDecimation(readings["head"].to_numpy(), SCREEN_POINTS))
+            self._decimations["head"] = kept
         return kept[1]
+
+    def _increments(self, analysis: FallingHeadAnalysis):
+        """The analysis's incremental k with their times and decimation, kept while they
+        stay the same: they depend on the record's corrected heads and reference times and
+        on the fitted datum h∞, not on the window (the analysis forms them anew each time
+        they are read, two passes over the record)."""
+        arrays = (analysis.corrected_head, analysis.reference_time)
+        terms = (analysis.scale, analysis.asymptote if analysis.decay is not None else None)
+        kept = self._decimations.get("increments")
+        if (
+            kept is None
+            or kept[0][0] is not arrays[0]
+            or kept[0][1] is not arrays[1]
+            or kept[1] != terms
+        ):
+            values = analysis.increment_k
+            kept = (
+                arrays,
+                terms,
+                (analysis.increment_time, values),
+                charts.WindowDecimation(values, SCREEN_POINTS),
+            )
+            self._decimations["increments"] = kept
+        return kept[2], kept[3]
 
     def record(self, specimen: str | None = None) -> FallingHeadRecord:
         """The prepared record of a specimen: the workspace's own."""
@@ -299,14 +323,13 @@ class FallingHeadPanel:
         analysis = self.analysis
         readings = self.readings()
         label = reference_label(self.settings)
-        head = readings["head"].to_numpy()
         figure = charts.falling_head_spec(
             readings,
             analysis,
             "m/s",
             self.settings.reference_temperature,
             SCREEN_POINTS,
-            decimation=self._decimation("head", readings, head),
+            decimation=self._head_decimation(readings),
             line_points=LINE_POINTS,
         )
         refresh_figure(self.figure, figure)
@@ -320,11 +343,13 @@ class FallingHeadPanel:
             f"{format_elapsed(analysis.time[last])}</span>, {analysis.n} readings, {how}; "
             f"{label} = {format_conductivity(analysis.k_reference)}"
         )
+        increments, decimation = self._increments(analysis)
         increments = increments_spec(
             analysis,
             self.settings,
             max_points=SCREEN_POINTS,
-            decimation=self._decimation("increments", analysis.increment_k, analysis.increment_k),
+            decimation=decimation,
+            increments=increments,
         )
         refresh_figure(self.increments, increments)
         self.test_view.value = describe_test_html(self.record(), analysis)

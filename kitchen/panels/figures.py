@@ -137,6 +137,7 @@ def increments_spec(
     k_unit_name: str = "m/s",
     max_points: int | None = None,
     decimation: charts.WindowDecimation | None = None,
+    increments: tuple[np.ndarray, np.ndarray] | None = None,
 ) -> dict:
     """The figure of :func:`increments_figure` as a spec: plain dicts, not validated.
 
@@ -145,11 +146,13 @@ def increments_spec(
     analysis, settings, k_unit_name, max_points
         As for :func:`increments_figure`.
     decimation : kitchen.charts.WindowDecimation, optional
-        The decimation of ``analysis.increment_k`` with `max_points`, kept by a caller that
-        draws many windows of one record (the k between readings does not depend on the
-        window of a fit of ln h); built here by default. The values drawn on the edges of
-        the axis are the decimated ones beyond it, one or two a bucket
-        (:func:`off_scale_traces`).
+        The decimation of the incremental k with `max_points`, kept by a caller that draws
+        many windows of one record (the k between readings of a fit of ln h does not depend
+        on the window); built here by default. The values drawn on the edges of the axis
+        are the decimated ones beyond it, one or two a bucket (:func:`off_scale_traces`).
+    increments : tuple of numpy.ndarray, optional
+        ``(analysis.increment_time, analysis.increment_k)`` as the caller read them (the
+        analysis forms them anew on each reading); read here by default.
 
     Returns
     -------
@@ -176,8 +179,9 @@ def increments_spec(
             line=dict(width=0), layer="below",
         ),
     ]  # fmt: skip
-    time = np.asarray(analysis.increment_time, dtype=float)
-    values = np.asarray(analysis.increment_k, dtype=float)
+    if increments is None:
+        increments = (analysis.increment_time, analysis.increment_k)
+    time, values = (np.asarray(array, dtype=float) for array in increments)
     longest = charts.MAX_TRACE_POINTS if max_points is None else max_points
     if decimation is None:
         decimation = charts.WindowDecimation(values, longest)
