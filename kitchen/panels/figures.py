@@ -19,7 +19,13 @@ from kitchen.display_units import k_unit
 from kitchen.reduction import FallingHeadAnalysis
 from kitchen.settings import Settings, reference_label
 
-__all__ = ["format_elapsed", "increments_figure", "increments_spec", "off_scale_traces"]
+__all__ = [
+    "EDGE_MARKER",
+    "format_elapsed",
+    "increments_figure",
+    "increments_spec",
+    "off_scale_traces",
+]
 
 
 def format_elapsed(seconds: float) -> str:
@@ -42,7 +48,22 @@ def _time_scale(analysis: FallingHeadAnalysis) -> tuple[str, float]:
     return "s", 1.0
 
 
-def off_scale_traces(x, y, bottom: float, top: float, keep=None) -> list[dict]:
+EDGE_MARKER = 8
+"""Size of the triangles drawn on an axis's edge for the values beyond it. [px]"""
+
+
+def _one_a_column(x: np.ndarray, y: np.ndarray, reach, columns: int, top: bool) -> np.ndarray:
+    """Positions of the most extreme value (the largest when `top`) in each of `columns`
+    equal columns of `reach` (the span of x drawn), in order of x."""
+    low, high = reach
+    scale = columns / (high - low) if high > low else 0.0
+    column = np.minimum(((x - low) * scale).astype(np.int64), columns - 1)
+    order = np.lexsort((-y if top else y, column))  # by column, the extreme first
+    column = column[order]
+    return np.sort(order[np.r_[True, column[1:] != column[:-1]]])
+
+
+def off_scale_traces(x, y, bottom: float, top: float, keep=None, columns=None) -> list[dict]:
     """Markers at the edge of the axis for the values beyond it, counted in their names.
 
     A value above `top` is drawn as an upward triangle on the top edge, one below `bottom`
@@ -59,8 +80,14 @@ def off_scale_traces(x, y, bottom: float, top: float, keep=None) -> list[dict]:
         Positions of the values drawn when the record is decimated (min/max decimation,
         :class:`kitchen.charts.WindowDecimation`): the markers are those of them beyond the
         axis. A bucket holding any value beyond an edge keeps its most extreme one, so
-        every bucket with a value off the scale has its marker there; the names still
-        count every value. Every value by default.
+        every bucket with a value off the scale has its marker there. Every value by
+        default.
+    columns : int, optional
+        Where more markers than this would lie on one edge, the span of the x drawn is cut into
+        `columns` equal columns and each column with a value beyond the edge gets one
+        marker, its most extreme value: with columns half as wide as a marker
+        (:data:`EDGE_MARKER`), the edge looks as it would with every marker. The names
+        still count every value.
 
     Returns
     -------
@@ -72,7 +99,7 @@ def off_scale_traces(x, y, bottom: float, top: float, keep=None) -> list[dict]:
     finite = np.isfinite(y)
     drawn = np.arange(y.size) if keep is None else np.asarray(keep, dtype=np.int64)
     drawn_x, drawn_y = x[drawn], y[drawn]
-    drawn_finite = np.isfinite(drawn_y)
+    drawn_finite = np.isfinite(drawn_y) & np.isfinite(drawn_x)
     traces = []
     for beyond, shown, edge, symbol, side in (
         (y > top, drawn_y > top, top, "triangle-up", "above"),
@@ -81,17 +108,22 @@ def off_scale_traces(x, y, bottom: float, top: float, keep=None) -> list[dict]:
         count = int(np.count_nonzero(beyond & finite))
         if not count:
             continue
-        shown &= drawn_finite
+        chosen = np.flatnonzero(shown & drawn_finite)
+        if columns is not None and chosen.size > columns:
+            reach = (float(drawn_x[drawn_finite].min()), float(drawn_x[drawn_finite].max()))
+            chosen = chosen[
+                _one_a_column(drawn_x[chosen], drawn_y[chosen], reach, columns, side == "above")
+            ]
         traces.append(
             dict(
                 type="scatter",
-                x=drawn_x[shown],
-                y=np.full(int(np.count_nonzero(shown)), edge),
-                customdata=drawn_y[shown],
+                x=drawn_x[chosen],
+                y=np.full(chosen.size, edge),
+                customdata=drawn_y[chosen],
                 mode="markers",
                 name=f"{count} value{'s' if count > 1 else ''} {side} the axis, "
                 f"drawn on its {'top' if side == 'above' else 'bottom'} edge",
-                marker=dict(symbol=symbol, size=8, color=charts.MUTED),
+                marker=dict(symbol=symbol, size=EDGE_MARKER, color=charts.MUTED),
                 cliponaxis=False,
                 hovertemplate="t = %{x:.4g}<br>k = %{customdata:.3g} (off the scale)"
                 "<extra></extra>",
@@ -149,7 +181,8 @@ def increments_spec(
         The decimation of the incremental k with `max_points`, kept by a caller that draws
         many windows of one record (the k between readings of a fit of ln h does not depend
         on the window); built here by default. The values drawn on the edges of the axis
-        are the decimated ones beyond it, one or two a bucket (:func:`off_scale_traces`).
+        are the decimated ones beyond it, one a half marker's width of the plot
+        (:func:`off_scale_traces`).
     increments : tuple of numpy.ndarray, optional
         ``(analysis.increment_time, analysis.increment_k)`` as the caller read them (the
         analysis forms them anew on each reading); read here by default.
@@ -248,7 +281,10 @@ def increments_spec(
         bottom, top = (low - pad) * unit.factor, (high + pad) * unit.factor
         y_axis["range"] = [bottom, top]
         every = decimation.indices()
-        data.extend(off_scale_traces(time / divisor, values * unit.factor, bottom, top, every))
+        columns = 2 * charts.PLOT_WIDTH // EDGE_MARKER  # one marker a half marker's width
+        data.extend(
+            off_scale_traces(time / divisor, values * unit.factor, bottom, top, every, columns)
+        )
     layout = dict(
         template=charts.cached_memo_template(),
         shapes=shapes,
