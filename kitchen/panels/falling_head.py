@@ -220,11 +220,12 @@ class FallingHeadPanel:
 
     def _increments(self, analysis: FallingHeadAnalysis):
         """The analysis's incremental k with their times and decimation, kept while they
-        stay the same: they depend on the record's corrected heads and reference times and
-        on the fitted datum h∞, not on the window (the analysis forms them anew each time
-        they are read, two passes over the record)."""
-        arrays = (analysis.corrected_head, analysis.reference_time)
-        terms = (analysis.scale, analysis.asymptote if analysis.decay is not None else None)
+        stay the same: they depend on the record's heads, capillary rise, reference times
+        and scale a·L/A and on the fitted datum h∞, not on the window (the analysis forms
+        them anew each time they are read, passes over the whole record)."""
+        arrays = (analysis.head, analysis.reference_time)
+        datum = analysis.asymptote if analysis.decay is not None else None
+        terms = (analysis.capillary_rise, analysis.scale, datum)
         kept = self._decimations.get("increments")
         if (
             kept is None
