@@ -20,7 +20,7 @@ from revision_series import log_rows
 from series_files import SAMPLES, copy_sample
 
 from kitchen.analysis import NO_CRITERION, parse_criterion
-from kitchen.io import files
+from kitchen.memo import manifest
 from kitchen.revisions import revise, revisions_path
 
 
@@ -219,10 +219,26 @@ def test_export_failure_leaves_the_previous_report(clay, tmp_path, monkeypatch):
     assert "results.csv" in previous
     revise(clay, specimen="QF-01", field="height", value="4.95 in", reason="re-measured")
 
-    def full_disk(*arguments):
-        raise OSError(28, "No space left on device")
+    class FullDisk:  # the pack's first file: created, then the disk is full mid-write
+        def __init__(self, path, mode):
+            self.stream = open(path, mode)  # noqa: SIM115 - closed in __exit__
 
-    monkeypatch.setattr(files.os, "replace", full_disk)
+        def __enter__(self):
+            return self
+
+        def __exit__(self, *details):
+            self.stream.close()
+
+        def write(self, data):
+            self.stream.write(data[:100])
+            raise OSError(28, "No space left on device")
+
+    def opened(path, mode="r", *arguments, **keywords):  # the pack's new files only
+        if mode == "xb":
+            return FullDisk(path, mode)
+        return open(path, mode, *arguments, **keywords)  # noqa: SIM115 - the caller's
+
+    monkeypatch.setattr(manifest, "open", opened, raising=False)
     done = run_cli("report", clay, "--out", out, "--no-images")
     monkeypatch.undo()
     assert done.returncode == 2
