@@ -246,11 +246,13 @@ def falling_head_spec(
                     + "<br>h = %{y:.4g} m<extra></extra>",
                 )
             )
-    fitted = _fitted_head(result)
-    if fitted.size == stop - start:
-        count = min(fitted.size, max_points if line_points is None else max(2, line_points))
-        keep = np.unique(np.linspace(0, fitted.size - 1, count).round().astype(np.int64))
-        t, fitted = time[start + keep], fitted[keep]
+    at = getattr(result, "fitted_head_at", None)  # an analysis forms only the points drawn
+    fitted = None if at is not None else _fitted_head(result)
+    size = stop - start if fitted is None else fitted.size
+    if size == stop - start:
+        count = min(size, max_points if line_points is None else max(2, line_points))
+        keep = np.unique(np.linspace(0, size - 1, count).round().astype(np.int64))
+        t, fitted = time[start + keep], (at(keep) if fitted is None else fitted[keep])
     else:
         t = time[[start, stop - 1]]
     datum = getattr(result, "fit_kind", "log_linear") == "datum"
