@@ -137,16 +137,23 @@ def rising_tailwater_conductivity(
     return falling_head_conductivity(effective, flow_length, area, head_start, head_end, elapsed)
 
 
-def per_distinct_value(values: np.ndarray, function, probe: int = 4096, few: int = 256):
+def per_distinct_value(
+    values: np.ndarray, function, probe: int = 4096, few: int = 256, block: int = 1 << 16
+):
     """``function(values)`` for an element-by-element `function`, evaluated once per
     distinct value when the values repeat (a logger's temperatures: a few dozen values,
     read to 0.01 °C, over 10⁶ readings), else on every value: the same numbers either way.
 
     Whether they repeat is judged on the first `probe` values (at most `few` distinct).
+    The values are taken `block` at a time, so no array of codes as long as the record is
+    formed beside the result.
     """
     if values.size > probe and np.unique(values[:probe]).size <= few:
-        codes, distinct = pd.factorize(values)
-        return np.asarray(function(distinct), dtype=float)[codes]
+        result = np.empty(values.size)
+        for start in range(0, values.size, block):
+            codes, distinct = pd.factorize(values[start : start + block])
+            result[start : start + block] = np.asarray(function(distinct), dtype=float)[codes]
+        return result
     return function(values)
 
 
