@@ -58,7 +58,7 @@ from kitchen.revisions import window_log_sha256 as window_log_digest
 from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace
 
-from ._export import PackWriter, figure_html, write_chart_files
+from ._export import PackWriter, figure_html, request_images, write_chart_files
 from .documents import memo_document
 from .figures import memo_charts
 from .images import FIRST_IMAGE_TIMEOUT as FIRST_IMAGE_TIMEOUT
@@ -317,6 +317,13 @@ def export_memo_pack(
     steps += [f"specimens/{page.name}.{ext}" for page in pages for ext in formats]
     steps += ["report.html", "report.docx"]
     write = PackWriter(staged, steps, progress)
+    caption = _caption(provenance, criterion_text)
+    # every image is asked for before the first file is written: Chromium draws them while
+    # the tables and pages are written
+    chart_images = page_images = None
+    if images:
+        chart_images = request_images([(name, figure) for name, _, figure in charts], caption)
+        page_images = request_images([(page.name, page.figure) for page in pages], caption)
     with staged:
         write(
             "results.csv",
@@ -327,9 +334,10 @@ def export_memo_pack(
         write("results.xlsx", "workbook", lambda: workbook_bytes(tables, notes))
         if script.path is not None:  # before any page that loads it
             write(script.path, "script", lambda: script.content)
-        caption = _caption(provenance, criterion_text)
-        pngs = write_chart_files(write, charts, CAUTIONS, provenance, script, caption, images)
-        write_report_pages(write, pages, CAUTIONS, caption, script, images)
+        pngs = write_chart_files(
+            write, charts, CAUTIONS, provenance, script, caption, images, chart_images
+        )
+        write_report_pages(write, pages, CAUTIONS, caption, script, images, page_images)
         fragments = [(name, title, figure_html(figure, name)) for name, title, figure in charts]
         write(
             "report.html",

@@ -466,25 +466,22 @@ def report_pages(workspace, results: pd.DataFrame, ku, reference: str) -> list[R
     return pages
 
 
-def write_report_pages(write, pages, cautions, caption, script, images: bool) -> None:
+def write_report_pages(
+    write, pages, cautions, caption, script, images: bool, requested=None
+) -> None:
     """Write each test's page (``specimens/NAME.html``) and, with `images`, the PNG and SVG
     of its record over time with `caption` printed under it.
 
     `write` is called as ``write(relative, kind, data)``; `script` is the pack's
-    :class:`kitchen.memo.markup.ChartScript`. Every image is asked of Chromium first, and
-    drawn while the pages are written.
+    :class:`kitchen.memo.markup.ChartScript`. `requested` holds the images already asked
+    of Chromium (:func:`kitchen.memo._export.request_images`, by page name); without it
+    every image is asked for first, and drawn while the pages are written.
     """
-    from kitchen.charts import add_caption
+    from ._export import figure_html, request_images
+    from .images import image_result
 
-    from ._export import figure_html
-    from .images import image_result, request_image
-
-    requested = {}
-    if images:
-        for page in pages:
-            captioned = add_caption(page.figure, caption)
-            for ext in ("png", "svg"):
-                requested[page.name, ext] = request_image(captioned, ext)
+    if images and requested is None:
+        requested = request_images([(page.name, page.figure) for page in pages], caption)
     for page in pages:
         shown = tuple(f"{page.name}.{ext}" for ext in ("png", "svg") if images)
         write(

@@ -333,6 +333,34 @@ def test_static_images_carry_the_cautions(cli_pack):
         assert f"Caution: {caution}" in text
 
 
+@needs_chromium
+def test_every_image_is_asked_for_before_the_first_file_is_written(tmp_path, monkeypatch):
+    # Chromium draws while the tables and pages are written, instead of waiting for them
+    from kitchen.memo import images
+    from kitchen.memo._export import PackWriter
+
+    events = []
+    request = images.request_png_svg
+    write = PackWriter.__call__
+
+    def asked(figure):
+        events.append("image")
+        return request(figure)
+
+    def written(self, relative, kind, data):
+        events.append(relative)
+        return write(self, relative, kind, data)
+
+    monkeypatch.setattr(images, "request_png_svg", asked)
+    monkeypatch.setattr(PackWriter, "__call__", written)
+    pack = export_memo_pack(Workspace(SAMPLES / "drainage_sand"), tmp_path / "pack")
+    first_file = next(i for i, event in enumerate(events) if event != "image")
+    drawn = [p for p in pack.files if p.suffix == ".png"]
+    assert events[:first_file] == ["image"] * len(drawn)  # one drawing gives PNG and SVG
+    assert "image" not in events[first_file:]
+    assert len(drawn) == len([p for p in pack.files if p.suffix == ".svg"]) > 0
+
+
 def test_command_line_without_images(tmp_path, monkeypatch):
     monkeypatch.setenv("BROWSER_PATH", str(tmp_path / "no-such-chromium"))
     done = run_cli("report", SAMPLES / "drainage_sand", "--out", tmp_path, "--no-images")
