@@ -50,6 +50,18 @@ lowest reading; further down it is named in the legend only, and the axis stays 
 readings (the tool's own choice)."""
 
 
+def _positive_extremes(values) -> tuple[float, float] | None:
+    """The least and the greatest finite positive value, or None (no copy when every value
+    is one: a record of 10^6 heads is scanned, not copied)."""
+    values = np.asarray(values, float).ravel()
+    usable = np.isfinite(values) & (values > 0)
+    if not usable.all():
+        values = values[usable]
+    if not values.size:
+        return None
+    return float(values.min()), float(values.max())
+
+
 def head_axis(head, fitted, datum: float | None = None) -> dict:
     """The log head axis over the readings and the fitted line, and over the fitted datum
     h∞ where it lies near them (:data:`DATUM_REACH`); never stretched by a label.
@@ -66,9 +78,13 @@ def head_axis(head, fitted, datum: float | None = None) -> dict:
     dict
         The axis's properties: a log axis, its range in log10 of metres, its title.
     """
-    values = np.concatenate([np.asarray(head, float).ravel(), np.asarray(fitted, float).ravel()])
-    values = values[np.isfinite(values) & (values > 0)]
-    low, high = (float(values.min()), float(values.max())) if values.size else (0.1, 1.0)
+    extremes = [_positive_extremes(values) for values in (head, fitted)]
+    extremes = [pair for pair in extremes if pair is not None]
+    low, high = (
+        (min(pair[0] for pair in extremes), max(pair[1] for pair in extremes))
+        if extremes
+        else (0.1, 1.0)
+    )
     if datum is not None and datum > 0 and datum >= DATUM_REACH * low:
         low = min(low, datum)
     span = np.log10(high) - np.log10(low)

@@ -22,6 +22,7 @@ from dataclasses import dataclass
 import numpy as np
 from scipy import special
 
+from ._common import DOT_BLOCK
 from .line import LinearFit, fit_line
 
 __all__ = ["CurvatureTest", "RunsTest", "curvature_test", "runs_test", "sign_runs_test"]
@@ -108,15 +109,10 @@ def curvature_test(
     if n < 4:
         raise ValueError(f"a curvature test needs at least 4 points, got {n}")
     line = line or fit_line(x, y)
-    xc = np.subtract(x, line.x_mean)
-    xc2 = np.multiply(xc, xc)
     s2 = line.sxx
-    # einsum rather than dot: single-threaded, so no waiting on BLAS threads when the
-    # machine is busy, and as fast as memory allows otherwise
-    s3 = float(np.einsum("i,i->", xc2, xc))
-    s4 = float(np.einsum("i,i->", xc2, xc2))
+    s3, s4, s2y = _centred_moments(x, y, line.x_mean)
     sqq = s4 - s2 * s2 / n - s3 * s3 / s2
-    sqr = float(np.einsum("i,i->", xc2, y)) - line.y_mean * s2 - line.slope * s3
+    sqr = s2y - line.y_mean * s2 - line.slope * s3
     dof = n - 3
     sse_line = line.residual_standard_deviation**2 * (n - 2)
     if not sqq > 0:
@@ -143,6 +139,30 @@ def curvature_test(
         )
         low, high = ends
     return CurvatureTest(float(b2), float(t), p, dof, float(change), low, high, level)
+
+
+def _centred_moments(x: np.ndarray, y: np.ndarray, x_mean: float) -> tuple[float, float, float]:
+    """Σ x_c³, Σ x_c⁴ and Σ x_c²·y with x_c = x − x_mean, in blocks of :data:`DOT_BLOCK`.
+
+    The working arrays are a block long, so a window of 10^6 readings needs no two more
+    arrays of its length; einsum rather than dot: single-threaded, so no waiting on BLAS
+    threads when the machine is busy.
+    """
+    sums = np.zeros(3)
+    xc = np.empty(min(x.size, DOT_BLOCK))
+    xc2 = np.empty_like(xc)
+    for i in range(0, x.size, DOT_BLOCK):
+        xb = x[i : i + DOT_BLOCK]
+        c, c2 = xc[: xb.size], xc2[: xb.size]
+        np.subtract(xb, x_mean, out=c)
+        np.multiply(c, c, out=c2)
+        sums += (
+            np.einsum("i,i->", c2, c),
+            np.einsum("i,i->", c2, c2),
+            np.einsum("i,i->", c2, y[i : i + DOT_BLOCK]),
+        )
+    s3, s4, s2y = sums.tolist()
+    return s3, s4, s2y
 
 
 def runs_test(residuals, level: float = 0.05) -> RunsTest:

@@ -165,9 +165,20 @@ def _decay_subsample(n, head=1024, body=3072):
     return index, np.diff(np.append(index, n)).astype(np.float64)
 
 
-def _profile_sse(rates, u, hc, w):
-    """Weighted residual sum of squares after the linear parameters, one per rate (rows)."""
+def _profile_sse(rates, u, hc, w, chunk: int = 8):
+    """Weighted residual sum of squares after the linear parameters, one per rate (rows).
+
+    Rates are taken `chunk` at a time, so the working arrays are `chunk` rows of the
+    subsample whatever the grid's length (each row's sums are its own: the same numbers).
+    """
     rates = np.atleast_1d(rates)
+    if rates.size > chunk:
+        return np.concatenate(
+            [
+                _profile_sse(rates[i : i + chunk], u, hc, w, chunk)
+                for i in range(0, rates.size, chunk)
+            ]
+        )
     g = -np.expm1(np.multiply.outer(-rates, u)) / rates[:, None]
     gc = g - (np.einsum("ij,j->i", g, w) / w.sum())[:, None]  # einsum: no BLAS threads
     var = np.einsum("ij,ij,j->i", gc, gc, w)
@@ -176,11 +187,54 @@ def _profile_sse(rates, u, hc, w):
     return np.einsum("ij,ij,j->i", r, r, w)
 
 
+def _decay_block(rate, inverse, uu, work) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """g, dg/drate and d2g/drate2 of one block of readings at `rate`, in `work`'s arrays.
+
+    `work` holds four scratch arrays at least as long as `uu`; the first three are filled
+    with g = (1 - e)/rate, dg/drate = (u e - g)/rate and d2g/drate2 = -(u**2 e + 2 dg/drate)
+    /rate, with e = exp(-rate u). Element by element, so a value does not depend on the
+    block it is computed in.
+    """
+    m = uu.size
+    g, gk, gkk, e = (row[:m] for row in work)
+    np.multiply(uu, -rate, out=e)
+    np.exp(e, out=e)
+    np.subtract(1.0, e, out=g)
+    g *= inverse  # g = (1 - e) / rate
+    np.multiply(uu, e, out=e)  # e now holds u * exp(-rate u)
+    np.subtract(e, g, out=gk)
+    gk *= inverse  # dg/drate = (u e - g) / rate
+    np.multiply(uu, e, out=gkk)
+    gkk += gk
+    gkk += gk
+    gkk *= -inverse  # d2g/drate2 = -(u**2 e + 2 dg/drate) / rate
+    return g, gk, gkk
+
+
+class _ScaledTime:
+    """u = (t − t[0]) / span, formed a block at a time where it is read: the same numbers
+    as the whole array (element by element), without an array of the record's length."""
+
+    def __init__(self, t: np.ndarray, inverse_span: float):
+        self.t, self.origin, self.inverse = t, t[0], inverse_span
+        self.size = t.size
+
+    def __getitem__(self, index) -> np.ndarray:
+        return (self.t[index] - self.origin) * self.inverse
+
+
+def _scratch() -> list[np.ndarray]:
+    """Four scratch arrays of one block (:func:`_decay_block`): the fit's working memory
+    does not grow with the record."""
+    return [np.empty(DOT_BLOCK) for _ in range(4)]
+
+
 def _decay_terms(rate, u, hc, h_sum, work) -> _DecayTerms:
     """Linear parameters, Newton system and Gauss-Newton matrix at one rate (full data).
 
-    `work` holds four scratch arrays, filled as g, dg/drate, d2g/drate2 and u*exp(-rate u);
-    the data are processed in blocks so that each block's terms are summed while in cache.
+    The data are processed in blocks of :data:`DOT_BLOCK` readings (`work`, from
+    :func:`_scratch`), so that each block's terms are summed while in cache and the
+    working arrays stay a block long.
     """
     n = u.size
     inverse = 1.0 / rate
@@ -188,19 +242,8 @@ def _decay_terms(rate, u, hc, h_sum, work) -> _DecayTerms:
     dot = np.dot
     for i in range(0, n, DOT_BLOCK):
         j = i + DOT_BLOCK
-        uu, hh = u[i:j], hc[i:j]
-        g, gk, gkk, e = (row[i:j] for row in work)
-        np.multiply(uu, -rate, out=e)
-        np.exp(e, out=e)
-        np.subtract(1.0, e, out=g)
-        g *= inverse  # g = (1 - e) / rate
-        np.multiply(uu, e, out=e)  # e now holds u * exp(-rate u)
-        np.subtract(e, g, out=gk)
-        gk *= inverse  # dg/drate = (u e - g) / rate
-        np.multiply(uu, e, out=gkk)
-        gkk += gk
-        gkk += gk
-        gkk *= -inverse  # d2g/drate2 = -(u**2 e + 2 dg/drate) / rate
+        hh = hc[i:j]
+        g, gk, gkk = _decay_block(rate, inverse, u[i:j], work)
         sums += (
             g.sum(),
             gk.sum(),
@@ -317,24 +360,32 @@ def fit_exponential_decay(t, h, confidence=0.95) -> DecayFit:
     refuse_overflow(shh, span)
     if not shh > n * (64.0 * MACHINE_EPSILON * h_mean) ** 2:
         raise ValueError(f"the head does not change (every value is {h[0]!r}); nothing decays")
-    u = (t - t[0]) * (1.0 / span)
+    u = _ScaledTime(t, 1.0 / span)
 
     rate, rate_high, head_range = _locate_rate(u, h)
-    work = [np.empty(n) for _ in range(4)]  # separate blocks: large ones are not recycled
+    work = _scratch()
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         solution = _polish_rate(rate, rate_high, u, hc, shh, work)
     rate = solution.rate
 
-    # apply the last step; residuals updated to second order in the rate step
+    # apply the last step; residuals updated to second order in the rate step, block by
+    # block from g and its derivatives at the rate of the last terms (the same numbers)
     d_a, d_b, d_rate = (float(v) for v in solution.step)
     a, b, rate_final = solution.terms.a + d_a, solution.terms.b + d_b, rate + d_rate
-    g, gk, gkk, scratch = work
-    residuals = hc - a
-    for coefficient, row in ((b, g), (b * d_rate, gk), (0.5 * b * d_rate * d_rate, gkk)):
-        if coefficient:
-            np.multiply(row, coefficient, out=scratch)
-            residuals -= scratch
-    del work, g, gk, gkk, scratch
+    residuals = hc  # hc (formed here) becomes the residuals, in place
+    residuals -= a
+    coefficients = (b, b * d_rate, 0.5 * b * d_rate * d_rate)
+    scratch = work[3]
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        for i in range(0, n, DOT_BLOCK):
+            j = i + DOT_BLOCK
+            rows = _decay_block(rate, 1.0 / rate, u[i:j], work)
+            part = scratch[: min(j, n) - i]
+            for coefficient, row in zip(coefficients, rows, strict=True):
+                if coefficient:
+                    np.multiply(row, coefficient, out=part)
+                    residuals[i:j] -= part
+    del work, scratch, u
     sse = blocked_dot(residuals, residuals)
     residuals.flags.writeable = False
 

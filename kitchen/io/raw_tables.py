@@ -486,8 +486,10 @@ def _prepare(
                 )
             )
     kept = frame[list(rename)].rename(columns=rename)
-    source_row = np.arange(2, len(frame) + 2)
-    blank = frame.isna().all(axis=1).to_numpy()
+    source_row = np.arange(2, len(frame) + 2, dtype=np.int32)  # rows of a file, never 2^31
+    blank = np.ones(len(frame), dtype=bool)  # a row with no cell, column by column
+    for column in frame.columns:
+        blank &= frame[column].isna().to_numpy()
     if blank.any():
         kept, source_row = kept.loc[~blank], source_row[~blank]
     kept = kept.reset_index(drop=True)

@@ -232,7 +232,8 @@ def head_rise_tolerance(head: np.ndarray) -> float:
 def _numeric_column(
     table: RawTable, column: str, problems: list[InputProblem], ids: TextCodes | None = None
 ) -> np.ndarray:
-    """The column as a new array of floats in SI; bad cells are reported and become NaN.
+    """The column as floats in SI; bad cells are reported and become NaN. A column already
+    in SI is the raw array itself, read-only; any other is a new array.
 
     Text that is not a number, a true/false cell, and a number that is not finite (``inf``,
     or one too large for its unit) are each named, with the specimen of the row."""
@@ -271,15 +272,22 @@ def _numeric_column(
         )
     kind = SCHEMAS[table.name][column].kind
     unit = table.units.get(column)
-    if kind == "dimensionless" or not unit:
-        si = numbers.copy()  # never a view of the raw table
+    factor = 1.0 if kind == "dimensionless" or not unit else to_si(1.0, unit, kind)
+    if factor == 1.0 and (kind == "dimensionless" or not unit or to_si(0.0, unit, kind) == 0.0):
+        # already in SI (seconds, degrees Celsius, a ratio): the raw table's own array,
+        # shared read-only (pandas' copy-on-write), not a second copy of a logger's column
+        si = numbers
+        if si.flags.writeable:
+            si = si.view()
+            si.flags.writeable = False
     elif to_si(0.0, unit, kind) != 0.0:  # an offset unit (degF, K)
         si = to_si(numbers, unit, kind)
     else:
         with np.errstate(over="ignore"):
-            si = np.multiply(numbers, to_si(1.0, unit, kind))  # one pass, one new array
+            si = np.multiply(numbers, factor)  # one pass, one new array
     infinite = np.isinf(si)
     if infinite.any():
+        si = si.copy()  # a new array, written below
         for index in np.flatnonzero(infinite)[:_NAMED_ROWS]:
             problems.append(
                 InputProblem(
@@ -422,6 +430,12 @@ def report_rows(
         )
 
 
+def _as_categories(table: str, column: str) -> bool:
+    """Whether a text column is kept as categories: the specimen id of a readings table,
+    repeated on every reading (the specimens table keeps its ids as strings, one a row)."""
+    return column == "specimen" and table != "specimens"
+
+
 @dataclass(frozen=True)
 class TextCodes:
     """A text column as codes into its distinct values: ``values[codes]``, -1 where empty."""
@@ -447,6 +461,11 @@ class TextCodes:
     def strings(self) -> pd.arrays.StringArray:
         """The column as pandas strings, ``<NA>`` where empty."""
         return pd.array(self.values, dtype="string").take(self.codes, allow_fill=True)
+
+    def categories(self) -> pd.Categorical:
+        """The column as categories: one code a row (a byte for up to 127 ids), ``NaN``
+        where empty; the frame of 10⁶ readings holds 1 MB of ids instead of 8."""
+        return pd.Categorical.from_codes(self.codes, pd.Index(self.values, dtype="string"))
 
     def present(self) -> np.ndarray:
         """Which of `values` occur in the column."""
@@ -491,7 +510,7 @@ def _check_specimen_ids(table: RawTable, labels: TextCodes, problems: list[Input
 def convert_table(table: RawTable, problems: list[InputProblem]) -> tuple[pd.DataFrame, TextCodes]:
     """The table in SI with its value problems reported, and its specimen ids as codes."""
     schema = SCHEMAS[table.name]
-    rows = table.frame["source_row"].to_numpy(dtype=np.int32)  # a new array, not a view
+    rows = table.frame["source_row"].to_numpy(dtype=np.int32)  # the raw table's, read-only
     n = rows.size
     columns: dict[str, object] = {"source_row": rows}
     ids = None
@@ -502,7 +521,9 @@ def convert_table(table: RawTable, problems: list[InputProblem]) -> tuple[pd.Dat
         if spec.kind in TEXT_KINDS:
             if present:
                 labels = TextCodes.of(table.frame[column])
-                columns[column] = labels.strings()
+                columns[column] = (
+                    labels.categories() if _as_categories(table.name, column) else labels.strings()
+                )
                 if spec.kind == "id":
                     ids = labels
                 if column == "specimen":

@@ -67,7 +67,7 @@ from .images import start_image_export
 from .manifest import StagedPack
 from .markup import ChartScript
 from .pages import REDUCTION_METHODS, report_page
-from .provenance import Provenance, memo_provenance
+from .provenance import Provenance, memo_provenance, start_hashing
 from .specimen_pages import report_pages, specimen_links, write_report_pages
 from .tables import (
     checks_table,
@@ -257,6 +257,7 @@ def export_memo_pack(
         )
     # refuses the series' folder, and a folder holding what the tool did not write
     staged = StagedPack(out, inputs=(series.source,))
+    hashes = start_hashing(workspace.input_files)  # on a thread, while the series is reduced
     results = workspace.results()
     given = criterion
     _, source = workspace.criterion_in_force(given)
@@ -295,6 +296,7 @@ def export_memo_pack(
         effective.log_path if effective.log_sha256 else None,
         effective.log_sha256,
         started,
+        hashes,
     )
     charts, skipped = memo_charts(workspace, analysis, ku.unit, du.unit)
     tables = {

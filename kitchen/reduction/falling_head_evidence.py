@@ -52,7 +52,9 @@ class FallingHeadAnalysis:
     Arrays ``time``, ``head``, ``corrected_head``, ``reference_time`` cover every reading;
     ``start``/``stop`` mark the window (readings ``start`` to ``stop - 1``).
     ``increment_time``/``increment_k`` are k between successive readings over the whole
-    record, at the reference temperature; ``value_time``/``value_k`` are the last k values
+    record, at the reference temperature (formed when read, from ``scale`` = a·L/A: a
+    record of 10⁶ readings does not hold two more arrays of its length for a chart that may
+    never be drawn); ``value_time``/``value_k`` are the last k values
     of the window, the ones the steady-values criterion judges (readings ``value_step``
     apart, counted back from the window's last reading).
     ``line`` is the straight line of ln(corrected head) on reference time over the window
@@ -79,8 +81,7 @@ class FallingHeadAnalysis:
     asymptote: float
     asymptote_low: float
     asymptote_high: float
-    increment_time: np.ndarray
-    increment_k: np.ndarray
+    scale: float
     value_time: np.ndarray
     value_k: np.ndarray
     value_step: int
@@ -124,6 +125,25 @@ class FallingHeadAnalysis:
     def window_time(self) -> np.ndarray:
         """Reading times in the window. [s]"""
         return self.time[self.start : self.stop]
+
+    @property
+    def increment_time(self) -> np.ndarray:
+        """Middle time of each pair of successive readings. [s]"""
+        return 0.5 * (self.time[1:] + self.time[:-1])
+
+    @property
+    def increment_k(self) -> np.ndarray:
+        """k between successive readings at the reference temperature. [m/s]
+
+        ``scale · −Δln(h − h∞) / Δτ`` over each pair of readings (h the corrected head, τ
+        the reference time; h∞ the fitted datum, 0 for the log-linear fit): the slope of
+        the falling-head law between two readings (ASTM D5084 Method C, from memory). NaN
+        where the head is at or below h∞.
+        """
+        head = self.corrected_head
+        with np.errstate(divide="ignore", invalid="ignore"):
+            log_head = np.log(head - self.asymptote if self.decay is not None else head)
+            return self.scale * -np.diff(log_head) / np.diff(self.reference_time)
 
     @cached_property
     def fitted_head(self) -> np.ndarray:
@@ -309,12 +329,21 @@ def datum_sensitivity(time: np.ndarray, head: np.ndarray) -> float:
     time = np.asarray(time, dtype=float)
     head = np.asarray(head, dtype=float)
     mean_time = float(time.mean())
-    reciprocal = np.reciprocal(head)
-    across = float(np.dot(time, reciprocal)) - mean_time * float(reciprocal.sum())
-    del reciprocal
-    log_head = np.log(head)
-    along = float(np.dot(time, log_head)) - mean_time * float(log_head.sum())
+    # Σ t/h, Σ 1/h, Σ t·ln h, Σ ln h a block at a time: no array of the window's length
+    sums = np.zeros(4)
+    for i in range(0, time.size, _BLOCK):
+        t, h = time[i : i + _BLOCK], head[i : i + _BLOCK]
+        reciprocal, log_head = np.reciprocal(h), np.log(h)
+        sums += (t @ reciprocal, reciprocal.sum(), t @ log_head, log_head.sum())
+    time_over_head, over_head, time_log, log_sum = sums.tolist()
+    across = time_over_head - mean_time * over_head
+    along = time_log - mean_time * log_sum
     return across / along
+
+
+_BLOCK = 8192
+"""Readings summed at a time by :func:`datum_sensitivity` (below the length at which a
+dot product is handed to several threads)."""
 
 
 def window_interval(

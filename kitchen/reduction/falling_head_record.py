@@ -30,6 +30,7 @@ from __future__ import annotations
 
 import copy
 import math
+from dataclasses import replace
 from functools import cached_property
 
 import numpy as np
@@ -108,9 +109,6 @@ class FallingHeadRecord:
     reference_time : numpy.ndarray
         Reference-equivalent time from the first reading (the elapsed time when no
         temperature is recorded). [s]
-    increment_time, increment_k : numpy.ndarray
-        k between successive readings at the reference temperature, and their middle
-        times (formed on first use). [s], [m/s]
     capillary_rise, scale, mean_temperature : float
         The rise subtracted [m], a·L/A [m], the record's time-weighted temperature [degC].
     full_line : kitchen.fits.LinearFit or None
@@ -217,8 +215,6 @@ class FallingHeadRecord:
                 f"{specimen_row['specimen']!r}"
             )
         other = copy.copy(self)
-        for derived in ("increment_k",):  # depends on the scale a·L/A
-            other.__dict__.pop(derived, None)
         other._set_specimen(specimen_row)
         same_bores = np.array_equal(
             [self.inflow_area, self.outflow_area],
@@ -267,17 +263,10 @@ class FallingHeadRecord:
         """The datum-fitted decay over every reading (formed on first use, where the full
         record curves:
         :func:`~kitchen.reduction.falling_head_evidence.full_record_evidence`)."""
-        return fit_exponential_decay(self.reference_time, self.corrected_head)
-
-    @cached_property
-    def increment_time(self) -> np.ndarray:
-        """Middle time of each pair of successive readings. [s]"""
-        return 0.5 * (self.time[1:] + self.time[:-1])
-
-    @cached_property
-    def increment_k(self) -> np.ndarray:
-        """k between successive readings, at the reference temperature. [m/s]"""
-        return self.scale * -np.diff(self.log_head) / np.diff(self.reference_time)
+        fit = fit_exponential_decay(self.reference_time, self.corrected_head)
+        # judged by its datum and time constant alone: its residuals, an array of the
+        # record's length, are not kept
+        return replace(fit, residuals=np.empty(0))
 
     def _where(self, index: int) -> str:
         if self._rows is not None:
@@ -630,11 +619,6 @@ def _analyse(
     interval = window_interval(
         record, k_reference, fitted, start, stop, temperature, datum_fitted=decay is not None
     )
-    if decay is None:
-        increment_k = record.increment_k
-    else:
-        with np.errstate(invalid="ignore"):
-            increment_k = record.scale * -np.diff(log_used) / np.diff(record.reference_time)
     return FallingHeadAnalysis(
         specimen=record.specimen,
         fit_kind=fit,
@@ -649,8 +633,7 @@ def _analyse(
         asymptote=float(asymptote),
         asymptote_low=float(low_inf),
         asymptote_high=float(high_inf),
-        increment_time=record.increment_time,
-        increment_k=increment_k,
+        scale=record.scale,
         value_time=judged.time,
         value_k=judged.k,
         value_step=judged.step,
@@ -737,10 +720,11 @@ def _propose(record):
         t = 20.0 if math.isnan(record.mean_temperature) else record.mean_temperature
         ratio = viscosity_ratio(t, settings.reference_temperature, settings.viscosity)
         reynolds_per_k = water_density(t) * record.d10 / (water_viscosity(t) * ratio)
+    starts = record._trends.starts  # the gradient is judged at the trial starts only
     return propose_window(
         record.reference_time,
         log_head,
-        heads / record.height,
+        heads[:starts] / record.height,
         record.scale,
         criteria,
         steady_passed=bool(steady.passed),

@@ -188,8 +188,8 @@ def recommended_maximum_gradient(k, table=GRADIENT_TABLE):
     """
     k = np.asarray(k, dtype=float)
     out = np.full(k.shape, np.nan)
-    for low, high, gradient in table:
-        out = np.where((k >= low) & (k < high), gradient, out)
+    for low, high, gradient in table:  # a later row overrides an earlier one where they overlap
+        out[(k >= low) & (k < high)] = gradient
     return float(out) if out.ndim == 0 else out
 
 

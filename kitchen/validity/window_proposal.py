@@ -37,10 +37,12 @@ class WindowProposal:
     reason: str
 
 
-BLOCK = 1 << 15
-"""Readings handled at a time by :func:`window_trends`: its working arrays are a few blocks
-long whatever the record's length, so a record of 10^7 readings needs no more than one of
-10^5 beside the slopes and verdicts it returns."""
+BLOCK = 1 << 13
+"""Readings handled at a time by :func:`window_trends`: its working arrays (about forty)
+are a block long whatever the record's length, about 3 MB in all, so a record of 10^7
+readings needs no more than one of 10^5 beside the slopes and verdicts it returns; a block
+of 8192 also keeps them in the processor's cache (measured: as fast as 16384, faster
+than 32768)."""
 
 
 def _critical_bounds(dof_low: float, dof_high: float, probability: float) -> tuple[float, float]:
@@ -174,13 +176,14 @@ def window_trends(
         m = np.arange(n - a, n - b, -1, dtype=float)
         u_start = (x[a:b] - x_last) / span
         mu = s1 / m
+        mu2 = mu * mu  # products, not powers: numpy's float power of 3 or 4 is ~50x slower
         c2 = s2 - m * mu * mu
-        c3 = s3 - 3 * mu * s2 + 2 * m * mu**3
-        c4 = s4 - 4 * mu * s3 + 6 * mu * mu * s2 - 3 * m * mu**4
+        c3 = s3 - 3 * mu * s2 + 2 * m * (mu2 * mu)
+        c4 = s4 - 4 * mu * s3 + 6 * mu2 * s2 - 3 * m * (mu2 * mu2)
         y_mean = sy / m
         cxy = sxy - m * mu * y_mean
         cyy = syy - m * y_mean * y_mean
-        cxxy = (sxxy - 2 * mu * sxy + mu * mu * sy) - y_mean * c2
+        cxxy = (sxxy - 2 * mu * sxy + mu2 * sy) - y_mean * c2
         block_slope = cxy / c2
         sqq = c4 - c2 * c2 / m - c3 * c3 / c2
         sqy = cxxy - c3 / c2 * cxy
@@ -222,7 +225,8 @@ def propose_window(
     log_head : array_like
         ln of the (corrected) head of every reading. [-]
     gradient : array_like
-        Hydraulic gradient at every reading. [-]
+        Hydraulic gradient at every reading, or at least at every trial start (the first
+        ``trends.starts`` readings: only those are judged). [-]
     scale : float
         a·L/A, so that k = −scale · slope of ln h on reference time. [m]
     criteria : Criteria
@@ -259,11 +263,16 @@ def propose_window(
     if trends.reason:
         return WindowProposal(0, n, False, trends.reason)
     head = slice(0, trends.starts)
-    k = -scale * trends.slope / trends.span
+    k = np.multiply(trends.slope, -scale)  # −scale·slope/span, formed in one array
+    k /= trends.span
     limit = recommended_maximum_gradient(k, criteria.gradient_table)
     g = np.asarray(gradient, dtype=float)[head]
     gradient_ok = ~(g > limit)  # NaN limit (outside the table): not judged
-    reynolds_ok = ~(reynolds_per_k * k * g > criteria.reynolds_limit)
+    del limit
+    if math.isnan(reynolds_per_k):  # no d10: the Reynolds criterion is not judged
+        reynolds_ok = True
+    else:
+        reynolds_ok = ~(reynolds_per_k * k * g > criteria.reynolds_limit)
     flow_ok = np.ones(trends.starts, dtype=bool)
     if inflow is not None and outflow is not None:
         inflow = np.asarray(inflow, dtype=float)

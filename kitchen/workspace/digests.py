@@ -56,17 +56,33 @@ def parts_digest(*parts) -> str:
 def specimen_spans(frame: pd.DataFrame) -> dict[str, tuple[int, int]]:
     """Each specimen's rows as positions ``(start, stop)``; they are contiguous in
     a falling-head table (the loader refuses split readings)."""
-    ids = frame["specimen"].to_numpy(dtype=object)
-    if not ids.size:
+    codes, ids = _codes(frame["specimen"])
+    if not codes.size:
         return {}
-    starts = np.flatnonzero(np.r_[True, ids[1:] != ids[:-1]])
-    stops = np.r_[starts[1:], ids.size]
-    return {ids[a]: (int(a), int(b)) for a, b in zip(starts, stops, strict=True)}
+    starts = np.flatnonzero(np.r_[True, codes[1:] != codes[:-1]])
+    stops = np.r_[starts[1:], codes.size]
+    return {ids[codes[a]]: (int(a), int(b)) for a, b in zip(starts, stops, strict=True)}
+
+
+def _codes(column: pd.Series) -> tuple[np.ndarray, np.ndarray]:
+    """A specimen column as codes into the ids present, in order of first appearance, -1
+    where empty (as :func:`pandas.factorize` gives them). A loaded readings table's
+    categories are factorised by their one-byte codes, no text compared row by row."""
+    if not isinstance(column.dtype, pd.CategoricalDtype):
+        return pd.factorize(column.to_numpy(dtype=object))
+    raw = column.cat.codes.to_numpy()
+    codes, present = pd.factorize(raw)
+    names = column.cat.categories.to_numpy(dtype=object)
+    if (present < 0).any():  # empty cells: code -1, as factorize gives a missing value
+        empty = int(np.flatnonzero(present < 0)[0])
+        codes = np.where(codes == empty, -1, codes - (codes > empty))
+        present = present[present >= 0]
+    return codes, names[present]
 
 
 def specimen_positions(frame: pd.DataFrame) -> dict[str, np.ndarray]:
     """Each specimen's row positions, in order of first appearance (any arrangement)."""
-    codes, ids = pd.factorize(frame["specimen"].to_numpy(dtype=object))
+    codes, ids = _codes(frame["specimen"])
     order = np.argsort(codes, kind="stable")
     bounds = np.searchsorted(codes[order], np.arange(len(ids) + 1))
     return {ids[i]: order[bounds[i] : bounds[i + 1]] for i in range(len(ids))}

@@ -1,6 +1,7 @@
 """Checking the values of a series: every bad value named by file, row and column."""
 
 import numpy as np
+import pandas as pd
 import pytest
 from series_files import CONSTANT, FALLING, SPECIMENS, problems_of, write_series
 
@@ -79,7 +80,10 @@ def test_specimen_ids_are_read_without_surrounding_spaces(tmp_path):
     falling = FALLING.replace("A1,10,95", " A1 ,10,95").replace("A2,0,", "A2 ,0,")
     series = load_series(write_series(tmp_path / "s", falling_head=falling))
     assert series.falling_head["specimen"].tolist() == ["A1"] * 3 + ["A2"] * 3
-    assert series.falling_head["specimen"].dtype == "string"
+    ids = series.falling_head["specimen"]  # a readings table: one code a row
+    assert isinstance(ids.dtype, pd.CategoricalDtype)
+    assert ids.cat.categories.dtype == "string" and ids.cat.codes.dtype.itemsize == 1
+    assert series.specimens["specimen"].dtype == "string"  # one a row: strings
 
 
 def test_a_text_id_column_in_many_rows_is_stored_once(tmp_path):
