@@ -68,7 +68,12 @@ from .manifest import StagedPack
 from .markup import ChartScript
 from .pages import REDUCTION_METHODS, report_page
 from .provenance import Provenance, memo_provenance, start_hashing
-from .specimen_pages import report_pages, specimen_links, write_report_pages
+from .specimen_pages import (
+    report_pages,
+    specimen_links,
+    write_report_images,
+    write_report_pages,
+)
 from .tables import (
     checks_table,
     fits_table,
@@ -316,8 +321,9 @@ def export_memo_pack(
         steps.append(script.path)
     steps += [f"charts/{name}.{ext}" for name, _, _ in charts for ext in formats]
     pages = report_pages(workspace, results, ku, label)
-    steps += [f"specimens/{page.name}.{ext}" for page in pages for ext in formats]
+    steps += [f"specimens/{page.name}.html" for page in pages]
     steps += ["report.html", "report.docx"]
+    steps += [f"specimens/{page.name}.{ext}" for page in pages for ext in formats[1:]]
     write = PackWriter(staged, steps, progress)
     caption = _caption(provenance, criterion_text)
     # every image is asked for before the first file is written: Chromium draws them while
@@ -339,7 +345,7 @@ def export_memo_pack(
         pngs = write_chart_files(
             write, charts, CAUTIONS, provenance, script, caption, images, chart_images
         )
-        write_report_pages(write, pages, CAUTIONS, caption, script, images, page_images)
+        write_report_pages(write, pages, CAUTIONS, caption, script, images)
         fragments = [(name, title, figure_html(figure, name)) for name, title, figure in charts]
         write(
             "report.html",
@@ -372,6 +378,10 @@ def export_memo_pack(
                 REDUCTION_METHODS + ANALYSIS_METHODS,
             ),
         )
+        # the test pages' images last: Chromium draws them while the report and the
+        # document (which embeds the charts' PNGs only) are written
+        if images:
+            write_report_images(write, pages, page_images)
         manifest, removed = staged.finish()
     return MemoPack(
         out,

@@ -466,22 +466,16 @@ def report_pages(workspace, results: pd.DataFrame, ku, reference: str) -> list[R
     return pages
 
 
-def write_report_pages(
-    write, pages, cautions, caption, script, images: bool, requested=None
-) -> None:
-    """Write each test's page (``specimens/NAME.html``) and, with `images`, the PNG and SVG
-    of its record over time with `caption` printed under it.
+def write_report_pages(write, pages, cautions, caption, script, images: bool) -> None:
+    """Write each test's page (``specimens/NAME.html``), linking, with `images`, the PNG and
+    SVG of its record over time (:func:`write_report_images` writes them).
 
     `write` is called as ``write(relative, kind, data)``; `script` is the pack's
-    :class:`kitchen.memo.markup.ChartScript`. `requested` holds the images already asked
-    of Chromium (:func:`kitchen.memo._export.request_images`, by page name); without it
-    every image is asked for first, and drawn while the pages are written.
+    :class:`kitchen.memo.markup.ChartScript`; the last line of `caption` is the page's
+    provenance line.
     """
-    from ._export import figure_html, request_images
-    from .images import image_result
+    from ._export import figure_html
 
-    if images and requested is None:
-        requested = request_images([(page.name, page.figure) for page in pages], caption)
     for page in pages:
         shown = tuple(f"{page.name}.{ext}" for ext in ("png", "svg") if images)
         write(
@@ -499,7 +493,16 @@ def write_report_pages(
                 script.element("specimens"),
             ).encode("utf-8"),
         )
-        for ext in ("png", "svg") if images else ():
+
+
+def write_report_images(write, pages, requested: dict) -> None:
+    """Write the PNG and SVG of each test's record over time (``specimens/NAME.png`` and
+    ``.svg``) as Chromium hands them back: `requested` holds them by (page name, format),
+    asked for with the caption already (:func:`kitchen.memo._export.request_images`)."""
+    from .images import image_result
+
+    for page in pages:
+        for ext in ("png", "svg"):
             write(
                 f"specimens/{page.name}.{ext}",
                 "test page",

@@ -302,7 +302,12 @@ def test_command_line_writes_the_pack_with_images(cli_pack):
     assert done.returncode == 0, done.stderr
     progress = [line for line in done.stderr.splitlines() if line.startswith("[")]
     total = int(re.match(r"\[1/(\d+)\] table results.csv$", progress[0]).group(1))
-    assert len(progress) == total and progress[-1] == f"[{total}/{total}] document report.docx"
+    assert len(progress) == total
+    # the test pages' images come last, drawn while the report and the document are written
+    tests = sorted(out.glob("specimens/*.html"))
+    later = total - 2 * len(tests)
+    assert progress[later - 1] == f"[{later}/{total}] document report.docx"
+    assert progress[-1] == f"[{total}/{total}] test page specimens/{tests[-1].stem}.svg"
     assert progress[2] == f"[3/{total}] script {CHART_SCRIPT}"
     assert f"[6/{total}] chart charts/conductivity_void_ratio.svg" in progress
     pngs, svgs = sorted(out.glob("charts/*.png")), sorted(out.glob("charts/*.svg"))
