@@ -303,7 +303,18 @@ def export_memo_pack(
         started,
         hashes,
     )
-    charts, skipped = memo_charts(workspace, analysis, ku.unit, du.unit)
+    caption = _caption(provenance, criterion_text)
+    # every image is asked for as soon as its figure exists, before the first file is
+    # written: Chromium draws the charts while the next charts and the test pages are
+    # built, and the rest while the tables and pages are written
+    chart_images: dict = {}
+    page_images = None
+
+    def ask(name: str, figure) -> None:
+        if images:
+            chart_images.update(request_images([(name, figure)], caption))
+
+    charts, skipped = memo_charts(workspace, analysis, ku.unit, du.unit, on_chart=ask)
     tables = {
         "specimens": specimens_table(analysis, ku.unit, du.unit),
         "tests": workspace.results_table(),
@@ -325,12 +336,7 @@ def export_memo_pack(
     steps += ["report.html", "report.docx"]
     steps += [f"specimens/{page.name}.{ext}" for page in pages for ext in formats[1:]]
     write = PackWriter(staged, steps, progress)
-    caption = _caption(provenance, criterion_text)
-    # every image is asked for before the first file is written: Chromium draws them while
-    # the tables and pages are written
-    chart_images = page_images = None
     if images:
-        chart_images = request_images([(name, figure) for name, _, figure in charts], caption)
         page_images = request_images([(page.name, page.figure) for page in pages], caption)
     with staged:
         write(
