@@ -161,6 +161,7 @@ class _ImageServer:
         self.thread.start()
         self.renderers: list = []
         self.pages = 1  # pages opened or opening
+        self.settled: set[int] = set()  # renderers whose page kaleido may draw in
         self.answered = False
         self.waiting = 0  # images asked for and not yet drawing (counted on the loop)
         self.free: asyncio.Queue | None = None  # renderers whose page is free
@@ -174,13 +175,25 @@ class _ImageServer:
         renderer = _renderer_class()(mathjax=False, n=1)
         self.renderers.append(renderer)  # closed at the end even when half open
         await renderer.open()
-        # kaleido takes a page's script context from the first one reported after it
-        # navigates, which can be the blank page's it replaces (then no image is drawn);
-        # one reload of the page, once, takes the context of the page itself.
-        page = await renderer.tabs_ready.get()
-        await page.reload()
-        await renderer.tabs_ready.put(page)
         await self.free.put(renderer)
+
+    async def _settle(self, renderer) -> None:
+        """Reload a renderer's page once, before kaleido first draws in it.
+
+        kaleido takes a page's script context from the first one reported after it
+        navigates, which can be the blank page's it replaces (then no image is drawn); one
+        reload, once, takes the context of the page itself. The drawings of
+        :func:`request_png_svg` run in the page's own context and need none, so a pack
+        without WebGL figures never pays for it (a page's load costs about 0.3 s again).
+        """
+        if id(renderer) in self.settled:
+            return
+        page = await renderer.tabs_ready.get()
+        try:
+            await page.reload()
+        finally:
+            await renderer.tabs_ready.put(page)
+        self.settled.add(id(renderer))
 
     def _second_page(self) -> None:
         """Open another page when the backlog repays it; one that fails is done without."""
@@ -198,6 +211,7 @@ class _ImageServer:
         finally:
             self.waiting -= 1
         try:
+            await self._settle(renderer)
             return await renderer.calc_fig(figure_dict, opts=options)
         finally:
             self.free.put_nowait(renderer)

@@ -174,3 +174,24 @@ def test_a_long_backlog_opens_a_second_page_and_its_images_are_the_same(monkeypa
     assert len(server.renderers) == server.pages
     for png, svg in later:
         assert png == first[0] and _without_ids(svg) == _without_ids(first[1])
+
+
+@needs_chromium
+def test_one_drawing_needs_no_reload_of_a_freshly_opened_page():
+    # in a process of its own, so that no image drawn by kaleido before has reloaded it
+    import subprocess
+    import sys
+
+    script = (
+        "import plotly.graph_objects as go\n"
+        "from kitchen.memo import images\n"
+        "png, svg = images.request_png_svg(go.Figure(go.Scatter(x=[0, 1], y=[1, 0])))\n"
+        "png, svg = images.image_result(png), images.image_result(svg)\n"
+        "assert png[:8] == b'\\x89PNG\\r\\n\\x1a\\n' and svg[:4] == b'<svg', (png[:8], svg[:4])\n"
+        "print(len(images._image_server['server'].settled))\n"
+    )
+    done = subprocess.run(
+        [sys.executable, "-c", script], capture_output=True, text=True, timeout=300
+    )
+    assert done.returncode == 0, done.stderr
+    assert done.stdout.strip() == "0"  # no page was reloaded
