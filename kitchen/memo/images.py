@@ -202,14 +202,18 @@ class _ImageServer:
             task = self.loop.create_task(self._open_page())
             task.add_done_callback(lambda done: done.cancelled() or done.exception())
 
-    async def _image(self, figure_dict: dict, options: dict) -> bytes:
-        self.waiting += 1
+    async def _free_renderer(self, images: int):
+        """A renderer whose page is free, once the first is open; `images` wait meanwhile."""
+        self.waiting += images
         try:
             await asyncio.wrap_future(self.opened)
             self._second_page()
-            renderer = await self.free.get()
+            return await self.free.get()
         finally:
-            self.waiting -= 1
+            self.waiting -= images
+
+    async def _image(self, figure_dict: dict, options: dict) -> bytes:
+        renderer = await self._free_renderer(1)
         try:
             await self._settle(renderer)
             return await renderer.calc_fig(figure_dict, opts=options)
@@ -217,13 +221,7 @@ class _ImageServer:
             self.free.put_nowait(renderer)
 
     async def _png_svg(self, figure_json: str, width, height) -> tuple[bytes, bytes]:
-        self.waiting += 2
-        try:
-            await asyncio.wrap_future(self.opened)
-            self._second_page()
-            renderer = await self.free.get()
-        finally:
-            self.waiting -= 2
+        renderer = await self._free_renderer(2)
         try:
             page = await renderer.tabs_ready.get()
             try:
