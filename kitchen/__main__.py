@@ -11,6 +11,7 @@ from kitchen.memo.images import start_for_command
 
 start_for_command(sys.argv[1:])
 
-from kitchen.cli import main  # noqa: E402  (after Chromium is on its way)
+from kitchen.cli import main, return_freed_memory  # noqa: E402  (after Chromium is on its way)
 
+return_freed_memory()
 raise SystemExit(main())

@@ -575,6 +575,36 @@ def shown(text: str) -> str:
     return printable(text)
 
 
+MMAP_THRESHOLD = 1 << 17
+"""Bytes from which the C allocator maps a block of its own (its default start, 128 KiB)."""
+
+
+def return_freed_memory() -> bool:
+    """Have the C allocator give large freed blocks back to the system at once.
+
+    glibc raises its threshold for mapping a block of its own each time such a block is
+    freed (up to 32 MiB), so after the CSV parser's first chunks the arrays of a logger
+    record are carved out of the heap, which is not given back while anything above them
+    lives: a ``report`` on 10⁷ readings then peaks some 100 MB higher. Fixing the threshold
+    (``mallopt(M_MMAP_THRESHOLD, 128 KiB)``, documented in ``man 3 mallopt``) keeps every
+    array of a megabyte or more in a mapping of its own, returned when freed. Called once by
+    ``python -m kitchen``; elsewhere (another C library, another system) it does nothing
+    and returns False.
+    """
+    import ctypes
+    import ctypes.util
+
+    if not sys.platform.startswith("linux"):
+        return False
+    try:
+        library = ctypes.CDLL(ctypes.util.find_library("c") or "libc.so.6")
+        mallopt = library.mallopt
+    except (OSError, AttributeError):
+        return False
+    m_mmap_threshold = -3  # from glibc's malloc.h
+    return bool(mallopt(m_mmap_threshold, MMAP_THRESHOLD))
+
+
 def main(argv: list[str] | None = None) -> int:
     """Entry point; returns the exit status.
 

@@ -20,7 +20,7 @@ from revision_series import log_rows
 from series_files import SAMPLES, copy_sample
 
 from kitchen.analysis import NO_CRITERION, parse_criterion
-from kitchen.io import files
+from kitchen.memo import manifest
 from kitchen.revisions import revise, revisions_path
 
 
@@ -219,10 +219,26 @@ def test_export_failure_leaves_the_previous_report(clay, tmp_path, monkeypatch):
     assert "results.csv" in previous
     revise(clay, specimen="QF-01", field="height", value="4.95 in", reason="re-measured")
 
-    def full_disk(*arguments):
-        raise OSError(28, "No space left on device")
+    class FullDisk:  # the pack's first file: created, then the disk is full mid-write
+        def __init__(self, path, mode):
+            self.stream = open(path, mode)  # noqa: SIM115 - closed in __exit__
 
-    monkeypatch.setattr(files.os, "replace", full_disk)
+        def __enter__(self):
+            return self
+
+        def __exit__(self, *details):
+            self.stream.close()
+
+        def write(self, data):
+            self.stream.write(data[:100])
+            raise OSError(28, "No space left on device")
+
+    def opened(path, mode="r", *arguments, **keywords):  # the pack's new files only
+        if mode == "xb":
+            return FullDisk(path, mode)
+        return open(path, mode, *arguments, **keywords)  # noqa: SIM115 - the caller's
+
+    monkeypatch.setattr(manifest, "open", opened, raising=False)
     done = run_cli("report", clay, "--out", out, "--no-images")
     monkeypatch.undo()
     assert done.returncode == 2
@@ -418,3 +434,35 @@ def test_field_check_names_every_bad_cell_and_exits_2(tmp_path):
     assert "site.csv, row 2, column 'water_content [%]', test T1: expected a number" in err
     assert "site.csv, row 1, column 'dry_density': 'dry_density' has a dimension" in err
     assert not (tmp_path / "out").exists()
+
+
+_FREED_SCRIPT = """
+import sys, numpy as np
+from kitchen.cli import return_freed_memory
+def resident():
+    return int(next(l for l in open('/proc/self/status') if l.startswith('VmRSS')).split()[1])
+if sys.argv[1] == "fixed":
+    assert return_freed_memory()
+keep = []
+for _ in range(3):  # each freed 16 MB array raises glibc's threshold past the next one
+    a = np.ones(2_000_000); keep.append(np.ones(100)); del a
+before = resident(); a = np.ones(2_000_000); keep.append(np.ones(100)); during = resident()
+del a
+print(during - resident())
+"""
+
+
+@pytest.mark.skipif(not sys.platform.startswith("linux"), reason="glibc's allocator only")
+def test_freed_arrays_go_back_to_the_system_in_the_command_line_process():
+    # mallopt(M_MMAP_THRESHOLD) fixes glibc's threshold (man 3 mallopt): a freed array of
+    # 16 MB is then unmapped at once and the resident memory falls by it; left to itself,
+    # glibc keeps it in the heap for reuse. Each case in a process of its own.
+    def returned(case: str) -> int:
+        run = subprocess.run(
+            [sys.executable, "-c", _FREED_SCRIPT, case], capture_output=True, text=True, check=True
+        )
+        return int(run.stdout)  # KiB given back when the array was freed
+
+    assert returned("fixed") > 15_000 > returned("default")
+    main_text = (Path(__file__).parents[1] / "kitchen" / "__main__.py").read_text()
+    assert "return_freed_memory()" in main_text

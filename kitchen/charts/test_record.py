@@ -9,13 +9,16 @@ whose quantity was not measured says so in words rather than staying empty.
 
 from __future__ import annotations
 
+import copy
+import functools
+
 import numpy as np
 import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
 from kitchen.display_units import k_unit as k_display_unit
 
-from .style import INK, MUTED, WIDTH, decimation_indices, memo_template
+from .style import INK, MUTED, WIDTH, cached_memo_template, decimation_indices
 
 __all__ = ["flow_record_figure"]
 
@@ -60,7 +63,97 @@ def flow_record_figure(
     """
     unit = k_display_unit(k_unit)
     hours = 3600.0
-    figure = make_subplots(
+    # the figure gathered as plain dicts and validated once (make_subplots' grid, built
+    # once a title set): a pack of many tests draws one of these a test
+    layout = copy.deepcopy(_grid(reference))
+    data = []
+    positive = flow.k > 0
+    for row, (x_values, symbol) in enumerate(
+        ((flow.k_time[positive] / hours, "circle"), (flow.k_pore_volumes[positive], "square")),
+        start=1,
+    ):
+        x, y = _thin(x_values, flow.k[positive] * unit.factor)
+        data.append(
+            dict(
+                type="scatter",
+                x=x,
+                y=y,
+                mode="markers+lines",
+                name=f"{reference} [{unit.unit}]",
+                marker={"color": INK, "size": 6, "symbol": symbol},
+                line={"color": MUTED, "width": 1},
+                xaxis=_AXES[row][0],
+                yaxis=_AXES[row][1],
+            )
+        )
+    if flow.ratio.size:
+        x, y = _thin(flow.ratio_time / hours, flow.ratio)
+        data.append(
+            dict(
+                type="scatter",
+                x=x,
+                y=y,
+                mode="markers",
+                name="outflow/inflow",
+                marker={"color": INK, "size": 6, "symbol": "diamond"},
+                xaxis="x3",
+                yaxis="y3",
+            )
+        )
+        layout["shapes"] = [
+            dict(
+                type="rect",
+                x0=0,
+                x1=1,
+                xref="x3 domain",
+                y0=ratio_band[0],
+                y1=ratio_band[1],
+                yref="y3",
+                fillcolor="#2e6b57",
+                opacity=0.08,
+                line={"width": 0},
+            )
+        ]
+    else:
+        layout["annotations"].append(
+            dict(
+                text="outflow/inflow not measured (no inflow and outflow readings)",
+                showarrow=False,
+                xref="x3 domain",
+                yref="y3 domain",
+                x=0.5,
+                y=0.5,
+                font={"color": MUTED},
+            )
+        )
+    k_title = f"{reference} [{unit.unit}]"
+    for axis in ("yaxis", "yaxis2"):  # powers of ten as the other k axes, not SI prefixes
+        layout[axis].update(
+            type="log", title={"text": k_title}, exponentformat="power", showexponent="all"
+        )
+    layout["yaxis3"]["title"] = {"text": "outflow/inflow [-]"}
+    layout["xaxis"]["title"] = {"text": "elapsed time [h]"}
+    layout["xaxis2"]["title"] = {"text": "pore volumes of flow [-]"}
+    layout["xaxis3"]["title"] = {"text": "elapsed time [h]"}
+    layout.update(
+        template=cached_memo_template(),
+        title={"text": title},
+        width=WIDTH,
+        height=900,
+        showlegend=False,
+    )
+    return go.Figure({"data": data, "layout": layout})
+
+
+_AXES = {1: ("x", "y"), 2: ("x2", "y2"), 3: ("x3", "y3")}
+"""The axes of each panel, top to bottom."""
+
+
+@functools.lru_cache(maxsize=8)
+def _grid(reference: str) -> dict:
+    """The three panels' axes and titles as :func:`plotly.subplots.make_subplots` lays them
+    out (one column, vertical spacing 0.11), as a plain dict; built once a k name."""
+    layout = make_subplots(
         rows=3,
         cols=1,
         vertical_spacing=0.11,
@@ -69,71 +162,6 @@ def flow_record_figure(
             f"{reference} against pore volumes of flow",
             "outflow/inflow against time",
         ),
-    )
-    positive = flow.k > 0
-    for row, (x_values, symbol) in enumerate(
-        ((flow.k_time[positive] / hours, "circle"), (flow.k_pore_volumes[positive], "square")),
-        start=1,
-    ):
-        x, y = _thin(x_values, flow.k[positive] * unit.factor)
-        figure.add_trace(
-            go.Scatter(
-                x=x,
-                y=y,
-                mode="markers+lines",
-                name=f"{reference} [{unit.unit}]",
-                marker={"color": INK, "size": 6, "symbol": symbol},
-                line={"color": MUTED, "width": 1},
-            ),
-            row=row,
-            col=1,
-        )
-    if flow.ratio.size:
-        x, y = _thin(flow.ratio_time / hours, flow.ratio)
-        figure.add_trace(
-            go.Scatter(
-                x=x,
-                y=y,
-                mode="markers",
-                name="outflow/inflow",
-                marker={"color": INK, "size": 6, "symbol": "diamond"},
-            ),
-            row=3,
-            col=1,
-        )
-        figure.add_hrect(
-            y0=ratio_band[0],
-            y1=ratio_band[1],
-            fillcolor="#2e6b57",
-            opacity=0.08,
-            line_width=0,
-            row=3,
-            col=1,
-        )
-    else:
-        figure.add_annotation(
-            text="outflow/inflow not measured (no inflow and outflow readings)",
-            showarrow=False,
-            xref="x3 domain",
-            yref="y3 domain",
-            x=0.5,
-            y=0.5,
-            font={"color": MUTED},
-        )
-    for row in (1, 2):  # powers of ten as the other k axes, not SI prefixes ("520p")
-        figure.update_yaxes(
-            type="log",
-            title_text=f"{reference} [{unit.unit}]",
-            exponentformat="power",
-            showexponent="all",
-            row=row,
-            col=1,
-        )
-    figure.update_yaxes(title_text="outflow/inflow [-]", row=3, col=1)
-    figure.update_xaxes(title_text="elapsed time [h]", row=1, col=1)
-    figure.update_xaxes(title_text="pore volumes of flow [-]", row=2, col=1)
-    figure.update_xaxes(title_text="elapsed time [h]", row=3, col=1)
-    figure.update_layout(
-        template=memo_template(), title={"text": title}, width=WIDTH, height=900, showlegend=False
-    )
-    return figure
+    ).layout.to_plotly_json()
+    layout.pop("template", None)  # the memo's own is set on each figure
+    return layout

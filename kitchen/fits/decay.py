@@ -102,9 +102,13 @@ class DecayFit:
 
     def predict(self, t) -> np.ndarray:
         """Fitted head at times `t`. [head unit]"""
-        t = np.asarray(t, dtype=np.float64)
-        decay = np.exp(-(t - self.start_time) / self.time_constant)
-        return self.asymptote + (self.initial - self.asymptote) * decay
+        fitted = np.subtract(np.asarray(t, dtype=np.float64), self.start_time)  # one new array
+        np.negative(fitted, out=fitted)
+        fitted /= self.time_constant
+        np.exp(fitted, out=fitted)  # exp(-(t - t0)/tau)
+        fitted *= self.initial - self.asymptote
+        fitted += self.asymptote
+        return fitted
 
 
 @dataclass(frozen=True)

@@ -96,7 +96,10 @@ class LinearFit:
 
     def predict(self, x) -> np.ndarray:
         """Fitted mean response at `x`. [y unit]"""
-        return self.y_mean + self.slope * (np.asarray(x, dtype=np.float64) - self.x_mean)
+        fitted = np.subtract(np.asarray(x, dtype=np.float64), self.x_mean)  # one new array
+        fitted *= self.slope
+        fitted += self.y_mean
+        return fitted
 
     def band(self, x) -> tuple[np.ndarray, np.ndarray]:
         """Confidence band ``(low, high)`` of the mean response at `x`. [y unit]

@@ -158,21 +158,19 @@ def document_bytes(title: str, blocks) -> bytes:
             for item in block.items:
                 document.add_paragraph(item, style="List Bullet")
         elif isinstance(block, Table):
-            table = document.add_table(rows=1, cols=len(block.header))
+            # every row made at once and each cell written once (a row added at a time
+            # costs about 1.5 ms: a pack of 1 000 tests has tables of 1 000 rows)
+            table = document.add_table(rows=1 + len(block.rows), cols=len(block.header))
             table.style = "Table Grid"
-            for cell, text in zip(table.rows[0].cells, block.header, strict=True):
-                cell.text = text
-                for run in cell.paragraphs[0].runs:
-                    run.bold = True
-            for row in block.rows:
-                cells = table.add_row().cells
-                for cell, text in zip(cells, row, strict=True):
+            size = Pt(8)
+            for number, (row, texts) in enumerate(
+                zip(table.rows, [block.header, *block.rows], strict=True)
+            ):
+                for cell, text in zip(row.cells, texts, strict=True):
                     cell.text = text
-            for row in table.rows:
-                for cell in row.cells:
-                    for paragraph in cell.paragraphs:
-                        for run in paragraph.runs:
-                            run.font.size = Pt(8)
+                    for run in cell.paragraphs[0].runs:
+                        run.font.size = size
+                        run.bold = True if number == 0 else None
             if block.caption:
                 document.add_paragraph(block.caption, style="Caption")
         elif isinstance(block, Image):

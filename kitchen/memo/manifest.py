@@ -9,7 +9,8 @@ that lists nothing, are each named.
 
 A pack is never written file by file into the folder asked for. :class:`StagedPack`
 builds it in a sibling folder (``.NAME.kitchen-new-XXXXXXXX``, on the same file system)
-and, once every file and the manifest are in place, swaps it in whole: the folder holds
+and, once every file and the manifest are in place and flushed to disk together, swaps it
+in whole: the folder holds
 the previous pack or the new one, never a mixture, whatever stops the export (an error,
 a full disk, the process killed). The previous pack, swapped out, is then removed file by
 file, and only what the tool can prove it wrote: a regular file (not a link) inside that
@@ -37,7 +38,7 @@ import tempfile
 import warnings
 from pathlib import Path, PurePosixPath
 
-from kitchen.io import atomic_write_bytes, sync_folder
+from kitchen.io import sync_folder
 
 __all__ = [
     "MANIFEST",
@@ -218,6 +219,55 @@ def _marked_here(folder: Path) -> bool:
     return not (folder / PACK_MARK).is_symlink() and mark == _mark(folder, manifest)
 
 
+def _write_new(path: Path, data: bytes) -> None:
+    """Write a new file of a pack being built (its folder the tool's own, not yet swapped
+    in): written whole, no temporary file, not flushed one by one (:func:`_flush_folder`
+    flushes them all before the swap); a file cut short by an error is removed."""
+    path.parent.mkdir(parents=True, exist_ok=True)
+    try:
+        with open(path, "xb") as stream:  # never over a file: each is written once
+            stream.write(data)
+    except BaseException:
+        path.unlink(missing_ok=True)
+        raise
+
+
+def _flush_folder(folder: Path, relatives) -> None:
+    """Put every file of a pack being built, and its folders, on disk before the swap.
+
+    One ``syncfs`` of the folder's file system where Linux has it (a pack of a thousand
+    tests writes thousands of files; a flush each costs about 5 ms here), else an
+    ``fsync`` of each file; then each folder's entries (:func:`kitchen.io.sync_folder`).
+    """
+    if not _sync_file_system(folder):
+        for relative in relatives:
+            handle = os.open(folder / relative, os.O_RDONLY)
+            try:
+                os.fsync(handle)
+            finally:
+                os.close(handle)
+    folders = {(folder / relative).parent for relative in relatives}
+    for each in sorted(folders, key=lambda path: len(path.parts), reverse=True):
+        sync_folder(each)
+
+
+def _sync_file_system(folder: Path) -> bool:
+    """``syncfs`` (Linux, ``man 2 syncfs``) of the file system holding `folder`; False
+    where the system has none or it fails (the caller then flushes file by file)."""
+    if not hasattr(os, "uname") or os.uname().sysname != "Linux":
+        return False
+    try:
+        libc = ctypes.CDLL(ctypes.util.find_library("c") or "libc.so.6", use_errno=True)
+        syncfs = libc.syncfs
+    except (OSError, AttributeError):
+        return False
+    handle = os.open(folder, os.O_RDONLY)
+    try:
+        return syncfs(handle) == 0
+    finally:
+        os.close(handle)
+
+
 def _exchange(first: Path, second: Path) -> bool:
     """Swap two folders in one step (Linux ``renameat2`` with ``RENAME_EXCHANGE``); False
     where the system cannot."""
@@ -307,7 +357,7 @@ class StagedPack:
         if relative in self.entries or relative in (MANIFEST, PACK_MARK):
             raise ValueError(f"{relative}: written twice in one pack")
         try:
-            atomic_write_bytes(self.staging / relative, data)
+            _write_new(self.staging / relative, data)
         except OSError as error:
             if error.errno not in (errno.ENOSPC, errno.EDQUOT):
                 raise
@@ -328,8 +378,9 @@ class StagedPack:
             The manifest, and the files of the previous pack this one no longer has.
         """
         manifest = manifest_bytes(self.entries)
-        atomic_write_bytes(self.staging / MANIFEST, manifest)
-        atomic_write_bytes(self.staging / PACK_MARK, _mark(self.staging, manifest))
+        _write_new(self.staging / MANIFEST, manifest)
+        _write_new(self.staging / PACK_MARK, _mark(self.staging, manifest))
+        _flush_folder(self.staging, [*self.entries, MANIFEST, PACK_MARK])
         previous = self.previous
         if not previous:  # no folder, or an empty one, which a rename replaces (POSIX)
             os.rename(self.staging, self.out)

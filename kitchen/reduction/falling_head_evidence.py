@@ -21,7 +21,6 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from functools import cached_property
 
 import numpy as np
 
@@ -75,7 +74,6 @@ class FallingHeadAnalysis:
     window_proposed: bool
     time: np.ndarray
     head: np.ndarray
-    corrected_head: np.ndarray
     reference_time: np.ndarray
     capillary_rise: float
     asymptote: float
@@ -127,6 +125,11 @@ class FallingHeadAnalysis:
         return self.time[self.start : self.stop]
 
     @property
+    def corrected_head(self) -> np.ndarray:
+        """Heads less the capillary rise, every reading (formed when read). [m]"""
+        return self.head - self.capillary_rise if self.capillary_rise else self.head
+
+    @property
     def increment_time(self) -> np.ndarray:
         """Middle time of each pair of successive readings. [s]"""
         return 0.5 * (self.time[1:] + self.time[:-1])
@@ -145,19 +148,25 @@ class FallingHeadAnalysis:
             log_head = np.log(head - self.asymptote if self.decay is not None else head)
             return self.scale * -np.diff(log_head) / np.diff(self.reference_time)
 
-    @cached_property
+    @property
     def fitted_head(self) -> np.ndarray:
-        """The fitted head at each reading of the window, as recorded (with h∞ and hc). [m]"""
+        """The fitted head at each reading of the window, as recorded (with h∞ and hc). [m]
+
+        Formed when read, not kept: an analysis of 10⁶ readings holds no array of the
+        window's length for a chart drawn once."""
         tau = self.reference_time[self.start : self.stop]
         if self.decay is not None:
             return self.capillary_rise + self.decay.predict(tau)
         if self.line is not None:
-            return self.capillary_rise + np.exp(self.line.predict(tau))
+            fitted = self.line.predict(tau)  # hc + exp(fitted ln h), in that one array
+            np.exp(fitted, out=fitted)
+            fitted += self.capillary_rise
+            return fitted
         h = self.corrected_head[self.start : self.stop]
         rate = np.log(h[0] / h[1]) / (tau[1] - tau[0])
         return self.capillary_rise + h[0] * np.exp(-rate * (tau - tau[0]))
 
-    @cached_property
+    @property
     def head_residuals(self) -> np.ndarray:
         """Recorded minus fitted head over the window. [m]"""
         return self.head[self.start : self.stop] - self.fitted_head
@@ -378,7 +387,7 @@ def window_interval(
     tolerance = 0.0 if datum_fitted else settings.datum_uncertainty
     datum = (rectangular_quantity(DATUM, 0.0, 2.0 * tolerance),) if tolerance > 0 else ()
     if fitted is None:  # two readings: their resolutions enter directly
-        h1, h2 = (float(h) for h in record.corrected_head[start : start + 2])
+        h1, h2 = (float(h) for h in record.corrected(start, start + 2))
         t1, t2 = (float(t) for t in record.time[start : start + 2])
         readings = (
             rectangular_quantity("first head", h1, resolutions.head_scale),
@@ -399,7 +408,7 @@ def window_interval(
     elif datum:
         readings = datum
         sensitivity = datum_sensitivity(
-            record.reference_time[start:stop], record.corrected_head[start:stop]
+            record.reference_time[start:stop], record.corrected(start, stop)
         )
 
         def factor(values):
@@ -475,7 +484,7 @@ def _window_bend(record, start, datum) -> int:
         return -1
     if not math.isfinite(datum):
         return 0
-    heads = record.corrected_head[start:] - datum
+    heads = record.corrected(start) - datum
     if not np.all(heads > 0):
         return -1
     test = curvature_test(

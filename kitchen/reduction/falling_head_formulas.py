@@ -23,6 +23,7 @@ rise in standpipes (from memory).
 from __future__ import annotations
 
 import numpy as np
+import pandas as pd
 
 from kitchen.water import viscosity_ratio, water_density, water_surface_tension
 
@@ -136,6 +137,19 @@ def rising_tailwater_conductivity(
     return falling_head_conductivity(effective, flow_length, area, head_start, head_end, elapsed)
 
 
+def per_distinct_value(values: np.ndarray, function, probe: int = 4096, few: int = 256):
+    """``function(values)`` for an element-by-element `function`, evaluated once per
+    distinct value when the values repeat (a logger's temperatures: a few dozen values,
+    read to 0.01 °C, over 10⁶ readings), else on every value: the same numbers either way.
+
+    Whether they repeat is judged on the first `probe` values (at most `few` distinct).
+    """
+    if values.size > probe and np.unique(values[:probe]).size <= few:
+        codes, distinct = pd.factorize(values)
+        return np.asarray(function(distinct), dtype=float)[codes]
+    return function(values)
+
+
 def reference_elapsed_time(time, temperature, reference_temperature=20.0, viscosity="kestin"):
     """Elapsed time scaled to the reference temperature, ∫ dt / R_T.
 
@@ -164,8 +178,11 @@ def reference_elapsed_time(time, temperature, reference_temperature=20.0, viscos
     Darcy's law and the viscosity ratio of ASTM D5084).
     """
     time = np.asarray(time, dtype=float)
-    inverse = 1.0 / np.asarray(
-        viscosity_ratio(np.asarray(temperature, dtype=float), reference_temperature, viscosity)
+    inverse = per_distinct_value(
+        np.asarray(temperature, dtype=float),
+        lambda values: (
+            1.0 / np.asarray(viscosity_ratio(values, reference_temperature, viscosity), dtype=float)
+        ),
     )
     steps = np.diff(time) * 0.5 * (inverse[1:] + inverse[:-1])
     return np.concatenate(([0.0], np.cumsum(steps)))

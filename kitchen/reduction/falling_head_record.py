@@ -105,7 +105,8 @@ class FallingHeadRecord:
     time, head : numpy.ndarray
         The readings as given. [s], [m]
     corrected_head, log_head : numpy.ndarray
-        Heads less the capillary rise, and their logarithm. [m], [-]
+        Heads less the capillary rise (formed when read: :meth:`corrected`), and their
+        logarithm. [m], [-]
     reference_time : numpy.ndarray
         Reference-equivalent time from the first reading (the elapsed time when no
         temperature is recorded). [s]
@@ -263,7 +264,7 @@ class FallingHeadRecord:
         """The datum-fitted decay over every reading (formed on first use, where the full
         record curves:
         :func:`~kitchen.reduction.falling_head_evidence.full_record_evidence`)."""
-        fit = fit_exponential_decay(self.reference_time, self.corrected_head)
+        fit = fit_exponential_decay(self.reference_time, self.corrected())
         # judged by its datum and time constant alone: its residuals, an array of the
         # record's length, are not kept
         return replace(fit, residuals=np.empty(0))
@@ -342,7 +343,7 @@ class FallingHeadRecord:
         else:
             rise = 0.0
         self.capillary_rise = rise
-        corrected = self.head - rise if rise else self.head
+        corrected = self.corrected()
         bad = np.flatnonzero(corrected <= 0)
         if bad.size:
             i = int(bad[0])
@@ -351,8 +352,23 @@ class FallingHeadRecord:
                 f"{self.head[i] * 1e3:.1f} mm is not above the capillary rise {rise * 1e3:.1f} mm; "
                 "check the capillary-rise value or the standpipe bore"
             )
-        self.corrected_head = corrected
-        self.log_head = np.log(corrected)
+        if rise:  # `corrected` is an array of its own: its logarithm is taken in place
+            self.log_head = np.log(corrected, out=corrected)
+        else:
+            self.log_head = np.log(corrected)
+
+    def corrected(self, start: int = 0, stop: int | None = None) -> np.ndarray:
+        """Heads of readings ``start`` to ``stop - 1`` less the capillary rise. [m]
+
+        Formed when asked for (the heads themselves when there is no rise), so a record
+        of 10⁷ readings holds no second array of heads beside ln h."""
+        head = self.head[start:stop]
+        return head - self.capillary_rise if self.capillary_rise else head
+
+    @property
+    def corrected_head(self) -> np.ndarray:
+        """Heads less the capillary rise, every reading (:meth:`corrected`). [m]"""
+        return self.corrected()
 
     # ---------------------------------------------------------------- windows
     def _checked_window(self, window) -> tuple[int, int]:
@@ -461,7 +477,7 @@ def _analyse(
     n = stop - start
     sl = slice(start, stop)
     tau = record.reference_time[sl]
-    heads = record.corrected_head[sl]
+    heads = record.corrected(start, stop)
     missing = int(np.searchsorted(record._missing, stop) - np.searchsorted(record._missing, start))
     if not record.temperature_recorded:
         notes.append(
@@ -627,7 +643,6 @@ def _analyse(
         window_proposed=proposed,
         time=record.time,
         head=record.head,
-        corrected_head=record.corrected_head,
         reference_time=record.reference_time,
         capillary_rise=record.capillary_rise,
         asymptote=float(asymptote),
@@ -792,7 +807,7 @@ def _propose_datum(record, grid: int = 16, refinements: int = 8):
             )
             return proposal.start, True, reason, "log_linear", evidence
         reference = fit_exponential_decay(
-            record.reference_time[proposal.start :], record.corrected_head[proposal.start :]
+            record.reference_time[proposal.start :], record.corrected(proposal.start)
         )
     keep = max(math.ceil(criteria.window_minimum_fraction * record.n), record._minimum_readings())
     last_start = record.n - keep

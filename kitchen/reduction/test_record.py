@@ -10,6 +10,7 @@ during permeation (after consolidation in a flexible-wall cell).
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -25,18 +26,21 @@ class FlowRecord:
     """One test's flow over its course.
 
     ``time`` [s], ``inflow`` and ``outflow`` [m3] (cumulative from the first reading; NaN
-    where not measured), ``pore_volumes`` (cumulative inflow over the pore volume) at each
-    reading or collection; ``k_time`` [s], ``k`` [m/s] (at the reference temperature) and
-    ``k_pore_volumes`` at each step; ``ratio_time`` [s] and ``ratio`` (outflow/inflow over
-    each interval where both were measured; empty otherwise). ``void_volume`` [m3] is the
-    specimen's pore volume; ``notes`` say how the flow was obtained.
+    where not measured), ``pore_volumes`` (the cumulative flow through the specimen over
+    the pore volume: the inflow of a falling-head test, the outflow collected in a
+    constant-head one; formed when read) at each reading or collection; ``k_time`` [s],
+    ``k`` [m/s] (at the reference temperature) and ``k_pore_volumes`` at each step;
+    ``ratio_time`` [s] and ``ratio`` (outflow/inflow over each interval where both were
+    measured; empty otherwise). ``void_volume`` [m3] is the specimen's pore volume;
+    ``notes`` say how the flow was obtained.
     """
 
     specimen: str
     time: np.ndarray
     inflow: np.ndarray
     outflow: np.ndarray
-    pore_volumes: np.ndarray
+    through: str
+    """Which volume passed through the specimen: ``"inflow"`` or ``"outflow"``."""
     k_time: np.ndarray
     k: np.ndarray
     k_pore_volumes: np.ndarray
@@ -46,10 +50,19 @@ class FlowRecord:
     notes: tuple[str, ...]
 
     @property
+    def pore_volumes(self) -> np.ndarray:
+        """Cumulative flow through the specimen over its pore volume, at each reading. [-]"""
+        return getattr(self, self.through) / self.void_volume
+
+    @property
     def total_pore_volumes(self) -> float:
         """Pore volumes of flow over the whole record."""
-        finite = self.pore_volumes[np.isfinite(self.pore_volumes)]
-        return float(finite[-1]) if finite.size else float("nan")
+        flow = getattr(self, self.through)
+        finite = np.isfinite(flow[::-1])  # the last finite value, no copy
+        last = int(np.argmax(finite))
+        if not (finite.size and finite[last]):
+            return math.nan
+        return float(flow[-1 - last] / self.void_volume)
 
 
 def _void_volume(permeation_row: pd.Series) -> float:
@@ -159,15 +172,15 @@ def falling_head_flow(analysis, record, permeation_row: pd.Series) -> FlowRecord
         inflow = record.inflow - record.inflow[np.isfinite(record.inflow)][0]
         notes.append("inflow as recorded")
     else:
-        inflow = record.standpipe_area * (head[0] - head)
+        inflow = np.subtract(head[0], head)
+        inflow *= record.standpipe_area  # a·(h0 − h), formed in one array
         notes.append("inflow from the fall of the head times the standpipe area, a·(h0 − h)")
     if record.outflow is not None and np.isfinite(record.outflow).any():
         outflow = record.outflow - record.outflow[np.isfinite(record.outflow)][0]
-    else:
-        outflow = np.full(time.size, np.nan)
+    else:  # NaN at every reading, without an array of the record's length (read-only)
+        outflow = np.broadcast_to(np.nan, time.shape)
         notes.append("outflow not recorded")
     void = _void_volume(permeation_row)
-    pore_volumes = inflow / void
     k_time, k = spans_conductivity(
         np.asarray(analysis.reference_time, dtype=float),
         np.asarray(analysis.corrected_head, dtype=float),
@@ -175,7 +188,8 @@ def falling_head_flow(analysis, record, permeation_row: pd.Series) -> FlowRecord
         record.scale,
         max(int(analysis.value_step), 1),
     )
-    k_pore_volumes = np.interp(k_time, time, pore_volumes) if time.size else k_time
+    # pore volumes at the spans' middles, interpolated in the inflow (linear, like it)
+    k_pore_volumes = np.interp(k_time, time, inflow) / void if time.size else k_time
     ratio_time, ratio = (
         _interval_ratio(time, inflow, outflow) if measured_in else (np.empty(0), np.empty(0))
     )
@@ -184,7 +198,7 @@ def falling_head_flow(analysis, record, permeation_row: pd.Series) -> FlowRecord
         time,
         inflow,
         outflow,
-        pore_volumes,
+        "inflow",
         k_time,
         k,
         k_pore_volumes,
@@ -219,16 +233,15 @@ def constant_head_flow(collections: pd.DataFrame, permeation_row: pd.Series) -> 
     time = np.cumsum(collections["duration"].to_numpy(float))
     outflow = np.cumsum(collections["flow_volume"].to_numpy(float))
     void = _void_volume(permeation_row)
-    pore_volumes = outflow / void
     return FlowRecord(
         str(permeation_row["specimen"]),
         time,
         np.full(time.size, np.nan),
         outflow,
-        pore_volumes,
+        "outflow",
         time,
         collections["k_reference"].to_numpy(float),
-        pore_volumes,
+        outflow / void,
         np.empty(0),
         np.empty(0),
         void,

@@ -74,6 +74,9 @@ from .digests import frame_digest, parts_digest, specimen_positions, specimen_sp
 
 __all__ = ["Workspace"]
 
+_UNKEYED = object()
+"""The key of a reduction held without the digest of its inputs (see Workspace._cached)."""
+
 READING_TABLES = ("constant_head", "falling_head")
 
 
@@ -179,15 +182,20 @@ class Workspace:
         return tables[name]
 
     def _index_readings(self, names) -> None:
-        """Each specimen's rows in the readings tables, and the digest of those rows."""
+        """Each specimen's rows in the readings tables; the digests of those rows are formed
+        when first asked for (:meth:`_reading_digest`)."""
         for name in names:
             frame = getattr(self._series, name)
             rows = specimen_spans(frame) if name == "falling_head" else specimen_positions(frame)
             self._rows[name] = rows
-            self._reading_digests[name] = {
-                specimen: frame_digest(self._slice(name, specimen), skip=("specimen",))
-                for specimen in rows
-            }
+            self._reading_digests[name] = {}
+
+    def _reading_digest(self, table: str, specimen: str) -> str:
+        """The digest of one specimen's rows of a readings table, formed once a table."""
+        digests = self._reading_digests[table]
+        if specimen not in digests:
+            digests[specimen] = frame_digest(self._slice(table, specimen), skip=("specimen",))
+        return digests[specimen]
 
     def _index_specimens(self) -> None:
         """Each specimen's row of the state table (as series_results takes them) and its
@@ -260,19 +268,31 @@ class Workspace:
         falling = table == "falling_head"
         return parts_digest(
             self._specimen_digests[specimen],
-            self._reading_digests[table][specimen],
+            self._reading_digest(table, specimen),
             self._settings_digest,
             self._window_of(specimen) if falling else None,
             self._rises.get(specimen) if falling else None,
         )
 
     def _inputs(self) -> dict[tuple[str, str], str]:
-        """The digest of every specimen's inputs to each of its reductions."""
-        return {
+        """The digest of every specimen's inputs to each of its reductions.
+
+        Every change of the inputs asks for them first (to tell what it moved), so this
+        is where a reduction kept without its digest (:data:`_UNKEYED`: reduced before any
+        change) is given the digest of the inputs it was reduced from.
+        """
+        inputs = {
             (specimen, table): self._key(specimen, table)
-            for table, digests in self._reading_digests.items()
-            for specimen in digests
+            for table, rows in self._rows.items()
+            for specimen in rows
         }
+        for held, (key, result) in list(self._cache.items()):
+            if key is _UNKEYED:
+                self._cache[held] = (inputs.get(held), result)
+        for specimen, (key, row_key, record) in list(self._records.items()):
+            if key is _UNKEYED:
+                self._records[specimen] = (self._readings_key(specimen), row_key, record)
+        return inputs
 
     # --- changes ---------------------------------------------------------------------------
     def sync(self) -> tuple[str, ...]:
@@ -435,9 +455,20 @@ class Workspace:
         return self._moved(before)
 
     # --- reductions ------------------------------------------------------------------------
-    def _cached(self, specimen: str, table: str, key: str, reduce):
+    def _cached(self, specimen: str, table: str, key, reduce):
+        """The reduction held for `specimen` while its inputs' digest is `key()`; else
+        `reduce()`, held. A first reduction is held without its digest (the digest of
+        10⁶ readings costs tens of milliseconds, and a report never changes its inputs):
+        it stands until the inputs change, and :meth:`_inputs` digests it first."""
         held = self._cache.get((specimen, table))
-        if held is not None and held[0] == key:
+        if held is None:
+            result = reduce()
+            self._cache[specimen, table] = (_UNKEYED, result)
+            return result
+        if held[0] is _UNKEYED:
+            return held[1]
+        key = key()
+        if held[0] == key:
             return held[1]
         result = reduce()
         self._cache[specimen, table] = (key, result)
@@ -447,11 +478,10 @@ class Workspace:
         """One specimen's falling-head analysis; from the cache while its inputs are unchanged."""
         if not self.has_readings(specimen):
             self.readings(specimen)  # raises, naming the specimen and the file
-        key = self._key(specimen, "falling_head")
         return self._cached(
             specimen,
             "falling_head",
-            key,
+            lambda: self._key(specimen, "falling_head"),
             lambda: self._analyse(specimen),
         )
 
@@ -470,13 +500,14 @@ class Workspace:
         without preparing the readings again.
         """
         readings = self.readings(specimen, "falling_head")
-        readings_key = parts_digest(
-            self._reading_digests["falling_head"][specimen],
-            self._settings_digest,
-            self._rises.get(specimen),
-        )
         row_key = self._specimen_digests[specimen]
         held = self._records.get(specimen)
+        if held is None:  # held without its digest (see _cached)
+            readings_key = _UNKEYED
+        elif held[0] is _UNKEYED:
+            readings_key = _UNKEYED  # nothing changed since it was prepared
+        else:
+            readings_key = self._readings_key(specimen)
         if held is None or held[0] != readings_key:
             record = FallingHeadRecord(
                 readings, self._state_rows[specimen], self._settings, self._rises.get(specimen)
@@ -488,10 +519,18 @@ class Workspace:
         self._records[specimen] = (readings_key, row_key, record)
         return record
 
+    def _readings_key(self, specimen: str) -> str:
+        """The digest of what a prepared record depends on: its readings, the settings and
+        the capillary rise."""
+        return parts_digest(
+            self._reading_digest("falling_head", specimen),
+            self._settings_digest,
+            self._rises.get(specimen),
+        )
+
     def constant_head(self, specimen: str) -> ConstantHeadAnalysis:
         """One specimen's constant-head analysis; from the cache while its inputs are unchanged."""
         collections = self.readings(specimen, "constant_head")
-        key = self._key(specimen, "constant_head")
         settings = self._settings
 
         def reduce():
@@ -500,7 +539,9 @@ class Workspace:
             )
             return constant_head_analysis(table, self._state_rows[specimen], settings)
 
-        return self._cached(specimen, "constant_head", key, reduce)
+        return self._cached(
+            specimen, "constant_head", lambda: self._key(specimen, "constant_head"), reduce
+        )
 
     def flow_record(self, specimen: str, table: str = "falling_head") -> FlowRecord:
         """One test's flow over its course: cumulative inflow and outflow, pore volumes of

@@ -7,6 +7,7 @@
 Targets (ratios measured in one run, commands in turn, medians of several rounds: the
 machine is shared, so no absolute time is judged):
 
+- start-up: ``python -m kitchen --help`` at most 1.5 times ``python -c "import pandas"``;
 - ``report`` end to end (results and the memo pack without images): the marginal cost of
   10^6 readings — one specimen of 10^6 readings against one of 10^2 — at most 1.5 times
   that of the plain script (``peer_report.py``: ``pandas.read_csv`` and
@@ -271,8 +272,29 @@ def scaling(work: Path, rounds: int, largest: int, most: int, with_images: bool)
     return rows
 
 
+def startup_case(rounds: int) -> dict[str, list[float]]:
+    """``python -m kitchen --help`` against ``python -c "import pandas"``, in turns."""
+    commands = {
+        "kitchen --help": [PYTHON, "-m", "kitchen", "--help"],
+        "import pandas": [PYTHON, "-c", "import pandas"],
+    }
+    return in_rounds(commands, max(rounds, 5))
+
+
 def targets(work: Path, rounds: int, large: bool, target) -> None:
     """Measure every target and hand each to `target(name, value, limit, detail[, unit])`."""
+    started = startup_case(rounds)
+    pairs = [
+        a / b for a, b in zip(started["kitchen --help"], started["import pandas"], strict=True)
+    ]
+    target(
+        "start-up: python -m kitchen --help / import pandas",
+        statistics.median(pairs),
+        1.5,
+        f"--help {statistics.median(started['kitchen --help']):.2f} s, import pandas "
+        f"{statistics.median(started['import pandas']):.2f} s (medians of "
+        f"{len(pairs)} rounds)",
+    )
     times, ours, theirs = marginal_case(work, rounds)
     median = {name: statistics.median(values) for name, values in times.items()}
     ratio = statistics.median(ours) / statistics.median(theirs)

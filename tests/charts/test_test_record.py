@@ -29,3 +29,21 @@ def test_a_test_without_volumes_says_so():
     figure = flow_record_figure(flow, "no volumes")
     assert len(figure.data) == 2
     assert "outflow/inflow not measured" in figure.layout.annotations[-1].text
+
+
+def test_the_panels_lie_where_plotly_lays_out_three_rows():
+    # plotly's own make_subplots is the reference for the grid the figure is built on
+    from plotly.subplots import make_subplots
+
+    flow = Workspace(SAMPLES / "flexible_wall_clay").flow_record("FW-01")
+    figure = flow_record_figure(flow, "FW-01")
+    grid = make_subplots(rows=3, cols=1, vertical_spacing=0.11).layout
+    for axis in ("xaxis", "yaxis", "xaxis2", "yaxis2", "xaxis3", "yaxis3"):
+        assert figure.layout[axis].domain == grid[axis].domain
+        assert figure.layout[axis].anchor == grid[axis].anchor
+    assert [trace.xaxis for trace in figure.data] == ["x", "x2", "x3"]
+    assert [a.text for a in figure.layout.annotations][:3] == [
+        "k20 against time",
+        "k20 against pore volumes of flow",
+        "outflow/inflow against time",
+    ]

@@ -99,3 +99,25 @@ def test_span_k_of_an_exact_record_is_k():
     time = readings["time"].to_numpy()
     _, k = span_conductivity(time, time, np.log(readings["head"].to_numpy()), scale, 7, 4)
     np.testing.assert_allclose(k, 3.0e-9, rtol=1e-9)
+
+
+def test_a_function_of_repeated_values_is_the_same_evaluated_once_a_value():
+    # a logger's temperatures, read to 0.01 degC, repeat: evaluated once per distinct value
+    # and taken back to every reading, the viscosity ratio is the same number to the last bit
+    from kitchen.reduction.falling_head_formulas import per_distinct_value
+    from kitchen.water import viscosity_ratio
+
+    rng = np.random.default_rng(8)
+    repeated = np.round(20 + rng.normal(0, 0.3, 50_000), 2)
+    distinct = 20 + rng.normal(0, 0.3, 50_000)
+    for values in (repeated, distinct):
+        calls = []
+
+        def ratio(v, calls=calls):
+            calls.append(v.size)
+            return np.asarray(viscosity_ratio(v, 20.0, "kestin"))
+
+        np.testing.assert_array_equal(
+            per_distinct_value(values, ratio), viscosity_ratio(values, 20.0, "kestin")
+        )
+        assert calls[0] == (np.unique(values).size if values is repeated else values.size)
