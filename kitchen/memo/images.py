@@ -338,8 +338,32 @@ def request_image(figure, image_format: str) -> Future:
     return _image_server["server"].request(figure.to_dict(), _options(figure, image_format))
 
 
+_WEBGL_TRACES = frozenset(
+    (
+        "splom",
+        "parcoords",
+        "scatter3d",
+        "surface",
+        "mesh3d",
+        "cone",
+        "streamtube",
+        "volume",
+        "isosurface",
+        "scattermap",
+        "choroplethmap",
+        "densitymap",
+        "scattermapbox",
+        "choroplethmapbox",
+        "densitymapbox",
+    )
+)
+"""Trace types plotly.js draws with WebGL beside those named ``...gl`` (plotly.js's trace
+list, from memory)."""
+
+
 def _webgl(figure_dict: dict) -> bool:
-    return any("gl" in str(trace.get("type", "")) for trace in figure_dict.get("data", ()))
+    kinds = {str(trace.get("type", "scatter")) for trace in figure_dict.get("data", ())}
+    return any("gl" in kind or kind in _WEBGL_TRACES for kind in kinds)
 
 
 def request_png_svg(figure) -> tuple[Future, Future]:

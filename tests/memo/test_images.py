@@ -125,9 +125,10 @@ def test_a_figure_with_webgl_traces_is_drawn_once_for_each_format(monkeypatch):
     asked = []
     monkeypatch.setattr(images, "start_image_export", lambda: None)
     monkeypatch.setattr(images, "request_image", lambda figure, ext: asked.append(ext) or ext)
-    figure = go.Figure(go.Scattergl(x=[0, 1], y=[1, 0]))
-    assert images.request_png_svg(figure) == ("png", "svg")
-    assert asked == ["png", "svg"]
+    for trace in (go.Scattergl(x=[0, 1], y=[1, 0]), go.Splom(), go.Scatter3d(x=[0], y=[0], z=[0])):
+        asked.clear()
+        assert images.request_png_svg(go.Figure(trace)) == ("png", "svg")
+        assert asked == ["png", "svg"]
 
 
 @pytest.mark.parametrize(
