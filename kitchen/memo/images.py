@@ -68,8 +68,9 @@ SECOND_PAGE_BACKLOG = 150
 plotly.js again (about 1.5 s of a core, 2.5 s on a busy two-core machine), time the first
 page draws some 45 images in, more slowly for sharing the cores; below this backlog the
 first page alone finishes as soon (the clay sample's pack, 64 images, in turns on the
-shared two-core machine at a load average of 5 to 7: medians of four rounds 12.8 s with one
-page, 13.2 s with the second opened at once)."""
+shared two-core machine: medians of four rounds 12.8 s with one page, 13.2 s with a second
+opened as soon as images waited, at a load average of 5 to 7; of three rounds 6.47 s and
+6.45 s at a load of 2)."""
 
 FIRST_IMAGE_TIMEOUT = 180.0
 """Seconds to wait for Chromium to render the first image before giving up. [s]"""
