@@ -13,6 +13,8 @@ from pathlib import Path
 import numpy as np
 import pytest
 
+from kitchen.charts import PLOT_WIDTH
+
 BENCHMARKS = Path(__file__).resolve().parent / "benchmarks"
 
 
@@ -113,6 +115,14 @@ def test_figure_keeps_traces_short(record_folder):
     figure = bench.figure_case(prepared, (100, N), max_points=1000)()
     assert 500 < bench.trace_points(figure) <= 1000
     assert series.falling_head["time"].iloc[-1] == pytest.approx(figure.data[1].x[-1] * 3600)
+
+
+def test_slider_steps_move_the_window_and_count_what_is_sent(record_folder):
+    # N readings and five steps of one reading: each step refits and sends its changes
+    steps = bench.slider_steps(record_folder, 5)
+    assert not steps["error"] and len(steps["times"]) == len(steps["analysis"]) == 5
+    assert all(size > 1_000 for size in steps["bytes"])  # the head chart's new traces
+    assert max(steps["points"][0]) <= 2 * PLOT_WIDTH  # two points a pixel column, at most
 
 
 def test_window_analysis_runs_on_each_window(record_folder):

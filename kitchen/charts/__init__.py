@@ -26,8 +26,9 @@ its modules: :func:`compaction_conductivity_figure`, :func:`compaction_conductiv
 and :func:`constant_head_figure`, :func:`flow_record_figure` (the figures);
 :func:`field_plane_figure`,
 :func:`field_distance_figure` and :data:`FIELD_FILLS` (the field check's); :func:`memo_template`,
-:func:`decimation_indices`, :func:`add_caption`, :func:`label_specimens`,
-:data:`MAX_TRACE_POINTS`, :data:`WIDTH`, :data:`HEIGHT`, :data:`FONT`, :data:`INK`,
+:func:`decimation_indices`, :class:`WindowDecimation`, :func:`add_caption`,
+:func:`label_specimens`, :data:`MAX_TRACE_POINTS`, :data:`WIDTH`, :data:`HEIGHT`,
+:data:`PLOT_WIDTH`, :func:`cached_memo_template`, :data:`FONT`, :data:`INK`,
 :data:`MUTED`, :data:`GRID`, :data:`ZONE`,
 :data:`VERDICT_COLOURS`, :data:`VERDICT_FACE`, :data:`VERDICT_FILL`, :data:`EFFORT_SYMBOLS`,
 :data:`EFFORT_DASHES`, :data:`NO_EFFORT`, :data:`SATURATION_DASHES`, :data:`OPTIMUM_DASH`,
@@ -79,11 +80,14 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "VERDICT_FACE": "style",
         "VERDICT_FILL": "style",
         "WIDTH": "style",
+        "PLOT_WIDTH": "style",
+        "WindowDecimation": "style",
         "ZONE": "style",
         "add_caption": "style",
         "label_specimens": "style",
         "decimation_indices": "style",
         "memo_template": "style",
+        "cached_memo_template": "style",
     },
 )
 
@@ -109,6 +113,7 @@ __all__ = [
     "INK",
     "MAX_TRACE_POINTS",
     "memo_template",
+    "cached_memo_template",
     "MUTED",
     "NO_EFFORT",
     "SATURATION_DASHES",
@@ -121,5 +126,7 @@ __all__ = [
     "VERDICT_FACE",
     "VERDICT_FILL",
     "WIDTH",
+    "PLOT_WIDTH",
+    "WindowDecimation",
     "ZONE",
 ]

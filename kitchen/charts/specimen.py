@@ -23,8 +23,8 @@ from .style import (
     MUTED,
     VERDICT_COLOURS,
     ZONE,
+    WindowDecimation,
     cached_memo_template,
-    decimation_indices,
     memo_template,
 )
 
@@ -103,6 +103,8 @@ def falling_head_figure(
     k_unit_name: str = "m/s",
     reference_temperature: float = 20.0,
     max_points: int = MAX_TRACE_POINTS,
+    decimation: WindowDecimation | None = None,
+    line_points: int | None = None,
 ) -> go.Figure:
     """Head against time on a log head axis, with the fitted line and the reading window.
 
@@ -119,7 +121,19 @@ def falling_head_figure(
     reference_temperature : float
         For the label of k. [degC]
     max_points : int
-        Longest trace; longer records are decimated (:func:`decimation_indices`).
+        Longest trace; longer records are decimated: the readings in the window and those
+        outside it on buckets fixed along the record (:class:`WindowDecimation`), together
+        about `max_points` points.
+    decimation : WindowDecimation, optional
+        The decimation of these readings' heads with `max_points`, built once and kept by a
+        caller that draws many windows of one record (a panel's slider), so that each
+        window costs time in proportion to `max_points`, not to the record; built here by
+        default.
+    line_points : int, optional
+        Most points of the fitted line, taken at evenly spaced readings of the window
+        (both ends included); `max_points` by default. The fitted curves are smooth and
+        monotone (an exponential decay, to zero or to a datum), so a few hundred points
+        draw them as well as every reading does.
 
     Returns
     -------
@@ -130,7 +144,15 @@ def falling_head_figure(
     ASTM D5084, Methods B and C: ln h falls linearly with time (from memory).
     """
     return go.Figure(
-        falling_head_spec(readings, result, k_unit_name, reference_temperature, max_points)
+        falling_head_spec(
+            readings,
+            result,
+            k_unit_name,
+            reference_temperature,
+            max_points,
+            decimation=decimation,
+            line_points=line_points,
+        )
     )
 
 
@@ -140,6 +162,8 @@ def falling_head_spec(
     k_unit_name: str = "m/s",
     reference_temperature: float = 20.0,
     max_points: int = MAX_TRACE_POINTS,
+    decimation: WindowDecimation | None = None,
+    line_points: int | None = None,
 ) -> dict:
     """The figure of :func:`falling_head_figure` as a spec: plain dicts, not validated.
 
@@ -156,6 +180,13 @@ def falling_head_spec(
     head = np.asarray(source.head if readings is None else readings["head"], dtype=float)
     unit, divisor = _time_unit(float(time[-1] - time[0]) if time.size else 0.0)
     start, stop = int(result.start), int(result.stop)
+    if decimation is None:
+        decimation = WindowDecimation(head, max_points)
+    elif decimation.n != head.size or decimation.max_points != max_points:
+        raise ValueError(
+            f"decimation of {decimation.n} readings at {decimation.max_points} points given "
+            f"for {head.size} readings at {max_points} points: build it from these readings"
+        )
     # the traces, shapes and annotations are gathered as plain dicts and validated once
     shapes = [
         dict(
@@ -184,32 +215,28 @@ def falling_head_spec(
             yref="y domain",
         )
     ]
-    outside = (
-        (np.concatenate((time[:start], time[stop:])), np.concatenate((head[:start], head[stop:])))
-        if start > 0 or stop < time.size
-        else (time[:0], head[:0])
-    )
     markers = (
         (
-            outside,
+            decimation.outside(start, stop),
             "readings outside the window",
             dict(symbol="circle-open", size=6, color=MUTED, line=dict(width=1.2)),
         ),
         (
-            (time[start:stop], head[start:stop]),
+            decimation.indices(start, stop),
             "readings in the window",
             dict(symbol="circle", size=5, color=INK),
         ),
     )
     data = []
-    for (t, h), name, marker in markers:
-        if t.size:
-            keep = decimation_indices(h, max_points)
+    drawn = []
+    for keep, name, marker in markers:
+        if keep.size:
+            drawn.append(head[keep])
             data.append(
                 dict(
                     type="scatter",
-                    x=t[keep] / divisor,
-                    y=h[keep],
+                    x=time[keep] / divisor,
+                    y=head[keep],
                     mode="markers",
                     name=name,
                     marker=marker,
@@ -219,15 +246,21 @@ def falling_head_spec(
                     + "<br>h = %{y:.4g} m<extra></extra>",
                 )
             )
-    fitted = _fitted_head(result)
-    t = time[start:stop] if fitted.size == stop - start else time[[start, stop - 1]]
-    keep = decimation_indices(fitted, max_points)
+    at = getattr(result, "fitted_head_at", None)  # an analysis forms only the points drawn
+    fitted = None if at is not None else _fitted_head(result)
+    size = stop - start if fitted is None else fitted.size
+    if size == stop - start:
+        count = min(size, max_points if line_points is None else max(2, line_points))
+        keep = np.unique(np.linspace(0, size - 1, count).round().astype(np.int64))
+        t, fitted = time[start + keep], (at(keep) if fitted is None else fitted[keep])
+    else:
+        t = time[[start, stop - 1]]
     datum = getattr(result, "fit_kind", "log_linear") == "datum"
     data.append(
         dict(
             type="scatter",
-            x=t[keep] / divisor,
-            y=fitted[keep],
+            x=t / divisor,
+            y=fitted,
             mode="lines",
             name="decay to a fitted datum h∞" if datum else "least-squares line of ln h",
             line=dict(color=VERDICT_COLOURS[DOES_NOT_MEET], width=2),
@@ -235,7 +268,10 @@ def falling_head_spec(
         )
     )
     asymptote = float(getattr(result, "asymptote", 0.0) or 0.0)
-    y_axis = head_axis(head, fitted, asymptote if datum else None)
+    # over the points drawn: min/max decimation keeps the record's lowest and highest head
+    y_axis = head_axis(
+        np.concatenate(drawn) if drawn else head[:0], fitted, asymptote if datum else None
+    )
     if datum:
         reach = [time[0] / divisor, time[-1] / divisor]
         shown = asymptote > 0 and np.log10(asymptote) >= y_axis["range"][0]

@@ -5,7 +5,8 @@ the only cue (compactive effort is told by marker shape and line dash, the verdi
 marker fill: solid for meets, open for does not meet, open with a dot for not conclusive,
 a pale face in a dark outline for a test not judged, each telling apart in greyscale).
 Here are the colours, marker shapes and dashes, the plotly template (:func:`memo_template`),
-min/max decimation of long records (:func:`decimation_indices`) and the caption in a
+min/max decimation of long records (:func:`decimation_indices`, and of any window of one,
+:class:`WindowDecimation`) and the caption in a
 figure's margin (:func:`add_caption`).
 """
 
@@ -45,6 +46,9 @@ __all__ = [
     "label_specimens",
     "decimation_indices",
     "memo_template",
+    "cached_memo_template",
+    "PLOT_WIDTH",
+    "WindowDecimation",
 ]
 
 
@@ -104,6 +108,11 @@ LINE_CODES = {
 families, so the lines read apart in greyscale print."""
 NO_EFFORT = "no effort given"
 WIDTH, HEIGHT = 980, 620
+MARGIN = dict(l=80, r=20, t=80, b=70)
+"""The template's margins around the plot. [px]"""
+PLOT_WIDTH = WIDTH - MARGIN["l"] - MARGIN["r"]
+"""Width of a chart's plot area at the template's size and margins, at most (an axis title
+that needs more room widens a margin). [px]"""
 
 
 def memo_template() -> go.layout.Template:
@@ -138,7 +147,7 @@ def memo_template() -> go.layout.Template:
             ),
             title=dict(x=0.0, xanchor="left", xref="paper", font=dict(size=16)),
             hoverlabel=dict(font=dict(family=FONT)),
-            margin=dict(l=80, r=20, t=80, b=70),
+            margin=dict(MARGIN),
             width=WIDTH,
             height=HEIGHT,
         )
@@ -171,34 +180,128 @@ def decimation_indices(values, max_points: int = MAX_TRACE_POINTS) -> np.ndarray
     Notes
     -----
     Min–max decimation per bucket is common practice for plotting long records (no
-    source). NaN values are never chosen unless a whole bucket is NaN.
+    source). Values that are not finite (NaN, ±inf) are never chosen unless a whole bucket
+    is. The same as ``WindowDecimation(values, max_points).indices()``
+    (:class:`WindowDecimation`).
     """
-    if not isinstance(max_points, int | np.integer) or max_points < 4:
-        raise ValueError(f"max_points: expected an integer of at least 4, got {max_points!r}")
-    y = np.asarray(values, dtype=float).ravel()
-    n = y.size
-    if n <= max_points:
-        return np.arange(n)
-    buckets = (max_points - 2) // 2
-    size = -(-n // buckets)
-    buckets = -(-n // size)
-    # one padded copy, NaN and padding set to +inf for the minima, then to -inf for the maxima
-    nan = np.flatnonzero(np.isnan(y))
-    padded = np.empty(buckets * size)
-    padded[:n] = y
-    padded[nan] = padded[n:] = np.inf
-    start = np.arange(buckets) * size
-    lows = start + np.argmin(padded.reshape(buckets, size), axis=1)
-    padded[nan] = padded[n:] = -np.inf
-    highs = start + np.argmax(padded.reshape(buckets, size), axis=1)
-    # the buckets are in order, so the sorted union needs no sort: the smaller of each
-    # bucket's two indices, then the larger, with repeats dropped
-    pairs = np.empty(2 * buckets + 2, dtype=lows.dtype)
-    pairs[0], pairs[-1] = 0, n - 1
-    np.minimum(lows, highs, out=pairs[1:-1:2])
-    np.maximum(lows, highs, out=pairs[2:-1:2])
-    chosen = pairs[np.concatenate(([True], pairs[1:] != pairs[:-1]))]
-    return chosen[chosen < n]
+    return WindowDecimation(values, max_points).indices()
+
+
+class WindowDecimation:
+    """Min–max decimation of one record on buckets fixed along it, for any window of it.
+
+    The record's readings are cut into ``(max_points - 2) // 2`` equal buckets by reading
+    position, once, and each bucket's smallest and largest value found, once. The points to
+    draw for the readings of a window, or for those outside it, are then the two extremes
+    of every bucket wholly inside that range and the extremes of the at most two buckets it
+    cuts, found again over their part alone: a window of a record of 10^6 readings is
+    decimated in time proportional to the number of buckets, not of readings, and the
+    window's trace and the trace of the readings outside it together carry about
+    `max_points` points, as the whole record would.
+
+    Parameters
+    ----------
+    values : array_like
+        The values the shape of the trace depends on (the y of a time record). Held, not
+        copied, when already a float array: do not change them afterwards.
+    max_points : int, default MAX_TRACE_POINTS
+        Largest number of indices :meth:`indices` returns, at least 4.
+
+    Notes
+    -----
+    Min–max decimation per bucket is common practice for plotting long records (no
+    source); fixing the buckets along the record, rather than along each window, is the
+    tool's own choice, so that moving a window's end by one reading changes the points of
+    one bucket only. Values that are not finite (NaN, ±inf) are never chosen unless every
+    value of the part searched is not finite.
+    """
+
+    def __init__(self, values, max_points: int = MAX_TRACE_POINTS):
+        if not isinstance(max_points, int | np.integer) or max_points < 4:
+            raise ValueError(f"max_points: expected an integer of at least 4, got {max_points!r}")
+        y = np.asarray(values, dtype=float).ravel()
+        self.values = y
+        self.n = y.size
+        self.max_points = int(max_points)
+        self.bucket_size = 0
+        """Readings a bucket; 0 when the record is short enough to draw whole."""
+        self._pairs = None
+        if self.n <= max_points:
+            return
+        buckets = (max_points - 2) // 2
+        size = -(-self.n // buckets)
+        buckets = -(-self.n // size)
+        # one padded copy, the values that are not finite and the padding set to +inf for
+        # the minima, then to -inf for the maxima
+        bad = np.flatnonzero(~np.isfinite(y))
+        padded = np.empty(buckets * size)
+        padded[: self.n] = y
+        padded[bad] = padded[self.n :] = np.inf
+        start = np.arange(buckets) * size
+        lows = start + np.argmin(padded.reshape(buckets, size), axis=1)
+        padded[bad] = padded[self.n :] = -np.inf
+        highs = start + np.argmax(padded.reshape(buckets, size), axis=1)
+        pairs = np.empty((buckets, 2), dtype=np.int64)
+        np.minimum(lows, highs, out=pairs[:, 0])
+        np.maximum(lows, highs, out=pairs[:, 1])
+        self.bucket_size = size
+        self._pairs = pairs
+
+    def _extremes(self, start: int, stop: int) -> np.ndarray:
+        """The positions of the smallest and largest value of readings start … stop − 1."""
+        part = self.values[start:stop]
+        good = np.isfinite(part)
+        if good.all():
+            low, high = int(np.argmin(part)), int(np.argmax(part))
+        else:
+            low = int(np.argmin(np.where(good, part, np.inf)))
+            high = int(np.argmax(np.where(good, part, -np.inf)))
+        return start + np.array(sorted((low, high)), dtype=np.int64)
+
+    def indices(self, start: int = 0, stop: int | None = None) -> np.ndarray:
+        """Sorted positions of the readings to draw of readings `start` … `stop` − 1.
+
+        Parameters
+        ----------
+        start, stop : int
+            The range, as positions 0 … n (`stop` excluded); the whole record by default.
+
+        Returns
+        -------
+        numpy.ndarray of int
+            The range's first and last reading, and the smallest and largest value of each
+            bucket the range holds (of its part of a bucket it cuts); every position when
+            the record has at most `max_points` readings. At most `max_points` positions.
+        """
+        stop = self.n if stop is None else int(stop)
+        start = int(start)
+        if not 0 <= start <= stop <= self.n:
+            raise ValueError(f"readings {start} to {stop}: expected 0 <= start <= stop <= {self.n}")
+        if start == stop:
+            return np.arange(0, dtype=np.int64)
+        if self._pairs is None:
+            return np.arange(start, stop, dtype=np.int64)
+        size = self.bucket_size
+        first, last = -(-start // size), stop // size  # the buckets wholly inside
+        parts = [np.array([start], dtype=np.int64)]
+        if first > last:  # within one bucket
+            parts.append(self._extremes(start, stop))
+        else:
+            if start < first * size:
+                parts.append(self._extremes(start, first * size))
+            parts.append(self._pairs[first:last].ravel())
+            if last * size < stop:
+                parts.append(self._extremes(last * size, stop))
+        parts.append(np.array([stop - 1], dtype=np.int64))
+        chosen = np.concatenate(parts)
+        return chosen[np.concatenate(([True], chosen[1:] != chosen[:-1]))]
+
+    def outside(self, start: int, stop: int) -> np.ndarray:
+        """Sorted positions of the readings to draw of those before `start` and from `stop`
+        on: :meth:`indices` of the two ranges, at most ``max_points + 4`` together (each
+        range brings its own first and last reading, and a window within one bucket
+        leaves that bucket's two parts to either side)."""
+        return np.concatenate((self.indices(0, start), self.indices(stop, self.n)))
 
 
 LEGEND_CHARACTER_WIDTH = 5.6

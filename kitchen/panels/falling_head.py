@@ -36,21 +36,26 @@ from kitchen.specimen import specimen_state
 from kitchen.workspace import Workspace
 
 from .common import MessageArea, format_conductivity, format_number, open_workspace
-from .figures import format_elapsed, increments_figure
+from .figures import format_elapsed, increments_spec
 from .refresh import refresh_figure
 
 __all__ = [
     "FIT_LABELS",
+    "LINE_POINTS",
     "SCREEN_POINTS",
     "FallingHeadPanel",
     "describe_test_html",
     "falling_head_panel",
 ]
 
-SCREEN_POINTS = 2 * charts.WIDTH
-"""Longest trace the panel's charts send to the browser: about two points a pixel column
-of a chart (min/max decimation keeps every peak and trough), so a slider move on a record
-of 10^6 readings redraws a few thousand points, not tens of thousands."""
+SCREEN_POINTS = 2 * charts.PLOT_WIDTH
+"""Points the panel's charts send to the browser for a record: two a pixel column of a
+chart's plot area (min/max decimation keeps every peak and trough; the readings in the
+window and those outside it share the record's buckets,
+:class:`kitchen.charts.WindowDecimation`), so a slider move on a record of 10^6 readings
+redraws under two thousand points, not tens of thousands."""
+LINE_POINTS = SCREEN_POINTS // 4
+"""Points of the fitted line: one every two pixel columns draws the smooth fitted curve."""
 
 FIT_LABELS = {
     "log_linear": "ln h against time (datum known)",
@@ -191,6 +196,7 @@ class FallingHeadPanel:
     windows: dict = field(default_factory=dict)
     _state: pd.DataFrame | None = None
     _readings: dict = field(default_factory=dict)
+    _decimations: dict = field(default_factory=dict)
     _quiet: bool = False
 
     # --- data -------------------------------------------------------------------------------
@@ -201,6 +207,41 @@ class FallingHeadPanel:
             readings = self.workspace.readings(specimen, "falling_head")
             self._readings[specimen] = readings.reset_index(drop=True)
         return self._readings[specimen]
+
+    def _head_decimation(self, readings: pd.DataFrame) -> charts.WindowDecimation:
+        """The decimation of the specimen's heads, built once and kept while its readings
+        are the same table: a slider move then decimates in time proportional to
+        :data:`SCREEN_POINTS`, not to the record."""
+        kept = self._decimations.get("head")
+        if kept is None or kept[0] is not readings:
+            kept = (readings, charts.WindowDecimation(readings["head"].to_numpy(), SCREEN_POINTS))
+            self._decimations["head"] = kept
+        return kept[1]
+
+    def _increments(self, analysis: FallingHeadAnalysis):
+        """The analysis's incremental k with their times and decimation, kept while they
+        stay the same: they depend on the record's heads, capillary rise, reference times
+        and scale a·L/A and on the fitted datum h∞, not on the window (the analysis forms
+        them anew each time they are read, passes over the whole record)."""
+        arrays = (analysis.head, analysis.reference_time)
+        datum = analysis.asymptote if analysis.decay is not None else None
+        terms = (analysis.capillary_rise, analysis.scale, datum)
+        kept = self._decimations.get("increments")
+        if (
+            kept is None
+            or kept[0][0] is not arrays[0]
+            or kept[0][1] is not arrays[1]
+            or kept[1] != terms
+        ):
+            values = analysis.increment_k
+            kept = (
+                arrays,
+                terms,
+                (analysis.increment_time, values),
+                charts.WindowDecimation(values, SCREEN_POINTS),
+            )
+            self._decimations["increments"] = kept
+        return kept[2], kept[3]
 
     def record(self, specimen: str | None = None) -> FallingHeadRecord:
         """The prepared record of a specimen: the workspace's own."""
@@ -278,15 +319,21 @@ class FallingHeadPanel:
         self._draw()
 
     def _draw(self) -> None:
+        # the head chart first, then the words, then the incremental k: each reaches the
+        # browser as soon as it is made, in the order the engineer looks at them
         analysis = self.analysis
         readings = self.readings()
         label = reference_label(self.settings)
         figure = charts.falling_head_spec(
-            readings, analysis, "m/s", self.settings.reference_temperature, SCREEN_POINTS
+            readings,
+            analysis,
+            "m/s",
+            self.settings.reference_temperature,
+            SCREEN_POINTS,
+            decimation=self._head_decimation(readings),
+            line_points=LINE_POINTS,
         )
         refresh_figure(self.figure, figure)
-        increments = increments_figure(analysis, self.settings, max_points=SCREEN_POINTS)
-        refresh_figure(self.increments, increments)
         rows = readings["source_row"].to_numpy()
         first, last = analysis.start, analysis.stop - 1
         how = _window_words(analysis)
@@ -297,6 +344,15 @@ class FallingHeadPanel:
             f"{format_elapsed(analysis.time[last])}</span>, {analysis.n} readings, {how}; "
             f"{label} = {format_conductivity(analysis.k_reference)}"
         )
+        increments, decimation = self._increments(analysis)
+        increments = increments_spec(
+            analysis,
+            self.settings,
+            max_points=SCREEN_POINTS,
+            decimation=decimation,
+            increments=increments,
+        )
+        refresh_figure(self.increments, increments)
         self.test_view.value = describe_test_html(self.record(), analysis)
         self.summary.value = _summary_html(analysis, self.settings)
         self.choice_label.value = _choice_html(

@@ -154,17 +154,24 @@ class FallingHeadAnalysis:
 
         Formed when read, not kept: an analysis of 10⁶ readings holds no array of the
         window's length for a chart drawn once."""
+        return self.fitted_head_at(slice(None))
+
+    def fitted_head_at(self, positions) -> np.ndarray:
+        """The fitted head at some readings of the window (`positions` counted from its
+        first reading: indices or a slice), the same numbers as :attr:`fitted_head` there;
+        a chart's line of a few hundred points needs no array of the window's length. [m]"""
         tau = self.reference_time[self.start : self.stop]
+        at = tau[positions]
         if self.decay is not None:
-            return self.capillary_rise + self.decay.predict(tau)
+            return self.capillary_rise + self.decay.predict(at)
         if self.line is not None:
-            fitted = self.line.predict(tau)  # hc + exp(fitted ln h), in that one array
+            fitted = self.line.predict(at)  # hc + exp(fitted ln h), in that one array
             np.exp(fitted, out=fitted)
             fitted += self.capillary_rise
             return fitted
-        h = self.corrected_head[self.start : self.stop]
+        h = self.head[self.start : self.start + 2] - self.capillary_rise
         rate = np.log(h[0] / h[1]) / (tau[1] - tau[0])
-        return self.capillary_rise + h[0] * np.exp(-rate * (tau - tau[0]))
+        return self.capillary_rise + h[0] * np.exp(-rate * (at - tau[0]))
 
     @property
     def head_residuals(self) -> np.ndarray:

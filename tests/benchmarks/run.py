@@ -41,6 +41,7 @@ import gc
 import math
 import os
 import platform
+import statistics
 import sys
 import tempfile
 import time
@@ -60,7 +61,7 @@ from kitchen.analysis import analyse_series
 from kitchen.charts import MAX_TRACE_POINTS, compaction_conductivity_figure, falling_head_figure
 from kitchen.fits import WindowedLineFit, fit_exponential_decay, fit_line
 from kitchen.io import load_series
-from kitchen.panels import revise_panel
+from kitchen.panels import falling_head_panel, revise_panel
 from kitchen.reduction import FallingHeadRecord, series_results
 from kitchen.revisions import load_effective_series
 from kitchen.settings import Settings
@@ -289,6 +290,57 @@ def trace_points(figure) -> int:
     return max(len(trace.x) for trace in figure.data if trace.x is not None)
 
 
+def slider_steps(folder: Path, steps: int) -> dict:
+    """Step the falling-head panel's reading window one reading at a time, as the slider
+    does on release, and measure the Python side of each step: its time, the analysis's
+    share of it, the bytes sent to the browser (widget messages with their binary buffers)
+    and the points of each trace drawn. The browser's part is timed by the real-browser
+    test (``tests/test_browser.py::test_slider_on_a_record_of_a_million_readings``)."""
+    import json
+
+    import ipywidgets
+
+    panel = falling_head_panel(folder)
+    record = panel.record()
+    sent: list[int] = []
+    plain_send, plain_analyse = ipywidgets.Widget._send, type(record).analyse
+    analysing: list[float] = []
+
+    def counted(widget, message, buffers=None):
+        size = len(json.dumps(message, default=str))
+        sent.append(size + sum(memoryview(b).nbytes for b in buffers or ()))
+        return plain_send(widget, message, buffers)
+
+    def timed(self, *args, **kwargs):
+        start = time.perf_counter()
+        try:
+            return plain_analyse(self, *args, **kwargs)
+        finally:
+            analysing.append(time.perf_counter() - start)
+
+    times, sizes = [], []
+    ipywidgets.Widget._send = counted
+    type(record).analyse = timed
+    try:
+        for _ in range(steps):
+            first, last = panel.window.value
+            sent.clear()
+            start = time.perf_counter()
+            panel.window.value = (first + 1, last)
+            times.append(time.perf_counter() - start)
+            sizes.append(sum(sent))
+    finally:
+        ipywidgets.Widget._send = plain_send
+        type(record).analyse = plain_analyse
+    return dict(
+        times=times,
+        analysis=analysing,
+        bytes=sizes,
+        points=[[len(t.x) for t in figure.data] for figure in (panel.figure, panel.increments)],
+        error=panel.error.widget.value,
+    )
+
+
 def open_panel(folder: Path):
     """The workbook's revise panel on the series, with its charts drawn once."""
     return revise_panel(folder, criterion=f"{CRITERION:g} m/s")
@@ -512,6 +564,18 @@ def run(readings: int, series_readings: int, specimens: int, repeats: int, work:
     )
     del prepared, windowed, series, frame, build_figure, figure
     gc.collect()  # the memory measured next is of a record alone
+
+    slider = slider_steps(folder, max(5, repeats))
+    notes.append(
+        f"a slider step of the falling-head panel ({readings:,} readings), Python side: "
+        f"median {_ms(statistics.median(slider['times']))} over {len(slider['times'])} steps "
+        f"(least {_ms(min(slider['times']))}; the analysis "
+        f"{_ms(statistics.median(slider['analysis']))} of it); sent to the browser "
+        f"{statistics.median(slider['bytes']) / 1e3:.0f} kB a step; points a trace "
+        f"{slider['points'][0]} (head), {slider['points'][1]} (incremental k). The browser's "
+        "part: pytest tests/test_browser.py -k million -s"
+    )
+    gc.collect()
 
     memory = memory_case(folder)
     outcomes.append(

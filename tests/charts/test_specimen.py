@@ -90,6 +90,51 @@ def test_long_records_are_decimated():
     assert max(inside.y) == 2.0 and min(inside.y) == head[1000:].min()
 
 
+def test_a_kept_decimation_draws_every_window_as_a_fresh_one_does():
+    # a panel keeps one decimation of the record and draws each window from it: the spec is
+    # the one built from scratch, the window's and the outside readings together about
+    # max_points, the axis over the record's lowest and highest head; the fitted line is
+    # sampled at evenly spaced readings, both ends included
+    n = 100_000
+    time = np.arange(n, dtype=float)
+    rng = np.random.default_rng(5)
+    head = 1.2 * np.exp(-time / 3e5) + rng.normal(0, 2e-4, n)
+    readings = pd.DataFrame({"time": time, "head": head})
+    kept = chart_style.WindowDecimation(head, 1000)
+    for start, stop in [(0, n), (250, 99_000), (40_000, 40_003)]:
+        result = SimpleNamespace(
+            specimen="long",
+            start=start,
+            stop=stop,
+            fitted_head=1.2 * np.exp(-time[start:stop] / 3e5),
+            k_reference=1e-9,
+            k_reference_low=0.9e-9,
+            k_reference_high=1.1e-9,
+        )
+        fresh = specimen_charts.falling_head_spec(readings, result, max_points=1000)
+        spec = specimen_charts.falling_head_spec(readings, result, max_points=1000, decimation=kept)
+        for ours, theirs in zip(spec["data"], fresh["data"], strict=True):
+            np.testing.assert_array_equal(ours["x"], theirs["x"])
+            np.testing.assert_array_equal(ours["y"], theirs["y"])
+        assert spec["layout"]["yaxis"] == fresh["layout"]["yaxis"]
+        markers = [t for t in spec["data"] if t["mode"] == "markers"]
+        assert (
+            sum(len(t["x"]) for t in markers) <= 1000 + 8
+        )  # ends of three ranges, two cut buckets
+        low, high = spec["layout"]["yaxis"]["range"]
+        assert low < np.log10(head.min()) and high > np.log10(head.max())
+        thin = specimen_charts.falling_head_spec(
+            readings, result, max_points=1000, decimation=kept, line_points=50
+        )
+        line = next(t for t in thin["data"] if t["mode"] == "lines")
+        assert len(line["x"]) == min(50, stop - start)
+        hours = np.asarray(line["x"]) * 3600  # the record spans 28 h: the axis is in hours
+        assert hours[0] == pytest.approx(time[start]) and hours[-1] == pytest.approx(time[stop - 1])
+        np.testing.assert_allclose(line["y"], 1.2 * np.exp(-hours / 3e5))
+    with pytest.raises(ValueError, match="decimation of 100000 readings at 1000 points given "):
+        specimen_charts.falling_head_spec(readings.iloc[:10], result, decimation=kept)
+
+
 def test_constant_head_chart(sand):
     series, _ = sand
     state = specimen_state(series.specimens)

@@ -49,6 +49,62 @@ def test_decimation_ignores_nan_and_refuses_a_tiny_cap():
         chart_style.decimation_indices(y, 3)
 
 
+def _bucket_extremes_kept(y, kept, start, stop, size):
+    """Whether, for every bucket of `size` readings fixed along the record, the smallest
+    and largest finite value of its part within start … stop − 1 are among `kept`."""
+    for first in range(0, y.size, size):
+        low, high = max(first, start), min(first + size, stop)
+        if low >= high:
+            continue
+        part = y[low:high][np.isfinite(y[low:high])]
+        if not part.size:
+            continue
+        values = set(y[[i for i in kept if low <= i < high]].tolist())
+        if part.min() not in values or part.max() not in values:
+            return False
+    return True
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_window_decimation_keeps_each_fixed_bucket_extreme_of_any_window(seed):
+    # the buckets are fixed along the record; any window keeps its ends and, of every bucket
+    # it holds or cuts, the smallest and largest value of its part; the readings outside
+    # likewise; checked here bucket by bucket (min/max decimation, common practice)
+    rng = np.random.default_rng(seed)
+    y = np.cumsum(rng.normal(size=20_011))
+    y[rng.random(y.size) < 0.05] = np.nan
+    y[5_000] = np.inf  # never drawn while its bucket has finite values
+    cap = 400
+    decimation = chart_style.WindowDecimation(y, cap)
+    size = -(-y.size // ((cap - 2) // 2))
+    assert decimation.bucket_size == size
+    for start, stop in [(0, y.size), (1, y.size - 1), (37, 38), (990, 1010), (12_345, 19_000)]:
+        inside = decimation.indices(start, stop)
+        outside = decimation.outside(start, stop)
+        assert inside.size <= cap and outside.size <= cap + 4
+        assert np.all(np.diff(inside) > 0) and np.all(np.diff(outside) > 0)
+        assert inside[0] == start and inside[-1] == stop - 1
+        assert np.all((inside >= start) & (inside < stop))
+        assert not np.any((outside >= start) & (outside < stop))
+        assert 5_000 not in inside and 5_000 not in outside
+        assert _bucket_extremes_kept(y, inside, start, stop, size)
+        assert _bucket_extremes_kept(y, outside, 0, start, size)
+        assert _bucket_extremes_kept(y, outside, stop, y.size, size)
+    # the whole record is the plain decimation
+    np.testing.assert_array_equal(decimation.indices(), chart_style.decimation_indices(y, cap))
+    # a short record is drawn whole
+    short = chart_style.WindowDecimation(np.arange(50.0), cap)
+    np.testing.assert_array_equal(short.indices(10, 20), np.arange(10, 20))
+    np.testing.assert_array_equal(short.outside(10, 48), [*range(10), 48, 49])
+
+
+def test_window_decimation_refuses_a_range_beyond_the_record():
+    decimation = chart_style.WindowDecimation(np.arange(100.0), 10)
+    with pytest.raises(ValueError, match=r"readings 5 to 101: expected 0 <= start <= stop <= 100"):
+        decimation.indices(5, 101)
+    assert decimation.indices(7, 7).size == 0
+
+
 # --- style and captions ----------------------------------------------------------------------
 
 

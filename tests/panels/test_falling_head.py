@@ -10,6 +10,7 @@ from series_files import SAMPLES
 from kitchen.charts import MAX_TRACE_POINTS
 from kitchen.io import load_series
 from kitchen.panels import falling_head_panel
+from kitchen.panels.falling_head import LINE_POINTS, SCREEN_POINTS
 from kitchen.panels.figures import format_elapsed
 from kitchen.reduction import FallingHeadRecord
 from kitchen.settings import Settings
@@ -155,9 +156,43 @@ def test_large_record_is_drawn_decimated_and_fitted_in_full(logged):
     assert panel.analysis.n == 59_000
     for figure in (panel.figure, panel.increments):
         assert max(len(trace.x) for trace in figure.data) <= MAX_TRACE_POINTS
+    # two points a pixel column of the plot: the readings in the window and those outside
+    # it share the record's buckets
+    markers = [t for t in panel.figure.data if t.mode == "markers"]
+    assert sum(len(t.x) for t in markers) <= SCREEN_POINTS + 8
+    line = next(t for t in panel.figure.data if t.mode == "lines")
+    assert len(line.x) == LINE_POINTS
     # ln h falls at rate k·A/(a·L) (ASTM D5084 Method B): k = a·L/(A·τ); at 20 degC R_T = 1
     a, area = np.pi * 0.002**2 / 4, np.pi * 0.1016**2 / 4
     assert panel.analysis.k_reference == pytest.approx(a * 0.1164 / (area * 200_000.0), rel=1e-6)
+
+
+def test_a_slider_step_sends_only_what_changed(logged):
+    # one reading later: the head chart's traces and the window's shapes change; the k
+    # between readings of a fit of ln h does not depend on the window and is not sent again
+    panel = falling_head_panel(logged)
+    panel.window.value = (1_000, 59_999)
+    sent = {}
+    for name in ("figure", "increments"):
+        widget = getattr(panel, name)
+        plain = widget._send_update_msg
+
+        def record(restyle_data, relayout_data, trace_indexes=None, name=name, plain=plain, **kw):
+            sent[name] = (dict(restyle_data), dict(relayout_data), list(trace_indexes or []))
+            return plain(restyle_data, relayout_data, trace_indexes, **kw)
+
+        widget._send_update_msg = record
+    every = panel.increments.data[0].y
+    panel.window.value = (1_001, 59_999)
+    assert not panel.error.widget.value  # nothing went wrong on the way
+    style, layout, traces = sent["increments"]
+    assert 0 not in traces and panel.increments.data[0].y is every
+    assert "shapes" in layout  # the window drawn where it now starts
+    assert panel.increments.layout.shapes[0].x0 == pytest.approx(1_001 / 3600)
+    style, layout, traces = sent["figure"]
+    assert set(style) == {"x", "y"} and "title" in layout
+    inside = _trace(panel.figure, "readings in the window")
+    assert inside.x[0] == pytest.approx(1_001 / 3600)  # the record spans 16.7 h
 
 
 def _standpipe_area(diameter_mm):
