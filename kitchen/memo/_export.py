@@ -6,7 +6,7 @@ from __future__ import annotations
 from collections.abc import Callable
 from pathlib import Path
 
-__all__ = ["PackWriter", "figure_html", "write_chart_files"]
+__all__ = ["PackWriter", "figure_html", "request_images", "write_chart_files"]
 
 
 def figure_html(figure, name: str) -> str:
@@ -36,28 +36,44 @@ class PackWriter:
         return path
 
 
+def request_images(figures, caption) -> dict:
+    """Ask Chromium for the PNG and SVG of each figure, with `caption` printed under it,
+    and return at once: {(name, "png" or "svg"): future of its bytes}.
+
+    `figures` holds (name, figure); both images of a figure come from one drawing
+    (:func:`kitchen.memo.images.request_png_svg`). An export asks for every image before it
+    writes its first file, so Chromium draws them while the tables and pages are written.
+    """
+    from kitchen.charts import add_caption
+
+    from .images import request_png_svg
+
+    requested = {}
+    for name, figure in figures:
+        requested[name, "png"], requested[name, "svg"] = request_png_svg(
+            add_caption(figure, caption)
+        )
+    return requested
+
+
 def write_chart_files(
-    write, charts, cautions, provenance, script, caption, images: bool
+    write, charts, cautions, provenance, script, caption, images: bool, requested=None
 ) -> list[tuple[str, bytes]]:
     """Write each chart's page (``charts/NAME.html``) and, with `images`, its PNG and SVG
     with `caption` printed under it; return (title, PNG bytes) of each, for a document.
 
     `write` is called as ``write(relative, kind, data)``; `charts` holds (name, title,
-    figure). Every image is asked of Chromium first, and drawn while the pages are written.
+    figure). `requested` holds the images already asked of Chromium
+    (:func:`request_images`); without it every image is asked for first, and drawn while
+    the pages are written.
     """
     import posixpath
 
-    from kitchen.charts import add_caption
-
-    from .images import image_result, request_image
+    from .images import image_result
     from .pages import chart_page
 
-    requested = {}
-    if images:
-        for name, _, figure in charts:
-            captioned = add_caption(figure, caption)
-            for ext in ("png", "svg"):
-                requested[name, ext] = request_image(captioned, ext)
+    if images and requested is None:
+        requested = request_images([(name, figure) for name, _, figure in charts], caption)
     pngs: list[tuple[str, bytes]] = []
 
     def image(request, title: str, ext: str) -> bytes:

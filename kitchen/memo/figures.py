@@ -31,6 +31,7 @@ def memo_charts(
     analysis: SeriesAnalysis,
     k_unit_name: str = "m/s",
     density_unit_name: str = "Mg/m³",
+    on_chart=None,
 ) -> tuple[list[tuple[str, str, object]], list[str]]:
     """Every chart of the memo, and why any chart was not drawn.
 
@@ -46,6 +47,9 @@ def memo_charts(
         The series analysis of the workspace's results.
     k_unit_name, density_unit_name : str
         Display units of the charts.
+    on_chart : callable, optional
+        Called as ``on_chart(name, figure)`` as soon as each chart is drawn, before the
+        next is begun (the memo pack asks for its images there).
 
     Returns
     -------
@@ -57,6 +61,12 @@ def memo_charts(
     from kitchen import charts
 
     built, skipped = [], []
+
+    def add(name: str, title: str, figure) -> None:
+        built.append((name, title, figure))
+        if on_chart is not None:
+            on_chart(name, figure)
+
     series_charts = (
         (
             "compaction_conductivity",
@@ -87,9 +97,11 @@ def memo_charts(
     )
     for name, title, build in series_charts:
         try:
-            built.append((name, title, charts.label_specimens(build())))
+            figure = charts.label_specimens(build())
         except ValueError as error:
             skipped.append(f"{title}: not drawn ({error})")
+        else:
+            add(name, title, figure)
     reference = workspace.settings.reference_temperature
     taken: set = set()
     for table, method, figure_of in (
@@ -120,5 +132,5 @@ def memo_charts(
             except (ValueError, KeyError) as error:
                 skipped.append(f"specimen {specimen}, {method}: not drawn ({error})")
                 continue
-            built.append((name, f"Specimen {specimen}: {method}", figure))
+            add(name, f"Specimen {specimen}: {method}", figure)
     return built, skipped

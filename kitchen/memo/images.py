@@ -3,20 +3,35 @@
 One image server runs per process (:func:`start_image_export`): after checking that a
 Chromium is there (without one, :class:`ImageExportUnavailable` names what to install), it
 opens the browser on a thread of its own and returns at once, so Chromium starts while the
-series is read and reduced. Every image is then drawn in the same page, one after the
-other, without reloading it (:class:`_SamePageRenderer`): plotly.js draws each figure in a
-detached element of its own and removes it once the image is made, so nothing is left in
-the page from one image to the next, and a reload would only cost its time (about a quarter
-of a second an image). :func:`request_image` hands a figure to the server and returns at
-once, so the next figure can be prepared while Chromium draws; :func:`figure_image` waits
-for its image. The first image is awaited at most :data:`FIRST_IMAGE_TIMEOUT` seconds, so a
-Chromium that starts but cannot render is reported instead of waited on for ever.
+series is read and reduced. ``python -m kitchen report`` starts it before the rest of the
+package is even imported (:func:`start_for_command`).
+
+Every image is drawn in the same page, one after the other, without reloading it
+(:class:`_SamePageRenderer`): plotly.js draws each figure in a detached element of its own
+and removes it once the image is made, so nothing is left in the page from one image to the
+next, and a reload would only cost its time (about a quarter of a second an image). One
+page is opened first and images are drawn as soon as it is ready: loading plotly.js into a
+page costs some 1.5 s of a core, so a second page (:data:`PAGES`) is opened only when more
+than :data:`SECOND_PAGE_BACKLOG` images wait, a backlog long enough to repay it.
+:func:`request_image` hands a figure to the server and returns at once, so the next figure
+can be prepared while Chromium draws; :func:`figure_image` waits for its image. The first
+image is awaited at most :data:`FIRST_IMAGE_TIMEOUT` seconds, so a Chromium that starts but
+cannot render is reported instead of waited on for ever.
+
+The PNG and the SVG of one figure come from one drawing (:func:`request_png_svg`): kaleido
+would draw the figure twice, once for each format, though the PNG is the SVG painted on a
+canvas at :data:`PNG_SCALE`. The figure is drawn with plotly.js's own steps of
+``Plotly.toImage`` (:data:`_PNG_SVG_SCRIPT`), the SVG serialised, and that SVG painted for
+the PNG, so both are the bytes kaleido makes of the figure in a freshly loaded page
+(``tests/memo/test_images.py`` compares them on the pack's own charts).
 """
 
 from __future__ import annotations
 
 import asyncio
 import atexit
+import base64
+import json
 import threading
 from concurrent.futures import Future
 from concurrent.futures import TimeoutError as FutureTimeout
@@ -27,7 +42,9 @@ __all__ = [
     "FIRST_IMAGE_TIMEOUT",
     "ImageExportUnavailable",
     "start_image_export",
+    "start_for_command",
     "request_image",
+    "request_png_svg",
     "image_result",
     "figure_image",
 ]
@@ -42,11 +59,63 @@ _CHROMIUM_HELP = (
 )
 
 PAGES = 2
-"""Pages drawing images at once: two, so that a two-core machine draws one image while it
-encodes the other."""
+"""Pages drawing images at once, at most: two, so that a two-core machine draws one image
+while it encodes the other. Each page is a browser of its own (kaleido's renderer, one page
+each), opened when needed (:data:`SECOND_PAGE_BACKLOG`)."""
+
+SECOND_PAGE_BACKLOG = 150
+"""Images waiting for the first page above which a second page is opened. Opening one loads
+plotly.js again (about 1.5 s of a core, 2.5 s on a busy two-core machine), time the first
+page draws some 45 images in, more slowly for sharing the cores; below this backlog the
+first page alone finishes as soon (the clay sample's pack, 64 images, in turns on the
+shared two-core machine: medians of four rounds 12.8 s with one page, 13.2 s with a second
+opened as soon as images waited, at a load average of 5 to 7; of three rounds 6.47 s and
+6.45 s at a load of 2)."""
 
 FIRST_IMAGE_TIMEOUT = 180.0
 """Seconds to wait for Chromium to render the first image before giving up. [s]"""
+
+
+_PNG_SVG_SCRIPT = """(figure, width, height, scale) => {
+  // the steps of Plotly.toImage (plotly.js, src/plot_api/to_image.js) with kaleido's
+  // config, drawn once: the SVG as toImage makes it at scale 1, then the same SVG without
+  // its viewBox (the one attribute toImage adds for an SVG only) painted at `scale`
+  const snapshot = Plotly.Snapshot;
+  const gd = document.createElement("div");
+  gd.style.position = "absolute";
+  gd.style.left = "-5000px";
+  document.body.appendChild(gd);
+  const layout = Object.assign({}, figure.layout || {}, {width: width, height: height});
+  const config = Object.assign(
+    {mapboxAccessToken: null, plotGlPixelRatio: scale * 2}, figure.config,
+    {_exportedPlot: true, staticPlot: true, setBackground: ""});
+  return Plotly.newPlot(gd, figure.data || [], layout, config)
+    .then(snapshot.getRedrawFunc(gd))
+    .then(() => new Promise((done) => setTimeout(done, snapshot.getDelay(gd._fullLayout))))
+    .then(() => {
+      const svg = snapshot.toSVG(gd, "svg", 1);
+      const w = gd._fullLayout.width, h = gd._fullLayout.height;
+      Plotly.purge(gd);
+      document.body.removeChild(gd);
+      const painted = svg.replace(/^(<svg[^>]*?) viewBox="[^"]*"/, "$1");
+      return snapshot.svgToImg({format: "png", width: w, height: h, scale: scale,
+                                canvas: document.createElement("canvas"), svg: painted,
+                                promise: true})
+        .then((url) => ({svg: svg, png: url.replace(/^data:image\\/\\w+;base64,/, "")}));
+    });
+}"""
+"""The drawing of :func:`request_png_svg`, run in kaleido's page, where plotly.js is loaded.
+
+It relies on ``Plotly.Snapshot`` (``toSVG``, ``svgToImg``, ``getRedrawFunc``,
+``getDelay``), the functions ``Plotly.toImage`` itself is built of, which plotly.js
+exports but does not document, and on a page of kaleido's renderer holding plotly.js
+(``_KaleidoTab.tab``, kaleido's documented handle of the page): a plotly.js or kaleido that
+changed them would fail ``tests/memo/test_images.py``, which compares its images with
+kaleido's own. Figures with WebGL traces are drawn by kaleido, once for each format (their
+pixel ratio depends on the format's scale)."""
+
+_IMAGE_TIMEOUT = 90.0
+"""Seconds one drawing may take, as kaleido allows one image. [s]"""
 
 
 class ImageExportUnavailable(RuntimeError):
@@ -83,7 +152,7 @@ def _renderer_class():
 
 
 class _ImageServer:
-    """The browser and the event loop that drives it, on a thread of their own."""
+    """The browser pages and the event loop that drives them, on a thread of their own."""
 
     def __init__(self) -> None:
         self.loop = asyncio.new_event_loop()
@@ -91,37 +160,112 @@ class _ImageServer:
             target=self.loop.run_forever, name="kitchen-images", daemon=True
         )
         self.thread.start()
-        self.renderer = None
+        self.renderers: list = []
+        self.pages = 1  # pages opened or opening
+        self.settled: set[int] = set()  # renderers whose page kaleido may draw in
         self.answered = False
-        self.opened: Future = asyncio.run_coroutine_threadsafe(self._open(), self.loop)
+        self.waiting = 0  # images asked for and not yet drawing (counted on the loop)
+        self.free: asyncio.Queue | None = None  # renderers whose page is free
+        self.opened: Future = asyncio.run_coroutine_threadsafe(self._open_first(), self.loop)
 
-    async def _open(self) -> None:
-        renderer = _renderer_class()(mathjax=False, n=PAGES)
+    async def _open_first(self) -> None:
+        self.free = asyncio.Queue()
+        await self._open_page()
+
+    async def _open_page(self) -> None:
+        renderer = _renderer_class()(mathjax=False, n=1)
+        self.renderers.append(renderer)  # closed at the end even when half open
         await renderer.open()
-        # kaleido takes a page's script context from the first one reported after it
-        # navigates, which can be the blank page's it replaces (then no image is drawn);
-        # one reload of each page, once, takes the context of the page itself.
-        pages = [await renderer.tabs_ready.get() for _ in range(PAGES)]
-        await asyncio.gather(*(page.reload() for page in pages))
-        for page in pages:
+        await self.free.put(renderer)
+
+    async def _settle(self, renderer) -> None:
+        """Reload a renderer's page once, before kaleido first draws in it.
+
+        kaleido takes a page's script context from the first one reported after it
+        navigates, which can be the blank page's it replaces (then no image is drawn); one
+        reload, once, takes the context of the page itself. The drawings of
+        :func:`request_png_svg` run in the page's own context and need none, so a pack
+        without WebGL figures never pays for it (a page's load costs about 0.3 s again).
+        """
+        if id(renderer) in self.settled:
+            return
+        page = await renderer.tabs_ready.get()
+        try:
+            await page.reload()
+        finally:
             await renderer.tabs_ready.put(page)
-        self.renderer = renderer
+        self.settled.add(id(renderer))
+
+    def _second_page(self) -> None:
+        """Open another page when the backlog repays it; one that fails is done without."""
+        if self.waiting > SECOND_PAGE_BACKLOG and self.pages < PAGES:
+            self.pages += 1
+            task = self.loop.create_task(self._open_page())
+            task.add_done_callback(lambda done: done.cancelled() or done.exception())
+
+    async def _free_renderer(self, images: int):
+        """A renderer whose page is free, once the first is open; `images` wait meanwhile."""
+        self.waiting += images
+        try:
+            await asyncio.wrap_future(self.opened)
+            self._second_page()
+            return await self.free.get()
+        finally:
+            self.waiting -= images
 
     async def _image(self, figure_dict: dict, options: dict) -> bytes:
-        await asyncio.wrap_future(self.opened)
-        return await self.renderer.calc_fig(figure_dict, opts=options)
+        renderer = await self._free_renderer(1)
+        try:
+            await self._settle(renderer)
+            return await renderer.calc_fig(figure_dict, opts=options)
+        finally:
+            self.free.put_nowait(renderer)
+
+    async def _png_svg(self, figure_json: str, width, height) -> tuple[bytes, bytes]:
+        renderer = await self._free_renderer(2)
+        try:
+            page = await renderer.tabs_ready.get()
+            try:
+                answer = await asyncio.wait_for(
+                    page.tab.send_command(
+                        "Runtime.evaluate",
+                        params={
+                            "expression": f"({_PNG_SVG_SCRIPT})({figure_json}, "
+                            f"{json.dumps(width)}, {json.dumps(height)}, {PNG_SCALE})",
+                            "awaitPromise": True,
+                            "returnByValue": True,
+                        },
+                    ),
+                    _IMAGE_TIMEOUT,
+                )
+            finally:
+                await renderer.tabs_ready.put(page)
+        finally:
+            self.free.put_nowait(renderer)
+        result = answer.get("result", {})
+        if "error" in answer or "exceptionDetails" in result:
+            details = answer.get("error") or result["exceptionDetails"]
+            raise RuntimeError(f"plotly.js could not draw the figure: {details}")
+        images = result["result"]["value"]
+        return base64.b64decode(images["png"]), images["svg"].encode("utf-8")
 
     def request(self, figure_dict: dict, options: dict) -> Future:
         return asyncio.run_coroutine_threadsafe(self._image(figure_dict, options), self.loop)
 
+    def request_both(self, figure_json: str, width, height) -> Future:
+        return asyncio.run_coroutine_threadsafe(
+            self._png_svg(figure_json, width, height), self.loop
+        )
+
     def close(self) -> None:
-        """Close the browser and stop the loop; once (a later call does nothing)."""
+        """Close the browsers and stop the loop; once (a later call does nothing)."""
         if not self.thread.is_alive():
             return
 
         async def shut() -> None:
-            if self.renderer is not None:
-                await self.renderer.close()
+            await asyncio.gather(
+                *(renderer.close() for renderer in self.renderers), return_exceptions=True
+            )
 
         try:
             asyncio.run_coroutine_threadsafe(shut(), self.loop).result(10)
@@ -155,6 +299,26 @@ def start_image_export() -> None:
     _image_server.update(started=True, server=server)
 
 
+def start_for_command(argv: list[str]) -> None:
+    """Start the image server first thing for a command that will draw images.
+
+    ``python -m kitchen`` calls this before it imports the rest of the package, so that
+    Chromium opens while the imports, the reading and the reduction run: `argv` are the
+    command's arguments, and the server starts when they name ``report`` or
+    ``field-check`` without ``--no-images`` (nor a request for help). Without Chromium
+    nothing is started and nothing is said here: the command itself refuses, naming what
+    to install.
+    """
+    if not argv or argv[0] not in ("report", "field-check"):
+        return
+    if {"--no-images", "-h", "--help"} & set(argv):
+        return
+    try:
+        start_image_export()
+    except ImageExportUnavailable:
+        pass
+
+
 def _options(figure, image_format: str) -> dict:
     layout = figure.layout
     return dict(
@@ -173,6 +337,64 @@ def request_image(figure, image_format: str) -> Future:
     """
     start_image_export()
     return _image_server["server"].request(figure.to_dict(), _options(figure, image_format))
+
+
+_WEBGL_TRACES = frozenset(
+    (
+        "splom",
+        "parcoords",
+        "scatter3d",
+        "surface",
+        "mesh3d",
+        "cone",
+        "streamtube",
+        "volume",
+        "isosurface",
+        "scattermap",
+        "choroplethmap",
+        "densitymap",
+        "scattermapbox",
+        "choroplethmapbox",
+        "densitymapbox",
+    )
+)
+"""Trace types plotly.js draws with WebGL beside those named ``...gl`` (plotly.js's trace
+list, from memory)."""
+
+
+def _webgl(figure_dict: dict) -> bool:
+    kinds = {str(trace.get("type", "scatter")) for trace in figure_dict.get("data", ())}
+    return any("gl" in kind or kind in _WEBGL_TRACES for kind in kinds)
+
+
+def request_png_svg(figure) -> tuple[Future, Future]:
+    """Hand a figure to the image server for its PNG and its SVG, drawn once; return at once.
+
+    Returns futures of the PNG and of the SVG bytes, the same as :func:`request_image` of
+    each format gives (:data:`_PNG_SVG_SCRIPT`); :func:`image_result` waits for each.
+    """
+    from plotly.utils import PlotlyJSONEncoder
+
+    start_image_export()
+    figure_dict = figure.to_dict()
+    if _webgl(figure_dict):
+        return request_image(figure, "png"), request_image(figure, "svg")
+    options = _options(figure, "svg")
+    both = _image_server["server"].request_both(
+        json.dumps(figure_dict, cls=PlotlyJSONEncoder), options["width"], options["height"]
+    )
+    png, svg = Future(), Future()
+
+    def hand_on(done: Future) -> None:
+        error = done.exception()
+        for index, part in enumerate((png, svg)):
+            if error is not None:
+                part.set_exception(error)
+            else:
+                part.set_result(done.result()[index])
+
+    both.add_done_callback(hand_on)
+    return png, svg
 
 
 def image_result(request: Future) -> bytes:

@@ -58,7 +58,7 @@ from kitchen.revisions import window_log_sha256 as window_log_digest
 from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace
 
-from ._export import PackWriter, figure_html, write_chart_files
+from ._export import PackWriter, figure_html, request_images, write_chart_files
 from .documents import memo_document
 from .figures import memo_charts
 from .images import FIRST_IMAGE_TIMEOUT as FIRST_IMAGE_TIMEOUT
@@ -68,7 +68,12 @@ from .manifest import StagedPack
 from .markup import ChartScript
 from .pages import REDUCTION_METHODS, report_page
 from .provenance import Provenance, memo_provenance, start_hashing
-from .specimen_pages import report_pages, specimen_links, write_report_pages
+from .specimen_pages import (
+    report_pages,
+    specimen_links,
+    write_report_images,
+    write_report_pages,
+)
 from .tables import (
     checks_table,
     fits_table,
@@ -298,7 +303,18 @@ def export_memo_pack(
         started,
         hashes,
     )
-    charts, skipped = memo_charts(workspace, analysis, ku.unit, du.unit)
+    caption = _caption(provenance, criterion_text)
+    # every image is asked for as soon as its figure exists, before the first file is
+    # written: Chromium draws the charts while the next charts and the test pages are
+    # built, and the rest while the tables and pages are written
+    chart_images: dict = {}
+    page_images = None
+
+    def ask(name: str, figure) -> None:
+        if images:
+            chart_images.update(request_images([(name, figure)], caption))
+
+    charts, skipped = memo_charts(workspace, analysis, ku.unit, du.unit, on_chart=ask)
     tables = {
         "specimens": specimens_table(analysis, ku.unit, du.unit),
         "tests": workspace.results_table(),
@@ -316,9 +332,12 @@ def export_memo_pack(
         steps.append(script.path)
     steps += [f"charts/{name}.{ext}" for name, _, _ in charts for ext in formats]
     pages = report_pages(workspace, results, ku, label)
-    steps += [f"specimens/{page.name}.{ext}" for page in pages for ext in formats]
+    steps += [f"specimens/{page.name}.html" for page in pages]
     steps += ["report.html", "report.docx"]
+    steps += [f"specimens/{page.name}.{ext}" for page in pages for ext in formats[1:]]
     write = PackWriter(staged, steps, progress)
+    if images:
+        page_images = request_images([(page.name, page.figure) for page in pages], caption)
     with staged:
         write(
             "results.csv",
@@ -329,8 +348,9 @@ def export_memo_pack(
         write("results.xlsx", "workbook", lambda: workbook_bytes(tables, notes))
         if script.path is not None:  # before any page that loads it
             write(script.path, "script", lambda: script.content)
-        caption = _caption(provenance, criterion_text)
-        pngs = write_chart_files(write, charts, CAUTIONS, provenance, script, caption, images)
+        pngs = write_chart_files(
+            write, charts, CAUTIONS, provenance, script, caption, images, chart_images
+        )
         write_report_pages(write, pages, CAUTIONS, caption, script, images)
         fragments = [(name, title, figure_html(figure, name)) for name, title, figure in charts]
         write(
@@ -364,6 +384,10 @@ def export_memo_pack(
                 REDUCTION_METHODS + ANALYSIS_METHODS,
             ),
         )
+        # the test pages' images last: Chromium draws them while the report and the
+        # document (which embeds the charts' PNGs only) are written
+        if images:
+            write_report_images(write, pages, page_images)
         manifest, removed = staged.finish()
     return MemoPack(
         out,

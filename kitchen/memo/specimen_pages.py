@@ -467,24 +467,15 @@ def report_pages(workspace, results: pd.DataFrame, ku, reference: str) -> list[R
 
 
 def write_report_pages(write, pages, cautions, caption, script, images: bool) -> None:
-    """Write each test's page (``specimens/NAME.html``) and, with `images`, the PNG and SVG
-    of its record over time with `caption` printed under it.
+    """Write each test's page (``specimens/NAME.html``), linking, with `images`, the PNG and
+    SVG of its record over time (:func:`write_report_images` writes them).
 
     `write` is called as ``write(relative, kind, data)``; `script` is the pack's
-    :class:`kitchen.memo.markup.ChartScript`. Every image is asked of Chromium first, and
-    drawn while the pages are written.
+    :class:`kitchen.memo.markup.ChartScript`; the last line of `caption` is the page's
+    provenance line.
     """
-    from kitchen.charts import add_caption
-
     from ._export import figure_html
-    from .images import image_result, request_image
 
-    requested = {}
-    if images:
-        for page in pages:
-            captioned = add_caption(page.figure, caption)
-            for ext in ("png", "svg"):
-                requested[page.name, ext] = request_image(captioned, ext)
     for page in pages:
         shown = tuple(f"{page.name}.{ext}" for ext in ("png", "svg") if images)
         write(
@@ -502,7 +493,16 @@ def write_report_pages(write, pages, cautions, caption, script, images: bool) ->
                 script.element("specimens"),
             ).encode("utf-8"),
         )
-        for ext in ("png", "svg") if images else ():
+
+
+def write_report_images(write, pages, requested: dict) -> None:
+    """Write the PNG and SVG of each test's record over time (``specimens/NAME.png`` and
+    ``.svg``) as Chromium hands them back: `requested` holds them by (page name, format),
+    asked for with the caption already (:func:`kitchen.memo._export.request_images`)."""
+    from .images import image_result
+
+    for page in pages:
+        for ext in ("png", "svg"):
             write(
                 f"specimens/{page.name}.{ext}",
                 "test page",

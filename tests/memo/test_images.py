@@ -65,3 +65,134 @@ def _without_ids(svg: bytes) -> bytes:
     without empty style attributes, which the browser writes or leaves out of the root
     element from one page to the other (seen once in a full run: ``style=""``, then none)."""
     return re.sub(rb"[0-9a-f]{3,}", b"", re.sub(rb' style=""', b"", svg))
+
+
+def _pack_figures():
+    """Two of the clay sample's pack figures as the pack draws them, with a caption: the
+    compaction chart (markers, curves, a legend moved beside the plot) and a test's record
+    over time (lines on two axes)."""
+    from kitchen import display_units
+    from kitchen.charts import add_caption
+    from kitchen.memo import memo_charts
+    from kitchen.memo.specimen_pages import report_pages
+    from kitchen.workspace import Workspace
+
+    workspace = Workspace(SAMPLES / "clay_liner")
+    charts, _ = memo_charts(workspace, workspace.analysis(), "m/s", "Mg/m³")
+    pages = report_pages(workspace, workspace.results(), display_units.k_unit("m/s"), "k20")
+    caption = ["Caution: a caption line under the chart", "kitchen · series clay_liner"]
+    return [add_caption(charts[0][2], caption), add_caption(pages[0].figure, caption)]
+
+
+@needs_chromium
+def test_png_and_svg_of_one_drawing_are_kaleidos_own_from_a_fresh_page():
+    # the reference is kaleido itself as it ships: a page of its own renderer, reloaded
+    # after every image, drawing each format with Plotly.toImage
+    import asyncio
+
+    import kaleido
+
+    figures = _pack_figures()
+    requests = [images.request_png_svg(figure) for figure in figures]
+    ours = [tuple(images.image_result(r) for r in pair) for pair in requests]
+
+    async def reference():
+        drawn = []
+        async with kaleido.Kaleido(mathjax=False, n=1) as renderer:
+            for figure in figures:
+                drawn.append(
+                    tuple(
+                        [
+                            await renderer.calc_fig(
+                                figure.to_dict(), opts=images._options(figure, ext)
+                            )
+                            for ext in ("png", "svg")
+                        ]
+                    )
+                )
+        return drawn
+
+    for (png, svg), (their_png, their_svg) in zip(ours, asyncio.run(reference()), strict=True):
+        assert png[:8] == b"\x89PNG\r\n\x1a\n"
+        assert png == their_png  # the same pixels, encoded alike
+        assert svg.startswith(b"<svg") and _without_ids(svg) == _without_ids(their_svg)
+
+
+def test_a_figure_with_webgl_traces_is_drawn_once_for_each_format(monkeypatch):
+    # WebGL's pixel ratio follows the format's scale, so such a figure gets two drawings
+    import plotly.graph_objects as go
+
+    asked = []
+    monkeypatch.setattr(images, "start_image_export", lambda: None)
+    monkeypatch.setattr(images, "request_image", lambda figure, ext: asked.append(ext) or ext)
+    for trace in (go.Scattergl(x=[0, 1], y=[1, 0]), go.Splom(), go.Scatter3d(x=[0], y=[0], z=[0])):
+        asked.clear()
+        assert images.request_png_svg(go.Figure(trace)) == ("png", "svg")
+        assert asked == ["png", "svg"]
+
+
+@pytest.mark.parametrize(
+    ("argv", "started"),
+    [
+        (["report", "series", "--out", "pack"], True),
+        (["field-check", "series", "--out", "check"], True),
+        (["report", "series", "--out", "pack", "--no-images"], False),
+        (["report", "--help"], False),
+        (["history", "series"], False),
+        ([], False),
+    ],
+)
+def test_chromium_is_started_first_only_for_a_command_that_draws_images(monkeypatch, argv, started):
+    calls = []
+    monkeypatch.setattr(images, "start_image_export", lambda: calls.append(True))
+    images.start_for_command(argv)
+    assert calls == ([True] if started else [])
+
+
+def test_a_machine_without_chromium_starts_nothing_first_and_the_command_says_why(
+    tmp_path, monkeypatch
+):
+    monkeypatch.setenv("BROWSER_PATH", str(tmp_path / "no-such-chromium"))
+    monkeypatch.setitem(images._image_server, "started", False)
+    images.start_for_command(["report", "series", "--out", "pack"])  # says nothing
+    assert images._image_server["started"] is False
+    with pytest.raises(images.ImageExportUnavailable, match="apt-get install chromium"):
+        images.start_image_export()
+
+
+@needs_chromium
+def test_a_long_backlog_opens_a_second_page_and_its_images_are_the_same(monkeypatch):
+    import plotly.graph_objects as go
+
+    images.start_image_export()
+    server = images._image_server["server"]
+    line = go.Figure(go.Scatter(x=[1, 2, 3], y=[3, 1, 2]))
+    first = [images.image_result(r) for r in images.request_png_svg(line)]
+    monkeypatch.setattr(images, "SECOND_PAGE_BACKLOG", 2)
+    pending = [images.request_png_svg(line) for _ in range(6)]
+    later = [[images.image_result(r) for r in pair] for pair in pending]
+    assert server.pages == min(2, images.PAGES)
+    assert len(server.renderers) == server.pages
+    for png, svg in later:
+        assert png == first[0] and _without_ids(svg) == _without_ids(first[1])
+
+
+@needs_chromium
+def test_one_drawing_needs_no_reload_of_a_freshly_opened_page():
+    # in a process of its own, so that no image drawn by kaleido before has reloaded it
+    import subprocess
+    import sys
+
+    script = (
+        "import plotly.graph_objects as go\n"
+        "from kitchen.memo import images\n"
+        "png, svg = images.request_png_svg(go.Figure(go.Scatter(x=[0, 1], y=[1, 0])))\n"
+        "png, svg = images.image_result(png), images.image_result(svg)\n"
+        "assert png[:8] == b'\\x89PNG\\r\\n\\x1a\\n' and svg[:4] == b'<svg', (png[:8], svg[:4])\n"
+        "print(len(images._image_server['server'].settled))\n"
+    )
+    done = subprocess.run(
+        [sys.executable, "-c", script], capture_output=True, text=True, timeout=300
+    )
+    assert done.returncode == 0, done.stderr
+    assert done.stdout.strip() == "0"  # no page was reloaded

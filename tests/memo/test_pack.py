@@ -302,7 +302,12 @@ def test_command_line_writes_the_pack_with_images(cli_pack):
     assert done.returncode == 0, done.stderr
     progress = [line for line in done.stderr.splitlines() if line.startswith("[")]
     total = int(re.match(r"\[1/(\d+)\] table results.csv$", progress[0]).group(1))
-    assert len(progress) == total and progress[-1] == f"[{total}/{total}] document report.docx"
+    assert len(progress) == total
+    # the test pages' images come last, drawn while the report and the document are written
+    tests = sorted(out.glob("specimens/*.html"))
+    later = total - 2 * len(tests)
+    assert progress[later - 1] == f"[{later}/{total}] document report.docx"
+    assert progress[-1] == f"[{total}/{total}] test page specimens/{tests[-1].stem}.svg"
     assert progress[2] == f"[3/{total}] script {CHART_SCRIPT}"
     assert f"[6/{total}] chart charts/conductivity_void_ratio.svg" in progress
     pngs, svgs = sorted(out.glob("charts/*.png")), sorted(out.glob("charts/*.svg"))
@@ -331,6 +336,34 @@ def test_static_images_carry_the_cautions(cli_pack):
     text = " ".join(text.split())  # the caption is wrapped into lines of its own
     for caution in CAUTIONS:
         assert f"Caution: {caution}" in text
+
+
+@needs_chromium
+def test_every_image_is_asked_for_before_the_first_file_is_written(tmp_path, monkeypatch):
+    # Chromium draws while the tables and pages are written, instead of waiting for them
+    from kitchen.memo import images
+    from kitchen.memo._export import PackWriter
+
+    events = []
+    request = images.request_png_svg
+    write = PackWriter.__call__
+
+    def asked(figure):
+        events.append("image")
+        return request(figure)
+
+    def written(self, relative, kind, data):
+        events.append(relative)
+        return write(self, relative, kind, data)
+
+    monkeypatch.setattr(images, "request_png_svg", asked)
+    monkeypatch.setattr(PackWriter, "__call__", written)
+    pack = export_memo_pack(Workspace(SAMPLES / "drainage_sand"), tmp_path / "pack")
+    first_file = next(i for i, event in enumerate(events) if event != "image")
+    drawn = [p for p in pack.files if p.suffix == ".png"]
+    assert events[:first_file] == ["image"] * len(drawn)  # one drawing gives PNG and SVG
+    assert "image" not in events[first_file:]
+    assert len(drawn) == len([p for p in pack.files if p.suffix == ".svg"]) > 0
 
 
 def test_command_line_without_images(tmp_path, monkeypatch):
