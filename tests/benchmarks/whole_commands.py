@@ -68,15 +68,18 @@ def run_command(arguments: list[str]) -> tuple[float, int]:
     """
     measured = GNU_TIME.exists()
     command = [str(GNU_TIME), "-f", "%M", *arguments] if measured else arguments
-    start = time.perf_counter()
-    process = subprocess.Popen(command, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, cwd=ROOT)
-    _, status, usage = os.wait4(process.pid, 0)
-    elapsed = time.perf_counter() - start
+    # stderr to a file, not a pipe: a pack of a thousand tests prints thousands of progress
+    # lines, and a pipe read only after the command ends would stop it once full (64 KiB)
+    with tempfile.TemporaryFile() as said:
+        start = time.perf_counter()
+        process = subprocess.Popen(command, stdout=subprocess.DEVNULL, stderr=said, cwd=ROOT)
+        _, status, usage = os.wait4(process.pid, 0)
+        elapsed = time.perf_counter() - start
+        said.seek(0)
+        error = said.read().decode(errors="replace")
     process.returncode = os.waitstatus_to_exitcode(status)
-    error = process.stderr.read().decode(errors="replace")
-    process.stderr.close()
     if process.returncode != 0:
-        raise RuntimeError(f"{' '.join(map(str, arguments))} failed:\n{error}")
+        raise RuntimeError(f"{' '.join(map(str, arguments))} failed:\n{error[-3000:]}")
     if measured:
         return elapsed, int(error.strip().splitlines()[-1]) * 1024
     return elapsed, usage.ru_maxrss * 1024
