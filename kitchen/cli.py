@@ -591,15 +591,10 @@ def return_freed_memory() -> bool:
     ``python -m kitchen``; elsewhere (another C library, another system) it does nothing
     and returns False.
     """
-    import ctypes
-    import ctypes.util
+    from kitchen.io import libc_function
 
-    if not sys.platform.startswith("linux"):
-        return False
-    try:
-        library = ctypes.CDLL(ctypes.util.find_library("c") or "libc.so.6")
-        mallopt = library.mallopt
-    except (OSError, AttributeError):
+    mallopt = libc_function("mallopt")
+    if mallopt is None:
         return False
     m_mmap_threshold = -3  # from glibc's malloc.h
     return bool(mallopt(m_mmap_threshold, MMAP_THRESHOLD))

@@ -27,6 +27,7 @@ from .style import (
     INK,
     MUTED,
     NO_EFFORT,
+    OPTIMUM_DASH,
     SATURATION_DASHES,
     VERDICT_COLOURS,
     VERDICT_FACE,
@@ -244,6 +245,23 @@ def saturation_specs(analysis: SeriesAnalysis, w, unit: DisplayUnit, **extra) ->
             )
         )
     return specs
+
+
+def optimum_line_spec(line, w, unit: DisplayUnit, **extra) -> dict:
+    """The line of optimums (:class:`kitchen.analysis.LineOfOptimums`, with a slope) over
+    the water contents `w` (fractions), as a plain scatter spec in the density unit with
+    its own line code (:data:`~kitchen.charts.style.OPTIMUM_DASH`); `extra` is added."""
+    w = np.asarray(w, dtype=float)
+    return dict(
+        type="scatter",
+        x=w * 100.0,
+        y=np.asarray(line.dry_density(w)) * unit.factor,
+        mode="lines",
+        name="line of optimums",
+        line=dict(color=INK, width=1.3, dash=OPTIMUM_DASH),
+        hoverinfo="name",
+        **extra,
+    )
 
 
 def padded_range(values, fraction=0.06):

@@ -31,6 +31,7 @@ from ._series_parts import (
     k_axis_layout,
     k_axis_title,
     note_spec,
+    optimum_line_spec,
     padded_range,
     saturation_specs,
     specimen_trace_specs,
@@ -40,7 +41,6 @@ from .style import (
     FITTED_ZONE_DASH,
     INK,
     MUTED,
-    OPTIMUM_DASH,
     ZONE,
     cached_memo_template,
 )
@@ -297,19 +297,7 @@ def compaction_conductivity_spec(
         )
         if line.slope is not None:
             w = np.array(padded_range(w_opt, 0.35))
-            data.append(
-                dict(
-                    type="scatter",
-                    x=w * 100.0,
-                    y=np.asarray(line.dry_density(w)) * du.factor,
-                    mode="lines",
-                    name="line of optimums",
-                    legendgroup="optimums",
-                    line=dict(color=INK, width=1.3, dash=OPTIMUM_DASH),
-                    hoverinfo="name",
-                    **top,
-                )
-            )
+            data.append(optimum_line_spec(line, w, du, legendgroup="optimums", **top))
     y_low, y_high = padded_range(np.concatenate(y_values) * du.factor, 0.10)
     if analysis.specific_gravity is not None:
         w = np.linspace(x_range[0], x_range[1], 80) / 100.0

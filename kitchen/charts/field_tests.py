@@ -18,12 +18,11 @@ from plotly.subplots import make_subplots
 
 from kitchen.display_units import density_unit
 
-from ._series_parts import saturation_specs
+from ._series_parts import optimum_line_spec, saturation_specs
 from .style import (
     EFFORT_SYMBOLS,
     INK,
     MUTED,
-    OPTIMUM_DASH,
     ZONE,
     cached_memo_template,
 )
@@ -171,17 +170,7 @@ def field_plane_figure(check, analysis, density_unit_name: str = "Mg/m³") -> go
         data += saturation_specs(analysis, w_line, du)
     line = analysis.line_of_optimums
     if line is not None and line.slope is not None:
-        data.append(
-            dict(
-                type="scatter",
-                x=w_line * 100.0,
-                y=np.asarray(line.dry_density(w_line)) * du.factor,
-                mode="lines",
-                line=dict(color=INK, width=1.3, dash=OPTIMUM_DASH),
-                name="line of optimums",
-                hoverinfo="name",
-            )
-        )
+        data.append(optimum_line_spec(line, w_line, du))
     data += _test_traces(
         check,
         tests["water_content"] * 100.0,

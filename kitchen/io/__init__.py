@@ -35,6 +35,7 @@ converted, problems named by row); :data:`SPECIMEN_ID_LENGTH` (the longest speci
 :class:`Series`, :func:`build_series`, :func:`load_series` and
 :func:`rebuild_series`; :func:`atomic_write_bytes`, :func:`atomic_write_text`,
 :func:`append_line` (:data:`APPEND_ROOM`), :func:`folder_lock`, :func:`sync_folder`,
+:func:`libc_function`,
 :func:`write_csv`, :func:`spreadsheet_safe` and :func:`printable`.
 
 References
@@ -55,6 +56,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "atomic_write_text": "files",
         "folder_lock": "files",
         "sync_folder": "files",
+        "libc_function": "files",
         "printable": "files",
         "APPEND_ROOM": "files",
         "spreadsheet_safe": "files",
@@ -120,6 +122,7 @@ __all__ = [
     "ColumnSpec",
     "folder_lock",
     "sync_folder",
+    "libc_function",
     "printable",
     "APPEND_ROOM",
     "format_header",

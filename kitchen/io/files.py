@@ -13,6 +13,7 @@ import contextlib
 import errno
 import os
 import re
+import sys
 import tempfile
 from pathlib import Path
 from typing import TYPE_CHECKING
@@ -51,6 +52,21 @@ def sync_folder(folder: Path) -> None:
         pass  # some file systems refuse fsync on a folder; the rename is still atomic
     finally:
         os.close(handle)
+
+
+def libc_function(name: str):
+    """The C library's function `name` on Linux (errors kept for ``ctypes.get_errno``), or
+    None elsewhere or where the library has none (``syncfs``, ``renameat2``, ``mallopt``)."""
+    import ctypes
+    import ctypes.util
+
+    if not sys.platform.startswith("linux"):
+        return None
+    try:
+        libc = ctypes.CDLL(ctypes.util.find_library("c") or "libc.so.6", use_errno=True)
+        return getattr(libc, name)
+    except (OSError, AttributeError):
+        return None
 
 
 def atomic_write_bytes(path: str | Path, data: bytes) -> Path:

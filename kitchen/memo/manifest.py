@@ -28,7 +28,6 @@ from __future__ import annotations
 
 import csv
 import ctypes
-import ctypes.util
 import errno
 import hashlib
 import io
@@ -38,7 +37,7 @@ import tempfile
 import warnings
 from pathlib import Path, PurePosixPath
 
-from kitchen.io import sync_folder
+from kitchen.io import libc_function, sync_folder
 
 __all__ = [
     "MANIFEST",
@@ -251,22 +250,10 @@ def _flush_folder(folder: Path, relatives) -> None:
         sync_folder(each)
 
 
-def _linux_libc(name: str):
-    """The C library's function `name` on Linux (errors kept for ``ctypes.get_errno``), or
-    None elsewhere or where the library has none."""
-    if not hasattr(os, "uname") or os.uname().sysname != "Linux":
-        return None
-    try:
-        libc = ctypes.CDLL(ctypes.util.find_library("c") or "libc.so.6", use_errno=True)
-        return getattr(libc, name)
-    except (OSError, AttributeError):
-        return None
-
-
 def _sync_file_system(folder: Path) -> bool:
     """``syncfs`` (Linux, ``man 2 syncfs``) of the file system holding `folder`; False
     where the system has none or it fails (the caller then flushes file by file)."""
-    syncfs = _linux_libc("syncfs")
+    syncfs = libc_function("syncfs")
     if syncfs is None:
         return False
     handle = os.open(folder, os.O_RDONLY)
@@ -279,7 +266,7 @@ def _sync_file_system(folder: Path) -> bool:
 def _exchange(first: Path, second: Path) -> bool:
     """Swap two folders in one step (Linux ``renameat2`` with ``RENAME_EXCHANGE``); False
     where the system cannot."""
-    renameat2 = _linux_libc("renameat2")
+    renameat2 = libc_function("renameat2")
     if renameat2 is None:
         return False
     at_cwd, exchange = -100, 2  # AT_FDCWD, RENAME_EXCHANGE (linux/fcntl.h, linux/fs.h)

@@ -109,6 +109,11 @@ HASH_WINDOW = 1 << 26
 allocation granularity, as a mapping's offset must be). [bytes]"""
 
 
+def _file_hashes(paths) -> dict[str, tuple[int, str]]:
+    """``{path: (size [bytes], SHA-256)}`` of each file."""
+    return {str(path): (Path(path).stat().st_size, file_sha256(path)) for path in paths}
+
+
 def start_hashing(paths) -> Future:
     """Begin the SHA-256 of each file on a thread of its own; a future of ``{path: (size,
     sha256)}``.
@@ -117,16 +122,12 @@ def start_hashing(paths) -> Future:
     the input files are hashed while the series is reduced (a logger record of 10^6
     readings is about 33 MB: some 25 ms of hashing taken off the export).
     """
-    paths = tuple(str(path) for path in paths)
-
-    def hashes() -> dict[str, tuple[int, str]]:
-        return {path: (Path(path).stat().st_size, file_sha256(path)) for path in paths}
-
+    paths = tuple(paths)
     future: Future = Future()
 
     def run() -> None:
         try:
-            future.set_result(hashes())
+            future.set_result(_file_hashes(paths))
         except BaseException as error:  # handed to the caller by Future.result()
             future.set_exception(error)
 
@@ -184,9 +185,8 @@ def memo_provenance(
         When an input file cannot be read.
     """
     created = created or datetime.now(UTC)
-    if hashes is None:
-        hashes = start_hashing(input_files)
-    hashed = hashes.result()
+    input_files = tuple(input_files)
+    hashed = _file_hashes(input_files) if hashes is None else hashes.result()
     files = tuple(InputFile(str(path), *hashed[str(path)]) for path in input_files)
     environment = (("python", sys.version.split()[0]),) + tuple(
         (name, _package_version(name)) for name in ENVIRONMENT_PACKAGES
