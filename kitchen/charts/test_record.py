@@ -115,14 +115,17 @@ def flow_record_figure(
             )
         ]
     else:
+        # placed on the page at the third panel's middle: a panel with no trace is not drawn,
+        # and a note tied to its axes would land in the first panel and stretch its ranges
+        low, high = layout["yaxis3"]["domain"]
         layout["annotations"].append(
             dict(
                 text="outflow/inflow not measured (no inflow and outflow readings)",
                 showarrow=False,
-                xref="x3 domain",
-                yref="y3 domain",
+                xref="paper",
+                yref="paper",
                 x=0.5,
-                y=0.5,
+                y=(low + high) / 2,
                 font={"color": MUTED},
             )
         )

@@ -28,7 +28,11 @@ def test_a_test_without_volumes_says_so():
     flow = workspace.flow_record(workspace.specimen_ids()[0])
     figure = flow_record_figure(flow, "no volumes")
     assert len(figure.data) == 2
-    assert "outflow/inflow not measured" in figure.layout.annotations[-1].text
+    note = figure.layout.annotations[-1]
+    assert "outflow/inflow not measured" in note.text
+    # on the page, in the third panel's band, not tied to axes the empty panel lacks
+    low, high = figure.layout.yaxis3.domain
+    assert note.yref == "paper" and low < note.y < high
 
 
 def test_the_panels_lie_where_plotly_lays_out_three_rows():
