@@ -518,6 +518,33 @@ _EXAMPLE_UNITS = {
 }
 
 
+def import_reader_modules(path: str | Path | None = None) -> None:
+    """Import, on the calling thread, the modules that reading a series loads on first use.
+
+    pint and its unit registry (with the cache folder it finds through platformdirs) and
+    the text codecs of the reader (``utf-8-sig``) and of :func:`kitchen.io.printable`
+    (``unicode_escape``) are loaded the first time a series is read; for a workbook
+    (`path` an ``.xlsx`` file), openpyxl, pandas' reader of its sheets and the codec of
+    the names in its zip archive (``cp437``) too. Called before a series is read on a
+    thread of its own (:func:`kitchen.workspace.open_ahead`), so that the reading imports
+    nothing while the calling thread imports other modules: two threads importing at once
+    can each wait on a module the other is importing.
+    """
+    import codecs
+
+    from .units import _registry
+
+    _registry()
+    names = ["utf-8-sig", "unicode_escape"]
+    if path is not None and Path(path).suffix.lower() == ".xlsx":
+        import openpyxl.reader.excel  # noqa: F401
+        import pandas.io.excel._openpyxl  # noqa: F401
+
+        names.append("cp437")
+    for name in names:
+        codecs.lookup(name)
+
+
 def read_tables(path: str | Path) -> tuple[dict[str, RawTable], tuple[Path, ...]]:
     """Read a series folder or workbook as written, without converting units.
 

@@ -172,3 +172,49 @@ def test_a_criterion_that_does_not_read_stops_the_analysis_that_needs_it(clay):
     with pytest.raises(SeriesError, match=r"project.csv, row 2, column 'value': criterion"):
         workspace.analysis()
     assert workspace.analysis(1e-9).criterion == 1e-9  # one given is used as it stands
+
+
+# --- opened ahead, on a thread ------------------------------------------------------------
+
+_IMPORTS_WHILE_OPENING = """
+import sys
+from kitchen.io import import_reader_modules
+from kitchen.workspace import open_ahead
+
+imported = set()
+for folder in sys.argv[1:]:
+    import_reader_modules(folder)  # as open_ahead does before its thread starts
+    before = set(sys.modules)
+    open_ahead(folder).result()
+    imported |= set(sys.modules) - before
+print(sorted(imported))
+"""
+
+
+def test_opening_ahead_imports_nothing_on_its_thread(tmp_path):
+    # open_ahead runs while the caller imports other modules: two threads importing at
+    # once can each wait on a module the other holds, so the thread must import nothing
+    # (a fresh interpreter, as `python -m kitchen report` starts)
+    import subprocess
+    import sys
+
+    folders = [SAMPLES / name for name in ("clay_liner", "drainage_sand", "flexible_wall_clay")]
+    folders.append(SAMPLES / "transducer_log")
+    folders.append(SAMPLES / "drainage_sand.xlsx")
+    done = subprocess.run(
+        [sys.executable, "-c", _IMPORTS_WHILE_OPENING, *map(str, folders)],
+        capture_output=True,
+        text=True,
+        check=True,
+    )
+    assert done.stdout.strip() == "[]", done.stdout
+
+
+def test_opening_ahead_gives_the_workspace_or_the_input_problem(clay, tmp_path):
+    from kitchen.workspace import open_ahead
+
+    opened = open_ahead(clay).result(60)
+    assert opened.results().equals(Workspace(clay).results())
+    (clay / "specimens.csv").write_text("specimen,height [mm]\nQF-01,ten\n")
+    with pytest.raises(SeriesError, match="specimens.csv"):
+        open_ahead(clay).result(60)
