@@ -588,12 +588,15 @@ MMAP_THRESHOLD = 1 << 17
 def imports_done() -> None:
     """Resume the cyclic garbage collector that ``python -m kitchen`` paused for its imports.
 
-    Importing the package and its libraries (pandas, scipy, plotly, pint) makes some
-    10⁶ objects that live as long as the process and no garbage, yet the collector would
-    walk them all again and again: about 0.2 s of a ``report``. They are moved out of its
-    reach (``gc.freeze``) and the collector resumed, for the command's own objects. Where
-    the collector was not paused (the command line called from Python, as the tests do)
-    this does nothing.
+    Importing the package and the libraries of a ``report`` (pandas, scipy, pint,
+    plotly, openpyxl) makes some 250,000 objects that live as long as the process, yet
+    the collector would walk them again and again: about 0.2 s of a ``report``. They are
+    moved out of its reach (``gc.freeze``) and the collector resumed, for the command's
+    own objects. Nothing is collected first (one pass over them costs as much): a frozen
+    cycle is never freed, but the imports leave next to none, and reading and reducing a
+    series, which may run on another thread meanwhile (:func:`kitchen.workspace.open_ahead`),
+    leaves none (``tests/workspace/test_workspace.py``). Where the collector was not
+    paused (the command line called from Python, as the tests do) this does nothing.
     """
     if not gc.isenabled():
         gc.freeze()
