@@ -310,8 +310,22 @@ def _add_revision_commands(commands) -> None:
 
 
 def _report(arguments) -> int:
-    from kitchen.workspace import open_ahead
+    from kitchen.io import read_ahead
 
+    # the series' CSV files are parsed on a thread while the modules that check, reduce
+    # and export it are imported (Chromium, for the images, is already starting)
+    with _warnings_restored():
+        parsing = read_ahead(arguments.series)
+        from kitchen.memo import export_memo_pack, import_export_modules, start_image_export
+        from kitchen.revisions import windows_path
+        from kitchen.workspace import Workspace
+
+        if not arguments.no_images:
+            start_image_export()
+        import_export_modules()
+        if parsing is not None:
+            parsing.join()
+    imports_done()
     settings = Settings(
         arguments.reference_temperature,
         arguments.viscosity,
@@ -320,19 +334,9 @@ def _report(arguments) -> int:
         capillary_rise=arguments.capillary_rise,
         datum_uncertainty=arguments.datum_uncertainty,
     )
-    # the series is read and reduced on a thread while the analysis and the pack's
-    # libraries are imported here; Chromium, for the images, is already starting
-    opening = open_ahead(
+    workspace = Workspace(
         arguments.series, settings, windows_on_record=not arguments.proposed_windows
     )
-    from kitchen.memo import export_memo_pack, import_export_modules, start_image_export
-    from kitchen.revisions import windows_path
-
-    if not arguments.no_images:
-        start_image_export()
-    import_export_modules()
-    imports_done()
-    workspace = opening.result()
     series, windows = workspace.series, workspace.windows
     given = _criterion(arguments)
     criterion, source = workspace.criterion_in_force(given)
@@ -585,6 +589,27 @@ MMAP_THRESHOLD = 1 << 17
 """Bytes from which the C allocator maps a block of its own (its default start, 128 KiB)."""
 
 
+@contextlib.contextmanager
+def _warnings_restored():
+    """The warnings filters and their recorder as they were, once the block is done.
+
+    pandas sets and restores the filters around many of its calls
+    (``warnings.catch_warnings``), which is not safe while two threads use pandas: one
+    thread's restore can undo the other's and leave a filter of pandas' in place, or the
+    recorder of :func:`main` replaced. Around the block in which the series is parsed on a
+    thread (:func:`kitchen.io.read_ahead`), whose end joins that thread, everything is put
+    back as it was; nothing in the block depends on a warning meanwhile (rows with a cell
+    too many are found without the parser's).
+    """
+    filters = list(warnings.filters)
+    with warnings.catch_warnings():  # restores the recorder and the filters' list
+        yield
+    if warnings.filters != filters:  # the list itself changed under another thread
+        warnings.filters[:] = filters
+        with warnings.catch_warnings():  # which has the interpreter read them again
+            pass
+
+
 def imports_done() -> None:
     """Resume the cyclic garbage collector that ``python -m kitchen`` paused for its imports.
 
@@ -593,8 +618,8 @@ def imports_done() -> None:
     the collector would walk them again and again: about 0.2 s of a ``report``. They are
     moved out of its reach (``gc.freeze``) and the collector resumed, for the command's
     own objects. Nothing is collected first (one pass over them costs as much): a frozen
-    cycle is never freed, but the imports leave next to none, and reading and reducing a
-    series, which may run on another thread meanwhile (:func:`kitchen.workspace.open_ahead`),
+    cycle is never freed, but the imports leave next to none, and parsing a series' CSV
+    files, which may run on another thread meanwhile (:func:`kitchen.io.read_ahead`),
     leaves none (``tests/workspace/test_workspace.py``). Where the collector was not
     paused (the command line called from Python, as the tests do) this does nothing.
     """

@@ -24,8 +24,8 @@ The public face, which other subpackages import from :mod:`kitchen.io` and never
 modules: :func:`split_header`, :func:`format_header`, :func:`parse_value`, :func:`to_si`,
 :data:`KINDS`, :data:`EXAMPLE_UNITS` and :class:`UnitError` (units); :data:`SCHEMAS`,
 :data:`TABLE_NAMES`, :class:`ColumnSpec`, :class:`RawTable`, :func:`read_tables`,
-:func:`read_table` (one table on its own: the field tests), :func:`import_reader_modules`
-(what reading loads on first use, imported ahead of a reading on another thread),
+:func:`read_table` (one table on its own: the field tests),
+:func:`read_ahead` (a folder's CSV files parsed on a thread while the caller imports),
 :class:`InputProblem` and :class:`SeriesError` (the raw tables), :data:`ALTERNATIVE_COLUMNS`
 and :data:`CONDITION_TABLES`; :func:`time_zone` (units); :func:`pressure_head`,
 :func:`read_date_times`, :data:`STANDARD_GRAVITY` and :data:`GAP_FACTOR` (logger readings);
@@ -81,7 +81,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "RawTable": "raw_tables",
         "SeriesError": "raw_tables",
         "read_tables": "raw_tables",
-        "import_reader_modules": "raw_tables",
+        "read_ahead": "raw_tables",
         "read_table": "raw_tables",
         "Series": "series",
         "build_series": "series",
@@ -105,7 +105,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
 )
 
 __all__ = [
-    "import_reader_modules",
+    "read_ahead",
     "ALTERNATIVE_COLUMNS",
     "CONDITION_TABLES",
     "FLOW_DIRECTIONS",

@@ -184,8 +184,8 @@ def import_export_modules() -> None:
 
     The analysis (scipy's statistics and geometry), the charts (plotly), the workbook
     (openpyxl) and the ``.docx`` (python-docx): most of a second in a new process, which
-    ``python -m kitchen report`` spends while the series is read and reduced on a thread
-    of its own (:func:`kitchen.workspace.open_ahead`).
+    ``python -m kitchen report`` spends while the series' CSV files are parsed on a thread
+    of its own (:func:`kitchen.io.read_ahead`).
     """
     import docx  # noqa: F401
     import docx.shared  # noqa: F401

@@ -18,8 +18,7 @@ Modules:
 
 The public face, which other subpackages import from :mod:`kitchen.workspace` and never
 from its modules: :class:`Workspace`, :func:`frame_digest`, :func:`what_changed` and
-:func:`revision_effect`; :func:`open_ahead` opens and reduces a series on a thread while the
-caller goes on (the command line's ``report``).
+:func:`revision_effect`.
 """
 
 from kitchen import _lazy
@@ -31,7 +30,6 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "what_changed": "changes",
         "frame_digest": "digests",
         "Workspace": "workspace",
-        "open_ahead": "workspace",
     },
 )
 
@@ -40,5 +38,4 @@ __all__ = [
     "revision_effect",
     "what_changed",
     "Workspace",
-    "open_ahead",
 ]

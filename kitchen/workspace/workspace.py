@@ -17,9 +17,7 @@ The digests, and where each specimen's rows lie, are in :mod:`kitchen.workspace.
 
 from __future__ import annotations
 
-import threading
 import time
-from concurrent.futures import Future
 from pathlib import Path
 from typing import TYPE_CHECKING
 
@@ -27,7 +25,6 @@ import pandas as pd
 
 from kitchen.analysis import Criterion, parse_criterion
 from kitchen.io import (
-    import_reader_modules,
     TABLE_NAMES,
     InputProblem,
     RawTable,
@@ -786,44 +783,3 @@ class Workspace:
             return None, "none given"
         return own, f"from the series' project table ({self._project['criterion'].where})"
 
-
-def open_ahead(series_path: str | Path, settings: Settings | None = None, **options) -> Future:
-    """Open a series and reduce every specimen on a thread, while the caller goes on.
-
-    ``python -m kitchen report`` opens the series this way and meanwhile imports the
-    libraries of the analysis and the memo pack (scipy's statistics, plotly, openpyxl,
-    python-docx: most of a second), which the reading and the reduction of a long logger
-    record, mostly numpy and the CSV parser working outside the interpreter's lock, then
-    overlap. The modules reading loads on first use are imported here, on the calling
-    thread, before the thread starts (:func:`kitchen.io.import_reader_modules`), so the
-    thread imports nothing while the caller imports: two threads importing at once can
-    each wait on a module the other holds (``tests/workspace/test_workspace.py`` checks
-    that opening and reducing the samples imports no module after it).
-
-    Parameters
-    ----------
-    series_path, settings, **options
-        As for :class:`Workspace`.
-
-    Returns
-    -------
-    concurrent.futures.Future
-        Of the :class:`Workspace`, with :meth:`Workspace.results` computed; its
-        ``result()`` raises what opening or reducing raised (a
-        :class:`kitchen.io.SeriesError` naming file, row and column for bad input).
-    """
-    import_reader_modules(series_path)
-    opened: Future = Future()
-    opened.set_running_or_notify_cancel()
-
-    def work() -> None:
-        try:
-            workspace = Workspace(series_path, settings, **options)
-            workspace.results()
-        except BaseException as error:  # handed to the caller, who reports it
-            opened.set_exception(error)
-        else:
-            opened.set_result(workspace)
-
-    threading.Thread(target=work, name="kitchen-open", daemon=True).start()
-    return opened

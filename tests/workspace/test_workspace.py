@@ -175,55 +175,14 @@ def test_a_criterion_that_does_not_read_stops_the_analysis_that_needs_it(clay):
     assert workspace.analysis(1e-9).criterion == 1e-9  # one given is used as it stands
 
 
-# --- opened ahead, on a thread ------------------------------------------------------------
-
-_IMPORTS_WHILE_OPENING = """
-import sys
-from kitchen.io import import_reader_modules
-from kitchen.workspace import open_ahead
-
-imported = set()
-for folder in sys.argv[1:]:
-    import_reader_modules(folder)  # as open_ahead does before its thread starts
-    before = set(sys.modules)
-    open_ahead(folder).result()
-    imported |= set(sys.modules) - before
-print(sorted(imported))
-"""
-
-
-def test_opening_ahead_imports_nothing_on_its_thread():
-    # open_ahead runs while the caller imports other modules: two threads importing at
-    # once can each wait on a module the other holds, so the thread must import nothing
-    # (a fresh interpreter, as `python -m kitchen report` starts)
-    import subprocess
-
-    folders = [SAMPLES / name for name in ("clay_liner", "drainage_sand", "flexible_wall_clay")]
-    folders.append(SAMPLES / "transducer_log")
-    folders.append(SAMPLES / "drainage_sand.xlsx")
-    done = subprocess.run(
-        [sys.executable, "-c", _IMPORTS_WHILE_OPENING, *map(str, folders)],
-        capture_output=True,
-        text=True,
-        check=True,
-    )
-    assert done.stdout.strip() == "[]", done.stdout
-
-
-def test_opening_ahead_gives_the_workspace_or_the_input_problem(clay, tmp_path):
-    from kitchen.workspace import open_ahead
-
-    opened = open_ahead(clay).result(60)
-    assert opened.results().equals(Workspace(clay).results())
-    (clay / "specimens.csv").write_text("specimen,height [mm]\nQF-01,ten\n")
-    with pytest.raises(SeriesError, match="specimens.csv"):
-        open_ahead(clay).result(60)
+# --- garbage -------------------------------------------------------------------------------
 
 
 def test_opening_and_reducing_leaves_no_garbage_cycles_holding_data():
     # python -m kitchen freezes, uncollected, what exists when its imports are done, while
-    # the series may be read on another thread (kitchen.cli.imports_done): a cycle made by
-    # the reading would never be freed, with the arrays it holds. CSV series leave none;
+    # the series' CSV files are parsed on another thread (kitchen.cli.imports_done): a
+    # cycle made by the reading would never be freed, with the arrays it holds. CSV series
+    # leave none;
     # openpyxl leaves a few thousand small objects of a workbook's XML, and no data
     import gc
 
