@@ -516,6 +516,8 @@ def _prepare(
     blank = np.ones(len(frame), dtype=bool)  # a row with no cell, column by column
     for column in frame.columns:
         blank &= frame[column].isna().to_numpy()
+        if not blank.any():
+            break  # every row has a cell in the columns seen: none is blank
     if blank.any():
         kept, source_row = kept.loc[~blank], source_row[~blank]
     kept = kept.reset_index(drop=True)

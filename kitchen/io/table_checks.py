@@ -351,16 +351,20 @@ def check_plausible(
     si: np.ndarray,
     ids: TextCodes | None,
     problems: list[InputProblem],
-    checked: np.ndarray,
+    checked: np.ndarray | None = None,
 ) -> np.ndarray:
-    """Name the values of `column` outside :data:`PLAUSIBLE_RANGES`, where `checked` holds.
+    """Name the values of `column` outside :data:`PLAUSIBLE_RANGES`, where `checked` holds
+    (every row when None). `si` is finite or NaN (:func:`_numeric_column`): a NaN is never
+    outside a range.
 
     Returns which rows were named."""
     bounds = PLAUSIBLE_RANGES.get(table.name, {}).get(column)
     if bounds is None:
         return np.zeros(si.size, dtype=bool)
-    with np.errstate(invalid="ignore"):
-        outside = checked & np.isfinite(si) & ((si < bounds.low) | (si > bounds.high))
+    outside = si < bounds.low
+    outside |= si > bounds.high  # a NaN is neither
+    if checked is not None:
+        outside &= checked
     if not outside.any():
         return outside
     rows = table.frame["source_row"].to_numpy()
@@ -537,21 +541,18 @@ def convert_table(table: RawTable, problems: list[InputProblem]) -> tuple[pd.Dat
             if column not in _LEFT_OUT_WHEN_ABSENT.get(table.name, ()):
                 columns[column] = np.full(n, np.nan)
             continue
-        values = _numeric_column(table, column, problems, ids)
+        values = _numeric_column(table, column, problems, ids)  # finite or NaN, never inf
         columns[column] = values
-        finite = np.isfinite(values)
         if spec.required:
             empty = table.frame[column].isna().to_numpy()
             report_rows(problems, table, empty, column, "value missing; expected a number")
-        signed = finite
+        signed = None  # every row: NaN is of no sign and in no range
         if column in _POSITIVE.get(table.name, ()):
-            report_rows(
-                problems, table, finite & (values <= 0), column, "must be greater than zero"
-            )
-            signed = finite & (values > 0)
+            report_rows(problems, table, values <= 0, column, "must be greater than zero")
+            signed = values > 0
         if column in _NON_NEGATIVE.get(table.name, ()):
-            report_rows(problems, table, finite & (values < 0), column, "must not be negative")
-            signed = finite & (values >= 0)
+            report_rows(problems, table, values < 0, column, "must not be negative")
+            signed = values >= 0
         check_plausible(table, column, values, ids, problems, signed)
     # every column is a new array: the frame takes them as they are (no copy, no consolidation)
     return pd.DataFrame(columns, copy=False), ids
@@ -765,13 +766,10 @@ def check_readings(
     np.equal(codes[1:], codes[:-1], out=same[1:])
     time = frame["time"].to_numpy()
     head = frame["head"].to_numpy()
-    report_rows(
-        problems,
-        table,
-        same & np.r_[False, np.diff(time) <= 0],
-        "time",
-        "time does not increase from the reading before",
-    )
+    earlier = np.zeros(codes.size, dtype=bool)  # t_i <= t_(i-1), as diff(t) <= 0 is for finite t
+    np.less_equal(time[1:], time[:-1], out=earlier[1:])
+    earlier &= same
+    report_rows(problems, table, earlier, "time", "time does not increase from the reading before")
     starts = np.flatnonzero(~same)
     rises = same & np.r_[False, np.diff(head) > HEAD_RISE_TOLERANCE]
     stops = np.append(starts[1:], codes.size) if starts.size else starts
