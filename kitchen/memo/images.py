@@ -132,7 +132,8 @@ def _browser_path() -> str | None:
 
 
 def _renderer_class():
-    """kaleido's renderer, made to keep its page between images (imported when needed)."""
+    """kaleido's renderer, made to keep its page between images and to load it from the
+    page host with a kept profile (:mod:`._page_host`); imported when needed."""
     import kaleido
 
     class _SamePageRenderer(kaleido.Kaleido):
@@ -143,12 +144,166 @@ def _renderer_class():
         (the figure is drawn in a detached element and purged), so the page is handed back
         as it is. ``tests/memo/test_images.py`` checks that no page is reloaded and that
         the images are those of a freshly loaded page.
+
+        The page is kaleido's own page served by `host` (:class:`._page_host.PageHost`,
+        the browser's proxy) rather than written to a temporary file, and the browser runs
+        with the profile folder `profile` when one is given (Chromium keeps plotly.js
+        compiled there), else with kaleido's temporary one.
         """
+
+        def __init__(self, host, profile: Path | None) -> None:
+            super().__init__(mathjax=False, n=1, proxy_server=host.proxy)
+            self._page_url, self._profile = host.index_url, profile
+
+        async def open(self) -> None:
+            del self._saved_page_arg  # kaleido's page file: the page is served instead
+            self._index = self._page_url
+            if self._profile is not None:
+                browser = self._browser_impl
+                arguments = browser.get_cli
+
+                def with_profile() -> list[str]:
+                    kept = [a for a in arguments() if not a.startswith("--user-data-dir=")]
+                    return [*kept, f"--user-data-dir={self._profile}"]
+
+                browser.get_cli = with_profile
+            await super(kaleido.Kaleido, self).open()  # the browser's own opening
 
         async def _return_kaleido_tab(self, tab) -> None:
             await self.tabs_ready.put(tab)
 
     return _SamePageRenderer
+
+
+async def _draw(renderer, figure_json: str, width, height) -> tuple[bytes, bytes]:
+    """The PNG and SVG of a figure (JSON) drawn by :data:`_PNG_SVG_SCRIPT` in the page of
+    `renderer`, which the caller holds."""
+    page = await renderer.tabs_ready.get()
+    try:
+        answer = await asyncio.wait_for(
+            page.tab.send_command(
+                "Runtime.evaluate",
+                params={
+                    "expression": f"({_PNG_SVG_SCRIPT})({figure_json}, "
+                    f"{json.dumps(width)}, {json.dumps(height)}, {PNG_SCALE})",
+                    "awaitPromise": True,
+                    "returnByValue": True,
+                },
+            ),
+            _IMAGE_TIMEOUT,
+        )
+    finally:
+        await renderer.tabs_ready.put(page)
+    result = answer.get("result", {})
+    if "error" in answer or "exceptionDetails" in result:
+        details = answer.get("error") or result["exceptionDetails"]
+        raise RuntimeError(f"plotly.js could not draw the figure: {details}")
+    images = result["result"]["value"]
+    return base64.b64decode(images["png"]), images["svg"].encode("utf-8")
+
+
+def _warm_up_figure() -> dict:
+    """A figure drawn once in each page as soon as it is open, its images thrown away.
+
+    A page's first drawings run code plotly.js and Chromium have not run before (text
+    measurement, log axes, error bars, fills, the legend, the SVG painted on a canvas), a
+    few tenths of a second more than the same drawings later; drawn while the series is
+    still read and reduced, it leaves the pack's own figures the speed of a warm page. Like
+    the pack's test pages: three panels of log axes, lines, markers with text and error
+    bars, fills, a shaded band, a legend and notes over several lines, in the pack's fonts.
+    """
+    font = {"family": "'DejaVu Serif', 'Liberation Serif', Georgia, serif", "size": 13}
+    axis = {"automargin": True, "showline": True, "mirror": True, "ticks": "outside"}
+    data = [
+        {"type": "scatter", "mode": "lines", "x": [0, 1, 2, 3], "y": [1e-9, 2e-9, 3e-9, 2e-9]},
+        {
+            "type": "scatter",
+            "mode": "markers+text",
+            "x": [0.5, 1.5, 2.5],
+            "y": [2e-9, 1e-9, 4e-9],
+            "text": ["a", "b", "c"],
+            "textposition": "top center",
+            "error_y": {"type": "data", "array": [1e-10, 2e-10, 1e-10]},
+        },
+        {
+            "type": "scatter",
+            "mode": "markers+lines",
+            "x": [0, 1, 2],
+            "y": [3, 1, 2],
+            "xaxis": "x2",
+            "yaxis": "y2",
+        },
+        {
+            "type": "scatter",
+            "mode": "lines",
+            "fill": "toself",
+            "x": [0, 1, 1, 0],
+            "y": [0.9, 0.9, 1.1, 1.1],
+            "xaxis": "x3",
+            "yaxis": "y3",
+        },
+        {
+            "type": "scatter",
+            "mode": "lines",
+            "fill": "tonexty",
+            "x": [0, 1],
+            "y": [1, 1.05],
+            "xaxis": "x3",
+            "yaxis": "y3",
+        },
+    ]
+    layout = {
+        "font": font,
+        "title": {"text": "warm-up", "x": 0},
+        "showlegend": True,
+        "legend": {"borderwidth": 1, "font": {"size": 11}},
+        "margin": {"l": 80, "r": 20, "t": 80, "b": 70},
+        "xaxis": {**axis, "domain": [0, 1], "anchor": "y", "title": {"text": "t [h]"}},
+        "yaxis": {**axis, "domain": [0.7, 1], "type": "log", "title": {"text": "k [m/s]"}},
+        "xaxis2": {**axis, "domain": [0, 1], "anchor": "y2"},
+        "yaxis2": {**axis, "domain": [0.35, 0.63], "anchor": "x2", "type": "log"},
+        "xaxis3": {**axis, "domain": [0, 1], "anchor": "y3"},
+        "yaxis3": {**axis, "domain": [0, 0.26], "anchor": "x3"},
+        "shapes": [
+            {
+                "type": "rect",
+                "xref": "x",
+                "yref": "paper",
+                "x0": 1,
+                "x1": 2,
+                "y0": 0.7,
+                "y1": 1,
+                "fillcolor": "#eef",
+                "line": {"width": 0},
+            }
+        ],
+        "annotations": [
+            {
+                "text": "a note<br>on two lines",
+                "xref": "paper",
+                "yref": "paper",
+                "x": 0,
+                "y": 0,
+                "yshift": -62,
+                "showarrow": False,
+                "align": "left",
+                "font": {"size": 10},
+            },
+            {
+                "text": "panel",
+                "xref": "paper",
+                "yref": "paper",
+                "x": 0.5,
+                "y": 0.63,
+                "showarrow": False,
+                "font": {"size": 16},
+            },
+        ],
+    }
+    return {"data": data, "layout": layout}
+
+
+_WARM_UP = _warm_up_figure()
 
 
 class _ImageServer:
@@ -161,6 +316,8 @@ class _ImageServer:
         )
         self.thread.start()
         self.renderers: list = []
+        self.host = None  # the page host, started on the loop's thread
+        self.claims: list = []  # profiles held, freed once their browsers are closed
         self.pages = 1  # pages opened or opening
         self.settled: set[int] = set()  # renderers whose page kaleido may draw in
         self.answered = False
@@ -169,14 +326,43 @@ class _ImageServer:
         self.opened: Future = asyncio.run_coroutine_threadsafe(self._open_first(), self.loop)
 
     async def _open_first(self) -> None:
+        from ._page_host import PageHost
+
         self.free = asyncio.Queue()
+        self.host = PageHost()
         await self._open_page()
 
     async def _open_page(self) -> None:
-        renderer = _renderer_class()(mathjax=False, n=1)
-        self.renderers.append(renderer)  # closed at the end even when half open
-        await renderer.open()
+        from ._page_host import claim_profile
+
+        claim = claim_profile()
+        if claim is not None:
+            self.claims.append(claim)
+        renderer = await self._open_renderer(claim)
+        try:  # the page draws as fast from its first figure on (_WARM_UP)
+            await _draw(renderer, json.dumps(_WARM_UP), 980, 1000)
+        except Exception:  # a page that cannot draw says so at its first image
+            pass
         await self.free.put(renderer)
+
+    async def _open_renderer(self, claim):
+        """A renderer whose page is loaded, with the claimed profile when there is one.
+
+        A profile Chromium will not open (one a browser left behind by a killed run still
+        holds, or one a newer Chromium wrote) is given up for a temporary one.
+        """
+        renderer = _renderer_class()(self.host, None if claim is None else claim.path)
+        self.renderers.append(renderer)  # closed at the end even when half open
+        try:
+            await renderer.open()
+        except Exception:
+            if claim is None:
+                raise
+            self.renderers.remove(renderer)
+            await asyncio.gather(renderer.close(), return_exceptions=True)
+            claim.release()
+            return await self._open_renderer(None)
+        return renderer
 
     async def _settle(self, renderer) -> None:
         """Reload a renderer's page once, before kaleido first draws in it.
@@ -224,30 +410,9 @@ class _ImageServer:
     async def _png_svg(self, figure_json: str, width, height) -> tuple[bytes, bytes]:
         renderer = await self._free_renderer(2)
         try:
-            page = await renderer.tabs_ready.get()
-            try:
-                answer = await asyncio.wait_for(
-                    page.tab.send_command(
-                        "Runtime.evaluate",
-                        params={
-                            "expression": f"({_PNG_SVG_SCRIPT})({figure_json}, "
-                            f"{json.dumps(width)}, {json.dumps(height)}, {PNG_SCALE})",
-                            "awaitPromise": True,
-                            "returnByValue": True,
-                        },
-                    ),
-                    _IMAGE_TIMEOUT,
-                )
-            finally:
-                await renderer.tabs_ready.put(page)
+            return await _draw(renderer, figure_json, width, height)
         finally:
             self.free.put_nowait(renderer)
-        result = answer.get("result", {})
-        if "error" in answer or "exceptionDetails" in result:
-            details = answer.get("error") or result["exceptionDetails"]
-            raise RuntimeError(f"plotly.js could not draw the figure: {details}")
-        images = result["result"]["value"]
-        return base64.b64decode(images["png"]), images["svg"].encode("utf-8")
 
     def request(self, figure_dict: dict, options: dict) -> Future:
         return asyncio.run_coroutine_threadsafe(self._image(figure_dict, options), self.loop)
@@ -263,9 +428,12 @@ class _ImageServer:
             return
 
         async def shut() -> None:
-            await asyncio.gather(
-                *(renderer.close() for renderer in self.renderers), return_exceptions=True
-            )
+            closing = [renderer.close() for renderer in self.renderers]
+            if self.host is not None:
+                closing.append(asyncio.to_thread(self.host.close))
+            await asyncio.gather(*closing, return_exceptions=True)
+            for claim in self.claims:  # after their browsers have closed
+                claim.release()
 
         try:
             asyncio.run_coroutine_threadsafe(shut(), self.loop).result(10)
