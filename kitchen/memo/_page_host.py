@@ -52,8 +52,8 @@ script as it loads it, and Chromium's code cache keeps them all, instead of comp
 function the first time it runs (V8's explicit compile hints, Chromium 136 and later, from
 memory; an older Chromium reads a comment). The first drawings in a page otherwise compile
 the drawing code as they go: the first test page took 0.45-0.55 s instead of 0.09 s, with
-the hint 0.18-0.24 s (the rest is what a first drawing warms besides, :data:`.images`'s
-warm-up)."""
+the hint 0.18-0.24 s. (A warm-up figure drawn in the page as soon as it opened was
+measured too and left out: the first figures drew no sooner after it.)"""
 
 
 def _scripts() -> dict[str, Path]:

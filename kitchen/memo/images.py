@@ -9,10 +9,12 @@ package is even imported (:func:`start_for_command`).
 Every image is drawn in the same page, one after the other, without reloading it
 (:class:`_SamePageRenderer`): plotly.js draws each figure in a detached element of its own
 and removes it once the image is made, so nothing is left in the page from one image to the
-next, and a reload would only cost its time (about a quarter of a second an image). One
-page is opened first and images are drawn as soon as it is ready: loading plotly.js into a
-page costs some 1.5 s of a core, so a second page (:data:`PAGES`) is opened only when more
-than :data:`SECOND_PAGE_BACKLOG` images wait, a backlog long enough to repay it.
+next, and a reload would only cost its time (about a quarter of a second an image). The
+page is served on the loopback interface and the browser keeps a profile in the cache
+folder (:mod:`._page_host`), so Chromium compiles plotly.js once per machine: the page
+loads in about 0.3 s instead of 1.1-1.5 s, before the first figure is asked for. One page
+is opened first and images are drawn as soon as it is ready; a second page
+(:data:`PAGES`) is opened only when more than :data:`SECOND_PAGE_BACKLOG` images wait.
 :func:`request_image` hands a figure to the server and returns at once, so the next figure
 can be prepared while Chromium draws; :func:`figure_image` waits for its image. The first
 image is awaited at most :data:`FIRST_IMAGE_TIMEOUT` seconds, so a Chromium that starts but
@@ -64,13 +66,16 @@ while it encodes the other. Each page is a browser of its own (kaleido's rendere
 each), opened when needed (:data:`SECOND_PAGE_BACKLOG`)."""
 
 SECOND_PAGE_BACKLOG = 150
-"""Images waiting for the first page above which a second page is opened. Opening one loads
-plotly.js again (about 1.5 s of a core, 2.5 s on a busy two-core machine), time the first
-page draws some 45 images in, more slowly for sharing the cores; below this backlog the
-first page alone finishes as soon (the clay sample's pack, 64 images, in turns on the
-shared two-core machine: medians of four rounds 12.8 s with one page, 13.2 s with a second
-opened as soon as images waited, at a load average of 5 to 7; of three rounds 6.47 s and
-6.45 s at a load of 2)."""
+"""Images waiting for the first page above which a second page is opened. Opening one costs
+its browser's start and its page's load (0.5-0.9 s with plotly.js compiled in its profile,
+1.5-2.5 s without), and two pages draw faster than one only where a core is free for the
+second: on the shared two-core machine they did not (the clay sample's pack, 64 images,
+in turn, medians of three rounds at a load average of 3 to 5: 7.89 s with one page,
+8.54 s with a second opened once 10 images waited, 8.43 s with a second opened as soon as
+the first was; in one process, the pack's images drawn in a warm page in 3.1-3.3 s by
+one page and 2.0-2.3 s by two at a load of 2.5, when both cores were free). Earlier, with
+plotly.js loaded afresh: the pack in four rounds 12.8 s with one page, 13.2 s with a
+second opened as soon as images waited, at a load average of 5 to 7."""
 
 FIRST_IMAGE_TIMEOUT = 180.0
 """Seconds to wait for Chromium to render the first image before giving up. [s]"""
@@ -202,110 +207,6 @@ async def _draw(renderer, figure_json: str, width, height) -> tuple[bytes, bytes
     return base64.b64decode(images["png"]), images["svg"].encode("utf-8")
 
 
-def _warm_up_figure() -> dict:
-    """A figure drawn once in each page as soon as it is open, its images thrown away.
-
-    A page's first drawings run code plotly.js and Chromium have not run before (text
-    measurement, log axes, error bars, fills, the legend, the SVG painted on a canvas), a
-    few tenths of a second more than the same drawings later; drawn while the series is
-    still read and reduced, it leaves the pack's own figures the speed of a warm page. Like
-    the pack's test pages: three panels of log axes, lines, markers with text and error
-    bars, fills, a shaded band, a legend and notes over several lines, in the pack's fonts.
-    """
-    font = {"family": "'DejaVu Serif', 'Liberation Serif', Georgia, serif", "size": 13}
-    axis = {"automargin": True, "showline": True, "mirror": True, "ticks": "outside"}
-    data = [
-        {"type": "scatter", "mode": "lines", "x": [0, 1, 2, 3], "y": [1e-9, 2e-9, 3e-9, 2e-9]},
-        {
-            "type": "scatter",
-            "mode": "markers+text",
-            "x": [0.5, 1.5, 2.5],
-            "y": [2e-9, 1e-9, 4e-9],
-            "text": ["a", "b", "c"],
-            "textposition": "top center",
-            "error_y": {"type": "data", "array": [1e-10, 2e-10, 1e-10]},
-        },
-        {
-            "type": "scatter",
-            "mode": "markers+lines",
-            "x": [0, 1, 2],
-            "y": [3, 1, 2],
-            "xaxis": "x2",
-            "yaxis": "y2",
-        },
-        {
-            "type": "scatter",
-            "mode": "lines",
-            "fill": "toself",
-            "x": [0, 1, 1, 0],
-            "y": [0.9, 0.9, 1.1, 1.1],
-            "xaxis": "x3",
-            "yaxis": "y3",
-        },
-        {
-            "type": "scatter",
-            "mode": "lines",
-            "fill": "tonexty",
-            "x": [0, 1],
-            "y": [1, 1.05],
-            "xaxis": "x3",
-            "yaxis": "y3",
-        },
-    ]
-    layout = {
-        "font": font,
-        "title": {"text": "warm-up", "x": 0},
-        "showlegend": True,
-        "legend": {"borderwidth": 1, "font": {"size": 11}},
-        "margin": {"l": 80, "r": 20, "t": 80, "b": 70},
-        "xaxis": {**axis, "domain": [0, 1], "anchor": "y", "title": {"text": "t [h]"}},
-        "yaxis": {**axis, "domain": [0.7, 1], "type": "log", "title": {"text": "k [m/s]"}},
-        "xaxis2": {**axis, "domain": [0, 1], "anchor": "y2"},
-        "yaxis2": {**axis, "domain": [0.35, 0.63], "anchor": "x2", "type": "log"},
-        "xaxis3": {**axis, "domain": [0, 1], "anchor": "y3"},
-        "yaxis3": {**axis, "domain": [0, 0.26], "anchor": "x3"},
-        "shapes": [
-            {
-                "type": "rect",
-                "xref": "x",
-                "yref": "paper",
-                "x0": 1,
-                "x1": 2,
-                "y0": 0.7,
-                "y1": 1,
-                "fillcolor": "#eef",
-                "line": {"width": 0},
-            }
-        ],
-        "annotations": [
-            {
-                "text": "a note<br>on two lines",
-                "xref": "paper",
-                "yref": "paper",
-                "x": 0,
-                "y": 0,
-                "yshift": -62,
-                "showarrow": False,
-                "align": "left",
-                "font": {"size": 10},
-            },
-            {
-                "text": "panel",
-                "xref": "paper",
-                "yref": "paper",
-                "x": 0.5,
-                "y": 0.63,
-                "showarrow": False,
-                "font": {"size": 16},
-            },
-        ],
-    }
-    return {"data": data, "layout": layout}
-
-
-_WARM_UP = _warm_up_figure()
-
-
 class _ImageServer:
     """The browser pages and the event loop that drives them, on a thread of their own."""
 
@@ -338,12 +239,7 @@ class _ImageServer:
         claim = claim_profile()
         if claim is not None:
             self.claims.append(claim)
-        renderer = await self._open_renderer(claim)
-        try:  # the page draws as fast from its first figure on (_WARM_UP)
-            await _draw(renderer, json.dumps(_WARM_UP), 980, 1000)
-        except Exception:  # a page that cannot draw says so at its first image
-            pass
-        await self.free.put(renderer)
+        await self.free.put(await self._open_renderer(claim))
 
     async def _open_renderer(self, claim):
         """A renderer whose page is loaded, with the claimed profile when there is one.
