@@ -28,6 +28,7 @@ from __future__ import annotations
 
 import argparse
 import contextlib
+import gc
 import io
 import sys
 import warnings
@@ -309,13 +310,22 @@ def _add_revision_commands(commands) -> None:
 
 
 def _report(arguments) -> int:
-    from kitchen.memo import export_memo_pack, start_image_export
-    from kitchen.revisions import windows_path
-    from kitchen.workspace import Workspace
+    from kitchen.io import read_ahead
 
-    if not arguments.no_images:
-        start_image_export()  # Chromium starts while the series is read and reduced
+    # the series' CSV files are parsed on a thread while the modules that check, reduce
+    # and export it are imported (Chromium, for the images, is already starting)
+    with _warnings_restored():
+        parsing = read_ahead(arguments.series)
+        from kitchen.memo import export_memo_pack, import_export_modules, start_image_export
+        from kitchen.revisions import windows_path
+        from kitchen.workspace import Workspace
 
+        if not arguments.no_images:
+            start_image_export()
+        import_export_modules()
+        if parsing is not None:
+            parsing.join()
+    imports_done()
     settings = Settings(
         arguments.reference_temperature,
         arguments.viscosity,
@@ -579,6 +589,45 @@ MMAP_THRESHOLD = 1 << 17
 """Bytes from which the C allocator maps a block of its own (its default start, 128 KiB)."""
 
 
+@contextlib.contextmanager
+def _warnings_restored():
+    """The warnings filters and their recorder as they were, once the block is done.
+
+    pandas sets and restores the filters around many of its calls
+    (``warnings.catch_warnings``), which is not safe while two threads use pandas: one
+    thread's restore can undo the other's and leave a filter of pandas' in place, or the
+    recorder of :func:`main` replaced. Around the block in which the series is parsed on a
+    thread (:func:`kitchen.io.read_ahead`), whose end joins that thread, everything is put
+    back as it was; nothing in the block depends on a warning meanwhile (rows with a cell
+    too many are found without the parser's).
+    """
+    filters = list(warnings.filters)
+    with warnings.catch_warnings():  # restores the recorder and the filters' list
+        yield
+    if warnings.filters != filters:  # the list itself changed under another thread
+        warnings.filters[:] = filters
+        with warnings.catch_warnings():  # which has the interpreter read them again
+            pass
+
+
+def imports_done() -> None:
+    """Resume the cyclic garbage collector that ``python -m kitchen`` paused for its imports.
+
+    Importing the package and the libraries of a ``report`` (pandas, scipy, pint,
+    plotly, openpyxl) makes some 250,000 objects that live as long as the process, yet
+    the collector would walk them again and again: about 0.2 s of a ``report``. They are
+    moved out of its reach (``gc.freeze``) and the collector resumed, for the command's
+    own objects. Nothing is collected first (one pass over them costs as much): a frozen
+    cycle is never freed, but the imports leave next to none, and parsing a series' CSV
+    files, which may run on another thread meanwhile (:func:`kitchen.io.read_ahead`),
+    leaves none (``tests/workspace/test_workspace.py``). Where the collector was not
+    paused (the command line called from Python, as the tests do) this does nothing.
+    """
+    if not gc.isenabled():
+        gc.freeze()
+        gc.enable()
+
+
 def return_freed_memory() -> bool:
     """Have the C allocator give large freed blocks back to the system at once.
 
@@ -635,6 +684,8 @@ def main(argv: list[str] | None = None) -> int:
 def _main(argv: list[str] | None) -> int:
     parser = build_parser()
     arguments = parser.parse_args(argv)
+    if arguments.command != "report":  # which resumes it after its own imports
+        imports_done()
     try:
         if arguments.command == "report":
             return _report(arguments)

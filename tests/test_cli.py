@@ -466,3 +466,32 @@ def test_freed_arrays_go_back_to_the_system_in_the_command_line_process():
     assert returned("fixed") > 15_000 > returned("default")
     main_text = (Path(__file__).parents[1] / "kitchen" / "__main__.py").read_text()
     assert "return_freed_memory()" in main_text
+
+
+def test_the_warnings_filters_are_put_back_after_the_series_is_parsed_ahead():
+    # pandas sets and restores the warnings filters around its calls; with the series
+    # parsed on a thread meanwhile, one thread's restore can undo the other's and leave a
+    # filter of pandas' in place (here: ignore every UserWarning), which would hide the
+    # command's own warnings ("kitchen: warning: ...") to the end of the command
+    import threading
+    import warnings
+
+    from kitchen.cli import _warnings_restored
+
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        before, outer = list(warnings.filters), warnings.filters
+        with _warnings_restored():
+            left = list(warnings.filters)
+
+            def interleaved():  # enters, and leaves after the other thread has restored
+                warnings.filters = left
+                warnings.simplefilter("ignore", UserWarning)
+
+            worker = threading.Thread(target=interleaved)
+            worker.start()
+            worker.join()
+            outer.insert(0, ("ignore", None, Warning, None, 0))  # the list it puts back, too
+        assert warnings.filters == before
+        warnings.warn("a torn last row", UserWarning)
+    assert [str(w.message) for w in caught] == ["a torn last row"]

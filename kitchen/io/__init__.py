@@ -25,6 +25,7 @@ modules: :func:`split_header`, :func:`format_header`, :func:`parse_value`, :func
 :data:`KINDS`, :data:`EXAMPLE_UNITS` and :class:`UnitError` (units); :data:`SCHEMAS`,
 :data:`TABLE_NAMES`, :class:`ColumnSpec`, :class:`RawTable`, :func:`read_tables`,
 :func:`read_table` (one table on its own: the field tests),
+:func:`read_ahead` (a folder's CSV files parsed on a thread while the caller imports),
 :class:`InputProblem` and :class:`SeriesError` (the raw tables), :data:`ALTERNATIVE_COLUMNS`
 and :data:`CONDITION_TABLES`; :func:`time_zone` (units); :func:`pressure_head`,
 :func:`read_date_times`, :data:`STANDARD_GRAVITY` and :data:`GAP_FACTOR` (logger readings);
@@ -80,6 +81,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "RawTable": "raw_tables",
         "SeriesError": "raw_tables",
         "read_tables": "raw_tables",
+        "read_ahead": "raw_tables",
         "read_table": "raw_tables",
         "Series": "series",
         "build_series": "series",
@@ -103,6 +105,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
 )
 
 __all__ = [
+    "read_ahead",
     "ALTERNATIVE_COLUMNS",
     "CONDITION_TABLES",
     "FLOW_DIRECTIONS",

@@ -21,8 +21,10 @@ from __future__ import annotations
 
 import csv
 import re
+import threading
 import warnings
 import zipfile
+from concurrent.futures import Future
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -305,6 +307,13 @@ def _read_csv(path: Path, problems: list[InputProblem]) -> tuple[pd.DataFrame, l
         for key in text_keys
     }
     empty = {key: [""] if key in text_keys else list(EMPTY_TEXTS) for key in keys}
+    # rows with a cell beyond the header are found without the parser's warnings, which
+    # are not reliable while another thread uses the warnings filters (read_ahead): a
+    # first row so, which the parser would only warn of, is looked for here, and a later
+    # one stops the parser (on_bad_lines="error")
+    if _first_row_torn(path, len(keys)):
+        _name_torn_rows(path, label, keys, problems)
+        return None
     try:
         with warnings.catch_warnings(record=True) as warned:
             warnings.simplefilter("always", pd.errors.ParserWarning)
@@ -320,13 +329,14 @@ def _read_csv(path: Path, problems: list[InputProblem]) -> tuple[pd.DataFrame, l
                 keep_default_na=False,
                 na_values=empty,
                 skip_blank_lines=False,
+                on_bad_lines="error",
             )
     except pd.errors.ParserError as error:
         mismatch = _FIELDS_MISMATCH.search(str(error))
         if mismatch is None:
             problems.append(InputProblem(label, None, None, f"cannot be read as CSV ({error})"))
-        else:
-            _, line, saw = mismatch.groups()
+        elif not _name_torn_rows(path, label, keys, problems):
+            _, line, saw = mismatch.groups()  # extra cells, every one empty
             problems.append(InputProblem(label, int(line), None, _too_many_cells(saw, keys)))
         return None
     except UnicodeDecodeError:
@@ -341,14 +351,30 @@ def _read_csv(path: Path, problems: list[InputProblem]) -> tuple[pd.DataFrame, l
                 warning.message, warning.category, warning.filename, warning.lineno
             )
     if any(issubclass(warning.category, pd.errors.ParserWarning) for warning in warned):
-        torn = _rows_with_cells_beyond_the_header(path, len(keys))
-        for row, cells in torn[:20]:
-            problems.append(InputProblem(label, row, None, _too_many_cells(cells, keys)))
-        if len(torn) > 20:
-            problems.append(
-                InputProblem(label, None, None, f"{len(torn) - 20} more row(s) with too many cells")
-            )
+        _name_torn_rows(path, label, keys, problems)
     return frame, written
+
+
+def _first_row_torn(path: Path, width: int) -> bool:
+    """Whether the first row below the header has a non-empty cell beyond `width`."""
+    with path.open(encoding="utf-8-sig", newline="") as stream:
+        reader = csv.reader(stream)
+        next(reader, None)
+        record = next(reader, [])
+    return any(cell.strip() for cell in record[width:])
+
+
+def _name_torn_rows(path: Path, label: str, keys, problems: list[InputProblem]) -> bool:
+    """Name the rows with a non-empty cell beyond the header (the first 20, and how many
+    more); whether there are any."""
+    torn = _rows_with_cells_beyond_the_header(path, len(keys))
+    for row, cells in torn[:20]:
+        problems.append(InputProblem(label, row, None, _too_many_cells(cells, keys)))
+    if len(torn) > 20:
+        problems.append(
+            InputProblem(label, None, None, f"{len(torn) - 20} more row(s) with too many cells")
+        )
+    return bool(torn)
 
 
 _SEPARATOR_WORDS = {";": "semicolons", "\t": "tabs"}
@@ -366,7 +392,7 @@ def _other_separator(written: list[str]) -> str | None:
 
 def _rows_with_cells_beyond_the_header(path: Path, width: int) -> list[tuple[int, int]]:
     """The rows (as a spreadsheet counts them) with a non-empty cell beyond the header's
-    `width` cells, and how many cells they have; read only when the parser warned."""
+    `width` cells, and how many cells they have; read only when the parser found one."""
     torn = []
     with path.open(encoding="utf-8-sig", newline="") as stream:
         reader = csv.reader(stream)
@@ -518,6 +544,82 @@ _EXAMPLE_UNITS = {
 }
 
 
+_AHEAD: dict[Path, tuple[tuple, Future]] = {}
+"""CSV files parsed ahead (:func:`read_ahead`), by path: the file's identity when it was
+read and the future of what :func:`_read_csv` made of it. Each is taken once."""
+
+
+def _file_identity(path: Path) -> tuple:
+    """What changes when a file is written again: its inode, size and modification time."""
+    stat = path.stat()
+    return stat.st_ino, stat.st_size, stat.st_mtime_ns
+
+
+def read_ahead(path: str | Path) -> threading.Thread | None:
+    """Start parsing the CSV files of a series folder on a thread, and return it at once.
+
+    ``python -m kitchen report`` calls this first, before it imports the modules that
+    check and reduce the series: the parser works outside the interpreter's lock, so a
+    long logger record is parsed while they are imported. :func:`read_tables` then takes
+    each file's parsed table, and the problems found in it, in place of parsing the file
+    itself, if the file is unchanged since (same inode, size and modification time); a
+    file written again in between is parsed again. A workbook, or a path that is no
+    folder, is left to :func:`read_tables` (None is returned). The thread imports nothing
+    (the reader's codec is looked up here first), so it never waits on an import of the
+    caller's; rows with a cell too many are found without the parser's warnings
+    (:func:`_read_csv`), which pandas makes unreliable while two threads use them: it sets
+    and restores the warnings filters on every call, and one thread's restore can undo
+    the other's (the caller restores them once the thread is joined).
+    """
+    import codecs
+
+    folder = Path(path)
+    if not folder.is_dir():
+        return None
+    codecs.lookup("utf-8-sig")
+    files = []
+    for name in TABLE_NAMES:
+        file = folder / f"{name}.csv"
+        try:
+            identity = _file_identity(file)
+        except OSError:
+            continue
+        future: Future = Future()
+        future.set_running_or_notify_cancel()
+        _AHEAD[file] = (identity, future)
+        files.append((file, future))
+
+    def parse() -> None:
+        for file, future in files:
+            problems: list[InputProblem] = []
+            try:
+                read = _read_csv(file, problems)
+            except BaseException as error:  # raised where the table is taken
+                future.set_exception(error)
+            else:
+                future.set_result((read, problems))
+
+    thread = threading.Thread(target=parse, name="kitchen-read-ahead", daemon=True)
+    thread.start()
+    return thread
+
+
+def _read_csv_once(path: Path, problems: list[InputProblem]):
+    """:func:`_read_csv` of `path`, or what :func:`read_ahead` made of it while unchanged."""
+    ahead = _AHEAD.pop(path, None)
+    if ahead is not None:
+        identity, future = ahead
+        read, found = future.result()
+        try:
+            unchanged = _file_identity(path) == identity
+        except OSError:
+            unchanged = False
+        if unchanged:
+            problems.extend(found)
+            return read
+    return _read_csv(path, problems)
+
+
 def read_tables(path: str | Path) -> tuple[dict[str, RawTable], tuple[Path, ...]]:
     """Read a series folder or workbook as written, without converting units.
 
@@ -549,7 +651,7 @@ def read_tables(path: str | Path) -> tuple[dict[str, RawTable], tuple[Path, ...]
         for name in TABLE_NAMES:
             file = path / f"{name}.csv"
             if file.exists():
-                read = _read_csv(file, problems)
+                read = _read_csv_once(file, problems)
                 files.append(file)
                 if read is not None:
                     frames[name] = (file.name, *read)

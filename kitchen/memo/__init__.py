@@ -30,8 +30,8 @@ Modules, in the order a pack is made:
   the same provenance, manifest and cautions.
 
 The public face, which other subpackages import from :mod:`kitchen.memo` and never from its
-modules: :func:`export_memo_pack` (:class:`MemoPack`), :data:`CHART_SCRIPT` and
-:data:`PACK_SPECIMEN_LIMIT`;
+modules: :func:`export_memo_pack` (:class:`MemoPack`), :data:`CHART_SCRIPT`,
+:data:`PACK_SPECIMEN_LIMIT` and :func:`import_export_modules`;
 :func:`memo_charts`; :func:`start_image_export`, :func:`figure_image`,
 :class:`ImageExportUnavailable`, :data:`PNG_SCALE` and :data:`FIRST_IMAGE_TIMEOUT`;
 :func:`specimens_table`, :func:`fits_table`, :func:`checks_table`, :func:`revisions_table`,
@@ -86,6 +86,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "PACK_SPECIMEN_LIMIT": "pack",
         "MemoPack": "pack",
         "export_memo_pack": "pack",
+        "import_export_modules": "pack",
         "REDUCTION_METHODS": "pages",
         "VERDICT_MARKS": "pages",
         "chart_page": "pages",
@@ -118,6 +119,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
 )
 
 __all__ = [
+    "import_export_modules",
     "document_bytes",
     "export_field_check",
     "FieldReport",

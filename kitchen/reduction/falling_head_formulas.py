@@ -157,7 +157,9 @@ def per_distinct_value(
     return function(values)
 
 
-def reference_elapsed_time(time, temperature, reference_temperature=20.0, viscosity="kestin"):
+def reference_elapsed_time(
+    time, temperature, reference_temperature=20.0, viscosity="kestin", steps=None
+):
     """Elapsed time scaled to the reference temperature, ∫ dt / R_T.
 
     Parameters
@@ -170,6 +172,8 @@ def reference_elapsed_time(time, temperature, reference_temperature=20.0, viscos
         Reference temperature. [degC]
     viscosity : str
         Viscosity method for R_T.
+    steps : numpy.ndarray, optional
+        ``numpy.diff(time)``, where the caller has formed it already. [s]
 
     Returns
     -------
@@ -191,8 +195,25 @@ def reference_elapsed_time(time, temperature, reference_temperature=20.0, viscos
             1.0 / np.asarray(viscosity_ratio(values, reference_temperature, viscosity), dtype=float)
         ),
     )
-    steps = np.diff(time) * 0.5 * (inverse[1:] + inverse[:-1])
-    return np.concatenate(([0.0], np.cumsum(steps)))
+    return cumulative_trapezoid(np.diff(time) if steps is None else steps, inverse)
+
+
+def cumulative_trapezoid(steps: np.ndarray, values: np.ndarray) -> np.ndarray:
+    """∫ values dt from the first reading to each, by the trapezoid rule.
+
+    `steps` are the time steps between readings (``numpy.diff`` of the times; one fewer
+    than `values`). Returns an array of the readings' length starting at 0: the numbers of
+    ``concatenate(([0], cumsum(steps * 0.5 * (values[1:] + values[:-1]))))`` to the last
+    bit, formed in place (two arrays of the record's length, not five).
+    """
+    area = np.empty(values.size)
+    area[0] = 0.0
+    both = np.add(values[1:], values[:-1])
+    part = np.multiply(steps, 0.5)
+    part *= both
+    del both
+    np.cumsum(part, out=area[1:])
+    return area
 
 
 def jurin_capillary_rise(diameter, temperature=20.0):

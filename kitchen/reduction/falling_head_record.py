@@ -62,6 +62,7 @@ from .falling_head_evidence import (
     window_interval,
 )
 from .falling_head_formulas import (
+    cumulative_trapezoid,
     effective_standpipe_area,
     jurin_capillary_rise,
     reference_elapsed_time,
@@ -158,10 +159,12 @@ class FallingHeadRecord:
         self._rows = rows
         self._check(np.isfinite(time), "time", "a finite number [s]")
         self._check(np.isfinite(head) & (head > 0), "head", "a positive number [m]")
-        self._check(np.r_[True, np.diff(time) > 0], "time", "a time later than the reading before")
+        steps = np.diff(time)
+        self._check(np.r_[True, steps > 0], "time", "a time later than the reading before")
         self.head = head
         self._set_specimen(specimen_row)
-        self._prepare_temperature(readings)
+        self._prepare_temperature(readings, steps)
+        del steps
         self._given_rise = capillary_rise
         self._prepare_heads(capillary_rise)
         self.inflow, self.outflow = (
@@ -284,7 +287,7 @@ class FallingHeadRecord:
                 f"{expected}{more}"
             )
 
-    def _prepare_temperature(self, readings):
+    def _prepare_temperature(self, readings, steps):
         settings, time = self.settings, self.time
         if "temperature" in readings.columns:
             temperature = readings["temperature"].to_numpy(float)
@@ -310,10 +313,9 @@ class FallingHeadRecord:
             self._temperature_area = None
             return
         self.reference_time = reference_elapsed_time(
-            time, filled, settings.reference_temperature, settings.viscosity
+            time, filled, settings.reference_temperature, settings.viscosity, steps=steps
         )
-        steps = np.diff(time) * 0.5 * (filled[1:] + filled[:-1])
-        self._temperature_area = np.concatenate(([0.0], np.cumsum(steps)))
+        self._temperature_area = cumulative_trapezoid(steps, filled)
         self.mean_temperature = self._mean_temperature(0, self.n)
 
     def _prepare_heads(self, capillary_rise):

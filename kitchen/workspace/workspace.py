@@ -19,10 +19,11 @@ from __future__ import annotations
 
 import time
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 import pandas as pd
 
-from kitchen.analysis import Criterion, SeriesAnalysis, analyse_series, parse_criterion
+from kitchen.analysis import Criterion, parse_criterion
 from kitchen.io import (
     TABLE_NAMES,
     InputProblem,
@@ -71,6 +72,9 @@ from kitchen.settings import Settings
 from kitchen.specimen import final_state, specimen_state
 
 from .digests import frame_digest, parts_digest, specimen_positions, specimen_spans
+
+if TYPE_CHECKING:
+    from kitchen.analysis import SeriesAnalysis
 
 __all__ = ["Workspace"]
 
@@ -666,6 +670,8 @@ class Workspace:
             When the criterion of the project table cannot be read, naming its file, row
             and column (only when no criterion is given here).
         """
+        from kitchen.analysis import analyse_series  # with scipy.stats: not needed to reduce
+
         in_force, _ = self.criterion_in_force(criterion)
         return analyse_series(
             self.results(),
@@ -776,3 +782,4 @@ class Workspace:
         if own is None:
             return None, "none given"
         return own, f"from the series' project table ({self._project['criterion'].where})"
+

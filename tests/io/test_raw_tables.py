@@ -377,3 +377,89 @@ def test_a_workbook_whose_archive_understates_a_part_is_read_no_further(tmp_path
     (problem,) = caught.value.problems
     # read up to the stated size, its checksum then fails: refused as a damaged archive
     assert str(problem) == "lying.xlsx: cannot be read: not an .xlsx workbook"
+
+
+# --- parsed ahead, on a thread (the command line's report) ------------------------------------
+
+
+@pytest.mark.parametrize("where", ["first row", "later row"])
+def test_a_row_with_a_cell_too_many_is_named_whatever_the_warnings_filters(tmp_path, where):
+    # pandas sets and restores the warnings filters around its calls, which another thread
+    # can leave changed while a series is parsed ahead (kitchen.io.read_ahead): the rows
+    # with a cell too many are found without the parser's warnings, even when every
+    # warning is ignored
+    import warnings
+
+    falling = FALLING.replace("A1,0,100,", "A1,0,100,5,") if where == "first row" else None
+    falling = falling or FALLING.replace("A1,10,95,", "A1,10,95,5,")
+    folder = write_series(tmp_path / "s", falling_head=falling)
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        problems = problems_of(folder)
+    row = 2 if where == "first row" else 3
+    assert problems == [
+        f"falling_head.csv, row {row}: 5 cells where the header has 4: is there a comma in a "
+        "value (a decimal comma, or text to put in quotes)?"
+    ]
+
+
+_THREAD_IMPORTS = """
+import codecs
+import sys
+import kitchen.cli  # as python -m kitchen has, when report parses its series ahead
+from kitchen.io import read_ahead
+
+codecs.lookup("utf-8-sig")  # as read_ahead does on the calling thread, before it starts
+imported = set()
+for folder in sys.argv[1:]:
+    before = set(sys.modules)
+    read_ahead(folder).join()
+    imported |= set(sys.modules) - before
+print(sorted(imported))
+"""
+
+
+def test_parsing_ahead_imports_nothing_on_its_thread():
+    # the caller imports other modules meanwhile: two threads importing at once can each
+    # wait on a module the other holds (a fresh interpreter, as python -m kitchen starts)
+    import subprocess
+    import sys
+
+    from series_files import SAMPLES
+
+    folders = [SAMPLES / name for name in ("clay_liner", "drainage_sand", "flexible_wall_clay")]
+    folders.append(SAMPLES / "transducer_log")
+    done = subprocess.run(
+        [sys.executable, "-c", _THREAD_IMPORTS, *map(str, folders)],
+        capture_output=True,
+        text=True,
+        check=True,
+    )
+    assert done.stdout.strip() == "[]", done.stdout
+
+
+def test_a_table_parsed_ahead_is_taken_once_and_only_while_unchanged(tmp_path):
+    from kitchen.io import read_ahead
+    from kitchen.io.raw_tables import _AHEAD
+
+    folder = write_series(tmp_path / "s")
+    plain, files = read_tables(folder)
+    read_ahead(folder).join()
+    assert set(_AHEAD) == set(files)
+    ahead, _ = read_tables(folder)
+    assert not _AHEAD  # taken, and not held
+    for name, table in plain.items():
+        pd.testing.assert_frame_equal(ahead[name].frame, table.frame)
+    # a readings file written again after it was parsed ahead is parsed again
+    read_ahead(folder).join()
+    (folder / "falling_head.csv").write_text(FALLING.replace("A1,10,95,", "A1,10,94.5,"))
+    again, _ = read_tables(folder)
+    assert not _AHEAD
+    changed = again["falling_head"].frame
+    assert not changed.equals(plain["falling_head"].frame)
+    # and a problem found ahead is named as a plain reading names it
+    (folder / "specimens.csv").write_text(SPECIMENS.replace(",5\nA2", ",5,7\nA2"))
+    read_ahead(folder).join()
+    with pytest.raises(SeriesError, match="row 2: 9 cells where the header has 8"):
+        read_tables(folder)
+    assert read_ahead(tmp_path / "book.xlsx") is None  # a workbook is read as it comes

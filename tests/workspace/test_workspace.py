@@ -6,6 +6,7 @@ reducing every specimen (:func:`kitchen.revisions.load_effective_series` and
 """
 
 import csv
+import sys
 from pathlib import Path
 
 import pandas as pd
@@ -172,3 +173,37 @@ def test_a_criterion_that_does_not_read_stops_the_analysis_that_needs_it(clay):
     with pytest.raises(SeriesError, match=r"project.csv, row 2, column 'value': criterion"):
         workspace.analysis()
     assert workspace.analysis(1e-9).criterion == 1e-9  # one given is used as it stands
+
+
+# --- garbage -------------------------------------------------------------------------------
+
+
+def test_opening_and_reducing_leaves_no_garbage_cycles_holding_data():
+    # python -m kitchen freezes, uncollected, what exists when its imports are done, while
+    # the series' CSV files are parsed on another thread (kitchen.cli.imports_done): a
+    # cycle made by the reading would never be freed, with the arrays it holds. CSV series
+    # leave none;
+    # openpyxl leaves a few thousand small objects of a workbook's XML, and no data
+    import gc
+
+    import numpy as np
+
+    gc.collect()
+    gc.disable()
+    gc.set_debug(gc.DEBUG_SAVEALL)
+    try:
+        for name in ("clay_liner", "transducer_log", "drainage_sand.xlsx"):
+            workspace = Workspace(SAMPLES / name)
+            workspace.results()
+            del workspace
+            found = gc.collect()
+            if not name.endswith(".xlsx"):
+                assert found == 0, name
+            held = [o for o in gc.garbage if isinstance(o, np.ndarray | pd.DataFrame | pd.Series)]
+            assert held == [], name
+            assert sum(map(sys.getsizeof, gc.garbage)) < 1e6, name
+            gc.garbage.clear()
+    finally:
+        gc.set_debug(0)
+        gc.garbage.clear()
+        gc.enable()
