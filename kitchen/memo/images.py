@@ -211,13 +211,19 @@ class _ImageServer:
     """The browser pages and the event loop that drives them, on a thread of their own."""
 
     def __init__(self) -> None:
+        # what the loop's thread needs is imported here, on the caller's thread: two
+        # threads importing at once can each wait on a module the other holds
+        from . import _page_host
+
+        self.claim_profile = _page_host.claim_profile
+        self.renderer_class = _renderer_class()
+        self.host = _page_host.PageHost()
         self.loop = asyncio.new_event_loop()
         self.thread = threading.Thread(
             target=self.loop.run_forever, name="kitchen-images", daemon=True
         )
         self.thread.start()
         self.renderers: list = []
-        self.host = None  # the page host, started on the loop's thread
         self.claims: list = []  # profiles held, freed once their browsers are closed
         self.pages = 1  # pages opened or opening
         self.settled: set[int] = set()  # renderers whose page kaleido may draw in
@@ -227,16 +233,11 @@ class _ImageServer:
         self.opened: Future = asyncio.run_coroutine_threadsafe(self._open_first(), self.loop)
 
     async def _open_first(self) -> None:
-        from ._page_host import PageHost
-
         self.free = asyncio.Queue()
-        self.host = PageHost()
         await self._open_page()
 
     async def _open_page(self) -> None:
-        from ._page_host import claim_profile
-
-        claim = claim_profile()
+        claim = self.claim_profile()
         if claim is not None:
             self.claims.append(claim)
         await self.free.put(await self._open_renderer(claim))
@@ -247,7 +248,7 @@ class _ImageServer:
         A profile Chromium will not open (one a browser left behind by a killed run still
         holds, or one a newer Chromium wrote) is given up for a temporary one.
         """
-        renderer = _renderer_class()(self.host, None if claim is None else claim.path)
+        renderer = self.renderer_class(self.host, None if claim is None else claim.path)
         self.renderers.append(renderer)  # closed at the end even when half open
         try:
             await renderer.open()
@@ -325,8 +326,7 @@ class _ImageServer:
 
         async def shut() -> None:
             closing = [renderer.close() for renderer in self.renderers]
-            if self.host is not None:
-                closing.append(asyncio.to_thread(self.host.close))
+            closing.append(asyncio.to_thread(self.host.close))
             await asyncio.gather(*closing, return_exceptions=True)
             for claim in self.claims:  # after their browsers have closed
                 claim.release()

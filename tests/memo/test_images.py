@@ -294,3 +294,34 @@ def test_two_reports_at_once_both_draw_and_a_later_one_loads_plotly_from_the_cac
     ).stdout
     assert "plotly.min.js" not in served and "index.html" not in served, served
     assert _chromium_using(profiles) == []
+
+
+@needs_chromium
+def test_the_image_server_thread_imports_nothing(tmp_path):
+    # two threads importing at once can each wait on a module the other holds
+    # (DEVELOPERS.md): what the server's thread runs is imported on the command's own
+    # thread, before the thread starts; checked in a fresh interpreter with an audit hook
+    import subprocess
+    import sys
+
+    script = (
+        "import runpy, sys, threading\n"
+        "seen = set()\n"
+        "def hook(event, arguments):\n"
+        "    if event == 'import' and threading.current_thread() is not threading.main_thread():\n"
+        "        seen.add((threading.current_thread().name, arguments[0]))\n"
+        "sys.addaudithook(hook)\n"
+        f"sys.argv = ['kitchen', 'report', {str(SAMPLES / 'drainage_sand')!r}, '--out', "
+        f"{str(tmp_path / 'pack')!r}]\n"
+        "try:\n"
+        "    runpy.run_module('kitchen', run_name='__main__')\n"
+        "except SystemExit as end:\n"
+        "    assert not end.code, end.code\n"
+        "print(sorted(seen))\n"
+    )
+    done = subprocess.run(
+        [sys.executable, "-c", script], capture_output=True, text=True, timeout=300
+    )
+    assert done.returncode == 0, done.stderr
+    assert list((tmp_path / "pack" / "charts").glob("*.png"))
+    assert done.stdout.strip().splitlines()[-1] == "[]"
