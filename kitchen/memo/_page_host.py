@@ -95,6 +95,19 @@ def _index(version: str) -> bytes:
     ).encode()
 
 
+class _QuietServer(ThreadingHTTPServer):
+    """An HTTP server that keeps its troubles to itself.
+
+    socketserver prints a traceback on the command's error output whenever a request
+    fails, as when the browser drops one of its own background requests while it closes
+    (a broken pipe); the page's own requests failing show as a drawing that fails."""
+
+    daemon_threads = True
+
+    def handle_error(self, request, client_address) -> None:
+        pass
+
+
 class PageHost:
     """The renderer's page and its scripts, served on the loopback interface on a thread.
 
@@ -144,8 +157,7 @@ class PageHost:
                 self.end_headers()
                 self.wfile.write(body)
 
-        self.server = ThreadingHTTPServer(("127.0.0.1", 0), Handler)
-        self.server.daemon_threads = True
+        self.server = _QuietServer(("127.0.0.1", 0), Handler)
         self.proxy = f"127.0.0.1:{self.server.server_address[1]}"
         self.thread = threading.Thread(
             target=self.server.serve_forever,

@@ -158,3 +158,18 @@ def test_the_scripts_come_under_a_new_address_when_a_file_changes(tmp_path):
     script.write_text("other")
     os.utime(script, ns=(1, 1))
     assert _page_host._version({"plotly.min.js": script}) != before
+
+
+def test_a_request_the_browser_drops_prints_nothing(capfd):
+    # a request whose connection is closed before the answer is written (the browser
+    # closing) would have socketserver print a traceback on the command's error output
+    host = _page_host.PageHost()
+    try:
+        address, port = host.proxy.split(":")
+        with socket.create_connection((address, int(port))) as connection:
+            connection.setsockopt(socket.SOL_SOCKET, socket.SO_LINGER, b"\1\0\0\0\0\0\0\0")
+            connection.sendall(b"GET http://example.com/time/1/current HTTP/1.0\r\n\r\n")
+        assert _get(host, host.index_url)[0] == 200  # the host still answers
+    finally:
+        host.close()
+    assert "Traceback" not in capfd.readouterr().err
