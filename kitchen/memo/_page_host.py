@@ -113,7 +113,8 @@ class PageHost:
 
     Chromium is pointed at it as its proxy (:attr:`proxy`) and opens :attr:`index_url`;
     every other address it asks for (its own background requests) is answered 404, so
-    nothing leaves the machine.
+    nothing leaves the machine. The page sends each drawing's PNG and SVG back to it
+    (``POST`` to ``drawn/NAME``), kept in :attr:`received` by name until taken.
     """
 
     def __init__(self) -> None:
@@ -126,6 +127,7 @@ class PageHost:
         index = _index(self.version)
         self.index_url = f"{PAGE_ORIGIN}/{self.version}/index.html"
         self.served: list[str] = []  # the paths asked for, in order
+        self.received: dict[str, bytes] = {}  # what the page sent, by name
         host = self
 
         class Handler(BaseHTTPRequestHandler):
@@ -156,6 +158,17 @@ class PageHost:
                 self.send_header("Cache-Control", _IMMUTABLE)
                 self.end_headers()
                 self.wfile.write(body)
+
+            def do_POST(self):  # noqa: N802  (the name http.server calls)
+                parts = urlsplit(self.path)
+                prefix = f"/{host.version}/drawn/"
+                if not parts.path.startswith(prefix):
+                    self.send_error(404)
+                    return
+                body = self.rfile.read(int(self.headers.get("Content-Length", 0)))
+                host.received[parts.path[len(prefix) :]] = body
+                self.send_response(204)
+                self.end_headers()
 
         self.server = _QuietServer(("127.0.0.1", 0), Handler)
         self.proxy = f"127.0.0.1:{self.server.server_address[1]}"

@@ -173,3 +173,18 @@ def test_a_request_the_browser_drops_prints_nothing(capfd):
     finally:
         host.close()
     assert "Traceback" not in capfd.readouterr().err
+
+
+def test_the_page_hands_its_images_over_by_name_and_nowhere_else():
+    host = _page_host.PageHost()
+    try:
+        address, port = host.proxy.split(":")
+        base = host.index_url.rsplit("/", 1)[0]
+        for url, status in ((f"{base}/drawn/7.png", 204), (f"{base}/other/7.png", 404)):
+            connection = http.client.HTTPConnection(address, int(port), timeout=30)
+            connection.request("POST", url, body=b"\x89PNG bytes")
+            assert connection.getresponse().status == status
+            connection.close()
+        assert host.received == {"7.png": b"\x89PNG bytes"}
+    finally:
+        host.close()
