@@ -177,12 +177,25 @@ def test_a_long_backlog_opens_a_second_page_and_its_images_are_the_same(monkeypa
         assert png == first[0] and _without_ids(svg) == _without_ids(first[1])
 
 
-@needs_chromium
-def test_one_drawing_needs_no_reload_of_a_freshly_opened_page():
-    # in a process of its own, so that no image drawn by kaleido before has reloaded it
+def _in_a_fresh_interpreter(script: str, environment: dict | None = None) -> str:
+    """What `script` prints, run by this Python in a process of its own; it must succeed."""
     import subprocess
     import sys
 
+    done = subprocess.run(
+        [sys.executable, "-c", script],
+        capture_output=True,
+        text=True,
+        timeout=300,
+        env=environment,
+    )
+    assert done.returncode == 0, done.stderr
+    return done.stdout
+
+
+@needs_chromium
+def test_one_drawing_needs_no_reload_of_a_freshly_opened_page():
+    # in a process of its own, so that no image drawn by kaleido before has reloaded it
     script = (
         "import plotly.graph_objects as go\n"
         "from kitchen.memo import images\n"
@@ -191,11 +204,7 @@ def test_one_drawing_needs_no_reload_of_a_freshly_opened_page():
         "assert png[:8] == b'\\x89PNG\\r\\n\\x1a\\n' and svg[:4] == b'<svg', (png[:8], svg[:4])\n"
         "print(len(images._image_server['server'].settled))\n"
     )
-    done = subprocess.run(
-        [sys.executable, "-c", script], capture_output=True, text=True, timeout=300
-    )
-    assert done.returncode == 0, done.stderr
-    assert done.stdout.strip() == "0"  # no page was reloaded
+    assert _in_a_fresh_interpreter(script).strip() == "0"  # no page was reloaded
 
 
 @needs_chromium
@@ -284,14 +293,7 @@ def test_two_reports_at_once_both_draw_and_a_later_one_loads_plotly_from_the_cac
         "assert images.image_result(png)[:8] == b'\\x89PNG\\r\\n\\x1a\\n'\n"
         "print(' '.join(images._image_server['server'].host.served))\n"
     )
-    served = subprocess.run(
-        [sys.executable, "-c", script],
-        env=environment,
-        capture_output=True,
-        text=True,
-        timeout=300,
-        check=True,
-    ).stdout
+    served = _in_a_fresh_interpreter(script, environment)
     assert "plotly.min.js" not in served and "index.html" not in served, served
     assert _chromium_using(profiles) == []
 
@@ -301,9 +303,6 @@ def test_the_image_server_thread_imports_nothing(tmp_path):
     # two threads importing at once can each wait on a module the other holds
     # (DEVELOPERS.md): what the server's thread runs is imported on the command's own
     # thread, before the thread starts; checked in a fresh interpreter with an audit hook
-    import subprocess
-    import sys
-
     script = (
         "import runpy, sys, threading\n"
         "seen = set()\n"
@@ -319,9 +318,6 @@ def test_the_image_server_thread_imports_nothing(tmp_path):
         "    assert not end.code, end.code\n"
         "print(sorted(seen))\n"
     )
-    done = subprocess.run(
-        [sys.executable, "-c", script], capture_output=True, text=True, timeout=300
-    )
-    assert done.returncode == 0, done.stderr
+    said = _in_a_fresh_interpreter(script)
     assert list((tmp_path / "pack" / "charts").glob("*.png"))
-    assert done.stdout.strip().splitlines()[-1] == "[]"
+    assert said.strip().splitlines()[-1] == "[]"
