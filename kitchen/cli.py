@@ -312,20 +312,18 @@ def _add_revision_commands(commands) -> None:
 def _report(arguments) -> int:
     from kitchen.io import read_ahead
 
-    # the series' CSV files are parsed on a thread while the modules that check, reduce
-    # and export it are imported (Chromium, for the images, is already starting)
+    # the series' CSV files are parsed on a thread while the modules that check and reduce
+    # it are imported (Chromium, for the images, is already starting)
     with _warnings_restored():
         parsing = read_ahead(arguments.series)
-        from kitchen.memo import export_memo_pack, import_export_modules, start_image_export
+        from kitchen.memo import export_memo_pack, start_image_export
         from kitchen.revisions import windows_path
         from kitchen.workspace import Workspace
 
         if not arguments.no_images:
             start_image_export()
-        import_export_modules()
         if parsing is not None:
             parsing.join()
-    imports_done()
     settings = Settings(
         arguments.reference_temperature,
         arguments.viscosity,
@@ -337,6 +335,7 @@ def _report(arguments) -> int:
     workspace = Workspace(
         arguments.series, settings, windows_on_record=not arguments.proposed_windows
     )
+    imports_done()  # after the reading's own first imports (pint's registry)
     series, windows = workspace.series, workspace.windows
     given = _criterion(arguments)
     criterion, source = workspace.criterion_in_force(given)
@@ -613,15 +612,15 @@ def _warnings_restored():
 def imports_done() -> None:
     """Resume the cyclic garbage collector that ``python -m kitchen`` paused for its imports.
 
-    Importing the package and the libraries of a ``report`` (pandas, scipy, pint,
-    plotly, openpyxl) makes some 250,000 objects that live as long as the process, yet
-    the collector would walk them again and again: about 0.2 s of a ``report``. They are
+    Importing the package and the libraries that read and reduce a series (pandas,
+    scipy, pint) makes some 150,000 objects that live as long as the process, yet the
+    collector would walk them again and again. They are
     moved out of its reach (``gc.freeze``) and the collector resumed, for the command's
     own objects. Nothing is collected first (one pass over them costs as much): a frozen
     cycle is never freed, but the imports leave next to none, and parsing a series' CSV
-    files, which may run on another thread meanwhile (:func:`kitchen.io.read_ahead`),
-    leaves none (``tests/workspace/test_workspace.py``). Where the collector was not
-    paused (the command line called from Python, as the tests do) this does nothing.
+    files, which ``report`` does on a thread meanwhile (:func:`kitchen.io.read_ahead`),
+    leaves none (``tests/workspace/test_workspace.py``). Where the collector was not paused (the
+    command line called from Python, as the tests do) this does nothing.
     """
     if not gc.isenabled():
         gc.freeze()

@@ -32,8 +32,8 @@ Modules, in the order a pack is made:
   the same provenance, manifest and cautions.
 
 The public face, which other subpackages import from :mod:`kitchen.memo` and never from its
-modules: :func:`export_memo_pack` (:class:`MemoPack`), :data:`CHART_SCRIPT`,
-:data:`PACK_SPECIMEN_LIMIT` and :func:`import_export_modules`;
+modules: :func:`export_memo_pack` (:class:`MemoPack`), :data:`CHART_SCRIPT` and
+:data:`PACK_SPECIMEN_LIMIT`;
 :func:`memo_charts`; :func:`start_image_export`, :func:`figure_image`,
 :class:`ImageExportUnavailable`, :data:`PNG_SCALE` and :data:`FIRST_IMAGE_TIMEOUT`;
 :func:`specimens_table`, :func:`fits_table`, :func:`checks_table`, :func:`revisions_table`,
@@ -88,7 +88,6 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "PACK_SPECIMEN_LIMIT": "pack",
         "MemoPack": "pack",
         "export_memo_pack": "pack",
-        "import_export_modules": "pack",
         "REDUCTION_METHODS": "pages",
         "VERDICT_MARKS": "pages",
         "chart_page": "pages",
@@ -121,7 +120,6 @@ __getattr__, __dir__ = _lazy.lazy_face(
 )
 
 __all__ = [
-    "import_export_modules",
     "document_bytes",
     "export_field_check",
     "FieldReport",

@@ -179,31 +179,6 @@ def _windows_text(windows: dict | None, choices) -> str:
     return "chosen for " + "; ".join(parts) + "; proposed by the tool for the others"
 
 
-def import_export_modules() -> None:
-    """Import every module exporting a memo pack loads on first use, on the calling thread.
-
-    The analysis (scipy's statistics and geometry), the charts (plotly), the workbook
-    (openpyxl) and the ``.docx`` (python-docx): most of a second in a new process, which
-    ``python -m kitchen report`` spends while the series' CSV files are parsed on a thread
-    of its own (:func:`kitchen.io.read_ahead`).
-    """
-    import docx  # noqa: F401
-    import docx.shared  # noqa: F401
-    import openpyxl  # noqa: F401
-    import openpyxl.styles  # noqa: F401
-    import plotly.graph_objects  # noqa: F401
-    import plotly.offline  # noqa: F401
-    import plotly.subplots  # noqa: F401
-    import plotly.utils  # noqa: F401
-
-    from kitchen import analysis, charts
-
-    for face in (analysis, charts):
-        for name in face.__all__:
-            getattr(face, name)
-    from . import _export, documents, manifest, pages, specimen_pages, workbook  # noqa: F401
-
-
 def export_memo_pack(
     workspace: Workspace,
     out: str | Path,

@@ -180,9 +180,8 @@ def test_a_criterion_that_does_not_read_stops_the_analysis_that_needs_it(clay):
 
 def test_opening_and_reducing_leaves_no_garbage_cycles_holding_data():
     # python -m kitchen freezes, uncollected, what exists when its imports are done, while
-    # the series' CSV files are parsed on another thread (kitchen.cli.imports_done): a
-    # cycle made by the reading would never be freed, with the arrays it holds. CSV series
-    # leave none;
+    # report parses the series' CSV files on a thread (kitchen.cli.imports_done): a cycle
+    # made by the reading would never be freed, with the arrays it holds. CSV series leave none;
     # openpyxl leaves a few thousand small objects of a workbook's XML, and no data
     import gc
 
