@@ -570,8 +570,15 @@ def read_ahead(path: str | Path) -> threading.Thread | None:
     (:func:`_read_csv`), which pandas makes unreliable while two threads use them: it sets
     and restores the warnings filters on every call, and one thread's restore can undo
     the other's (the caller restores them once the thread is joined).
+
+    scipy's OpenBLAS, which the reduction loads through ``scipy.special``, is loaded here
+    first: it reserves its buffers when loaded and, when the address space is short (a
+    parse of 10⁷ readings under a memory limit), retries for ever holding the interpreter,
+    where Python itself would raise MemoryError.
     """
     import codecs
+
+    import scipy.special  # noqa: F401  (loads OpenBLAS before the parse takes the memory)
 
     folder = Path(path)
     if not folder.is_dir():

@@ -409,7 +409,9 @@ import sys
 import kitchen.cli  # as python -m kitchen has, when report parses its series ahead
 from kitchen.io import read_ahead
 
-codecs.lookup("utf-8-sig")  # as read_ahead does on the calling thread, before it starts
+# what read_ahead loads on the calling thread, before its thread starts
+import scipy.special
+codecs.lookup("utf-8-sig")
 imported = set()
 for folder in sys.argv[1:]:
     before = set(sys.modules)
