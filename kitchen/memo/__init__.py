@@ -13,7 +13,9 @@ every item carries the cautions.
 Modules, in the order a pack is made:
 
 - :mod:`.figures`: the charts the data allow, with the results' windows and rises.
-- :mod:`.images`: PNG and SVG through kaleido and Chromium, one image server per process.
+- :mod:`.images`: PNG and SVG through kaleido and Chromium, one image server per process
+  (:mod:`._page_host`: its page served on the loopback interface, and the browser
+  profiles kept in the cache folder, where Chromium keeps plotly.js compiled).
 - :mod:`.tables`: the specimens with their verdicts, the fits, the checks, the revisions
   and the tests kept on record.
 - :mod:`.workbook`: ``results.xlsx`` with its ``cautions`` sheet.

@@ -9,10 +9,12 @@ package is even imported (:func:`start_for_command`).
 Every image is drawn in the same page, one after the other, without reloading it
 (:class:`_SamePageRenderer`): plotly.js draws each figure in a detached element of its own
 and removes it once the image is made, so nothing is left in the page from one image to the
-next, and a reload would only cost its time (about a quarter of a second an image). One
-page is opened first and images are drawn as soon as it is ready: loading plotly.js into a
-page costs some 1.5 s of a core, so a second page (:data:`PAGES`) is opened only when more
-than :data:`SECOND_PAGE_BACKLOG` images wait, a backlog long enough to repay it.
+next, and a reload would only cost its time (about a quarter of a second an image). The
+page is served on the loopback interface and the browser keeps a profile in the cache
+folder (:mod:`._page_host`), so Chromium compiles plotly.js once per machine: the page
+loads in about 0.3 s instead of 1.1-1.5 s, before the first figure is asked for. One page
+is opened first and images are drawn as soon as it is ready; a second page
+(:data:`PAGES`) is opened only when more than :data:`SECOND_PAGE_BACKLOG` images wait.
 :func:`request_image` hands a figure to the server and returns at once, so the next figure
 can be prepared while Chromium draws; :func:`figure_image` waits for its image. The first
 image is awaited at most :data:`FIRST_IMAGE_TIMEOUT` seconds, so a Chromium that starts but
@@ -30,7 +32,7 @@ from __future__ import annotations
 
 import asyncio
 import atexit
-import base64
+import itertools
 import json
 import threading
 from concurrent.futures import Future
@@ -64,22 +66,28 @@ while it encodes the other. Each page is a browser of its own (kaleido's rendere
 each), opened when needed (:data:`SECOND_PAGE_BACKLOG`)."""
 
 SECOND_PAGE_BACKLOG = 150
-"""Images waiting for the first page above which a second page is opened. Opening one loads
-plotly.js again (about 1.5 s of a core, 2.5 s on a busy two-core machine), time the first
-page draws some 45 images in, more slowly for sharing the cores; below this backlog the
-first page alone finishes as soon (the clay sample's pack, 64 images, in turns on the
-shared two-core machine: medians of four rounds 12.8 s with one page, 13.2 s with a second
-opened as soon as images waited, at a load average of 5 to 7; of three rounds 6.47 s and
-6.45 s at a load of 2)."""
+"""Images waiting for the first page above which a second page is opened. Opening one costs
+its browser's start and its page's load (0.5-0.9 s with plotly.js compiled in its profile,
+1.5-2.5 s without), and two pages draw faster than one only where a core is free for the
+second: on the shared two-core machine they did not (the clay sample's pack, 64 images,
+in turn, medians of three rounds at a load average of 3 to 5: 7.89 s with one page,
+8.54 s with a second opened once 10 images waited, 8.43 s with a second opened as soon as
+the first was; in one process, the pack's images drawn in a warm page in 3.1-3.3 s by
+one page and 2.0-2.3 s by two at a load of 2.5, when both cores were free). Earlier, with
+plotly.js loaded afresh: the pack in four rounds 12.8 s with one page, 13.2 s with a
+second opened as soon as images waited, at a load average of 5 to 7."""
 
 FIRST_IMAGE_TIMEOUT = 180.0
 """Seconds to wait for Chromium to render the first image before giving up. [s]"""
 
 
-_PNG_SVG_SCRIPT = """(figure, width, height, scale) => {
+_PNG_SVG_SCRIPT = """(figure, width, height, scale, key) => {
   // the steps of Plotly.toImage (plotly.js, src/plot_api/to_image.js) with kaleido's
   // config, drawn once: the SVG as toImage makes it at scale 1, then the same SVG without
-  // its viewBox (the one attribute toImage adds for an SVG only) painted at `scale`
+  // its viewBox (the one attribute toImage adds for an SVG only) painted at `scale` as
+  // Plotly.Snapshot.svgToImg paints it (src/snapshot/svgtoimg.js), its PNG encoded by
+  // toBlob (the bytes of svgToImg's toDataURL, not turned to base64 text); both are sent
+  // to the page host as `key`.png and `key`.svg
   const snapshot = Plotly.Snapshot;
   const gd = document.createElement("div");
   gd.style.position = "absolute";
@@ -89,29 +97,53 @@ _PNG_SVG_SCRIPT = """(figure, width, height, scale) => {
   const config = Object.assign(
     {mapboxAccessToken: null, plotGlPixelRatio: scale * 2}, figure.config,
     {_exportedPlot: true, staticPlot: true, setBackground: ""});
+  let svg;
   return Plotly.newPlot(gd, figure.data || [], layout, config)
     .then(snapshot.getRedrawFunc(gd))
     .then(() => new Promise((done) => setTimeout(done, snapshot.getDelay(gd._fullLayout))))
     .then(() => {
-      const svg = snapshot.toSVG(gd, "svg", 1);
+      svg = snapshot.toSVG(gd, "svg", 1);
       const w = gd._fullLayout.width, h = gd._fullLayout.height;
       Plotly.purge(gd);
       document.body.removeChild(gd);
       const painted = svg.replace(/^(<svg[^>]*?) viewBox="[^"]*"/, "$1");
-      return snapshot.svgToImg({format: "png", width: w, height: h, scale: scale,
-                                canvas: document.createElement("canvas"), svg: painted,
-                                promise: true})
-        .then((url) => ({svg: svg, png: url.replace(/^data:image\\/\\w+;base64,/, "")}));
-    });
+      const canvas = document.createElement("canvas");
+      const context = canvas.getContext("2d", {willReadFrequently: true});
+      const url = URL.createObjectURL(
+        new Blob([painted], {type: "image/svg+xml;charset=utf-8"}));
+      const image = new Image();
+      canvas.width = scale * w;
+      canvas.height = scale * h;
+      return new Promise((done, failed) => {
+        image.onload = () => {
+          URL.revokeObjectURL(url);
+          context.drawImage(image, 0, 0, scale * w, scale * h);
+          canvas.toBlob((png) => done(png), "image/png");
+        };
+        image.onerror = () => {
+          URL.revokeObjectURL(url);
+          failed(new Error("the SVG could not be painted"));
+        };
+        image.src = url;
+      });
+    })
+    .then((png) => Promise.all([
+      fetch("drawn/" + key + ".png", {method: "POST", body: png}),
+      fetch("drawn/" + key + ".svg", {method: "POST", body: svg})]))
+    .then((answers) => answers.every((answer) => answer.ok));
 }"""
 """The drawing of :func:`request_png_svg`, run in kaleido's page, where plotly.js is loaded.
 
-It relies on ``Plotly.Snapshot`` (``toSVG``, ``svgToImg``, ``getRedrawFunc``,
-``getDelay``), the functions ``Plotly.toImage`` itself is built of, which plotly.js
-exports but does not document, and on a page of kaleido's renderer holding plotly.js
-(``_KaleidoTab.tab``, kaleido's documented handle of the page): a plotly.js or kaleido that
-changed them would fail ``tests/memo/test_images.py``, which compares its images with
-kaleido's own. Figures with WebGL traces are drawn by kaleido, once for each format (their
+It relies on ``Plotly.Snapshot`` (``toSVG``, ``getRedrawFunc``, ``getDelay``), the
+functions ``Plotly.toImage`` itself is built of, which plotly.js exports but does not
+document, on the steps of its ``svgToImg`` repeated here, and on a page of kaleido's
+renderer holding plotly.js (``_KaleidoTab.tab``, kaleido's documented handle of the page):
+a plotly.js or kaleido that changed them would fail ``tests/memo/test_images.py``, which
+compares its images with kaleido's own. The images go to the page host
+(:class:`._page_host.PageHost`, the page's own origin) as the bytes they are: returned
+through the devtools pipe, the PNG went as base64 text inside JSON, encoded in the page,
+decoded in Python (the clay pack's 32 figures: 3.1-3.5 s drawn this way, 3.5-4.4 s that
+way, in turn in one page at a load of 4). Figures with WebGL traces are drawn by kaleido, once for each format (their
 pixel ratio depends on the format's scale)."""
 
 _IMAGE_TIMEOUT = 90.0
@@ -132,7 +164,8 @@ def _browser_path() -> str | None:
 
 
 def _renderer_class():
-    """kaleido's renderer, made to keep its page between images (imported when needed)."""
+    """kaleido's renderer, made to keep its page between images and to load it from the
+    page host with a kept profile (:mod:`._page_host`); imported when needed."""
     import kaleido
 
     class _SamePageRenderer(kaleido.Kaleido):
@@ -143,7 +176,31 @@ def _renderer_class():
         (the figure is drawn in a detached element and purged), so the page is handed back
         as it is. ``tests/memo/test_images.py`` checks that no page is reloaded and that
         the images are those of a freshly loaded page.
+
+        The page is kaleido's own page served by `host` (:class:`._page_host.PageHost`,
+        the browser's proxy) rather than written to a temporary file, and the browser runs
+        with the profile folder `profile` when one is given (Chromium keeps plotly.js
+        compiled there), else with kaleido's temporary one.
         """
+
+        def __init__(self, host, profile: Path | None) -> None:
+            super().__init__(mathjax=False, n=1, proxy_server=host.proxy)
+            self._page_url, self._profile = host.index_url, profile
+            self.host_received = host.received  # the images its page sent, by name
+
+        async def open(self) -> None:
+            del self._saved_page_arg  # kaleido's page file: the page is served instead
+            self._index = self._page_url
+            if self._profile is not None:
+                browser = self._browser_impl
+                arguments = browser.get_cli
+
+                def with_profile() -> list[str]:
+                    kept = [a for a in arguments() if not a.startswith("--user-data-dir=")]
+                    return [*kept, f"--user-data-dir={self._profile}"]
+
+                browser.get_cli = with_profile
+            await super(kaleido.Kaleido, self).open()  # the browser's own opening
 
         async def _return_kaleido_tab(self, tab) -> None:
             await self.tabs_ready.put(tab)
@@ -151,16 +208,60 @@ def _renderer_class():
     return _SamePageRenderer
 
 
+_DRAWINGS = itertools.count()
+"""Numbers naming each drawing's images as the page sends them to the page host."""
+
+
+async def _draw(renderer, figure_json: str, width, height) -> tuple[bytes, bytes]:
+    """The PNG and SVG of a figure (JSON) drawn by :data:`_PNG_SVG_SCRIPT` in the page of
+    `renderer`, which the caller holds."""
+    key = f"{next(_DRAWINGS)}"
+    page = await renderer.tabs_ready.get()
+    try:
+        answer = await asyncio.wait_for(
+            page.tab.send_command(
+                "Runtime.evaluate",
+                params={
+                    "expression": f"({_PNG_SVG_SCRIPT})({figure_json}, "
+                    f"{json.dumps(width)}, {json.dumps(height)}, {PNG_SCALE}, "
+                    f"{json.dumps(key)})",
+                    "awaitPromise": True,
+                    "returnByValue": True,
+                },
+            ),
+            _IMAGE_TIMEOUT,
+        )
+    finally:
+        await renderer.tabs_ready.put(page)
+    received = renderer.host_received
+    png, svg = received.pop(f"{key}.png", None), received.pop(f"{key}.svg", None)
+    result = answer.get("result", {})
+    if "error" in answer or "exceptionDetails" in result:
+        details = answer.get("error") or result["exceptionDetails"]
+        raise RuntimeError(f"plotly.js could not draw the figure: {details}")
+    if result.get("result", {}).get("value") is not True or png is None or svg is None:
+        raise RuntimeError("the page could not hand its images over to the page host")
+    return png, svg
+
+
 class _ImageServer:
     """The browser pages and the event loop that drives them, on a thread of their own."""
 
     def __init__(self) -> None:
+        # what the loop's thread needs is imported here, on the caller's thread: two
+        # threads importing at once can each wait on a module the other holds
+        from . import _page_host
+
+        self.claim_profile = _page_host.claim_profile
+        self.renderer_class = _renderer_class()
+        self.host = _page_host.PageHost()
         self.loop = asyncio.new_event_loop()
         self.thread = threading.Thread(
             target=self.loop.run_forever, name="kitchen-images", daemon=True
         )
         self.thread.start()
         self.renderers: list = []
+        self.claims: list = []  # profiles held, freed once their browsers are closed
         self.pages = 1  # pages opened or opening
         self.settled: set[int] = set()  # renderers whose page kaleido may draw in
         self.answered = False
@@ -173,10 +274,29 @@ class _ImageServer:
         await self._open_page()
 
     async def _open_page(self) -> None:
-        renderer = _renderer_class()(mathjax=False, n=1)
+        claim = self.claim_profile()
+        if claim is not None:
+            self.claims.append(claim)
+        await self.free.put(await self._open_renderer(claim))
+
+    async def _open_renderer(self, claim):
+        """A renderer whose page is loaded, with the claimed profile when there is one.
+
+        A profile Chromium will not open (one a browser left behind by a killed run still
+        holds, or one a newer Chromium wrote) is given up for a temporary one.
+        """
+        renderer = self.renderer_class(self.host, None if claim is None else claim.path)
         self.renderers.append(renderer)  # closed at the end even when half open
-        await renderer.open()
-        await self.free.put(renderer)
+        try:
+            await renderer.open()
+        except Exception:
+            if claim is None:
+                raise
+            self.renderers.remove(renderer)
+            await asyncio.gather(renderer.close(), return_exceptions=True)
+            claim.release()
+            return await self._open_renderer(None)
+        return renderer
 
     async def _settle(self, renderer) -> None:
         """Reload a renderer's page once, before kaleido first draws in it.
@@ -224,30 +344,9 @@ class _ImageServer:
     async def _png_svg(self, figure_json: str, width, height) -> tuple[bytes, bytes]:
         renderer = await self._free_renderer(2)
         try:
-            page = await renderer.tabs_ready.get()
-            try:
-                answer = await asyncio.wait_for(
-                    page.tab.send_command(
-                        "Runtime.evaluate",
-                        params={
-                            "expression": f"({_PNG_SVG_SCRIPT})({figure_json}, "
-                            f"{json.dumps(width)}, {json.dumps(height)}, {PNG_SCALE})",
-                            "awaitPromise": True,
-                            "returnByValue": True,
-                        },
-                    ),
-                    _IMAGE_TIMEOUT,
-                )
-            finally:
-                await renderer.tabs_ready.put(page)
+            return await _draw(renderer, figure_json, width, height)
         finally:
             self.free.put_nowait(renderer)
-        result = answer.get("result", {})
-        if "error" in answer or "exceptionDetails" in result:
-            details = answer.get("error") or result["exceptionDetails"]
-            raise RuntimeError(f"plotly.js could not draw the figure: {details}")
-        images = result["result"]["value"]
-        return base64.b64decode(images["png"]), images["svg"].encode("utf-8")
 
     def request(self, figure_dict: dict, options: dict) -> Future:
         return asyncio.run_coroutine_threadsafe(self._image(figure_dict, options), self.loop)
@@ -263,9 +362,11 @@ class _ImageServer:
             return
 
         async def shut() -> None:
-            await asyncio.gather(
-                *(renderer.close() for renderer in self.renderers), return_exceptions=True
-            )
+            closing = [renderer.close() for renderer in self.renderers]
+            closing.append(asyncio.to_thread(self.host.close))
+            await asyncio.gather(*closing, return_exceptions=True)
+            for claim in self.claims:  # after their browsers have closed
+                claim.release()
 
         try:
             asyncio.run_coroutine_threadsafe(shut(), self.loop).result(10)

@@ -177,12 +177,25 @@ def test_a_long_backlog_opens_a_second_page_and_its_images_are_the_same(monkeypa
         assert png == first[0] and _without_ids(svg) == _without_ids(first[1])
 
 
-@needs_chromium
-def test_one_drawing_needs_no_reload_of_a_freshly_opened_page():
-    # in a process of its own, so that no image drawn by kaleido before has reloaded it
+def _in_a_fresh_interpreter(script: str, environment: dict | None = None) -> str:
+    """What `script` prints, run by this Python in a process of its own; it must succeed."""
     import subprocess
     import sys
 
+    done = subprocess.run(
+        [sys.executable, "-c", script],
+        capture_output=True,
+        text=True,
+        timeout=300,
+        env=environment,
+    )
+    assert done.returncode == 0, done.stderr
+    return done.stdout
+
+
+@needs_chromium
+def test_one_drawing_needs_no_reload_of_a_freshly_opened_page():
+    # in a process of its own, so that no image drawn by kaleido before has reloaded it
     script = (
         "import plotly.graph_objects as go\n"
         "from kitchen.memo import images\n"
@@ -191,8 +204,120 @@ def test_one_drawing_needs_no_reload_of_a_freshly_opened_page():
         "assert png[:8] == b'\\x89PNG\\r\\n\\x1a\\n' and svg[:4] == b'<svg', (png[:8], svg[:4])\n"
         "print(len(images._image_server['server'].settled))\n"
     )
-    done = subprocess.run(
-        [sys.executable, "-c", script], capture_output=True, text=True, timeout=300
+    assert _in_a_fresh_interpreter(script).strip() == "0"  # no page was reloaded
+
+
+@needs_chromium
+def test_a_profile_chromium_will_not_open_gives_way_to_a_temporary_one(tmp_path, monkeypatch):
+    # a kept profile that fails (a newer Chromium's, a broken one) must not cost the images
+    monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path))
+    renderer_class = images._renderer_class
+
+    def failing_with_a_profile():
+        base = renderer_class()
+
+        class Renderer(base):
+            async def open(self):
+                if self._profile is not None:
+                    raise RuntimeError("the browser seemed to close immediately")
+                await super().open()
+
+        return Renderer
+
+    monkeypatch.setattr(images, "_renderer_class", failing_with_a_profile)
+    server = images._ImageServer()
+    try:
+        server.opened.result(120)
+        assert [renderer._profile for renderer in server.renderers] == [None]
+        png, svg = server.request_both('{"data": [{"type": "bar", "y": [1, 2]}]}', 300, 200).result(
+            120
+        )
+        assert png[:8] == b"\x89PNG\r\n\x1a\n" and svg.startswith(b"<svg")
+    finally:
+        server.close()
+    # the profile it gave up is free again for the next run
+    from kitchen.memo._page_host import claim_profile
+
+    claim = claim_profile()
+    assert claim.path == tmp_path / "kitchen" / "chromium" / "profile-0"
+    claim.release()
+
+
+def _chromium_using(folder: Path) -> list[str]:
+    """Command lines of the processes running with a profile under `folder`."""
+    found = []
+    for entry in Path("/proc").iterdir():
+        try:
+            arguments = (entry / "cmdline").read_bytes().replace(b"\0", b" ").decode()
+        except OSError:
+            continue
+        if f"--user-data-dir={folder}" in arguments:
+            found.append(arguments)
+    return found
+
+
+@needs_chromium
+def test_two_reports_at_once_both_draw_and_a_later_one_loads_plotly_from_the_cache(tmp_path):
+    # each run claims a kept profile of its own; from the third run on a profile, Chromium
+    # compiles plotly.js no more and the page host serves no script; no browser outlives
+    # its command
+    import subprocess
+    import sys
+
+    environment = {**os.environ, "XDG_CACHE_HOME": str(tmp_path / "cache")}
+    command = [sys.executable, "-m", "kitchen", "report", str(SAMPLES / "drainage_sand")]
+    runs = [
+        subprocess.Popen(
+            [*command, "--out", str(tmp_path / f"pack-{n}")],
+            env=environment,
+            stdout=subprocess.DEVNULL,
+            stderr=subprocess.PIPE,
+            text=True,
+        )
+        for n in (1, 2)
+    ]
+    for run in runs:
+        _, said = run.communicate(timeout=300)
+        assert run.returncode == 0, said
+    profiles = tmp_path / "cache" / "kitchen" / "chromium"
+    assert sorted(p.name for p in profiles.iterdir() if p.is_dir()) == ["profile-0", "profile-1"]
+    for n in (1, 2):
+        pngs = list((tmp_path / f"pack-{n}" / "charts").glob("*.png"))
+        assert pngs and all(p.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n" for p in pngs)
+    assert _chromium_using(profiles) == []
+
+    script = (
+        "import plotly.graph_objects as go\n"
+        "from kitchen.memo import images\n"
+        "png, svg = images.request_png_svg(go.Figure(go.Scatter(x=[0, 1], y=[1, 0])))\n"
+        "assert images.image_result(png)[:8] == b'\\x89PNG\\r\\n\\x1a\\n'\n"
+        "print(' '.join(images._image_server['server'].host.served))\n"
     )
-    assert done.returncode == 0, done.stderr
-    assert done.stdout.strip() == "0"  # no page was reloaded
+    served = _in_a_fresh_interpreter(script, environment)
+    assert "plotly.min.js" not in served and "index.html" not in served, served
+    assert _chromium_using(profiles) == []
+
+
+@needs_chromium
+def test_the_image_server_thread_imports_nothing(tmp_path):
+    # two threads importing at once can each wait on a module the other holds
+    # (DEVELOPERS.md): what the server's thread runs is imported on the command's own
+    # thread, before the thread starts; checked in a fresh interpreter with an audit hook
+    script = (
+        "import runpy, sys, threading\n"
+        "seen = set()\n"
+        "def hook(event, arguments):\n"
+        "    if event == 'import' and threading.current_thread() is not threading.main_thread():\n"
+        "        seen.add((threading.current_thread().name, arguments[0]))\n"
+        "sys.addaudithook(hook)\n"
+        f"sys.argv = ['kitchen', 'report', {str(SAMPLES / 'drainage_sand')!r}, '--out', "
+        f"{str(tmp_path / 'pack')!r}]\n"
+        "try:\n"
+        "    runpy.run_module('kitchen', run_name='__main__')\n"
+        "except SystemExit as end:\n"
+        "    assert not end.code, end.code\n"
+        "print(sorted(seen))\n"
+    )
+    said = _in_a_fresh_interpreter(script)
+    assert list((tmp_path / "pack" / "charts").glob("*.png"))
+    assert said.strip().splitlines()[-1] == "[]"
