@@ -204,15 +204,16 @@ def cumulative_trapezoid(steps: np.ndarray, values: np.ndarray) -> np.ndarray:
     `steps` are the time steps between readings (``numpy.diff`` of the times; one fewer
     than `values`). Returns an array of the readings' length starting at 0: the numbers of
     ``concatenate(([0], cumsum(steps * 0.5 * (values[1:] + values[:-1]))))`` to the last
-    bit, formed in place (two arrays of the record's length, not five).
+    bit (halving is exact, so it may come last), formed in the result itself: no other
+    array of the record's length.
     """
     area = np.empty(values.size)
     area[0] = 0.0
-    both = np.add(values[1:], values[:-1])
-    part = np.multiply(steps, 0.5)
-    part *= both
-    del both
-    np.cumsum(part, out=area[1:])
+    part = area[1:]
+    np.add(values[1:], values[:-1], out=part)
+    part *= steps
+    part *= 0.5
+    np.cumsum(part, out=part)
     return area
 
 
