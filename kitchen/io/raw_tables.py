@@ -309,9 +309,11 @@ def _read_csv(path: Path, problems: list[InputProblem]) -> tuple[pd.DataFrame, l
     empty = {key: [""] if key in text_keys else list(EMPTY_TEXTS) for key in keys}
     # rows with a cell beyond the header are found without the parser's warnings, which
     # are not reliable while another thread uses the warnings filters (read_ahead): a
-    # first row so, which the parser would only warn of, is looked for here, and a later
-    # one stops the parser (on_bad_lines="error")
-    if _first_row_torn(path, len(keys)):
+    # later row wider than the first stops the parser (on_bad_lines="error"); a first row
+    # wider than the header, which the parser only warns of (and after which it takes
+    # rows as wide as it), is looked at here, and the file scanned when it is
+    first = _first_row_beyond(path, len(keys))
+    if first is not None and _cells_beyond(first, len(keys)):
         _name_torn_rows(path, label, keys, problems)
         return None
     try:
@@ -350,18 +352,23 @@ def _read_csv(path: Path, problems: list[InputProblem]) -> tuple[pd.DataFrame, l
             warnings.warn_explicit(
                 warning.message, warning.category, warning.filename, warning.lineno
             )
-    if any(issubclass(warning.category, pd.errors.ParserWarning) for warning in warned):
+    if first is not None:  # empty cells beyond the header: a later row may fill them
         _name_torn_rows(path, label, keys, problems)
     return frame, written
 
 
-def _first_row_torn(path: Path, width: int) -> bool:
-    """Whether the first row below the header has a non-empty cell beyond `width`."""
+def _cells_beyond(record: list[str], width: int) -> bool:
+    """Whether a row has a non-empty cell beyond the header's `width` cells."""
+    return any(cell.strip() for cell in record[width:])
+
+
+def _first_row_beyond(path: Path, width: int) -> list[str] | None:
+    """The first row below the header when it has more than `width` cells, else None."""
     with path.open(encoding="utf-8-sig", newline="") as stream:
         reader = csv.reader(stream)
         next(reader, None)
         record = next(reader, [])
-    return any(cell.strip() for cell in record[width:])
+    return record if len(record) > width else None
 
 
 def _name_torn_rows(path: Path, label: str, keys, problems: list[InputProblem]) -> bool:
@@ -397,7 +404,7 @@ def _rows_with_cells_beyond_the_header(path: Path, width: int) -> list[tuple[int
     with path.open(encoding="utf-8-sig", newline="") as stream:
         reader = csv.reader(stream)
         for record in reader:
-            if reader.line_num > 1 and any(cell.strip() for cell in record[width:]):
+            if reader.line_num > 1 and _cells_beyond(record, width):
                 torn.append((reader.line_num, len(record)))
     return torn
 
@@ -587,8 +594,7 @@ def read_ahead(path: str | Path) -> threading.Thread | None:
         return None
     codecs.lookup("utf-8-sig")
     files = []
-    for name in TABLE_NAMES:
-        file = folder / f"{name}.csv"
+    for file in _table_files(folder):
         try:
             identity = _file_identity(file)
         except OSError:
@@ -611,6 +617,11 @@ def read_ahead(path: str | Path) -> threading.Thread | None:
     thread = threading.Thread(target=parse, name="kitchen-read-ahead", daemon=True)
     thread.start()
     return thread
+
+
+def _table_files(folder: Path) -> list[Path]:
+    """The CSV files of a series folder that hold its tables, in the order of TABLE_NAMES."""
+    return [file for name in TABLE_NAMES if (file := folder / f"{name}.csv").exists()]
 
 
 def _read_csv_once(path: Path, problems: list[InputProblem]):
@@ -657,13 +668,11 @@ def read_tables(path: str | Path) -> tuple[dict[str, RawTable], tuple[Path, ...]
     frames: dict[str, tuple[str, pd.DataFrame, list[str]]] = {}
     if path.is_dir():
         files = []
-        for name in TABLE_NAMES:
-            file = path / f"{name}.csv"
-            if file.exists():
-                read = _read_csv_once(file, problems)
-                files.append(file)
-                if read is not None:
-                    frames[name] = (file.name, *read)
+        for file in _table_files(path):
+            read = _read_csv_once(file, problems)
+            files.append(file)
+            if read is not None:
+                frames[file.stem] = (file.name, *read)
         label_of = {name: f"{name}.csv" for name in TABLE_NAMES}
         input_files = tuple(files)
     elif path.suffix.lower() == ".xlsx" and path.exists():

@@ -272,15 +272,17 @@ def _numeric_column(
         )
     kind = SCHEMAS[table.name][column].kind
     unit = table.units.get(column)
-    factor = 1.0 if kind == "dimensionless" or not unit else to_si(1.0, unit, kind)
-    if factor == 1.0 and (kind == "dimensionless" or not unit or to_si(0.0, unit, kind) == 0.0):
+    plain = kind == "dimensionless" or not unit
+    zero = 0.0 if plain else to_si(0.0, unit, kind)
+    factor = 1.0 if plain else to_si(1.0, unit, kind) - zero
+    if factor == 1.0 and zero == 0.0:
         # already in SI (seconds, degrees Celsius, a ratio): the raw table's own array,
         # shared read-only (pandas' copy-on-write), not a second copy of a logger's column
         si = numbers
         if si.flags.writeable:
             si = si.view()
             si.flags.writeable = False
-    elif to_si(0.0, unit, kind) != 0.0:  # an offset unit (degF, K)
+    elif zero != 0.0:  # an offset unit (degF, K)
         si = to_si(numbers, unit, kind)
     else:
         with np.errstate(over="ignore"):

@@ -465,3 +465,20 @@ def test_a_table_parsed_ahead_is_taken_once_and_only_while_unchanged(tmp_path):
     with pytest.raises(SeriesError, match="row 2: 9 cells where the header has 8"):
         read_tables(folder)
     assert read_ahead(tmp_path / "book.xlsx") is None  # a workbook is read as it comes
+
+
+def test_a_later_row_filling_the_empty_cell_of_a_first_row_too_wide_is_named(tmp_path):
+    # a first row with an empty cell beyond the header makes the parser take rows that
+    # wide: the later row with a value there is found by scanning the file, which the
+    # reader now does whenever the first row is that wide, not when the parser warns
+    import warnings
+
+    falling = FALLING.replace("A1,0,100,20", "A1,0,100,20,").replace("A1,10,95,", "A1,10,95,5,")
+    folder = write_series(tmp_path / "s", falling_head=falling)
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        problems = problems_of(folder)
+    assert problems == [
+        "falling_head.csv, row 3: 5 cells where the header has 4: is there a comma in a "
+        "value (a decimal comma, or text to put in quotes)?"
+    ]
