@@ -206,6 +206,11 @@ def cumulative_trapezoid(steps: np.ndarray, values: np.ndarray) -> np.ndarray:
     ``concatenate(([0], cumsum(steps * 0.5 * (values[1:] + values[:-1]))))`` to the last
     bit (halving is exact, so it may come last), formed in the result itself: no other
     array of the record's length.
+
+    References
+    ----------
+    The composite trapezoid rule (any numerical-analysis text, e.g. Press et al.,
+    *Numerical Recipes*, 3rd ed., §4.1; from memory).
     """
     area = np.empty(values.size)
     area[0] = 0.0
