@@ -61,33 +61,75 @@ _CHROMIUM_HELP = (
 )
 
 PAGES = 2
-"""Pages drawing images at once, at most: two, so that a two-core machine draws one image
-while it encodes the other. Each page is a browser of its own (kaleido's renderer, one page
-each), opened when needed (:data:`SECOND_PAGE_BACKLOG`)."""
+"""Pages drawing images at once, at most: two, each a tab of the one browser with a
+renderer process (and so a thread for its drawings) of its own, so that a two-core machine
+draws in both once the command waits for its images. The second is opened when more than
+:data:`SECOND_PAGE_BACKLOG` images wait for the first (opening it costs a tab and a load of
+the page, about 0.3 s of a core with plotly.js compiled in the profile). Measured on the
+shared two-core machine, the clay sample's 32 drawings in one process, a warm page, medians
+at a load under 1.5: 2.5 s in one page one at a time, 2.05 s two at a time, 1.8 s in two
+pages one at a time each, 1.6 s two at a time each. (Earlier a second page was a browser
+of its own, and opening it repaid only a long backlog: a browser's start costs 0.5-0.9 s.)"""
 
-SECOND_PAGE_BACKLOG = 150
-"""Images waiting for the first page above which a second page is opened. Opening one costs
-its browser's start and its page's load (0.5-0.9 s with plotly.js compiled in its profile,
-1.5-2.5 s without), and two pages draw faster than one only where a core is free for the
-second: on the shared two-core machine they did not (the clay sample's pack, 64 images,
-in turn, medians of three rounds at a load average of 3 to 5: 7.89 s with one page,
-8.54 s with a second opened once 10 images waited, 8.43 s with a second opened as soon as
-the first was; in one process, the pack's images drawn in a warm page in 3.1-3.3 s by
-one page and 2.0-2.3 s by two at a load of 2.5, when both cores were free). Earlier, with
-plotly.js loaded afresh: the pack in four rounds 12.8 s with one page, 13.2 s with a
-second opened as soon as images waited, at a load average of 5 to 7."""
+SECOND_PAGE_BACKLOG = 8
+"""Images waiting for a page above which a second page is opened (see :data:`PAGES`): a
+field check's two charts are drawn in one page, a memo pack's in two."""
+
+IN_FLIGHT = 2
+"""Drawings going on in one page at once: while one waits (for its SVG to be painted, its
+PNG encoded or its images sent), the page lays out the next. Two rather than one drew the
+clay sample's 32 figures in 2.05 s rather than 2.5 s in a warm page; three, no sooner."""
 
 FIRST_IMAGE_TIMEOUT = 180.0
 """Seconds to wait for Chromium to render the first image before giving up. [s]"""
 
 
+_ENCODER_SCRIPT = """(() => {
+  // a worker of the page's own that encodes each painted bitmap as PNG and sends it to
+  // the page host, so that the page's one thread goes on to lay out the next figure while
+  // the last is encoded (Chromium encodes a canvas's PNG for toBlob on the page's thread,
+  // in its idle time)
+  const source = `onmessage = (event) => {
+    const {bitmap, address, key} = event.data;
+    const canvas = new OffscreenCanvas(bitmap.width, bitmap.height);
+    canvas.getContext("bitmaprenderer").transferFromImageBitmap(bitmap);
+    canvas.convertToBlob({type: "image/png"})
+      .then((png) => fetch(address, {method: "POST", body: png}))
+      .then((answer) => postMessage({key, ok: answer.ok}),
+            (error) => postMessage({key, ok: false, error: String(error)}));
+  };`;
+  const worker = new Worker(URL.createObjectURL(new Blob([source], {type: "text/javascript"})));
+  const waiting = new Map();
+  worker.onmessage = (event) => {
+    const {key, ok, error} = event.data;
+    const [done, failed] = waiting.get(key);
+    waiting.delete(key);
+    if (error === undefined) { done(ok); } else { failed(new Error(error)); }
+  };
+  worker.onerror = (event) => {
+    for (const [, failed] of waiting.values()) { failed(new Error(event.message)); }
+    waiting.clear();
+  };
+  return (bitmap, address, key) => new Promise((done, failed) => {
+    waiting.set(key, [done, failed]);
+    worker.postMessage({bitmap, address: new URL(address, location.href).href, key}, [bitmap]);
+  });
+})()"""
+"""The page's PNG encoder (:data:`_PNG_SVG_SCRIPT` makes it once per page): a function of
+(bitmap, address, key) that encodes the bitmap as PNG on a worker thread, sends it to the
+page host at `address`, and resolves to whether the host took it. A PNG encoded this way
+(``OffscreenCanvas.convertToBlob``) is the same bytes as the canvas's ``toBlob`` gives
+(``tests/memo/test_images.py`` compares them with kaleido's own)."""
+
 _PNG_SVG_SCRIPT = """(figure, width, height, scale, key) => {
   // the steps of Plotly.toImage (plotly.js, src/plot_api/to_image.js) with kaleido's
   // config, drawn once: the SVG as toImage makes it at scale 1, then the same SVG without
   // its viewBox (the one attribute toImage adds for an SVG only) painted at `scale` as
-  // Plotly.Snapshot.svgToImg paints it (src/snapshot/svgtoimg.js), its PNG encoded by
-  // toBlob (the bytes of svgToImg's toDataURL, not turned to base64 text); both are sent
-  // to the page host as `key`.png and `key`.svg
+  // Plotly.Snapshot.svgToImg paints it (src/snapshot/svgtoimg.js); its PNG is encoded on
+  // the page's worker (window.kitchenEncodePng), the bytes svgToImg's toDataURL would
+  // give, not turned to base64 text; both are sent to the page host as `key`.png and
+  // `key`.svg
+  const encode = window.kitchenEncodePng || (window.kitchenEncodePng = ENCODER);
   const snapshot = Plotly.Snapshot;
   const gd = document.createElement("div");
   gd.style.position = "absolute";
@@ -107,18 +149,15 @@ _PNG_SVG_SCRIPT = """(figure, width, height, scale, key) => {
       Plotly.purge(gd);
       document.body.removeChild(gd);
       const painted = svg.replace(/^(<svg[^>]*?) viewBox="[^"]*"/, "$1");
-      const canvas = document.createElement("canvas");
-      const context = canvas.getContext("2d", {willReadFrequently: true});
       const url = URL.createObjectURL(
         new Blob([painted], {type: "image/svg+xml;charset=utf-8"}));
       const image = new Image();
-      canvas.width = scale * w;
-      canvas.height = scale * h;
       return new Promise((done, failed) => {
         image.onload = () => {
           URL.revokeObjectURL(url);
-          context.drawImage(image, 0, 0, scale * w, scale * h);
-          canvas.toBlob((png) => done(png), "image/png");
+          const canvas = new OffscreenCanvas(scale * w, scale * h);
+          canvas.getContext("2d").drawImage(image, 0, 0, scale * w, scale * h);
+          done(canvas.transferToImageBitmap());
         };
         image.onerror = () => {
           URL.revokeObjectURL(url);
@@ -127,12 +166,13 @@ _PNG_SVG_SCRIPT = """(figure, width, height, scale, key) => {
         image.src = url;
       });
     })
-    .then((png) => Promise.all([
-      fetch("drawn/" + key + ".png", {method: "POST", body: png}),
-      fetch("drawn/" + key + ".svg", {method: "POST", body: svg})]))
-    .then((answers) => answers.every((answer) => answer.ok));
-}"""
-"""The drawing of :func:`request_png_svg`, run in kaleido's page, where plotly.js is loaded.
+    .then((bitmap) => Promise.all([
+      encode(bitmap, "drawn/" + key + ".png", key),
+      fetch("drawn/" + key + ".svg", {method: "POST", body: svg}).then((a) => a.ok)]))
+    .then((answers) => answers.every((ok) => ok));
+}""".replace("ENCODER", _ENCODER_SCRIPT)
+"""The drawing of :func:`request_png_svg`, run in a page of kaleido's renderer, where
+plotly.js is loaded; up to :data:`IN_FLIGHT` run in one page at once.
 
 It relies on ``Plotly.Snapshot`` (``toSVG``, ``getRedrawFunc``, ``getDelay``), the
 functions ``Plotly.toImage`` itself is built of, which plotly.js exports but does not
@@ -143,8 +183,8 @@ compares its images with kaleido's own. The images go to the page host
 (:class:`._page_host.PageHost`, the page's own origin) as the bytes they are: returned
 through the devtools pipe, the PNG went as base64 text inside JSON, encoded in the page,
 decoded in Python (the clay pack's 32 figures: 3.1-3.5 s drawn this way, 3.5-4.4 s that
-way, in turn in one page at a load of 4). Figures with WebGL traces are drawn by kaleido, once for each format (their
-pixel ratio depends on the format's scale)."""
+way, in turn in one page at a load of 4). Figures with WebGL traces are drawn by kaleido,
+once for each format (their pixel ratio depends on the format's scale)."""
 
 _IMAGE_TIMEOUT = 90.0
 """Seconds one drawing may take, as kaleido allows one image. [s]"""
@@ -163,10 +203,24 @@ def _browser_path() -> str | None:
         return None
 
 
+_BROWSER_ARGUMENTS = (
+    "--disable-features=WebUIOmniboxPopup,WebUIOmniboxAimPopup,WebUIOmniboxFullPopup",
+)
+"""Arguments added to Chromium's command line. Its headless mode is the whole browser
+with a window no one sees, and Chromium 156 readies that window's address-bar suggestion
+popups ahead of use as web pages (``chrome://omnibox-popup.top-chrome``) in a renderer
+process of their own: about 1 s of a core in every run, as much as drawing a third of the
+clay pack's images (measured with the process's CPU time). The three features (their names
+read from that Chromium's binary) turn them off; Chromium ignores feature names it does
+not know, and merges these with the features it turns off itself (``PaintHolding`` in
+headless mode)."""
+
+
 def _renderer_class():
     """kaleido's renderer, made to keep its page between images and to load it from the
     page host with a kept profile (:mod:`._page_host`); imported when needed."""
     import kaleido
+    from kaleido._kaleido_tab._tab import _KaleidoTab
 
     class _SamePageRenderer(kaleido.Kaleido):
         """A kaleido renderer that hands its page back without reloading it.
@@ -180,30 +234,39 @@ def _renderer_class():
         The page is kaleido's own page served by `host` (:class:`._page_host.PageHost`,
         the browser's proxy) rather than written to a temporary file, and the browser runs
         with the profile folder `profile` when one is given (Chromium keeps plotly.js
-        compiled there), else with kaleido's temporary one.
+        compiled there), else with kaleido's temporary one. More pages of the same
+        browser are opened with :meth:`new_page`.
         """
 
         def __init__(self, host, profile: Path | None) -> None:
             super().__init__(mathjax=False, n=1, proxy_server=host.proxy)
             self._page_url, self._profile = host.index_url, profile
-            self.host_received = host.received  # the images its page sent, by name
 
         async def open(self) -> None:
             del self._saved_page_arg  # kaleido's page file: the page is served instead
             self._index = self._page_url
-            if self._profile is not None:
-                browser = self._browser_impl
-                arguments = browser.get_cli
+            browser = self._browser_impl
+            arguments, profile = browser.get_cli, self._profile
 
-                def with_profile() -> list[str]:
-                    kept = [a for a in arguments() if not a.startswith("--user-data-dir=")]
-                    return [*kept, f"--user-data-dir={self._profile}"]
+            def ours() -> list[str]:
+                if profile is None:  # kaleido's temporary profile
+                    return [*arguments(), *_BROWSER_ARGUMENTS]
+                kept = [a for a in arguments() if not a.startswith("--user-data-dir=")]
+                return [*kept, f"--user-data-dir={profile}", *_BROWSER_ARGUMENTS]
 
-                browser.get_cli = with_profile
+            browser.get_cli = ours
             await super(kaleido.Kaleido, self).open()  # the browser's own opening
 
         async def _return_kaleido_tab(self, tab) -> None:
             await self.tabs_ready.put(tab)
+
+        async def new_page(self):
+            """Another page of this browser, a tab with a renderer process of its own,
+            loaded as kaleido loads its first (kaleido's ``_conform_tabs``) and kept out of
+            kaleido's queue of pages: kaleido draws in its first page only."""
+            page = _KaleidoTab(await self.create_tab(url="", window=True), headers=self._headers)
+            await page.navigate(self._index)
+            return page
 
     return _SamePageRenderer
 
@@ -212,28 +275,24 @@ _DRAWINGS = itertools.count()
 """Numbers naming each drawing's images as the page sends them to the page host."""
 
 
-async def _draw(renderer, figure_json: str, width, height) -> tuple[bytes, bytes]:
-    """The PNG and SVG of a figure (JSON) drawn by :data:`_PNG_SVG_SCRIPT` in the page of
-    `renderer`, which the caller holds."""
+async def _draw(page, received: dict, figure_json: str, width, height) -> tuple[bytes, bytes]:
+    """The PNG and SVG of a figure (JSON) drawn by :data:`_PNG_SVG_SCRIPT` in `page` (a
+    page of kaleido's renderer); the page sends them to the page host, which keeps them in
+    `received` by name."""
     key = f"{next(_DRAWINGS)}"
-    page = await renderer.tabs_ready.get()
-    try:
-        answer = await asyncio.wait_for(
-            page.tab.send_command(
-                "Runtime.evaluate",
-                params={
-                    "expression": f"({_PNG_SVG_SCRIPT})({figure_json}, "
-                    f"{json.dumps(width)}, {json.dumps(height)}, {PNG_SCALE}, "
-                    f"{json.dumps(key)})",
-                    "awaitPromise": True,
-                    "returnByValue": True,
-                },
-            ),
-            _IMAGE_TIMEOUT,
-        )
-    finally:
-        await renderer.tabs_ready.put(page)
-    received = renderer.host_received
+    answer = await asyncio.wait_for(
+        page.tab.send_command(
+            "Runtime.evaluate",
+            params={
+                "expression": f"({_PNG_SVG_SCRIPT})({figure_json}, "
+                f"{json.dumps(width)}, {json.dumps(height)}, {PNG_SCALE}, "
+                f"{json.dumps(key)})",
+                "awaitPromise": True,
+                "returnByValue": True,
+            },
+        ),
+        _IMAGE_TIMEOUT,
+    )
     png, svg = received.pop(f"{key}.png", None), received.pop(f"{key}.svg", None)
     result = answer.get("result", {})
     if "error" in answer or "exceptionDetails" in result:
@@ -245,7 +304,13 @@ async def _draw(renderer, figure_json: str, width, height) -> tuple[bytes, bytes
 
 
 class _ImageServer:
-    """The browser pages and the event loop that drives them, on a thread of their own."""
+    """The browser, its pages and the event loop that drives them, on a thread of their own.
+
+    Each page takes on up to :data:`IN_FLIGHT` drawings at once: :attr:`slots` holds a
+    page for each drawing it may still take on, and a drawing takes one and gives it back.
+    Figures with WebGL traces are drawn by kaleido itself, in the first page only, with
+    all of that page's slots held (:meth:`_image`): kaleido may reload it first.
+    """
 
     def __init__(self) -> None:
         # what the loop's thread needs is imported here, on the caller's thread: two
@@ -260,24 +325,25 @@ class _ImageServer:
             target=self.loop.run_forever, name="kitchen-images", daemon=True
         )
         self.thread.start()
-        self.renderers: list = []
-        self.claims: list = []  # profiles held, freed once their browsers are closed
-        self.pages = 1  # pages opened or opening
-        self.settled: set[int] = set()  # renderers whose page kaleido may draw in
+        self.renderer = None  # the browser (kaleido's renderer), once opening
+        self.claim = None  # the profile it holds, freed once it is closed
+        self.pages: list = []  # pages open for drawings, the first kaleido's own
+        self.opening = 0  # pages asked for and not yet open
+        self.settled = False  # kaleido may draw in the first page
         self.answered = False
         self.waiting = 0  # images asked for and not yet drawing (counted on the loop)
-        self.free: asyncio.Queue | None = None  # renderers whose page is free
+        self.slots: asyncio.Queue | None = None
+        self.kaleido_turn: asyncio.Lock | None = None  # one kaleido drawing at a time
         self.opened: Future = asyncio.run_coroutine_threadsafe(self._open_first(), self.loop)
 
     async def _open_first(self) -> None:
-        self.free = asyncio.Queue()
-        await self._open_page()
-
-    async def _open_page(self) -> None:
-        claim = self.claim_profile()
-        if claim is not None:
-            self.claims.append(claim)
-        await self.free.put(await self._open_renderer(claim))
+        self.slots, self.kaleido_turn = asyncio.Queue(), asyncio.Lock()
+        self.opening = 1
+        self.claim = self.claim_profile()
+        self.renderer = await self._open_renderer(self.claim)
+        page = await self.renderer.tabs_ready.get()  # kaleido's page, left in its queue
+        self.renderer.tabs_ready.put_nowait(page)
+        self._add_page(page)
 
     async def _open_renderer(self, claim):
         """A renderer whose page is loaded, with the claimed profile when there is one.
@@ -286,20 +352,62 @@ class _ImageServer:
         holds, or one a newer Chromium wrote) is given up for a temporary one.
         """
         renderer = self.renderer_class(self.host, None if claim is None else claim.path)
-        self.renderers.append(renderer)  # closed at the end even when half open
+        self.renderer = renderer  # closed at the end even when half open
         try:
             await renderer.open()
         except Exception:
             if claim is None:
                 raise
-            self.renderers.remove(renderer)
             await asyncio.gather(renderer.close(), return_exceptions=True)
+            self.renderer = None
             claim.release()
+            self.claim = None
             return await self._open_renderer(None)
         return renderer
 
-    async def _settle(self, renderer) -> None:
-        """Reload a renderer's page once, before kaleido first draws in it.
+    def _add_page(self, page) -> None:
+        self.opening -= 1
+        self.pages.append(page)
+        for _ in range(IN_FLIGHT):
+            self.slots.put_nowait(page)
+
+    async def _open_page(self) -> None:
+        """Another page of the browser, for drawings only (kaleido draws in the first)."""
+        try:
+            page = await self.renderer.new_page()
+        except Exception:  # drawn without it
+            self.opening -= 1
+            raise
+        self._add_page(page)
+
+    def _second_page(self) -> None:
+        """Open another page when the backlog repays it; one that fails is done without."""
+        if self.waiting > SECOND_PAGE_BACKLOG and len(self.pages) + self.opening < PAGES:
+            self.opening += 1
+            task = self.loop.create_task(self._open_page())
+            task.add_done_callback(lambda done: done.cancelled() or done.exception())
+
+    async def _slot(self, images: int):
+        """A page with a drawing free, once the first is open; `images` wait meanwhile."""
+        self.waiting += images
+        try:
+            await asyncio.wrap_future(self.opened)
+            self._second_page()
+            return await self.slots.get()
+        finally:
+            self.waiting -= images
+
+    async def _first_page_held(self) -> list:
+        """Hold every slot of the first page (waiting for its drawings to end); returns
+        the slots taken, to be given back, with those of other pages taken on the way."""
+        await asyncio.wrap_future(self.opened)
+        first, held = self.pages[0], []
+        while sum(page is first for page in held) < IN_FLIGHT:
+            held.append(await self._slot(1))
+        return held
+
+    async def _settle(self) -> None:
+        """Reload the first page once, before kaleido first draws in it.
 
         kaleido takes a page's script context from the first one reported after it
         navigates, which can be the blank page's it replaces (then no image is drawn); one
@@ -307,46 +415,26 @@ class _ImageServer:
         :func:`request_png_svg` run in the page's own context and need none, so a pack
         without WebGL figures never pays for it (a page's load costs about 0.3 s again).
         """
-        if id(renderer) in self.settled:
-            return
-        page = await renderer.tabs_ready.get()
-        try:
-            await page.reload()
-        finally:
-            await renderer.tabs_ready.put(page)
-        self.settled.add(id(renderer))
-
-    def _second_page(self) -> None:
-        """Open another page when the backlog repays it; one that fails is done without."""
-        if self.waiting > SECOND_PAGE_BACKLOG and self.pages < PAGES:
-            self.pages += 1
-            task = self.loop.create_task(self._open_page())
-            task.add_done_callback(lambda done: done.cancelled() or done.exception())
-
-    async def _free_renderer(self, images: int):
-        """A renderer whose page is free, once the first is open; `images` wait meanwhile."""
-        self.waiting += images
-        try:
-            await asyncio.wrap_future(self.opened)
-            self._second_page()
-            return await self.free.get()
-        finally:
-            self.waiting -= images
+        if not self.settled:
+            await self.pages[0].reload()
+            self.settled = True
 
     async def _image(self, figure_dict: dict, options: dict) -> bytes:
-        renderer = await self._free_renderer(1)
-        try:
-            await self._settle(renderer)
-            return await renderer.calc_fig(figure_dict, opts=options)
-        finally:
-            self.free.put_nowait(renderer)
+        async with self.kaleido_turn:
+            held = await self._first_page_held()
+            try:
+                await self._settle()
+                return await self.renderer.calc_fig(figure_dict, opts=options)
+            finally:
+                for page in held:
+                    self.slots.put_nowait(page)
 
     async def _png_svg(self, figure_json: str, width, height) -> tuple[bytes, bytes]:
-        renderer = await self._free_renderer(2)
+        page = await self._slot(2)
         try:
-            return await _draw(renderer, figure_json, width, height)
+            return await _draw(page, self.host.received, figure_json, width, height)
         finally:
-            self.free.put_nowait(renderer)
+            self.slots.put_nowait(page)
 
     def request(self, figure_dict: dict, options: dict) -> Future:
         return asyncio.run_coroutine_threadsafe(self._image(figure_dict, options), self.loop)
@@ -357,16 +445,17 @@ class _ImageServer:
         )
 
     def close(self) -> None:
-        """Close the browsers and stop the loop; once (a later call does nothing)."""
+        """Close the browser and stop the loop; once (a later call does nothing)."""
         if not self.thread.is_alive():
             return
 
         async def shut() -> None:
-            closing = [renderer.close() for renderer in self.renderers]
-            closing.append(asyncio.to_thread(self.host.close))
+            closing = [asyncio.to_thread(self.host.close)]
+            if self.renderer is not None:
+                closing.append(self.renderer.close())
             await asyncio.gather(*closing, return_exceptions=True)
-            for claim in self.claims:  # after their browsers have closed
-                claim.release()
+            if self.claim is not None:  # after its browser has closed
+                self.claim.release()
 
         try:
             asyncio.run_coroutine_threadsafe(shut(), self.loop).result(10)
