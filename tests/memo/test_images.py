@@ -4,6 +4,7 @@ with it, every image is drawn in the same page, never reloaded."""
 import os
 import re
 import shutil
+import time
 from pathlib import Path
 
 import pytest
@@ -132,21 +133,21 @@ def test_a_figure_with_webgl_traces_is_drawn_once_for_each_format(monkeypatch):
 
 
 @pytest.mark.parametrize(
-    ("argv", "started"),
+    ("argv", "pages"),
     [
-        (["report", "series", "--out", "pack"], True),
-        (["field-check", "series", "--out", "check"], True),
-        (["report", "series", "--out", "pack", "--no-images"], False),
-        (["report", "--help"], False),
-        (["history", "series"], False),
-        ([], False),
+        (["report", "series", "--out", "pack"], images.PAGES),  # a memo pack: many images
+        (["field-check", "series", "--out", "check"], 1),
+        (["report", "series", "--out", "pack", "--no-images"], None),
+        (["report", "--help"], None),
+        (["history", "series"], None),
+        ([], None),
     ],
 )
-def test_chromium_is_started_first_only_for_a_command_that_draws_images(monkeypatch, argv, started):
+def test_chromium_is_started_first_only_for_a_command_that_draws_images(monkeypatch, argv, pages):
     calls = []
-    monkeypatch.setattr(images, "start_image_export", lambda: calls.append(True))
+    monkeypatch.setattr(images, "start_image_export", lambda pages=1: calls.append(pages))
     images.start_for_command(argv)
-    assert calls == ([True] if started else [])
+    assert calls == ([] if pages is None else [pages])
 
 
 def test_a_machine_without_chromium_starts_nothing_first_and_the_command_says_why(
@@ -273,6 +274,24 @@ def test_one_drawing_needs_no_reload_of_a_freshly_opened_page():
         "print(images._image_server['server'].settled)\n"
     )
     assert _in_a_fresh_interpreter(script).strip() == "False"  # no page was reloaded
+
+
+@needs_chromium
+def test_pages_asked_for_at_once_are_opened_before_any_image_waits():
+    server = images._ImageServer(pages=images.PAGES)
+    try:
+        server.opened.result(120)
+        for _ in range(600):  # the second page opens on the server's loop
+            if len(server.pages) == images.PAGES:
+                break
+            time.sleep(0.1)
+        assert len(server.pages) == images.PAGES and server.waiting == 0
+        png, svg = server.request_both('{"data": [{"type": "bar", "y": [1, 2]}]}', 300, 200).result(
+            120
+        )
+        assert png[:8] == b"\x89PNG\r\n\x1a\n" and svg.startswith(b"<svg")
+    finally:
+        server.close()
 
 
 @needs_chromium
