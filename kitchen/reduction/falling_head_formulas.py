@@ -222,6 +222,56 @@ def cumulative_trapezoid(steps: np.ndarray, values: np.ndarray) -> np.ndarray:
     return area
 
 
+class TrapezoidArea:
+    """∫ values dt from the first reading to any reading, by the trapezoid rule, without an
+    array of the record's length.
+
+    ``area(i)`` is the number ``cumulative_trapezoid(numpy.diff(time), values)[i]`` gives,
+    to the last bit: the area is kept at every `every`-th reading, and the readings after
+    one are summed again from it, one at a time in the same order (a cumulative sum runs
+    one value at a time, so resuming it from a value it reached gives the numbers it would
+    have given). A record of 10⁷ readings keeps 153 numbers rather than 76 MiB; a reading's
+    area costs a sum of at most `every` terms (about 0.2 ms).
+
+    References
+    ----------
+    The composite trapezoid rule (Press et al., *Numerical Recipes*, 3rd ed., §4.1; from
+    memory), as :func:`cumulative_trapezoid`.
+    """
+
+    def __init__(self, time: np.ndarray, values: np.ndarray, every: int = 1 << 16):
+        self.time, self.values, self.every = time, values, every
+        n = values.size
+        marks = np.empty((n - 1) // every + 1)  # the area at readings 0, every, 2·every, ...
+        marks[0] = 0.0
+        for block, start in enumerate(range(0, n - 1, every)):
+            stop = min(start + every, n - 1)
+            if block + 1 < marks.size:
+                marks[block + 1] = self._sums(marks[block], start, stop)[-1]
+        self._marks = marks
+
+    def _sums(self, carry: float, start: int, stop: int) -> np.ndarray:
+        """The area at readings ``start`` to ``stop``, from the area `carry` at ``start``."""
+        values = self.values
+        sums = np.empty(stop - start + 1)
+        sums[0] = carry
+        part = sums[1:]
+        np.add(values[start + 1 : stop + 1], values[start:stop], out=part)
+        part *= np.diff(self.time[start : stop + 1])
+        part *= 0.5
+        np.cumsum(sums, out=sums)
+        return sums
+
+    def area(self, index: int) -> float:
+        """∫ values dt from the first reading to reading `index` (0 at the first)."""
+        index = range(self.values.size)[index]  # a negative index counts from the end
+        block, offset = divmod(index, self.every)
+        start = block * self.every
+        if offset == 0:
+            return float(self._marks[block])
+        return float(self._sums(self._marks[block], start, start + offset)[-1])
+
+
 def jurin_capillary_rise(diameter, temperature=20.0):
     """Capillary rise of water in a clean glass standpipe, by Jurin's law.
 

@@ -62,7 +62,7 @@ from .falling_head_evidence import (
     window_interval,
 )
 from .falling_head_formulas import (
-    cumulative_trapezoid,
+    TrapezoidArea,
     effective_standpipe_area,
     jurin_capillary_rise,
     reference_elapsed_time,
@@ -315,7 +315,9 @@ class FallingHeadRecord:
         self.reference_time = reference_elapsed_time(
             time, filled, settings.reference_temperature, settings.viscosity, steps=steps
         )
-        self._temperature_area = cumulative_trapezoid(steps, filled)
+        # the temperature's integral, for the mean over any window (76 MiB for 10⁷
+        # readings as a whole array, which a record of them no longer holds)
+        self._temperature_area = TrapezoidArea(time, filled)
         self.mean_temperature = self._mean_temperature(0, self.n)
 
     def _prepare_heads(self, capillary_rise):
@@ -392,7 +394,8 @@ class FallingHeadRecord:
         if self._temperature_area is None:
             return math.nan
         span = self.time[stop - 1] - self.time[start]
-        return float((self._temperature_area[stop - 1] - self._temperature_area[start]) / span)
+        area = self._temperature_area.area
+        return float((area(stop - 1) - area(start)) / span)
 
     def _minimum_readings(self) -> int:
         return max(self.settings.criteria.steady_count + 1, 6)

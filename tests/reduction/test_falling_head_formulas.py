@@ -121,3 +121,26 @@ def test_a_function_of_repeated_values_is_the_same_evaluated_once_a_value():
             per_distinct_value(values, ratio), viscosity_ratio(values, 20.0, "kestin")
         )
         assert calls[0] == (np.unique(values).size if values is repeated else values.size)
+
+
+@pytest.mark.parametrize("every", [1, 3, 4096, 1 << 16])
+def test_trapezoid_area_at_any_reading_is_the_cumulative_integral_to_the_last_bit(every):
+    # the reference is scipy's cumulative trapezoid (scipy.integrate, a general-purpose
+    # library), to rounding, and the whole-array form the record used to keep, to the bit
+    from scipy.integrate import cumulative_trapezoid as scipy_cumulative
+
+    from kitchen.reduction.falling_head_formulas import TrapezoidArea, cumulative_trapezoid
+
+    rng = np.random.default_rng(every)
+    n = 150_001
+    time = np.cumsum(rng.uniform(0.5, 1.5, n)) * 60.0
+    temperature = (20.0 + rng.normal(0.0, 0.4, n)).round(2)  # a logger's 0.01 degC steps
+    whole = cumulative_trapezoid(np.diff(time), temperature)
+    area = TrapezoidArea(time, temperature, every)
+    picked = np.unique(np.r_[0, 1, n - 1, rng.integers(0, n, 200), every - 1, every, every + 1])
+    picked = picked[picked < n]
+    got = np.array([area.area(int(i)) for i in picked])
+    assert np.array_equal(got, whole[picked])
+    assert area.area(-1) == whole[-1]
+    reference = np.r_[0.0, scipy_cumulative(temperature, time)]
+    np.testing.assert_allclose(got, reference[picked], rtol=1e-12, atol=1e-9)
