@@ -26,9 +26,11 @@ class FlowRecord:
     """One test's flow over its course.
 
     ``time`` [s], ``inflow`` and ``outflow`` [m3] (cumulative from the first reading; NaN
-    where not measured), ``pore_volumes`` (the cumulative flow through the specimen over
-    the pore volume: the inflow of a falling-head test, the outflow collected in a
-    constant-head one; formed when read) at each reading or collection; ``k_time`` [s],
+    where not measured; an inflow from the fall of the head, ``head_fall``, is formed when
+    read, so a record of 10⁷ readings holds no array of it), ``pore_volumes`` (the
+    cumulative flow through the specimen over the pore volume: the inflow of a falling-head
+    test, the outflow collected in a constant-head one; formed when read) at each reading
+    or collection; ``k_time`` [s],
     ``k`` [m/s] (at the reference temperature) and ``k_pore_volumes`` at each step;
     ``ratio_time`` [s] and ``ratio`` (outflow/inflow over each interval where both were
     measured; empty otherwise). ``void_volume`` [m3] is the specimen's pore volume;
@@ -37,7 +39,9 @@ class FlowRecord:
 
     specimen: str
     time: np.ndarray
-    inflow: np.ndarray
+    measured_inflow: np.ndarray | None
+    """Cumulative inflow as measured (NaN where not); None where it is the fall of the head
+    (``head_fall``)."""
     outflow: np.ndarray
     through: str
     """Which volume passed through the specimen: ``"inflow"`` or ``"outflow"``."""
@@ -48,6 +52,17 @@ class FlowRecord:
     ratio: np.ndarray
     void_volume: float
     notes: tuple[str, ...]
+    head_fall: tuple[np.ndarray, float] | None = None
+    """(heads [m], standpipe area [m2]) where the inflow is a·(h0 − h)."""
+
+    @property
+    def inflow(self) -> np.ndarray:
+        """Cumulative inflow at each reading [m3]: as measured, or a·(h0 − h) (formed when
+        read)."""
+        if self.measured_inflow is not None:
+            return self.measured_inflow
+        head, area = self.head_fall
+        return _fall_volume(head, area, 0, head.size)
 
     @property
     def pore_volumes(self) -> np.ndarray:
@@ -57,12 +72,45 @@ class FlowRecord:
     @property
     def total_pore_volumes(self) -> float:
         """Pore volumes of flow over the whole record."""
+        if self.through == "inflow" and self.measured_inflow is None:
+            head, area = self.head_fall  # every head is finite: its last gives the total
+            return float(_fall_volume(head, area, head.size - 1, head.size)[0] / self.void_volume)
         flow = getattr(self, self.through)
         finite = np.isfinite(flow[::-1])  # the last finite value, no copy
         last = int(np.argmax(finite))
         if not (finite.size and finite[last]):
             return math.nan
         return float(flow[-1 - last] / self.void_volume)
+
+
+def _fall_volume(head: np.ndarray, area: float, start: int, stop: int) -> np.ndarray:
+    """a·(h0 − h) at readings ``start`` to ``stop - 1``: the volume that has left a
+    standpipe of area `area` since the first reading. [m3]"""
+    volume = np.subtract(head[0], head[start:stop])
+    volume *= area
+    return volume
+
+
+INTERPOLATION_BLOCK = 1 << 16
+"""Points interpolated at a time in the fall of the head (:func:`_interpolated_fall`)."""
+
+
+def _interpolated_fall(x: np.ndarray, time: np.ndarray, head: np.ndarray, area: float):
+    """``numpy.interp(x, time, a·(h0 − h))`` for `x` within the readings' times, the same
+    numbers, with the volume formed only at the two readings around each point: interp
+    takes each value from the pair of readings that brackets it, and no other reading lies
+    between the two, so the pairs alone give it the same pairs (a block of points at a
+    time, so nothing the length of the record is formed, however the points are spaced)."""
+    out = np.empty(x.size)
+    last = time.size - 1
+    for a in range(0, x.size, INTERPOLATION_BLOCK):
+        part = x[a : a + INTERPOLATION_BLOCK]
+        below = np.clip(np.searchsorted(time, part, "right") - 1, 0, last)
+        used = np.unique(np.concatenate((below, np.minimum(below + 1, last))))
+        volume = np.subtract(head[0], head[used])
+        volume *= area
+        out[a : a + part.size] = np.interp(part, time[used], volume)
+    return out
 
 
 def _void_volume(permeation_row: pd.Series) -> float:
@@ -171,9 +219,8 @@ def falling_head_flow(analysis, record, permeation_row: pd.Series) -> FlowRecord
     if measured_in:
         inflow = record.inflow - record.inflow[np.isfinite(record.inflow)][0]
         notes.append("inflow as recorded")
-    else:
-        inflow = np.subtract(head[0], head)
-        inflow *= record.standpipe_area  # a·(h0 − h), formed in one array
+    else:  # a·(h0 − h), formed when read (FlowRecord.inflow)
+        inflow = None
         notes.append("inflow from the fall of the head times the standpipe area, a·(h0 − h)")
     if record.outflow is not None and np.isfinite(record.outflow).any():
         outflow = record.outflow - record.outflow[np.isfinite(record.outflow)][0]
@@ -189,7 +236,12 @@ def falling_head_flow(analysis, record, permeation_row: pd.Series) -> FlowRecord
         max(int(analysis.value_step), 1),
     )
     # pore volumes at the spans' middles, interpolated in the inflow (linear, like it)
-    k_pore_volumes = np.interp(k_time, time, inflow) / void if time.size else k_time
+    if not time.size:
+        k_pore_volumes = k_time
+    elif inflow is None:
+        k_pore_volumes = _interpolated_fall(k_time, time, head, record.standpipe_area) / void
+    else:
+        k_pore_volumes = np.interp(k_time, time, inflow) / void
     ratio_time, ratio = (
         _interval_ratio(time, inflow, outflow) if measured_in else (np.empty(0), np.empty(0))
     )
@@ -206,6 +258,7 @@ def falling_head_flow(analysis, record, permeation_row: pd.Series) -> FlowRecord
         ratio,
         void,
         tuple(notes),
+        None if measured_in else (head, record.standpipe_area),
     )
 
 

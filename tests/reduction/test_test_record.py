@@ -37,6 +37,28 @@ def test_pore_volumes_of_a_falling_head_test_without_volumes():
     assert np.all(np.diff(flow.pore_volumes) >= -1e-12)
 
 
+@pytest.mark.parametrize("block", [1, 3, 1 << 16])
+def test_an_inflow_from_the_fall_of_the_head_is_formed_when_read_with_the_same_numbers(
+    monkeypatch, block
+):
+    # the record holds no array of a·(h0 − h); its pore volumes at the spans' middles are
+    # numpy's own linear interpolation in the whole inflow (numpy.interp, the reference),
+    # to the bit, whatever the block the interpolation is taken in
+    from kitchen.reduction import test_record
+
+    monkeypatch.setattr(test_record, "INTERPOLATION_BLOCK", block)
+    workspace = Workspace(SAMPLES / "clay_liner")
+    for specimen in workspace.specimen_ids()[:4]:
+        flow = workspace.flow_record(specimen)
+        record = workspace.falling_head_record(specimen)
+        assert flow.measured_inflow is None and flow.head_fall is not None
+        inflow = (record.head[0] - record.head) * record.standpipe_area
+        assert np.array_equal(flow.inflow, inflow)
+        expected = np.interp(flow.k_time, flow.time, inflow) / flow.void_volume
+        assert np.array_equal(flow.k_pore_volumes, expected)
+        assert flow.total_pore_volumes == inflow[-1] / flow.void_volume
+
+
 def test_burette_volumes_give_outflow_over_inflow_near_the_generated_ratio():
     workspace = Workspace(SAMPLES / "flexible_wall_clay")
     flow = workspace.flow_record("FW-01")
