@@ -6,15 +6,19 @@ opens the browser on a thread of its own and returns at once, so Chromium starts
 series is read and reduced. ``python -m kitchen report`` starts it before the rest of the
 package is even imported (:func:`start_for_command`).
 
-Every image is drawn in the same page, one after the other, without reloading it
-(:class:`_SamePageRenderer`): plotly.js draws each figure in a detached element of its own
-and removes it once the image is made, so nothing is left in the page from one image to the
-next, and a reload would only cost its time (about a quarter of a second an image). The
-page is served on the loopback interface and the browser keeps a profile in the cache
-folder (:mod:`._page_host`), so Chromium compiles plotly.js once per machine: the page
-loads in about 0.3 s instead of 1.1-1.5 s, before the first figure is asked for. One page
-is opened first and images are drawn as soon as it is ready; a second page
-(:data:`PAGES`) is opened only when more than :data:`SECOND_PAGE_BACKLOG` images wait.
+Images are drawn in a page that is never reloaded (:class:`_SamePageRenderer`): plotly.js
+draws each figure in a detached element of its own and removes it once the image is made,
+so nothing is left in the page from one image to the next, and a reload would only cost
+its time (about a quarter of a second an image). A page takes on :data:`IN_FLIGHT`
+drawings at once and encodes its PNGs on a worker of its own, so it lays out the next
+figure while the last is painted and encoded. The page is served on the loopback
+interface and the browser keeps a profile in the cache folder (:mod:`._page_host`), so
+Chromium compiles plotly.js once per machine: the page loads in about 0.3 s instead of
+1.1-1.5 s, before the first figure is asked for. Up to :data:`PAGES` pages, tabs of the
+one browser each with a renderer process of its own, draw at once: ``report`` opens them
+all as soon as the browser is open, another caller a second one once more than
+:data:`SECOND_PAGE_BACKLOG` images wait. The browser starts with its hidden window's
+address-bar popups off (:data:`_BROWSER_ARGUMENTS`).
 :func:`request_image` hands a figure to the server and returns at once, so the next figure
 can be prepared while Chromium draws; :func:`figure_image` waits for its image. The first
 image is awaited at most :data:`FIRST_IMAGE_TIMEOUT` seconds, so a Chromium that starts but
