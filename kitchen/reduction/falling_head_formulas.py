@@ -198,14 +198,16 @@ def reference_elapsed_time(
     return cumulative_trapezoid(np.diff(time) if steps is None else steps, inverse)
 
 
-def cumulative_trapezoid(steps: np.ndarray, values: np.ndarray) -> np.ndarray:
+def cumulative_trapezoid(steps: np.ndarray, values: np.ndarray, initial: float = 0.0) -> np.ndarray:
     """∫ values dt from the first reading to each, by the trapezoid rule.
 
     `steps` are the time steps between readings (``numpy.diff`` of the times; one fewer
-    than `values`). Returns an array of the readings' length starting at 0: the numbers of
-    ``concatenate(([0], cumsum(steps * 0.5 * (values[1:] + values[:-1]))))`` to the last
-    bit (halving is exact, so it may come last), formed in the result itself: no other
-    array of the record's length.
+    than `values`). Returns an array of the readings' length starting at `initial`: the
+    numbers of ``cumsum(concatenate(([initial], steps * 0.5 * (values[1:] +
+    values[:-1]))))`` to the last bit (halving is exact, so it may come last; with
+    `initial` 0, ``0 + x`` is x), formed in the result itself: no other array of the
+    record's length. A cumulative sum runs one value at a time, so an integral resumed
+    from a value it reached, as `initial`, goes on with the numbers it would have given.
 
     References
     ----------
@@ -213,12 +215,12 @@ def cumulative_trapezoid(steps: np.ndarray, values: np.ndarray) -> np.ndarray:
     *Numerical Recipes*, 3rd ed., §4.1; from memory).
     """
     area = np.empty(values.size)
-    area[0] = 0.0
+    area[0] = initial
     part = area[1:]
     np.add(values[1:], values[:-1], out=part)
     part *= steps
     part *= 0.5
-    np.cumsum(part, out=part)
+    np.cumsum(area, out=area)
     return area
 
 
@@ -252,15 +254,8 @@ class TrapezoidArea:
 
     def _sums(self, carry: float, start: int, stop: int) -> np.ndarray:
         """The area at readings ``start`` to ``stop``, from the area `carry` at ``start``."""
-        values = self.values
-        sums = np.empty(stop - start + 1)
-        sums[0] = carry
-        part = sums[1:]
-        np.add(values[start + 1 : stop + 1], values[start:stop], out=part)
-        part *= np.diff(self.time[start : stop + 1])
-        part *= 0.5
-        np.cumsum(sums, out=sums)
-        return sums
+        readings = slice(start, stop + 1)
+        return cumulative_trapezoid(np.diff(self.time[readings]), self.values[readings], carry)
 
     def area(self, index: int) -> float:
         """∫ values dt from the first reading to reading `index` (0 at the first)."""

@@ -62,7 +62,7 @@ class FlowRecord:
         if self.measured_inflow is not None:
             return self.measured_inflow
         head, area = self.head_fall
-        return _fall_volume(head, area, 0, head.size)
+        return _fall_volume(head, area, slice(None))
 
     @property
     def pore_volumes(self) -> np.ndarray:
@@ -74,7 +74,7 @@ class FlowRecord:
         """Pore volumes of flow over the whole record."""
         if self.through == "inflow" and self.measured_inflow is None:
             head, area = self.head_fall  # every head is finite: its last gives the total
-            return float(_fall_volume(head, area, head.size - 1, head.size)[0] / self.void_volume)
+            return float(_fall_volume(head, area, slice(-1, None))[0] / self.void_volume)
         flow = getattr(self, self.through)
         finite = np.isfinite(flow[::-1])  # the last finite value, no copy
         last = int(np.argmax(finite))
@@ -83,10 +83,10 @@ class FlowRecord:
         return float(flow[-1 - last] / self.void_volume)
 
 
-def _fall_volume(head: np.ndarray, area: float, start: int, stop: int) -> np.ndarray:
-    """a·(h0 − h) at readings ``start`` to ``stop - 1``: the volume that has left a
-    standpipe of area `area` since the first reading. [m3]"""
-    volume = np.subtract(head[0], head[start:stop])
+def _fall_volume(head: np.ndarray, area: float, readings) -> np.ndarray:
+    """a·(h0 − h) at `readings` (a slice or an array of positions): the volume that has
+    left a standpipe of area `area` since the first reading. [m3]"""
+    volume = np.subtract(head[0], head[readings])
     volume *= area
     return volume
 
@@ -107,9 +107,7 @@ def _interpolated_fall(x: np.ndarray, time: np.ndarray, head: np.ndarray, area: 
         part = x[a : a + INTERPOLATION_BLOCK]
         below = np.clip(np.searchsorted(time, part, "right") - 1, 0, last)
         used = np.unique(np.concatenate((below, np.minimum(below + 1, last))))
-        volume = np.subtract(head[0], head[used])
-        volume *= area
-        out[a : a + part.size] = np.interp(part, time[used], volume)
+        out[a : a + part.size] = np.interp(part, time[used], _fall_volume(head, area, used))
     return out
 
 

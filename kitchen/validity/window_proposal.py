@@ -284,12 +284,13 @@ def propose_window(
             inside = (ratio >= criteria.flow_ratio_low) & (ratio <= criteria.flow_ratio_high)
             flow_ok = ~usable | inside
     passing = np.logical_and(trends.trend_ok, flow_ok)
-    if not steady_passed:
-        passing[:] = False
     g_all = np.asarray(gradient, dtype=float)
     # k, its gradient limit and the Reynolds number a block of starts at a time: a record
-    # of 10^7 readings has 5·10^6 starts, and whole arrays of them held some 150 MB at once
-    for a in range(0, trends.starts, PROPOSAL_BLOCK):
+    # of 10^7 readings has 5·10^6 starts, and whole arrays of them held some 150 MB at once;
+    # none is judged when the last k values already fail the steady check
+    if not steady_passed:
+        passing[:] = False
+    for a in range(0, trends.starts if steady_passed else 0, PROPOSAL_BLOCK):
         b = min(a + PROPOSAL_BLOCK, trends.starts)
         k = np.multiply(trends.slope[a:b], -scale)  # −scale·slope/span
         k /= trends.span
