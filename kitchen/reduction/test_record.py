@@ -85,7 +85,13 @@ class FlowRecord:
 
 def _fall_volume(head: np.ndarray, area: float, readings) -> np.ndarray:
     """a·(h0 − h) at `readings` (a slice or an array of positions): the volume that has
-    left a standpipe of area `area` since the first reading. [m3]"""
+    left a standpipe of area `area` since the first reading. [m3]
+
+    References
+    ----------
+    ASTM D5084 Methods B and C: the volume through the specimen from the burette's change
+    of level (from memory).
+    """
     volume = np.subtract(head[0], head[readings])
     volume *= area
     return volume
