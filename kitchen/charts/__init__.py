@@ -26,7 +26,7 @@ its modules: :func:`compaction_conductivity_figure`, :func:`compaction_conductiv
 and :func:`constant_head_figure`, :func:`flow_record_figure` (the figures);
 :func:`field_plane_figure`,
 :func:`field_distance_figure` and :data:`FIELD_FILLS` (the field check's); :func:`memo_template`,
-:func:`decimation_indices`, :class:`WindowDecimation`, :func:`add_caption`,
+:func:`decimation_indices`, :class:`WindowDecimation`, :func:`add_caption`, :func:`captioned_dict`,
 :func:`label_specimens`, :data:`MAX_TRACE_POINTS`, :data:`WIDTH`, :data:`HEIGHT`,
 :data:`PLOT_WIDTH`, :func:`cached_memo_template`, :data:`FONT`, :data:`INK`,
 :data:`MUTED`, :data:`GRID`, :data:`ZONE`,
@@ -84,6 +84,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "WindowDecimation": "style",
         "ZONE": "style",
         "add_caption": "style",
+        "captioned_dict": "style",
         "label_specimens": "style",
         "decimation_indices": "style",
         "memo_template": "style",
@@ -94,6 +95,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
 __all__ = [
     "flow_record_figure",
     "add_caption",
+    "captioned_dict",
     "label_specimens",
     "compaction_conductivity_figure",
     "compaction_conductivity_spec",

@@ -7,7 +7,7 @@ a pale face in a dark outline for a test not judged, each telling apart in greys
 Here are the colours, marker shapes and dashes, the plotly template (:func:`memo_template`),
 min/max decimation of long records (:func:`decimation_indices`, and of any window of one,
 :class:`WindowDecimation`) and the caption in a
-figure's margin (:func:`add_caption`).
+figure's margin (:func:`captioned_dict`, :func:`add_caption`).
 """
 
 from __future__ import annotations
@@ -43,6 +43,7 @@ __all__ = [
     "WIDTH",
     "ZONE",
     "add_caption",
+    "captioned_dict",
     "label_specimens",
     "decimation_indices",
     "memo_template",
@@ -312,20 +313,33 @@ LEGEND_ROW_HEIGHT = 19
 
 
 def add_caption(figure: go.Figure, lines, width: int = 160) -> go.Figure:
-    """A copy of `figure` with `lines` of small text (cautions, provenance) under the plot.
+    """A copy of `figure` with `lines` of small text (cautions, provenance) under the plot:
+    :func:`captioned_dict` as a figure."""
+    return go.Figure(captioned_dict(figure, lines, width))
+
+
+def captioned_dict(figure: go.Figure, lines, width: int = 160) -> dict:
+    """`figure` as a plain dict (``figure.to_dict()``) with `lines` of small text (cautions,
+    provenance) under the plot, for the static images; `figure` is left as it was.
 
     The text goes under the plot and its axis titles, where the README says; the figure
     grows by the height of the text. A legend laid out below the plot (the compaction
     chart's) moves beside it on the copy, so that nothing sits between the plot and the
     cautions and nothing overlaps them; the copy grows by the room that legend needs.
+
+    The copy is made as a dict, not as a figure: the image export sends the dict to the
+    browser, and a figure built again from the copy would check every property once more
+    (the clay pack's 32 captions: 0.15 s of a core as figures, 0.03 s as dicts).
     """
-    out = go.Figure(figure)
+    layout = figure.layout
+    out = figure.to_dict()
+    changed = out.setdefault("layout", {})
     wrapped = []
     for line in lines:
         wrapped.extend(textwrap.wrap(str(line), width) or [""])
-    height = out.layout.height or HEIGHT
+    height = layout.height or HEIGHT
     extra = 14 * len(wrapped) + 16
-    legend_below = out.layout.legend.y is not None and out.layout.legend.y < 0
+    legend_below = layout.legend.y is not None and layout.legend.y < 0
     text = dict(
         text="<br>".join(wrapped),
         xref="paper",
@@ -336,22 +350,24 @@ def add_caption(figure: go.Figure, lines, width: int = 160) -> go.Figure:
         showarrow=False,
         font=dict(size=10, color=MUTED),
     )
-    bottom = out.layout.margin.b if out.layout.margin.b is not None else 70
+    bottom = layout.margin.b if layout.margin.b is not None else 70
+    margin = changed.setdefault("margin", {})
     if legend_below:
-        room, needed = legend_room(out)
-        right = (out.layout.margin.r if out.layout.margin.r is not None else 20) + room
+        room, needed = legend_room(figure)
+        top = layout.margin.t if layout.margin.t is not None else 80
+        margin["r"] = (layout.margin.r if layout.margin.r is not None else 20) + room
         bottom = 60
-        top = out.layout.margin.t if out.layout.margin.t is not None else 80
         height = max(height, needed + top + bottom)
-        out.update_layout(
-            legend=dict(
-                orientation="v", x=1.02, xanchor="left", y=1.0, yanchor="top", yref="paper"
-            ),
-            margin=dict(r=right, b=bottom),
-            width=(out.layout.width or WIDTH) + room,
-        )
-    out.add_annotation(y=0.0, yanchor="top", yshift=-(bottom - 8), **text)
-    out.update_layout(margin=dict(b=bottom + extra), height=height + extra)
+        changed["legend"] = {
+            **changed.get("legend", {}),
+            **dict(orientation="v", x=1.02, xanchor="left", y=1.0, yanchor="top", yref="paper"),
+        }
+        changed["width"] = (layout.width or WIDTH) + room
+    changed.setdefault("annotations", []).append(
+        dict(y=0.0, yanchor="top", yshift=-(bottom - 8), **text)
+    )
+    margin["b"] = bottom + extra
+    changed["height"] = height + extra
     return out
 
 

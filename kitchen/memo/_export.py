@@ -44,14 +44,14 @@ def request_images(figures, caption) -> dict:
     (:func:`kitchen.memo.images.request_png_svg`). An export asks for every image before it
     writes its first file, so Chromium draws them while the tables and pages are written.
     """
-    from kitchen.charts import add_caption
+    from kitchen.charts import captioned_dict
 
     from .images import request_png_svg
 
     requested = {}
     for name, figure in figures:
         requested[name, "png"], requested[name, "svg"] = request_png_svg(
-            add_caption(figure, caption)
+            captioned_dict(figure, caption)
         )
     return requested
 

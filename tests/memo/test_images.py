@@ -105,7 +105,7 @@ def test_png_and_svg_of_one_drawing_are_kaleidos_own_from_a_fresh_page():
                     tuple(
                         [
                             await renderer.calc_fig(
-                                figure.to_dict(), opts=images._options(figure, ext)
+                                figure.to_dict(), opts=images._options(figure.to_dict(), ext)
                             )
                             for ext in ("png", "svg")
                         ]
