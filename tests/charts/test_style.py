@@ -162,3 +162,21 @@ def test_a_label_that_would_overlap_another_marker_is_left_out():
         layout=dict(xaxis=dict(range=[0, 6]), yaxis=dict(range=[0, 4])),
     )  # fmt: skip
     assert list(chart_style.label_specimens(points).data[0].text) == ["", "", "B"]
+
+
+def test_caption_as_a_dict_is_the_captioned_figures_and_leaves_the_figure_as_it_was(clay):
+    # the image export draws the captioned dict; the HTML and notebooks keep the figure
+    import json
+
+    from plotly.utils import PlotlyJSONEncoder
+
+    for figure in (
+        compaction_chart.compaction_conductivity_figure(clay[1]),
+        conductivity_trend_chart.conductivity_trend_figure(clay[1], "void_ratio"),
+    ):
+        before = json.dumps(figure.to_dict(), cls=PlotlyJSONEncoder, sort_keys=True)
+        captioned = chart_style.captioned_dict(figure, CAUTIONS)
+        assert json.dumps(figure.to_dict(), cls=PlotlyJSONEncoder, sort_keys=True) == before
+        assert isinstance(captioned, dict)
+        assert go.Figure(captioned).to_dict() == captioned  # plotly takes it as it is
+        assert captioned["layout"]["annotations"][-1]["text"].count("<br>") >= len(CAUTIONS) - 1

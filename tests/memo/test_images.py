@@ -69,11 +69,10 @@ def _without_ids(svg: bytes) -> bytes:
 
 
 def _pack_figures():
-    """Two of the clay sample's pack figures as the pack draws them, with a caption: the
+    """Two of the clay sample's pack figures, and a caption to print under them: the
     compaction chart (markers, curves, a legend moved beside the plot) and a test's record
     over time (lines on two axes)."""
     from kitchen import display_units
-    from kitchen.charts import add_caption
     from kitchen.memo import memo_charts
     from kitchen.memo.specimen_pages import report_pages
     from kitchen.workspace import Workspace
@@ -82,19 +81,23 @@ def _pack_figures():
     charts, _ = memo_charts(workspace, workspace.analysis(), "m/s", "Mg/m³")
     pages = report_pages(workspace, workspace.results(), display_units.k_unit("m/s"), "k20")
     caption = ["Caution: a caption line under the chart", "kitchen · series clay_liner"]
-    return [add_caption(charts[0][2], caption), add_caption(pages[0].figure, caption)]
+    return [charts[0][2], pages[0].figure], caption
 
 
 @needs_chromium
 def test_png_and_svg_of_one_drawing_are_kaleidos_own_from_a_fresh_page():
     # the reference is kaleido itself as it ships: a page of its own renderer, reloaded
-    # after every image, drawing each format with Plotly.toImage
+    # after every image, drawing each format with Plotly.toImage, of the captioned figure;
+    # ours are drawn as the pack asks for them, from the captioned figure's dict
     import asyncio
 
     import kaleido
 
-    figures = _pack_figures()
-    requests = [images.request_png_svg(figure) for figure in figures]
+    from kitchen.charts import add_caption, captioned_dict
+
+    drawn, caption = _pack_figures()
+    figures = [add_caption(figure, caption) for figure in drawn]
+    requests = [images.request_png_svg(captioned_dict(figure, caption)) for figure in drawn]
     ours = [tuple(images.image_result(r) for r in pair) for pair in requests]
 
     async def reference():
@@ -408,3 +411,28 @@ def test_the_image_server_thread_imports_nothing(tmp_path):
     said = _in_a_fresh_interpreter(script)
     assert list((tmp_path / "pack" / "charts").glob("*.png"))
     assert said.strip().splitlines()[-1] == "[]"
+
+
+@needs_chromium
+def test_chromium_is_started_without_a_python_wrapper_and_ends_with_the_server():
+    # choreographer starts Chromium from a Python script of its own that waits beside it
+    # (an interpreter started and ended in every run); the images' browser is started by a
+    # shell that hands it the devtools pipe and gives way to Chromium itself
+    import sys
+
+    import choreographer
+
+    wrapper = Path(choreographer.__file__).parent / "browsers" / "_unix_pipe_chromium_wrapper.py"
+    assert wrapper.exists()  # a choreographer without it would leave its command line as is
+    given = [sys.executable, str(wrapper), "/usr/bin/chromium", "--headless"]
+    assert images._launched_directly(given) == [*images._LAUNCHER, *given[2:]]
+    assert images._launched_directly(given[2:]) == given[2:]  # no wrapper (Windows)
+    server = images._ImageServer()
+    try:
+        server.opened.result(120)
+        process = server.renderer.subprocess
+        started = Path(os.readlink(f"/proc/{process.pid}/exe")).name
+        assert "chrom" in started and "python" not in started
+    finally:
+        server.close()
+    assert process.poll() is not None  # the browser has ended, not only its pipe
