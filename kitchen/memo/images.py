@@ -18,7 +18,8 @@ Chromium compiles plotly.js once per machine: the page loads in about 0.3 s inst
 one browser each with a renderer process of its own, draw at once: ``report`` opens them
 all as soon as the browser is open, another caller a second one once more than
 :data:`SECOND_PAGE_BACKLOG` images wait. The browser starts with its hidden window's
-address-bar popups off (:data:`_BROWSER_ARGUMENTS`).
+address-bar popups off (:data:`_BROWSER_ARGUMENTS`), from a shell that hands it the
+devtools pipe and gives way to it (:data:`_LAUNCHER`), with no Python wrapper beside it.
 :func:`request_image` hands a figure to the server and returns at once, so the next figure
 can be prepared while Chromium draws; :func:`figure_image` waits for its image. The first
 image is awaited at most :data:`FIRST_IMAGE_TIMEOUT` seconds, so a Chromium that starts but
