@@ -235,8 +235,10 @@ the browser has, in every run (measured with the command's and the browser's exi
 
 def _launched_directly(arguments: list[str]) -> list[str]:
     """choreographer's command line for Chromium with its Python wrapper script replaced by
-    :data:`_LAUNCHER`; a command line without that script (Windows) is left as it is."""
-    if len(arguments) > 2 and Path(arguments[1]).name == "_unix_pipe_chromium_wrapper.py":
+    :data:`_LAUNCHER`; a command line without that script (Windows), or a system without
+    the shell, is left as it is."""
+    wrapped = len(arguments) > 2 and Path(arguments[1]).name == "_unix_pipe_chromium_wrapper.py"
+    if wrapped and Path(_LAUNCHER[0]).exists():
         return [*_LAUNCHER, *arguments[2:]]
     return list(arguments)
 
