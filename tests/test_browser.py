@@ -378,6 +378,33 @@ def test_series_chart(notebook, lab):
     _screenshot(page, "04_series_chart_void_ratio")
 
 
+def test_series_chart_exports_the_memo_pack_with_its_images(notebook, lab):
+    # the engineer's export from the notebook, images included: drawn by the kernel's own
+    # image server (a browser started from the shell launcher), the progress line naming
+    # the files written, every chart and test page with its PNG at two pixels a layout pixel
+    page = notebook("04_series_chart.ipynb")
+    _plotly_drawn(page, 1)
+    folder = lab["root"] / "notebooks" / "exported_in_the_browser"
+    box = page.locator(".widget-text:has(label:text-is('Memo pack folder')) input")
+    box.fill(str(folder))
+    box.press("Tab")
+    page.locator("button", has_text="Export memo pack").click()
+    page.wait_for_function(
+        "() => [...document.querySelectorAll('.widget-html, .widget-label, p, small')]"
+        ".some(e => /file\\(s\\) written to/.test(e.textContent))",
+        timeout=180_000,
+    )
+    assert not page.locator(".kitchen-problem").count()
+    pngs = sorted(folder.rglob("*.png"))
+    pages = sorted(folder.glob("specimens/*.html")) + sorted(folder.glob("charts/*.html"))
+    assert len(pngs) == len(pages) == len(list(folder.rglob("*.svg"))) > 0
+    for png in pngs:
+        head = png.read_bytes()[:24]
+        assert head[:8] == b"\x89PNG\r\n\x1a\n"
+        assert int.from_bytes(head[16:20], "big") >= 2 * 900  # at least 900 layout pixels
+    page.locator("button", has_text="Export memo pack").scroll_into_view_if_needed()
+    _screenshot(page, "04_series_chart_exported")
+
 def test_revise(notebook, lab):
     page = notebook("05_revise.ipynb")
     assert page.get_by_text("No revisions yet").count() >= 1
