@@ -376,14 +376,10 @@ def test_series_chart(notebook, lab):
     _plotly_drawn(page, 1)
     page.wait_for_timeout(800)
     _screenshot(page, "04_series_chart_void_ratio")
-
-
-def test_series_chart_exports_the_memo_pack_with_its_images(notebook, lab):
-    # the engineer's export from the notebook, images included: drawn by the kernel's own
-    # image server (a browser started from the shell launcher), the progress line naming
-    # the files written, every chart and test page with its PNG at two pixels a layout pixel
-    page = notebook("04_series_chart.ipynb")
-    _plotly_drawn(page, 1)
+    # then the export, images included, as the engineer presses it: drawn by the kernel's
+    # own image server (a browser started from the shell launcher), the progress line
+    # naming the files written, every chart and test page with its PNG at two pixels a
+    # layout pixel and its SVG
     folder = lab["root"] / "notebooks" / "exported_in_the_browser"
     box = page.locator(".widget-text:has(label:text-is('Memo pack folder')) input")
     box.fill(str(folder))
@@ -404,6 +400,7 @@ def test_series_chart_exports_the_memo_pack_with_its_images(notebook, lab):
         assert int.from_bytes(head[16:20], "big") >= 2 * 900  # at least 900 layout pixels
     page.locator("button", has_text="Export memo pack").scroll_into_view_if_needed()
     _screenshot(page, "04_series_chart_exported")
+
 
 def test_revise(notebook, lab):
     page = notebook("05_revise.ipynb")
