@@ -78,11 +78,13 @@ def _within_critical(t: np.ndarray, dof: np.ndarray, probability: float, bounds)
 def _suffix_blocks(columns, n: int, count: int, block: int):
     """Suffix sums of every column in `columns`, block by block from the last reading.
 
-    `columns(a, b)` gives the arrays of readings ``a`` to ``b - 1``. Yields
-    ``(a, b, sums)`` for the blocks inside the first `count` readings, ``sums[j][i]`` being
-    the sum of column j over readings ``a + i`` to the last. The sums run one reading at a
-    time from the last, as ``cumsum`` of the reversed column does, so they are the same
-    numbers to the last bit as one whole-record cumulative sum.
+    `columns(a, b)` gives new arrays (its own, summed in place) of readings ``b - 1`` down
+    to ``a``: last reading first. Yields ``(a, b, sums)`` for the blocks inside the first
+    `count` readings, ``sums[j][i]`` being the sum of column j over readings ``a + i`` to
+    the last. The sums run one reading at a time from the last, as ``cumsum`` of the
+    reversed column does, so they are the same numbers to the last bit as one
+    whole-record cumulative sum; the columns come reversed, so no reversed copy of each is
+    made.
     """
     carry = None
     stop = n
@@ -92,8 +94,7 @@ def _suffix_blocks(columns, n: int, count: int, block: int):
             start = max(start, count)
         parts = columns(start, stop)
         sums = []
-        for j, values in enumerate(parts):
-            reverse = values[::-1].copy()
+        for j, reverse in enumerate(parts):
             if carry is not None:
                 reverse[0] += carry[j]
             np.cumsum(reverse, out=reverse)
@@ -170,9 +171,10 @@ def window_trends(
     slope = np.empty(count)
     trend_ok = np.empty(count, dtype=bool)
 
-    def columns(a: int, b: int):
-        u = (x[a:b] - x_last) / span
-        v = y[a:b] - y_last
+    def columns(a: int, b: int):  # last reading first (see _suffix_blocks)
+        backwards = slice(b - 1, a - 1 if a > 0 else None, -1)
+        u = (x[backwards] - x_last) / span
+        v = y[backwards] - y_last
         u2 = u * u
         return u, u2, u2 * u, u2 * u2, v, u * v, u2 * v, v * v
 
