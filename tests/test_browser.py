@@ -306,6 +306,25 @@ def _wait_drawn(page, figures: int) -> None:
     )
 
 
+def _fill_and_press(page, typed: dict, button: str) -> None:
+    """Type each value in the text box of that label, leave the last box, press `button`."""
+    for label, value in typed.items():
+        box = page.locator(f".widget-text:has(label:text-is('{label}')) input")
+        box.fill(value)
+    box.press("Tab")
+    page.locator("button", has_text=button).click()
+
+
+def _wait_for_text(page, selector: str, pattern: str, timeout: int) -> None:
+    """Wait until an element of `selector` holds text matching the regular expression."""
+    page.wait_for_function(
+        "([selector, pattern]) => [...document.querySelectorAll(selector)]"
+        ".some(e => new RegExp(pattern).test(e.textContent))",
+        arg=[selector, pattern],
+        timeout=timeout,
+    )
+
+
 def _screenshot(page, name: str) -> None:
     page.wait_for_timeout(500)  # let plotly finish its transitions
     page.screenshot(path=str(ARTIFACTS / f"{name}.png"))
@@ -381,15 +400,9 @@ def test_series_chart(notebook, lab):
     # naming the files written, every chart and test page with its PNG at two pixels a
     # layout pixel and its SVG
     folder = lab["root"] / "notebooks" / "exported_in_the_browser"
-    box = page.locator(".widget-text:has(label:text-is('Memo pack folder')) input")
-    box.fill(str(folder))
-    box.press("Tab")
-    page.locator("button", has_text="Export memo pack").click()
-    page.wait_for_function(
-        "() => [...document.querySelectorAll('.widget-html, .widget-label, p, small')]"
-        ".some(e => /file\\(s\\) written to/.test(e.textContent))",
-        timeout=180_000,
-    )
+    _fill_and_press(page, {"Memo pack folder": str(folder)}, "Export memo pack")
+    written = r"file\(s\) written to"
+    _wait_for_text(page, ".widget-html, .widget-label, p, small", written, 180_000)
     assert not page.locator(".kitchen-problem").count()
     pngs = sorted(folder.rglob("*.png"))
     pages = sorted(folder.glob("specimens/*.html")) + sorted(folder.glob("charts/*.html"))
@@ -406,17 +419,9 @@ def test_revise(notebook, lab):
     page = notebook("05_revise.ipynb")
     assert page.get_by_text("No revisions yet").count() >= 1
     _plotly_drawn(page, 2)  # the specimen's chart and the series chart, before any revision
-    value = page.locator(".widget-text:has(label:text-is('New value')) input")
-    reason = page.locator(".widget-text:has(label:text-is('Reason')) input")
-    value.fill("4.8 in")
-    reason.fill("re-measured after test")
-    reason.press("Tab")
-    page.locator("button", has_text="Record revision").click()
-    page.wait_for_function(
-        "() => [...document.querySelectorAll('p')].some(p => /Revision [0-9a-f]{8} "
-        "recorded/.test(p.textContent))",
-        timeout=90_000,
-    )
+    typed = {"New value": "4.8 in", "Reason": "re-measured after test"}
+    _fill_and_press(page, typed, "Record revision")
+    _wait_for_text(page, "p", r"Revision [0-9a-f]{8} recorded", 90_000)
     assert not page.locator(".kitchen-problem").count()
     assert "QF-01" in page.locator(".kitchen-table").first.inner_text()
     # the copy was revised, never the sample data in the served folder

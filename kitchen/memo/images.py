@@ -277,10 +277,10 @@ def _renderer_class():
 
             def ours() -> list[str]:
                 kept = _launched_directly(arguments())
-                if profile is None:  # kaleido's temporary profile
-                    return [*kept, *_BROWSER_ARGUMENTS]
-                kept = [a for a in kept if not a.startswith("--user-data-dir=")]
-                return [*kept, f"--user-data-dir={profile}", *_BROWSER_ARGUMENTS]
+                if profile is not None:  # else kaleido's temporary profile
+                    kept = [a for a in kept if not a.startswith("--user-data-dir=")]
+                    kept.append(f"--user-data-dir={profile}")
+                return [*kept, *_BROWSER_ARGUMENTS]
 
             browser.get_cli = ours
             await super(kaleido.Kaleido, self).open()  # the browser's own opening

@@ -246,10 +246,9 @@ class TrapezoidArea:
         n = values.size
         marks = np.empty((n - 1) // every + 1)  # the area at readings 0, every, 2·every, ...
         marks[0] = 0.0
-        for block, start in enumerate(range(0, n - 1, every)):
-            stop = min(start + every, n - 1)
-            if block + 1 < marks.size:
-                marks[block + 1] = self._sums(marks[block], start, stop)[-1]
+        for block in range(marks.size - 1):  # each mark from the one before
+            start = block * every
+            marks[block + 1] = self._sums(marks[block], start, start + every)[-1]
         self._marks = marks
 
     def _sums(self, carry: float, start: int, stop: int) -> np.ndarray:

@@ -164,14 +164,19 @@ def test_a_machine_without_chromium_starts_nothing_first_and_the_command_says_wh
         images.start_image_export()
 
 
-@needs_chromium
-def test_a_long_backlog_opens_a_second_page_and_its_images_are_the_same(monkeypatch):
+def _server_and_a_line():
+    """The process's image server, a small line chart, and its PNG and SVG drawn alone."""
     import plotly.graph_objects as go
 
     images.start_image_export()
-    server = images._image_server["server"]
     line = go.Figure(go.Scatter(x=[1, 2, 3], y=[3, 1, 2]))
-    first = [images.image_result(r) for r in images.request_png_svg(line)]
+    drawn = [images.image_result(r) for r in images.request_png_svg(line)]
+    return images._image_server["server"], line, drawn
+
+
+@needs_chromium
+def test_a_long_backlog_opens_a_second_page_and_its_images_are_the_same(monkeypatch):
+    server, line, first = _server_and_a_line()
     monkeypatch.setattr(images, "SECOND_PAGE_BACKLOG", 2)
     pending = [images.request_png_svg(line) for _ in range(6)]
     later = [[images.image_result(r) for r in pair] for pair in pending]
@@ -186,12 +191,7 @@ def test_two_drawings_go_on_in_a_page_at_once_and_none_while_kaleido_draws(monke
     # a page lays out one figure while the last is painted and encoded; kaleido's own
     # drawings (figures with WebGL traces, and figure_image) have the first page to
     # themselves, since kaleido may reload it
-    import plotly.graph_objects as go
-
-    images.start_image_export()
-    server = images._image_server["server"]
-    line = go.Figure(go.Scatter(x=[1, 2, 3], y=[3, 1, 2]))
-    alone = [images.image_result(r) for r in images.request_png_svg(line)]
+    server, line, alone = _server_and_a_line()
     in_page: dict = {}
     most: dict = {}
     overlapped = []
