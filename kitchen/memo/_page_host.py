@@ -188,11 +188,12 @@ class PageHost:
         self.server.server_close()
 
 
-def cache_folder() -> Path:
-    """Where the browser profiles are kept: ``$XDG_CACHE_HOME/kitchen/chromium``, or
-    ``~/.cache/kitchen/chromium`` (XDG Base Directory Specification 0.8)."""
+def cache_folder(browser: str = "chromium") -> Path:
+    """Where the profiles of `browser` (a name of its kind, ``chromium`` or
+    ``chromium-headless-shell``) are kept: ``$XDG_CACHE_HOME/kitchen/<browser>``, or
+    ``~/.cache/kitchen/<browser>`` (XDG Base Directory Specification 0.8)."""
     root = os.environ.get("XDG_CACHE_HOME") or str(Path.home() / ".cache")
-    return Path(root) / "kitchen" / "chromium"
+    return Path(root) / "kitchen" / browser
 
 
 class ProfileClaim:
@@ -208,15 +209,16 @@ class ProfileClaim:
             self._lock = -1
 
 
-def claim_profile() -> ProfileClaim | None:
-    """The first profile no other run holds, locked; None when none can be had.
+def claim_profile(browser: str = "chromium") -> ProfileClaim | None:
+    """The first profile of `browser` (:func:`cache_folder`) no other run holds, locked;
+    None when none can be had.
 
     Each profile ``profile-N`` has a lock file ``profile-N.lock`` beside it, locked with
     ``flock`` while a browser uses it: the lock goes with the process, so a run that was
     killed leaves none behind. None when the cache folder cannot be made or written, or
     when all :data:`PROFILE_SLOTS` are held by runs going on at the same time.
     """
-    folder = cache_folder()
+    folder = cache_folder(browser)
     try:
         folder.mkdir(parents=True, exist_ok=True)
     except OSError:

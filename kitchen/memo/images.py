@@ -61,8 +61,8 @@ PNG_SCALE = 2
 
 _CHROMIUM_HELP = (
     "static chart export (PNG, SVG) needs Chromium and found none: install Debian's "
-    "chromium package (apt-get install chromium), or set BROWSER_PATH to a Chromium or "
-    "Chrome executable"
+    "chromium-headless-shell or chromium package (apt-get install chromium-headless-shell), "
+    "or set BROWSER_PATH to a Chromium or Chrome executable"
 )
 
 PAGES = 2
@@ -202,13 +202,46 @@ class ImageExportUnavailable(RuntimeError):
     """Static images cannot be made on this machine (no Chromium for kaleido)."""
 
 
+_HEADLESS_SHELLS = (
+    "/usr/lib/chromium/chromium-headless-shell",
+    "chromium-headless-shell",
+    "chrome-headless-shell",
+)
+"""Chromium's headless shell, looked for before the whole browser (Debian's package
+``chromium-headless-shell`` puts its executable at the first path, and a wrapper script
+under the second name on the PATH): the shell is Chromium's page engine without the
+browser's windows, tabs strip and address bar, which its headless mode still builds and
+hides. The same pages draw the same images in it, and the command starts and ends sooner:
+the clay sample's pack with images took 4.07 s against 4.46 s (medians of seven rounds in
+turn, on a two-core machine), the browser process 0.29 s of a core against 0.74 s."""
+
+
 def _browser_path() -> str | None:
+    """The browser that draws the images: ``BROWSER_PATH`` when it is set, else a headless
+    shell (:data:`_HEADLESS_SHELLS`), else the Chromium or Chrome choreographer finds."""
+    import os
+    import shutil
+
     from choreographer.browsers.chromium import Chromium
 
+    if os.environ.get("BROWSER_PATH"):
+        return os.environ["BROWSER_PATH"]
+    for name in _HEADLESS_SHELLS:
+        found = shutil.which(name)
+        if found is not None:
+            return found
     try:
         return Chromium.find_browser(skip_local=False)
     except (RuntimeError, ValueError, OSError):
         return None
+
+
+def browser_kind(path: str) -> str:
+    """``chromium-headless-shell`` for a headless shell, else ``chromium``: the browsers
+    keep profiles of their own (:func:`._page_host.claim_profile`): Chromium did not take
+    the compiled plotly.js the shell had left in a profile, and compiled it again (its
+    page open 1.78 s after the start against 1.06 s in a profile of its own)."""
+    return "chromium-headless-shell" if "headless-shell" in Path(path).name else "chromium"
 
 
 _BROWSER_ARGUMENTS = (
@@ -265,8 +298,8 @@ def _renderer_class():
         browser are opened with :meth:`new_page`.
         """
 
-        def __init__(self, host, profile: Path | None) -> None:
-            super().__init__(mathjax=False, n=1, proxy_server=host.proxy)
+        def __init__(self, host, profile: Path | None, path: str | None = None) -> None:
+            super().__init__(mathjax=False, n=1, proxy_server=host.proxy, path=path)
             self._page_url, self._profile = host.index_url, profile
 
         async def open(self) -> None:
@@ -340,12 +373,14 @@ class _ImageServer:
     all of that page's slots held (:meth:`_image`): kaleido may reload it first.
     """
 
-    def __init__(self, pages: int = 1) -> None:
+    def __init__(self, pages: int = 1, path: str | None = None) -> None:
         # what the loop's thread needs is imported here, on the caller's thread: two
         # threads importing at once can each wait on a module the other holds
         from . import _page_host
 
-        self.claim_profile = _page_host.claim_profile
+        self.path = path or _browser_path()  # the browser (None: kaleido's own choice)
+        kind = browser_kind(self.path or "chromium")
+        self.claim_profile = lambda: _page_host.claim_profile(kind)
         self.renderer_class = _renderer_class()
         self.host = _page_host.PageHost()
         self.loop = asyncio.new_event_loop()
@@ -383,7 +418,9 @@ class _ImageServer:
         A profile Chromium will not open (one a browser left behind by a killed run still
         holds, or one a newer Chromium wrote) is given up for a temporary one.
         """
-        renderer = self.renderer_class(self.host, None if claim is None else claim.path)
+        renderer = self.renderer_class(
+            self.host, None if claim is None else claim.path, self.path
+        )
         self.renderer = renderer  # closed at the end even when half open
         try:
             await renderer.open()
@@ -522,7 +559,7 @@ def start_image_export(pages: int = 1) -> None:
     path = _browser_path()
     if path is None or not Path(path).exists():
         raise ImageExportUnavailable(_CHROMIUM_HELP)
-    server = _ImageServer(pages)
+    server = _ImageServer(pages, path)
     atexit.register(server.close)
     _image_server.update(started=True, server=server)
 

@@ -27,7 +27,7 @@ def test_command_line_without_chromium_names_what_to_install(tmp_path, monkeypat
     monkeypatch.setitem(images._image_server, "started", False)
     done = run_cli("report", SAMPLES / "drainage_sand", "--out", tmp_path / "out")
     assert done.returncode == 3
-    assert "apt-get install chromium" in done.stderr and "--no-images" in done.stderr
+    assert "apt-get install chromium-headless-shell" in done.stderr and "--no-images" in done.stderr
     assert "Traceback" not in done.stderr
     assert not (tmp_path / "out").exists()  # refused before writing anything
 
@@ -160,7 +160,7 @@ def test_a_machine_without_chromium_starts_nothing_first_and_the_command_says_wh
     monkeypatch.setitem(images._image_server, "started", False)
     images.start_for_command(["report", "series", "--out", "pack"])  # says nothing
     assert images._image_server["started"] is False
-    with pytest.raises(images.ImageExportUnavailable, match="apt-get install chromium"):
+    with pytest.raises(images.ImageExportUnavailable, match="apt-get install chromium-headless-shell"):
         images.start_image_export()
 
 
@@ -328,8 +328,9 @@ def test_a_profile_chromium_will_not_open_gives_way_to_a_temporary_one(tmp_path,
     # the profile it gave up is free again for the next run
     from kitchen.memo._page_host import claim_profile
 
-    claim = claim_profile()
-    assert claim.path == tmp_path / "kitchen" / "chromium" / "profile-0"
+    kind = images.browser_kind(server.path)
+    claim = claim_profile(kind)
+    assert claim.path == tmp_path / "kitchen" / kind / "profile-0"
     claim.release()
 
 
@@ -369,7 +370,7 @@ def test_two_reports_at_once_both_draw_and_a_later_one_loads_plotly_from_the_cac
     for run in runs:
         _, said = run.communicate(timeout=300)
         assert run.returncode == 0, said
-    profiles = tmp_path / "cache" / "kitchen" / "chromium"
+    profiles = tmp_path / "cache" / "kitchen" / images.browser_kind(images._browser_path())
     assert sorted(p.name for p in profiles.iterdir() if p.is_dir()) == ["profile-0", "profile-1"]
     for n in (1, 2):
         pngs = list((tmp_path / f"pack-{n}" / "charts").glob("*.png"))
@@ -436,3 +437,33 @@ def test_chromium_is_started_without_a_python_wrapper_and_ends_with_the_server()
     finally:
         server.close()
     assert process.poll() is not None  # the browser has ended, not only its pipe
+
+
+def test_the_headless_shell_is_chosen_before_the_whole_browser_and_browser_path_before_both(
+    tmp_path, monkeypatch
+):
+    # Chromium's headless shell draws the same pages without the browser's hidden windows;
+    # a browser named in BROWSER_PATH (choreographer's own variable) is taken as it is
+    import shutil
+
+    shell = tmp_path / "chromium-headless-shell"
+    shell.write_text("#!/bin/sh\n")
+    shell.chmod(0o755)
+    monkeypatch.delenv("BROWSER_PATH", raising=False)
+    real_which = shutil.which
+    monkeypatch.setattr(
+        shutil,
+        "which",
+        lambda name, *a, **k: str(shell) if name == "chromium-headless-shell" else None,
+    )
+    assert images._browser_path() == str(shell)
+    assert images.browser_kind(str(shell)) == "chromium-headless-shell"
+    assert images.browser_kind("/usr/bin/chromium") == "chromium"
+    monkeypatch.setenv("BROWSER_PATH", "/opt/some/chrome")
+    assert images._browser_path() == "/opt/some/chrome"
+    monkeypatch.setattr(shutil, "which", real_which)
+    monkeypatch.delenv("BROWSER_PATH")
+    from choreographer.browsers.chromium import Chromium
+
+    monkeypatch.setattr(images, "_HEADLESS_SHELLS", ())
+    assert images._browser_path() == Chromium.find_browser(skip_local=False)
