@@ -493,5 +493,5 @@ def test_the_warnings_filters_are_put_back_after_the_series_is_parsed_ahead():
             worker.join()
             outer.insert(0, ("ignore", None, Warning, None, 0))  # the list it puts back, too
         assert warnings.filters == before
-        warnings.warn("a torn last row", UserWarning)
+        warnings.warn("a torn last row", UserWarning, stacklevel=1)
     assert [str(w.message) for w in caught] == ["a torn last row"]
