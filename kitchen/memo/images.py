@@ -418,9 +418,7 @@ class _ImageServer:
         A profile Chromium will not open (one a browser left behind by a killed run still
         holds, or one a newer Chromium wrote) is given up for a temporary one.
         """
-        renderer = self.renderer_class(
-            self.host, None if claim is None else claim.path, self.path
-        )
+        renderer = self.renderer_class(self.host, None if claim is None else claim.path, self.path)
         self.renderer = renderer  # closed at the end even when half open
         try:
             await renderer.open()

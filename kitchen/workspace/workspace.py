@@ -782,4 +782,3 @@ class Workspace:
         if own is None:
             return None, "none given"
         return own, f"from the series' project table ({self._project['criterion'].where})"
-

@@ -160,7 +160,9 @@ def test_a_machine_without_chromium_starts_nothing_first_and_the_command_says_wh
     monkeypatch.setitem(images._image_server, "started", False)
     images.start_for_command(["report", "series", "--out", "pack"])  # says nothing
     assert images._image_server["started"] is False
-    with pytest.raises(images.ImageExportUnavailable, match="apt-get install chromium-headless-shell"):
+    with pytest.raises(
+        images.ImageExportUnavailable, match="apt-get install chromium-headless-shell"
+    ):
         images.start_image_export()
 
 
