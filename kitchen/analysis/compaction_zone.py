@@ -16,7 +16,6 @@ from dataclasses import dataclass
 
 import numpy as np
 import pandas as pd
-from scipy.spatial import ConvexHull, QhullError
 
 from ._checks import element_place, finite_numbers, like_inputs, require_same_length, shown_value
 
@@ -152,6 +151,8 @@ def _hull_of(points: np.ndarray) -> tuple[str, np.ndarray]:
     centred = points - points.mean(axis=0)
     _, singular, directions = np.linalg.svd(centred, full_matrices=False)
     if singular[1] > 1e-9 * singular[0]:
+        from scipy.spatial import ConvexHull, QhullError  # here: scipy's modules load slowly
+
         try:
             return "polygon", points[ConvexHull(points).vertices]
         except QhullError:

@@ -20,8 +20,8 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 import pandas as pd
-from scipy import optimize, stats
-from scipy.spatial import ConvexHull, QhullError
+
+from kitchen.fits import student_t_quantile
 
 from ._checks import (
     checked_confidence,
@@ -380,6 +380,8 @@ def _area(corners: np.ndarray) -> float:
 
 def _hull_corners(points: np.ndarray) -> np.ndarray:
     """Counterclockwise corners of the convex hull of `points`; (0, 2) when they span no area."""
+    from scipy.spatial import ConvexHull, QhullError  # here: scipy's modules load slowly
+
     try:
         hull = ConvexHull(points)
     except (QhullError, ValueError):
@@ -426,6 +428,8 @@ def _trace_region(zone: FittedZone, corners: np.ndarray, level: int):
     """(corners of the zone of effort `level` within the polygon `corners`, points of its
     boundary where the bound equals the criterion), on the scaled plane; both empty when
     there is no zone."""
+    from scipy import optimize  # here: scipy's modules load slowly
+
     nothing = np.empty((0, 2)), np.empty((0, 2))
 
     def excess(z):
@@ -635,7 +639,7 @@ def fit_zone(
     s = float(np.sqrt(residuals @ residuals / dof))
     total = float(((y - y.mean()) ** 2).sum())
     r_squared = 1.0 - float(residuals @ residuals) / total if total > 0 else 1.0
-    t = float(stats.t.ppf(0.5 + confidence / 2.0, dof))
+    t = student_t_quantile(confidence, dof)
     half = t * s * np.sqrt(np.diag(inverse))
     per_unit = np.ones(p)
     per_unit[1:3] = 1.0 / np.asarray(spread)

@@ -15,9 +15,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-from scipy import stats
 
-from kitchen.fits import LinearFit, fit_line
+from kitchen.fits import LinearFit, fit_line, student_t_quantile
 
 from ._checks import (
     checked_confidence,
@@ -285,7 +284,7 @@ def geometric_mean_conductivity(k, confidence=0.95) -> GeometricMean:
             f"k: a geometric mean with a spread needs at least 2 values; got {log_k.size}"
         )
     mean, sd = float(log_k.mean()), float(log_k.std(ddof=1))
-    half = stats.t.ppf(0.5 + level / 2, log_k.size - 1) * sd / np.sqrt(log_k.size)
+    half = student_t_quantile(level, log_k.size - 1) * sd / np.sqrt(log_k.size)
     return GeometricMean(
         geometric_mean=10.0**mean,
         low=10.0 ** (mean - half),

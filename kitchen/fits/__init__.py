@@ -54,6 +54,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
         "fit_line": "line",
         "fit_through_origin": "line",
         "WindowedLineFit": "windowed",
+        "student_t_quantile": "_common",
     },
 )
 
@@ -69,5 +70,6 @@ __all__ = [
     "runs_test",
     "RunsTest",
     "sign_runs_test",
+    "student_t_quantile",
     "WindowedLineFit",
 ]

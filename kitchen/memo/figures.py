@@ -49,7 +49,8 @@ def memo_charts(
         Display units of the charts.
     on_chart : callable, optional
         Called as ``on_chart(name, figure)`` as soon as each chart is drawn, before the
-        next is begun (the memo pack asks for its images there).
+        next is begun (the memo pack asks for its images there): the specimen charts
+        first, then the series charts.
 
     Returns
     -------
@@ -60,9 +61,12 @@ def memo_charts(
     """
     from kitchen import charts
 
-    built, skipped = [], []
+    # the specimen charts are drawn first: they need no more than the reductions, so a
+    # caller asking for images in `on_chart` has them drawn while the series charts are
+    # built; the series charts are listed first all the same
+    series_built, specimen_built, series_skipped, specimen_skipped = [], [], [], []
 
-    def add(name: str, title: str, figure) -> None:
+    def add(built: list, name: str, title: str, figure) -> None:
         built.append((name, title, figure))
         if on_chart is not None:
             on_chart(name, figure)
@@ -95,13 +99,6 @@ def memo_charts(
             ),
         ),
     )
-    for name, title, build in series_charts:
-        try:
-            figure = charts.label_specimens(build())
-        except ValueError as error:
-            skipped.append(f"{title}: not drawn ({error})")
-        else:
-            add(name, title, figure)
     reference = workspace.settings.reference_temperature
     taken: set = set()
     for table, method, figure_of in (
@@ -130,7 +127,14 @@ def memo_charts(
             try:
                 figure = figure_of(specimen)
             except (ValueError, KeyError) as error:
-                skipped.append(f"specimen {specimen}, {method}: not drawn ({error})")
+                specimen_skipped.append(f"specimen {specimen}, {method}: not drawn ({error})")
                 continue
-            add(name, f"Specimen {specimen}: {method}", figure)
-    return built, skipped
+            add(specimen_built, name, f"Specimen {specimen}: {method}", figure)
+    for name, title, build in series_charts:
+        try:
+            figure = charts.label_specimens(build())
+        except ValueError as error:
+            series_skipped.append(f"{title}: not drawn ({error})")
+        else:
+            add(series_built, name, title, figure)
+    return series_built + specimen_built, series_skipped + specimen_skipped

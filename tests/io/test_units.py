@@ -1,5 +1,8 @@
 """Bracketed units in headers, parsed with pint."""
 
+import os
+from pathlib import Path
+
 import pytest
 
 from kitchen.io import UnitError, parse_value, split_header, to_si
@@ -156,3 +159,41 @@ def test_the_cached_registry_converts_as_a_freshly_parsed_one():
     assert cached.Quantity(20.0, "degF").to("degC").magnitude == pytest.approx(
         fresh.Quantity(20.0, "degF").to("degC").magnitude, rel=1e-15
     )
+
+
+def test_a_deleted_environment_leaves_no_parsed_definitions_that_another_reads(tmp_path):
+    # pint's own cache folder keys its parsed definitions by content alone, and they name
+    # the path of the file they import next: a deleted environment left them pointing at
+    # nothing for every other one with the same pint. The registry keeps them in a folder
+    # of its own for each pint installation (the foot: 0.3048 m exactly, NIST SP 811 B.8)
+    import shutil
+    import subprocess
+    import sys
+
+    import pint
+
+    script = (
+        "import pint\n"
+        "from pathlib import Path\n"
+        "from kitchen.io.units import _registry, pint_cache_folder\n"
+        "assert abs(_registry()('ft').to_base_units().magnitude - 0.3048) < 1e-15\n"
+        "print(pint_cache_folder(Path(pint.__file__).parent))\n"
+    )
+    environment = {**os.environ, "XDG_CACHE_HOME": str(tmp_path / "cache")}
+    folders = []
+    for name in ("first", "second"):
+        site = tmp_path / name
+        shutil.copytree(Path(pint.__file__).parent, site / "pint")
+        done = subprocess.run(
+            [sys.executable, "-c", script],
+            capture_output=True,
+            text=True,
+            timeout=120,
+            env={**environment, "PYTHONPATH": str(site)},
+        )
+        assert done.returncode == 0, done.stderr
+        folders.append(Path(done.stdout.strip()))
+        assert list(folders[-1].glob("*.pickle"))  # parsed once, kept for the next process
+        shutil.rmtree(site)  # the environment is deleted
+    assert folders[0] != folders[1]
+    assert folders[0].parent == folders[1].parent == tmp_path / "cache" / "kitchen" / "pint"
