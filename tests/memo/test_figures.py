@@ -47,3 +47,27 @@ def test_specimen_charts_use_the_windows_and_rises_of_the_results(tmp_path):
     report = (tmp_path / "report.html").read_text()
     assert "QF-01: 4.0 mm" in report and "QF-03: readings 5-30" in report
     assert len(pack) > 0
+
+
+def test_specimen_charts_are_handed_on_first_and_listed_after_the_series_charts():
+    # the memo pack asks for each chart's images as it is drawn: the specimen charts need
+    # no more than the reductions, so they go first, while the series charts are built;
+    # the memo lists the series charts first all the same (common practice, no source)
+    from kitchen.memo import memo_charts
+
+    workspace = Workspace(SAMPLES / "clay_liner")
+    handed = []
+    built, skipped = memo_charts(
+        workspace, workspace.analysis(), on_chart=lambda name, figure: handed.append(name)
+    )
+    names = [name for name, _, _ in built]
+    series = [name for name in names if not name.startswith("specimen_")]
+    specimens = [name for name in names if name.startswith("specimen_")]
+    assert series == [
+        "compaction_conductivity",
+        "conductivity_void_ratio",
+        "conductivity_dry_density",
+        "conductivity_water_content",
+    ]
+    assert len(specimens) == len(workspace.specimen_ids()) and skipped == []
+    assert names == series + specimens and handed == specimens + series
