@@ -39,6 +39,7 @@ import asyncio
 import atexit
 import itertools
 import json
+import os
 import threading
 from concurrent.futures import Future
 from concurrent.futures import TimeoutError as FutureTimeout
@@ -219,10 +220,7 @@ turn, on a two-core machine), the browser process 0.29 s of a core against 0.74 
 def _browser_path() -> str | None:
     """The browser that draws the images: ``BROWSER_PATH`` when it is set, else a headless
     shell (:data:`_HEADLESS_SHELLS`), else the Chromium or Chrome choreographer finds."""
-    import os
     import shutil
-
-    from choreographer.browsers.chromium import Chromium
 
     if os.environ.get("BROWSER_PATH"):
         return os.environ["BROWSER_PATH"]
@@ -230,6 +228,13 @@ def _browser_path() -> str | None:
         found = shutil.which(name)
         if found is not None:
             return found
+    return _whole_browser_path()
+
+
+def _whole_browser_path() -> str | None:
+    """The Chromium or Chrome choreographer finds (kaleido's own choice), or None."""
+    from choreographer.browsers.chromium import Chromium
+
     try:
         return Chromium.find_browser(skip_local=False)
     except (RuntimeError, ValueError, OSError):
@@ -379,8 +384,13 @@ class _ImageServer:
         from . import _page_host
 
         self.path = path or _browser_path()  # the browser (None: kaleido's own choice)
-        kind = browser_kind(self.path or "chromium")
-        self.claim_profile = lambda: _page_host.claim_profile(kind)
+        # a headless shell chosen here, not named by the caller or BROWSER_PATH
+        self.shell_chosen = (
+            path is None
+            and not os.environ.get("BROWSER_PATH")
+            and browser_kind(self.path or "") == "chromium-headless-shell"
+        )
+        self.claim_profile = _page_host.claim_profile
         self.renderer_class = _renderer_class()
         self.host = _page_host.PageHost()
         self.loop = asyncio.new_event_loop()
@@ -404,13 +414,35 @@ class _ImageServer:
     async def _open_first(self, pages: int) -> None:
         self.slots, self.kaleido_turn = asyncio.Queue(), asyncio.Lock()
         self.opening = 1
-        self.claim = self.claim_profile()
-        self.renderer = await self._open_renderer(self.claim)
+        self.renderer = await self._open_browser()
         page = await self.renderer.tabs_ready.get()  # kaleido's page, left in its queue
         self.renderer.tabs_ready.put_nowait(page)
         self._add_page(page)
         for _ in range(pages - 1):  # opened at once, without waiting for a backlog
             self._open_another()
+
+    async def _open_browser(self):
+        """The browser, opened with a kept profile of its kind when one can be had.
+
+        A headless shell this server chose (:func:`_browser_path`) that will not open (a
+        package half installed, a library missing) gives way to the whole browser, which
+        draws the same images a little later; a browser named by the caller or by
+        ``BROWSER_PATH`` is not replaced.
+        """
+        self.claim = self.claim_profile(browser_kind(self.path or "chromium"))
+        try:
+            return await self._open_renderer(self.claim)
+        except Exception:
+            whole = _whole_browser_path() if self.shell_chosen else None
+            if whole is None:
+                raise
+        if self.renderer is not None:
+            await asyncio.gather(self.renderer.close(), return_exceptions=True)
+        if self.claim is not None:
+            self.claim.release()
+        self.path, self.shell_chosen = whole, False
+        self.claim = self.claim_profile(browser_kind(whole))
+        return await self._open_renderer(self.claim)
 
     async def _open_renderer(self, claim):
         """A renderer whose page is loaded, with the claimed profile when there is one.

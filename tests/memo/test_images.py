@@ -469,3 +469,37 @@ def test_the_headless_shell_is_chosen_before_the_whole_browser_and_browser_path_
 
     monkeypatch.setattr(images, "_HEADLESS_SHELLS", ())
     assert images._browser_path() == Chromium.find_browser(skip_local=False)
+
+
+@needs_chromium
+def test_a_headless_shell_that_will_not_open_gives_way_to_the_whole_browser(
+    tmp_path, monkeypatch
+):
+    # a shell package half installed must not cost the images: the whole browser draws
+    # them; a browser named in BROWSER_PATH is never replaced (common practice, no source)
+    broken = tmp_path / "chromium-headless-shell"
+    broken.write_text("#!/bin/sh\necho 'a library is missing' >&2\nexit 127\n")
+    broken.chmod(0o755)
+    monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path / "cache"))
+    monkeypatch.delenv("BROWSER_PATH", raising=False)
+    monkeypatch.setattr(images, "_HEADLESS_SHELLS", (str(broken),))
+    server = images._ImageServer()
+    try:
+        server.opened.result(120)
+        assert images.browser_kind(server.path) == "chromium" and server.path != str(broken)
+        png, svg = server.request_both('{"data": [{"type": "bar", "y": [1, 2]}]}', 300, 200).result(
+            120
+        )
+        assert png[:8] == b"\x89PNG\r\n\x1a\n" and svg.startswith(b"<svg")
+    finally:
+        server.close()
+    assert (tmp_path / "cache" / "kitchen" / "chromium" / "profile-0").is_dir()
+
+    monkeypatch.setenv("BROWSER_PATH", str(broken))
+    named = images._ImageServer()
+    try:
+        with pytest.raises(RuntimeError):
+            named.opened.result(120)
+        assert named.path == str(broken)
+    finally:
+        named.close()
