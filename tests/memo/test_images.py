@@ -472,9 +472,7 @@ def test_the_headless_shell_is_chosen_before_the_whole_browser_and_browser_path_
 
 
 @needs_chromium
-def test_a_headless_shell_that_will_not_open_gives_way_to_the_whole_browser(
-    tmp_path, monkeypatch
-):
+def test_a_headless_shell_that_will_not_open_gives_way_to_the_whole_browser(tmp_path, monkeypatch):
     # a shell package half installed must not cost the images: the whole browser draws
     # them; a browser named in BROWSER_PATH is never replaced (common practice, no source)
     broken = tmp_path / "chromium-headless-shell"
