@@ -495,3 +495,30 @@ def test_the_warnings_filters_are_put_back_after_the_series_is_parsed_ahead():
         assert warnings.filters == before
         warnings.warn("a torn last row", UserWarning, stacklevel=1)
     assert [str(w.message) for w in caught] == ["a torn last row"]
+
+
+def test_the_command_line_turns_numpys_huge_page_advice_off_unless_told_otherwise():
+    # numpy reads NUMPY_MADVISE_HUGEPAGE once, when imported (numpy reference, "Global
+    # state"); `python -m kitchen` sets it before the package imports numpy, and leaves a
+    # value the user set as it is
+    import os
+
+    script = (
+        "import runpy, sys\n"
+        "sys.argv = ['kitchen', '--help']\n"
+        "try:\n"
+        "    runpy.run_module('kitchen', run_name='__main__')\n"
+        "except SystemExit:\n"
+        "    pass\n"
+        "from numpy._core import multiarray\n"
+        "print(multiarray._get_madvise_hugepage())\n"
+    )
+    for given, expected in ((None, "False"), ("1", "True")):
+        environment = {k: v for k, v in os.environ.items() if k != "NUMPY_MADVISE_HUGEPAGE"}
+        if given is not None:
+            environment["NUMPY_MADVISE_HUGEPAGE"] = given
+        done = subprocess.run(
+            [sys.executable, "-c", script], capture_output=True, text=True, env=environment
+        )
+        assert done.returncode == 0, done.stderr
+        assert done.stdout.strip().splitlines()[-1] == expected
