@@ -11,14 +11,16 @@ the browser opens while the imports, the reading and the reduction run
 numpy's advice that the system back each large array with huge pages
 (``madvise(MADV_HUGEPAGE)`` on arrays of 4 MB and more) is turned off before numpy is
 imported, unless ``NUMPY_MADVISE_HUGEPAGE`` is already set (numpy's documented switch,
-read when numpy is imported; numpy reference, "Global state"). Where the kernel backs
-such advice by compacting memory when a fault finds no free huge page (Linux's
-``transparent_hugepage/defrag`` set to ``madvise``, the default), a machine whose memory
-has been up and in use a while pays for it on every fresh array: on the 2-core VM of the
-README, a ``report`` on 10⁷ readings took 6.5-9.1 s with 3.5-5.8 s of it in the kernel,
-and 3.9-4.0 s (0.9-1.0 s in the kernel) without the advice, at a peak of 0.80-0.86 GB
-either way; the extra time of 10⁶ readings over 10², 0.44 s against 0.29 s (medians of 11
-rounds in turn). On a machine with free huge pages the two were within the noise.
+read when numpy is imported; numpy reference, "Global state"). On the 2-core VM of the
+README, after it had been up and in use for 17 hours, each huge page a fresh array
+faulted in cost milliseconds of the kernel's time zeroing it (a ``perf`` profile: 11 % of
+a report's samples in ``clear_page_erms`` under the huge-page fault, with no compaction
+stall counted in ``/proc/vmstat``; likely memory the virtual machine's host had taken
+back, which a huge page claims 2 MB at a time): a ``report`` on 10⁷ readings took
+6.5-9.1 s with 3.5-5.8 s of it in the kernel, and 3.7-4.0 s (0.85-1.0 s in the kernel)
+without the advice, at a peak of 0.78-0.86 GB either way; the extra time of 10⁶ readings
+over 10², 0.44 s against 0.29 s (medians of 11 rounds in turn). On the same machine
+earlier, the two were within the noise.
 """
 
 import gc
