@@ -53,6 +53,7 @@ __getattr__, __dir__ = _lazy.lazy_face(
     __name__,
     {
         "append_line": "files",
+        "cache_folder": "files",
         "atomic_write_bytes": "files",
         "atomic_write_text": "files",
         "folder_lock": "files",
@@ -119,6 +120,7 @@ __all__ = [
     "project_settings_path",
     "read_project_settings",
     "append_line",
+    "cache_folder",
     "atomic_write_bytes",
     "atomic_write_text",
     "build_series",

@@ -26,6 +26,7 @@ __all__ = [
     "atomic_write_bytes",
     "atomic_write_text",
     "append_line",
+    "cache_folder",
     "folder_lock",
     "printable",
     "sync_folder",
@@ -36,6 +37,14 @@ __all__ = [
 
 _FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
 _BINARY = getattr(os, "O_BINARY", 0)  # Windows: no newline translation
+
+
+def cache_folder(*parts: str) -> Path:
+    """The tool's cache folder, ``$XDG_CACHE_HOME/kitchen`` (``~/.cache/kitchen`` without
+    XDG_CACHE_HOME; XDG Base Directory Specification 0.8), or the folder `parts` inside it.
+    Nothing is made here."""
+    root = os.environ.get("XDG_CACHE_HOME") or str(Path.home() / ".cache")
+    return Path(root, "kitchen", *parts)
 
 
 def sync_folder(folder: Path) -> None:

@@ -12,7 +12,6 @@ saturation) as fractions.
 
 from __future__ import annotations
 
-import os
 import re
 from dataclasses import dataclass
 from functools import lru_cache
@@ -102,9 +101,10 @@ def pint_cache_folder(pint_folder: str | Path) -> Path:
     """
     import hashlib
 
-    root = os.environ.get("XDG_CACHE_HOME") or str(Path.home() / ".cache")
+    from .files import cache_folder
+
     key = hashlib.sha256(str(Path(pint_folder).resolve()).encode()).hexdigest()[:16]
-    return Path(root) / "kitchen" / "pint" / key
+    return cache_folder("pint", key)
 
 
 @lru_cache(maxsize=1)

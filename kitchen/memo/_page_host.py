@@ -32,6 +32,8 @@ from http.server import BaseHTTPRequestHandler, ThreadingHTTPServer
 from pathlib import Path
 from urllib.parse import urlsplit
 
+from kitchen.io import cache_folder as tool_cache
+
 __all__ = ["PAGE_ORIGIN", "PROFILE_SLOTS", "PageHost", "cache_folder", "claim_profile"]
 
 PAGE_ORIGIN = "http://kitchen-images.invalid"
@@ -191,9 +193,8 @@ class PageHost:
 def cache_folder(browser: str = "chromium") -> Path:
     """Where the profiles of `browser` (a name of its kind, ``chromium`` or
     ``chromium-headless-shell``) are kept: ``$XDG_CACHE_HOME/kitchen/<browser>``, or
-    ``~/.cache/kitchen/<browser>`` (XDG Base Directory Specification 0.8)."""
-    root = os.environ.get("XDG_CACHE_HOME") or str(Path.home() / ".cache")
-    return Path(root) / "kitchen" / browser
+    ``~/.cache/kitchen/<browser>`` (:func:`kitchen.io.cache_folder`)."""
+    return tool_cache(browser)
 
 
 class ProfileClaim:

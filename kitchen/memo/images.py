@@ -384,11 +384,9 @@ class _ImageServer:
         from . import _page_host
 
         self.path = path or _browser_path()  # the browser (None: kaleido's own choice)
-        # a headless shell chosen here, not named by the caller or BROWSER_PATH
-        self.shell_chosen = (
-            path is None
-            and not os.environ.get("BROWSER_PATH")
-            and browser_kind(self.path or "") == "chromium-headless-shell"
+        # a headless shell found by _browser_path, not named in BROWSER_PATH
+        self.shell_chosen = not os.environ.get("BROWSER_PATH") and (
+            browser_kind(self.path or "") == "chromium-headless-shell"
         )
         self.claim_profile = _page_host.claim_profile
         self.renderer_class = _renderer_class()
@@ -426,8 +424,8 @@ class _ImageServer:
 
         A headless shell this server chose (:func:`_browser_path`) that will not open (a
         package half installed, a library missing) gives way to the whole browser, which
-        draws the same images a little later; a browser named by the caller or by
-        ``BROWSER_PATH`` is not replaced.
+        draws the same images a little later; a browser named in ``BROWSER_PATH`` is not
+        replaced.
         """
         self.claim = self.claim_profile(browser_kind(self.path or "chromium"))
         try:

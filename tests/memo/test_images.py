@@ -281,6 +281,11 @@ def test_one_drawing_needs_no_reload_of_a_freshly_opened_page():
     assert _in_a_fresh_interpreter(script).strip() == "False"  # no page was reloaded
 
 
+def _a_bar_drawn(server) -> tuple[bytes, bytes]:
+    """The PNG and SVG of a small bar chart drawn by `server`."""
+    return server.request_both('{"data": [{"type": "bar", "y": [1, 2]}]}', 300, 200).result(120)
+
+
 @needs_chromium
 def test_pages_asked_for_at_once_are_opened_before_any_image_waits():
     server = images._ImageServer(pages=images.PAGES)
@@ -291,9 +296,7 @@ def test_pages_asked_for_at_once_are_opened_before_any_image_waits():
                 break
             time.sleep(0.1)
         assert len(server.pages) == images.PAGES and server.waiting == 0
-        png, svg = server.request_both('{"data": [{"type": "bar", "y": [1, 2]}]}', 300, 200).result(
-            120
-        )
+        png, svg = _a_bar_drawn(server)
         assert png[:8] == b"\x89PNG\r\n\x1a\n" and svg.startswith(b"<svg")
     finally:
         server.close()
@@ -321,9 +324,7 @@ def test_a_profile_chromium_will_not_open_gives_way_to_a_temporary_one(tmp_path,
     try:
         server.opened.result(120)
         assert server.renderer._profile is None
-        png, svg = server.request_both('{"data": [{"type": "bar", "y": [1, 2]}]}', 300, 200).result(
-            120
-        )
+        png, svg = _a_bar_drawn(server)
         assert png[:8] == b"\x89PNG\r\n\x1a\n" and svg.startswith(b"<svg")
     finally:
         server.close()
@@ -481,13 +482,11 @@ def test_a_headless_shell_that_will_not_open_gives_way_to_the_whole_browser(tmp_
     monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path / "cache"))
     monkeypatch.delenv("BROWSER_PATH", raising=False)
     monkeypatch.setattr(images, "_HEADLESS_SHELLS", (str(broken),))
-    server = images._ImageServer()
+    server = images._ImageServer(path=images._browser_path())  # as start_image_export does
     try:
         server.opened.result(120)
         assert images.browser_kind(server.path) == "chromium" and server.path != str(broken)
-        png, svg = server.request_both('{"data": [{"type": "bar", "y": [1, 2]}]}', 300, 200).result(
-            120
-        )
+        png, svg = _a_bar_drawn(server)
         assert png[:8] == b"\x89PNG\r\n\x1a\n" and svg.startswith(b"<svg")
     finally:
         server.close()
