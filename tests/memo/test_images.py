@@ -447,6 +447,7 @@ def test_the_headless_shell_is_chosen_before_the_whole_browser_and_browser_path_
 ):
     # Chromium's headless shell draws the same pages without the browser's hidden windows;
     # a browser named in BROWSER_PATH (choreographer's own variable) is taken as it is
+    # (common practice, no source)
     import shutil
 
     shell = tmp_path / "chromium-headless-shell"
