@@ -318,9 +318,13 @@ def add_caption(figure: go.Figure, lines, width: int = 160) -> go.Figure:
     return go.Figure(captioned_dict(figure, lines, width))
 
 
-def captioned_dict(figure: go.Figure, lines, width: int = 160) -> dict:
+def captioned_dict(figure: go.Figure, lines, width: int = 160, plain: dict | None = None) -> dict:
     """`figure` as a plain dict (``figure.to_dict()``) with `lines` of small text (cautions,
     provenance) under the plot, for the static images; `figure` is left as it was.
+
+    `plain` is the figure's dict when the caller has it already: it is left as it was too,
+    the caption going to a copy of the parts it changes (the layout, its margin, legend and
+    annotations), which shares the traces with it.
 
     The text goes under the plot and its axis titles, where the README says; the figure
     grows by the height of the text. A legend laid out below the plot (the compaction
@@ -332,8 +336,8 @@ def captioned_dict(figure: go.Figure, lines, width: int = 160) -> dict:
     (the clay pack's 32 captions: 0.15 s of a core as figures, 0.03 s as dicts).
     """
     layout = figure.layout
-    out = figure.to_dict()
-    changed = out.setdefault("layout", {})
+    out = figure.to_dict() if plain is None else dict(plain)
+    changed = out["layout"] = dict(out.get("layout", {}))
     wrapped = []
     for line in lines:
         wrapped.extend(textwrap.wrap(str(line), width) or [""])
@@ -351,7 +355,7 @@ def captioned_dict(figure: go.Figure, lines, width: int = 160) -> dict:
         font=dict(size=10, color=MUTED),
     )
     bottom = layout.margin.b if layout.margin.b is not None else 70
-    margin = changed.setdefault("margin", {})
+    margin = changed["margin"] = dict(changed.get("margin", {}))
     if legend_below:
         room, needed = legend_room(figure)
         top = layout.margin.t if layout.margin.t is not None else 80
@@ -363,9 +367,10 @@ def captioned_dict(figure: go.Figure, lines, width: int = 160) -> dict:
             **dict(orientation="v", x=1.02, xanchor="left", y=1.0, yanchor="top", yref="paper"),
         }
         changed["width"] = (layout.width or WIDTH) + room
-    changed.setdefault("annotations", []).append(
-        dict(y=0.0, yanchor="top", yshift=-(bottom - 8), **text)
-    )
+    changed["annotations"] = [
+        *changed.get("annotations", []),
+        dict(y=0.0, yanchor="top", yshift=-(bottom - 8), **text),
+    ]
     margin["b"] = bottom + extra
     changed["height"] = height + extra
     return out

@@ -34,7 +34,7 @@ from kitchen.cautions import CAUTIONS, FIELD_CAUTIONS
 from kitchen.field import SAME_LOCATION, FieldCheck, check_field_tests, read_field_tests
 from kitchen.io import spreadsheet_safe
 
-from ._export import PackWriter, figure_html, write_chart_files
+from ._export import PackWriter, PlainFigures, write_chart_files
 from .documents import (
     Bullets,
     Heading,
@@ -313,12 +313,15 @@ def _write_report(
         f"kitchen {provenance.tool_version} · series {series_name} · field tests "
         f"{tests.label} · {provenance.created} · {criterion_text}"
     ]
-    pngs = write_chart_files(write, charts, ALL_CAUTIONS, provenance, script, caption, images)
+    plain = PlainFigures()  # each chart's dict and fragment, made once for both pages
+    pngs = write_chart_files(
+        write, charts, ALL_CAUTIONS, provenance, script, caption, images, plain=plain
+    )
     methods = check.methods + tuple(m for m in ANALYSIS_METHODS if "zone" in m[0])
     outside = table[~check.tests["inside"].to_numpy(dtype=bool)]
     title = f"Field check: {tests.label} against {series_name}"
     fragments = "".join(
-        f'<h3>{escape(t)}</h3><div class="chart">{figure_html(f, n)}</div>' for n, t, f in charts
+        f'<h3>{escape(t)}</h3><div class="chart">{plain.html(f, n)}</div>' for n, t, f in charts
     )
     notice, script_check = script.notice("")
     body = "\n".join(

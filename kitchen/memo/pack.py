@@ -58,7 +58,7 @@ from kitchen.revisions import window_log_sha256 as window_log_digest
 from kitchen.settings import Settings, reference_label
 from kitchen.workspace import Workspace
 
-from ._export import PackWriter, figure_html, request_images, write_chart_files
+from ._export import PackWriter, PlainFigures, request_images, write_chart_files
 from .documents import memo_document
 from .figures import memo_charts
 from .images import FIRST_IMAGE_TIMEOUT as FIRST_IMAGE_TIMEOUT
@@ -309,10 +309,11 @@ def export_memo_pack(
     # built, and the rest while the tables and pages are written
     chart_images: dict = {}
     page_images = None
+    plain = PlainFigures()  # each figure's dict and fragment, made once for pages and images
 
     def ask(name: str, figure) -> None:
         if images:
-            chart_images.update(request_images([(name, figure)], caption))
+            chart_images.update(request_images([(name, figure)], caption, plain))
 
     charts, skipped = memo_charts(workspace, analysis, ku.unit, du.unit, on_chart=ask)
     tables = {
@@ -337,7 +338,7 @@ def export_memo_pack(
     steps += [f"specimens/{page.name}.{ext}" for page in pages for ext in formats[1:]]
     write = PackWriter(staged, steps, progress)
     if images:
-        page_images = request_images([(page.name, page.figure) for page in pages], caption)
+        page_images = request_images([(page.name, page.figure) for page in pages], caption, plain)
     with staged:
         write(
             "results.csv",
@@ -349,10 +350,10 @@ def export_memo_pack(
         if script.path is not None:  # before any page that loads it
             write(script.path, "script", lambda: script.content)
         pngs = write_chart_files(
-            write, charts, CAUTIONS, provenance, script, caption, images, chart_images
+            write, charts, CAUTIONS, provenance, script, caption, images, chart_images, plain
         )
-        write_report_pages(write, pages, CAUTIONS, caption, script, images)
-        fragments = [(name, title, figure_html(figure, name)) for name, title, figure in charts]
+        write_report_pages(write, pages, CAUTIONS, caption, script, images, plain)
+        fragments = [(name, title, plain.html(figure, name)) for name, title, figure in charts]
         write(
             "report.html",
             "report",

@@ -466,13 +466,14 @@ def report_pages(workspace, results: pd.DataFrame, ku, reference: str) -> list[R
     return pages
 
 
-def write_report_pages(write, pages, cautions, caption, script, images: bool) -> None:
+def write_report_pages(write, pages, cautions, caption, script, images: bool, plain=None) -> None:
     """Write each test's page (``specimens/NAME.html``), linking, with `images`, the PNG and
     SVG of its record over time (:func:`write_report_images` writes them).
 
     `write` is called as ``write(relative, kind, data)``; `script` is the pack's
     :class:`kitchen.memo.markup.ChartScript`; the last line of `caption` is the page's
-    provenance line.
+    provenance line; the figures' dicts and fragments come from `plain`
+    (:class:`kitchen.memo._export.PlainFigures`) when it is given.
     """
     from ._export import figure_html
 
@@ -484,7 +485,7 @@ def write_report_pages(write, pages, cautions, caption, script, images: bool) ->
             lambda p=page, i=shown: specimen_page(
                 list(p.items),
                 p.title,
-                figure_html(p.figure, p.name),
+                figure_html(p.figure, p.name, plain),
                 i,
                 p.last_values,
                 p.b_checks,

@@ -180,3 +180,19 @@ def test_caption_as_a_dict_is_the_captioned_figures_and_leaves_the_figure_as_it_
         assert isinstance(captioned, dict)
         assert go.Figure(captioned).to_dict() == captioned  # plotly takes it as it is
         assert captioned["layout"]["annotations"][-1]["text"].count("<br>") >= len(CAUTIONS) - 1
+
+
+def test_caption_on_a_dict_given_is_the_same_and_leaves_that_dict_as_it_was(clay):
+    # the export shares one dict of a figure between its pages and its images
+    import copy
+
+    for figure in (
+        compaction_chart.compaction_conductivity_figure(clay[1]),
+        conductivity_trend_chart.conductivity_trend_figure(clay[1], "void_ratio"),
+    ):
+        plain = figure.to_dict()
+        kept = copy.deepcopy(plain)
+        assert chart_style.captioned_dict(figure, CAUTIONS, plain=plain) == (
+            chart_style.captioned_dict(figure, CAUTIONS)
+        )
+        assert plain == kept

@@ -65,6 +65,38 @@ def test_a_document_reads_back_with_its_headings_tables_and_images():
     assert read.core_properties.author.startswith("kitchen")
 
 
+def test_a_document_stores_its_images_and_holds_what_python_docx_saves():
+    # a zip member may be stored or deflated (ECMA-376 Part 2, Open Packaging Conventions;
+    # the zip format's "stored" method 0 and "deflated" method 8); the images are stored,
+    # every other part deflated, and the members are those Document.save writes, byte for
+    # byte (python-docx as the reference)
+    import zipfile
+
+    from kitchen.memo.documents import package_bytes
+
+    def built():
+        document = docx.Document()
+        document.add_paragraph("Two charts.")
+        for width in (3, 5):
+            document.add_picture(BytesIO(tiny_png(width)))
+        return document
+
+    ours = zipfile.ZipFile(BytesIO(package_bytes(built())))
+    saved = BytesIO()
+    built().save(saved)
+    theirs = zipfile.ZipFile(saved)
+    assert ours.namelist() == theirs.namelist()
+    for name in ours.namelist():
+        if name != "docProps/core.xml":  # holds the time it was made
+            assert ours.read(name) == theirs.read(name), name
+    methods = {info.filename: info.compress_type for info in ours.infolist()}
+    images = [name for name in methods if name.startswith("word/media/")]
+    assert len(images) == 2 and all(methods[name] == zipfile.ZIP_STORED for name in images)
+    others = [method for name, method in methods.items() if name not in images]
+    assert others and all(method == zipfile.ZIP_DEFLATED for method in others)
+    assert len(docx.Document(BytesIO(package_bytes(built()))).inline_shapes) == 2
+
+
 def test_an_unknown_block_is_refused():
     with pytest.raises(TypeError, match="not a block of a document: str"):
         document_bytes("A report", ["loose text"])

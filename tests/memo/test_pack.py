@@ -366,6 +366,38 @@ def test_every_image_is_asked_for_before_the_first_file_is_written(tmp_path, mon
     assert len(drawn) == len([p for p in pack.files if p.suffix == ".svg"]) > 0
 
 
+def test_each_figure_is_copied_to_a_dict_once_for_its_pages_and_images(tmp_path, monkeypatch):
+    # a chart's page, the report page and its images share one dict and one fragment, the
+    # fragment the one plotly's own figure.to_html makes (plotly as the reference)
+    import plotly.basedatatypes
+
+    from kitchen.memo import memo_charts
+    from kitchen.memo._export import PlainFigures
+
+    copied = []
+    to_dict = plotly.basedatatypes.BaseFigure.to_dict
+
+    def counted(self):
+        copied.append(id(self))
+        return to_dict(self)
+
+    monkeypatch.setattr(plotly.basedatatypes.BaseFigure, "to_dict", counted)
+    pack = export_memo_pack(Workspace(SAMPLES / "drainage_sand"), tmp_path / "pack")
+    drawn = [p for p in pack.files if p.suffix == ".png"]
+    assert len(copied) == len(set(copied)) == len(drawn) > 0
+    monkeypatch.undo()
+    charts, _ = memo_charts(Workspace(SAMPLES / "drainage_sand"), pack.analysis)
+    figure = charts[0][2]
+    plain = PlainFigures()
+    assert plain.dict_of(figure) is plain.dict_of(figure)
+    assert plain.html(figure, "one") == figure.to_html(
+        full_html=False,
+        include_plotlyjs=False,
+        div_id="chart-one",
+        config={"displaylogo": False, "responsive": False},
+    )
+
+
 def test_command_line_without_images(tmp_path, monkeypatch):
     monkeypatch.setenv("BROWSER_PATH", str(tmp_path / "no-such-chromium"))
     done = run_cli("report", SAMPLES / "drainage_sand", "--out", tmp_path, "--no-images")
