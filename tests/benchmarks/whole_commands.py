@@ -17,7 +17,10 @@ machine is shared, so no absolute time is judged):
   PNG and SVG of each chart and test page with the pack's caption, drawn in a warm page as
   the export asks for them, measured in this process); the browser keeps its profile in
   the cache folder as an engineer's commands do, and the first run on a machine, with an
-  empty cache folder, is printed beside it;
+  empty cache folder, is printed beside it; so is the work each command gives the machine
+  (its busy core-seconds while the command runs, Chromium's processes with the rest:
+  :func:`machine_busy`) and the time that work takes at the least on this machine's cores
+  were each kept busy throughout, the floor no ordering of the work can go below;
 - memory: the peak while a record of 10^6 readings is opened and reduced, stage by stage
   (loading, preparing, the trend of every trial window, the analysis), at most 3 times its
   raw float arrays (time, head, temperature), measured with tracemalloc;
@@ -87,6 +90,22 @@ def run_command(arguments: list[str], env: dict | None = None) -> tuple[float, i
     if measured:
         return elapsed, int(error.strip().splitlines()[-1]) * 1024
     return elapsed, usage.ru_maxrss * 1024
+
+
+def machine_busy() -> float | None:
+    """Core-seconds the machine has spent busy since it started (``/proc/stat``: user, nice,
+    system, irq and softirq time, in USER_HZ ticks, leaving out idle, waiting on I/O and
+    the time a virtual machine's host ran something else; Linux's proc(5)), or None
+    elsewhere. A command's difference counts every process it starts, Chromium's among
+    them, which its own resource usage misses (the browser's helpers are not its
+    children to wait for), and whatever else the machine did meanwhile."""
+    try:
+        with open("/proc/stat") as stat:
+            ticks = [int(value) for value in stat.readline().split()[1:]]
+    except (OSError, ValueError):
+        return None
+    user, nice, system, _, _, irq, softirq = ticks[:7]
+    return (user + nice + system + irq + softirq) / os.sysconf("SC_CLK_TCK")
 
 
 def report(series: Path, out: Path, images: bool = False) -> list[str]:
@@ -220,7 +239,18 @@ def images_case(work: Path, rounds: int):
         "without images": report(CLAY, work / "clay-plain"),
     }
     run_command(commands["with images"])
-    times = in_rounds(commands, rounds)
+    for command in commands.values():  # the warm-up of in_rounds
+        run_command(command)
+    times: dict[str, list[float]] = {name: [] for name in commands}
+    busy: dict[str, list[float]] = {f"busy {name}": [] for name in commands}
+    for _ in range(rounds):
+        for name, command in commands.items():
+            before = machine_busy()
+            times[name].append(run_command(command)[0])
+            after = machine_busy()
+            if before is not None and after is not None:
+                busy[f"busy {name}"].append(after - before)
+    times.update({name: spent for name, spent in busy.items() if spent})
     empty = {**os.environ, "XDG_CACHE_HOME": str(work / "empty-cache")}
     times["first run"] = [run_command(commands["with images"], env=empty)[0]]
     shutil.rmtree(work / "empty-cache", ignore_errors=True)
@@ -343,6 +373,18 @@ def targets(work: Path, rounds: int, large: bool, target) -> None:
     plain = statistics.median(shown["without images"])
     with_images = statistics.median(shown["with images"])
     floor_time = plain + floor["images"]
+    cores = os.cpu_count() or 1
+    if "busy with images" in shown:
+        work_with = statistics.median(shown["busy with images"])
+        work_without = statistics.median(shown["busy without images"])
+        cpu_floor = (
+            f"; the work: {work_with:.2f} core-s with images, {work_without:.2f} without "
+            f"(the machine's busy time, medians), so on {cores} cores the pack with images "
+            f"takes at least {work_with / cores:.2f} s, {work_with / cores / plain:.2f}x "
+            "without, were every core kept busy throughout"
+        )
+    else:
+        cpu_floor = ""
     target(
         "clay memo pack: with images / without",
         statistics.median(pairs),
@@ -353,7 +395,7 @@ def targets(work: Path, rounds: int, large: bool, target) -> None:
         f"{floor['images']:.2f} s ({1e3 * floor['images'] / floor['count']:.0f} ms an "
         f"image); with images / floor {with_images / floor_time:.2f}x; Chromium's start "
         f"and first image {floor['first']:.2f} s; the first run on a machine (no browser "
-        f"profile kept yet) {shown['first run'][0]:.2f} s",
+        f"profile kept yet) {shown['first run'][0]:.2f} s{cpu_floor}",
     )
 
     stages = memory_stages(record_series(work / "memory", 1_000_000))
