@@ -89,6 +89,18 @@ IN_FLIGHT = 2
 PNG encoded or its images sent), the page lays out the next. Two rather than one drew the
 clay sample's 32 figures in 2.05 s rather than 2.5 s in a warm page; three, no sooner."""
 
+COLLECT_EVERY = 128
+"""Drawings a page makes between two full garbage collections of its script heap
+(:meth:`_ImageServer._collect`). Each drawing leaves canvases and a decoded image behind
+for the collector, and V8 counts their pixels too little to collect them soon: drawing
+the 2 004 images of a 1 000-specimen pack, Chromium's processes reached 5.4 GB together
+(the sum of their resident memory), 2.6 GB with a collection every 128 drawings and
+1.5 GB with one every 32. A collection costs more than its own 0.1 s: the page runs its
+next drawings slower for a while (every 32 drawings, the 100-specimen pack took 19.3 s
+against 18.1 s without, 36.7 against 34.7 core-seconds, medians of 3 in turn). At 128
+the clay pack's 16 drawings a page and the 100-specimen pack's 102 have none, and the
+1 000-specimen pack took 229 s against 240 s without (one run each)."""
+
 FIRST_IMAGE_TIMEOUT = 180.0
 """Seconds to wait for Chromium to render the first image before giving up. [s]"""
 
@@ -403,6 +415,7 @@ class _ImageServer:
         self.settled = False  # kaleido may draw in the first page
         self.answered = False
         self.waiting = 0  # images asked for and not yet drawing (counted on the loop)
+        self.drawn: dict[int, int] = {}  # drawings made in each page, by id(page)
         self.slots: asyncio.Queue | None = None
         self.kaleido_turn: asyncio.Lock | None = None  # one kaleido drawing at a time
         self.opened: Future = asyncio.run_coroutine_threadsafe(
@@ -536,6 +549,16 @@ class _ImageServer:
             return await _draw(page, self.host.received, figure_json, width, height)
         finally:
             self.slots.put_nowait(page)
+            self._collect(page)
+
+    def _collect(self, page) -> None:
+        """Count a drawing of `page`; after :data:`COLLECT_EVERY` of them, have its script
+        heap collected in full (the devtools protocol's ``HeapProfiler.collectGarbage``),
+        without waiting for it: the page runs it between its drawings' steps."""
+        drawn = self.drawn[id(page)] = self.drawn.get(id(page), 0) + 1
+        if drawn % COLLECT_EVERY == 0:
+            task = self.loop.create_task(page.tab.send_command("HeapProfiler.collectGarbage"))
+            task.add_done_callback(lambda done: done.cancelled() or done.exception())
 
     def request(self, figure_dict: dict, options: dict) -> Future:
         return asyncio.run_coroutine_threadsafe(self._image(figure_dict, options), self.loop)

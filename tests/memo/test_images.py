@@ -501,3 +501,35 @@ def test_a_headless_shell_that_will_not_open_gives_way_to_the_whole_browser(tmp_
         assert named.path == str(broken)
     finally:
         named.close()
+
+
+@needs_chromium
+def test_a_page_has_its_script_heap_collected_every_so_many_drawings(monkeypatch):
+    # each drawing leaves canvases and a decoded image for V8's collector, which ran too
+    # seldom for a pack of many tests (measured: images.COLLECT_EVERY); the collection is
+    # the devtools protocol's HeapProfiler.collectGarbage, and drawing goes on after it
+    monkeypatch.setattr(images, "COLLECT_EVERY", 2)
+    server = images._ImageServer()
+    try:
+        server.opened.result(120)
+        tab = server.pages[0].tab
+        sent = []
+        send = tab.send_command
+
+        async def recorded(method, *arguments, **options):
+            sent.append(method)
+            return await send(method, *arguments, **options)
+
+        tab.send_command = recorded
+        for _ in range(5):
+            _a_bar_drawn(server)
+        for _ in range(100):  # the collections are sent without waiting for them
+            if sent.count("HeapProfiler.collectGarbage") >= 2:
+                break
+            time.sleep(0.1)
+        assert sent.count("HeapProfiler.collectGarbage") == 2  # after the 2nd and 4th
+        assert sent.count("Runtime.evaluate") == 5
+        png, svg = _a_bar_drawn(server)
+        assert png[:8] == b"\x89PNG\r\n\x1a\n" and svg.startswith(b"<svg")
+    finally:
+        server.close()
