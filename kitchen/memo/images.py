@@ -498,8 +498,7 @@ class _ImageServer:
     def _open_another(self) -> None:
         """Begin opening another page; one that fails is done without."""
         self.opening += 1
-        task = self.loop.create_task(self._open_page())
-        task.add_done_callback(lambda done: done.cancelled() or done.exception())
+        self._in_background(self._open_page())
 
     async def _slot(self, images: int):
         """A page with a drawing free, once the first is open; `images` wait meanwhile."""
@@ -557,8 +556,13 @@ class _ImageServer:
         without waiting for it: the page runs it between its drawings' steps."""
         drawn = self.drawn[id(page)] = self.drawn.get(id(page), 0) + 1
         if drawn % COLLECT_EVERY == 0:
-            task = self.loop.create_task(page.tab.send_command("HeapProfiler.collectGarbage"))
-            task.add_done_callback(lambda done: done.cancelled() or done.exception())
+            self._in_background(page.tab.send_command("HeapProfiler.collectGarbage"))
+
+    def _in_background(self, coroutine) -> None:
+        """Run `coroutine` on the loop without waiting for it; a failure is left unsaid
+        (the drawings go on without what it would have done)."""
+        task = self.loop.create_task(coroutine)
+        task.add_done_callback(lambda done: done.cancelled() or done.exception())
 
     def request(self, figure_dict: dict, options: dict) -> Future:
         return asyncio.run_coroutine_threadsafe(self._image(figure_dict, options), self.loop)

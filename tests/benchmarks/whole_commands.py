@@ -117,14 +117,22 @@ def peer(series: Path, out: Path) -> list[str]:
     return [PYTHON, str(HERE / "peer_report.py"), str(series), str(out)]
 
 
-def in_rounds(commands: dict[str, list[str]], rounds: int) -> dict[str, list[float]]:
-    """Wall times of each command, run in turn round after round (one warm-up first)."""
+def in_rounds(
+    commands: dict[str, list[str]], rounds: int, work: dict[str, list[float]] | None = None
+) -> dict[str, list[float]]:
+    """Wall times of each command, run in turn round after round (one warm-up first); with
+    `work`, each run's busy core-seconds (:func:`machine_busy`) are put there by name, where
+    the machine tells them."""
     for command in commands.values():
         run_command(command)
     times: dict[str, list[float]] = {name: [] for name in commands}
     for _ in range(rounds):
         for name, command in commands.items():
+            before = machine_busy() if work is not None else None
             times[name].append(run_command(command)[0])
+            after = machine_busy() if before is not None else None
+            if after is not None:
+                work.setdefault(name, []).append(after - before)
     return times
 
 
@@ -229,6 +237,9 @@ def images_case(work: Path, rounds: int):
     """The clay pack with and without images, in turn (:func:`in_rounds`), and once with
     images on a machine where it never ran (``"first run"``: an empty cache folder).
 
+    Returns the wall times by name, and each round's busy core-seconds by command
+    (:func:`in_rounds`; empty where the machine does not tell them).
+
     The rounds run with the browser profiles kept in the user's cache folder
     (``kitchen.memo._page_host``), as an engineer's commands do: Chromium keeps plotly.js
     compiled there from a profile's second load on, so the command with images runs once
@@ -239,22 +250,12 @@ def images_case(work: Path, rounds: int):
         "without images": report(CLAY, work / "clay-plain"),
     }
     run_command(commands["with images"])
-    for command in commands.values():  # the warm-up of in_rounds
-        run_command(command)
-    times: dict[str, list[float]] = {name: [] for name in commands}
-    busy: dict[str, list[float]] = {f"busy {name}": [] for name in commands}
-    for _ in range(rounds):
-        for name, command in commands.items():
-            before = machine_busy()
-            times[name].append(run_command(command)[0])
-            after = machine_busy()
-            if before is not None and after is not None:
-                busy[f"busy {name}"].append(after - before)
-    times.update({name: spent for name, spent in busy.items() if spent})
+    spent: dict[str, list[float]] = {}
+    times = in_rounds(commands, rounds, spent)
     empty = {**os.environ, "XDG_CACHE_HOME": str(work / "empty-cache")}
     times["first run"] = [run_command(commands["with images"], env=empty)[0]]
     shutil.rmtree(work / "empty-cache", ignore_errors=True)
-    return times
+    return times, spent
 
 
 def memory_stages(folder: Path) -> dict[str, float]:
@@ -367,16 +368,16 @@ def targets(work: Path, rounds: int, large: bool, target) -> None:
         f"10^6: {median['peer large']:.2f} s); medians of {marginal_rounds} rounds",
     )
 
-    shown = images_case(work, rounds)
+    shown, spent = images_case(work, rounds)
     pairs = [a / b for a, b in zip(shown["with images"], shown["without images"], strict=True)]
     floor = image_floor(work, rounds)
     plain = statistics.median(shown["without images"])
     with_images = statistics.median(shown["with images"])
     floor_time = plain + floor["images"]
     cores = os.cpu_count() or 1
-    if "busy with images" in shown:
-        work_with = statistics.median(shown["busy with images"])
-        work_without = statistics.median(shown["busy without images"])
+    if spent:
+        work_with = statistics.median(spent["with images"])
+        work_without = statistics.median(spent["without images"])
         cpu_floor = (
             f"; the work: {work_with:.2f} core-s with images, {work_without:.2f} without "
             f"(the machine's busy time, medians), so on {cores} cores the pack with images "
