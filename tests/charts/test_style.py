@@ -183,7 +183,8 @@ def test_caption_as_a_dict_is_the_captioned_figures_and_leaves_the_figure_as_it_
 
 
 def test_caption_on_a_dict_given_is_the_same_and_leaves_that_dict_as_it_was(clay):
-    # the export shares one dict of a figure between its pages and its images
+    # the export shares one dict of a figure between its pages and its images; the caption
+    # made from it must equal the one made from the figure (common practice, no source)
     import copy
 
     for figure in (
